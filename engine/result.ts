@@ -1,0 +1,219 @@
+/**
+ * The result of running a plan: plain JSON-ready data read by every view
+ * (CLI text, JSON, Markdown, SVG charts, editor diagnostics, results panel).
+ * Bump RESULT_VERSION on any breaking change; `result.schema.json` follows it.
+ */
+import type { Range, Expectation, Method, LossKind } from '../parser/plan';
+
+export const RESULT_VERSION = 1 as const;
+
+/**
+ * Why an iterative solver stopped, with the numbers behind it, e.g.
+ * `{ code: 'small_reduction', message: 'relative reduction 3.1e-13 <= ftol 1e-12' }`.
+ */
+export type StopCode =
+  | 'exact'            // direct solve (linear least squares): no iterations
+  | 'small_reduction'  // relative reduction of the cost below tolerance
+  | 'small_step'       // relative step below tolerance
+  | 'small_gradient'   // scaled gradient below tolerance
+  | 'max_iterations'
+  | 'max_evaluations'
+  | 'non_finite'       // residuals or Jacobian became NaN/Infinity
+  | 'cancelled'
+  | 'failed';          // could not start (e.g. n < p, no rows)
+
+export interface StopReason {
+  code: StopCode;
+  message: string;
+  /** True when the stop means a (local) optimum was found. */
+  converged: boolean;
+}
+
+export type WarningCode =
+  | 'at_bound'
+  | 'high_correlation'
+  | 'ill_conditioned'
+  | 'few_dof'
+  | 'no_convergence'
+  | 'residual_pattern'
+  | 'non_normal_residuals'
+  | 'r2_nonlinear'
+  | 'rows_dropped'
+  | 'rank_deficient'
+  | 'guessed_start';
+
+export interface FitWarning {
+  code: WarningCode;
+  message: string;
+  /** Parameter(s) the warning is about, so editors can place it on a declaration. */
+  parameters?: string[];
+}
+
+export interface ParameterResult {
+  name: string;
+  estimate: number;
+  /** Standard error; NaN → `null` in JSON when it cannot be computed. */
+  stderr: number | null;
+  /** Confidence interval at `options.level` (Student t with `dof` degrees of freedom). */
+  lower: number | null;
+  upper: number | null;
+  /** Relative standard error |se/estimate|, null for fixed parameters or estimate 0. */
+  relativeStderr: number | null;
+  fixed: boolean;
+  atBound: 'lower' | 'upper' | null;
+  initial: number;
+  /** How the starting value was chosen. */
+  start: 'given' | 'guessed';
+  unit?: string;
+}
+
+export interface GoodnessOfFit {
+  n: number;
+  /** Number of free (non-fixed) parameters. */
+  p: number;
+  dof: number;
+  /** Sum of squared (weighted) residuals. */
+  ssr: number;
+  /** Residual standard deviation s = sqrt(SSR / dof). */
+  rmse: number;
+  r2: number;
+  adjR2: number;
+  /** χ² and reduced χ² when σ is absolute (`sigma` given), else null. */
+  chi2: number | null;
+  chi2Reduced: number | null;
+  logLikelihood: number;
+  aic: number;
+  aicc: number;
+  bic: number;
+  /** 2-norm condition number of the scaled Jacobian at the solution. */
+  condition: number;
+}
+
+export interface ResidualDiagnostics {
+  /** Durbin–Watson statistic over residuals in predictor order. */
+  durbinWatson: number | null;
+  /** Wald–Wolfowitz runs test on residual signs: observed runs, expected, two-sided p. */
+  runs: { observed: number; expected: number; pValue: number } | null;
+  /** Shapiro–Wilk W and p (Royston 1995, AS R94), for 3 ≤ n ≤ 5000. */
+  shapiroWilk: { w: number; pValue: number } | null;
+}
+
+/** Per-point arrays, all of length n, in data row order after filtering. */
+export interface PointTable {
+  /** 1-based data row number in the CSV (header is row 1, first data row is 2). */
+  row: number[];
+  /** The predictor value, when the fit has a single predictor. */
+  x: number[] | null;
+  y: number[];
+  fitted: number[];
+  residual: number[];
+  /** Weighted residual / s, with s the residual standard deviation. */
+  standardized: number[];
+  /** Internally studentized residual r / (s·sqrt(1 − h)). */
+  studentized: number[];
+  leverage: number[];
+  cooksDistance: number[];
+  weight: number[] | null;
+}
+
+/** Bands over the predictor range (delta method), for single-predictor fits. */
+export interface Bands {
+  x: number[];
+  fitted: number[];
+  confidenceLower: number[];
+  confidenceUpper: number[];
+  predictionLower: number[];
+  predictionUpper: number[];
+}
+
+export interface Prediction {
+  x: number;
+  fitted: number;
+  confidence: [number, number];
+  prediction: [number, number];
+}
+
+export interface InversePrediction {
+  response: number;
+  /** Predictor value solving model(x) = response; null when none in the data range. */
+  x: number | null;
+  /** Interval for x (inversion of the prediction band); null ends when unbounded. */
+  interval: [number | null, number | null];
+  message?: string;
+}
+
+export interface FitResult {
+  name: string;
+  /** Group value when the fit ran per group. */
+  group?: string;
+  method: Exclude<Method, 'auto'>;
+  loss: LossKind;
+  level: number;
+  stop: StopReason;
+  iterations: number;
+  evaluations: number;
+  parameters: ParameterResult[];
+  /** Covariance of the free parameters, in `parameters` order (fixed ones are zero rows). */
+  covariance: number[][];
+  correlation: number[][];
+  goodness: GoodnessOfFit;
+  residuals: ResidualDiagnostics;
+  points: PointTable;
+  bands: Bands | null;
+  predictor: string | null;
+  response: string;
+  sigmaAbsolute: boolean;
+  rowsDropped: number;
+  warnings: FitWarning[];
+  /** Milliseconds spent fitting (not deterministic; views may omit it). */
+  elapsedMs: number;
+}
+
+export type QueryResult =
+  | { kind: 'predict'; fit: string; variable: string; predictions: Prediction[] }
+  | { kind: 'invert'; fit: string; response: string; inversions: InversePrediction[] }
+  | {
+      kind: 'compare';
+      fits: string[];
+      rows: { fit: string; n: number; p: number; ssr: number; aic: number; aicc: number; bic: number; deltaAicc: number; akaikeWeight: number }[];
+      /** Extra-sum-of-squares F test when two fits are nested by parameter count. */
+      fTest?: { f: number; df1: number; df2: number; pValue: number; simpler: string; richer: string };
+    };
+
+export interface ExpectationResult {
+  expectation: Expectation;
+  actual: number | null;
+  passed: boolean;
+  message: string;
+}
+
+/** A data or run-time problem with a location (spec range or data file cell). */
+export interface RunError {
+  code: string;
+  message: string;
+  /** Where in the spec (e.g. the data statement). */
+  range?: Range;
+  /** Where in a data file. */
+  file?: string;
+  row?: number;
+  column?: string;
+}
+
+export interface Provenance {
+  tool: string;
+  toolVersion: string;
+  specPath?: string;
+  /** SHA-256 of the spec text. */
+  specSha256: string;
+  data: { name: string; path: string; sha256: string; rows: number }[];
+  startedAt: string;
+}
+
+export interface RunResult {
+  version: typeof RESULT_VERSION;
+  provenance: Provenance;
+  fits: FitResult[];
+  queries: QueryResult[];
+  expectations: ExpectationResult[];
+  errors: RunError[];
+}

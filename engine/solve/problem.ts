@@ -1,0 +1,26 @@
+/**
+ * A least-squares problem as the solvers see it: minimise ½‖r(θ)‖² over the
+ * free parameters θ ∈ ℝᵖ, given n residuals. Residuals are already weighted
+ * (rᵢ = √wᵢ·(yᵢ − f(xᵢ; θ))) so solvers know nothing of data, weights or names.
+ */
+export interface LeastSquaresProblem {
+  /** Number of residuals. */
+  n: number;
+  /** Number of free parameters. */
+  p: number;
+  /** Write r(θ) into `out` (length n). Non-finite entries are allowed and reported by the solver. */
+  residuals(theta: Float64Array, out: Float64Array): void;
+  /**
+   * Write the Jacobian ∂rᵢ/∂θⱼ into `out`, column-major (out[j*n + i]), length n·p.
+   * Exact (compiled) derivatives; finite differences are only a test oracle.
+   */
+  jacobian(theta: Float64Array, out: Float64Array): void;
+  /** Optional box bounds on θ (length p; ±Infinity when absent). */
+  lower?: Float64Array;
+  upper?: Float64Array;
+}
+
+/** Cooperative cancellation, checked once per iteration. */
+export interface CancelToken {
+  readonly cancelled: boolean;
+}

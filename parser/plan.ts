@@ -1,0 +1,195 @@
+/**
+ * The fitting plan: what a checked `.lsq` spec means, as plain JSON-ready data.
+ *
+ * The plan is the contract between the parser (which produces it) and the
+ * engine (which executes it). It holds no functions, classes or cycles, so it
+ * can be written with `JSON.stringify`, validated by `plan.schema.json` and
+ * produced or read by other languages. Bump PLAN_VERSION on any breaking change.
+ *
+ * Shape decisions made for later features:
+ * - a fit has `blocks` (one per dataset); a global fit over several datasets
+ *   adds blocks and marks parameters `scope: "perBlock"`;
+ * - a fit may carry `groupBy` (one fit per value of a column);
+ * - constants, parameters and columns may carry a `unit` string for a later
+ *   dimensional-consistency check.
+ */
+
+export const PLAN_VERSION = 1 as const;
+
+/** 1-based line and column, as shown to users (`file:line:col`). */
+export interface Position {
+  line: number;
+  column: number;
+  /** 0-based character offset into the spec text. */
+  offset: number;
+}
+
+/** Half-open source range `[start, end)` in the spec text. */
+export interface Range {
+  start: Position;
+  end: Position;
+}
+
+export type BinaryOp = '+' | '-' | '*' | '/' | '^';
+export type CompareOp = '<' | '<=' | '>' | '>=' | '==' | '!=';
+export type LogicOp = 'and' | 'or';
+
+/** Whitelisted functions; the engine knows exactly these. */
+export const FUNCTIONS = {
+  exp: 1, ln: 1, log10: 1, sqrt: 1, abs: 1,
+  sin: 1, cos: 1, tan: 1, asin: 1, acos: 1, atan: 1, atan2: 2,
+  sinh: 1, cosh: 1, tanh: 1, erf: 1, erfc: 1,
+  min: 2, max: 2, pow: 2, hypot: 2,
+  /** when(condition, valueIfTrue, valueIfFalse) */
+  when: 3,
+} as const;
+export type FunctionName = keyof typeof FUNCTIONS;
+export function isFunctionName(name: string): name is FunctionName {
+  return Object.prototype.hasOwnProperty.call(FUNCTIONS, name);
+}
+
+/**
+ * Expression tree. Names are already resolved: a `column` reads a data
+ * column, a `param` a fitted parameter; constants (`const` statements, `pi`,
+ * `e`) are folded into `number` nodes by the checker.
+ */
+export type Expr =
+  | { kind: 'number'; value: number; range?: Range }
+  | { kind: 'column'; name: string; range?: Range }
+  | { kind: 'param'; name: string; range?: Range }
+  | { kind: 'negate'; arg: Expr; range?: Range }
+  | { kind: 'binary'; op: BinaryOp; left: Expr; right: Expr; range?: Range }
+  | { kind: 'call'; fn: FunctionName; args: Expr[]; range?: Range }
+  | { kind: 'compare'; op: CompareOp; left: Expr; right: Expr; range?: Range }
+  | { kind: 'logic'; op: LogicOp; left: Expr; right: Expr; range?: Range }
+  | { kind: 'not'; arg: Expr; range?: Range };
+
+export interface DataSource {
+  name: string;
+  /** Path as written in the spec, relative to the spec file's folder. */
+  path: string;
+  /** Keep only rows where this condition holds (over columns of this source). */
+  filter?: Expr;
+  /** Field delimiter; detected from the header line when absent. */
+  delimiter?: ',' | ';' | '\t';
+  /** Decimal mark of numeric cells. Default `.`. */
+  decimal?: '.' | ',';
+  range: Range;
+}
+
+export interface ConstantPlan {
+  name: string;
+  value: number;
+  unit?: string;
+  range: Range;
+}
+
+export interface ParameterPlan {
+  name: string;
+  /** Starting value; absent means the engine guesses one. */
+  initial?: number;
+  /** Lower bound, `-Infinity` written as `null` in JSON (absent = unbounded). */
+  lower?: number;
+  upper?: number;
+  /** Held at `initial` during the fit. */
+  fixed: boolean;
+  unit?: string;
+  /** `shared` across all blocks of the fit (the only scope until global fits). */
+  scope: 'shared' | 'perBlock';
+  range: Range;
+}
+
+export type Method = 'auto' | 'linear' | 'levenberg_marquardt' | 'gradient_descent';
+export const METHODS: readonly Method[] = ['auto', 'linear', 'levenberg_marquardt', 'gradient_descent'];
+export type LossKind = 'squared' | 'huber' | 'soft_l1' | 'cauchy';
+export const LOSSES: readonly LossKind[] = ['squared', 'huber', 'soft_l1', 'cauchy'];
+
+export interface FitOptions {
+  /** Solver choice. Default `auto`: linear QR when the model is linear in its parameters, else Levenberg–Marquardt. */
+  method: Method;
+  /** Loss applied to the (weighted) residuals. Default `squared`. */
+  loss: LossKind;
+  /** Loss scale c (residual size where a robust loss starts to down-weight). Default 1. */
+  lossScale: number;
+  /** Confidence level of intervals and bands, in (0, 1). Default 0.95. */
+  level: number;
+  /** Iteration limit of iterative solvers. Default 200 (LM), 100000 (gradient descent). */
+  maxIterations?: number;
+  /** Relative tolerance for the iterative stopping tests. Default 1e-10. */
+  tolerance?: number;
+  /** Gradient descent learning rate (after feature scaling). Default: chosen by the solver. */
+  learningRate?: number;
+}
+
+/** One dataset's share of a fit: `response = model` over the rows of `data`. */
+export interface FitBlock {
+  data: string;
+  response: Expr;
+  model: Expr;
+  /** Per-point absolute standard deviation σᵢ (weights 1/σᵢ², χ² statistics). */
+  sigma?: Expr;
+  /** Relative weight per point (scale of the residual variance still estimated). */
+  weight?: Expr;
+  /** Every column name this block reads (response, model, sigma, weight). */
+  columns: string[];
+  /** The single column the model varies with, when there is exactly one (for bands, prediction, inversion). */
+  predictor?: string;
+  range: Range;
+}
+
+export interface FitPlan {
+  name: string;
+  blocks: FitBlock[];
+  parameters: ParameterPlan[];
+  options: FitOptions;
+  /** Fit once per distinct value of this column. */
+  groupBy?: string;
+  range: Range;
+}
+
+export type Query =
+  | { kind: 'predict'; fit: string; variable: string; values: number[]; range: Range }
+  | { kind: 'invert'; fit: string; response: string; values: number[]; range: Range }
+  | { kind: 'compare'; fits: string[]; range: Range };
+
+/** Statistics an expectation may name after the fit's name (`fit.r2`). */
+export const STATISTICS = ['r2', 'adj_r2', 'rmse', 'ssr', 'chi2', 'chi2_reduced', 'aic', 'aicc', 'bic', 'n', 'dof', 'iterations'] as const;
+export type StatisticName = (typeof STATISTICS)[number];
+
+export type ExpectTarget =
+  | { kind: 'parameter'; fit: string; name: string; of: 'estimate' | 'stderr' }
+  | { kind: 'statistic'; fit: string; name: StatisticName };
+
+export type Bound =
+  | { kind: 'within'; low: number; high: number }
+  | { kind: 'above'; value: number }
+  | { kind: 'below'; value: number };
+
+export interface Expectation {
+  target: ExpectTarget;
+  bound: Bound;
+  /** The expectation as written, for reports. */
+  text: string;
+  range: Range;
+}
+
+export interface Plan {
+  version: typeof PLAN_VERSION;
+  data: DataSource[];
+  constants: ConstantPlan[];
+  fits: FitPlan[];
+  queries: Query[];
+  expectations: Expectation[];
+}
+
+export type Severity = 'error' | 'warning' | 'info';
+
+/** A located problem; `code` is stable (tests and quick fixes key on it). */
+export interface Diagnostic {
+  severity: Severity;
+  code: string;
+  message: string;
+  range: Range;
+  /** Replacement names for quick fixes ("did you mean"). */
+  suggestions?: string[];
+}
