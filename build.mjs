@@ -9,15 +9,24 @@ const node = [
   { in: 'cli.ts', out: 'cli', banner: '#!/usr/bin/env node' },
   { in: 'extension/extension.ts', out: 'extension' },
   { in: 'engine/worker.ts', out: 'worker' },
+  // SVG export for the editor: carries vega itself (no node_modules in the .vsix);
+  // vega-canvas's browser build returns no canvas in Node, so text widths are estimated.
+  { in: 'extension/export/svgWorker.ts', out: 'svg-worker', alias: { 'vega-canvas': './node_modules/vega-canvas/build/vega-canvas.browser.js' } },
   { in: 'test/strd/strd-cli.ts', out: 'strd' },
   { in: 'test/bench/bench.ts', out: 'bench' },
   { in: 'test/bench/parse-bench.ts', out: 'parse-bench' },
 ];
-const browser = [{ in: 'extension/panel/page.ts', out: 'panel' }];
+// The results panel page (+ panel.css from its CSS import), minified: it carries vega, vega-lite and vega-embed.
+const browser = [{ in: 'extension/panel/page.ts', out: 'panel', minify: true }];
+
+// `node build.mjs extension worker panel` builds only those outputs (the editor's
+// packaging and end-to-end test use this); no arguments builds everything.
+const only = new Set(process.argv.slice(2));
+const wanted = (e) => existsSync(e.in) && (only.size === 0 || only.has(e.out));
 
 const common = { bundle: true, sourcemap: true, logLevel: 'warning', legalComments: 'none', minifyWhitespace: false };
 const jobs = [];
-for (const e of node.filter((e) => existsSync(e.in))) {
+for (const e of node.filter(wanted)) {
   jobs.push(build({
     ...common,
     entryPoints: { [e.out]: e.in },
@@ -28,9 +37,10 @@ for (const e of node.filter((e) => existsSync(e.in))) {
     external: ['vscode'],
     banner: e.banner ? { js: e.banner } : undefined,
     mainFields: ['module', 'main'],
+    alias: e.alias,
   }));
 }
-for (const e of browser.filter((e) => existsSync(e.in))) {
+for (const e of browser.filter(wanted)) {
   jobs.push(build({
     ...common,
     entryPoints: { [e.out]: e.in },
@@ -38,6 +48,7 @@ for (const e of browser.filter((e) => existsSync(e.in))) {
     platform: 'browser',
     target: 'es2022',
     format: 'iife',
+    minify: e.minify === true,
   }));
 }
 await Promise.all(jobs);

@@ -170,8 +170,9 @@ export interface FitResult {
 }
 
 export type QueryResult =
-  | { kind: 'predict'; fit: string; variable: string; predictions: Prediction[] }
-  | { kind: 'invert'; fit: string; response: string; inversions: InversePrediction[] }
+  /** `group`: the group of a per-group fit (additive, optional). */
+  | { kind: 'predict'; fit: string; group?: string; variable: string; predictions: Prediction[] }
+  | { kind: 'invert'; fit: string; group?: string; response: string; inversions: InversePrediction[] }
   | {
       kind: 'compare';
       fits: string[];
@@ -182,6 +183,8 @@ export type QueryResult =
 
 export interface ExpectationResult {
   expectation: Expectation;
+  /** The group checked, for per-group fits (one result per group; additive, optional). */
+  group?: string;
   actual: number | null;
   passed: boolean;
   message: string;
@@ -197,6 +200,10 @@ export interface RunError {
   file?: string;
   row?: number;
   column?: string;
+  /** The offending cell text, when a data cell is at fault (additive, optional). */
+  value?: string;
+  /** The fit the error belongs to, when it is specific to one (additive, optional). */
+  fit?: string;
 }
 
 export interface Provenance {

@@ -88,8 +88,13 @@ export interface ParameterPlan {
   name: string;
   /** Starting value; absent means the engine guesses one. */
   initial?: number;
-  /** Lower bound, `-Infinity` written as `null` in JSON (absent = unbounded). */
+  /**
+   * Lower bound; absent = unbounded below. Always finite: JSON has no
+   * Infinity, so the checker omits infinite bounds (`in [-inf, 5]` gives no
+   * `lower`, `in [0, inf]` gives `lower: 0` and no `upper`).
+   */
   lower?: number;
+  /** Upper bound; absent = unbounded above. Always finite (see `lower`). */
   upper?: number;
   /** Held at `initial` during the fit. */
   fixed: boolean;

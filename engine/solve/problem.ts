@@ -15,6 +15,13 @@ export interface LeastSquaresProblem {
    * Exact (compiled) derivatives; finite differences are only a test oracle.
    */
   jacobian(theta: Float64Array, out: Float64Array): void;
+  /**
+   * Optional: r(θ) in double-double, r ≈ hi + lo (see `linalg/dd.ts`). Used by
+   * the linear solver's iterative refinement when present (additive, optional).
+   */
+  residualsExtended?(theta: Float64Array, hi: Float64Array, lo: Float64Array): void;
+  /** Optional: the Jacobian in double-double, same layout as `jacobian` (additive, optional). */
+  jacobianExtended?(theta: Float64Array, hi: Float64Array, lo: Float64Array): void;
   /** Optional box bounds on θ (length p; ±Infinity when absent). */
   lower?: Float64Array;
   upper?: Float64Array;

@@ -1,0 +1,105 @@
+/**
+ * Every user-facing text of the command line: help pages and messages.
+ * Messages are single lines without the `file:line:col: error:` prefix
+ * (locate.ts adds it).
+ */
+import { templateIds } from '../templates';
+
+export const TOOL = 'leastwise';
+
+export const HELP = {
+  main: `Usage: leastwise <command> [options]
+
+Fit models written in .lsq spec files to CSV data, with standard errors,
+intervals and residual checks.
+
+Commands:
+  check FILE...    check specs (syntax, names, data columns) and list problems
+  plan FILE        print the checked fitting plan as JSON
+  fit FILE         run the fits of a spec and print, save or chart the results
+  new DATA.csv     write a starter spec for a CSV file from a model template
+
+Options:
+  -h, --help       show help (also: leastwise <command> --help)
+  -v, --version    show the version
+
+Exit codes: 0 success, 1 an expectation failed, 2 spec or data error,
+3 a fit did not converge.
+`,
+  check: `Usage: leastwise check FILE...
+
+Check one or more .lsq specs without fitting. Data files named in a spec are
+read for their header only, so misspelt columns are found too.
+
+Prints one line per problem:  file:line:col: error|warning: message
+Exit code 2 when any error was found, else 0.
+`,
+  plan: `Usage: leastwise plan FILE
+
+Print the checked fitting plan of a spec as JSON on stdout (what the engine
+will run). Problems go to stderr; exit code 2 when the spec has errors.
+`,
+  fit: `Usage: leastwise fit FILE.lsq [options]
+
+Run the fits of a spec, evaluate its predictions, inversions, comparisons and
+expectations, and print a summary per fit.
+
+Options:
+  --fit NAME       run only this fit (repeatable); queries and expectations
+                   about other fits are skipped
+  --json PATH|-    write the full result as JSON (validates against
+                   engine/result.schema.json); "-" writes only JSON to stdout
+  --report PATH.md write a Markdown report; its charts go to a folder
+                   PATH-charts/ next to it (or to --charts DIR when given)
+  --charts DIR     write SVG charts for every fit into DIR
+  --quiet          print no summary; problems and failed expectations still
+                   go to stderr
+  -h, --help       show this help
+
+Exit codes: 0 success, 1 an expectation failed, 2 spec or data error,
+3 a fit did not converge (3 wins over 1).
+`,
+  new: (): string => `Usage: leastwise new DATA.csv [options]
+
+Write a starter spec for a CSV file: a model template with starting values
+computed from the data (each heuristic is explained in the spec's comments).
+
+Options:
+  --x COL          predictor column (default: the first numeric column)
+  --y COL          response column (default: the next numeric column)
+  --model ID       template (default: line). One of:
+                   ${templateIds().join(', ')}
+  --out FILE       spec to write (default: DATA.lsq next to the CSV; "-" for
+                   stdout). An existing file is never overwritten.
+  -h, --help       show this help
+`,
+};
+
+export const MSG = {
+  unknownCommand: (c: string, suggestion: string | null) => `unknown command '${c}'${suggestion ? ` - did you mean '${suggestion}'?` : ''} (see leastwise --help)`,
+  noCommand: () => 'no command given (see leastwise --help)',
+  badArgs: (cmd: string, detail: string) => `${detail} (see leastwise ${cmd} --help)`,
+  needFiles: (cmd: string) => `${cmd} needs a spec file (see leastwise ${cmd} --help)`,
+  oneFile: (cmd: string) => `${cmd} takes exactly one file (see leastwise ${cmd} --help)`,
+  cannotRead: (detail: string) => `cannot read file: ${detail}`,
+  dataMissing: (path: string) => `data file not found: ${path} (paths are relative to the spec's folder)`,
+  cannotWrite: (path: string, detail: string) => `cannot write ${path}: ${detail}`,
+  wouldOverwriteInput: (path: string) => `refusing to write ${path}: it is an input of this run`,
+  exists: (path: string) => `${path} already exists; choose another --out (existing files are never overwritten)`,
+  unknownFit: (name: string, known: string[]) => `no fit named '${name}' in this spec${known.length ? ` (fits: ${known.join(', ')})` : ''}`,
+  specHasErrors: (n: number) => `${n} error${n === 1 ? '' : 's'} in the spec; nothing was fitted`,
+  checked: (files: number, errors: number, warnings: number) =>
+    `${files} file${files === 1 ? '' : 's'} checked: ${errors} error${errors === 1 ? '' : 's'}, ${warnings} warning${warnings === 1 ? '' : 's'}`,
+  notConverged: (fit: string, reason: string) => `fit ${fit} did not converge: ${reason}`,
+  expectationFailed: (text: string, message: string) => `expectation failed: ${text} (${message})`,
+  wrote: (what: string, path: string) => `wrote ${what}: ${path}`,
+  unknownColumn: (name: string, headers: string[]) => `no column '${name}' in the data (columns: ${headers.join(', ')})`,
+  notNumeric: (name: string) => `column '${name}' holds no numbers`,
+  needTwoNumeric: () => 'the data need at least two numeric columns (predictor and response)',
+  sameColumn: (name: string) => `--x and --y both name '${name}'`,
+  unknownTemplate: (id: string, suggestion: string | null) => `unknown model template '${id}'${suggestion ? ` - did you mean '${suggestion}'?` : ''} (templates: ${templateIds().join(', ')})`,
+  scaffolded: (spec: string, title: string, y: string, x: string) =>
+    `wrote ${spec}: ${title} of ${y} against ${x}. Next: leastwise check ${spec}, then leastwise fit ${spec}`,
+  internal: (detail: string) => `internal error: ${detail} (please report this with the spec and data)`,
+  progress: (fit: string, done: number, total: number) => `fitted ${fit} (${done + 1} of ${total})`,
+};

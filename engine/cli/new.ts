@@ -1,0 +1,100 @@
+/**
+ * `leastwise new DATA.csv [--x COL --y COL --model ID] [--out FILE]`: write a
+ * starter spec from a template with starting values computed from the data.
+ * Existing files are never overwritten (the write uses the exclusive flag).
+ */
+import { readFileSync, writeFileSync } from 'node:fs';
+import { basename, dirname, extname, join, relative, resolve, sep } from 'node:path';
+import { parseCsvText, type DataTable } from '../data/index';
+import { findTemplate, scaffoldSpec, TEMPLATES } from '../templates/index';
+import { closest, parseCommandArgs } from './args';
+import { EXIT, type CliIo, type ExitCode } from './io';
+import { displayPath, located, plainError } from './locate';
+import { HELP, MSG } from './messages';
+
+interface NewValues {
+  x?: string;
+  y?: string;
+  model?: string;
+  out?: string;
+}
+
+function numericColumns(t: DataTable): string[] {
+  return t.columns.filter((c) => c.values.some((v) => Number.isFinite(v))).map((c) => c.name);
+}
+
+export async function newCommand(argv: string[], io: CliIo): Promise<ExitCode> {
+  const args = parseCommandArgs<NewValues>('new', argv, { x: { type: 'string' }, y: { type: 'string' }, model: { type: 'string' }, out: { type: 'string' } });
+  const fail = (line: string): ExitCode => {
+    io.stderr(line + '\n');
+    return EXIT.inputError;
+  };
+  if (!args.ok) return fail(plainError(args.message));
+  if (args.values.help) {
+    io.stdout(HELP.new());
+    return EXIT.ok;
+  }
+  if (args.positionals.length !== 1) return fail(plainError(args.positionals.length ? MSG.oneFile('new') : MSG.needFiles('new')));
+
+  const modelId = args.values.model ?? 'line';
+  const template = findTemplate(modelId);
+  if (!template) {
+    const ids = [...TEMPLATES.map((t) => t.id), 'poly4', 'poly5'];
+    return fail(plainError(MSG.unknownTemplate(modelId, closest(modelId, ids))));
+  }
+
+  const csvPath = resolve(io.cwd, args.positionals[0]);
+  const csvDisplay = displayPath(csvPath, io.cwd);
+  let text: string;
+  try {
+    text = readFileSync(csvPath, 'utf8');
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    return fail(located(csvDisplay, undefined, undefined, 'error', MSG.cannotRead(code === 'ENOENT' ? 'no such file' : code ?? String(e))));
+  }
+  const parsed = parseCsvText(text, { file: csvDisplay });
+  if (!parsed.ok) {
+    for (const e of parsed.errors) io.stderr(located(csvDisplay, e.row, undefined, 'error', e.message) + '\n');
+    return EXIT.inputError;
+  }
+  const table = parsed.table;
+  const numeric = numericColumns(table);
+  const pick = (name: string | undefined, exclude?: string): string | { error: string } => {
+    if (name !== undefined) {
+      if (!table.headers.includes(name)) return { error: MSG.unknownColumn(name, table.headers) };
+      if (!numeric.includes(name)) return { error: MSG.notNumeric(name) };
+      return name;
+    }
+    const found = numeric.find((c) => c !== exclude);
+    return found ?? { error: MSG.needTwoNumeric() };
+  };
+  const x = pick(args.values.x, args.values.y);
+  if (typeof x !== 'string') return fail(located(csvDisplay, 1, undefined, 'error', x.error));
+  const y = pick(args.values.y, x);
+  if (typeof y !== 'string') return fail(located(csvDisplay, 1, undefined, 'error', y.error));
+  if (x === y) return fail(plainError(MSG.sameColumn(x)));
+
+  const toStdout = args.values.out === '-';
+  const outPath = toStdout ? csvPath.slice(0, csvPath.length - extname(csvPath).length) + '.lsq'
+    : args.values.out !== undefined ? resolve(io.cwd, args.values.out)
+      : join(dirname(csvPath), basename(csvPath, extname(csvPath)) + '.lsq');
+  const dataPath = relative(dirname(outPath), csvPath).split(sep).join('/');
+  const column = (name: string) => table.columns.find((c) => c.name === name)!.values;
+  const result = scaffoldSpec({ template, dataPath, headers: table.headers, x, y, xValues: column(x), yValues: column(y) });
+  if (!result.ok) return fail(located(csvDisplay, undefined, undefined, 'error', result.message));
+
+  if (toStdout) {
+    io.stdout(result.text);
+    return EXIT.ok;
+  }
+  const outDisplay = displayPath(outPath, io.cwd);
+  if (outPath === csvPath) return fail(plainError(MSG.wouldOverwriteInput(outDisplay)));
+  try {
+    writeFileSync(outPath, result.text, { flag: 'wx' });
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    return fail(plainError(code === 'EEXIST' ? MSG.exists(outDisplay) : MSG.cannotWrite(outDisplay, code ?? String(e))));
+  }
+  io.stdout(MSG.scaffolded(outDisplay, template.title, y, x) + '\n');
+  return EXIT.ok;
+}

@@ -1,0 +1,86 @@
+/**
+ * Reading and checking a spec file for the commands: text, paths, the
+ * data-aware parser check (CSV headers read from disk) and located output.
+ */
+import { existsSync, readFileSync, statSync } from 'node:fs';
+import { dirname, resolve } from 'node:path';
+import { analyze } from '../../parser/index';
+import type { Diagnostic, Plan } from '../../parser/plan';
+import { readHeaderFile } from '../data/index';
+import type { CliIo } from './io';
+import { diagnosticLine, displayPath, located, sortDiagnostics } from './locate';
+import { MSG } from './messages';
+
+export interface LoadedSpec {
+  /** Absolute path. */
+  path: string;
+  /** Path as shown in messages. */
+  display: string;
+  /** Folder that data paths in the spec are relative to. */
+  dir: string;
+  text: string;
+}
+
+export interface CheckedSpec extends LoadedSpec {
+  plan: Plan;
+  diagnostics: Diagnostic[];
+  errors: number;
+  warnings: number;
+}
+
+/** Read a spec; on failure the located error line. */
+export function readSpec(arg: string, io: CliIo): { ok: true; spec: LoadedSpec } | { ok: false; line: string } {
+  const path = resolve(io.cwd, arg);
+  const display = displayPath(path, io.cwd);
+  try {
+    const text = readFileSync(path, 'utf8');
+    return { ok: true, spec: { path, display, dir: dirname(path), text } };
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    const detail = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a folder' : code ?? String(e);
+    return { ok: false, line: located(display, undefined, undefined, 'error', MSG.cannotRead(detail)) };
+  }
+}
+
+/**
+ * Column names of each data file the spec names, read from the file's header
+ * (relative to the spec's folder). Unreadable files give `undefined`, so the
+ * parser falls back to taking unknown names as columns and the run reports the
+ * missing file with its location.
+ */
+export function headerReader(specDir: string): (dataName: string, path: string) => string[] | undefined {
+  const cache = new Map<string, string[] | undefined>();
+  return (_name, path) => {
+    const abs = resolve(specDir, path);
+    if (!cache.has(abs)) cache.set(abs, readHeaderFile(abs)?.headers);
+    return cache.get(abs);
+  };
+}
+
+/** Errors for data files the spec names that do not exist (or are folders), at their `data` statements. */
+export function missingDataDiagnostics(plan: Plan, specDir: string): Diagnostic[] {
+  const out: Diagnostic[] = [];
+  for (const d of plan.data) {
+    const abs = resolve(specDir, d.path);
+    const ok = existsSync(abs) && statSync(abs).isFile();
+    if (!ok) out.push({ severity: 'error', code: 'data_file_missing', message: MSG.dataMissing(d.path), range: d.range });
+  }
+  return out;
+}
+
+export function checkSpec(spec: LoadedSpec): CheckedSpec {
+  const { plan, diagnostics } = analyze(spec.text, { headers: headerReader(spec.dir) });
+  const sorted = sortDiagnostics([...diagnostics, ...missingDataDiagnostics(plan, spec.dir)]);
+  return {
+    ...spec,
+    plan,
+    diagnostics: sorted,
+    errors: sorted.filter((d) => d.severity === 'error').length,
+    warnings: sorted.filter((d) => d.severity === 'warning').length,
+  };
+}
+
+/** Diagnostic lines of a checked spec, each ending with a newline. */
+export function diagnosticText(spec: CheckedSpec, only?: (d: Diagnostic) => boolean): string {
+  return spec.diagnostics.filter(only ?? (() => true)).map((d) => diagnosticLine(spec.display, d) + '\n').join('');
+}

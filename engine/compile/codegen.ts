@@ -1,0 +1,111 @@
+/**
+ * Double-precision code generation from the expression graph. One generated
+ * function evaluates a set of root nodes for rows 0…n−1 and stores them:
+ * `out[i]` for the value root and `jac[j·n + i]` for derivative roots
+ * (column-major). Every interior node becomes one `const` (so shared
+ * subexpressions are computed once per row); nodes that do not read a column
+ * are hoisted out of the row loop. The loop allocates nothing.
+ */
+import { Graph, UNARY_IMPL, BINARY_IMPL } from './graph';
+import { literal, ident, UNARY_MEMBER, BINARY_MEMBER, COMPARE_JS } from './emit';
+
+/** The helper object injected into generated code as `M` (frozen, fixed members). */
+export const MATH_HELPERS: Readonly<Record<string, (...a: number[]) => number>> = Object.freeze({
+  ...UNARY_IMPL,
+  ...BINARY_IMPL,
+  pow: Math.pow,
+});
+
+export interface KernelRoots {
+  /** Node written to out[i], if any. */
+  value?: number;
+  /** Nodes written to jac[j·n + i], j = 0…p−1. */
+  derivatives?: readonly number[];
+}
+
+/** Source reference to node `id` (a literal, parameter, column or temporary). */
+export function ref(g: Graph, id: number): string {
+  const n = g.nodes[id];
+  switch (n.op) {
+    case 'const': return literal(n.value);
+    case 'param': return ident('t', n.index);
+    case 'col': return ident('x', n.index);
+    default: return ident('v', id);
+  }
+}
+
+/** Right-hand side computing interior node `id` from its operands' references. */
+function rhs(g: Graph, id: number): string {
+  const n = g.nodes[id];
+  const r = (k: number) => ref(g, k);
+  switch (n.op) {
+    case 'add': return `${r(n.a)} + ${r(n.b)}`;
+    case 'sub': return `${r(n.a)} - ${r(n.b)}`;
+    case 'mul': return `${r(n.a)} * ${r(n.b)}`;
+    case 'div': return `${r(n.a)} / ${r(n.b)}`;
+    case 'neg': return `-${r(n.a)}`;
+    case 'pow': {
+      const e = g.constOf(n.b);
+      if (e === 2) return `${r(n.a)} * ${r(n.a)}`;
+      if (e === -1) return `1 / ${r(n.a)}`;
+      return `M.pow(${r(n.a)}, ${r(n.b)})`;
+    }
+    case 'fn1': return `M.${UNARY_MEMBER[n.fn]}(${r(n.a)})`;
+    case 'fn2': return `M.${BINARY_MEMBER[n.fn]}(${r(n.a)}, ${r(n.b)})`;
+    case 'cmp': return `(${r(n.a)} ${COMPARE_JS[n.cmp]} ${r(n.b)}) ? 1 : 0`;
+    case 'and': return `(${r(n.a)} && ${r(n.b)}) ? 1 : 0`;
+    case 'or': return `(${r(n.a)} || ${r(n.b)}) ? 1 : 0`;
+    case 'not': return `${r(n.a)} ? 0 : 1`;
+    case 'when': return `${r(n.c)} ? ${r(n.a)} : ${r(n.b)}`;
+    default: throw new Error('not an interior node');
+  }
+}
+
+function isLeaf(g: Graph, id: number): boolean {
+  const op = g.nodes[id].op;
+  return op === 'const' || op === 'param' || op === 'col';
+}
+
+/**
+ * Source of `function (t, c, n, out, jac)` evaluating `roots`, to be wrapped
+ * as `new Function('M', source)` (which returns the kernel).
+ */
+export function kernelSource(g: Graph, roots: KernelRoots): string {
+  const derivs = roots.derivatives ?? [];
+  const all = [...(roots.value !== undefined ? [roots.value] : []), ...derivs];
+  const nodes = g.reachable(all);
+  const head: string[] = [];
+  const body: string[] = [];
+  for (const id of nodes) {
+    const n = g.nodes[id];
+    if (n.op === 'param') head.push(`const ${ref(g, id)} = t[${literal(n.index)}];`);
+    else if (n.op === 'col') {
+      head.push(`const ${ident('c', n.index)} = c[${literal(n.index)}];`);
+      body.push(`const ${ref(g, id)} = ${ident('c', n.index)}[i];`);
+    }
+  }
+  for (const id of nodes) {
+    if (isLeaf(g, id)) continue;
+    (g.row[id] ? body : head).push(`const ${ref(g, id)} = ${rhs(g, id)};`);
+  }
+  derivs.forEach((_, j) => { if (j > 0) head.push(`const ${ident('o', j)} = n * ${literal(j)};`); });
+  if (roots.value !== undefined) body.push(`out[i] = ${ref(g, roots.value)};`);
+  derivs.forEach((d, j) => body.push(`jac[${j === 0 ? 'i' : `${ident('o', j)} + i`}] = ${ref(g, d)};`));
+  return [
+    '"use strict";',
+    'return function (t, c, n, out, jac) {',
+    ...head.map((s) => '  ' + s),
+    '  for (let i = 0; i < n; i++) {',
+    ...body.map((s) => '    ' + s),
+    '  }',
+    '};',
+  ].join('\n');
+}
+
+export type Kernel = (t: Float64Array, c: readonly Float64Array[], n: number, out: Float64Array, jac: Float64Array) => void;
+
+/** Compile kernel source into a function; the only free name it sees is the frozen helper object `M`. */
+export function instantiate(source: string, helpers: object = MATH_HELPERS): Kernel {
+  // eslint-disable-next-line @typescript-eslint/no-implied-eval
+  return new Function('M', source)(helpers) as Kernel;
+}

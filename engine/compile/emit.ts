@@ -1,0 +1,41 @@
+/**
+ * Safe source fragments shared by the code generators. Generated source is
+ * assembled only from: fixed keywords and operators written here, names made
+ * of a fixed prefix and a non-negative integer (`t3`, `x0`, `v17`), member
+ * names from the fixed function table below, and numeric literals produced by
+ * `literal`, which accepts only finite numbers and re-checks the text it
+ * emits. No user-supplied string ever reaches generated source.
+ */
+import type { UnaryFn, BinaryFn } from './graph';
+
+const LITERAL = /^-?(?:\d+(?:\.\d*)?|\.\d+)(?:e[+-]?\d+)?$/;
+
+/** JavaScript source for the finite number `v` (exact: String() round-trips doubles). */
+export function literal(v: number): string {
+  if (typeof v !== 'number' || !Number.isFinite(v)) throw new RangeError('only finite numbers can be emitted');
+  if (Object.is(v, -0)) return '(-0)';
+  const s = String(v);
+  if (!LITERAL.test(s)) throw new RangeError('unexpected number text');
+  return v < 0 ? `(${s})` : s;
+}
+
+/** A generated identifier: fixed prefix + slot/node number. */
+export function ident(prefix: 't' | 'x' | 'v' | 'h' | 'l' | 'o' | 'c', k: number): string {
+  if (!Number.isSafeInteger(k) || k < 0) throw new RangeError('bad identifier index');
+  return `${prefix}${k}`;
+}
+
+/** Member of the injected helper object `M` (see `codegen.ts` MATH_HELPERS) for each function: a fixed table. */
+export const UNARY_MEMBER: Readonly<Record<UnaryFn, string>> = Object.freeze({
+  exp: 'exp', ln: 'ln', log10: 'log10', sqrt: 'sqrt', abs: 'abs', sin: 'sin', cos: 'cos', tan: 'tan',
+  asin: 'asin', acos: 'acos', atan: 'atan', sinh: 'sinh', cosh: 'cosh', tanh: 'tanh',
+  erf: 'erf', erfc: 'erfc', sign: 'sign',
+});
+export const BINARY_MEMBER: Readonly<Record<BinaryFn, string>> = Object.freeze({
+  atan2: 'atan2', min: 'min', max: 'max', hypot: 'hypot',
+});
+
+/** Compare operators as JavaScript (strict equality for == and !=). */
+export const COMPARE_JS: Readonly<Record<string, string>> = Object.freeze({
+  '<': '<', '<=': '<=', '>': '>', '>=': '>=', '==': '===', '!=': '!==',
+});

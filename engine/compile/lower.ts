@@ -1,0 +1,104 @@
+/**
+ * Lowering of a resolved plan `Expr` into the expression graph. This is the
+ * whitelist gate of code generation: only the node kinds, operators and
+ * function names of `parser/plan.ts` are accepted; parameter and column names
+ * are looked up (with `Map`, never object properties) and replaced by slot
+ * numbers; numbers must be finite. Anything else throws a `CompileError`,
+ * which the runner turns into a located diagnostic.
+ */
+import type { Expr, Range } from '../../parser/plan';
+import { FUNCTIONS } from '../../parser/plan';
+import { Graph, type UnaryFn, type BinaryFn } from './graph';
+
+export class CompileError extends Error {
+  constructor(message: string, readonly range?: Range) {
+    super(message);
+    this.name = 'CompileError';
+  }
+}
+
+const UNARY: ReadonlySet<string> = new Set<UnaryFn>([
+  'exp', 'ln', 'log10', 'sqrt', 'abs', 'sin', 'cos', 'tan', 'asin', 'acos', 'atan', 'sinh', 'cosh', 'tanh', 'erf', 'erfc',
+]);
+const BINARY: ReadonlySet<string> = new Set<BinaryFn>(['atan2', 'min', 'max', 'hypot']);
+const BINARY_OPS: ReadonlySet<string> = new Set(['+', '-', '*', '/', '^']);
+const COMPARE_OPS: ReadonlySet<string> = new Set(['<', '<=', '>', '>=', '==', '!=']);
+
+export function slotMap(names: readonly string[], what: string): Map<string, number> {
+  const m = new Map<string, number>();
+  names.forEach((name, i) => {
+    if (typeof name !== 'string') throw new CompileError(`${what} names must be strings`);
+    if (m.has(name)) throw new CompileError(`duplicate ${what} name`);
+    m.set(name, i);
+  });
+  return m;
+}
+
+export interface LowerScope {
+  params: Map<string, number> | null;
+  columns: Map<string, number>;
+  /** Give unknown column names new slots instead of failing (linearity test only). */
+  autoColumns?: boolean;
+}
+
+/** Lower `e` into `g`; returns the root node id. */
+export function lower(g: Graph, e: Expr, scope: LowerScope): number {
+  const rec = (x: Expr): number => lower(g, x, scope);
+  if (e === null || typeof e !== 'object') throw new CompileError('malformed expression');
+  switch (e.kind) {
+    case 'number':
+      if (typeof e.value !== 'number' || !Number.isFinite(e.value)) throw new CompileError('number is not finite', e.range);
+      return g.constant(e.value);
+    case 'param': {
+      const k = scope.params?.get(e.name);
+      if (k === undefined) throw new CompileError(scope.params ? 'unknown parameter' : 'parameters are not allowed here', e.range);
+      return g.paramRef(k);
+    }
+    case 'column': {
+      let k = scope.columns.get(e.name);
+      if (k === undefined && scope.autoColumns && typeof e.name === 'string') {
+        k = scope.columns.size;
+        scope.columns.set(e.name, k);
+      }
+      if (k === undefined) throw new CompileError('unknown column', e.range);
+      return g.column(k);
+    }
+    case 'negate':
+      return g.neg(rec(e.arg));
+    case 'binary': {
+      if (!BINARY_OPS.has(e.op)) throw new CompileError('unknown operator', e.range);
+      const a = rec(e.left);
+      const b = rec(e.right);
+      switch (e.op) {
+        case '+': return g.add(a, b);
+        case '-': return g.sub(a, b);
+        case '*': return g.mul(a, b);
+        case '/': return g.div(a, b);
+        case '^': return g.pow(a, b);
+      }
+      break;
+    }
+    case 'compare':
+      if (!COMPARE_OPS.has(e.op)) throw new CompileError('unknown comparison', e.range);
+      return g.compare(e.op, rec(e.left), rec(e.right));
+    case 'logic':
+      if (e.op === 'and') return g.and(rec(e.left), rec(e.right));
+      if (e.op === 'or') return g.or(rec(e.left), rec(e.right));
+      throw new CompileError('unknown logical operator', e.range);
+    case 'not':
+      return g.not(rec(e.arg));
+    case 'call': {
+      const fn: string = e.fn;
+      if (!Object.prototype.hasOwnProperty.call(FUNCTIONS, fn)) throw new CompileError('unknown function', e.range);
+      const arity = FUNCTIONS[e.fn];
+      if (!Array.isArray(e.args) || e.args.length !== arity) throw new CompileError(`${fn} takes ${arity} argument(s)`, e.range);
+      const args = e.args.map(rec);
+      if (fn === 'pow') return g.pow(args[0], args[1]);
+      if (fn === 'when') return g.when(args[0], args[1], args[2]);
+      if (UNARY.has(fn)) return g.fn1(fn as UnaryFn, args[0]);
+      if (BINARY.has(fn)) return g.fn2(fn as BinaryFn, args[0], args[1]);
+      throw new CompileError('unknown function', e.range);
+    }
+  }
+  throw new CompileError('unknown expression kind');
+}

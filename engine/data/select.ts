@@ -1,0 +1,163 @@
+/**
+ * Selecting the rows a fit uses from a table: the named columns as numbers,
+ * rows with a missing value in any of them dropped (and counted), then the
+ * data source filter applied. Non-numeric cells in a used column are located
+ * errors, never silently dropped.
+ */
+import { isMissingCell } from './cells';
+import type { DataColumn, DataError, DataTable } from './types';
+
+/** A compiled filter over the selected numeric columns: writes 1 (keep) or 0 per row. */
+export type RowFilter = (cols: readonly Float64Array[], n: number, out: Float64Array) => void;
+
+export interface SelectRequest {
+  /** Columns read as numbers, in the order the caller wants them back. */
+  numeric: readonly string[];
+  /** Column read as text labels (e.g. the group-by column); may also be numeric. */
+  label?: string;
+  /** Filter over `numeric` columns (same order); rows where it gives 0 or NaN are left out. */
+  filter?: RowFilter;
+  /** File name for error locations. */
+  file: string;
+  /** Stop collecting cell errors after this many. Default 20. */
+  maxErrors?: number;
+}
+
+export interface Selection {
+  /** One array per `numeric` name, all of length `n`. */
+  columns: Float64Array[];
+  n: number;
+  /** 1-based file line of each kept row. */
+  lines: Int32Array;
+  /** Labels of the `label` column for kept rows, or null. */
+  labels: string[] | null;
+  /** Rows dropped for a missing value in a used column. */
+  dropped: number;
+  /** Rows left out by the filter (not counted as dropped). */
+  filteredOut: number;
+  /** With `label`: the label of each dropped row ('' when the label itself is missing), else null. */
+  droppedLabels: string[] | null;
+}
+
+export type SelectResult = { ok: true; selection: Selection } | { ok: false; errors: DataError[] };
+
+export function selectRows(table: DataTable, request: SelectRequest): SelectResult {
+  const { file } = request;
+  const maxErrors = request.maxErrors ?? 20;
+  const errors: DataError[] = [];
+  const found: DataColumn[] = [];
+  for (const name of request.numeric) {
+    const col = findColumn(table, name, file, errors);
+    if (col) {
+      found.push(col);
+      collectNonNumeric(table, col, file, errors, maxErrors);
+    }
+  }
+  const labelCol = request.label !== undefined ? findColumn(table, request.label, file, errors) : undefined;
+  if (errors.length > 0) return { ok: false, errors };
+
+  const total = table.rowCount;
+  const present = new Uint8Array(total);
+  let nPresent = 0;
+  for (let i = 0; i < total; i++) {
+    let ok = true;
+    for (const col of found) {
+      if (Number.isNaN(col.values[i])) {
+        ok = false;
+        break;
+      }
+    }
+    if (ok && labelCol) ok = !isMissingCell(labelOf(labelCol, i));
+    present[i] = ok ? 1 : 0;
+    if (ok) nPresent++;
+  }
+  const dropped = total - nPresent;
+  const droppedLabels = labelCol ? [] as string[] : null;
+  if (droppedLabels && labelCol) {
+    for (let i = 0; i < total; i++) {
+      if (!present[i]) {
+        const l = labelOf(labelCol, i);
+        droppedLabels.push(isMissingCell(l) ? '' : l);
+      }
+    }
+  }
+  let columns = found.map((col) => compact(col.values, present, nPresent));
+  let keepIdx = indicesOf(present, nPresent);
+
+  let filteredOut = 0;
+  if (request.filter && nPresent > 0) {
+    const mask = new Float64Array(nPresent);
+    request.filter(columns, nPresent, mask);
+    const keep = new Uint8Array(nPresent);
+    let nKeep = 0;
+    for (let i = 0; i < nPresent; i++) {
+      keep[i] = mask[i] !== 0 && !Number.isNaN(mask[i]) ? 1 : 0;
+      nKeep += keep[i];
+    }
+    filteredOut = nPresent - nKeep;
+    columns = columns.map((c) => compact(c, keep, nKeep));
+    keepIdx = keepIdx.filter((_, i) => keep[i] === 1);
+  }
+
+  const n = keepIdx.length;
+  const lines = new Int32Array(n);
+  for (let i = 0; i < n; i++) lines[i] = table.lines[keepIdx[i]];
+  const labels = labelCol ? keepIdx.map((i) => labelOf(labelCol, i)) : null;
+  return { ok: true, selection: { columns, n, lines, labels, dropped, filteredOut, droppedLabels } };
+}
+
+function findColumn(table: DataTable, name: string, file: string, errors: DataError[]): DataColumn | undefined {
+  const matches = table.columns.filter((c) => c.name === name);
+  if (matches.length === 1) return matches[0];
+  if (matches.length === 0) {
+    errors.push({
+      code: 'missing_column',
+      file,
+      row: 1,
+      column: name,
+      message: `${file}: no column "${name}"; the header has ${table.headers.filter((h) => h !== '').map((h) => `"${h}"`).join(', ')}`,
+    });
+  } else {
+    errors.push({ code: 'duplicate_column', file, row: 1, column: name, message: `${file}: the header names "${name}" ${matches.length} times` });
+  }
+  return undefined;
+}
+
+function collectNonNumeric(table: DataTable, col: DataColumn, file: string, errors: DataError[], maxErrors: number): void {
+  if (col.nonNumeric === 0 || col.text === null) return;
+  for (let i = 0; i < table.rowCount && errors.length < maxErrors; i++) {
+    if (Number.isNaN(col.values[i]) && !isMissingCell(col.text[i])) {
+      const row = table.lines[i];
+      const value = col.text[i];
+      const hint = table.decimal === '.' && /^[+-]?\d+,\d+$/.test(value) ? ' (decimal comma? add decimal "," to the data statement)' : '';
+      errors.push({
+        code: 'non_numeric_cell',
+        file,
+        row,
+        column: col.name,
+        value,
+        message: `${file}:${row}: column "${col.name}" holds "${value}", not a number${hint}`,
+      });
+    }
+  }
+}
+
+function labelOf(col: DataColumn, i: number): string {
+  if (col.text !== null) return col.text[i];
+  const v = col.values[i];
+  return Number.isNaN(v) ? '' : String(v);
+}
+
+function compact(values: Float64Array, keep: Uint8Array, count: number): Float64Array {
+  const out = new Float64Array(count);
+  let k = 0;
+  for (let i = 0; i < keep.length; i++) if (keep[i]) out[k++] = values[i];
+  return out;
+}
+
+function indicesOf(keep: Uint8Array, count: number): number[] {
+  const out = new Array<number>(count);
+  let k = 0;
+  for (let i = 0; i < keep.length; i++) if (keep[i]) out[k++] = i;
+  return out;
+}

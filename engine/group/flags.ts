@@ -1,0 +1,62 @@
+/**
+ * Flags that mark a group's fit for attention in a group table.
+ *
+ * - `failed`: the fit could not run (stop code `failed`, e.g. fewer usable
+ *   rows than free parameters, or an error inside the fit). Exclusive: a failed
+ *   group carries no other flag.
+ * - `not_converged`: the solver stopped without meeting a convergence test
+ *   (`stop.converged` false: iteration or evaluation limit, non-finite values,
+ *   cancellation).
+ * - `at_bound`: at least one parameter estimate sits on a bound.
+ * - `poor_fit`:
+ *   - with absolute σ (`sigma` given): the χ² statistic is implausible for its
+ *     degrees of freedom ν, i.e. P(χ²_ν ≥ χ²) < α (misfit or σ too small) or
+ *     P(χ²_ν ≤ χ²) < α (σ too large), each tail at α = `chi2TailProbability`
+ *     (default 0.001; common practice for a goodness-of-fit test, see e.g.
+ *     Bevington & Robinson, "Data Reduction and Error Analysis", 3rd ed., §11.1);
+ *   - without absolute σ: R² < `minR2` (default 0.9). R² is only a rough
+ *     screen, most useful when groups share one model shape;
+ *   - skipped (not flagged) when ν ≤ 0 or the statistic is not finite.
+ */
+import chisquareCdf from '@stdlib/stats-base-dists-chisquare-cdf';
+import type { FitResult } from '../result';
+
+export type GroupFlag = 'failed' | 'not_converged' | 'at_bound' | 'poor_fit';
+export const GROUP_FLAGS: readonly GroupFlag[] = ['failed', 'not_converged', 'at_bound', 'poor_fit'];
+
+export function isGroupFlag(value: unknown): value is GroupFlag {
+  return typeof value === 'string' && (GROUP_FLAGS as readonly string[]).includes(value);
+}
+
+export interface FlagOptions {
+  /** Poor fit without absolute σ when R² < minR2. Default 0.9. */
+  minR2?: number;
+  /** Per-tail probability of the two-sided χ² test with absolute σ. Default 0.001. */
+  chi2TailProbability?: number;
+}
+
+export const DEFAULT_MIN_R2 = 0.9;
+export const DEFAULT_CHI2_TAIL = 0.001;
+
+/** The flags of one group's fit, in `GROUP_FLAGS` order. */
+export function flagsOf(fit: FitResult, options: FlagOptions = {}): GroupFlag[] {
+  if (fit.stop.code === 'failed') return ['failed'];
+  const flags: GroupFlag[] = [];
+  if (!fit.stop.converged) flags.push('not_converged');
+  if (fit.parameters.some((p) => p.atBound !== null)) flags.push('at_bound');
+  if (isPoorFit(fit, options)) flags.push('poor_fit');
+  return flags;
+}
+
+/** The poor-fit test described in the module comment. */
+export function isPoorFit(fit: FitResult, options: FlagOptions = {}): boolean {
+  const g = fit.goodness;
+  if (fit.sigmaAbsolute && g.chi2 !== null) {
+    const alpha = options.chi2TailProbability ?? DEFAULT_CHI2_TAIL;
+    if (!(g.dof > 0) || !Number.isFinite(g.chi2)) return false;
+    const lower = chisquareCdf(g.chi2, g.dof);
+    return lower < alpha || 1 - lower < alpha;
+  }
+  const minR2 = options.minR2 ?? DEFAULT_MIN_R2;
+  return Number.isFinite(g.r2) && g.r2 < minR2;
+}

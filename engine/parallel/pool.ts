@@ -1,0 +1,120 @@
+/**
+ * A small pool of worker threads running chunks of groups (`fitGroups` jobs,
+ * see protocol.ts). Each worker takes the next chunk as soon as it answers
+ * the previous one (dynamic scheduling, so a slow group delays only its own
+ * chunk); answers are handed back by chunk index, so the caller can place
+ * results in input order whatever the finishing order.
+ *
+ * Failure handling:
+ * - a worker that exits (crash, out of memory) while holding a chunk fails
+ *   that chunk's groups (`onChunkFailed`) and is replaced;
+ * - a worker that exits before it answered anything is taken as a start-up
+ *   failure (e.g. an unusable worker file): no more workers are started and
+ *   the chunks not done are returned in `notRun` for the caller to fit in
+ *   process;
+ * - once the shared cancel flag is set, no further chunk is dispatched; those
+ *   chunks are returned in `notRun` as well.
+ */
+import { Worker } from 'node:worker_threads';
+import type { FitPlan } from '../../parser/plan';
+import type { FitResult } from '../result';
+import type { FitData } from '../run/fit-data';
+import { isWorkerResponse, type WorkerRequest } from './protocol';
+
+export interface PoolJob {
+  workerFile: string;
+  threads: number;
+  fit: FitPlan;
+  chunks: readonly FitData[][];
+  cancelFlag: SharedArrayBuffer;
+  /** Groups of chunk `chunk` finished so far (progress inside a chunk). */
+  onChunkProgress(chunk: number, done: number): void;
+  onChunkDone(chunk: number, results: FitResult[]): void;
+  onChunkFailed(chunk: number, message: string): void;
+}
+
+export interface PoolOutcome {
+  /** Chunks not run by a worker (cancelled before dispatch, or workers could not start). */
+  notRun: number[];
+  /** Why workers could not start, when they could not. */
+  startupError: string | null;
+}
+
+export function runChunksInWorkers(job: PoolJob): Promise<PoolOutcome> {
+  const cancelView = new Int32Array(job.cancelFlag);
+  const isCancelled = () => Atomics.load(cancelView, 0) !== 0;
+  const notRun: number[] = [];
+  let next = 0;
+  let active = 0;
+  let startupError: string | null = null;
+
+  return new Promise((resolve) => {
+    const finishIfIdle = () => {
+      if (active > 0) return;
+      while (next < job.chunks.length) notRun.push(next++);
+      resolve({ notRun: notRun.sort((a, b) => a - b), startupError });
+    };
+
+    const launch = () => {
+      let worker: Worker;
+      try {
+        worker = new Worker(job.workerFile);
+      } catch (e) {
+        startupError = e instanceof Error ? e.message : String(e);
+        finishIfIdle();
+        return;
+      }
+      active++;
+      let current = -1;
+      let answered = false;
+      let lastError: Error | null = null;
+
+      const give = () => {
+        if (startupError !== null || isCancelled() || next >= job.chunks.length) {
+          current = -1;
+          void worker.terminate();
+          return;
+        }
+        current = next++;
+        const request: WorkerRequest = { kind: 'fitGroups', id: current, fit: job.fit, groups: job.chunks[current], cancelFlag: job.cancelFlag };
+        worker.postMessage(request);
+      };
+
+      worker.on('message', (m: unknown) => {
+        if (!isWorkerResponse(m) || m.id !== current) return;
+        answered = true;
+        if (m.kind === 'progress') {
+          job.onChunkProgress(current, m.done);
+          return;
+        }
+        if (m.kind === 'groupsDone') job.onChunkDone(current, m.results);
+        else if (m.kind === 'error') job.onChunkFailed(current, m.message);
+        else job.onChunkFailed(current, `unexpected answer ${m.kind} from a worker thread`);
+        give();
+      });
+      worker.on('error', (err) => {
+        lastError = err;
+      });
+      worker.on('exit', (code) => {
+        active--;
+        if (current >= 0) {
+          const why = lastError?.message ?? `exit code ${code}`;
+          if (!answered) {
+            startupError ??= `worker thread could not start: ${why}`;
+            notRun.push(current);
+          } else {
+            job.onChunkFailed(current, `the worker thread fitting this group stopped: ${why}`);
+            if (startupError === null && !isCancelled() && next < job.chunks.length) launch();
+          }
+          current = -1;
+        }
+        finishIfIdle();
+      });
+      give();
+    };
+
+    const n = Math.max(1, Math.min(job.threads, job.chunks.length));
+    if (job.chunks.length === 0) finishIfIdle();
+    else for (let t = 0; t < n; t++) launch();
+  });
+}

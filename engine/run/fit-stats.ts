@@ -1,0 +1,189 @@
+/**
+ * Statistics of a solved fit: covariance (engine/stats/covariance.ts),
+ * parameter intervals, goodness of fit, per-point influence, residual
+ * diagnostics in predictor order, bands, warnings.
+ *
+ * Residuals and Jacobian are re-evaluated at the final estimate, so the
+ * figures do not depend on what a solver left in its buffers.
+ * Covariance scale: s² = SSR/dof when the variance is estimated, 1 when σ is
+ * absolute. Robust losses: the covariance is that of the final weighted
+ * least-squares step of IRLS (Holland & Welsch 1977, Commun. Statist. A6:813–827),
+ * i.e. J and r scaled by √ρ′(rᵢ²/c²), a common approximation; SSR, R² and
+ * the points table use the plain (weighted) residuals.
+ * Residual diagnostics (Durbin–Watson, runs, Shapiro–Wilk) are null when
+ * dof ≤ 0 or when the residuals are at rounding level:
+ * √(SSR/n) ≤ ROUNDING_LEVEL·max|√wᵢyᵢ| (an exact fit; their signs and
+ * distribution are then noise of the arithmetic, not of the data).
+ */
+import type { FitPlan } from '../../parser/plan';
+import type { FitResult, FitWarning, ResidualDiagnostics } from '../result';
+import { unscaledCovariance } from '../stats/covariance';
+import type { LeastSquaresProblem } from '../solve/problem';
+import type { SolveOutcome } from '../solve/types';
+import { bandsOver } from '../stats/bands';
+import { goodnessOfFit } from '../stats/goodness';
+import { influence, leverages } from '../stats/influence';
+import { correlationMatrix, parameterIntervals, scaleCovariance } from '../stats/intervals';
+import { durbinWatson, orderBy, runsTest } from '../stats/residual-tests';
+import { shapiroWilk } from '../stats/shapiro-wilk';
+import { boundHit, fitWarnings } from '../stats/warnings';
+import { buildCurve } from './curve';
+import { exprText } from './expr';
+import type { FitData } from './fit-data';
+import { expandMatrix, parameterRow } from './fit-result';
+
+export interface FitStatisticsInput {
+  fit: FitPlan;
+  data: FitData;
+  problem: LeastSquaresProblem;
+  outcome: SolveOutcome;
+  linear: boolean;
+  lower: Float64Array;
+  upper: Float64Array;
+  /** Starting values of the free parameters. */
+  start: Float64Array;
+  guessed: { names: string[]; how: string };
+}
+
+type StatFields = Pick<
+  FitResult,
+  'parameters' | 'covariance' | 'correlation' | 'goodness' | 'residuals' | 'points' | 'bands' | 'predictor' | 'response' | 'sigmaAbsolute' | 'rowsDropped'
+>;
+
+export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; warnings: FitWarning[] } {
+  const { fit, data, problem, outcome } = input;
+  const { n, p } = problem;
+  const theta = outcome.theta;
+  const r = new Float64Array(n);
+  const jac = new Float64Array(n * p);
+  problem.residuals(theta, r);
+  if (p > 0) problem.jacobian(theta, jac);
+
+  // Covariance Jacobian (robust: scaled by √ρ′)
+  let jcov = jac;
+  let rcov = r;
+  const rw = outcome.robustWeights;
+  if (rw) {
+    jcov = jac.map((v, k) => v * Math.sqrt(rw[k % n]));
+    rcov = r.map((v, i) => v * Math.sqrt(rw[i]));
+  }
+  const cov = unscaledCovariance(jcov, n, p);
+  const goodness = goodnessOfFit({ residuals: r, y: data.y, weights: data.weights, p, sigmaAbsolute: data.sigmaAbsolute, condition: cov.condition });
+  let s2 = goodness.dof > 0 ? goodness.ssr / goodness.dof : NaN;
+  if (rw && goodness.dof > 0) s2 = rcov.reduce((a, v) => a + v * v, 0) / goodness.dof;
+  const scale = data.sigmaAbsolute ? 1 : s2;
+  const scaled = scaleCovariance(cov.unscaled, scale);
+  const intervals = parameterIntervals(theta, scaled, fit.options.level, goodness.dof);
+  const correlation = correlationMatrix(scaled, p);
+
+  const h = leverages(jcov, n, p, cov.unscaled);
+  const inf = influence(r, h, goodness.rmse, p);
+  const sqrtW = data.weights ? data.weights.map(Math.sqrt) : null;
+  const fitted = data.y.map((y, i) => y - r[i] / (sqrtW ? sqrtW[i] : 1));
+
+  const residuals: ResidualDiagnostics = residualsAtRoundingLevel(r, data, goodness.dof)
+    ? { durbinWatson: null, runs: null, shapiroWilk: null }
+    : (() => {
+        const order = data.x ? orderBy(data.x) : undefined;
+        return { durbinWatson: durbinWatson(r, order), runs: runsTest(r, order), shapiroWilk: shapiroWilk(r) };
+      })();
+
+  let bands: FitResult['bands'] = null;
+  if (data.x && data.predictor && data.modelColumns.length === 1 && n > 0 && theta.every(Number.isFinite)) {
+    let min = Infinity;
+    let max = -Infinity;
+    for (const v of data.x) {
+      if (v < min) min = v;
+      if (v > max) max = v;
+    }
+    const curve = buildCurve({
+      fit,
+      predictor: data.predictor,
+      estimates: theta,
+      cov: scaled,
+      dof: goodness.dof,
+      level: fit.options.level,
+      rmse: goodness.rmse,
+      sigmaAbsolute: data.sigmaAbsolute,
+      weights: data.weights,
+    });
+    bands = bandsOver(min, max, curve.modelAt, curve.cov, curve.p, curve.t, curve.newVar);
+  }
+
+  const freeIndex = new Map<string, number>();
+  fit.parameters.filter((q) => !q.fixed).forEach((q, j) => freeIndex.set(q.name, j));
+  const guessed = new Set(input.guessed.names);
+  const parameters = fit.parameters.map((q) => {
+    const j = freeIndex.get(q.name);
+    if (j === undefined) {
+      const v = q.initial ?? NaN;
+      return parameterRow(q, { estimate: v, stderr: NaN, lower: NaN, upper: NaN, initial: v, guessed: false, atBound: null });
+    }
+    return parameterRow(q, {
+      estimate: theta[j],
+      ...intervals[j],
+      initial: input.start[j],
+      guessed: guessed.has(q.name),
+      atBound: boundHit(theta[j], input.lower[j], input.upper[j]),
+    });
+  });
+
+  const free = fit.parameters.filter((q) => !q.fixed).map((q, j) => ({ name: q.name, estimate: theta[j], lower: input.lower[j], upper: input.upper[j] }));
+  const warnings = fitWarnings({
+    free,
+    correlation,
+    condition: cov.condition,
+    rank: cov.rank,
+    undetermined: cov.dependent.map((j) => free[j].name),
+    n,
+    stop: outcome.stop,
+    residuals,
+    linear: input.linear,
+    rowsDropped: data.rowsDropped,
+    file: data.file,
+    guessed: input.guessed,
+  });
+
+  return {
+    fields: {
+      parameters,
+      covariance: expandMatrix(fit, scaled, 0),
+      correlation: expandMatrix(fit, correlation, NaN),
+      goodness,
+      residuals,
+      points: {
+        row: Array.from(data.lines),
+        x: data.x ? Array.from(data.x) : null,
+        y: Array.from(data.y),
+        fitted: Array.from(fitted),
+        residual: Array.from(data.y, (y, i) => y - fitted[i]),
+        standardized: Array.from(inf.standardized),
+        studentized: Array.from(inf.studentized),
+        leverage: Array.from(inf.leverage),
+        cooksDistance: Array.from(inf.cooksDistance),
+        weight: data.weights ? Array.from(data.weights) : null,
+      },
+      bands,
+      predictor: data.predictor,
+      response: exprText(fit.blocks[0].response),
+      sigmaAbsolute: data.sigmaAbsolute,
+      rowsDropped: data.rowsDropped,
+    },
+    warnings,
+  };
+}
+
+/** Relative size of residuals treated as rounding noise (see module comment). */
+const ROUNDING_LEVEL = 1e-12;
+
+function residualsAtRoundingLevel(r: Float64Array, data: FitData, dof: number): boolean {
+  if (dof <= 0) return true;
+  let ss = 0;
+  let ymax = 0;
+  for (let i = 0; i < r.length; i++) {
+    ss += r[i] * r[i];
+    const wy = Math.abs(data.y[i]) * (data.weights ? Math.sqrt(data.weights[i]) : 1);
+    if (wy > ymax) ymax = wy;
+  }
+  return Math.sqrt(ss / Math.max(1, r.length)) <= ROUNDING_LEVEL * ymax;
+}

@@ -1,0 +1,11 @@
+/** Plan runner: executes a plan into a RunResult. */
+export { runPlan, runPlanSync, type RunOptions, type RunProgress } from './run-plan';
+export { runFit, type RunFitOptions } from './fit';
+export { prepareFitData, sortGroupLabels, type FitData, type FitDataResult, type ColumnCompiler } from './fit-data';
+export { runQueries, type QueryContext } from './queries';
+export { checkExpectations, statisticValue, boundHolds } from './expectations';
+export { resultToJson, resultToJsonValue } from './json';
+export { loadSources, type LoadedSources } from './datasets';
+export { defaultSolvers, type Solvers } from './solvers';
+export { curveFromResult, buildCurve, freeModel } from './curve';
+export { TOOL_NAME, TOOL_VERSION } from './version';

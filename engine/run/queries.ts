@@ -1,0 +1,134 @@
+/**
+ * The spec's queries over finished fits: predict (fitted value with
+ * confidence and prediction intervals), invert (predictor value for a
+ * response, engine/stats/inverse.ts) and compare (AICc, ΔAICc, Akaike weights
+ * and, for two fits of the same data and response with different parameter
+ * counts, the extra-sum-of-squares F test). Per-group fits answer once per group.
+ */
+import type { FitPlan, Query } from '../../parser/plan';
+import { compileColumnExpr } from '../compile';
+import { errorText } from '../messages';
+import type { FitResult, InversePrediction, QueryResult, RunError } from '../result';
+import { bandsAt, predictAt } from '../stats/bands';
+import { akaikeRows, extraSumOfSquaresF, type CompareInput } from '../stats/compare';
+import { inversePrediction } from '../stats/inverse';
+import { curveFromResult } from './curve';
+import { columnsOf, exprText } from './expr';
+
+export interface QueryContext {
+  fitPlans: ReadonlyMap<string, FitPlan>;
+  /** Results by fit name (several for per-group fits; empty when the fit did not run). */
+  results: ReadonlyMap<string, FitResult[]>;
+}
+
+export function runQueries(queries: readonly Query[], ctx: QueryContext): { results: QueryResult[]; errors: RunError[] } {
+  const results: QueryResult[] = [];
+  const errors: RunError[] = [];
+  for (const q of queries) {
+    const out = q.kind === 'compare' ? compare(q, ctx) : q.kind === 'predict' ? predict(q, ctx) : invert(q, ctx);
+    results.push(...out.results);
+    errors.push(...out.errors);
+  }
+  return { results, errors };
+}
+
+type Out = { results: QueryResult[]; errors: RunError[] };
+
+function lookup(name: string, q: Query, ctx: QueryContext): { plan: FitPlan; results: FitResult[] } | RunError {
+  const plan = ctx.fitPlans.get(name);
+  if (!plan) return { code: 'unknown_fit', message: errorText.unknownFit(name), range: q.range };
+  const results = ctx.results.get(name) ?? [];
+  if (results.length === 0) return { code: 'fit_not_run', message: `fit ${name} has no result (see the errors above)`, range: q.range, fit: name };
+  return { plan, results };
+}
+
+const isError = (x: unknown): x is RunError => typeof x === 'object' && x !== null && 'code' in x && 'message' in x;
+
+function predict(q: Extract<Query, { kind: 'predict' }>, ctx: QueryContext): Out {
+  const found = lookup(q.fit, q, ctx);
+  if (isError(found)) return { results: [], errors: [found] };
+  const out: Out = { results: [], errors: [] };
+  for (const r of found.results) {
+    const curve = curveFromResult(found.plan, r);
+    if (!curve || r.predictor === null) {
+      out.errors.push({ code: 'no_predictor', message: errorText.noPredictor(q.fit, 'predict'), range: q.range, fit: q.fit });
+      return out;
+    }
+    if (q.variable !== r.predictor) {
+      out.errors.push({ code: 'wrong_variable', message: errorText.wrongVariable(q.fit, q.variable, r.predictor), range: q.range, fit: q.fit });
+      return out;
+    }
+    out.results.push({
+      kind: 'predict',
+      fit: q.fit,
+      ...(r.group !== undefined ? { group: r.group } : {}),
+      variable: q.variable,
+      predictions: predictAt(q.values, curve.modelAt, curve.cov, curve.p, curve.t, curve.newVar),
+    });
+  }
+  return out;
+}
+
+function invert(q: Extract<Query, { kind: 'invert' }>, ctx: QueryContext): Out {
+  const found = lookup(q.fit, q, ctx);
+  if (isError(found)) return { results: [], errors: [found] };
+  const response = found.plan.blocks[0].response;
+  const responseColumns = columnsOf(response);
+  // The query names a column; a response expression of that one column (e.g. ln(rate)) maps the value first.
+  let transform: ((v: number) => number) | null = null;
+  if (response.kind === 'column' && response.name === q.response) transform = (v) => v;
+  else if (responseColumns.length === 1 && responseColumns[0] === q.response) {
+    const f = compileColumnExpr(response, responseColumns);
+    transform = (v) => {
+      const out = new Float64Array(1);
+      f([Float64Array.of(v)], 1, out);
+      return out[0];
+    };
+  }
+  if (!transform) {
+    return { results: [], errors: [{ code: 'wrong_response', message: errorText.wrongResponse(q.fit, q.response, exprText(response)), range: q.range, fit: q.fit }] };
+  }
+  const out: Out = { results: [], errors: [] };
+  for (const r of found.results) {
+    const curve = curveFromResult(found.plan, r);
+    const xs = r.points.x;
+    if (!curve || !xs || xs.length === 0) {
+      out.errors.push({ code: 'no_predictor', message: errorText.noPredictor(q.fit, 'invert'), range: q.range, fit: q.fit });
+      return out;
+    }
+    const lo = Math.min(...xs);
+    const hi = Math.max(...xs);
+    const band = (v: Float64Array) => bandsAt(v, curve.modelAt, curve.cov, curve.p, curve.t, curve.newVar);
+    const inversions: InversePrediction[] = q.values.map((v) => {
+      const y0 = transform!(v);
+      if (!Number.isFinite(y0)) return { response: v, x: null, interval: [null, null], message: `${exprText(response)} is not defined at ${q.response} = ${v}` };
+      return { ...inversePrediction(y0, lo, hi, band), response: v };
+    });
+    out.results.push({ kind: 'invert', fit: q.fit, ...(r.group !== undefined ? { group: r.group } : {}), response: q.response, inversions });
+  }
+  return out;
+}
+
+function compare(q: Extract<Query, { kind: 'compare' }>, ctx: QueryContext): Out {
+  const rows: CompareInput[] = [];
+  const plans: FitPlan[] = [];
+  for (const name of q.fits) {
+    const found = lookup(name, q, ctx);
+    if (isError(found)) return { results: [], errors: [found] };
+    if (found.results.length !== 1 || found.results[0].group !== undefined) {
+      return { results: [], errors: [{ code: 'compare_grouped', message: `compare needs fits without "per"; ${name} runs per group`, range: q.range, fit: name }] };
+    }
+    const g = found.results[0].goodness;
+    rows.push({ fit: name, n: g.n, p: g.p, ssr: g.ssr, aic: g.aic, aicc: g.aicc, bic: g.bic });
+    plans.push(found.plan);
+  }
+  const sameData = plans.every(
+    (p) => p.blocks[0].data === plans[0].blocks[0].data && exprText(p.blocks[0].response) === exprText(plans[0].blocks[0].response),
+  );
+  const errors: RunError[] = [];
+  if (!sameData || rows.some((r) => r.n !== rows[0].n)) {
+    errors.push({ code: 'compare_different_data', message: `compare: ${q.fits.join(', ')} do not fit the same rows of the same response; information criteria are not comparable`, range: q.range });
+  }
+  const fTest = rows.length === 2 && sameData ? extraSumOfSquaresF(rows[0], rows[1]) : null;
+  return { results: [{ kind: 'compare', fits: [...q.fits], rows: akaikeRows(rows), ...(fTest ? { fTest } : {}) }], errors };
+}

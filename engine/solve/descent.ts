@@ -1,0 +1,192 @@
+/**
+ * Gradient descent with a fixed learning rate — the textbook first-order
+ * method, offered for comparison with Levenberg–Marquardt, never the default.
+ *
+ * Feature scaling: parameters are scaled by the Jacobian column norms at the
+ * start, φⱼ = dⱼ·θⱼ with dⱼ = ‖∂r/∂θⱼ‖ (1 for a zero column), so every scaled
+ * column starts with unit norm. The iteration on ½‖r‖² is
+ *     φ ← φ − η·∇_φ,  ∇_φ = D⁻¹Jᵀr,   i.e.  θ ← Π(θ − η·D⁻²Jᵀr),
+ * with Π the projection onto the bounds (`bounds.ts`).
+ *
+ * Learning rate (documented default): a small grid η_k = 2⁻ᵏ/λ_max,
+ * k = 0…10, where λ_max is the largest eigenvalue of J_sᵀJ_s (J_s = J·D⁻¹ at
+ * the start; 1/λ_max makes descent on the local quadratic model monotone —
+ * Nocedal & Wright, Numerical Optimization, 2nd ed., §3.3). Each candidate
+ * runs a trial of min(50, maxIterations) iterations from θ₀; the largest η
+ * whose trial cost never increased is kept (the smallest if none). The
+ * curvature of a nonlinear model changes along the path, which is why 1/λ_max
+ * alone can diverge. Trial passes count in `evaluations`. λ_max comes from
+ * ml-matrix's symmetric eigensolver of the p×p matrix (an estimate only,
+ * never used to solve).
+ *
+ * Stopping (defaults in brackets):
+ *  small_gradient:  max_j |Jⱼᵀr| / (‖Jⱼ‖·‖r‖) ≤ gtol [1e-10] (as in LM);
+ *  small_reduction: 0 ≤ cost_k − cost_{k+1} ≤ ftol·cost_k [1e-15 — per-step
+ *                   reductions of a first-order method are small by nature];
+ *  small_step:      ‖Δφ‖ ≤ xtol·(‖φ‖ + xtol) [1e-15, for the same reason];
+ *  failed:          divergence, cost > 10·initial cost (lower the rate);
+ *  max_iterations [100000], max_evaluations [2·maxIterations + 600],
+ *  non_finite, cancelled.
+ * Each iteration is one residual pass and one Jacobian pass over the data
+ * (`evaluations`, `jacobianEvaluations`).
+ */
+import { Matrix, EigenvalueDecomposition } from 'ml-matrix';
+import type { LeastSquaresProblem } from './problem';
+import { type SolveOptions, type SolveOutcome, DEFAULT_TOLERANCE, stopReason, fmt, allFinite } from './types';
+import type { StopCode } from '../result';
+import { norm2 } from '../linalg/norm';
+import { project } from './bounds';
+
+export interface DescentOptions extends SolveOptions {
+  /** Learning rate η in scaled parameters. Default: chosen by the trial grid (module comment). */
+  learningRate?: number;
+}
+
+/** Default per-step relative reduction and step tolerances of gradient descent (steps are η·gradient, small by nature). */
+export const DESCENT_FTOL = 1e-15;
+/** Learning-rate grid: 2⁻ᵏ/λ_max for k = 0…GRID_SIZE−1, trials of TRIAL_ITERATIONS. */
+const GRID_SIZE = 11;
+const TRIAL_ITERATIONS = 50;
+/** Divergence: cost above this multiple of the initial cost. */
+const DIVERGENCE = 10;
+
+/** 1/λ_max of J_sᵀJ_s for J_s = J·diag(1/d). */
+export function defaultLearningRate(jac: Float64Array, n: number, p: number, d: Float64Array): number {
+  const rows: number[][] = [];
+  for (let a = 0; a < p; a++) {
+    const row: number[] = [];
+    for (let b = 0; b < p; b++) {
+      let s = 0;
+      for (let i = 0; i < n; i++) s += jac[a * n + i] * jac[b * n + i];
+      row.push(s / (d[a] * d[b]));
+    }
+    rows.push(row);
+  }
+  const ev = new EigenvalueDecomposition(new Matrix(rows), { assumeSymmetric: true }).realEigenvalues;
+  const lmax = Math.max(...ev);
+  return lmax > 0 && Number.isFinite(lmax) ? 1 / lmax : 1;
+}
+
+interface State {
+  x: Float64Array;
+  r: Float64Array;
+  jac: Float64Array;
+  nfev: number;
+  it: number;
+}
+
+interface Settings {
+  rate: number;
+  d: Float64Array;
+  maxIter: number;
+  maxFev: number;
+  ftol: number;
+  xtol: number;
+  gtol: number;
+  /** Trial mode: stop with 'failed' at the first cost increase. */
+  monotone: boolean;
+}
+
+/** Runs the iteration from the state (r, J current at x); returns the stop. */
+function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: DescentOptions): { code: StopCode; message: string } {
+  const { n, p, lower, upper } = problem;
+  const g = new Float64Array(p);
+  const step = new Float64Array(p);
+  const phi = new Float64Array(p);
+  const evaluate = (): boolean => {
+    problem.residuals(s.x, s.r);
+    problem.jacobian(s.x, s.jac);
+    s.nfev++;
+    return allFinite(s.r) && allFinite(s.jac);
+  };
+  const initial = 0.5 * norm2(s.r) ** 2;
+  let cost = initial;
+  for (let k = 0; ; k++) {
+    if (options.cancel?.cancelled) return { code: 'cancelled', message: `cancelled after ${s.it} iteration(s)` };
+    const rn = norm2(s.r);
+    let gnorm = 0;
+    for (let j = 0; j < p; j++) {
+      let sum = 0;
+      for (let i = 0; i < n; i++) sum += s.jac[j * n + i] * s.r[i];
+      g[j] = sum;
+      const cn = norm2(s.jac, j * n, n);
+      if (cn > 0 && rn > 0) gnorm = Math.max(gnorm, Math.abs(sum) / (cn * rn));
+    }
+    if (gnorm <= o.gtol) return { code: 'small_gradient', message: `scaled gradient ${fmt(gnorm)} <= gtol ${fmt(o.gtol)}` };
+    if (k >= o.maxIter) return { code: 'max_iterations', message: `reached the iteration limit ${o.maxIter} (scaled gradient ${fmt(gnorm)})` };
+    if (s.nfev >= o.maxFev) return { code: 'max_evaluations', message: `reached the evaluation limit ${o.maxFev}` };
+    for (let j = 0; j < p; j++) {
+      step[j] = s.x[j];
+      s.x[j] -= (o.rate * g[j]) / (o.d[j] * o.d[j]);
+    }
+    project(s.x, lower, upper);
+    for (let j = 0; j < p; j++) {
+      step[j] = o.d[j] * (s.x[j] - step[j]);
+      phi[j] = o.d[j] * s.x[j];
+    }
+    s.it++;
+    if (!evaluate()) return { code: 'non_finite', message: `residuals or Jacobian not finite at iteration ${s.it}` };
+    const next = 0.5 * norm2(s.r) ** 2;
+    if (!o.monotone) options.onIteration?.(s.it, next);
+    const reduction = cost - next;
+    cost = next;
+    if (next > DIVERGENCE * initial || (o.monotone && reduction < 0)) {
+      return { code: 'failed', message: `diverged: cost rose from ${fmt(initial)} to ${fmt(next)} at iteration ${s.it}; use a smaller learning rate` };
+    }
+    const sn = norm2(step);
+    if (sn <= o.xtol * (norm2(phi) + o.xtol)) return { code: 'small_step', message: `scaled step ${fmt(sn)} <= xtol·(‖φ‖ + xtol) = ${fmt(o.xtol * (norm2(phi) + o.xtol))}` };
+    if (reduction >= 0 && reduction <= o.ftol * (cost + reduction)) {
+      return { code: 'small_reduction', message: `relative reduction ${fmt(reduction / (cost + reduction))} <= ftol ${fmt(o.ftol)}` };
+    }
+  }
+}
+
+export function gradientDescent(problem: LeastSquaresProblem, theta0: Float64Array, options: DescentOptions = {}): SolveOutcome {
+  const { n, p, lower, upper } = problem;
+  const maxIter = options.maxIterations ?? 100000;
+  const settings: Settings = {
+    rate: NaN, d: new Float64Array(p), maxIter, maxFev: options.maxEvaluations ?? 2 * maxIter + 600,
+    ftol: options.ftol ?? DESCENT_FTOL, xtol: options.xtol ?? DESCENT_FTOL, gtol: options.gtol ?? DEFAULT_TOLERANCE, monotone: false,
+  };
+  const x0 = Float64Array.from(theta0);
+  project(x0, lower, upper);
+  const s: State = { x: Float64Array.from(x0), r: new Float64Array(n), jac: new Float64Array(n * p), nfev: 0, it: 0 };
+  const done = (code: StopCode, message: string): SolveOutcome => {
+    const note = Number.isFinite(settings.rate) ? ` (learning rate ${fmt(settings.rate)})` : '';
+    return {
+      theta: s.x, residuals: s.r, jacobian: s.jac, cost: 0.5 * norm2(s.r) ** 2, stop: stopReason(code, message + note),
+      iterations: s.it, evaluations: s.nfev, jacobianEvaluations: s.nfev,
+    };
+  };
+  if (n === 0) return done('failed', 'no data rows to fit');
+  const start = (): boolean => {
+    s.x.set(x0);
+    s.it = 0;
+    problem.residuals(s.x, s.r);
+    problem.jacobian(s.x, s.jac);
+    s.nfev++;
+    return allFinite(s.r) && allFinite(s.jac);
+  };
+  if (!start()) return done('non_finite', 'residuals or Jacobian at the starting values are not finite');
+  if (p === 0) return done('small_gradient', 'no free parameters to fit');
+  for (let j = 0; j < p; j++) {
+    const c = norm2(s.jac, j * n, n);
+    settings.d[j] = c > 0 ? c : 1;
+  }
+  if (options.learningRate !== undefined) settings.rate = options.learningRate;
+  else {
+    const base = defaultLearningRate(s.jac, n, p, settings.d);
+    const trial: Settings = { ...settings, maxIter: Math.min(TRIAL_ITERATIONS, maxIter), maxFev: Infinity, monotone: true };
+    for (let k = 0; k < GRID_SIZE; k++) {
+      trial.rate = base * 2 ** -k;
+      settings.rate = trial.rate;
+      const stop = iterate(problem, s, trial, options);
+      if (stop.code === 'cancelled') return done(stop.code, stop.message);
+      if (stop.code !== 'failed' && stop.code !== 'non_finite') break;
+      start();
+    }
+    if (s.it > 0) start();
+  }
+  const stop = iterate(problem, s, settings, options);
+  return done(stop.code, stop.message);
+}

@@ -1,0 +1,76 @@
+/**
+ * Builds the solvers' `LeastSquaresProblem` from a compiled model and data
+ * arrays: rᵢ(θ) = √wᵢ·(yᵢ − f(xᵢ; θ)), ∂rᵢ/∂θⱼ = −√wᵢ·∂f/∂θⱼ. With σ given,
+ * √wᵢ = 1/σᵢ. Buffers are allocated once here; evaluations allocate nothing.
+ * The double-double methods (for the linear solver's refinement) use the
+ * model's extended kernel; √wᵢ is applied as a double.
+ */
+import type { CompiledModel } from '../compile/index';
+import type { LeastSquaresProblem } from './problem';
+import { DD_OUT, ddSub, ddMul } from '../linalg/dd';
+
+export interface ModelProblemInput {
+  model: CompiledModel;
+  /** Model columns, in `model.columns` order, each of length ≥ n. */
+  columns: readonly Float64Array[];
+  /** Observed response yᵢ (length ≥ n). */
+  response: Float64Array;
+  n: number;
+  /** √wᵢ per row (absent: all 1). */
+  sqrtWeights?: Float64Array;
+  lower?: Float64Array;
+  upper?: Float64Array;
+}
+
+export function modelProblem(input: ModelProblemInput): LeastSquaresProblem {
+  const { model, columns, response: y, n, sqrtWeights: sw } = input;
+  const p = model.params.length;
+  const f = new Float64Array(n);
+  let ext: { fh: Float64Array; fl: Float64Array; jh: Float64Array; jl: Float64Array } | null = null;
+  const extended = (theta: Float64Array) => {
+    ext ??= { fh: new Float64Array(n), fl: new Float64Array(n), jh: new Float64Array(n * p), jl: new Float64Array(n * p) };
+    model.valueAndJacobianExtended(theta, columns, n, ext.fh, ext.fl, ext.jh, ext.jl);
+    return ext;
+  };
+  const problem: LeastSquaresProblem = {
+    n,
+    p,
+    residuals(theta, out) {
+      model.value(theta, columns, n, f);
+      if (sw) for (let i = 0; i < n; i++) out[i] = sw[i] * (y[i] - f[i]);
+      else for (let i = 0; i < n; i++) out[i] = y[i] - f[i];
+    },
+    jacobian(theta, out) {
+      model.valueAndJacobian(theta, columns, n, f, out);
+      for (let j = 0; j < p; j++) {
+        const o = j * n;
+        if (sw) for (let i = 0; i < n; i++) out[o + i] = -sw[i] * out[o + i];
+        else for (let i = 0; i < n; i++) out[o + i] = -out[o + i];
+      }
+    },
+    residualsExtended(theta, hi, lo) {
+      const e = extended(theta);
+      for (let i = 0; i < n; i++) {
+        ddSub(y[i], 0, e.fh[i], e.fl[i]);
+        if (sw) ddMul(DD_OUT[0], DD_OUT[1], sw[i], 0);
+        hi[i] = DD_OUT[0];
+        lo[i] = DD_OUT[1];
+      }
+    },
+    jacobianExtended(theta, hi, lo) {
+      const e = extended(theta);
+      for (let j = 0; j < p; j++) {
+        for (let i = 0; i < n; i++) {
+          const k = j * n + i;
+          const s = sw ? -sw[i] : -1;
+          ddMul(e.jh[k], e.jl[k], s, 0);
+          hi[k] = DD_OUT[0];
+          lo[k] = DD_OUT[1];
+        }
+      }
+    },
+  };
+  if (input.lower) problem.lower = input.lower;
+  if (input.upper) problem.upper = input.upper;
+  return problem;
+}

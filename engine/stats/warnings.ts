@@ -1,0 +1,76 @@
+/**
+ * Fit warnings from the finished statistics. Thresholds and texts live in
+ * engine/messages.ts (WARNING_THRESHOLDS, warningText); each rule below says
+ * which inequality triggers it.
+ */
+import { WARNING_THRESHOLDS as T, num, warningText } from '../messages';
+import type { FitWarning, ResidualDiagnostics, StopReason } from '../result';
+
+export interface WarningInput {
+  /** Free parameters with their estimates and bounds. */
+  free: { name: string; estimate: number; lower: number; upper: number }[];
+  /** Correlation matrix of the free parameters (NaN where undefined). */
+  correlation: number[][];
+  condition: number;
+  rank: number;
+  /** Free parameters left undetermined when rank < p (NaN covariance rows). */
+  undetermined: string[];
+  n: number;
+  stop: StopReason;
+  residuals: ResidualDiagnostics;
+  /** Model linear in its free parameters. */
+  linear: boolean;
+  rowsDropped: number;
+  file: string;
+  guessed: { names: string[]; how: string };
+}
+
+/** Side of the bound an estimate sits on: |θ − b| ≤ boundRelative·max(1, |b|). */
+export function boundHit(estimate: number, lower: number, upper: number): 'lower' | 'upper' | null {
+  const near = (b: number) => Number.isFinite(b) && Math.abs(estimate - b) <= T.boundRelative * Math.max(1, Math.abs(b));
+  if (near(lower)) return 'lower';
+  if (near(upper)) return 'upper';
+  return null;
+}
+
+export function fitWarnings(input: WarningInput): FitWarning[] {
+  const out: FitWarning[] = [];
+  const p = input.free.length;
+  if (input.guessed.names.length) {
+    out.push({ code: 'guessed_start', message: warningText.guessed_start(input.guessed.names, input.guessed.how), parameters: input.guessed.names });
+  }
+  if (input.rowsDropped > 0) out.push({ code: 'rows_dropped', message: warningText.rows_dropped(input.rowsDropped, input.file) });
+  if (!input.stop.converged) out.push({ code: 'no_convergence', message: warningText.no_convergence(input.stop.message) });
+  if (input.n - p < T.minDof) out.push({ code: 'few_dof', message: warningText.few_dof(input.n, p) });
+  for (const par of input.free) {
+    const side = boundHit(par.estimate, par.lower, par.upper);
+    if (side) {
+      out.push({ code: 'at_bound', message: warningText.at_bound(par.name, side, side === 'lower' ? par.lower : par.upper), parameters: [par.name] });
+    }
+  }
+  if (input.rank < p) {
+    const undetermined = input.undetermined;
+    out.push({ code: 'rank_deficient', message: warningText.rank_deficient(input.rank, p, undetermined), parameters: undetermined });
+  } else if (input.condition > T.condition) {
+    out.push({ code: 'ill_conditioned', message: warningText.ill_conditioned(input.condition) });
+  }
+  for (let j = 0; j < p; j++) {
+    for (let k = j + 1; k < p; k++) {
+      const rho = input.correlation[j]?.[k];
+      if (rho !== undefined && Math.abs(rho) > T.correlation) {
+        const names = [input.free[j].name, input.free[k].name];
+        out.push({ code: 'high_correlation', message: warningText.high_correlation(names[0], names[1], rho), parameters: names });
+      }
+    }
+  }
+  const patterns: string[] = [];
+  const runs = input.residuals.runs;
+  if (runs && runs.pValue < T.pValue) patterns.push(`runs test: ${runs.observed} runs where ${num(runs.expected)} are expected, p = ${num(runs.pValue)}`);
+  const dw = input.residuals.durbinWatson;
+  if (dw !== null && Math.abs(dw - 2) > T.durbinWatsonDistance) patterns.push(`Durbin–Watson d = ${num(dw)}, far from 2`);
+  if (patterns.length) out.push({ code: 'residual_pattern', message: warningText.residual_pattern(patterns.join('; ')) });
+  const sw = input.residuals.shapiroWilk;
+  if (sw && sw.pValue < T.pValue) out.push({ code: 'non_normal_residuals', message: warningText.non_normal_residuals(sw.w, sw.pValue) });
+  if (!input.linear) out.push({ code: 'r2_nonlinear', message: warningText.r2_nonlinear() });
+  return out;
+}

@@ -1,0 +1,170 @@
+/**
+ * Data tables behind the charts, derived from a FitResult. Only what is drawn
+ * is thinned (see downsample.ts); nothing here feeds back into statistics.
+ */
+import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
+import type { FitResult } from '../result';
+import { keepExtremes, keepTails, MAX_MARKS } from './downsample';
+
+/** One drawn data point; `row` is the CSV row number (header = row 1). */
+export interface PointRow {
+  row: number;
+  x: number | null;
+  y: number;
+  fitted: number;
+  residual: number;
+  standardized: number;
+}
+
+export interface Thinned<T> {
+  rows: T[];
+  /** Points available before thinning (finite ones). */
+  total: number;
+  thinned: boolean;
+}
+
+export interface BandRow {
+  x: number;
+  fitted: number;
+  confidenceLower: number;
+  confidenceUpper: number;
+  predictionLower: number;
+  predictionUpper: number;
+}
+
+export interface QqRow {
+  row: number;
+  theoretical: number;
+  standardized: number;
+}
+
+export interface BinRow {
+  start: number;
+  end: number;
+  count: number;
+}
+
+export interface CurveRow {
+  z: number;
+  count: number;
+}
+
+const finite = (...v: number[]): boolean => v.every((n) => Number.isFinite(n));
+
+/** All finite points, thinned by x (or by fitted value when there is no predictor), keeping residual extremes. */
+export function pointRows(fit: FitResult, maxMarks = MAX_MARKS, by: 'x' | 'fitted' = 'x'): Thinned<PointRow> {
+  const p = fit.points;
+  const xs = p.x;
+  const key = by === 'x' && xs ? xs : p.fitted;
+  const candidates: number[] = [];
+  for (let i = 0; i < p.y.length; i++) {
+    if (finite(p.y[i], p.fitted[i], p.residual[i], key[i])) candidates.push(i);
+  }
+  const keyed = candidates.map((i) => key[i]);
+  const values = candidates.map((i) => p.residual[i]);
+  const kept = keepExtremes(keyed, values, maxMarks).map((k) => candidates[k]);
+  const rows = kept.map((i) => ({
+    row: p.row[i],
+    x: xs ? xs[i] : null,
+    y: p.y[i],
+    fitted: p.fitted[i],
+    residual: p.residual[i],
+    standardized: p.standardized[i],
+  }));
+  return { rows, total: candidates.length, thinned: kept.length < candidates.length };
+}
+
+/** Band rows with every entry finite (ends that could not be computed are dropped). */
+export function bandRows(fit: FitResult): BandRow[] {
+  const b = fit.bands;
+  if (!b) return [];
+  const rows: BandRow[] = [];
+  for (let i = 0; i < b.x.length; i++) {
+    const r = {
+      x: b.x[i],
+      fitted: b.fitted[i],
+      confidenceLower: b.confidenceLower[i],
+      confidenceUpper: b.confidenceUpper[i],
+      predictionLower: b.predictionLower[i],
+      predictionUpper: b.predictionUpper[i],
+    };
+    if (finite(r.x, r.fitted, r.confidenceLower, r.confidenceUpper, r.predictionLower, r.predictionUpper)) rows.push(r);
+  }
+  return rows;
+}
+
+/**
+ * Normal Q-Q rows: sorted standardized residuals against standard normal
+ * quantiles at Blom's plotting positions (i − 0.375)/(n + 0.25), i = 1..n
+ * (G. Blom, Statistical Estimates and Transformed Beta-Variables, Wiley 1958).
+ * n counts finite residuals; thinning keeps both tails (keepTails).
+ */
+export function qqRows(fit: FitResult, maxMarks = MAX_MARKS): Thinned<QqRow> {
+  const p = fit.points;
+  const items: { row: number; s: number }[] = [];
+  for (let i = 0; i < p.standardized.length; i++) {
+    if (Number.isFinite(p.standardized[i])) items.push({ row: p.row[i], s: p.standardized[i] });
+  }
+  items.sort((a, b) => a.s - b.s);
+  const n = items.length;
+  const positions = keepTails(n, maxMarks);
+  const rows = positions.map((k) => ({
+    row: items[k].row,
+    theoretical: normalQuantile((k + 1 - 0.375) / (n + 0.25), 0, 1),
+    standardized: items[k].s,
+  }));
+  return { rows, total: n, thinned: rows.length < n };
+}
+
+/**
+ * Histogram of standardized residuals with Sturges' bin count
+ * k = ⌈log2 n⌉ + 1 (H. A. Sturges, J. Amer. Statist. Assoc. 21, 1926), clamped to
+ * [5, 40], over a symmetric range covering every value; plus the standard
+ * normal density scaled to counts (n · bin width · φ(z)) for comparison.
+ */
+export function histogramRows(fit: FitResult): { bins: BinRow[]; curve: CurveRow[]; total: number } {
+  const values = fit.points.standardized.filter((v) => Number.isFinite(v));
+  const n = values.length;
+  if (n === 0) return { bins: [], curve: [], total: 0 };
+  const k = Math.min(40, Math.max(5, Math.ceil(Math.log2(n)) + 1));
+  let maxAbs = 3;
+  for (const v of values) maxAbs = Math.max(maxAbs, Math.abs(v));
+  const half = Math.ceil(maxAbs * 2) / 2; // symmetric range, a multiple of 0.5
+  const width = (2 * half) / k;
+  const counts = new Array<number>(k).fill(0);
+  for (const v of values) counts[Math.min(k - 1, Math.floor((v + half) / width))] += 1;
+  const bins = counts.map((count, i) => ({ start: -half + i * width, end: -half + (i + 1) * width, count }));
+  const curve: CurveRow[] = [];
+  const steps = 120;
+  for (let i = 0; i <= steps; i++) {
+    const z = -half + (2 * half * i) / steps;
+    curve.push({ z, count: (n * width * Math.exp(-0.5 * z * z)) / Math.sqrt(2 * Math.PI) });
+  }
+  return { bins, curve, total: n };
+}
+
+/**
+ * Whether the predictor axis reads better on a log scale: all drawn x values
+ * (data and band) positive and spanning more than three decades (max/min > 1000),
+ * and the band grid (when there is one) dense on that scale - no gap between
+ * neighbouring band points wider than 1/50 of the log range - so a curve
+ * computed on an evenly spaced linear grid is never drawn as long chords.
+ */
+export function prefersLogX(points: readonly PointRow[], bands: readonly BandRow[]): boolean {
+  let lo = Infinity;
+  let hi = -Infinity;
+  let count = 0;
+  for (const v of [...points.map((r) => r.x), ...bands.map((r) => r.x)]) {
+    if (v === null) continue;
+    if (!(v > 0)) return false;
+    lo = Math.min(lo, v);
+    hi = Math.max(hi, v);
+    count++;
+  }
+  if (count < 2 || hi / lo <= 1000) return false;
+  const maxGap = Math.log10(hi / lo) / 50;
+  for (let i = 1; i < bands.length; i++) {
+    if (Math.log10(bands[i].x / bands[i - 1].x) > maxGap) return false;
+  }
+  return true;
+}

@@ -1,0 +1,139 @@
+/**
+ * A Markdown report a colleague can review: summary, points to review, per-fit
+ * tables and linked SVG charts, queries, expectations, errors and provenance,
+ * and always a short "Use of results" caution.
+ */
+import type { FitResult, RunResult } from '../result';
+import { formatLevel, formatNumber } from './format';
+import {
+  expectationLine, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL,
+  PARAMETER_HEADERS, parameterRows, queryBlocks, stopLine, warningLines,
+} from './summary';
+import { markdownTable, mdCell } from './table';
+
+export interface ChartLink {
+  title: string;
+  /** Path relative to the report file, with forward slashes. */
+  href: string;
+}
+
+export interface MarkdownOptions {
+  /** Report title. Default `Fit report: <spec path>`. */
+  title?: string;
+  /** Chart links per fit, in `result.fits` order. Default none. */
+  charts?: ChartLink[][];
+  /**
+   * What the spec says about itself: its leading comment block, shown under
+   * "About this spec" (it carries the author's context and cautions). Default none.
+   */
+  about?: string;
+}
+
+/** The leading comment block of a spec (lines starting with `#`, markers removed); empty when none. */
+export function leadingComment(specText: string): string {
+  const out: string[] = [];
+  for (const line of specText.replace(/^\uFEFF/, '').split(/\r?\n/)) {
+    const m = /^\s*#\s?(.*)$/.exec(line);
+    if (!m) break;
+    out.push(m[1].replace(/\s+$/, ''));
+  }
+  return out.join('\n').trim();
+}
+
+export const USE_OF_RESULTS =
+  'Use of results: these numbers describe how a model fits the data given. Where a fit feeds safety, medical or ' +
+  'legal decisions (clinical calibration, structural or pressure ratings, compliance), the results must be ' +
+  'validated under the applicable procedures and local regulations and reviewed by qualified people before use.';
+
+/** Items a reviewer should look at first; empty when nothing stands out. */
+export function reviewPoints(result: RunResult): string[] {
+  const out: string[] = [];
+  for (const fit of result.fits) {
+    if (!fit.stop.converged) out.push(`Fit ${fitLabel(fit)} did not converge (${fit.stop.code}: ${fit.stop.message}); its numbers are not a solution.`);
+    for (const w of warningLines(fit)) out.push(`Fit ${fitLabel(fit)}: ${w}`);
+  }
+  for (const e of result.expectations) if (!e.passed) out.push(`Expectation failed: \`${e.expectation.text}\` (${e.message}).`);
+  for (const err of result.errors) out.push(`Error: ${err.message}`);
+  return out;
+}
+
+function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
+  const lines = [`## ${fitHeading(fit)}`, '', stopLine(fit) + '.', ''];
+  lines.push(`Confidence level ${formatLevel(fit.level)}; intervals use Student's t with ${fit.goodness.dof} degrees of freedom.`, '');
+  lines.push(...markdownTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']), '');
+  lines.push('### Goodness of fit', '');
+  lines.push(...markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left']), '');
+  const warnings = warningLines(fit);
+  if (warnings.length) {
+    lines.push('### Warnings', '', ...warnings.map((w) => `- ${mdCell(w)}`), '');
+  }
+  if (charts.length) {
+    lines.push('### Charts', '');
+    for (const c of charts) lines.push(`![${mdCell(c.title)}](${encodeURI(c.href)})`, '');
+  }
+  return lines;
+}
+
+function provenanceSection(result: RunResult): string[] {
+  const p = result.provenance;
+  const lines = ['## Provenance', ''];
+  const rows: string[][] = [
+    ['tool', `${p.tool} ${p.toolVersion}`],
+    ['run started', p.startedAt],
+  ];
+  if (p.specPath) rows.push(['spec', `\`${p.specPath}\``]);
+  rows.push(['spec SHA-256', `\`${p.specSha256}\``]);
+  for (const d of p.data) rows.push([`data \`${d.name}\``, `\`${d.path}\`, ${d.rows} rows, SHA-256 \`${d.sha256}\``]);
+  for (const fit of result.fits) {
+    rows.push([`options of ${fitLabel(fit)}`, `${METHOD_LABEL[fit.method]}, ${LOSS_LABEL[fit.loss]}, level ${formatLevel(fit.level)}`]);
+  }
+  const extra = (p as unknown as Record<string, unknown>).options;
+  if (extra !== undefined) rows.push(['run options', `\`${JSON.stringify(extra)}\``]);
+  lines.push(...markdownTable(['item', 'value'], rows, ['left', 'left']), '');
+  lines.push('Re-running the same spec on files with the same SHA-256 reproduces these results.', '');
+  return lines;
+}
+
+/** The full report as Markdown text ending with a newline. */
+export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): string {
+  const spec = result.provenance.specPath ?? 'spec';
+  const lines: string[] = [`# ${opts.title ?? `Fit report: ${spec}`}`, ''];
+  lines.push(`Produced by ${result.provenance.tool} ${result.provenance.toolVersion} on ${result.provenance.startedAt}.`, '');
+  lines.push(`> ${USE_OF_RESULTS}`, '');
+  if (opts.about) {
+    lines.push('## About this spec', '', 'From the comment at the top of the spec:', '', '```text', ...opts.about.split('\n'), '```', '');
+  }
+
+  if (result.fits.length) {
+    lines.push('## Summary', '');
+    const rows = result.fits.map((f) => [fitLabel(f), f.stop.converged ? 'yes' : '**no**', String(f.goodness.n), formatNumber(f.goodness.rmse, 4), formatNumber(f.goodness.r2, 5), String(warningLines(f).length)]);
+    lines.push(...markdownTable(['fit', 'converged', 'n', 'RMSE', 'R²', 'warnings'], rows), '');
+    lines.push(expectationTally(result), '');
+  }
+  const review = reviewPoints(result);
+  lines.push('## Points to review', '');
+  lines.push(...(review.length ? review.map((r) => `- ${r}`) : ['Nothing stands out: every fit converged with no warnings and every expectation passed. Still look at the residual charts.']), '');
+
+  result.fits.forEach((fit, i) => lines.push(...fitSection(fit, opts.charts?.[i] ?? [])));
+
+  const blocks = queryBlocks(result);
+  if (blocks.length) {
+    lines.push('## Queries', '');
+    for (const b of blocks) lines.push(`### ${b.heading}`, '', ...markdownTable(b.headers, b.rows, b.align), '', ...b.notes, '');
+  }
+  if (result.expectations.length) {
+    lines.push('## Expectations', '');
+    const rows = result.expectations.map(expectationLine).map((e) => [e.verdict === 'PASS' ? 'PASS' : '**FAIL**', `\`${e.text}\``, e.actual, e.message]);
+    lines.push(...markdownTable(['verdict', 'expectation', 'actual', 'detail'], rows, ['left', 'left', 'right', 'left']), '', expectationTally(result), '');
+  }
+  if (result.errors.length) {
+    lines.push('## Errors', '');
+    for (const e of result.errors) {
+      const where = e.file ? ` (${e.file}${e.row !== undefined ? `, row ${e.row}` : ''}${e.column ? `, column ${e.column}` : ''})` : e.range ? ` (line ${e.range.start.line})` : '';
+      lines.push(`- ${mdCell(e.message)}${where} [${e.code}]`);
+    }
+    lines.push('');
+  }
+  lines.push(...provenanceSection(result));
+  return lines.join('\n').replace(/\n{3,}/g, '\n\n');
+}

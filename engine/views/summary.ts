@@ -1,0 +1,156 @@
+/**
+ * The printable content of a run, as strings, shared by the text and the
+ * Markdown views (they differ only in layout). Digits follow format.ts.
+ */
+import type { ExpectationResult, FitResult, QueryResult, RunResult } from '../result';
+import type { Align } from './table';
+import { formatEstimate, formatInteger, formatLevel, formatNumber, formatP, isUsable, MISSING } from './format';
+
+export const METHOD_LABEL: Record<FitResult['method'], string> = {
+  linear: 'linear least squares',
+  levenberg_marquardt: 'Levenberg–Marquardt',
+  gradient_descent: 'gradient descent',
+};
+
+export const LOSS_LABEL: Record<FitResult['loss'], string> = {
+  squared: 'squared loss',
+  huber: 'Huber loss',
+  soft_l1: 'soft-L1 loss',
+  cauchy: 'Cauchy loss',
+};
+
+/** `newton` or `newton [batch=B]` for per-group fits. */
+export function fitLabel(fit: FitResult): string {
+  return fit.group !== undefined ? `${fit.name} [${fit.group}]` : fit.name;
+}
+
+export function fitHeading(fit: FitResult): string {
+  return `Fit ${fitLabel(fit)}: ${fit.response} against ${fit.predictor ?? 'its columns'} (${METHOD_LABEL[fit.method]}, ${LOSS_LABEL[fit.loss]})`;
+}
+
+/** One sentence on how and why the solver stopped. */
+export function stopLine(fit: FitResult): string {
+  const verdict = fit.stop.converged ? 'converged' : 'NOT converged';
+  const count = fit.iterations > 0 || fit.method !== 'linear' ? `; ${fit.iterations} iterations, ${fit.evaluations} evaluations` : '';
+  return `Stopped: ${verdict} (${fit.stop.code}: ${fit.stop.message}${count})`;
+}
+
+export const PARAMETER_HEADERS = (level: number): string[] => ['parameter', 'estimate', 'std. error', `${formatLevel(level)} low`, `${formatLevel(level)} high`, 'unit', 'note'];
+
+/** Rows of the parameter table: name, estimate, SE, interval ends, unit, note. */
+export function parameterRows(fit: FitResult): string[][] {
+  return fit.parameters.map((p) => {
+    const f = formatEstimate(p.estimate, p.fixed ? null : p.stderr, p.fixed ? null : p.lower, p.fixed ? null : p.upper);
+    const notes: string[] = [];
+    if (p.fixed) notes.push('fixed');
+    if (p.atBound) notes.push(`at ${p.atBound} bound`);
+    if (!p.fixed && isUsable(p.relativeStderr) && p.relativeStderr > 0.5) notes.push(`poorly determined (SE ${formatNumber(p.relativeStderr * 100, 2)}% of estimate)`);
+    return [p.name, f.estimate, p.fixed ? 'fixed' : f.stderr, p.fixed ? '' : f.lower, p.fixed ? '' : f.upper, p.unit ?? '', notes.join('; ')];
+  });
+}
+
+export interface Entry {
+  label: string;
+  value: string;
+  note?: string;
+}
+
+/** Goodness-of-fit entries in reading order. */
+export function goodnessEntries(fit: FitResult): Entry[] {
+  const g = fit.goodness;
+  const e: Entry[] = [
+    { label: 'points (n)', value: formatInteger(g.n), note: fit.rowsDropped > 0 ? `${fit.rowsDropped} rows dropped` : undefined },
+    { label: 'free parameters (p)', value: formatInteger(g.p) },
+    { label: 'degrees of freedom', value: formatInteger(g.dof) },
+    { label: 'sum of squared residuals (SSR)', value: formatNumber(g.ssr, 6), note: fit.sigmaAbsolute ? 'weighted by 1/σ²' : undefined },
+    { label: 'residual standard deviation (RMSE)', value: formatNumber(g.rmse, 6) },
+    { label: 'R²', value: formatNumber(g.r2, 6), note: fit.method === 'linear' ? undefined : 'nonlinear model: R² is descriptive only, not a test of fit' },
+    { label: 'adjusted R²', value: formatNumber(g.adjR2, 6) },
+  ];
+  if (fit.sigmaAbsolute) {
+    e.push({ label: 'χ²', value: formatNumber(g.chi2, 6) });
+    e.push({ label: 'reduced χ² (χ²/dof)', value: formatNumber(g.chi2Reduced, 4), note: 'near 1 when σ matches the scatter' });
+  }
+  e.push({ label: 'AIC', value: formatNumber(g.aic, 6) }, { label: 'AICc', value: formatNumber(g.aicc, 6) }, { label: 'BIC', value: formatNumber(g.bic, 6) });
+  e.push({ label: 'condition number', value: formatNumber(g.condition, 3), note: isUsable(g.condition) && g.condition > 1e8 ? 'large: parameters nearly redundant' : undefined });
+  const r = fit.residuals;
+  if (r.durbinWatson !== null) e.push({ label: 'Durbin–Watson', value: formatNumber(r.durbinWatson, 3), note: 'near 2: no serial correlation' });
+  if (r.runs) e.push({ label: 'runs test p', value: formatP(r.runs.pValue), note: `${r.runs.observed} runs, ${formatNumber(r.runs.expected, 3)} expected` });
+  if (r.shapiroWilk) e.push({ label: 'Shapiro–Wilk p', value: formatP(r.shapiroWilk.pValue), note: `W = ${formatNumber(r.shapiroWilk.w, 4)}` });
+  return e;
+}
+
+/**
+ * Warning texts with their codes. `r2_nonlinear` is left out: the R² entry of
+ * goodnessEntries already carries that note for every nonlinear fit.
+ */
+export function warningLines(fit: FitResult): string[] {
+  return fit.warnings.filter((w) => w.code !== 'r2_nonlinear').map((w) => `${w.message}${w.parameters?.length ? ` (${w.parameters.join(', ')})` : ''} [${w.code}]`);
+}
+
+export interface QueryBlock {
+  heading: string;
+  headers: string[];
+  rows: string[][];
+  /** Column alignment (numbers right, names and notes left). */
+  align: Align[];
+  notes: string[];
+}
+
+function interval(a: number | null, b: number | null, sig = 6): string {
+  return `[${formatNumber(a, sig)}, ${formatNumber(b, sig)}]`;
+}
+
+/** One table per query, with the fit's level in the headings. */
+export function queryBlocks(result: RunResult): QueryBlock[] {
+  const fitOf = (name: string): FitResult | undefined => result.fits.find((f) => f.name === name);
+  return result.queries.map((q: QueryResult): QueryBlock => {
+    const label = (fit: string, group?: string): string => (group !== undefined ? `${fit} [${group}]` : fit);
+    if (q.kind === 'predict') {
+      const lv = formatLevel(fitOf(q.fit)?.level ?? NaN);
+      return {
+        heading: `Predictions from ${label(q.fit, q.group)} at ${q.variable}`,
+        headers: [q.variable, 'fitted', `${lv} confidence interval`, `${lv} prediction interval`],
+        rows: q.predictions.map((p) => [formatNumber(p.x, 6), formatNumber(p.fitted, 6), interval(...p.confidence), interval(...p.prediction)]),
+        align: ['right', 'right', 'right', 'right'],
+        notes: ['Confidence interval: where the mean response lies; prediction interval: where one new observation lies.'],
+      };
+    }
+    if (q.kind === 'invert') {
+      const fit = fitOf(q.fit);
+      const xName = fit?.predictor ?? 'predictor';
+      const lv = formatLevel(fit?.level ?? NaN);
+      return {
+        heading: `Inverse predictions from ${label(q.fit, q.group)}: ${xName} from ${q.response}`,
+        headers: [q.response, xName, `${lv} interval`, 'note'],
+        rows: q.inversions.map((v) => [formatNumber(v.response, 6), formatNumber(v.x, 6), interval(v.interval[0], v.interval[1]), v.message ?? '']),
+        align: ['right', 'right', 'right', 'left'],
+        notes: ['Interval from inverting the prediction band (one new measurement of the response).'],
+      };
+    }
+    const notes: string[] = [];
+    if (q.fTest) {
+      const t = q.fTest;
+      notes.push(`Extra-sum-of-squares F test, ${t.simpler} inside ${t.richer}: F(${t.df1}, ${t.df2}) = ${formatNumber(t.f, 4)}, p = ${formatP(t.pValue)}.`);
+    }
+    notes.push('Lowest AICc is preferred; the Akaike weight is the relative support among these fits.');
+    return {
+      heading: `Comparison of ${q.fits.join(', ')}`,
+      headers: ['fit', 'n', 'p', 'SSR', 'AICc', 'ΔAICc', 'Akaike weight'],
+      rows: q.rows.map((r) => [r.fit, formatInteger(r.n), formatInteger(r.p), formatNumber(r.ssr, 6), formatNumber(r.aicc, 6), formatNumber(r.deltaAicc, 3), formatNumber(r.akaikeWeight, 3)]),
+      align: ['left', 'right', 'right', 'right', 'right', 'right', 'right'],
+      notes,
+    };
+  });
+}
+
+export function expectationLine(e: ExpectationResult): { verdict: 'PASS' | 'FAIL'; text: string; actual: string; message: string } {
+  const text = e.group !== undefined ? `${e.expectation.text} [${e.group}]` : e.expectation.text;
+  return { verdict: e.passed ? 'PASS' : 'FAIL', text, actual: e.actual === null ? MISSING : formatNumber(e.actual, 6), message: e.message };
+}
+
+export function expectationTally(result: RunResult): string {
+  const n = result.expectations.length;
+  const passed = result.expectations.filter((e) => e.passed).length;
+  return n === 0 ? 'No expectations.' : `${passed} of ${n} expectations passed.`;
+}

@@ -1,0 +1,47 @@
+/**
+ * Aligned plain-text tables and Markdown tables from rows of strings.
+ * Widths count Unicode code points (good enough for the symbols we print:
+ * ², χ, −, ±, …).
+ */
+
+export type Align = 'left' | 'right';
+
+const width = (s: string): number => [...s].length;
+
+function pad(s: string, w: number, align: Align): string {
+  const fill = ' '.repeat(Math.max(0, w - width(s)));
+  return align === 'right' ? fill + s : s + fill;
+}
+
+/**
+ * Lines of an aligned table: a header row, a rule of dashes, then the rows.
+ * Columns are separated by two spaces; `align` defaults to left for the first
+ * column and right for the others (numbers). Trailing spaces are trimmed.
+ */
+export function textTable(headers: string[], rows: string[][], align?: Align[], indent = '  '): string[] {
+  const cols = headers.length;
+  const al = (c: number): Align => align?.[c] ?? (c === 0 ? 'left' : 'right');
+  const w = headers.map((h, c) => Math.max(width(h), ...rows.map((r) => width(r[c] ?? ''))));
+  const line = (cells: string[]): string =>
+    (indent + cells.map((cell, c) => pad(cell ?? '', w[c], al(c))).join('  ')).replace(/\s+$/, '');
+  return [
+    line(headers),
+    (indent + w.map((n) => '-'.repeat(n)).join('  ')).replace(/\s+$/, ''),
+    ...rows.map((r) => line(Array.from({ length: cols }, (_, c) => r[c] ?? ''))),
+  ];
+}
+
+/** Escape a cell for a Markdown table (pipes and line breaks). */
+export function mdCell(s: string): string {
+  return s.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/\r?\n/g, ' ');
+}
+
+/** Lines of a GitHub-flavoured Markdown table; `align` as in textTable. */
+export function markdownTable(headers: string[], rows: string[][], align?: Align[]): string[] {
+  const al = (c: number): Align => align?.[c] ?? (c === 0 ? 'left' : 'right');
+  return [
+    `| ${headers.map(mdCell).join(' | ')} |`,
+    `|${headers.map((_, c) => (al(c) === 'right' ? ' ---: ' : ' --- ')).join('|')}|`,
+    ...rows.map((r) => `| ${headers.map((_, c) => mdCell(r[c] ?? '')).join(' | ')} |`),
+  ];
+}

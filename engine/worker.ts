@@ -1,0 +1,58 @@
+/**
+ * Entry of the engine's worker thread (bundled to dist/worker.js). Serves the
+ * jobs of engine/parallel/protocol.ts:
+ * - `fitGroups` (fitGroupsParallel): fits a chunk of groups in order and
+ *   answers `groupsDone` with one FitResult per group;
+ * - `runPlan` (the editor extension): runs a whole plan, reading its data
+ *   files, and answers `runPlanDone`.
+ * Progress goes out as `progress` messages at most every PROGRESS_MS (and at
+ * the end of a job). A job that throws answers `error`; the worker stays up.
+ */
+import { parentPort } from 'node:worker_threads';
+import { fitGroupList } from './parallel/group-job';
+import { cancelTokenOf, isWorkerRequest, type WorkerRequest, type WorkerResponse } from './parallel/protocol';
+import { runPlanJob } from './parallel/plan-job';
+
+/** Minimum interval between progress messages, in ms. */
+const PROGRESS_MS = 50;
+
+function throttled(post: (done: number, total: number) => void): (done: number, total: number) => void {
+  let last = 0;
+  return (done, total) => {
+    const now = Date.now();
+    if (done >= total || now - last >= PROGRESS_MS) {
+      last = now;
+      post(done, total);
+    }
+  };
+}
+
+async function handle(req: WorkerRequest, send: (m: WorkerResponse) => void): Promise<void> {
+  const progress = throttled((done, total) => send({ kind: 'progress', id: req.id, done, total }));
+  const cancel = cancelTokenOf(req.cancelFlag);
+  if (req.kind === 'fitGroups') {
+    const total = req.groups.length;
+    const results = fitGroupList(req.fit, req.groups, cancel, (done) => {
+      if (done < total) progress(done, total);
+    });
+    send({ kind: 'groupsDone', id: req.id, results });
+    return;
+  }
+  const result = await runPlanJob(req.plan, req.options, cancel, progress);
+  send({ kind: 'runPlanDone', id: req.id, result });
+}
+
+const port = parentPort;
+if (port) {
+  const send = (m: WorkerResponse) => port.postMessage(m);
+  port.on('message', (msg: unknown) => {
+    if (!isWorkerRequest(msg)) {
+      const id = typeof (msg as { id?: unknown })?.id === 'number' ? (msg as { id: number }).id : -1;
+      send({ kind: 'error', id, message: 'the engine worker received a message it does not understand' });
+      return;
+    }
+    handle(msg, send).catch((e: unknown) => {
+      send({ kind: 'error', id: msg.id, message: e instanceof Error ? e.message : String(e) });
+    });
+  });
+}

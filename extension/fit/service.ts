@@ -1,0 +1,113 @@
+/**
+ * Fitting a spec from the editor: checks (workspace trust, saved file on
+ * disk, no errors), a cancellable progress notification, the run in the
+ * engine's worker (runner.ts), then the result into the run store (which
+ * refreshes diagnostics, lenses, status bar and panel). One run per spec at
+ * a time: a new run cancels the previous one of the same spec.
+ */
+import * as path from 'node:path';
+import * as vscode from 'vscode';
+import type { LwContext } from '../context';
+import { specDiagnostics } from '../logic/diagnostics';
+import { buildPanelModel } from '../panel/model';
+import type { StoredRun } from '../state/runs';
+import { runInWorker } from './runner';
+import { requireTrust } from '../trust';
+
+export interface FitRequest {
+  /** Only these fits (by name). Default: every fit. */
+  fits?: string[];
+  /** Progress in the status bar instead of a notification (fit on save). */
+  quiet?: boolean;
+}
+
+const running = new Map<string, vscode.CancellationTokenSource>();
+
+export function specName(uri: vscode.Uri): string {
+  return path.posix.basename(uri.path);
+}
+
+export async function fitDocument(ctx: LwContext, doc: vscode.TextDocument, req: FitRequest = {}): Promise<StoredRun | undefined> {
+  if (!(await requireTrust('fit'))) return undefined;
+  const name = specName(doc.uri);
+  if (doc.uri.scheme !== 'file') {
+    void vscode.window.showWarningMessage(`Leastwise: save ${name} to a folder on disk first; data paths are relative to the spec's folder.`);
+    return undefined;
+  }
+  const analysis = await ctx.analyses.get(doc);
+  const errors = specDiagnostics(analysis).filter((d) => d.severity === 'error');
+  if (errors.length) {
+    const first = errors[0];
+    const line = analysis.text.slice(0, first.start).split(/\r\n|\r|\n/).length;
+    const pick = await vscode.window.showErrorMessage(
+      `Leastwise: ${name} has ${errors.length} error${errors.length > 1 ? 's' : ''}; fix ${errors.length > 1 ? 'them' : 'it'} before fitting (line ${line}: ${first.message}).`,
+      'Show Problems',
+    );
+    if (pick) void vscode.commands.executeCommand('workbench.actions.view.problems');
+    return undefined;
+  }
+  const unknown = (req.fits ?? []).filter((f) => !analysis.plan.fits.some((p) => p.name === f));
+  if (unknown.length) {
+    void vscode.window.showErrorMessage(`Leastwise: no fit named ${unknown.join(', ')} in ${name}.`);
+    return undefined;
+  }
+  if (!analysis.plan.fits.length) {
+    void vscode.window.showInformationMessage(`Leastwise: ${name} has no fit statement yet.`);
+    return undefined;
+  }
+
+  const key = doc.uri.toString();
+  running.get(key)?.cancel();
+  const source = new vscode.CancellationTokenSource();
+  running.set(key, source);
+  ctx.runs.notify(doc.uri, 'running', req.fits ? `fit ${req.fits.join(', ')}` : 'all fits');
+  const started = Date.now();
+  const job = {
+    plan: analysis.plan,
+    options: { baseDir: path.dirname(doc.uri.fsPath), specText: analysis.text, specPath: doc.uri.fsPath, ...(req.fits ? { fits: req.fits } : {}) },
+  };
+  const workerPath = ctx.ext.asAbsolutePath(path.join('dist', 'worker.js'));
+  const title = `Leastwise: fitting ${req.fits?.length === 1 ? `${req.fits[0]} in ` : ''}${name}`;
+  try {
+    const outcome = await vscode.window.withProgress(
+      { location: req.quiet ? vscode.ProgressLocation.Window : vscode.ProgressLocation.Notification, title, cancellable: !req.quiet },
+      (progress, token) => {
+        const sub = token.onCancellationRequested(() => source.cancel());
+        let last = 0;
+        return runInWorker(workerPath, {
+          ...job,
+          onProgress: (done, total) => {
+            const pct = total > 0 ? (100 * done) / total : 0;
+            progress.report({ message: `${done} of ${total}`, increment: Math.max(0, pct - last) });
+            last = pct;
+          },
+        }, source.token).finally(() => sub.dispose());
+      },
+    );
+    if (outcome.kind === 'cancelled') {
+      ctx.runs.notify(doc.uri, 'cancelled', 'cancelled');
+      ctx.log.info(`fit of ${doc.uri.fsPath} cancelled after ${Date.now() - started} ms`);
+      return undefined;
+    }
+    if (outcome.kind === 'crashed') {
+      ctx.runs.notify(doc.uri, 'failed', outcome.message);
+      ctx.log.error(`fit of ${doc.uri.fsPath} failed: ${outcome.message}`);
+      void vscode.window.showErrorMessage(`Leastwise: the fit of ${name} could not run: ${outcome.message}`);
+      return undefined;
+    }
+    const model = buildPanelModel(outcome.result, { specUri: key, specName: name });
+    const stored: StoredRun = { specUri: doc.uri, run: outcome.result, model, fits: req.fits ?? 'all', finishedAt: new Date() };
+    ctx.log.info(`fitted ${doc.uri.fsPath} (${req.fits?.join(', ') ?? 'all fits'}) in ${Date.now() - started} ms`);
+    ctx.runs.set(stored);
+    return ctx.runs.get(doc.uri);
+  } finally {
+    if (running.get(key) === source) running.delete(key);
+    source.dispose();
+  }
+}
+
+/** Cancels every run (deactivation). */
+export function cancelAllFits(): void {
+  for (const s of running.values()) s.cancel();
+  running.clear();
+}

@@ -1,0 +1,88 @@
+/**
+ * The editor's view of one spec: the parser's syntax tree, plan and
+ * diagnostics plus what is known about each data file (found or not, its
+ * header). Built in two steps so file reading stays outside this module:
+ *   1. `parse(text)` and `dataRequests(ast)` name the files to look at;
+ *   2. the caller reads the headers (see extension/language/headers.ts) and
+ *      `completeAnalysis` runs the checker with them.
+ */
+import { check, parse, type SpecAst } from '../../parser';
+import type { Diagnostic, Plan } from '../../parser/plan';
+import { spanOf, type Span } from './text';
+
+/** One `data` statement's file, as the editor sees it. */
+export interface DataFileStatus {
+  name: string;
+  /** Path as written in the spec. */
+  path: string;
+  /**
+   * `found` (header read), `missing` (no such file), `unreadable` (exists but
+   * cannot be read or has no header), `unknown` (not looked at, e.g. a
+   * non-file document or a path with no folder to resolve against).
+   */
+  state: 'found' | 'missing' | 'unreadable' | 'unknown';
+  headers?: string[];
+  /** Span of the quoted path in the spec, for diagnostics. */
+  pathSpan?: Span;
+}
+
+/** What the editor needs to read for one data statement. */
+export interface HeaderRequest {
+  name: string;
+  path: string;
+  delimiter?: ',' | ';' | '\t';
+  decimal?: '.' | ',';
+  pathSpan?: Span;
+}
+
+export interface EditorAnalysis {
+  text: string;
+  ast: SpecAst;
+  plan: Plan;
+  /** Parser and checker diagnostics. */
+  diagnostics: Diagnostic[];
+  data: DataFileStatus[];
+}
+
+/** The data files a parsed spec names, with the delimiter/decimal options written next to them. */
+export function dataRequests(ast: SpecAst): HeaderRequest[] {
+  const out: HeaderRequest[] = [];
+  for (const st of ast.statements) {
+    if (st.kind !== 'data' || !st.name || !st.path) continue;
+    const req: HeaderRequest = { name: st.name.name, path: st.path.value, pathSpan: spanOf(st.path.range) };
+    for (const opt of st.options) {
+      if (opt.kind === 'delimiter' && opt.value) {
+        const v = opt.value.value === '\\t' || opt.value.value === 'tab' ? '\t' : opt.value.value;
+        if (v === ',' || v === ';' || v === '\t') req.delimiter = v;
+      } else if (opt.kind === 'decimal' && opt.value) {
+        const v = opt.value.value;
+        if (v === '.' || v === ',') req.decimal = v;
+      }
+    }
+    out.push(req);
+  }
+  return out;
+}
+
+/** Runs the checker with the headers found, e.g. `completeAnalysis(text, parse(text), statuses)`. */
+export function completeAnalysis(
+  text: string,
+  parsed: { ast: SpecAst; diagnostics: Diagnostic[] },
+  data: DataFileStatus[],
+): EditorAnalysis {
+  const headers = (dataName: string): string[] | undefined => data.find((d) => d.name === dataName && d.state === 'found')?.headers;
+  const checked = check(parsed.ast, { headers });
+  return { text, ast: parsed.ast, plan: checked.plan, diagnostics: [...parsed.diagnostics, ...checked.diagnostics], data };
+}
+
+/** Analysis without reading any file (headers unknown: unresolved names are taken as columns). */
+export function analyzeOffline(text: string): EditorAnalysis {
+  const parsed = parse(text);
+  const data: DataFileStatus[] = dataRequests(parsed.ast).map((r) => ({ name: r.name, path: r.path, state: 'unknown', pathSpan: r.pathSpan }));
+  return completeAnalysis(text, parsed, data);
+}
+
+/** Columns of the data source `dataName`, when its header was read. */
+export function columnsOf(analysis: EditorAnalysis, dataName: string): string[] | undefined {
+  return analysis.data.find((d) => d.name === dataName && d.state === 'found')?.headers;
+}

@@ -1,0 +1,171 @@
+/**
+ * Completion items as plain data, chosen from what the line up to the cursor
+ * says is expected: a statement keyword, a fit-body keyword, a method or loss
+ * name, a data or fit name, a `fit.` member in `expect`, a column, a CSV path,
+ * or an expression (functions, the fit's parameters, its data's columns,
+ * constants). extension/language/completion.ts maps them to vscode items.
+ */
+import { FUNCTIONS, LOSSES, METHODS, STATISTICS } from '../../parser/plan';
+import { columnsOf, type EditorAnalysis } from './analysis';
+import { constantDoc, functionDoc, keywordDoc, statisticDoc } from './functionDocs';
+import { dataOfFit, enclosingFit, scanEnclosingFit } from './locate';
+import { blankComments, linePrefix } from './text';
+
+export type CompletionKind = 'keyword' | 'function' | 'parameter' | 'column' | 'constant' | 'data' | 'fit' | 'statistic' | 'value' | 'file';
+
+export interface LsqCompletion {
+  label: string;
+  kind: CompletionKind;
+  detail?: string;
+  /** Markdown. */
+  documentation?: string;
+  /** Text to insert when it differs from the label (quoted column names). */
+  insertText?: string;
+  /** Snippet to insert (`exp($1)`), takes precedence over insertText. */
+  snippet?: string;
+}
+
+export interface CompletionEnv {
+  /** CSV files (paths relative to the spec's folder) offered inside `data x = "`. */
+  csvFiles?: string[];
+}
+
+export const STATEMENT_KEYWORDS = ['data', 'const', 'fit', 'predict', 'invert', 'compare', 'expect'] as const;
+export const FIT_BODY_KEYWORDS = ['model', 'param', 'sigma', 'weight', 'method', 'loss', 'level', 'iterations', 'tolerance', 'rate', 'per'] as const;
+const IDENT = /^[A-Za-z_][A-Za-z0-9_]*$/;
+
+/** Completions at `offset` of the analysed text. */
+export function completionsAt(a: EditorAnalysis, offset: number, env: CompletionEnv = {}): LsqCompletion[] {
+  const raw = linePrefix(a.text, offset);
+  const prefix = blankComments(raw);
+  if (prefix.length < raw.length || /#/.test(raw.replace(/"[^"]*"/g, ''))) return []; // in a comment
+  const fitName = enclosingFit(a, offset) ?? scanEnclosingFit(a.text, offset)?.name;
+  const inFit = fitName !== undefined && !/^\s*(data|const|fit|predict|invert|compare|expect)\b/.test(prefix);
+  let m: RegExpExecArray | null;
+
+  if ((m = /^\s*data\s+\w+\s*=\s*"([^"]*)$/.exec(prefix))) return (env.csvFiles ?? []).map((f) => ({ label: f, kind: 'file' as const }));
+  if (/"[^"]*$/.test(prefix.replace(/"[^"]*"/g, ''))) return quotedColumns(a, fitName, prefix);
+  if (/^\s*[A-Za-z_]*$/.test(prefix)) return inFit ? keywords(FIT_BODY_KEYWORDS) : keywords(STATEMENT_KEYWORDS);
+  if (/\bmethod\s+\w*$/.test(prefix)) return METHODS.map((x) => ({ label: x, kind: 'value' as const, detail: 'method' }));
+  if (/\bloss\s+\w+\s+\w*$/.test(prefix)) return keywords(['scale']);
+  if (/\bloss\s+\w*$/.test(prefix)) return LOSSES.map((x) => ({ label: x, kind: 'value' as const, detail: 'loss' }));
+  if (/^\s*fit\s+\w+\s+\w*$/.test(prefix) && !/\bon\s+\w*$/.test(prefix)) return keywords(['on']);
+  if (/^\s*fit\s+\w+\s+on\s+\w*$/.test(prefix)) return dataNames(a);
+  if (/^\s*(predict|invert)\s+\w*$/.test(prefix) || /^\s*compare\s+[\w\s,]*$/.test(prefix) || /^\s*expect\s+\w*$/.test(prefix)) return fitNames(a);
+  if (/^\s*(predict|invert)\s+\w+\s+\w*$/.test(prefix)) return keywords(['at']);
+  if ((m = /^\s*(predict|invert)\s+(\w+)\s+at\s+\w*$/.exec(prefix))) return queryColumn(a, m[2], m[1] as 'predict' | 'invert');
+  if ((m = /^\s*expect\s+(\w+)\.(\w+)\.\w*$/.exec(prefix))) return [{ label: 'se', kind: 'statistic', detail: `standard error of ${m[2]}`, documentation: statisticDoc('se') }];
+  if ((m = /^\s*expect\s+(\w+)\.\w*$/.exec(prefix))) return fitMembers(a, m[1]);
+  if (/^\s*expect\s+\S+\s+\w*$/.test(prefix)) return keywords(['within', 'above', 'below']);
+  if (/^\s*per\s+\w*$/.test(prefix) && fitName) return columns(a, fitName);
+  if (/^\s*param\s+\w*$/.test(prefix) && fitName) return undeclaredNames(a, fitName);
+  if (/^\s*param\s+\w+.*\s\w*$/.test(prefix)) return keywords(['in', 'fixed']);
+  if ((m = /^\s*data\s+\w+\s*=\s*"[^"]*"\s+.*\bwhere\b/.exec(prefix))) {
+    const data = /^\s*data\s+(\w+)/.exec(prefix)?.[1] ?? '';
+    return [...functions(), ...columnItems(columnsOf(a, data) ?? [], data), ...constants(a)];
+  }
+  if (inFit && fitName && /\b(model|sigma|weight)\b/.test(prefix)) return expression(a, fitName);
+  return [];
+}
+
+function keywords(words: readonly string[]): LsqCompletion[] {
+  return words.map((w) => {
+    const doc = keywordDoc(w);
+    return { label: w, kind: 'keyword' as const, ...(doc ? { detail: doc.split(' - ')[0], documentation: doc } : {}) };
+  });
+}
+
+export function functions(): LsqCompletion[] {
+  return Object.entries(FUNCTIONS).map(([name, arity]) => {
+    const doc = functionDoc(name);
+    const args = Array.from({ length: arity }, (_, i) => `\${${i + 1}}`).join(', ');
+    return { label: name, kind: 'function' as const, detail: doc?.signature ?? `${name}(${arity} argument${arity > 1 ? 's' : ''})`, documentation: doc?.summary, snippet: `${name}(${args})` };
+  });
+}
+
+function dataNames(a: EditorAnalysis): LsqCompletion[] {
+  return a.plan.data.map((d) => ({ label: d.name, kind: 'data' as const, detail: `data "${d.path}"` }));
+}
+
+function fitNames(a: EditorAnalysis): LsqCompletion[] {
+  return a.plan.fits.map((f) => ({ label: f.name, kind: 'fit' as const, detail: `fit on ${f.blocks.map((b) => b.data).join(', ')}` }));
+}
+
+function fitMembers(a: EditorAnalysis, fit: string): LsqCompletion[] {
+  const f = a.plan.fits.find((x) => x.name === fit);
+  const params = (f?.parameters ?? []).map((p) => ({ label: p.name, kind: 'parameter' as const, detail: `parameter of ${fit}` }));
+  const stats = STATISTICS.map((s) => ({ label: s, kind: 'statistic' as const, detail: 'fit statistic', documentation: statisticDoc(s) }));
+  return [...params, ...stats];
+}
+
+function queryColumn(a: EditorAnalysis, fit: string, kind: 'predict' | 'invert'): LsqCompletion[] {
+  const f = a.plan.fits.find((x) => x.name === fit);
+  const block = f?.blocks[0];
+  if (!block) return [];
+  if (kind === 'predict') return block.predictor ? columnItems([block.predictor], block.data) : columnItems(block.columns, block.data);
+  return block.response.kind === 'column' ? columnItems([block.response.name], block.data) : [];
+}
+
+/** Columns of the fit's data: from the CSV header when read, else the columns the plan uses. */
+function columns(a: EditorAnalysis, fit: string): LsqCompletion[] {
+  const data = dataOfFit(a, fit) ?? scanEnclosingFit(a.text, a.text.length)?.data ?? '';
+  const fromHeader = columnsOf(a, data);
+  const used = a.plan.fits.find((f) => f.name === fit)?.blocks.flatMap((b) => b.columns) ?? [];
+  return columnItems(fromHeader ?? [...new Set(used)], data);
+}
+
+function columnItems(names: readonly string[], data: string): LsqCompletion[] {
+  return names.map((c) => ({
+    label: c,
+    kind: 'column' as const,
+    detail: `column of ${data}`,
+    ...(IDENT.test(c) ? {} : { insertText: `"${c}"` }),
+  }));
+}
+
+/** Inside an open `"`: column names without the quotes. */
+function quotedColumns(a: EditorAnalysis, fit: string | undefined, prefix: string): LsqCompletion[] {
+  if (/^\s*data\b/.test(prefix) && !/\bwhere\b/.test(prefix)) return [];
+  const data = fit ? dataOfFit(a, fit) : /^\s*data\s+(\w+)/.exec(prefix)?.[1];
+  return (columnsOf(a, data ?? '') ?? []).map((c) => ({ label: c, kind: 'column' as const, detail: `column of ${data}` }));
+}
+
+function params(a: EditorAnalysis, fit: string): LsqCompletion[] {
+  const f = a.plan.fits.find((x) => x.name === fit);
+  return (f?.parameters ?? []).map((p) => ({ label: p.name, kind: 'parameter' as const, detail: `parameter of ${fit}${p.unit ? ` [${p.unit}]` : ''}` }));
+}
+
+function constants(a: EditorAnalysis): LsqCompletion[] {
+  const named = a.plan.constants.map((c) => ({ label: c.name, kind: 'constant' as const, detail: `const = ${c.value}${c.unit ? ` [${c.unit}]` : ''}` }));
+  return [...named, { label: 'pi', kind: 'constant', detail: constantDoc('pi') }, { label: 'e', kind: 'constant', detail: constantDoc('e') }];
+}
+
+function expression(a: EditorAnalysis, fit: string): LsqCompletion[] {
+  return [...params(a, fit), ...columns(a, fit), ...constants(a), ...functions()];
+}
+
+/**
+ * After `param `: names the fit's expressions use that are neither columns,
+ * constants, functions nor declared parameters (likely parameters to declare).
+ */
+function undeclaredNames(a: EditorAnalysis, fit: string): LsqCompletion[] {
+  const data = dataOfFit(a, fit) ?? '';
+  const known = new Set<string>([
+    ...(columnsOf(a, data) ?? []),
+    ...a.plan.constants.map((c) => c.name),
+    ...Object.keys(FUNCTIONS),
+    ...(a.plan.fits.find((f) => f.name === fit)?.parameters.map((p) => p.name) ?? []),
+    'pi', 'e', 'and', 'or', 'not', 'inf', 'model', 'sigma', 'weight',
+  ]);
+  const f = a.ast.statements.find((s) => s.kind === 'fit' && s.name?.name === fit);
+  const body = f ? a.text.slice(f.range.start.offset, f.range.end.offset) : '';
+  const names = new Set<string>();
+  for (const line of blankComments(body).split(/\r?\n/)) {
+    const m = /^\s*(model|sigma|weight)\b(.*)$/.exec(line);
+    if (!m) continue;
+    const expr = m[2].replace(/"[^"]*"/g, ' ');
+    const rhs = m[1] === 'model' ? expr.slice(expr.indexOf('=') + 1) : expr;
+    for (const w of rhs.match(/[A-Za-z_][A-Za-z0-9_]*/g) ?? []) if (!known.has(w)) names.add(w);
+  }
+  return [...names].map((n) => ({ label: n, kind: 'parameter' as const, detail: 'used in the model, not declared' }));
+}

@@ -1,0 +1,136 @@
+/**
+ * Hover text (Markdown) for the word under the cursor: function docs; a
+ * parameter's declaration and, after a fit, its estimate ± standard error and
+ * confidence interval (a table for per-group fits); constants, data sources,
+ * columns, fits and `expect` statistics.
+ */
+import type { FitResult, RunResult } from '../../engine/result';
+import { FUNCTIONS } from '../../parser/plan';
+import { METHOD_LABEL } from '../../engine/views/summary';
+import { columnsOf, type EditorAnalysis } from './analysis';
+import { fmt, fmtEstimate, fmtInterval, fmtLevel, fmtParameter, fmtPercent } from './format';
+import { constantDoc, functionDoc, keywordDoc, statisticDoc } from './functionDocs';
+import { dataOfFit, enclosingFit } from './locate';
+import { wordAt, type Span } from './text';
+
+export interface LsqHover {
+  markdown: string;
+  span: Span;
+}
+
+/** Rows shown in a per-group parameter table before "… and N more". */
+const MAX_GROUP_ROWS = 12;
+
+export function hoverAt(a: EditorAnalysis, offset: number, run?: RunResult): LsqHover | null {
+  const w = wordAt(a.text, offset);
+  if (!w) return null;
+  const name = w.word;
+  const after = a.text.slice(w.span.end).match(/^\s*\(/);
+  const before = a.text.slice(Math.max(0, w.span.start - 200), w.span.start);
+  const md = (text: string | null): LsqHover | null => (text ? { markdown: text, span: w.span } : null);
+
+  if (!w.quoted && after && Object.prototype.hasOwnProperty.call(FUNCTIONS, name)) {
+    const doc = functionDoc(name);
+    return md(doc ? `\`${doc.signature}\`\n\n${doc.summary}` : `\`${name}(…)\``);
+  }
+  // expect FIT.PARAM / FIT.STAT / FIT.PARAM.se
+  const dotted = /\bexpect\s+([A-Za-z_]\w*)\.(?:([A-Za-z_]\w*)\.)?$/.exec(before);
+  if (dotted) {
+    const fit = dotted[1];
+    if (a.plan.fits.some((f) => f.name === fit && f.parameters.some((p) => p.name === (dotted[2] ?? name)))) {
+      return md(parameterHover(a, fit, dotted[2] ?? name, run));
+    }
+    return md(statisticHover(fit, name, run));
+  }
+  const fit = enclosingFit(a, offset);
+  if (fit && a.plan.fits.find((f) => f.name === fit)?.parameters.some((p) => p.name === name)) return md(parameterHover(a, fit, name, run));
+  const c = a.plan.constants.find((k) => k.name === name);
+  if (c) return md(`**${name}** — constant\n\n\`${name} = ${c.value}\`${c.unit ? ` [${c.unit}]` : ''}`);
+  const d = a.plan.data.find((k) => k.name === name) ?? (a.data.find((k) => k.name === name) ? { name, path: a.data.find((k) => k.name === name)!.path } : undefined);
+  if (d) return md(dataHover(a, name, d.path));
+  if (a.plan.fits.some((f) => f.name === name)) return md(fitHover(name, run));
+  const data = fit ? dataOfFit(a, fit) : undefined;
+  if (data && (columnsOf(a, data)?.includes(name) || a.plan.fits.find((f) => f.name === fit)?.blocks.some((b) => b.columns.includes(name)))) {
+    const file = a.data.find((x) => x.name === data)?.path;
+    return md(`**${name}** — column of \`${data}\`${file ? ` (${file})` : ''}`);
+  }
+  if (!w.quoted && constantDoc(name) && !c) return md(`**${name}** — ${constantDoc(name)}`);
+  const kw = w.quoted ? undefined : keywordDoc(name);
+  if (kw) return md(`\`${kw.split(' - ')[0]}\`${kw.includes(' - ') ? `\n\n${kw.split(' - ').slice(1).join(' - ')}` : ''}`);
+  return null;
+}
+
+/** Declaration and, after a fit, estimates of parameter `name` of fit `fit`. */
+export function parameterHover(a: EditorAnalysis, fit: string, name: string, run?: RunResult): string {
+  const p = a.plan.fits.find((f) => f.name === fit)?.parameters.find((x) => x.name === name);
+  const lines = [`**${name}** — parameter of fit \`${fit}\`${p?.unit ? ` [${p.unit}]` : ''}`];
+  if (p) {
+    const parts = [p.initial !== undefined ? `start ${fmt(p.initial)}` : 'start guessed'];
+    if (p.lower !== undefined || p.upper !== undefined) parts.push(`bounds ${fmtInterval(p.lower ?? -Infinity, p.upper ?? Infinity)}`);
+    if (p.fixed) parts.push('fixed');
+    lines.push(parts.join(' · '));
+  }
+  const fits = run?.fits.filter((f) => f.name === fit) ?? [];
+  if (!fits.length) return lines.join('\n\n');
+  const unit = p?.unit ? ` ${p.unit}` : '';
+  if (fits.length === 1 && fits[0].group === undefined) {
+    const r = fits[0].parameters.find((x) => x.name === name);
+    if (!r) return lines.join('\n\n');
+    const f = fmtParameter(r);
+    const rows = [`estimate **${fmtEstimate(r)}**${unit}${r.fixed ? '' : ' (± standard error)'}`];
+    if (!r.fixed) rows.push(`${fmtLevel(fits[0].level)} interval ${f.interval}${unit}`);
+    if (r.relativeStderr !== null) rows.push(`relative standard error ${fmtPercent(r.relativeStderr)}`);
+    if (r.atBound) rows.push(`⚠ at its ${r.atBound} bound: standard error and interval are not reliable`);
+    if (r.fixed) rows.push('held fixed');
+    return [...lines, rows.join('  \n'), fitStamp(fits[0])].join('\n\n');
+  }
+  const header = `| group | estimate ± SE | ${fmtLevel(fits[0].level)} interval |\n|---|---|---|`;
+  const body = fits.slice(0, MAX_GROUP_ROWS).map((f) => {
+    const r = f.parameters.find((x) => x.name === name);
+    return r ? `| ${f.group ?? ''} | ${fmtEstimate(r)}${r.atBound ? ' ⚠' : ''} | ${fmtParameter(r).interval} |` : `| ${f.group ?? ''} | — | — |`;
+  });
+  const more = fits.length > MAX_GROUP_ROWS ? `\n\n… and ${fits.length - MAX_GROUP_ROWS} more groups (see the results panel)` : '';
+  return [...lines, `${header}\n${body.join('\n')}${more}`].join('\n\n');
+}
+
+function fitStamp(f: FitResult): string {
+  return `_${METHOD_LABEL[f.method] ?? f.method}, n = ${f.goodness.n}, ${f.stop.converged ? 'converged' : 'not converged'}_`;
+}
+
+function statisticHover(fit: string, stat: string, run?: RunResult): string | null {
+  const f = run?.fits.find((x) => x.name === fit);
+  const value = f ? statisticValue(f, stat) : undefined;
+  const doc = statisticDoc(stat);
+  const about = doc ? `\n\n${doc}` : '';
+  if (!f) return `**${stat}** — statistic of fit \`${fit}\`${about}`;
+  return `**${stat}** of \`${fit}\` = ${value === undefined ? '—' : fmt(value)}${about}`;
+}
+
+/** The value an `expect FIT.STAT` names, from a fit result. */
+export function statisticValue(f: FitResult, stat: string): number | null | undefined {
+  const g = f.goodness;
+  const table: Record<string, number | null> = {
+    r2: g.r2, adj_r2: g.adjR2, rmse: g.rmse, ssr: g.ssr, chi2: g.chi2, chi2_reduced: g.chi2Reduced,
+    aic: g.aic, aicc: g.aicc, bic: g.bic, n: g.n, dof: g.dof, iterations: f.iterations,
+  };
+  return Object.prototype.hasOwnProperty.call(table, stat) ? table[stat] : undefined;
+}
+
+function dataHover(a: EditorAnalysis, name: string, path: string): string {
+  const st = a.data.find((d) => d.name === name);
+  const cols = st?.headers;
+  const state = st?.state === 'missing' ? '\n\n⚠ file not found' : '';
+  const list = cols?.length ? `\n\ncolumns: ${cols.slice(0, 20).map((c) => `\`${c}\``).join(', ')}${cols.length > 20 ? ', …' : ''}` : '';
+  return `**${name}** — data \`${path}\`${state}${list}`;
+}
+
+function fitHover(name: string, run?: RunResult): string {
+  const fits = run?.fits.filter((f) => f.name === name) ?? [];
+  if (!fits.length) return `**${name}** — fit (not run yet: use **Leastwise: Fit This File**)`;
+  if (fits.length > 1 || fits[0].group !== undefined) {
+    const ok = fits.filter((f) => f.stop.converged).length;
+    return `**${name}** — fit per group: ${fits.length} groups, ${ok} converged`;
+  }
+  const f = fits[0];
+  return `**${name}** — R² ${fmt(f.goodness.r2)}, RMSE ${fmt(f.goodness.rmse)}, n = ${f.goodness.n}, ${f.stop.converged ? 'converged' : 'not converged'}`;
+}

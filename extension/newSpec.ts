@@ -1,0 +1,92 @@
+/**
+ * "New Spec from CSV": pick a CSV, then the x column, the y column and a
+ * model template (QuickPicks); the spec is written by the shared scaffolder
+ * (engine/templates `scaffoldSpec`, the same as the CLI's `new`) into a NEW
+ * file next to the CSV (`<csv name>.lsq`, or `-2`, `-3`… when taken) and
+ * opened. The CSV itself is only read.
+ */
+import * as path from 'node:path';
+import * as vscode from 'vscode';
+import { parseCsvText } from '../engine/data';
+import { scaffoldSpec, TEMPLATES } from '../engine/templates';
+import type { LwContext } from './context';
+
+/** Largest CSV read for scaffolding (starting values need the data). */
+const MAX_CSV_BYTES = 200 * 1024 * 1024;
+
+export async function newSpecFromCsv(ctx: LwContext, arg?: unknown): Promise<vscode.Uri | undefined> {
+  const csv = await pickCsv(arg);
+  if (!csv) return undefined;
+  const stat = await vscode.workspace.fs.stat(csv);
+  if (stat.size > MAX_CSV_BYTES) {
+    void vscode.window.showErrorMessage(`Leastwise: ${path.posix.basename(csv.path)} is larger than ${MAX_CSV_BYTES / 1024 / 1024} MB; write the spec by hand.`);
+    return undefined;
+  }
+  const text = Buffer.from(await vscode.workspace.fs.readFile(csv)).toString('utf8');
+  const parsed = parseCsvText(text, { file: path.posix.basename(csv.path) });
+  if (!parsed.ok) {
+    void vscode.window.showErrorMessage(`Leastwise: cannot read ${path.posix.basename(csv.path)}: ${parsed.errors[0]?.message ?? 'unknown error'}`);
+    return undefined;
+  }
+  const table = parsed.table;
+  const numeric = table.columns.filter((c) => c.nonNumeric === 0 || c.nonNumeric < table.rowCount / 2);
+  if (numeric.length < 2) {
+    void vscode.window.showErrorMessage('Leastwise: the CSV needs at least two numeric columns.');
+    return undefined;
+  }
+  const col = (c: (typeof numeric)[number]) => ({ label: c.name, description: summarize(c.values) });
+  const x = await vscode.window.showQuickPick(numeric.map(col), { title: 'New spec (1/3): predictor column (x)', placeHolder: 'the column the response varies with', ignoreFocusOut: true });
+  if (!x) return undefined;
+  const y = await vscode.window.showQuickPick(numeric.filter((c) => c.name !== x.label).map(col), { title: 'New spec (2/3): response column (y)', placeHolder: 'the measured column to model', ignoreFocusOut: true });
+  if (!y) return undefined;
+  const t = await vscode.window.showQuickPick(TEMPLATES.map((tp) => ({ label: tp.title, description: tp.formula, id: tp.id })), { title: 'New spec (3/3): model', matchOnDescription: true, ignoreFocusOut: true });
+  if (!t) return undefined;
+  const template = TEMPLATES.find((tp) => tp.id === t.id)!;
+  const xs = table.columns.find((c) => c.name === x.label)!.values;
+  const ys = table.columns.find((c) => c.name === y.label)!.values;
+  const result = scaffoldSpec({ template, dataPath: path.posix.basename(csv.path), headers: table.headers, x: x.label, y: y.label, xValues: xs, yValues: ys });
+  if (!result.ok) {
+    void vscode.window.showErrorMessage(`Leastwise: ${result.message}`);
+    return undefined;
+  }
+  const target = await freeName(csv);
+  await vscode.workspace.fs.writeFile(target, Buffer.from(result.text, 'utf8'));
+  ctx.log.info(`new spec ${target.fsPath} (${template.id}, ${y.label} against ${x.label})`);
+  await vscode.window.showTextDocument(target);
+  return target;
+}
+
+async function pickCsv(arg?: unknown): Promise<vscode.Uri | undefined> {
+  if (arg instanceof vscode.Uri) return arg;
+  const active = vscode.window.activeTextEditor?.document.uri;
+  if (active && /\.(csv|tsv|txt)$/i.test(active.path)) return active;
+  const picked = await vscode.window.showOpenDialog({ canSelectMany: false, filters: { 'CSV data': ['csv', 'tsv', 'txt'] }, title: 'New spec from a CSV file' });
+  return picked?.[0];
+}
+
+/** `<base>.lsq` next to the CSV, or `<base>-2.lsq`, … — never an existing file. */
+async function freeName(csv: vscode.Uri): Promise<vscode.Uri> {
+  const dir = vscode.Uri.joinPath(csv, '..');
+  const base = path.posix.basename(csv.path).replace(/\.[^.]*$/, '');
+  for (let i = 1; ; i++) {
+    const candidate = vscode.Uri.joinPath(dir, `${base}${i === 1 ? '' : `-${i}`}.lsq`);
+    try {
+      await vscode.workspace.fs.stat(candidate);
+    } catch {
+      return candidate;
+    }
+  }
+}
+
+function summarize(v: Float64Array): string {
+  let lo = Infinity;
+  let hi = -Infinity;
+  let n = 0;
+  for (const x of v) {
+    if (!Number.isFinite(x)) continue;
+    lo = Math.min(lo, x);
+    hi = Math.max(hi, x);
+    n++;
+  }
+  return n ? `${n} values, ${+lo.toPrecision(4)} … ${+hi.toPrecision(4)}` : 'no numbers';
+}

@@ -1,0 +1,168 @@
+/**
+ * Layout of the results page: a toolbar (spec, run summary, actions), a
+ * navigation rail (one entry per fit, per grouped fit, and "Queries and
+ * checks") and the selected entry's content. Stateless between renders: the
+ * page calls `render(state)` whenever the model, the selection or the theme
+ * changes; `document.body.dataset.rendered` becomes "true" once every chart
+ * of a render is drawn (tests wait for it).
+ */
+import type { FromPage } from '../protocol';
+import type { PanelModel } from '../model';
+import { finalizeCharts } from './charts';
+import { clear, h } from './dom';
+import { checksSection, fitSection, groupSection, type SectionEvents } from './sections';
+
+export interface AppState {
+  model?: PanelModel;
+  selected?: string;
+  banner?: { kind: 'busy' | 'failed'; text: string };
+}
+
+export interface AppHost {
+  post(msg: FromPage): void;
+  select(key: string): void;
+}
+
+const CHECKS_KEY = '#checks';
+const groupKey = (fit: string): string => `#group:${fit}`;
+
+let renderCount = 0;
+
+export function render(root: HTMLElement, state: AppState, host: AppHost): void {
+  finalizeCharts();
+  clear(root);
+  const token = ++renderCount;
+  document.body.dataset.rendered = 'false';
+  const m = state.model;
+  if (state.banner) root.append(h('div', { class: `lw-banner ${state.banner.kind}`, role: state.banner.kind === 'failed' ? 'alert' : 'status' }, state.banner.text));
+  if (!m) {
+    root.append(h('div', { class: 'lw-empty' },
+      h('h1', null, 'Leastwise results'),
+      h('p', null, 'No results yet. Open a .lsq spec and run “Leastwise: Fit This File”, or use the “Fit” lens above a fit.')));
+    document.body.dataset.rendered = 'true';
+    return;
+  }
+  const selected = resolveSelection(m, state.selected);
+  root.append(toolbar(m, host), h('div', { class: 'lw-body' }, nav(m, selected, host), main(m, selected, host, token)));
+}
+
+/** The entry to show: the stored key if it still exists, else the first entry. */
+export function resolveSelection(m: PanelModel, key: string | undefined): string {
+  const keys = navKeys(m);
+  if (key && (keys.includes(key) || m.fits.some((f) => f.key === key))) return key;
+  return keys[0] ?? '';
+}
+
+function navKeys(m: PanelModel): string[] {
+  const keys: string[] = [];
+  const seenGroups = new Set<string>();
+  for (const f of m.fits) {
+    if (f.group === undefined) keys.push(f.key);
+    else if (!seenGroups.has(f.name)) {
+      seenGroups.add(f.name);
+      keys.push(groupKey(f.name));
+    }
+  }
+  if (m.queries.length || m.expectations.length || m.errors.length) keys.push(CHECKS_KEY);
+  return keys;
+}
+
+function toolbar(m: PanelModel, host: AppHost): HTMLElement {
+  const hl = m.headline;
+  const chip = (text: string, kind: 'ok' | 'warn' | 'bad' | 'plain', title?: string) => h('span', { class: `lw-chip ${kind}`, title }, text);
+  const chips = [
+    chip(`${hl.converged}/${hl.fits} converged`, hl.converged === hl.fits ? 'ok' : 'bad'),
+    chip(`${hl.warnings} warning${hl.warnings === 1 ? '' : 's'}`, hl.warnings ? 'warn' : 'plain'),
+    hl.expectations ? chip(`${hl.expectations - hl.failedExpectations}/${hl.expectations} expectations`, hl.failedExpectations ? 'bad' : 'ok') : null,
+    hl.errors ? chip(`${hl.errors} error${hl.errors === 1 ? '' : 's'}`, 'bad') : null,
+  ];
+  const when = new Date(m.startedAt);
+  return h('header', { class: 'lw-toolbar' },
+    h('div', { class: 'lw-title' }, h('h1', null, m.specName), h('span', { class: 'lw-muted', title: m.startedAt }, Number.isNaN(when.getTime()) ? '' : `fitted ${when.toLocaleString()}`)),
+    h('div', { class: 'lw-chips' }, ...chips),
+    h('div', { class: 'lw-actions' },
+      h('button', { class: 'lw-btn primary', onClick: () => host.post({ type: 'refit' }), title: 'Run the spec again' }, 'Fit again'),
+      h('button', { class: 'lw-btn', onClick: () => host.post({ type: 'export', format: 'markdown' }) }, 'Markdown'),
+      h('button', { class: 'lw-btn', onClick: () => host.post({ type: 'export', format: 'json' }) }, 'JSON'),
+      h('button', { class: 'lw-btn', onClick: () => host.post({ type: 'export', format: 'svg' }) }, 'SVG'),
+    ),
+  );
+}
+
+function nav(m: PanelModel, selected: string, host: AppHost): HTMLElement {
+  const items = navKeys(m).map((key) => {
+    let label = key;
+    let status: 'ok' | 'warn' | 'bad' = 'ok';
+    if (key === CHECKS_KEY) {
+      label = 'Queries and checks';
+      status = m.headline.failedExpectations || m.headline.errors ? 'bad' : 'ok';
+    } else if (key.startsWith('#group:')) {
+      const name = key.slice('#group:'.length);
+      const g = m.groups.find((x) => x.fit === name);
+      label = `${name} (${g?.rows.length ?? 0} groups)`;
+      status = g?.rows.some((r) => r.flags.includes('failed') || r.flags.includes('not_converged')) ? 'bad' : g?.rows.some((r) => r.flags.length) ? 'warn' : 'ok';
+    } else {
+      const f = m.fits.find((x) => x.key === key);
+      status = !f?.converged ? 'bad' : f.warnings.length ? 'warn' : 'ok';
+    }
+    const active = key === selected || (key.startsWith('#group:') && selected.startsWith(`${key.slice('#group:'.length)}/`));
+    return h('li', null, h('button', {
+      class: `lw-nav-item${active ? ' active' : ''}`,
+      data: { key },
+      attrs: { 'aria-current': active ? 'true' : 'false' },
+      onClick: () => host.select(key),
+    }, h('span', { class: `lw-dot ${status}`, attrs: { 'aria-hidden': 'true' } }), label));
+  });
+  return h('nav', { class: 'lw-nav', attrs: { 'aria-label': 'Fits' } }, h('ul', null, ...items));
+}
+
+function main(m: PanelModel, selected: string, host: AppHost, token: number): HTMLElement {
+  const el = h('main', { class: 'lw-main', id: 'main' });
+  const pending: Promise<void>[] = [];
+  // room for a chart: the window less the navigation rail (beside the content above 640 px, on top below)
+  const viewport = window.innerWidth || document.body.clientWidth || 900;
+  const width = Math.max(260, viewport - (viewport > 640 ? 270 : 60));
+  const events: SectionEvents = {
+    onReveal: (fit, param) => host.post({ type: 'reveal', fit, param }),
+    onSelect: (key) => host.select(key),
+    onNeedCharts: (key) => host.post({ type: 'requestCharts', key }),
+    onRow: (row) => {
+      const f = m.fits.find((x) => x.key === shownFitKey);
+      if (f) host.post({ type: 'openRow', fit: f.name, group: f.group, row });
+    },
+    onGroup: (group) => {
+      const f = m.fits.find((x) => x.group === group && (shownGroupFit === undefined || x.name === shownGroupFit));
+      if (f) host.select(f.key);
+    },
+    onError: (message) => host.post({ type: 'log', level: 'error', message }),
+  };
+  let shownFitKey: string | undefined;
+  let shownGroupFit: string | undefined;
+  if (selected === CHECKS_KEY) {
+    const s = checksSection(m);
+    if (s) el.append(s);
+  } else if (selected.startsWith('#group:') || m.fits.find((f) => f.key === selected)?.group !== undefined) {
+    const name = selected.startsWith('#group:') ? selected.slice('#group:'.length) : m.fits.find((f) => f.key === selected)!.name;
+    shownGroupFit = name;
+    const g = m.groups.find((x) => x.fit === name);
+    const fitKey = selected.startsWith('#group:') ? g?.rows[0]?.key : selected;
+    if (g) el.append(groupSection(g, fitKey, events, pending, width));
+    const f = m.fits.find((x) => x.key === fitKey);
+    if (f) {
+      shownFitKey = f.key;
+      el.append(fitSection(f, events, pending, width));
+    }
+  } else {
+    const f = m.fits.find((x) => x.key === selected);
+    if (f) {
+      shownFitKey = f.key;
+      el.append(fitSection(f, events, pending, width));
+    }
+    const checks = checksSection(m);
+    if (checks && m.fits.filter((x) => x.group === undefined).length === 1) el.append(checks);
+  }
+  void Promise.allSettled(pending).then(() => {
+    if (token === renderCount) document.body.dataset.rendered = 'true';
+  });
+  return el;
+}

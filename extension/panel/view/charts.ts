@@ -1,0 +1,67 @@
+/**
+ * Draws Vega-Lite chart specs with vega-embed, under the panel's strict CSP:
+ * expressions go through vega-interpreter (`ast: true`), so nothing is
+ * compiled with `eval`/`new Function`; vega-embed's and the tooltip's own
+ * style sheets are off (page.css styles the tooltip), so no inline style
+ * element is injected. Each chart gets `data-marks` (number of drawn mark
+ * items) once rendered, which the tests read.
+ */
+import embed, { type Result } from 'vega-embed';
+import { expressionInterpreter } from 'vega-interpreter';
+import type { PanelChart } from '../model';
+import { h } from './dom';
+import { themed, themeFont, themePalette } from './theme';
+
+export interface ChartEvents {
+  /** A data point with a CSV row was clicked. */
+  onRow?: (row: number) => void;
+  /** A group's point was clicked (group charts). */
+  onGroup?: (group: string) => void;
+  onError?: (message: string) => void;
+}
+
+const live = new Set<Result>();
+
+/** Finalizes every drawn chart (before the page redraws). */
+export function finalizeCharts(): void {
+  for (const r of live) r.finalize();
+  live.clear();
+}
+
+/** A figure element that draws `chart` into itself; resolves when drawn. */
+export function chartFigure(chart: PanelChart, maxWidth: number, events: ChartEvents): { el: HTMLElement; drawn: Promise<void> } {
+  const target = h('div', { class: 'lw-chart-canvas' });
+  const el = h('figure', { class: 'lw-chart', data: { chartId: chart.id }, attrs: { 'aria-label': chart.title } }, target);
+  const spec = themed(chart.spec, themePalette(), themeFont()) as Record<string, unknown>;
+  if (typeof spec.width === 'number' && maxWidth > 0 && spec.width > maxWidth) spec.width = Math.max(240, Math.floor(maxWidth));
+  const drawn = embed(target, spec as never, {
+    ast: true,
+    expr: expressionInterpreter,
+    actions: false,
+    defaultStyle: false,
+    renderer: 'svg',
+    tooltip: { theme: 'custom', disableDefaultStyle: true },
+    logLevel: 1, // vega.Error
+  })
+    .then((result) => {
+      live.add(result);
+      result.view.addEventListener('click', (_event, item) => {
+        const datum = (item as { datum?: Record<string, unknown> } | null | undefined)?.datum;
+        if (!datum) return;
+        if (typeof datum.row === 'number' && events.onRow) events.onRow(datum.row);
+        else if (typeof datum.group === 'string' && events.onGroup) events.onGroup(datum.group);
+      });
+      el.dataset.marks = String(countMarks(target));
+    })
+    .catch((e: unknown) => {
+      el.dataset.marks = '0';
+      el.append(h('p', { class: 'lw-error' }, `Chart could not be drawn: ${e instanceof Error ? e.message : String(e)}`));
+      events.onError?.(`chart ${chart.id}: ${e instanceof Error ? e.message : String(e)}`);
+    });
+  return { el, drawn };
+}
+
+/** Drawn mark items (points, lines, areas, bars) in an SVG chart. */
+export function countMarks(root: Element): number {
+  return root.querySelectorAll('svg .role-mark path, svg .role-mark line, svg .role-mark rect, svg .role-mark circle').length;
+}

@@ -1,0 +1,71 @@
+/**
+ * Tiny DOM builder for the results page. Text always goes through
+ * `textContent` (never innerHTML), so names and messages from specs and data
+ * files cannot inject markup.
+ */
+
+export type Child = Node | string | number | null | undefined | false;
+
+export interface Props {
+  class?: string;
+  id?: string;
+  title?: string;
+  role?: string;
+  /** `data-*` attributes. */
+  data?: Record<string, string | number>;
+  /** Other attributes (aria-*, type, tabindex, scope...). */
+  attrs?: Record<string, string>;
+  onClick?: (ev: MouseEvent) => void;
+}
+
+export function h<K extends keyof HTMLElementTagNameMap>(tag: K, props: Props | null = null, ...children: Child[]): HTMLElementTagNameMap[K] {
+  const el = document.createElement(tag);
+  if (props) {
+    if (props.class) el.className = props.class;
+    if (props.id) el.id = props.id;
+    if (props.title) el.title = props.title;
+    if (props.role) el.setAttribute('role', props.role);
+    for (const [k, v] of Object.entries(props.data ?? {})) el.dataset[k] = String(v);
+    for (const [k, v] of Object.entries(props.attrs ?? {})) el.setAttribute(k, v);
+    if (props.onClick) {
+      const onClick = props.onClick;
+      const target = el as HTMLElement;
+      target.addEventListener('click', (ev: MouseEvent) => onClick(ev));
+      if (tag !== 'button' && tag !== 'a') {
+        // keyboard access for clickable rows
+        target.tabIndex = 0;
+        target.addEventListener('keydown', (ev: KeyboardEvent) => {
+          if (ev.key === 'Enter' || ev.key === ' ') {
+            ev.preventDefault();
+            onClick(new MouseEvent('click'));
+          }
+        });
+      }
+    }
+  }
+  append(el, children);
+  return el;
+}
+
+export function append(el: HTMLElement, children: Child[]): void {
+  for (const c of children) {
+    if (c === null || c === undefined || c === false) continue;
+    el.append(typeof c === 'number' ? String(c) : c);
+  }
+}
+
+/** A table with a header row; `cell` may return a node for rich cells. */
+export function table(
+  className: string,
+  headers: string[],
+  rows: string[][],
+  opts: { numeric?: (col: number) => boolean; rowProps?: (row: string[], i: number) => Props; caption?: string } = {},
+): HTMLTableElement {
+  const head = h('thead', null, h('tr', null, ...headers.map((t, j) => h('th', { class: opts.numeric?.(j) ? 'num' : undefined, attrs: { scope: 'col' } }, t))));
+  const body = h('tbody', null, ...rows.map((r, i) => h('tr', opts.rowProps?.(r, i) ?? null, ...r.map((t, j) => (j === 0 ? h('th', { attrs: { scope: 'row' } }, t) : h('td', { class: opts.numeric?.(j) ? 'num' : undefined }, t))))));
+  return h('table', { class: className }, opts.caption ? h('caption', null, opts.caption) : null, head, body);
+}
+
+export function clear(el: Element): void {
+  while (el.firstChild) el.removeChild(el.firstChild);
+}

@@ -1,0 +1,59 @@
+/**
+ * What the checker knows while it walks the statements top to bottom:
+ * the declarations seen so far, all declarations in the file (to say
+ * "declared further down" instead of "unknown"), and the reporter.
+ */
+import type { DataSource, FitPlan } from './plan';
+import type { Reporter } from './report';
+
+export interface CheckContext {
+  /**
+   * Column names of a data source, when the caller can read them (editor, CLI).
+   * Returning `undefined` (or omitting the callback) means "unknown": then
+   * unresolved identifiers in expressions are taken as columns.
+   */
+  headers?: (dataName: string, path: string) => string[] | undefined;
+}
+
+export interface ConstInfo {
+  value: number;
+  line: number;
+}
+
+export interface DataInfo {
+  plan: DataSource;
+  /** Header names, when known. */
+  headers: ReadonlySet<string> | undefined;
+  line: number;
+  used: boolean;
+}
+
+export interface FitInfo {
+  plan: FitPlan;
+  line: number;
+  /** Declared parameter names. */
+  params: string[];
+  /** Columns read by the model side (right of `=`), in order of appearance. */
+  modelColumns: string[];
+  /** Columns read by the response side (left of `=`). */
+  responseColumns: string[];
+  /** The fit had problems that make predictor checks meaningless (no model, syntax errors in it...). */
+  incomplete: boolean;
+}
+
+export interface Env {
+  r: Reporter;
+  ctx: CheckContext;
+  /** Declarations seen so far (in file order). */
+  consts: Map<string, ConstInfo>;
+  data: Map<string, DataInfo>;
+  fits: Map<string, FitInfo>;
+  /** First declaration line of every name in the whole file, by kind. */
+  declared: { const: Map<string, number>; data: Map<string, number>; fit: Map<string, number> };
+}
+
+/** Built-in constants (folded like `const` values). */
+export const BUILTIN_CONSTANTS: Readonly<Record<string, number>> = { pi: Math.PI, e: Math.E };
+export function isBuiltinConstant(name: string): boolean {
+  return Object.prototype.hasOwnProperty.call(BUILTIN_CONSTANTS, name);
+}

@@ -1,0 +1,183 @@
+/**
+ * Name resolution and typing of expressions and single values.
+ *
+ * An identifier in an expression resolves, in this order, to: a parameter of
+ * the fit, a constant declared above, `pi`/`e`, a column. With headers known
+ * a name that is none of these is an error ('undefined-name' with
+ * suggestions); with headers unknown it is taken as a column. Quoted names
+ * are always columns. Constants fold into number nodes.
+ *
+ * Conditions (comparisons, and/or/not) may appear only in `where` and as the
+ * first argument of `when`; everywhere else expressions are numbers.
+ */
+import type { ExprAst, ValueAst } from './ast';
+import { FUNCTIONS, isFunctionName, type Expr, type Range } from './plan';
+import { BUILTIN_CONSTANTS, isBuiltinConstant, type Env } from './check-env';
+import { MSG } from './messages';
+import { suggest } from './suggest';
+
+export interface ExprScope {
+  /** Parameters of the fit (empty outside fits). */
+  params: ReadonlySet<string>;
+  /** Parameters may appear here (model side only). */
+  allowParams: boolean;
+  /** Where we are, for 'param-not-allowed' messages ("response", "sigma"...). */
+  place: string;
+  /** Data source whose columns are read. */
+  dataName: string;
+  columns: ReadonlySet<string> | undefined;
+}
+
+/** What an expression read. */
+export interface ExprUse {
+  columns: string[];
+  params: Set<string>;
+  /** Contains a piece the parser could not read. */
+  broken: boolean;
+}
+
+export const newUse = (): ExprUse => ({ columns: [], params: new Set(), broken: false });
+
+const isCondition = (e: ExprAst): boolean => e.kind === 'compare' || e.kind === 'logic' || e.kind === 'not';
+
+export function resolveExpr(env: Env, ast: ExprAst, want: 'number' | 'condition', scope: ExprScope, use: ExprUse): Expr {
+  if (ast.kind !== 'error') {
+    if (want === 'number' && isCondition(ast)) env.r.report('number-expected', MSG.numberExpected, ast.range);
+    if (want === 'condition' && !isCondition(ast)) env.r.report('condition-expected', MSG.conditionExpected, ast.range);
+  }
+  const num = (e: ExprAst) => resolveExpr(env, e, 'number', scope, use);
+  const cond = (e: ExprAst) => resolveExpr(env, e, 'condition', scope, use);
+  const range = ast.range;
+  switch (ast.kind) {
+    case 'error':
+      use.broken = true;
+      return { kind: 'number', value: 0, range };
+    case 'number':
+      if (!Number.isFinite(ast.value)) env.r.report('number-range', MSG.numberRange(String(ast.value)), range);
+      return { kind: 'number', value: Number.isFinite(ast.value) ? ast.value : 0, range };
+    case 'name':
+      return resolveName(env, ast.name, ast.quoted, range, scope, use);
+    case 'call':
+      return resolveCall(env, ast, scope, use);
+    case 'unary': {
+      const arg = num(ast.arg);
+      if (ast.op === '+') return { ...arg, range };
+      if (arg.kind === 'number') return { kind: 'number', value: -arg.value, range };
+      return { kind: 'negate', arg, range };
+    }
+    case 'binary':
+      return { kind: 'binary', op: ast.op, left: num(ast.left), right: num(ast.right), range };
+    case 'compare':
+      return { kind: 'compare', op: ast.op, left: num(ast.left), right: num(ast.right), range };
+    case 'logic':
+      return { kind: 'logic', op: ast.op, left: cond(ast.left), right: cond(ast.right), range };
+    case 'not':
+      return { kind: 'not', arg: cond(ast.arg), range };
+  }
+}
+
+function addColumn(use: ExprUse, name: string): void {
+  if (!use.columns.includes(name)) use.columns.push(name);
+}
+
+function resolveName(env: Env, name: string, quoted: boolean, range: Range, scope: ExprScope, use: ExprUse): Expr {
+  if (!quoted) {
+    if (scope.params.has(name)) {
+      if (!scope.allowParams) env.r.report('param-not-allowed', MSG.paramNotAllowed(name, scope.place), range);
+      use.params.add(name);
+      return { kind: 'param', name, range };
+    }
+    const c = env.consts.get(name);
+    if (c) return { kind: 'number', value: c.value, range };
+    if (isBuiltinConstant(name)) return { kind: 'number', value: BUILTIN_CONSTANTS[name], range };
+    const later = env.declared.const.get(name);
+    if (later !== undefined && later > range.start.line && !(scope.columns?.has(name) ?? false)) {
+      env.r.report('declared-later', MSG.declaredLater('constant', name, later), range);
+      return { kind: 'number', value: 0, range };
+    }
+  }
+  if (scope.columns && !scope.columns.has(name)) {
+    if (quoted) {
+      env.r.report('unknown-column', MSG.unknownColumn(name, scope.dataName), range, suggest(name, scope.columns));
+    } else {
+      const candidates = [...(scope.allowParams ? scope.params : []), ...env.consts.keys(), ...scope.columns, ...Object.keys(BUILTIN_CONSTANTS)];
+      env.r.report('undefined-name', MSG.undefinedName(name), range, suggest(name, candidates));
+    }
+  }
+  addColumn(use, name);
+  return { kind: 'column', name, range };
+}
+
+/** Common spellings from other notations whose edit distance is too large for `suggest`. */
+const FUNCTION_HINTS: Readonly<Record<string, string[]>> = {
+  log: ['ln', 'log10'], if: ['when'], arcsin: ['asin'], arccos: ['acos'], arctan: ['atan'], power: ['pow'],
+};
+
+function resolveCall(env: Env, ast: Extract<ExprAst, { kind: 'call' }>, scope: ExprScope, use: ExprUse): Expr {
+  const { fn, args, range } = ast;
+  if (!isFunctionName(fn)) {
+    const hint = Object.prototype.hasOwnProperty.call(FUNCTION_HINTS, fn) ? FUNCTION_HINTS[fn] : suggest(fn, Object.keys(FUNCTIONS));
+    env.r.report('unknown-function', MSG.unknownFunction(fn), ast.fnRange, hint);
+    for (const a of args) resolveExpr(env, a, 'number', scope, use);
+    return { kind: 'number', value: 0, range };
+  }
+  const arity = FUNCTIONS[fn];
+  if (args.length !== arity && !args.some((a) => a.kind === 'error')) {
+    env.r.report('arity', MSG.arity(fn, arity, args.length), range);
+  }
+  const resolved = args.map((a, i) => resolveExpr(env, a, fn === 'when' && i === 0 ? 'condition' : 'number', scope, use));
+  return { kind: 'call', fn, args: resolved, range };
+}
+
+export interface ValueRules {
+  /** `inf` allowed (parameter bounds only). */
+  allowInf: boolean;
+}
+
+/**
+ * A single number written in a statement: literal, `inf`, or a constant
+ * name (declared above, or `pi`/`e`), with optional sign. `undefined` when
+ * it could not be read (already reported).
+ */
+export function resolveValue(env: Env, v: ValueAst, rules: ValueRules): number | undefined {
+  switch (v.kind) {
+    case 'error':
+      return undefined;
+    case 'number':
+      if (!Number.isFinite(v.value)) {
+        env.r.report('number-range', MSG.numberRange(String(Math.abs(v.value))), v.range);
+        return undefined;
+      }
+      return v.value;
+    case 'inf':
+      if (!rules.allowInf) {
+        env.r.report('inf-not-allowed', MSG.infNotAllowed, v.range);
+        return undefined;
+      }
+      return v.negative ? -Infinity : Infinity;
+    case 'name': {
+      const sign = v.negative ? -1 : 1;
+      const c = env.consts.get(v.name);
+      if (c) return sign * c.value;
+      if (isBuiltinConstant(v.name)) return sign * BUILTIN_CONSTANTS[v.name];
+      const later = env.declared.const.get(v.name);
+      if (later !== undefined && later > v.range.start.line) {
+        env.r.report('declared-later', MSG.declaredLater('constant', v.name, later), v.range);
+      } else {
+        const candidates = [...env.consts.keys(), ...Object.keys(BUILTIN_CONSTANTS), ...(rules.allowInf ? ['inf'] : [])];
+        env.r.report('undefined-name', MSG.notAConstant(v.name), v.range, suggest(v.name, candidates));
+      }
+      return undefined;
+    }
+  }
+}
+
+/** Text of a value as written (for messages and expectation text). */
+export function valueText(v: ValueAst): string {
+  switch (v.kind) {
+    case 'number': return String(v.value);
+    case 'inf': return v.negative ? '-inf' : 'inf';
+    case 'name': return (v.negative ? '-' : '') + v.name;
+    case 'error': return '?';
+  }
+}

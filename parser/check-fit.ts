@@ -1,0 +1,157 @@
+/**
+ * Checks one `fit NAME on DATA { ... }` block and builds its FitPlan:
+ * data reference, parameters (names, start values, bounds, fixed), the model
+ * line, sigma/weight, options with their defaults, `per` grouping.
+ */
+import type { FitAst, FitItemAst, NameAst, ParamAst } from './ast';
+import type { Expr, FitBlock, FitPlan, ParameterPlan } from './plan';
+import { isBuiltinConstant, type Env, type FitInfo } from './check-env';
+import { newUse, resolveExpr, resolveValue, type ExprScope, type ExprUse } from './check-expr';
+import { checkOptions } from './check-options';
+import { MSG } from './messages';
+import { suggest } from './suggest';
+import { EMPTY_RANGE } from './source';
+
+export function checkFit(env: Env, fit: FitAst): FitInfo {
+  const { r } = env;
+  const name = fit.name?.name ?? '';
+  if (fit.name) {
+    const prev = env.fits.get(name);
+    if (prev) r.report('duplicate-name', MSG.duplicate('fit', name, prev.line), fit.name.range);
+  }
+
+  // Data source and its columns.
+  const dataName = fit.data?.name ?? '';
+  let columns: ReadonlySet<string> | undefined;
+  if (fit.data) {
+    const d = env.data.get(dataName);
+    if (d) {
+      d.used = true;
+      columns = d.headers;
+    } else if (env.declared.data.has(dataName)) {
+      r.report('declared-later', MSG.declaredLater('data', dataName, env.declared.data.get(dataName)!), fit.data.range);
+    } else {
+      r.report('unknown-data', MSG.unknownData(dataName), fit.data.range, suggest(dataName, env.data.keys()));
+    }
+  }
+
+  // Parameters first: the model may use them before their lines.
+  const params: ParameterPlan[] = [];
+  const paramAsts = new Map<string, ParamAst & { name: NameAst }>();
+  for (const item of fit.items) {
+    if (item.kind !== 'param' || !item.name) continue;
+    const p = item as ParamAst & { name: NameAst };
+    const pname = p.name.name;
+    const before = paramAsts.get(pname);
+    if (before) {
+      r.report('duplicate-name', MSG.duplicate('parameter', pname, before.name.range.start.line), p.name.range);
+      continue;
+    }
+    if (isBuiltinConstant(pname)) r.report('reserved-name', MSG.reservedName(pname), p.name.range);
+    const c = env.consts.get(pname);
+    if (c) r.report('duplicate-name', MSG.paramIsConst(pname, c.line), p.name.range);
+    if (columns?.has(pname)) r.report('param-column-clash', MSG.paramColumnClash(pname, dataName), p.name.range);
+    paramAsts.set(pname, p);
+    params.push(checkParam(env, p));
+  }
+  const paramNames = new Set(paramAsts.keys());
+
+  // Model, sigma, weight.
+  const scope = (place: string, allowParams: boolean): ExprScope => ({ params: paramNames, allowParams, place, dataName, columns });
+  const models = fit.items.filter((i): i is Extract<FitItemAst, { kind: 'model' }> => i.kind === 'model');
+  for (const extra of models.slice(1)) r.report('duplicate-option', MSG.duplicateOption('model'), extra.range);
+  const responseUse = newUse();
+  const modelUse = newUse();
+  const otherUse = newUse();
+  let response: Expr = { kind: 'number', value: 0 };
+  let model: Expr = { kind: 'number', value: 0 };
+  const first = models[0];
+  if (!first) {
+    r.report('missing-model', MSG.missingModel(name || 'this fit'), fit.name?.range ?? fit.range);
+  } else {
+    response = resolveExpr(env, first.response, 'number', scope('response', false), responseUse);
+    model = resolveExpr(env, first.model, 'number', scope('model', true), modelUse);
+    if (!responseUse.broken && responseUse.columns.length === 0) r.report('response-no-column', MSG.responseNoColumn, first.response.range);
+    if (!modelUse.broken && modelUse.params.size === 0) r.report('no-parameter', MSG.noParameter, first.model.range);
+  }
+  const single = (kind: 'sigma' | 'weight'): Expr | undefined => {
+    const items = fit.items.filter((i): i is Extract<FitItemAst, { kind: 'sigma' | 'weight' }> => i.kind === kind);
+    for (const extra of items.slice(1)) r.report('duplicate-option', MSG.duplicateOption(kind), extra.range);
+    return items[0] ? resolveExpr(env, items[0].expr, 'number', scope(kind, false), otherUse) : undefined;
+  };
+  const sigma = single('sigma');
+  const weight = single('weight');
+
+  // Unused parameters (skipped when the model could not be read).
+  if (first && !modelUse.broken) {
+    for (const [pname, p] of paramAsts) {
+      if (!modelUse.params.has(pname)) r.report('unused-parameter', MSG.unusedParameter(pname), p.name.range);
+    }
+  }
+
+  const { options, groupBy } = checkOptions(env, fit, dataName, columns);
+  const allColumns = mergeColumns(responseUse, modelUse, otherUse);
+  const block: FitBlock = {
+    data: dataName,
+    response,
+    model,
+    columns: allColumns,
+    range: first?.range ?? fit.range,
+  };
+  if (sigma) block.sigma = sigma;
+  if (weight) block.weight = weight;
+  if (modelUse.columns.length === 1) block.predictor = modelUse.columns[0];
+
+  const plan: FitPlan = { name, blocks: [block], parameters: params, options, range: fit.range };
+  if (groupBy !== undefined) plan.groupBy = groupBy;
+  return {
+    plan,
+    line: fit.range.start.line,
+    params: [...paramNames],
+    modelColumns: modelUse.columns,
+    responseColumns: responseUse.columns,
+    incomplete: !first || modelUse.broken || responseUse.broken,
+  };
+}
+
+function mergeColumns(...uses: ExprUse[]): string[] {
+  const out: string[] = [];
+  for (const u of uses) for (const c of u.columns) if (!out.includes(c)) out.push(c);
+  return out;
+}
+
+function checkParam(env: Env, p: ParamAst & { name: NameAst }): ParameterPlan {
+  const { r } = env;
+  for (const rep of p.repeated) r.report('duplicate-option', MSG.duplicateOption(`a part of parameter '${p.name.name}'`), rep);
+  const initial = p.initial ? resolveValue(env, p.initial, { allowInf: false }) : undefined;
+  let lower: number | undefined;
+  let upper: number | undefined;
+  if (p.bounds) {
+    const lo = resolveValue(env, p.bounds.low, { allowInf: true });
+    const hi = resolveValue(env, p.bounds.high, { allowInf: true });
+    if (lo !== undefined && hi !== undefined && lo >= hi) {
+      r.report('bounds-order', MSG.boundsOrder(showBound(lo), showBound(hi)), p.bounds.range);
+    } else {
+      lower = lo;
+      upper = hi;
+    }
+    const ordered = !(lo !== undefined && hi !== undefined && lo >= hi);
+    if (ordered && initial !== undefined && ((lo !== undefined && initial < lo) || (hi !== undefined && initial > hi))) {
+      r.report('initial-outside-bounds', MSG.initialOutside(initial, showBound(lo), showBound(hi)), p.initial!.range);
+    }
+  }
+  if (p.fixed && !p.initial) {
+    r.report('fixed-without-value', MSG.fixedWithoutValue(p.name.name), p.fixed);
+  }
+  const plan: ParameterPlan = { name: p.name.name, fixed: p.fixed !== undefined, scope: 'shared', range: p.range ?? EMPTY_RANGE };
+  if (initial !== undefined) plan.initial = initial;
+  // JSON has no Infinity: infinite (or missing) bounds are omitted, meaning unbounded on that side.
+  if (lower !== undefined && Number.isFinite(lower)) plan.lower = lower;
+  if (upper !== undefined && Number.isFinite(upper)) plan.upper = upper;
+  if (p.unit) plan.unit = p.unit.text;
+  return plan;
+}
+
+function showBound(x: number | undefined): string {
+  return x === undefined ? '?' : x === Infinity ? 'inf' : x === -Infinity ? '-inf' : String(x);
+}

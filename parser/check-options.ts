@@ -1,0 +1,88 @@
+/**
+ * Fit options (method, loss, level, iterations, tolerance, rate, per):
+ * value checks and the defaults documented on `FitOptions` in plan.ts.
+ */
+import type { FitAst, FitItemAst, NumericOptionAst, NumericOptionKind } from './ast';
+import { LOSSES, METHODS, type FitOptions, type LossKind, type Method } from './plan';
+import type { Env } from './check-env';
+import { resolveValue } from './check-expr';
+import { MSG } from './messages';
+import { suggest } from './suggest';
+
+type Item<K extends FitItemAst['kind']> = K extends NumericOptionKind ? NumericOptionAst : Extract<FitItemAst, { kind: K }>;
+
+/** Default options (plan.ts FitOptions docs). */
+export const DEFAULT_OPTIONS: Readonly<FitOptions> = { method: 'auto', loss: 'squared', lossScale: 1, level: 0.95 };
+
+export function checkOptions(env: Env, fit: FitAst, dataName: string, columns: ReadonlySet<string> | undefined): { options: FitOptions; groupBy?: string } {
+  const { r } = env;
+  const options: FitOptions = { ...DEFAULT_OPTIONS };
+  const once = <K extends FitItemAst['kind']>(kind: K, label: string): Item<K> | undefined => {
+    const items = fit.items.filter((i) => i.kind === kind) as Item<K>[];
+    for (const extra of items.slice(1)) r.report('duplicate-option', MSG.duplicateOption(label), extra.range);
+    return items[0];
+  };
+
+  const method = once('method', 'method');
+  if (method?.value) {
+    const v = method.value.name;
+    if ((METHODS as readonly string[]).includes(v)) options.method = v as Method;
+    else r.report('unknown-option', MSG.unknownOption('method', v, METHODS), method.value.range, suggest(v, METHODS));
+  }
+
+  const loss = once('loss', 'loss');
+  if (loss?.value) {
+    const v = loss.value.name;
+    if ((LOSSES as readonly string[]).includes(v)) options.loss = v as LossKind;
+    else r.report('unknown-option', MSG.unknownOption('loss', v, LOSSES), loss.value.range, suggest(v, LOSSES));
+  }
+  if (loss?.scale) {
+    const s = resolveValue(env, loss.scale, { allowInf: false });
+    if (s !== undefined && !(s > 0)) r.report('not-positive', MSG.notPositive('scale', s), loss.scale.range);
+    else if (s !== undefined) options.lossScale = s;
+    if (loss.value?.name === 'squared') r.report('option-ignored', MSG.scaleIgnored, loss.scale.range);
+  }
+
+  const level = once('level', 'level');
+  if (level) {
+    const v = resolveValue(env, level.value, { allowInf: false });
+    if (v !== undefined && !(v > 0 && v < 1)) r.report('level-range', MSG.levelRange(v), level.value.range);
+    else if (v !== undefined) options.level = v;
+  }
+
+  const iterations = once('iterations', 'iterations');
+  if (iterations) {
+    const v = resolveValue(env, iterations.value, { allowInf: false });
+    if (v !== undefined && !(v > 0)) r.report('not-positive', MSG.notPositive('iterations', v), iterations.value.range);
+    else if (v !== undefined && !Number.isInteger(v)) r.report('not-integer', MSG.notInteger('iterations', v), iterations.value.range);
+    else if (v !== undefined) options.maxIterations = v;
+  }
+
+  const tolerance = once('tolerance', 'tolerance');
+  if (tolerance) {
+    const v = resolveValue(env, tolerance.value, { allowInf: false });
+    if (v !== undefined && !(v > 0)) r.report('not-positive', MSG.notPositive('tolerance', v), tolerance.value.range);
+    else if (v !== undefined) options.tolerance = v;
+  }
+
+  const rate = once('rate', 'rate');
+  if (rate) {
+    const v = resolveValue(env, rate.value, { allowInf: false });
+    if (v !== undefined && !(v > 0)) r.report('not-positive', MSG.notPositive('rate', v), rate.value.range);
+    else if (v !== undefined) options.learningRate = v;
+    const methodUnreadable = method?.value !== undefined && !(METHODS as readonly string[]).includes(method.value.name);
+    if (options.method !== 'gradient_descent' && !methodUnreadable) {
+      r.report('option-ignored', MSG.rateIgnored, rate.range);
+    }
+  }
+
+  let groupBy: string | undefined;
+  const per = once('per', 'per');
+  if (per?.column) {
+    groupBy = per.column.name;
+    if (columns && !columns.has(groupBy)) {
+      r.report('unknown-column', MSG.unknownColumn(groupBy, dataName), per.column.range, suggest(groupBy, columns));
+    }
+  }
+  return { options, groupBy };
+}

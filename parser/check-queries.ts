@@ -1,0 +1,117 @@
+/**
+ * Statements that use a fit after it is declared: predict, invert, compare
+ * and expect. Each names its fit; the fit must be declared above.
+ */
+import type { CompareAst, ExpectAst, NameAst, PredictAst, ValueAst } from './ast';
+import { STATISTICS, type Bound, type Expectation, type ExpectTarget, type Query, type StatisticName } from './plan';
+import type { Env, FitInfo } from './check-env';
+import { resolveValue } from './check-expr';
+import { MSG } from './messages';
+import { suggest } from './suggest';
+
+/** The fit a statement names, or undefined (reported). */
+export function lookupFit(env: Env, name: NameAst | undefined): FitInfo | undefined {
+  if (!name) return undefined;
+  const f = env.fits.get(name.name);
+  if (f) return f;
+  const later = env.declared.fit.get(name.name);
+  if (later !== undefined) env.r.report('declared-later', MSG.declaredLater('fit', name.name, later), name.range);
+  else env.r.report('unknown-fit', MSG.unknownFit(name.name), name.range, suggest(name.name, env.fits.keys()));
+  return undefined;
+}
+
+function values(env: Env, vs: ValueAst[]): number[] {
+  const out: number[] = [];
+  for (const v of vs) {
+    const x = resolveValue(env, v, { allowInf: false });
+    if (x !== undefined) out.push(x);
+  }
+  return out;
+}
+
+export function checkQuery(env: Env, q: PredictAst): Query | undefined {
+  const fit = lookupFit(env, q.fit);
+  const vals = values(env, q.values);
+  const col = q.column;
+  if (fit && col && !fit.incomplete) {
+    const cols = fit.modelColumns;
+    const fitName = fit.plan.name;
+    if (q.kind === 'predict') {
+      if (cols.length === 1 && cols[0] !== col.name) {
+        env.r.report('predictor-mismatch', MSG.predictorOther(fitName, cols[0], col.name), col.range, [cols[0]]);
+      } else if (cols.length === 0) {
+        env.r.report('predictor-mismatch', MSG.predictorNone(fitName), col.range);
+      } else if (!cols.includes(col.name)) {
+        env.r.report('predictor-mismatch', MSG.predictorMany(fitName, cols, col.name), col.range, suggest(col.name, cols, cols.length));
+      }
+    } else {
+      if (cols.length !== 1) env.r.report('predictor-mismatch', MSG.invertNeedsOne(fitName, cols), q.fit!.range);
+      const resp = fit.responseColumns;
+      if (!resp.includes(col.name)) env.r.report('response-mismatch', MSG.responseMismatch(fitName, col.name, resp), col.range, resp.slice(0, 3));
+    }
+  }
+  if (!q.fit || !col) return undefined;
+  return q.kind === 'predict'
+    ? { kind: 'predict', fit: q.fit.name, variable: col.name, values: vals, range: q.range }
+    : { kind: 'invert', fit: q.fit.name, response: col.name, values: vals, range: q.range };
+}
+
+export function checkCompare(env: Env, c: CompareAst): Query {
+  const names: string[] = [];
+  for (const f of c.fits) {
+    if (names.includes(f.name)) {
+      env.r.report('repeated-fit', MSG.compareRepeated(f.name), f.range);
+      continue;
+    }
+    lookupFit(env, f);
+    names.push(f.name);
+  }
+  if (names.length < 2 && c.fits.length > 0) env.r.report('compare-too-few', MSG.compareTooFew, c.range);
+  return { kind: 'compare', fits: names, range: c.range };
+}
+
+const isStatistic = (s: string): s is StatisticName => (STATISTICS as readonly string[]).includes(s);
+
+export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
+  const fit = lookupFit(env, x.fit);
+  const fitName = x.fit?.name ?? '';
+  let target: ExpectTarget | undefined;
+  const [first, second, third] = x.path;
+  if (first) {
+    const params = fit?.params ?? [];
+    const isParam = params.includes(first.name);
+    if (third) {
+      env.r.report('unknown-target', MSG.pathTooLong, third.range);
+    } else if (second) {
+      if (fit && !isParam) {
+        env.r.report('unknown-target', MSG.stderrOfNonParam(first.name, fitName), first.range, suggest(first.name, params));
+      } else if (second.name !== 'se') {
+        env.r.report('unknown-target', MSG.unknownStderrPath(second.name), second.range, ['se']);
+      } else {
+        target = { kind: 'parameter', fit: fitName, name: first.name, of: 'stderr' };
+      }
+    } else if (isParam) {
+      target = { kind: 'parameter', fit: fitName, name: first.name, of: 'estimate' };
+    } else if (isStatistic(first.name)) {
+      target = { kind: 'statistic', fit: fitName, name: first.name };
+    } else if (fit) {
+      env.r.report('unknown-target', MSG.unknownTarget(first.name, fitName), first.range, suggest(first.name, [...params, ...STATISTICS]));
+    }
+  }
+
+  let bound: Bound | undefined;
+  const b = x.bound;
+  if (b?.kind === 'within') {
+    const low = resolveValue(env, b.low, { allowInf: false });
+    const high = resolveValue(env, b.high, { allowInf: false });
+    if (low !== undefined && high !== undefined) {
+      if (low > high) env.r.report('bounds-order', MSG.boundsOrder(String(low), String(high)), b.range);
+      else bound = { kind: 'within', low, high };
+    }
+  } else if (b) {
+    const value = resolveValue(env, b.value, { allowInf: false });
+    if (value !== undefined) bound = { kind: b.kind, value };
+  }
+  if (!target || !bound || !fit) return undefined;
+  return { target, bound, text: x.text, range: x.range };
+}

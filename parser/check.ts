@@ -1,0 +1,158 @@
+/**
+ * The semantic pass: walks the statements top to bottom (a name must be
+ * declared above its use), checks each, and assembles the Plan. Never
+ * throws; the plan is returned even when there are errors (then partial).
+ */
+import type { ConstAst, DataAst, SpecAst, StatementAst } from './ast';
+import { PLAN_VERSION, type DataSource, type Diagnostic, type Plan } from './plan';
+import { isBuiltinConstant, type CheckContext, type Env } from './check-env';
+import { newUse, resolveExpr, resolveValue } from './check-expr';
+import { checkFit } from './check-fit';
+import { checkCompare, checkExpect, checkQuery } from './check-queries';
+import { MSG } from './messages';
+import { Reporter } from './report';
+import { suggest } from './suggest';
+
+export type { CheckContext } from './check-env';
+
+export function checkSpec(ast: SpecAst, ctx: CheckContext = {}): { plan: Plan; diagnostics: Diagnostic[] } {
+  const plan: Plan = { version: PLAN_VERSION, data: [], constants: [], fits: [], queries: [], expectations: [] };
+  const r = new Reporter();
+  try {
+    const env: Env = { r, ctx, consts: new Map(), data: new Map(), fits: new Map(), declared: declarations(ast.statements) };
+    for (const s of ast.statements) {
+      switch (s.kind) {
+        case 'data': {
+          const d = checkData(env, s);
+          if (d) plan.data.push(d);
+          break;
+        }
+        case 'const': {
+          const c = checkConst(env, s);
+          if (c) plan.constants.push(c);
+          break;
+        }
+        case 'fit': {
+          const f = checkFit(env, s);
+          if (s.name && !env.fits.has(s.name.name)) env.fits.set(s.name.name, f);
+          if (s.name && s.data) plan.fits.push(f.plan);
+          break;
+        }
+        case 'predict':
+        case 'invert': {
+          const q = checkQuery(env, s);
+          if (q) plan.queries.push(q);
+          break;
+        }
+        case 'compare':
+          plan.queries.push(checkCompare(env, s));
+          break;
+        case 'expect': {
+          const x = checkExpect(env, s);
+          if (x) plan.expectations.push(x);
+          break;
+        }
+      }
+    }
+    finish(env, ast.statements);
+  } catch (err) {
+    r.report('internal', MSG.internal(err instanceof Error ? err.message : String(err)), ast.range);
+  }
+  return { plan, diagnostics: r.diagnostics };
+}
+
+/** First declaration line of every data, const and fit name in the file. */
+function declarations(statements: StatementAst[]): Env['declared'] {
+  const declared: Env['declared'] = { const: new Map(), data: new Map(), fit: new Map() };
+  for (const s of statements) {
+    if ((s.kind === 'const' || s.kind === 'data' || s.kind === 'fit') && s.name && !declared[s.kind].has(s.name.name)) {
+      declared[s.kind].set(s.name.name, s.name.range.start.line);
+    }
+  }
+  return declared;
+}
+
+function readHeaders(env: Env, name: string, path: string): ReadonlySet<string> | undefined {
+  try {
+    const h = env.ctx.headers?.(name, path);
+    return Array.isArray(h) ? new Set(h.map(String)) : undefined;
+  } catch {
+    return undefined; // a failing callback means "headers unknown", not a crash
+  }
+}
+
+const DELIMITERS: Readonly<Record<string, ',' | ';' | '\t'>> = { ',': ',', ';': ';', '\\t': '\t', '\t': '\t', tab: '\t' };
+
+function checkData(env: Env, s: DataAst): DataSource | undefined {
+  const { r } = env;
+  if (!s.name || !s.path) return undefined;
+  const name = s.name.name;
+  const prev = env.data.get(name);
+  if (prev) r.report('duplicate-name', MSG.duplicate('data', name, prev.line), s.name.range);
+  if (s.path.value.trim() === '') r.report('empty-path', MSG.emptyPath, s.path.range);
+  const headers = readHeaders(env, name, s.path.value);
+  const source: DataSource = { name, path: s.path.value, range: s.range };
+  const seen = new Set<string>();
+  for (const o of s.options) {
+    if (seen.has(o.kind)) {
+      r.report('duplicate-option', MSG.duplicateOption(o.kind), o.range);
+      continue;
+    }
+    seen.add(o.kind);
+    if (o.kind === 'where') {
+      const scope = { params: new Set<string>(), allowParams: false, place: 'where condition', dataName: name, columns: headers };
+      source.filter = resolveExpr(env, o.condition, 'condition', scope, newUse());
+    } else if (o.value && o.kind === 'delimiter') {
+      const v = o.value.value;
+      if (Object.prototype.hasOwnProperty.call(DELIMITERS, v)) source.delimiter = DELIMITERS[v];
+      else r.report('unknown-option', MSG.unknownOption('delimiter', v, [',', ';', 'tab']), o.value.range, suggest(v, ['tab']));
+    } else if (o.value && o.kind === 'decimal') {
+      const v = o.value.value;
+      if (v === '.' || v === ',') source.decimal = v;
+      else r.report('unknown-option', MSG.unknownOption('decimal mark', v, ['.', ',']), o.value.range);
+    }
+  }
+  if (source.decimal === ',' && source.delimiter === ',') {
+    const o = s.options.find((x) => x.kind === 'decimal');
+    r.report('delimiter-clash', MSG.delimiterClash, o?.range ?? s.range);
+  }
+  if (!prev) env.data.set(name, { plan: source, headers, line: s.name.range.start.line, used: false });
+  return prev ? undefined : source;
+}
+
+function checkConst(env: Env, s: ConstAst): Plan['constants'][number] | undefined {
+  const { r } = env;
+  if (!s.name) return undefined;
+  const name = s.name.name;
+  if (isBuiltinConstant(name)) {
+    r.report('reserved-name', MSG.reservedName(name), s.name.range);
+    return undefined;
+  }
+  const prev = env.consts.get(name);
+  if (prev) {
+    r.report('duplicate-name', MSG.duplicate('constant', name, prev.line), s.name.range);
+    return undefined;
+  }
+  const value = resolveValue(env, s.value, { allowInf: false });
+  // Registered even when unreadable (already reported), so later uses do not report it again.
+  env.consts.set(name, { value: value ?? 0, line: s.name.range.start.line });
+  if (value === undefined) return undefined;
+  const c: Plan['constants'][number] = { name, value, range: s.range };
+  if (s.unit) c.unit = s.unit.text;
+  return c;
+}
+
+/** File-wide checks once everything is known: constants that shadow columns, unused data. */
+function finish(env: Env, statements: StatementAst[]): void {
+  for (const s of statements) {
+    if (s.kind !== 'const' || !s.name) continue;
+    for (const d of env.data.values()) {
+      if (d.headers?.has(s.name.name)) env.r.report('const-column-clash', MSG.constColumnClash(s.name.name, d.plan.name), s.name.range);
+    }
+  }
+  for (const s of statements) {
+    if (s.kind !== 'data' || !s.name) continue;
+    const d = env.data.get(s.name.name);
+    if (d && !d.used && d.plan.range === s.range) env.r.report('unused-data', MSG.unusedData(s.name.name), s.name.range);
+  }
+}

@@ -1,0 +1,117 @@
+/**
+ * Every user-facing diagnostic: its stable code, default severity and text.
+ *
+ * Codes are stable (tests, quick fixes and docs key on them); wording may
+ * improve. LANGUAGE.md lists the same codes. `CODES` is the single list.
+ */
+import type { Severity } from './plan';
+
+export const CODES = {
+  syntax: 'error',
+  internal: 'error',
+  'undefined-name': 'error',
+  'unknown-column': 'error',
+  'unknown-data': 'error',
+  'unknown-fit': 'error',
+  'declared-later': 'error',
+  'duplicate-name': 'error',
+  'duplicate-option': 'error',
+  'reserved-name': 'error',
+  'param-column-clash': 'error',
+  'const-column-clash': 'error',
+  'unknown-function': 'error',
+  arity: 'error',
+  'condition-expected': 'error',
+  'number-expected': 'error',
+  'param-not-allowed': 'error',
+  'response-no-column': 'error',
+  'missing-model': 'error',
+  'no-parameter': 'error',
+  'bounds-order': 'error',
+  'initial-outside-bounds': 'error',
+  'fixed-without-value': 'error',
+  'unknown-option': 'error',
+  'level-range': 'error',
+  'not-positive': 'error',
+  'not-integer': 'error',
+  'inf-not-allowed': 'error',
+  'number-range': 'error',
+  'empty-path': 'error',
+  'delimiter-clash': 'error',
+  'unknown-target': 'error',
+  'predictor-mismatch': 'error',
+  'response-mismatch': 'error',
+  'compare-too-few': 'error',
+  'unused-parameter': 'warning',
+  'unused-data': 'warning',
+  'repeated-fit': 'warning',
+  'option-ignored': 'warning',
+} as const satisfies Record<string, Severity>;
+
+export type DiagnosticCode = keyof typeof CODES;
+
+const q = (s: string): string => `'${s}'`;
+const list = (xs: readonly string[]): string => xs.map(q).join(', ');
+
+export const MSG = {
+  unterminatedString: 'this text has no closing " on its line',
+  unexpectedCharacter: (ch: string) => `unexpected character ${q(ch)}`,
+  internal: (detail: string) => `internal parser problem (please report it with the spec): ${detail}`,
+
+  undefinedName: (name: string) => `${q(name)} is not a parameter, constant or column`,
+  notAConstant: (name: string) => `${q(name)} is not a constant`,
+  unknownColumn: (name: string, data: string) => `data ${q(data)} has no column ${q(name)}`,
+  unknownData: (name: string) => `no data named ${q(name)}; declare it with: data ${name} = "file.csv"`,
+  unknownFit: (name: string) => `no fit named ${q(name)}`,
+  declaredLater: (what: string, name: string, line: number) =>
+    `${what} ${q(name)} is declared further down (line ${line}); declare it before this statement`,
+  duplicate: (what: string, name: string, line: number) => `${what} ${q(name)} is already declared on line ${line}`,
+  paramIsConst: (name: string, line: number) => `${q(name)} is already a constant (line ${line}); a parameter needs its own name`,
+  duplicateOption: (what: string) => `${what} is given more than once`,
+  reservedName: (name: string) => `${q(name)} is a built-in constant and cannot be redeclared`,
+  paramColumnClash: (name: string, data: string) =>
+    `${q(name)} is both a parameter and a column of ${q(data)}; rename the parameter`,
+  constColumnClash: (name: string, data: string) =>
+    `${q(name)} is both a constant and a column of ${q(data)}; rename the constant`,
+  unknownFunction: (name: string) => `unknown function ${q(name)}`,
+  arity: (name: string, expected: number, got: number) =>
+    `${name}() takes ${expected} argument${expected === 1 ? '' : 's'}, not ${got}`,
+  conditionExpected: 'expected a condition such as x > 0 (comparison with < <= > >= == !=, joined by and/or/not)',
+  numberExpected: 'a condition gives true/false, not a number; use when(condition, a, b) to choose a value',
+  paramNotAllowed: (name: string, where: string) => `parameter ${q(name)} cannot appear in the ${where}`,
+  responseNoColumn: 'the response (left of =) must read at least one column',
+  missingModel: (fit: string) => `fit ${q(fit)} has no model line (model RESPONSE = EXPRESSION)`,
+  noParameter: 'this model uses no parameter, so there is nothing to fit',
+  boundsOrder: (low: string, high: string) => `lower bound ${low} must be below upper bound ${high}`,
+  initialOutside: (v: number, low: string, high: string) => `starting value ${v} lies outside the bounds [${low}, ${high}]`,
+  fixedWithoutValue: (name: string) => `fixed parameter ${q(name)} needs a value: param ${name} = VALUE fixed`,
+  unknownOption: (what: string, value: string, allowed: readonly string[]) =>
+    `unknown ${what} ${q(value)}; choose one of ${list(allowed)}`,
+  levelRange: (v: number) => `confidence level ${v} must lie strictly between 0 and 1 (e.g. 0.95)`,
+  notPositive: (what: string, v: number) => `${what} must be greater than 0, not ${v}`,
+  notInteger: (what: string, v: number) => `${what} must be a whole number, not ${v}`,
+  infNotAllowed: 'inf is only allowed in parameter bounds',
+  numberRange: (text: string) => `${text} is too large to be a finite number`,
+  emptyPath: 'the data file path is empty',
+  delimiterClash: 'decimal "," cannot be used with delimiter ","; use delimiter ";"',
+  unknownTarget: (name: string, fit: string) => `${q(name)} is neither a parameter of ${q(fit)} nor a statistic`,
+  unknownStderrPath: (name: string) => `after a parameter only .se (standard error) may follow, not ${q(name)}`,
+  stderrOfNonParam: (name: string, fit: string) => `${q(name)} is not a parameter of ${q(fit)}, so it has no .se`,
+  pathTooLong: 'expected FIT.NAME or FIT.PARAM.se',
+  predictorNone: (fit: string) => `fit ${q(fit)} has no column on the model side to vary`,
+  predictorMany: (fit: string, cols: readonly string[], col: string) =>
+    `fit ${q(fit)} varies with ${list(cols)}; ${q(col)} is not one of them`,
+  predictorOther: (fit: string, predictor: string, col: string) =>
+    `fit ${q(fit)} varies with ${q(predictor)}, not ${q(col)}`,
+  invertNeedsOne: (fit: string, cols: readonly string[]) =>
+    `invert needs a model with exactly one predictor column; ${q(fit)} has ${cols.length ? list(cols) : 'none'}`,
+  responseMismatch: (fit: string, col: string, cols: readonly string[]) =>
+    `${q(col)} is not the response of ${q(fit)} (it reads ${cols.length ? list(cols) : 'no column'})`,
+  compareTooFew: 'compare needs at least two different fits',
+  compareRepeated: (name: string) => `fit ${q(name)} is listed twice`,
+  unusedParameter: (name: string) => `parameter ${q(name)} is declared but the model does not use it`,
+  unusedData: (name: string) => `data ${q(name)} is not used by any fit`,
+  scaleIgnored: 'scale only matters for a robust loss (huber, soft_l1, cauchy); it is ignored with squared',
+  rateIgnored: 'rate only matters for method gradient_descent; it is ignored here',
+  didYouMean: (names: readonly string[]) => (names.length ? ` - did you mean ${names.map(q).join(' or ')}?` : ''),
+} as const;

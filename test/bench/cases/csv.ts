@@ -1,0 +1,62 @@
+/**
+ * (5) CSV ingest speed on a generated 1e6-row file (in os.tmpdir()):
+ * `loadDataFile` (read, SHA-256 for provenance, parse to typed columns) and
+ * `parseCsvText` (parse only), each against a raw byte scan of the same file
+ * (read + count line feeds: the floor of any reader).
+ */
+import { readFileSync, statSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+import { loadDataFile, parseCsvText } from '../../../engine/data';
+import { compare, gaussian, rng } from '../harness';
+import { fmt, type BenchRow } from '../report';
+import type { BenchContext } from './context';
+
+/** Invented kiln log: site label, minutes, temperature, its standard deviation. */
+export function writeKilnCsv(file: string, rows: number): void {
+  const g = gaussian(rng(3));
+  const parts: string[] = ['site,time_min,temp_C,temp_sd\n'];
+  let chunk = '';
+  for (let i = 0; i < rows; i++) {
+    const t = (i % 1440) * 0.5;
+    const temp = 21.5 + 60 * Math.exp(-t / 95) + 0.4 * g();
+    chunk += `S${String(i % 50).padStart(2, '0')},${t.toFixed(1)},${temp.toFixed(4)},${(0.3 + 0.1 * ((i * 7) % 5)).toFixed(2)}\n`;
+    if (chunk.length > 1 << 20) {
+      parts.push(chunk);
+      chunk = '';
+    }
+  }
+  parts.push(chunk);
+  writeFileSync(file, parts.join(''));
+}
+
+function rawScan(file: string): number {
+  const buf = readFileSync(file);
+  let lines = 0;
+  for (let i = 0; i < buf.length; i++) if (buf[i] === 10) lines++;
+  return lines;
+}
+
+export async function benchCsv(ctx: BenchContext): Promise<BenchRow> {
+  const rows = ctx.quick ? 20_000 : 1_000_000;
+  const file = path.join(ctx.tmp, 'kiln.csv');
+  writeKilnCsv(file, rows);
+  const mb = statSync(file).size / 1e6;
+  const loaded = loadDataFile(file);
+  if (!loaded.ok || loaded.data.table.rowCount !== rows) throw new Error('the generated CSV did not load completely');
+  const text = readFileSync(file, 'utf8');
+  const runs = ctx.quick ? 1 : 7;
+  const load = await compare(() => loadDataFile(file), () => rawScan(file), runs);
+  const parse = await compare(() => parseCsvText(text), () => rawScan(file), runs);
+  const mbps = mb / (load.ours.median / 1000);
+  return {
+    id: 5,
+    name: `CSV ingest, ${fmt(rows, 1)} rows (${fmt(mb)} MB)`,
+    value: mbps,
+    unit: 'MB/s',
+    spread: [mb / (load.ours.max / 1000), mb / (load.ours.min / 1000)],
+    text: `${fmt(mbps)} MB/s load (read+hash+parse); parse only ${fmt(mb / (parse.ours.median / 1000))} MB/s; raw byte scan ${fmt(mb / (load.other.median / 1000))} MB/s (load ${fmt(load.ratio.median)}× the scan time)`,
+    goal: '≥ 100 MB/s',
+    met: mbps >= 100,
+    details: { rows, megabytes: mb, loadMs: load.ours, parseMs: parse.ours, rawScanMs: load.other, loadOverScan: load.ratio, parseOverScan: parse.ratio },
+  };
+}

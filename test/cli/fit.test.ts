@@ -1,0 +1,146 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import { existsSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { EXIT } from '../../engine/cli/io';
+import { runExitCode } from '../../engine/cli/fit';
+import { parseXml } from '../views/xml';
+import { cleanTemp, cli, hasStackTrace, sampleCopy, validateResult } from './helpers';
+import type { RunResult } from '../../engine/result';
+
+afterAll(cleanTemp);
+
+function edit(dir: string, file: string, from: string | RegExp, to: string): void {
+  const path = join(dir, file);
+  const text = readFileSync(path, 'utf8');
+  const next = text.replace(from, to);
+  if (next === text) throw new Error(`edit of ${file} changed nothing`);
+  writeFileSync(path, next);
+}
+
+describe('cli/fit', () => {
+  it('prints a summary and exits 0 when every expectation passes', async () => {
+    const r = await cli(sampleCopy('cooling'), 'fit', 'cooling.lsq');
+    expect(r.code).toBe(EXIT.ok);
+    expect(r.stdout).toContain('Fit newton: temp_C against time_min (Levenberg–Marquardt, squared loss)');
+    expect(r.stdout).toMatch(/^ {2}rise +\d+\.\d+ +\d\.\d+ +\d+\.\d+ +\d+\.\d+ +degC$/m);
+    expect(r.stdout).toMatch(/reduced χ² \(χ²\/dof\) +\d/);
+    expect(r.stdout).toContain('4 of 4 expectations passed.');
+    expect(r.stderr).toBe('');
+  });
+
+  it('exits 1 when an expectation fails, naming its line', async () => {
+    const dir = sampleCopy('cooling');
+    edit(dir, 'cooling.lsq', 'expect newton.tau within 13.8 .. 14.6', 'expect newton.tau within 15 .. 16');
+    const r = await cli(dir, 'fit', 'cooling.lsq', '--quiet');
+    expect(r.code).toBe(EXIT.expectationFailed);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toMatch(/^cooling\.lsq:\d+:1: error: expectation failed: newton\.tau within 15 \.\. 16 \(/m);
+  });
+
+  it('exits 3 when a fit does not converge (iteration limit 1), even with failed expectations', async () => {
+    const dir = sampleCopy('cooling');
+    edit(dir, 'cooling.lsq', '  sigma temp_sd', '  sigma temp_sd\n  iterations 1');
+    const r = await cli(dir, 'fit', 'cooling.lsq');
+    expect(r.code).toBe(EXIT.notConverged);
+    expect(r.stdout).toContain('Stopped: NOT converged (max_iterations');
+    expect(r.stderr).toMatch(/^error: fit newton did not converge: max_iterations/m);
+  });
+
+  it('exits 2 with located messages for a broken spec and fits nothing', async () => {
+    const dir = sampleCopy('cooling');
+    edit(dir, 'cooling.lsq', 'exp(-time_min / tau)', 'exp(-time_min / tau');
+    const r = await cli(dir, 'fit', 'cooling.lsq');
+    expect(r.code).toBe(EXIT.inputError);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toMatch(/^cooling\.lsq:\d+:\d+: error: /);
+    expect(r.stderr).toContain('nothing was fitted');
+  });
+
+  it('exits 2 for missing data, located at the data statement', async () => {
+    const dir = sampleCopy('cooling');
+    edit(dir, 'cooling.lsq', '"cooling.csv"', '"gone.csv"');
+    const r = await cli(dir, 'fit', 'cooling.lsq', '--quiet');
+    expect(r.code).toBe(EXIT.inputError);
+    const line = readFileSync(join(dir, 'cooling.lsq'), 'utf8').split('\n').findIndex((l) => l.startsWith('data ')) + 1;
+    expect(r.stderr).toMatch(new RegExp(`^cooling\\.lsq:${line}:\\d+: error: .*gone\\.csv`, 'm'));
+    expect(r.stderr).toContain('nothing was fitted');
+    expect(hasStackTrace(r.stderr)).toBe(false);
+  });
+
+  it('exits 2 for a bad cell, located at its file, line and column', async () => {
+    const dir = sampleCopy('cooling');
+    const csv = readFileSync(join(dir, 'cooling.csv'), 'utf8').split('\n');
+    csv[4] = csv[4].replace(/^(\d+),([\d.]+),/, '$1,12x.5,'); // line 5 of the file, column 2 (temp_C)
+    writeFileSync(join(dir, 'cooling.csv'), csv.join('\n'));
+    const r = await cli(dir, 'fit', 'cooling.lsq', '--quiet');
+    expect(r.code).toBe(EXIT.inputError);
+    expect(r.stderr).toMatch(/^cooling\.csv:5:2: error: .*12x\.5/m);
+  });
+
+  it('writes only JSON to stdout with --json -, valid against the result schema', async () => {
+    const r = await cli(sampleCopy('drift'), 'fit', 'drift.lsq', '--json', '-');
+    expect(r.code).toBe(EXIT.ok);
+    const value = JSON.parse(r.stdout) as RunResult;
+    const v = validateResult(value);
+    expect(v.ok, v.errors).toBe(true);
+    expect(value.provenance.specSha256).toMatch(/^[0-9a-f]{64}$/);
+    expect(value.provenance.data[0].sha256).toMatch(/^[0-9a-f]{64}$/);
+    expect(value.provenance.toolVersion).toMatch(/^\d+\.\d+\.\d+/);
+    expect(r.stderr).toBe('');
+  });
+
+  it('writes JSON, charts and a report with linked SVGs', async () => {
+    const dir = sampleCopy('photometer');
+    const r = await cli(dir, 'fit', 'photometer.lsq', '--json', 'out/result.json', '--charts', 'charts', '--report', 'out/report.md');
+    expect(r.code).toBe(EXIT.ok);
+    const json = JSON.parse(readFileSync(join(dir, 'out/result.json'), 'utf8'));
+    expect(validateResult(json).ok).toBe(true);
+    const svgs = readdirSync(join(dir, 'charts')).sort();
+    expect(svgs).toEqual(['cal-fit.svg', 'cal-histogram.svg', 'cal-normal-qq.svg', 'cal-residuals-fitted.svg', 'cal-residuals-predictor.svg']);
+    for (const f of svgs) expect(parseXml(readFileSync(join(dir, 'charts', f), 'utf8')).name).toBe('svg');
+    const md = readFileSync(join(dir, 'out/report.md'), 'utf8');
+    expect(md).toContain('](../charts/cal-fit.svg)');
+    expect(md).toContain('## About this spec');
+    expect(md).toContain('CAUTION: this is a demonstration, not a validated method.');
+    expect(md).toMatch(/Use of results: .*validated under the applicable procedures and local regulations and reviewed by qualified people/);
+    expect(md).toContain(json.provenance.specSha256);
+    expect(r.stderr).toContain('wrote report: out/report.md');
+  });
+
+  it('puts report charts in a folder next to the report by default', async () => {
+    const dir = sampleCopy('arrhenius');
+    const r = await cli(dir, 'fit', 'arrhenius.lsq', '--report', 'cure.md', '--quiet');
+    expect(r.code).toBe(EXIT.ok);
+    expect(existsSync(join(dir, 'cure-charts', 'cure-fit.svg'))).toBe(true);
+    expect(readFileSync(join(dir, 'cure.md'), 'utf8')).toContain('](cure-charts/cure-fit.svg)');
+  });
+
+  it('never writes over an input of the run', async () => {
+    const dir = sampleCopy('cooling');
+    const before = readFileSync(join(dir, 'cooling.csv'), 'utf8');
+    const r = await cli(dir, 'fit', 'cooling.lsq', '--json', 'cooling.csv');
+    expect(r.code).toBe(EXIT.inputError);
+    expect(r.stderr).toContain('refusing to write cooling.csv');
+    expect(readFileSync(join(dir, 'cooling.csv'), 'utf8')).toBe(before);
+  });
+
+  it('runs only the fits named with --fit', async () => {
+    const dir = sampleCopy('enzyme');
+    const r = await cli(dir, 'fit', 'enzyme.lsq', '--fit', 'hill', '--json', '-');
+    const value = JSON.parse(r.stdout) as RunResult;
+    expect(value.fits.map((f) => f.name)).toEqual(['hill']);
+    const bad = await cli(dir, 'fit', 'enzyme.lsq', '--fit', 'hil');
+    expect(bad.code).toBe(EXIT.inputError);
+    expect(bad.stderr).toBe("error: no fit named 'hil' in this spec (fits: mm, hill)\n");
+  });
+
+  it('maps results to exit codes with 2 > 3 > 1 > 0', () => {
+    const base = { errors: [], fits: [], expectations: [] } as unknown as RunResult;
+    const fit = (converged: boolean) => ({ stop: { converged } }) as RunResult['fits'][number];
+    const exp = (passed: boolean) => ({ passed }) as RunResult['expectations'][number];
+    expect(runExitCode(base)).toBe(0);
+    expect(runExitCode({ ...base, expectations: [exp(false)] })).toBe(1);
+    expect(runExitCode({ ...base, fits: [fit(false)], expectations: [exp(false)] })).toBe(3);
+    expect(runExitCode({ ...base, errors: [{ code: 'x', message: 'm' }], fits: [fit(false)] })).toBe(2);
+  });
+});

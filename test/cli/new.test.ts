@@ -1,0 +1,95 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import { copyFileSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { EXIT } from '../../engine/cli/io';
+import { cleanTemp, cli, SAMPLES, tempDir } from './helpers';
+
+afterAll(cleanTemp);
+
+/** Scaffold, check and fit: each template on data it suits (sample CSVs or written here). */
+const CASES: { model: string; csv: string; x: string; y: string }[] = [
+  { model: 'line', csv: 'photometer/standards.csv', x: 'conc_mgL', y: 'absorbance' },
+  { model: 'poly2', csv: 'photometer/standards.csv', x: 'conc_mgL', y: 'absorbance' },
+  { model: 'exp_decay', csv: 'cooling/cooling.csv', x: 'time_min', y: 'temp_C' },
+  { model: 'logistic4', csv: 'doseresponse/assay.csv', x: 'dose_uM', y: 'activity_pct' },
+  { model: 'michaelis_menten', csv: 'enzyme/rates.csv', x: 'substrate_mM', y: 'rate_uM_min' },
+  { model: 'power', csv: 'enzyme/rates.csv', x: 'substrate_mM', y: 'rate_uM_min' },
+  { model: 'arrhenius', csv: 'arrhenius/cure_rates.csv', x: 'temp_C', y: 'k_per_s' },
+];
+
+describe('cli/new', () => {
+  for (const c of CASES) {
+    it(`scaffolds a ${c.model} spec that checks clean and fits`, async () => {
+      const dir = tempDir();
+      const file = c.csv.split('/')[1];
+      copyFileSync(join(SAMPLES, c.csv), join(dir, file));
+      const made = await cli(dir, 'new', file, '--x', c.x, '--y', c.y, '--model', c.model, '--out', 'spec.lsq');
+      expect(made.code, made.stderr).toBe(EXIT.ok);
+      expect(made.stdout).toMatch(/^wrote spec\.lsq: /);
+      const text = readFileSync(join(dir, 'spec.lsq'), 'utf8');
+      expect(text).toContain(`data `);
+      expect(text).toMatch(/# Starting values were computed from the data:\n# {3}\S/);
+      const checked = await cli(dir, 'check', 'spec.lsq');
+      expect(checked.code, checked.stdout).toBe(EXIT.ok);
+      expect(checked.stdout).toBe('');
+      const fitted = await cli(dir, 'fit', 'spec.lsq', '--json', '-');
+      expect(fitted.code, fitted.stderr).toBe(EXIT.ok);
+      expect(JSON.parse(fitted.stdout).fits[0].stop.converged).toBe(true);
+    });
+  }
+
+  it('scaffolds a Gaussian peak on a baseline from its own data', async () => {
+    const dir = tempDir();
+    const rows = ['wavelength_nm,signal'];
+    for (let i = 0; i <= 60; i++) {
+      const x = 500 + i;
+      rows.push(`${x},${(2 + 7 * Math.exp(-((x - 531) ** 2) / (2 * 4 ** 2)) + 0.05 * Math.sin(i * 1.7)).toFixed(4)}`);
+    }
+    writeFileSync(join(dir, 'peak.csv'), rows.join('\n') + '\n');
+    const made = await cli(dir, 'new', 'peak.csv', '--model', 'gaussian');
+    expect(made.code, made.stderr).toBe(EXIT.ok);
+    expect(made.stdout).toMatch(/^wrote peak\.lsq: Gaussian peak on a constant baseline of signal against wavelength_nm\./);
+    const fitted = await cli(dir, 'fit', 'peak.lsq', '--json', '-');
+    expect(fitted.code).toBe(EXIT.ok);
+    const params = Object.fromEntries(JSON.parse(fitted.stdout).fits[0].parameters.map((p: { name: string; estimate: number }) => [p.name, p.estimate]));
+    expect(params.center).toBeCloseTo(531, 0);
+    expect(params.width).toBeCloseTo(4, 0);
+  });
+
+  it('never overwrites an existing file', async () => {
+    const dir = tempDir();
+    copyFileSync(join(SAMPLES, 'enzyme/rates.csv'), join(dir, 'rates.csv'));
+    writeFileSync(join(dir, 'rates.lsq'), '# mine\n');
+    const r = await cli(dir, 'new', 'rates.csv');
+    expect(r.code).toBe(EXIT.inputError);
+    expect(r.stderr).toBe('error: rates.lsq already exists; choose another --out (existing files are never overwritten)\n');
+    expect(readFileSync(join(dir, 'rates.lsq'), 'utf8')).toBe('# mine\n');
+    const self = await cli(dir, 'new', 'rates.csv', '--out', 'rates.csv');
+    expect(self.code).toBe(EXIT.inputError);
+  });
+
+  it('picks the first two numeric columns by default and can write to stdout', async () => {
+    const dir = tempDir();
+    writeFileSync(join(dir, 'log.csv'), 'label,hours,reading\na,1,2.1\nb,2,3.9\nc,3,6.2\nd,4,7.8\n');
+    const r = await cli(dir, 'new', 'log.csv', '--out', '-');
+    expect(r.code).toBe(EXIT.ok);
+    expect(r.stdout).toContain('model reading = intercept + slope * hours');
+    expect(r.stdout).toContain('data log = "log.csv"');
+  });
+
+  it('explains unknown columns, templates and unsuitable data', async () => {
+    const dir = tempDir();
+    copyFileSync(join(SAMPLES, 'photometer/standards.csv'), join(dir, 'standards.csv'));
+    const col = await cli(dir, 'new', 'standards.csv', '--x', 'conc');
+    expect(col.code).toBe(EXIT.inputError);
+    expect(col.stderr).toBe("standards.csv:1: error: no column 'conc' in the data (columns: conc_mgL, absorbance)\n");
+    const tpl = await cli(dir, 'new', 'standards.csv', '--model', 'michaelis');
+    expect(tpl.stderr).toMatch(/unknown model template 'michaelis'/);
+    // concentration 0 is not a valid dose for the logistic template
+    const pos = await cli(dir, 'new', 'standards.csv', '--model', 'logistic4');
+    expect(pos.code).toBe(EXIT.inputError);
+    expect(pos.stderr).toContain('needs every conc_mgL value to be positive');
+    const missing = await cli(dir, 'new', 'nothing.csv');
+    expect(missing.stderr).toBe('nothing.csv: error: cannot read file: no such file\n');
+  });
+});

@@ -1,0 +1,233 @@
+#!/usr/bin/env node
+// End-to-end test of the extension in a real VS Code 1.100 (code-server),
+// driven with playwright-core + Debian Chromium, offline (recipe:
+// $VSCODE_WEB_TOOLS/README.md, default ../shared/tools/vscode-web from the
+// repo root). Steps: install the recipe (idempotent) -> `npm run package`
+// (.vsix) -> copy samples/cooling to a temp workspace -> start code-server
+// with the .vsix -> open cooling.lsq -> introduce a typo and see the error
+// squiggle and the Problems entry -> apply the "did you mean" quick fix ->
+// run "Leastwise: Fit This File" from the command palette -> wait for the
+// parameter table and the drawn charts inside the two nested webview iframes
+// -> hover a parameter for its estimate -> screenshot. No sleeps: every step
+// waits for a condition. Last line: "N passed, N failed"; exit 1 on failure.
+//
+// Env: VSCODE_WEB_TOOLS, VSCODE_WEB_HOME (recipe cache), CHROMIUM
+// (default /usr/bin/chromium), E2E_OUT (screenshots, default
+// test/artifacts/e2e), KEEP=1 (keep the temp workspace and server state),
+// HEADED=1.
+'use strict';
+const fs = require('fs');
+const os = require('os');
+const path = require('path');
+const net = require('net');
+const { spawnSync, execFileSync } = require('child_process');
+
+const repo = path.resolve(__dirname, '..', '..');
+const tools = path.resolve(process.env.VSCODE_WEB_TOOLS || path.join(repo, '..', 'shared', 'tools', 'vscode-web'));
+const home = process.env.VSCODE_WEB_HOME || path.join(os.homedir(), '.cache', 'vscode-web');
+const outDir = path.resolve(process.env.E2E_OUT || path.join(repo, 'test', 'artifacts', 'e2e'));
+const t0 = Date.now();
+const secs = (from) => ((Date.now() - from) / 1000).toFixed(1);
+
+const results = [];
+function check(name, ok, detail) {
+  results.push({ name, ok });
+  console.log(`${ok ? 'ok  ' : 'FAIL'} ${name}${detail ? ` — ${detail}` : ''} (${secs(t0)}s)`);
+  return ok;
+}
+function finish(code) {
+  const passed = results.filter((r) => r.ok).length;
+  const failed = results.length - passed;
+  console.log(`end-to-end total ${secs(t0)}s`);
+  console.log(`${passed} passed, ${failed} failed`);
+  process.exit(failed || code ? 1 : 0);
+}
+
+function freePort() {
+  return new Promise((resolve) => {
+    const s = net.createServer().listen(0, '127.0.0.1', () => {
+      const { port } = s.address();
+      s.close(() => resolve(port));
+    });
+  });
+}
+
+function run(label, cmd, args, opts = {}) {
+  const t = Date.now();
+  const r = spawnSync(cmd, args, { encoding: 'utf8', ...opts });
+  const ok = r.status === 0;
+  check(`${label} (${secs(t)}s)`, ok, ok ? '' : `${(r.stderr || r.stdout || String(r.error || '')).trim().split('\n').slice(-5).join(' | ')}`);
+  return r;
+}
+
+// Quick input (Ctrl+P / F1 / Ctrl+G): type, wait for a matching row (if any), accept.
+async function quickInput(page, keys, text, rowText) {
+  await page.keyboard.press(keys);
+  await page.locator('.quick-input-widget .quick-input-box input').waitFor({ state: 'visible' });
+  await page.keyboard.type(text, { delay: 10 });
+  if (rowText) await page.locator('.quick-input-widget .monaco-list-row', { hasText: rowText }).first().waitFor({ state: 'visible', timeout: 30000 });
+  await page.keyboard.press('Enter');
+  await page.locator('.quick-input-widget').waitFor({ state: 'hidden' });
+}
+
+(async () => {
+  fs.mkdirSync(outDir, { recursive: true });
+  // 1. the recipe (idempotent, ~0.5 s when installed)
+  const install = path.join(tools, 'install.sh');
+  if (!check('vscode-web recipe present', fs.existsSync(install), install)) return finish(1);
+  if (run('install.sh', install, [], { env: { ...process.env, VSCODE_WEB_HOME: home } }).status !== 0) return finish(1);
+
+  // 2. the .vsix (npm run package = build the extension bundles + vsce)
+  const pkg = JSON.parse(fs.readFileSync(path.join(repo, 'package.json'), 'utf8'));
+  const vsix = path.join(repo, `${pkg.name}-${pkg.version}.vsix`);
+  fs.rmSync(vsix, { force: true });
+  if (run('npm run package', 'npm', ['run', 'package', '--silent'], { cwd: repo }).status !== 0 || !check('vsix built', fs.existsSync(vsix), vsix)) return finish(1);
+
+  // 3. a throwaway copy of the sample workspace
+  const work = fs.mkdtempSync(path.join(os.tmpdir(), 'leastwise-e2e-'));
+  const ws = path.join(work, 'cooling');
+  fs.cpSync(path.join(repo, 'samples', 'cooling'), ws, { recursive: true });
+  const specText = fs.readFileSync(path.join(ws, 'cooling.lsq'), 'utf8');
+  const specLines = specText.split(/\r?\n/);
+  const sigmaLine = specLines.findIndex((l) => /^\s*sigma\s+temp_sd\s*$/.test(l)) + 1;
+  if (!check('sample spec has a `sigma temp_sd` line', sigmaLine > 0, `line ${sigmaLine}`)) return finish(1);
+
+  // 4. code-server with the .vsix installed
+  const state = path.join(work, 'state');
+  const port = await freePort();
+  const tStart = Date.now();
+  let env;
+  try {
+    const out = execFileSync(path.join(tools, 'start.sh'), ['--port', String(port), '--workspace', ws, '--extension', vsix, '--state', state], {
+      encoding: 'utf8', env: { ...process.env, VSCODE_WEB_HOME: home }, stdio: ['ignore', 'pipe', 'pipe'],
+    });
+    env = Object.fromEntries(out.trim().split('\n').map((l) => /^(\w+)='?(.*?)'?$/.exec(l)).filter(Boolean).map((m) => [m[1], m[2]]));
+  } catch (e) {
+    check('code-server started', false, String(e.stderr || e.message).split('\n').slice(-5).join(' | '));
+    return finish(1);
+  }
+  check(`code-server started (${secs(tStart)}s)`, Boolean(env.VSCODE_WEB_URL), env.VSCODE_WEB_URL);
+
+  const { chromium } = require(path.join(repo, 'node_modules', 'playwright-core'));
+  const scratch = fs.mkdtempSync(path.join(os.tmpdir(), 'leastwise-e2e-chromium-'));
+  const browser = await chromium.launch({
+    executablePath: process.env.CHROMIUM || '/usr/bin/chromium',
+    headless: process.env.HEADED !== '1',
+    env: { ...process.env, XDG_CONFIG_HOME: scratch, XDG_CACHE_HOME: scratch },
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
+      '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage',
+      '--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE localhost, EXCLUDE 127.0.0.1'],
+  });
+  const context = await browser.newContext({ viewport: { width: 1600, height: 960 } });
+  const page = await context.newPage();
+  page.setDefaultTimeout(60000);
+  const pageErrors = [];
+  page.on('pageerror', (e) => pageErrors.push(e.message));
+  // Requests to other hosts. Webview resources use https://*.vscode-resource.vscode-cdn.net
+  // URLs that the webview's service worker answers locally; those never touch the network.
+  const external = new Set();
+  const isLocal = (u) => ['127.0.0.1', 'localhost'].includes(u.hostname);
+  context.on('requestfinished', async (r) => {
+    const u = new URL(r.url());
+    if (!/^https?:$/.test(u.protocol) || isLocal(u)) return;
+    const res = await r.response().catch(() => null);
+    if (!res || !res.fromServiceWorker()) external.add(u.host);
+  });
+  context.on('requestfailed', (r) => {
+    const u = new URL(r.url());
+    if (/^https?:$/.test(u.protocol) && !isLocal(u)) external.add(u.host);
+  });
+
+  let failed = false;
+  const tDrive = Date.now();
+  try {
+    await page.goto(env.VSCODE_WEB_URL);
+    await page.locator('.monaco-workbench').waitFor();
+    await page.locator('.explorer-folders-view .monaco-list-row', { hasText: 'cooling.lsq' }).waitFor();
+    check('workbench loaded with the sample workspace', true);
+
+    await quickInput(page, 'Control+P', 'cooling.lsq', 'cooling.lsq');
+    const editor = page.locator('.editor-group-container .monaco-editor').first();
+    await editor.locator('.view-lines', { hasText: 'fit newton on bench' }).waitFor();
+    check('cooling.lsq open in the editor', true);
+
+    // the extension is active: status bar item and the code lens above the fit
+    await page.locator('.statusbar-item', { hasText: 'Leastwise' }).first().waitFor();
+    check('status bar item shown', true);
+    await editor.locator('.codelens-decoration', { hasText: 'Fit' }).first().waitFor();
+    check('"Fit" code lens above the fit', true);
+    const lang = (await page.locator('.statusbar-item', { hasText: /Leastwise spec|lsq/ }).first().innerText()).trim();
+    check('language mode is the Leastwise spec language', /Leastwise spec|lsq/.test(lang), lang);
+
+    // typo: `temp_sd` -> `temp_sdx` (not a column of cooling.csv)
+    await quickInput(page, 'Control+G', String(sigmaLine));
+    await page.keyboard.press('End');
+    await page.keyboard.type('x');
+    await editor.locator('.squiggly-error').first().waitFor();
+    check('error squiggle under the misspelt column', true);
+    await page.keyboard.press('Control+Shift+M');
+    const problem = page.locator('.markers-panel .monaco-list-row', { hasText: 'temp_sdx' }).first();
+    await problem.waitFor();
+    check('Problems panel lists the unknown column', true, (await problem.innerText()).replace(/\s+/g, ' ').slice(0, 160));
+
+    // quick fix: "Change to 'temp_sd'"
+    await page.keyboard.press('Control+1'); // back to the editor
+    await quickInput(page, 'Control+G', `${sigmaLine}:${specLines[sigmaLine - 1].indexOf('temp_sd') + 3}`);
+    await page.keyboard.press('Control+.');
+    const fix = page.locator('.action-widget .monaco-list-row', { hasText: "Change to 'temp_sd'" }).first();
+    await fix.waitFor();
+    await page.keyboard.press('Enter'); // the preferred fix is the focused row
+    await editor.locator('.view-line', { hasText: /sigma\s+temp_sd\s*$/ }).first().waitFor();
+    await editor.locator('.squiggly-error').first().waitFor({ state: 'detached' });
+    check('quick fix restores the column name and the squiggle goes away', true);
+    await page.keyboard.press('Control+J'); // hide the panel area (Problems) to leave room
+    await page.locator('.markers-panel').waitFor({ state: 'hidden' });
+
+    // fit from the command palette
+    await page.keyboard.press('Control+1');
+    await quickInput(page, 'F1', 'Leastwise: Fit This File', 'Leastwise: Fit This File');
+    check('"Leastwise: Fit This File" ran from the command palette', true);
+    const frame = page.frameLocator('iframe.webview.ready').frameLocator('#active-frame');
+    await frame.locator('table.lw-params tbody tr[data-param="tau"]').waitFor({ timeout: 90000 });
+    const params = await frame.locator('table.lw-params tbody tr').evaluateAll((trs) => trs.map((tr) => tr.getAttribute('data-param')));
+    check('results panel shows the parameter table', params.join(',') === 'rise,tau', params.join(','));
+    const tau = (await frame.locator('table.lw-params tbody tr[data-param="tau"]').innerText()).replace(/\s+/g, ' ');
+    check('tau has an estimate and a standard error', /tau \d+\.\d+ \d+\.\d+/.test(tau), tau);
+    await frame.locator('body[data-rendered="true"]').waitFor();
+    const marks = await frame.locator('figure.lw-chart').evaluateAll((fs) => fs.map((f) => Number(f.dataset.marks)));
+    check('every chart drew marks', marks.length >= 4 && marks.every((m) => m > 0), marks.join(','));
+    await page.locator('.statusbar-item', { hasText: /Leastwise: 1\/1 fit/ }).first().waitFor();
+    check('status bar shows the last fit', true);
+
+    // hover after the fit: estimate ± standard error
+    await page.keyboard.press('Control+1');
+    const tauToken = editor.locator('.view-line', { hasText: 'param tau' }).locator('span span', { hasText: /^tau$/ }).first();
+    await tauToken.hover();
+    const hover = page.locator('.monaco-hover-content', { hasText: '±' }).first();
+    await hover.waitFor();
+    check('hover on a parameter shows estimate ± standard error', true, (await hover.innerText()).replace(/\s+/g, ' ').slice(0, 120));
+  } catch (e) {
+    failed = true;
+    check('no exception while driving VS Code', false, String(e.message).split('\n')[0]);
+  }
+  const shot = path.join(outDir, 'vscode-results.png');
+  await page.screenshot({ path: shot }).catch(() => {});
+  console.log(`screenshot: ${shot}`);
+  console.log(`drive ${secs(tDrive)}s`);
+  check('no uncaught errors in the workbench page', pageErrors.length === 0, pageErrors.slice(0, 3).join(' | '));
+  check('nothing reached outside 127.0.0.1', external.size === 0, [...external].join(', '));
+  await browser.close();
+  fs.rmSync(scratch, { recursive: true, force: true });
+
+  spawnSync(path.join(tools, 'start.sh'), ['--stop', state], { stdio: 'ignore', env: { ...process.env, VSCODE_WEB_HOME: home } });
+  const anyFail = failed || results.some((r) => !r.ok);
+  if (anyFail || process.env.KEEP === '1') {
+    const logs = path.join(state, 'user-data', 'logs');
+    console.log(`kept ${work} (server log ${path.join(state, 'code-server.log')}, extension host logs under ${logs})`);
+  } else fs.rmSync(work, { recursive: true, force: true });
+  finish(failed ? 1 : 0);
+})().catch((e) => {
+  console.error(e);
+  check('driver', false, e.message);
+  finish(1);
+});

@@ -1,0 +1,79 @@
+import { describe, expect, it } from 'vitest';
+import { completionsAt } from '../../extension/logic/completion';
+import { FUNCTIONS, LOSSES, METHODS, STATISTICS } from '../../parser/plan';
+import { KEYWORD_DOCS } from '../../parser/keyword-doc';
+import { analysisOf, COOLING, COOLING_HEADERS } from './helpers';
+
+/** Completions with the cursor where `marker` is written (the marker is removed). */
+function at(textWithMarker: string, headers = COOLING_HEADERS) {
+  const offset = textWithMarker.indexOf('|');
+  const text = textWithMarker.slice(0, offset) + textWithMarker.slice(offset + 1);
+  return completionsAt(analysisOf(text, 'found', headers), offset);
+}
+const labels = (items: { label: string }[]) => items.map((i) => i.label);
+
+describe('extension/logic/completion', () => {
+  it('offers statement keywords at the start of a top-level line', () => {
+    const items = at(`${COOLING}\n|`);
+    expect(labels(items)).toEqual(expect.arrayContaining(['data', 'const', 'fit', 'predict', 'invert', 'compare', 'expect']));
+    expect(labels(items)).not.toContain('model');
+    expect(items.find((i) => i.label === 'fit')?.documentation).toBe(KEYWORD_DOCS.fit);
+  });
+
+  it('offers fit-body keywords inside a fit block', () => {
+    const text = COOLING.replace('  sigma temp_sd\n', '  sigma temp_sd\n  |\n');
+    expect(labels(at(text))).toEqual(expect.arrayContaining(['model', 'param', 'sigma', 'weight', 'method', 'loss', 'level', 'per']));
+    expect(labels(at(text))).not.toContain('predict');
+  });
+
+  it('offers the solver methods after `method` and the losses after `loss`', () => {
+    expect(labels(at(COOLING.replace('  sigma temp_sd\n', '  sigma temp_sd\n  method |\n')))).toEqual([...METHODS]);
+    expect(labels(at(COOLING.replace('  sigma temp_sd\n', '  sigma temp_sd\n  loss |\n')))).toEqual([...LOSSES]);
+  });
+
+  it('offers parameters, header columns, constants and functions in a model expression', () => {
+    const items = at(COOLING.replace('exp(-time_min / tau)', 'exp(-time_min / |tau)'));
+    const l = labels(items);
+    expect(l).toEqual(expect.arrayContaining(['rise', 'tau', ...COOLING_HEADERS, 'ambient', 'pi', 'e', ...Object.keys(FUNCTIONS)]));
+    expect(items.find((i) => i.label === 'tau')?.kind).toBe('parameter');
+    expect(items.find((i) => i.label === 'batch')?.kind).toBe('column');
+    expect(items.find((i) => i.label === 'atan2')?.snippet).toBe('atan2(${1}, ${2})');
+  });
+
+  it('quotes column names that are not plain identifiers', () => {
+    const headers = ['time (min)', 'temp_C', 'temp_sd'];
+    const items = at(COOLING.replace('exp(-time_min / tau)', 'exp(-time_min / |tau)'), headers);
+    expect(items.find((i) => i.label === 'time (min)')?.insertText).toBe('"time (min)"');
+    expect(items.find((i) => i.label === 'temp_C')?.insertText).toBeUndefined();
+  });
+
+  it('offers data names after `fit NAME on` and fit names after query keywords', () => {
+    expect(labels(at(`${COOLING}fit other on |`))).toEqual(['bench']);
+    expect(labels(at(`${COOLING}predict |`))).toEqual(['newton']);
+    expect(labels(at(`${COOLING}compare newton, |`))).toEqual(['newton']);
+  });
+
+  it('offers parameters and statistics after `expect FIT.`', () => {
+    const l = labels(at(`${COOLING}expect newton.|`));
+    expect(l).toEqual(['rise', 'tau', ...STATISTICS]);
+  });
+
+  it('offers names used in the model but not declared after `param`', () => {
+    const text = COOLING.replace('  param tau  = 10 in [0.1, 1000] [min]\n', '  param |\n');
+    expect(labels(at(text))).toEqual(['tau']);
+  });
+
+  it('offers the columns of the fit data after `per`', () => {
+    expect(labels(at(COOLING.replace('  sigma temp_sd\n', '  sigma temp_sd\n  per |\n')))).toEqual(COOLING_HEADERS);
+  });
+
+  it('offers nothing inside a comment', () => {
+    expect(at(`${COOLING}# fit |`)).toEqual([]);
+  });
+
+  it('offers CSV files inside the path of a data statement', () => {
+    const text = `${COOLING}data other = "`;
+    const a = analysisOf(text);
+    expect(labels(completionsAt(a, text.length, { csvFiles: ['cooling.csv', 'runs/b.csv'] }))).toEqual(['cooling.csv', 'runs/b.csv']);
+  });
+});

@@ -1,0 +1,72 @@
+import { describe, expect, it } from 'vitest';
+import { hoverAt } from '../../extension/logic/hover';
+import { formatEstimate, formatNumber } from '../../engine/views/format';
+import { FUNCTION_DOCS } from '../../parser/functions-doc';
+import { analysisOf, COOLING, fitNamed, runWith } from './helpers';
+
+const offsetOf = (needle: string, from = 0) => COOLING.indexOf(needle, from) + 1;
+
+describe('extension/logic/hover', () => {
+  it('documents a function from the parser docs', () => {
+    const h = hoverAt(analysisOf(COOLING), offsetOf('exp('));
+    expect(h?.markdown).toContain(FUNCTION_DOCS.exp.signature);
+    expect(h?.markdown).toContain(FUNCTION_DOCS.exp.doc);
+    expect(COOLING.slice(h!.span.start, h!.span.end)).toBe('exp');
+  });
+
+  it('shows a parameter declaration before any fit', () => {
+    const h = hoverAt(analysisOf(COOLING), offsetOf('tau)'));
+    expect(h?.markdown).toContain('parameter of fit `newton`');
+    expect(h?.markdown).toContain('bounds [0.1, 1000]');
+    expect(h?.markdown).not.toContain('estimate');
+  });
+
+  it('shows estimate ± standard error and the interval after a fit', () => {
+    const fit = fitNamed('newton', ['rise', 'tau']);
+    const tau = fit.parameters[1];
+    const h = hoverAt(analysisOf(COOLING), offsetOf('tau)'), runWith([fit]));
+    const f = formatEstimate(tau.estimate, tau.stderr, tau.lower, tau.upper);
+    expect(h?.markdown).toContain(`${f.estimate} ± ${f.stderr}`);
+    expect(h?.markdown).toContain(`[${f.lower}, ${f.upper}]`);
+    expect(h?.markdown).toContain('95% interval');
+  });
+
+  it('shows the same estimate when hovering the name in an expect statement', () => {
+    const fit = fitNamed('newton', ['rise', 'tau']);
+    const h = hoverAt(analysisOf(COOLING), COOLING.indexOf('newton.tau') + 'newton.'.length + 1, runWith([fit]));
+    const p = fit.parameters[1];
+    const f = formatEstimate(p.estimate, p.stderr, p.lower, p.upper);
+    expect(h?.markdown).toContain(`${f.estimate} ± ${f.stderr}`);
+  });
+
+  it('lists every group of a per-group fit', () => {
+    const fits = ['north', 'south'].map((g, i) => fitNamed('newton', ['rise', 'tau'], { group: g, seed: 10 + i }));
+    const h = hoverAt(analysisOf(COOLING), offsetOf('rise *'), runWith(fits));
+    expect(h?.markdown).toContain('| north |');
+    expect(h?.markdown).toContain('| south |');
+    const p = fits[1].parameters[0];
+    const f = formatEstimate(p.estimate, p.stderr, p.lower, p.upper);
+    expect(h?.markdown).toContain(`${f.estimate} ± ${f.stderr}`);
+  });
+
+  it('shows constants, data sources with their columns, and columns', () => {
+    const a = analysisOf(COOLING);
+    expect(hoverAt(a, offsetOf('ambient +'))?.markdown).toContain('21.5');
+    const data = hoverAt(a, offsetOf('bench {'))?.markdown;
+    expect(data).toContain('cooling.csv');
+    expect(data).toContain('`temp_sd`');
+    expect(hoverAt(a, offsetOf('temp_sd'))?.markdown).toContain('column of `bench`');
+  });
+
+  it('gives a statistic value in expect after a fit', () => {
+    const fit = fitNamed('newton', ['rise', 'tau']);
+    const h = hoverAt(analysisOf(COOLING), COOLING.indexOf('newton.r2') + 'newton.'.length + 1, runWith([fit]));
+    expect(h?.markdown).toContain('**r2** of `newton`');
+    expect(h?.markdown).toContain(`= ${formatNumber(fit.goodness.r2, 4)}`);
+  });
+
+  it('returns null on blanks and numbers', () => {
+    const a = analysisOf(COOLING);
+    expect(hoverAt(a, COOLING.indexOf('21.5') + 1)).toBeNull();
+  });
+});

@@ -1,0 +1,218 @@
+import { describe, expect, it } from 'vitest';
+import { analyze, check } from '../../parser/index';
+import type { CheckContext } from '../../parser/index';
+import type { SpecAst } from '../../parser/ast';
+import type { Diagnostic } from '../../parser/plan';
+import { CODES, type DiagnosticCode } from '../../parser/messages';
+import { marked, specs } from './helpers';
+
+const HEADERS: CheckContext = { headers: () => ['x', 'y', 'z', 'sd', 'batch', 'temp (C)'] };
+const seen = new Set<string>();
+
+/** Asserts a diagnostic with this code exactly on the «marked» span (line, column, offset) and returns it. */
+function expectAt(withMarks: string, code: DiagnosticCode, ctx?: CheckContext): Diagnostic {
+  const m = marked(withMarks);
+  const { diagnostics } = analyze(m.text, ctx);
+  const hit = diagnostics.find((d) => d.code === code && d.range.start.offset === m.start.offset && d.range.end.offset === m.end.offset);
+  expect(hit, `${code} at ${m.start.line}:${m.start.column}; got ${JSON.stringify(diagnostics.map((d) => [d.code, d.range.start.line, d.range.start.column, d.message]))}`).toBeDefined();
+  expect(hit!.range.start).toEqual(m.start);
+  expect(hit!.range.end).toEqual(m.end);
+  expect(hit!.severity).toBe(CODES[code]);
+  expect(hit!.message.length).toBeGreaterThan(0);
+  seen.add(code);
+  return hit!;
+}
+
+/** A small valid spec with room for extra fit items (`items`) and statements after it (`after`). */
+function spec(parts: { model?: string; items?: string; after?: string; before?: string }): string {
+  return [
+    parts.before ?? '',
+    'data d = "a.csv"',
+    'fit f on d {',
+    `  model ${parts.model ?? 'y = a * x'}`,
+    '  param a = 1',
+    parts.items ?? '',
+    '}',
+    parts.after ?? '',
+  ].join('\n');
+}
+
+describe('parser/check diagnostics', () => {
+  it('valid specs have no diagnostics', () => {
+    for (const s of specs()) expect(analyze(s.text).diagnostics, s.name).toEqual([]);
+  });
+
+  it('syntax', () => {
+    expectAt('const k = 1 «@»', 'syntax');
+    expectAt('fit f on d {\n  model y = a «*»\n}', 'syntax');
+  });
+
+  it('internal: a damaged syntax tree becomes one diagnostic, not an exception', () => {
+    const broken = { kind: 'spec', statements: [{ kind: 'fit', name: { name: 'f' }, items: null }], range: analyze('').ast.range } as unknown as SpecAst;
+    const { diagnostics, plan } = check(broken);
+    expect(diagnostics.map((d) => d.code)).toEqual(['internal']);
+    expect(plan.version).toBe(1);
+    seen.add('internal');
+  });
+
+  it('undefined-name with did-you-mean (headers known)', () => {
+    const d = expectAt(spec({ model: 'y = a * «xx»' }), 'undefined-name', HEADERS);
+    expect(d.suggestions).toContain('x');
+    expect(d.message).toMatch(/did you mean 'x'/);
+    const d2 = expectAt(spec({ model: 'y = «ab» * x' }), 'undefined-name', HEADERS);
+    expect(d2.suggestions?.[0]).toBe('a');
+  });
+
+  it('undefined-name for a value that is not a constant', () => {
+    const d = expectAt('const ambient = 20\nconst k = «ambeint»', 'undefined-name');
+    expect(d.suggestions).toEqual(['ambient']);
+    expectAt('const k = «k»', 'undefined-name');
+  });
+
+  it('unresolved identifiers are columns when headers are unknown', () => {
+    const { diagnostics, plan } = analyze(spec({ model: 'y = a * xx' }));
+    expect(diagnostics).toEqual([]);
+    expect(plan.fits[0].blocks[0].columns).toEqual(['y', 'xx']);
+  });
+
+  it('unknown-column for quoted names and per', () => {
+    expect(expectAt(spec({ model: '«"temp (K)"» = a * x' }), 'unknown-column', HEADERS).suggestions).toEqual(['temp (C)']);
+    expect(expectAt(spec({ items: '  per «batc»' }), 'unknown-column', HEADERS).suggestions).toEqual(['batch']);
+  });
+
+  it('unknown-data with did-you-mean', () => {
+    const d = expectAt('data bench = "a.csv"\nfit f on «bench2» {\n  model y = a * x\n  param a\n}', 'unknown-data');
+    expect(d.suggestions).toEqual(['bench']);
+  });
+
+  it('unknown-fit with did-you-mean', () => {
+    expect(expectAt(spec({ after: 'predict «g» at x = 1' }), 'unknown-fit').suggestions).toEqual(['f']);
+    expectAt(spec({ after: 'expect «newton».r2 above 0.9' }), 'unknown-fit');
+    expectAt(spec({ after: 'compare f, «h»' }), 'unknown-fit');
+  });
+
+  it('declared-later: names must be declared above their use', () => {
+    expectAt('fit f on «d» {\n  model y = a * x\n  param a\n}\ndata d = "a.csv"', 'declared-later');
+    expectAt(spec({ model: 'y = a * x + «k»', after: 'const k = 2' }), 'declared-later');
+    expectAt('expect «f».r2 above 0.5\n' + spec({}), 'declared-later');
+  });
+
+  it('duplicate-name for data, const, fit and param', () => {
+    expectAt('data d = "a.csv"\ndata «d» = "b.csv"\nfit f on d {\n  model y = a * x\n  param a\n}', 'duplicate-name');
+    expectAt('const k = 1\nconst «k» = 2', 'duplicate-name');
+    expectAt(spec({ after: 'fit «f» on d {\n  model y = a * x\n  param a\n}' }), 'duplicate-name');
+    expectAt(spec({ items: '  param «a» = 2' }), 'duplicate-name');
+    expectAt(spec({ before: 'const a = 1', items: '' }).replace('param a = 1', 'param «a» = 1'), 'duplicate-name');
+  });
+
+  it('duplicate-option', () => {
+    expectAt(spec({ items: '  level 0.9\n  «level 0.8»' }), 'duplicate-option');
+    expectAt(spec({ items: '  param b = 1 «= 2»' }), 'duplicate-option');
+    expectAt('data d = "a.csv" where x > 0 «where x < 9»\nfit f on d {\n  model y = a * x\n  param a\n}', 'duplicate-option');
+  });
+
+  it('reserved-name', () => {
+    expectAt('const «pi» = 3', 'reserved-name');
+    expectAt(spec({ model: 'y = a * x + e', items: '  param «e» = 1' }), 'reserved-name');
+  });
+
+  it('param-column-clash and const-column-clash (headers known)', () => {
+    expectAt(spec({ model: 'y = a * x + z', items: '  param «z» = 1' }), 'param-column-clash', HEADERS);
+    expectAt(spec({ before: 'const «sd» = 2' }), 'const-column-clash', HEADERS);
+  });
+
+  it('unknown-function with did-you-mean, arity', () => {
+    expect(expectAt(spec({ model: 'y = a * «sqr»(x)' }), 'unknown-function').suggestions).toEqual(['sqrt']);
+    expect(expectAt(spec({ model: 'y = a * «log»(x)' }), 'unknown-function').suggestions).toEqual(['ln', 'log10']);
+    expectAt(spec({ model: 'y = a * «atan2(x)»' }), 'arity');
+    expectAt(spec({ model: 'y = «when(x > 1, a)»' }), 'arity');
+  });
+
+  it('condition-expected and number-expected', () => {
+    expectAt('data d = "a.csv" where «x + 1»\n' + spec({}).replace('data d = "a.csv"', ''), 'condition-expected');
+    expectAt(spec({ model: 'y = when(«x», a, 0)' }), 'condition-expected');
+    expectAt(spec({ model: 'y = a * «(x > 1)»' }), 'number-expected');
+    // Comparisons do not chain: the left comparison becomes an operand.
+    expectAt('data d = "a.csv" where «0 < x» < 5\nfit f on d {\n  model y = a * x\n  param a\n}', 'number-expected');
+  });
+
+  it('param-not-allowed outside the model side', () => {
+    expectAt(spec({ model: 'y - «a» = a * x' }), 'param-not-allowed');
+    expectAt(spec({ items: '  sigma «a» * x' }), 'param-not-allowed');
+  });
+
+  it('response-no-column, missing-model, no-parameter', () => {
+    expectAt(spec({ model: '«2 * pi» = a * x' }), 'response-no-column');
+    expectAt('data d = "a.csv"\nfit «f» on d {\n  param a\n}', 'missing-model');
+    expectAt(spec({ model: 'y = «2 * x»' }), 'no-parameter');
+  });
+
+  it('bounds-order, initial-outside-bounds, fixed-without-value', () => {
+    expectAt(spec({ items: '  param b = 1 «in [5, 2]»' }), 'bounds-order');
+    expectAt(spec({ items: '  param b «in [inf, 5]»' }), 'bounds-order');
+    expectAt(spec({ items: '  param b = «9» in [0, 5]' }), 'initial-outside-bounds');
+    expectAt(spec({ items: '  param b = «-1» in [0, inf]' }), 'initial-outside-bounds');
+    expectAt(spec({ items: '  param b «fixed»' }), 'fixed-without-value');
+    expectAt(spec({ after: 'expect f.a «within 2 .. 1»' }), 'bounds-order');
+  });
+
+  it('unknown-option with did-you-mean for method, loss, delimiter and decimal', () => {
+    expect(expectAt(spec({ items: '  method «lienar»' }), 'unknown-option').suggestions).toEqual(['linear']);
+    expect(expectAt(spec({ items: '  loss «hubr»' }), 'unknown-option').suggestions).toEqual(['huber']);
+    expectAt('data d = "a.csv" delimiter «"|"»', 'unknown-option');
+    expectAt('data d = "a.csv" decimal «"·"»', 'unknown-option');
+  });
+
+  it('level-range, not-positive, not-integer', () => {
+    expectAt(spec({ items: '  level «1.5»' }), 'level-range');
+    expectAt(spec({ items: '  level «0»' }), 'level-range');
+    expectAt(spec({ items: '  iterations «0»' }), 'not-positive');
+    expectAt(spec({ items: '  tolerance «-1e-3»' }), 'not-positive');
+    expectAt(spec({ items: '  loss huber scale «0»' }), 'not-positive');
+    expectAt(spec({ items: '  iterations «2.5»' }), 'not-integer');
+  });
+
+  it('inf-not-allowed, number-range, empty-path, delimiter-clash', () => {
+    expectAt(spec({ items: '  param b = «inf»' }), 'inf-not-allowed');
+    expectAt(spec({ after: 'predict f at x = 1, «-inf»' }), 'inf-not-allowed');
+    expectAt('const k = «1e400»', 'number-range');
+    expectAt(spec({ model: 'y = a * x + «1e999»' }), 'number-range');
+    expectAt('data d = «""»', 'empty-path');
+    expectAt('data d = "a.csv" delimiter "," «decimal ","»', 'delimiter-clash');
+  });
+
+  it('unknown-target for expectations', () => {
+    expect(expectAt(spec({ after: 'expect f.«r3» above 0.5' }), 'unknown-target').suggestions).toContain('r2');
+    expect(expectAt(spec({ after: 'expect f.a.«sd» below 1' }), 'unknown-target').suggestions).toEqual(['se']);
+    expect(expectAt(spec({ after: 'expect f.«b».se below 1' }), 'unknown-target').suggestions).toEqual(['a']);
+    expectAt(spec({ after: 'expect f.a.se.«x» below 1' }), 'unknown-target');
+  });
+
+  it('predictor-mismatch and response-mismatch', () => {
+    expect(expectAt(spec({ after: 'predict f at «z» = 1' }), 'predictor-mismatch').suggestions).toEqual(['x']);
+    const two = spec({ model: 'y = a * x + b * z', items: '  param b' });
+    expect(analyze(two + '\npredict f at z = 1').diagnostics).toEqual([]);
+    expectAt(two + '\npredict f at «w» = 1', 'predictor-mismatch');
+    expectAt(two + '\ninvert «f» at y = 1', 'predictor-mismatch');
+    expectAt(spec({ model: 'y = a', after: 'predict f at «x» = 1' }), 'predictor-mismatch');
+    expect(expectAt(spec({ after: 'invert f at «x» = 1' }), 'response-mismatch').suggestions).toEqual(['y']);
+    expect(analyze(spec({ model: 'ln(y) = a * x', after: 'invert f at y = 2' })).diagnostics).toEqual([]);
+  });
+
+  it('compare-too-few; repeated-fit (a warning)', () => {
+    expectAt(spec({ after: '«compare f»' }), 'compare-too-few');
+    expectAt(spec({ after: 'compare f, «f»' }), 'repeated-fit');
+  });
+
+  it('warnings: unused-parameter, unused-data, option-ignored', () => {
+    expectAt(spec({ items: '  param «b» = 1' }), 'unused-parameter');
+    expectAt('data «e» = "b.csv"\n' + spec({}), 'unused-data');
+    expectAt(spec({ items: '  loss squared scale «2»' }), 'option-ignored');
+    expectAt(spec({ items: '  «rate 0.1»' }), 'option-ignored');
+    expect(analyze(spec({ items: '  method gradient_descent\n  rate 0.1' })).diagnostics).toEqual([]);
+  });
+
+  it('every diagnostic code is exercised above', () => {
+    expect([...seen].sort()).toEqual(Object.keys(CODES).sort());
+  });
+});

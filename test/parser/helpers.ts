@@ -1,0 +1,43 @@
+/** Shared helpers for the parser tests (not a test file). */
+import { readFileSync, readdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import type { Diagnostic } from '../../parser/plan';
+
+export const SPEC_DIR = fileURLToPath(new URL('./specs', import.meta.url));
+
+/** Every valid spec used by the tests, by file name. */
+export function specs(): { name: string; text: string }[] {
+  return readdirSync(SPEC_DIR)
+    .filter((f) => f.endsWith('.lsq'))
+    .sort()
+    .map((name) => ({ name, text: readFileSync(join(SPEC_DIR, name), 'utf8') }));
+}
+
+export interface Marked {
+  text: string;
+  /** Half-open span [start, end) marked in the text: 1-based line/column and 0-based offset, counted here independently of the parser. */
+  start: { line: number; column: number; offset: number };
+  end: { line: number; column: number; offset: number };
+}
+
+/** Strips one `«...»` marker pair from the text and returns the span it marked. */
+export function marked(withMarks: string): Marked {
+  const a = withMarks.indexOf('«');
+  const b = withMarks.indexOf('»');
+  if (a < 0 || b < a) throw new Error('test text needs one «...» marker');
+  const text = withMarks.slice(0, a) + withMarks.slice(a + 1, b) + withMarks.slice(b + 1);
+  const pos = (offset: number) => {
+    const before = text.slice(0, offset).split('\n');
+    return { line: before.length, column: before[before.length - 1].length + 1, offset };
+  };
+  return { text, start: pos(a), end: pos(b - 1) };
+}
+
+export function codes(ds: Diagnostic[]): string[] {
+  return ds.map((d) => d.code);
+}
+
+export function errors(ds: Diagnostic[]): Diagnostic[] {
+  return ds.filter((d) => d.severity === 'error');
+}

@@ -1,0 +1,64 @@
+/** Test helpers for the runner: invented CSVs in a temp folder, spec → analyze → run. */
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { analyze } from '../../parser/index';
+import { headerLookup } from '../../engine/data/header';
+import { runPlan, type RunOptions } from '../../engine/run/run-plan';
+import type { RunResult } from '../../engine/result';
+import type { Diagnostic } from '../../parser/plan';
+
+/** Deterministic standard normal values: mulberry32 uniforms + Box–Muller. */
+export function normals(seed: number, count: number): number[] {
+  let a = seed >>> 0;
+  const uniform = () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+  const out: number[] = [];
+  while (out.length < count) {
+    const u = uniform() || 1e-12;
+    out.push(Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * uniform()));
+  }
+  return out;
+}
+
+const made: string[] = [];
+process.on('exit', () => {
+  for (const d of made) rmSync(d, { recursive: true, force: true });
+});
+
+/** A fresh folder under the OS temp dir, removed when the test process exits. */
+export function tempDir(): string {
+  const d = mkdtempSync(join(tmpdir(), 'lw-run-'));
+  made.push(d);
+  return d;
+}
+
+/** Writes `name` in `dir` from a header and rows of cells. */
+export function writeCsv(dir: string, name: string, header: string[], rows: (number | string)[][]): string {
+  const path = join(dir, name);
+  writeFileSync(path, [header.join(','), ...rows.map((r) => r.join(','))].join('\n') + '\n');
+  return path;
+}
+
+export interface SpecRun {
+  result: RunResult;
+  diagnostics: Diagnostic[];
+}
+
+/**
+ * Analyzes `spec` (with real CSV headers read from `dir` unless `headers: false`)
+ * and runs it. Fails the test when the parser reports an error.
+ */
+export async function runSpec(spec: string, dir: string, options: { headers?: boolean } & Partial<RunOptions> = {}): Promise<SpecRun> {
+  const useHeaders = options.headers ?? true;
+  const { plan, diagnostics } = analyze(spec, useHeaders ? { headers: headerLookup(dir) } : {});
+  const errors = diagnostics.filter((d) => d.severity === 'error');
+  if (errors.length) throw new Error(`spec has errors: ${errors.map((d) => `${d.code}: ${d.message}`).join('; ')}`);
+  const result = await runPlan(plan, { baseDir: dir, specText: spec, ...options });
+  return { result, diagnostics };
+}

@@ -1,0 +1,85 @@
+import { describe, expect, it } from 'vitest';
+import { bandsAt, grid, predictAt, type ModelAt } from '../../engine/stats/bands';
+import { inversePrediction } from '../../engine/stats/inverse';
+import { brentRoot } from '../../engine/stats/root';
+
+// straight line f = a + b·x with a known covariance C (flat 2×2), s² and t
+const a = 1.5;
+const b = 2.0;
+const C = [0.04, -0.005, -0.005, 0.001];
+const s2 = 0.09;
+const t = 2.1;
+const line: ModelAt = (xs) => {
+  const m = xs.length;
+  const f = new Float64Array(m);
+  const gradient = new Float64Array(2 * m);
+  xs.forEach((x, i) => {
+    f[i] = a + b * x;
+    gradient[i] = 1;
+    gradient[m + i] = x;
+  });
+  return { f, gradient };
+};
+const newVar = (xs: Float64Array) => new Float64Array(xs.length).fill(s2);
+const curve = (xs: Float64Array) => bandsAt(xs, line, C, 2, t, newVar);
+
+describe('stats/bands', () => {
+  it('grid spans min..max inclusive with the requested count', () => {
+    const g = grid(2, 4, 5);
+    expect(Array.from(g)).toEqual([2, 2.5, 3, 3.5, 4]);
+  });
+  it('predictAt: half-widths t·√(gᵀCg) and t·√(gᵀCg + s²) by hand', () => {
+    const [p] = predictAt([3], line, C, 2, t, newVar);
+    const q = C[0] + 2 * 3 * C[1] + 9 * C[3]; // gᵀCg with g = (1, 3)
+    expect(p.fitted).toBeCloseTo(7.5, 14);
+    expect(p.confidence[1] - p.fitted).toBeCloseTo(t * Math.sqrt(q), 12);
+    expect(p.prediction[1] - p.fitted).toBeCloseTo(t * Math.sqrt(q + s2), 12);
+  });
+});
+
+describe('stats/inverse inversePrediction', () => {
+  it('solves the line exactly and inverts the prediction band (Draper & Smith §3.2, by hand)', () => {
+    const y0 = 9;
+    const r = inversePrediction(y0, 0, 10, curve);
+    expect(r.x).toBeCloseTo((y0 - a) / b, 10);
+    // interval ends: (a + b x − y0)² = t²(C00 + 2C01 x + C11 x² + s²), a quadratic A x² + B x + K = 0
+    const A = b * b - t * t * C[3];
+    const B = 2 * b * (a - y0) - 2 * t * t * C[1];
+    const K = (a - y0) ** 2 - t * t * (C[0] + s2);
+    const disc = Math.sqrt(B * B - 4 * A * K);
+    expect(r.interval[0]).toBeCloseTo((-B - disc) / (2 * A), 8);
+    expect(r.interval[1]).toBeCloseTo((-B + disc) / (2 * A), 8);
+    expect(r.message).toBeUndefined();
+  });
+
+  it('returns null when the response is outside the fitted range', () => {
+    const r = inversePrediction(100, 0, 10, curve);
+    expect(r.x).toBeNull();
+    expect(r.interval).toEqual([null, null]);
+    expect(r.message).toContain('no predictor value');
+  });
+
+  it('leaves an interval end open when the band reaches the data edge', () => {
+    const r = inversePrediction(1.6, 0, 10, curve);
+    expect(r.x).toBeCloseTo(0.05, 10);
+    expect(r.interval[0]).toBeNull();
+    expect(r.interval[1]).not.toBeNull();
+    expect(r.message).toContain('open');
+  });
+
+  it('reports the smallest of several solutions', () => {
+    const parabola: ModelAt = (xs) => ({ f: xs.map((x) => (x - 5) ** 2), gradient: new Float64Array(xs.length) });
+    const r = inversePrediction(4, 0, 10, (xs) => bandsAt(xs, parabola, [0], 1, t, (v) => new Float64Array(v.length).fill(0.01)));
+    expect(r.x).toBeCloseTo(3, 9);
+    expect(r.message).toContain('2 solutions');
+  });
+});
+
+describe('stats/root brentRoot', () => {
+  it('finds roots to the documented tolerance and refuses non-brackets', () => {
+    expect(brentRoot((x) => x * x - 2, 0, 2)).toBeCloseTo(Math.SQRT2, 12);
+    expect(brentRoot((x) => Math.cos(x) - x, 0, 1)).toBeCloseTo(0.7390851332151607, 12); // from memory: Dottie number
+    expect(brentRoot((x) => x * x + 1, -1, 1)).toBeNull();
+    expect(brentRoot((x) => x - 1, 1, 3)).toBe(1);
+  });
+});

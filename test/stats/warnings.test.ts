@@ -1,0 +1,64 @@
+import { describe, expect, it } from 'vitest';
+import { WARNING_THRESHOLDS } from '../../engine/messages';
+import { boundHit, fitWarnings, type WarningInput } from '../../engine/stats/warnings';
+
+function base(over: Partial<WarningInput> = {}): WarningInput {
+  return {
+    free: [
+      { name: 'a', estimate: 1, lower: -Infinity, upper: Infinity },
+      { name: 'b', estimate: 2, lower: 0, upper: 10 },
+    ],
+    correlation: [[1, 0.5], [0.5, 1]],
+    condition: 10,
+    rank: 2,
+    undetermined: [],
+    n: 20,
+    stop: { code: 'small_reduction', message: 'ok', converged: true },
+    residuals: { durbinWatson: 2, runs: { observed: 10, expected: 10.5, pValue: 0.8 }, shapiroWilk: { w: 0.97, pValue: 0.6 } },
+    linear: true,
+    rowsDropped: 0,
+    file: 'd.csv',
+    guessed: { names: [], how: '' },
+    ...over,
+  };
+}
+const codes = (over: Partial<WarningInput>) => fitWarnings(base(over)).map((w) => w.code);
+
+describe('stats/warnings fitWarnings', () => {
+  it('gives no warning for a clean fit', () => {
+    expect(fitWarnings(base())).toEqual([]);
+  });
+
+  it('flags each documented condition at its threshold', () => {
+    expect(codes({ free: [{ name: 'a', estimate: 0, lower: 0, upper: 1 }], correlation: [[1]] })).toEqual(['at_bound']);
+    expect(codes({ correlation: [[1, 0.995], [0.995, 1]] })).toEqual(['high_correlation']);
+    expect(codes({ correlation: [[1, WARNING_THRESHOLDS.correlation], [WARNING_THRESHOLDS.correlation, 1]] })).toEqual([]);
+    expect(codes({ condition: 2e10 })).toEqual(['ill_conditioned']);
+    expect(codes({ rank: 1, undetermined: ['b'], condition: Infinity })).toEqual(['rank_deficient']);
+    expect(codes({ n: 4 })).toEqual(['few_dof']);
+    expect(codes({ n: 5 })).toEqual([]);
+    expect(codes({ stop: { code: 'max_iterations', message: '200 iterations', converged: false } })).toEqual(['no_convergence']);
+    expect(codes({ residuals: { durbinWatson: 0.9, runs: null, shapiroWilk: null } })).toEqual(['residual_pattern']);
+    expect(codes({ residuals: { durbinWatson: 2, runs: { observed: 3, expected: 10, pValue: 0.001 }, shapiroWilk: null } })).toEqual(['residual_pattern']);
+    expect(codes({ residuals: { durbinWatson: 2, runs: null, shapiroWilk: { w: 0.8, pValue: 0.002 } } })).toEqual(['non_normal_residuals']);
+    expect(codes({ linear: false })).toEqual(['r2_nonlinear']);
+    expect(codes({ rowsDropped: 3 })).toEqual(['rows_dropped']);
+    expect(codes({ guessed: { names: ['a'], how: 'linear least squares for a' } })).toEqual(['guessed_start']);
+  });
+
+  it('names the parameters a warning is about', () => {
+    const w = fitWarnings(base({ correlation: [[1, -0.999], [-0.999, 1]] }))[0];
+    expect(w.parameters).toEqual(['a', 'b']);
+    expect(w.message).toContain('ρ = -0.999');
+    const r = fitWarnings(base({ rank: 1, undetermined: ['b'], condition: Infinity }))[0];
+    expect(r.parameters).toEqual(['b']);
+    expect(r.message).toContain('rank 1 of 2');
+  });
+
+  it('boundHit uses the relative tolerance max(1, |bound|)·1e-8', () => {
+    expect(boundHit(100 + 5e-7, 100, 200)).toBe('lower');
+    expect(boundHit(100 + 2e-6, 100, 200)).toBeNull();
+    expect(boundHit(200, 100, 200)).toBe('upper');
+    expect(boundHit(0, -Infinity, Infinity)).toBeNull();
+  });
+});
