@@ -3,7 +3,7 @@
  * (CLI text, JSON, Markdown, SVG charts, editor diagnostics, results panel).
  * Bump RESULT_VERSION on any breaking change; `result.schema.json` follows it.
  */
-import type { Range, Expectation, Method, LossKind } from '../parser/plan';
+import type { Range, Expectation, Method, LossKind, FitOptions } from '../parser/plan';
 
 export const RESULT_VERSION = 1 as const;
 
@@ -147,6 +147,8 @@ export interface FitResult {
   /** Group value when the fit ran per group. */
   group?: string;
   method: Exclude<Method, 'auto'>;
+  /** The options as checked from the spec, for provenance (method may be `auto`). */
+  options?: FitOptions;
   loss: LossKind;
   level: number;
   stop: StopReason;

@@ -123,3 +123,15 @@ export function registerFitOnSave(ctx: LwContext): void {
     if (stored && ResultsPanel.current?.specUri?.toString() === doc.uri.toString()) ResultsPanel.current.show(stored.model);
   }));
 }
+
+/** Keeps an open results panel informed while its spec is being fitted. */
+export function registerPanelSync(ctx: LwContext): void {
+  ctx.ext.subscriptions.push(ctx.runs.onDidChange(({ uri, state, message }) => {
+    const p = ResultsPanel.current;
+    if (!p || p.specUri?.toString() !== uri.toString()) return;
+    const specName = uri.path.split('/').pop() ?? 'spec';
+    if (state === 'running') p.post({ type: 'busy', specName, text: message ?? '' });
+    else if (state === 'failed') p.post({ type: 'failed', specName, message: message ?? 'the fit could not run' });
+    else if (state === 'cancelled') p.post({ type: 'failed', specName, message: 'fit cancelled; the results shown are from the previous run' });
+  }));
+}

@@ -5,7 +5,7 @@
  */
 import type * as vscode from 'vscode';
 import { createContext } from './context';
-import { registerCommands, registerFitOnSave, registerPanelSerializer } from './commands';
+import { registerCommands, registerFitOnSave, registerPanelSerializer, registerPanelSync } from './commands';
 import { cancelAllFits } from './fit/service';
 import { registerCompletion } from './language/completion';
 import { registerDiagnostics } from './language/diagnostics';
@@ -25,6 +25,7 @@ export function activate(context: vscode.ExtensionContext): void {
   registerQuickFixes(ctx);
   registerCommands(ctx);
   registerPanelSerializer(ctx);
+  registerPanelSync(ctx);
   registerFitOnSave(ctx);
   registerStatusBar(ctx);
   ctx.log.info('Leastwise activated');

@@ -118,7 +118,7 @@ export interface FitOptions {
   lossScale: number;
   /** Confidence level of intervals and bands, in (0, 1). Default 0.95. */
   level: number;
-  /** Iteration limit of iterative solvers. Default 200 (LM), 100000 (gradient descent). */
+  /** Iteration limit of iterative solvers. Default 1000 (LM), 100000 (gradient descent). */
   maxIterations?: number;
   /** Relative tolerance for the iterative stopping tests. Default 1e-10. */
   tolerance?: number;

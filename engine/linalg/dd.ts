@@ -11,7 +11,8 @@
  * quad-double precision floating point arithmetic" (ARITH-15, 2001), §3-4.
  *
  * Results go to the two-slot scratch array `DD_OUT` (hi, lo) so that no
- * objects are allocated; read both slots before the next call.
+ * objects are allocated; read both slots before the next call. (The
+ * refinement loops in `solve/refine.ts` inline the same TwoSum/Dekker steps.)
  */
 
 export const DD_OUT = new Float64Array(2);
@@ -123,35 +124,4 @@ export function ddPowInt(ah: number, al: number, k: number): void {
   }
   R[0] = rh;
   R[1] = rl;
-}
-
-/**
- * Accumulates Σ aᵢ·bᵢ (+ initial value) in double-double; `dotAdd` adds
- * one exact product. A tiny mutable accumulator, reused across calls.
- */
-export class DDAccumulator {
-  hi = 0;
-  lo = 0;
-  reset(h = 0, l = 0): void {
-    this.hi = h;
-    this.lo = l;
-  }
-  add(h: number, l: number): void {
-    ddAdd(this.hi, this.lo, h, l);
-    this.hi = R[0];
-    this.lo = R[1];
-  }
-  addProduct(a: number, b: number): void {
-    twoProd(a, b);
-    ddAdd(this.hi, this.lo, R[0], R[1]);
-    this.hi = R[0];
-    this.lo = R[1];
-  }
-  /** Adds (ah + al)·b. */
-  addProductDD(ah: number, al: number, b: number): void {
-    ddMul(ah, al, b, 0);
-    ddAdd(this.hi, this.lo, R[0], R[1]);
-    this.hi = R[0];
-    this.lo = R[1];
-  }
 }

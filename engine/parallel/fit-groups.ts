@@ -11,8 +11,8 @@
  * Groups are sent in chunks to worker threads running the bundled engine
  * worker (`worker.js` beside this bundle, i.e. `dist/worker.js`). When that
  * file is missing (running from sources, e.g. under vitest), when one thread
- * is asked for, or when workers cannot start, the groups are fitted in this
- * thread by the same code (`group-job.ts`), so results are bit-identical
+ * is asked for, when the job is small (`minGroupsForWorkers`), or when
+ * workers cannot start, the groups are fitted in this thread by the same code (`group-job.ts`), so results are bit-identical
  * either way (only `elapsedMs` differs).
  *
  * A failing group never stops the others: it gets stop `failed` and a
@@ -48,7 +48,21 @@ export interface GroupRunOptions {
   workerFile?: string | null;
   /** Groups per message to a worker. Default ⌈groups / (8·threads)⌉, clamped to 1…64. */
   chunkSize?: number;
+  /**
+   * Small jobs stay in this thread: workers are used only when there are at
+   * least this many groups or at least MIN_ROWS_FOR_WORKERS rows in all.
+   * Default 64 (starting a worker takes about 50-100 ms, the time of fitting
+   * some 50 small groups).
+   */
+  minGroupsForWorkers?: number;
+  /** Told how groups are being fitted: on worker threads, or in this thread and why (also after workers failed to start). */
+  onMode?: (mode: RunMode) => void;
 }
+
+export type RunMode = { kind: 'workers'; threads: number; chunkSize: number } | { kind: 'in_process'; reason: string };
+
+/** Rows in all groups from which workers are used whatever the group count (see `minGroupsForWorkers`). */
+export const MIN_ROWS_FOR_WORKERS = 50_000;
 
 export interface FitGroupsOptions extends GroupRunOptions {
   /** Folder the spec's data paths are relative to. */
@@ -94,7 +108,16 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
     }
   };
 
-  if (workerFile === null || !existsSync(workerFile) || threads < 2 || total < 2) {
+  const rows = groups.reduce((sum, g) => sum + g.n, 0);
+  const bigEnough = total >= (options.minGroupsForWorkers ?? 64) || rows >= MIN_ROWS_FOR_WORKERS;
+  const why =
+    workerFile === null ? 'no worker file (running from sources or asked for)'
+    : !existsSync(workerFile) ? `no worker file at ${workerFile}`
+    : threads < 2 ? 'one thread asked for'
+    : total < 2 || !bigEnough ? `small job (${total} groups, ${rows} rows)`
+    : null;
+  if (why !== null || workerFile === null) {
+    options.onMode?.({ kind: 'in_process', reason: why ?? 'no worker file' });
     await inProcess(groups.keys());
     return results as FitResult[];
   }
@@ -106,8 +129,11 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
     starts.push(s);
     chunks.push(groups.slice(s, s + chunkSize));
   }
+  const workerCount = Math.min(threads, chunks.length);
+  options.onMode?.({ kind: 'workers', threads: workerCount, chunkSize });
   const partial = new Array<number>(chunks.length).fill(0);
   const flag = createCancelFlag();
+  if (options.cancel?.cancelled) setCancelled(flag);
   const poll = setInterval(() => {
     if (options.cancel?.cancelled) setCancelled(flag);
   }, CANCEL_POLL_MS);
@@ -115,7 +141,7 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
 
   const outcome = await runChunksInWorkers({
     workerFile,
-    threads,
+    threads: workerCount,
     fit,
     chunks,
     cancelFlag: flag,
@@ -151,7 +177,8 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
     for (const i of rest) results[i] = unfittedGroup(fit, groups[i], { cancelled: true });
     done += rest.length;
     if (rest.length > 0) report();
-  } else {
+  } else if (rest.length > 0) {
+    options.onMode?.({ kind: 'in_process', reason: outcome.startupError ?? 'chunks left over' });
     await inProcess(rest);
   }
   return results as FitResult[];

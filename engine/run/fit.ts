@@ -91,12 +91,14 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, cancel: CancelTo
     lower,
     upper,
     start: theta0,
-    guessed: { names: guess.guessed, how: guess.how },
+    // A direct linear solve does not use starting values, so a guess is not worth a warning there.
+    guessed: { names: solved.method === 'linear' ? [] : guess.guessed, how: guess.how },
   });
   return {
     name: fit.name,
     ...(data.group !== undefined ? { group: data.group } : {}),
     method: solved.method,
+    options: fit.options,
     loss: fit.options.loss,
     level: fit.options.level,
     stop: solved.outcome.stop,

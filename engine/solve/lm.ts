@@ -49,8 +49,8 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
   const ftol = options.ftol ?? DEFAULT_TOLERANCE;
   const xtol = options.xtol ?? DEFAULT_TOLERANCE;
   const gtol = options.gtol ?? DEFAULT_TOLERANCE;
-  const maxIter = options.maxIterations ?? 200;
-  const maxFev = options.maxEvaluations ?? Math.max(1000, 100 * (p + 1));
+  const maxIter = options.maxIterations ?? 1000;
+  const maxFev = options.maxEvaluations ?? Math.max(2000, 2 * maxIter, 100 * (p + 1));
 
   const x = Float64Array.from(theta0);
   project(x, lower, upper);
@@ -85,7 +85,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
 
   // Work arrays, allocated once.
   const qr = new PivotedQR(n, p);
-  const jf = new Float64Array(n * p);
+  const jf = new Float64Array(lower !== undefined || upper !== undefined ? n * p : 0);
   const rq = new Float64Array(p * p);
   const wa = new Float64Array(n);
   const rt = new Float64Array(n);
@@ -127,12 +127,15 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
     const q = bounded ? freeSet(x, grad, lower, upper, blocked, free) : p;
     if (!bounded) for (let j = 0; j < p; j++) free[j] = j;
     if (q === 0) return finish('small_gradient', 'every parameter is held at a bound by the gradient (projected gradient 0)', true);
-    for (let k = 0; k < q; k++) {
-      const from = free[k] * n;
-      const to = k * n;
-      for (let i = 0; i < n; i++) jf[to + i] = jac[from + i];
+    if (q === p) qr.factor(jac, n, p, { pivot: true });
+    else {
+      for (let k = 0; k < q; k++) {
+        const from = free[k] * n;
+        const to = k * n;
+        for (let i = 0; i < n; i++) jf[to + i] = jac[from + i];
+      }
+      qr.factor(jf, n, q, { pivot: true });
     }
-    qr.factor(jf, n, q, { pivot: true });
 
     if (!initialised) {
       initialised = true;

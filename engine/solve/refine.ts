@@ -22,7 +22,6 @@
  * not applied).
  */
 import type { PivotedQR } from '../linalg/qr';
-import { DDAccumulator } from '../linalg/dd';
 import { norm2, EPSILON } from '../linalg/norm';
 
 export interface RefineInput {
@@ -38,31 +37,98 @@ export interface RefineInput {
 }
 
 /** Refines x in place (full-rank factorisations only); returns the number of corrections applied. */
+/** 2^27 + 1, Dekker's splitting constant. */
+const SPLITTER = 134217729;
+
+/**
+ * accH/accL (per row, double-double) += (aHi + aLo)[:, j]·xj for every column j,
+ * with Dekker's exact product and Knuth's TwoSum inlined (column-oriented,
+ * contiguous, allocation-free). The low parts are combined in plain double,
+ * an absolute error of about ε²·Σ|Aᵢⱼxⱼ| — far below ε·|result|.
+ */
+function accumulateProducts(n: number, p: number, aHi: Float64Array, aLo: Float64Array | null, x: Float64Array, sign: number, accH: Float64Array, accL: Float64Array): void {
+  for (let j = 0; j < p; j++) {
+    const xj = sign * x[j];
+    let t = SPLITTER * xj;
+    const xh = t - (t - xj);
+    const xl = xj - xh;
+    const o = j * n;
+    for (let i = 0; i < n; i++) {
+      const a = aHi[o + i];
+      const prod = a * xj;
+      t = SPLITTER * a;
+      const ah = t - (t - a);
+      const al = a - ah;
+      let e = ((ah * xh - prod) + ah * xl + al * xh) + al * xl;
+      if (aLo) e += aLo[o + i] * xj;
+      const h = accH[i];
+      const sum = h + prod;
+      const bb = sum - h;
+      const err = (h - (sum - bb)) + (prod - bb) + (accL[i] + e);
+      const hi = sum + err;
+      accL[i] = err - (hi - sum);
+      accH[i] = hi;
+    }
+  }
+}
+
+/** Σᵢ (aHi + aLo)[i, j]·v[i] in double-double, rounded to double. */
+function columnDot(n: number, j: number, aHi: Float64Array, aLo: Float64Array | null, v: Float64Array): number {
+  let h = 0;
+  let l = 0;
+  const o = j * n;
+  for (let i = 0; i < n; i++) {
+    const a = aHi[o + i];
+    const vi = v[i];
+    const prod = a * vi;
+    let t = SPLITTER * a;
+    const ah = t - (t - a);
+    const al = a - ah;
+    t = SPLITTER * vi;
+    const vh = t - (t - vi);
+    const vl = vi - vh;
+    let e = ((ah * vh - prod) + ah * vl + al * vh) + al * vl;
+    if (aLo) e += aLo[o + i] * vi;
+    const sum = h + prod;
+    const bb = sum - h;
+    const err = (h - (sum - bb)) + (prod - bb) + (l + e);
+    h = sum + err;
+    l = err - (h - sum);
+  }
+  return h + l;
+}
+
+/** Refines x in place (full-rank factorisations only); returns the number of corrections applied. */
 export function refineLeastSquares(input: RefineInput, x: Float64Array): number {
   const { qr, n, p, aHi, aLo, bHi, bLo } = input;
   const maxSteps = input.maxSteps ?? 10;
-  if (qr.rank < p || p === 0) return 0;
-  const acc = new DDAccumulator();
+  if (qr.rank < p || p === 0 || maxSteps <= 0) return 0;
   const rho = new Float64Array(n);
   const f = new Float64Array(n);
+  const fl = new Float64Array(n);
   const e = new Float64Array(n);
-  const g = new Float64Array(p);
   const h = new Float64Array(p);
   const z = new Float64Array(p);
   const dx = new Float64Array(p);
   const xs = new Float64Array(p);
 
-  // f ← b − ρ − A·x (ρ = 0 gives the plain residual b − A·x).
+  // out ← b − ρ − A·x in double-double, rounded (ρ omitted on the first call).
   const residual = (out: Float64Array, withRho: boolean) => {
     for (let i = 0; i < n; i++) {
-      acc.reset(bHi[i], bLo ? bLo[i] : 0);
-      if (withRho) acc.add(-rho[i], 0);
-      for (let j = 0; j < p; j++) {
-        const k = j * n + i;
-        acc.addProductDD(-aHi[k], aLo ? -aLo[k] : 0, x[j]);
+      out[i] = bHi[i];
+      fl[i] = bLo ? bLo[i] : 0;
+      if (withRho) {
+        // TwoSum of bHi − ρ keeps the exact difference.
+        const a = out[i];
+        const b = -rho[i];
+        const sum = a + b;
+        const bb = sum - a;
+        fl[i] += (a - (sum - bb)) + (b - bb);
+        out[i] = sum;
       }
-      out[i] = acc.hi + acc.lo;
     }
+    accumulateProducts(n, p, aHi, aLo, x, -1, out, fl);
+    for (let i = 0; i < n; i++) out[i] += fl[i];
   };
   residual(rho, false);
 
@@ -70,17 +136,10 @@ export function refineLeastSquares(input: RefineInput, x: Float64Array): number 
   let applied = 0;
   for (let step = 0; step < maxSteps; step++) {
     residual(f, true);
-    for (let j = 0; j < p; j++) {
-      acc.reset();
-      for (let i = 0; i < n; i++) {
-        const k = j * n + i;
-        acc.addProductDD(aHi[k], aLo ? aLo[k] : 0, rho[i]);
-      }
-      g[j] = -(acc.hi + acc.lo);
-    }
+    // g = −Aᵀρ, permuted and scaled for the factorisation: h = PᵀS·g.
     for (let j = 0; j < p; j++) {
       const c = qr.perm[j];
-      h[j] = qr.scale[c] * g[c];
+      h[j] = -qr.scale[c] * columnDot(n, c, aHi, aLo, rho);
     }
     qr.solveRt(h, p);
     e.set(f);

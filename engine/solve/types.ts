@@ -6,9 +6,9 @@ import type { StopReason, StopCode } from '../result';
 import type { CancelToken } from './problem';
 
 export interface SolveOptions {
-  /** Iteration limit. Default 200 (LM), 100000 (gradient descent). */
+  /** Iteration limit. Default 1000 (LM: the hardest NIST StRD starts need up to ~750), 100000 (gradient descent). */
   maxIterations?: number;
-  /** Residual-evaluation limit. Default max(1000, 100·(p + 1)) for LM, 2·maxIterations + 600 for gradient descent. */
+  /** Residual-evaluation limit. Default max(2000, 2·maxIterations, 100·(p + 1)) for LM, 2·maxIterations + 600 for gradient descent. */
   maxEvaluations?: number;
   /** Relative cost-reduction tolerance (see each solver for its inequality). Default 1e-10. */
   ftol?: number;

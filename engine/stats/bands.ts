@@ -17,10 +17,25 @@ export type ModelAt = (xs: Float64Array) => { f: Float64Array; gradient: Float64
 /** Variance of a single new observation at each predictor value. */
 export type NewObservationVariance = (xs: Float64Array) => Float64Array;
 
-/** `count` (≥ 2) evenly spaced points from `min` to `max`, both included. Default count 200. */
+/** Ratio max/min above which a positive predictor range gets a log-spaced grid (dose series, dilutions). */
+export const LOG_GRID_RATIO = 1000;
+
+/**
+ * `count` (≥ 2) points from `min` to `max`, both included. Default count 200.
+ * Evenly spaced, or evenly spaced in log x when 0 < min and max/min > LOG_GRID_RATIO,
+ * so curves over several decades are drawn smoothly on a log axis.
+ */
 export function grid(min: number, max: number, count = 200): Float64Array {
   const xs = new Float64Array(count);
-  for (let k = 0; k < count; k++) xs[k] = k === count - 1 ? max : min + ((max - min) * k) / (count - 1);
+  const log = min > 0 && max / min > LOG_GRID_RATIO;
+  const a = log ? Math.log(min) : min;
+  const b = log ? Math.log(max) : max;
+  for (let k = 1; k < count - 1; k++) {
+    const u = a + ((b - a) * k) / (count - 1);
+    xs[k] = log ? Math.exp(u) : u;
+  }
+  xs[0] = min;
+  xs[count - 1] = max;
   return xs;
 }
 

@@ -85,10 +85,11 @@ function provenanceSection(result: RunResult): string[] {
   rows.push(['spec SHA-256', `\`${p.specSha256}\``]);
   for (const d of p.data) rows.push([`data \`${d.name}\``, `\`${d.path}\`, ${d.rows} rows, SHA-256 \`${d.sha256}\``]);
   for (const fit of result.fits) {
-    rows.push([`options of ${fitLabel(fit)}`, `${METHOD_LABEL[fit.method]}, ${LOSS_LABEL[fit.loss]}, level ${formatLevel(fit.level)}`]);
+    const o = fit.options;
+    const limits = o ? [o.maxIterations !== undefined ? `iterations ${o.maxIterations}` : '', o.tolerance !== undefined ? `tolerance ${o.tolerance}` : '', o.loss !== 'squared' ? `loss scale ${o.lossScale}` : ''].filter(Boolean) : [];
+    const extra = limits.length ? `, ${limits.join(', ')}` : '';
+    rows.push([`options of ${fitLabel(fit)}`, `${METHOD_LABEL[fit.method]}, ${LOSS_LABEL[fit.loss]}, level ${formatLevel(fit.level)}${extra}`]);
   }
-  const extra = (p as unknown as Record<string, unknown>).options;
-  if (extra !== undefined) rows.push(['run options', `\`${JSON.stringify(extra)}\``]);
   lines.push(...markdownTable(['item', 'value'], rows, ['left', 'left']), '');
   lines.push('Re-running the same spec on files with the same SHA-256 reproduces these results.', '');
   return lines;

@@ -1,31 +1,20 @@
 /**
- * Loads `vega` and `vega-lite` at run time instead of bundling them.
- *
- * Why: vega's Node entry pulls `vega-canvas`, whose module body runs a
- * top-level `await import('canvas')`; esbuild cannot put top-level await into
- * the CommonJS bundles that build.mjs writes, so a static import here would
- * break `node build.mjs`. A dynamic import with a non-literal specifier is
- * left alone by esbuild and resolved by Node from node_modules (both packages
- * are runtime dependencies). If build.mjs ever aliases `vega-canvas` to its
- * browser build, this can become two static imports.
+ * vega and vega-lite for headless rendering. Kept behind one async accessor so
+ * callers do not care how the libraries are loaded; build.mjs aliases
+ * `vega-canvas` to its browser build so these static imports bundle into the
+ * CommonJS outputs (no native canvas: SVG text widths are estimated).
  */
-import type * as VegaModule from 'vega';
-import type * as VegaLiteModule from 'vega-lite';
+import * as vega from 'vega';
+import * as vegaLite from 'vega-lite';
 
 export interface VegaRuntime {
-  vega: typeof VegaModule;
-  vegaLite: typeof VegaLiteModule;
+  vega: typeof vega;
+  vegaLite: typeof vegaLite;
 }
 
-let cached: Promise<VegaRuntime> | null = null;
+const runtime: VegaRuntime = { vega, vegaLite };
 
-const load = (specifier: string): Promise<unknown> => import(/* @vite-ignore */ specifier);
-
-/** The two libraries, loaded once per process. */
+/** The two libraries (async for callers written against lazy loading). */
 export function loadVega(): Promise<VegaRuntime> {
-  cached ??= Promise.all([load('vega'), load('vega-lite')]).then(([vega, vegaLite]) => ({
-    vega: vega as typeof VegaModule,
-    vegaLite: vegaLite as typeof VegaLiteModule,
-  }));
-  return cached;
+  return Promise.resolve(runtime);
 }

@@ -25,7 +25,8 @@ export function panelActions(ctx: LwContext, refit: (spec: vscode.Uri) => Promis
       const line = Math.max(0, row - 1); // row is the 1-based file line (header = 1)
       const editor = await vscode.window.showTextDocument(csv, { viewColumn: vscode.ViewColumn.One, preview: true });
       const range = editor.document.lineAt(Math.min(line, editor.document.lineCount - 1)).range;
-      editor.selection = new vscode.Selection(range.start, range.end);
+      // the whole row selected, cursor at its start
+      editor.selection = new vscode.Selection(range.end, range.start);
       editor.revealRange(range, vscode.TextEditorRevealType.InCenter);
     },
     async reveal(specUri, fit, param) {

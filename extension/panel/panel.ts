@@ -27,6 +27,8 @@ export class ResultsPanel {
   private readonly disposables: vscode.Disposable[] = [];
   private ready = false;
   private queue: ToPage[] = [];
+  /** The last `show`, re-sent when a page (re)loads with nothing queued. */
+  private latest: ToPage | undefined;
   /** Spec whose results are shown. */
   specUri: vscode.Uri | undefined;
 
@@ -76,6 +78,10 @@ export class ResultsPanel {
     });
     this.disposables.push(
       panel.onDidDispose(() => this.dispose()),
+      // a hidden webview is torn down (no retained context): queue until its page says `ready` again
+      panel.onDidChangeViewState((e) => {
+        if (!e.webviewPanel.visible) this.ready = false;
+      }),
       panel.webview.onDidReceiveMessage((msg: unknown) => {
         if (isFromPage(msg)) void this.handle(msg).catch((e) => ctx.log.error(`panel message ${msg.type}: ${String(e)}`));
         else ctx.log.warn(`panel sent an unknown message: ${JSON.stringify(msg)?.slice(0, 200)}`);
@@ -85,6 +91,7 @@ export class ResultsPanel {
 
   show(model: PanelModel, focus?: string): void {
     this.specUri = vscode.Uri.parse(model.specUri);
+    this.latest = { type: 'show', model, focus };
     this.panel.title = `Results: ${model.specName}`;
     this.post({ type: 'show', model, focus });
   }
@@ -102,10 +109,13 @@ export class ResultsPanel {
   private async handle(msg: FromPage): Promise<void> {
     const spec = this.specUri;
     switch (msg.type) {
-      case 'ready':
+      case 'ready': {
         this.ready = true;
-        for (const m of this.queue.splice(0)) void this.panel.webview.postMessage(m);
+        const queued = this.queue.splice(0);
+        if (!queued.some((m) => m.type === 'show') && this.latest) queued.unshift(this.latest);
+        for (const m of queued) void this.panel.webview.postMessage(m);
         return;
+      }
       case 'log':
         if (msg.level === 'error') this.ctx.log.error(`[panel] ${msg.message}`);
         else this.ctx.log.info(`[panel] ${msg.message}`);

@@ -54,9 +54,9 @@ export function fitData(fit: FitPlan, names: string[], columns: Float64Array[], 
   };
 }
 
-/** Four-parameter logistic dose-response curve (Hill equation form): f(x) = d + (a − d)/(1 + (x/c)^b). */
-export function logistic4(x: number, a: number, b: number, c: number, d: number): number {
-  return d + (a - d) / (1 + Math.pow(x / c, b));
+/** Four-parameter logistic dose-response curve (Hill equation form), the same formula as LOGISTIC_MODEL. */
+export function logistic4(x: number, bottom: number, top: number, ec50: number, hill: number): number {
+  return bottom + (top - bottom) / (1 + Math.pow(x / ec50, hill));
 }
 
 export const LOGISTIC_MODEL = 'bottom + (top - bottom) / (1 + (x / ec50)^hill)';

@@ -78,6 +78,8 @@ export interface Machine {
   os: string;
   node: string;
   date: string;
+  /** 1, 5 and 15-minute load averages when described (other processes compete for the cores). */
+  loadAverage: number[];
 }
 
 export function describeMachine(): Machine {
@@ -90,6 +92,7 @@ export function describeMachine(): Machine {
     os: `${os.type()} ${os.release()} ${os.arch()}`,
     node: process.version,
     date: new Date().toISOString(),
+    loadAverage: os.loadavg().map((v) => Math.round(v * 100) / 100),
   };
 }
 

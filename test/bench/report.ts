@@ -23,7 +23,10 @@ export interface BenchRow {
 }
 
 export interface BenchReport {
+  /** Described at the start of the run. */
   machine: Machine;
+  /** Load averages at the end of the run. */
+  loadAverageAtEnd: number[];
   quick: boolean;
   rows: BenchRow[];
 }
@@ -38,8 +41,10 @@ export function fmt(x: number | null | undefined, digits = 3): string {
 const metText = (m: boolean | null) => (m === null ? 'n/a' : m ? 'yes' : 'NO');
 const spreadText = (r: BenchRow) => (r.spread ? `${fmt(r.spread[0])}–${fmt(r.spread[1])}` : '-');
 
-function machineLine(m: Machine): string {
-  return `${m.cpu}, ${m.cores} cores (available parallelism ${m.availableParallelism}), ${m.memoryGB} GB, ${m.os}, Node ${m.node}, ${m.date}`;
+function machineLine(r: BenchReport): string {
+  const m = r.machine;
+  const load = (l: number[]) => l.map((v) => v.toFixed(2)).join('/');
+  return `${m.cpu}, ${m.cores} cores (available parallelism ${m.availableParallelism}), ${m.memoryGB} GB, ${m.os}, Node ${m.node}, ${m.date}; load average ${load(m.loadAverage)} at start, ${load(r.loadAverageAtEnd)} at end`;
 }
 
 /** Plain text table for the terminal. */
@@ -48,7 +53,7 @@ export function textReport(report: BenchReport): string {
   const body = report.rows.map((r) => [String(r.id), r.name, r.text, spreadText(r), r.goal, metText(r.met)]);
   const widths = head.map((h, j) => Math.max(h.length, ...body.map((b) => b[j].length)));
   const line = (cells: string[]) => cells.map((c, j) => c.padEnd(widths[j])).join('  ').trimEnd();
-  const out = [`Leastwise benchmarks${report.quick ? ' (quick smoke run: small sizes, figures not meaningful)' : ''}`, machineLine(report.machine), ''];
+  const out = [`Leastwise benchmarks${report.quick ? ' (quick smoke run: small sizes, figures not meaningful)' : ''}`, machineLine(report), ''];
   out.push(line(head), line(widths.map((w) => '-'.repeat(w))), ...body.map(line));
   const notes = report.rows.filter((r) => r.note);
   if (notes.length > 0) out.push('', ...notes.map((r) => `(${r.id}) ${r.note}`));
@@ -59,7 +64,7 @@ const mdCell = (s: string) => s.replace(/\|/g, '\\|');
 
 /** Markdown table with the machine and date above it. */
 export function markdownReport(report: BenchReport): string {
-  const out = [`Machine: ${machineLine(report.machine)}${report.quick ? ' (quick run)' : ''}`, ''];
+  const out = [`Machine: ${machineLine(report)}${report.quick ? ' (quick run)' : ''}`, ''];
   out.push('| # | benchmark | result | spread (min–max) | goal | met |', '|---|---|---|---|---|---|');
   for (const r of report.rows) out.push(`| ${r.id} | ${mdCell(r.name)} | ${mdCell(r.text)} | ${spreadText(r)} | ${mdCell(r.goal)} | ${metText(r.met)} |`);
   const notes = report.rows.filter((r) => r.note);

@@ -1,12 +1,13 @@
 import { createHash } from 'node:crypto';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { headerLookup, readHeaderFile, readHeaderText } from '../../engine/data/header';
 import { loadDataFile } from '../../engine/data/load';
 
 const dir = mkdtempSync(join(tmpdir(), 'lw-data-'));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 describe('data/load loadDataFile', () => {
   it('loads a file and records the SHA-256 of its bytes without changing it', () => {

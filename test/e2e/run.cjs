@@ -8,8 +8,9 @@
 // squiggle and the Problems entry -> apply the "did you mean" quick fix ->
 // run "Leastwise: Fit This File" from the command palette -> wait for the
 // parameter table and the drawn charts inside the two nested webview iframes
-// -> hover a parameter for its estimate -> screenshot. No sleeps: every step
-// waits for a condition. Last line: "N passed, N failed"; exit 1 on failure.
+// -> hover a parameter for its estimate -> screenshot -> export the Markdown
+// report -> scaffold a new spec from the CSV (QuickPicks: x, y, model). No
+// sleeps: every step waits for a condition. Last line: "N passed, N failed"; exit 1 on failure.
 //
 // Env: VSCODE_WEB_TOOLS, VSCODE_WEB_HOME (recipe cache), CHROMIUM
 // (default /usr/bin/chromium), E2E_OUT (screenshots, default
@@ -43,6 +44,23 @@ function finish(code) {
   process.exit(failed || code ? 1 : 0);
 }
 
+/** Resolves with the file's text once it exists (checked on each change of its folder). */
+function waitForFile(file, timeoutMs = 60000) {
+  return new Promise((resolve, reject) => {
+    const dir = path.dirname(file);
+    const done = () => {
+      if (!fs.existsSync(file)) return false;
+      clearTimeout(timer);
+      watcher.close();
+      resolve(fs.readFileSync(file, 'utf8'));
+      return true;
+    };
+    const watcher = fs.watch(dir, () => done());
+    const timer = setTimeout(() => { watcher.close(); reject(new Error(`${file} did not appear`)); }, timeoutMs);
+    done();
+  });
+}
+
 function freePort() {
   return new Promise((resolve) => {
     const s = net.createServer().listen(0, '127.0.0.1', () => {
@@ -61,13 +79,16 @@ function run(label, cmd, args, opts = {}) {
 }
 
 // Quick input (Ctrl+P / F1 / Ctrl+G): type, wait for a matching row (if any), accept.
-async function quickInput(page, keys, text, rowText) {
-  await page.keyboard.press(keys);
+// `next`: the title of the quick input the accepted item opens (the widget is reused,
+// so it never hides); without it, wait until the widget is hidden.
+async function quickInput(page, keys, text, rowText, next) {
+  if (keys) await page.keyboard.press(keys);
   await page.locator('.quick-input-widget .quick-input-box input').waitFor({ state: 'visible' });
   await page.keyboard.type(text, { delay: 10 });
   if (rowText) await page.locator('.quick-input-widget .monaco-list-row', { hasText: rowText }).first().waitFor({ state: 'visible', timeout: 30000 });
   await page.keyboard.press('Enter');
-  await page.locator('.quick-input-widget').waitFor({ state: 'hidden' });
+  if (next) await page.locator('.quick-input-widget .quick-input-title', { hasText: next }).waitFor();
+  else await page.locator('.quick-input-widget').waitFor({ state: 'hidden' });
 }
 
 (async () => {
@@ -206,13 +227,52 @@ async function quickInput(page, keys, text, rowText) {
     const hover = page.locator('.monaco-hover-content', { hasText: '±' }).first();
     await hover.waitFor();
     check('hover on a parameter shows estimate ± standard error', true, (await hover.innerText()).replace(/\s+/g, ' ').slice(0, 120));
+    await page.keyboard.press('Escape');
+
+    // panel -> editor: a parameter row reveals its declaration; a chart point opens the CSV at its row
+    await frame.locator('table.lw-params tbody tr[data-param="rise"]').click();
+    const riseLine = specLines.findIndex((l) => /^\s*param\s+rise\b/.test(l)) + 1;
+    await page.locator('.statusbar-item', { hasText: new RegExp(`Ln ${riseLine}, Col \\d+ \\(4 selected\\)`) }).first().waitFor();
+    check('clicking a parameter row selects its declaration', true, `line ${riseLine}`);
+    const point = frame.locator('figure[data-chart-id="fit"] svg .role-mark.data_points_marks path').nth(3);
+    await point.hover();
+    const tip = frame.locator('#vg-tooltip-element.visible');
+    await tip.waitFor();
+    const row = Number(/CSV row\s*(\d+)/.exec(await tip.innerText())?.[1]);
+    await point.click();
+    await page.locator('.tab.active', { hasText: 'cooling.csv' }).waitFor();
+    await page.locator('.statusbar-item', { hasText: new RegExp(`Ln ${row}, Col 1 \\(`) }).first().waitFor();
+    check('clicking a chart point opens the CSV at that row', row > 1, `row ${row}`);
+    await page.locator('.tab', { hasText: 'cooling.lsq' }).first().click();
+    await editor.locator('.view-lines', { hasText: 'fit newton on bench' }).waitFor();
+
+    const shot = path.join(outDir, 'vscode-results.png');
+    await page.screenshot({ path: shot });
+    console.log(`screenshot: ${shot}`);
+
+    // export: Markdown report through the save dialog (code-server's simple dialog: Enter accepts the proposed path)
+    await quickInput(page, 'F1', 'Leastwise: Export Report', 'Leastwise: Export Report', 'Export the results');
+    await quickInput(page, null, 'Markdown report', 'Markdown report', 'Export Markdown report');
+    await page.waitForFunction(() => /cooling-report\.md$/.test(document.querySelector('.quick-input-widget .quick-input-box input')?.value ?? ''));
+    await page.keyboard.press('Enter');
+    const report = await waitForFile(path.join(ws, 'cooling-report.md'));
+    check('Markdown report exported next to the spec', /^# Fit report/.test(report) && report.includes('newton'), `${report.length} characters`);
+
+    // new spec from the CSV: x, y and a model template
+    await quickInput(page, 'Control+P', 'cooling.csv', 'cooling.csv');
+    await page.locator('.editor-group-container .monaco-editor .view-lines', { hasText: 'time_min,temp_C' }).first().waitFor();
+    await quickInput(page, 'F1', 'Leastwise: New Spec from CSV', 'Leastwise: New Spec from CSV', 'New spec (1/3)');
+    await quickInput(page, null, 'time_min', 'time_min', 'New spec (2/3)');
+    await quickInput(page, null, 'temp_C', 'temp_C', 'New spec (3/3)');
+    await quickInput(page, null, 'exponential decay', 'exponential decay');
+    const scaffold = await waitForFile(path.join(ws, 'cooling-2.lsq'));
+    await page.locator('.editor-group-container .monaco-editor .view-lines', { hasText: 'on cooling' }).first().waitFor();
+    check('new spec scaffolded from the CSV and opened', /fit \w+ on cooling/.test(scaffold) && scaffold.includes('temp_C'), scaffold.split('\n').find((l) => l.startsWith('fit ')));
   } catch (e) {
     failed = true;
     check('no exception while driving VS Code', false, String(e.message).split('\n')[0]);
   }
-  const shot = path.join(outDir, 'vscode-results.png');
-  await page.screenshot({ path: shot }).catch(() => {});
-  console.log(`screenshot: ${shot}`);
+  if (failed) await page.screenshot({ path: path.join(outDir, 'vscode-failure.png') }).catch(() => {});
   console.log(`drive ${secs(tDrive)}s`);
   check('no uncaught errors in the workbench page', pageErrors.length === 0, pageErrors.slice(0, 3).join(' | '));
   check('nothing reached outside 127.0.0.1', external.size === 0, [...external].join(', '));

@@ -2,8 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { writeFileSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import { Worker } from 'node:worker_threads';
-import { fitGroupData, fitGroupsParallel } from '../../engine/parallel/fit-groups';
-import { createCancelFlag, isWorkerResponse, type WorkerRequest, type WorkerResponse } from '../../engine/parallel/protocol';
+import { fitGroupData, fitGroupsParallel, type RunMode } from '../../engine/parallel/fit-groups';
+import { createCancelFlag, isWorkerResponse, setCancelled, type WorkerRequest, type WorkerResponse } from '../../engine/parallel/protocol';
 import { prepareFitData, runPlanSync, type FitData } from '../../engine/run';
 import { loadSources } from '../../engine/run/datasets';
 import { compileColumnExpr } from '../../engine/compile';
@@ -54,21 +54,25 @@ describe('engine/parallel/fit-groups', () => {
   });
 
   it('fits in process (no worker file) with results identical to the sequential runner', async () => {
-    const par = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile: null });
+    const modes: RunMode[] = [];
+    const par = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile: null, onMode: (m) => modes.push(m) });
+    expect(modes.map((m) => m.kind)).toEqual(['in_process']);
     expect(par).toHaveLength(31);
     expect(strip(par)).toEqual(strip(sequential));
     expect(bits(par)).toEqual(bits(sequential));
   });
 
   it('fits on worker threads with bit-identical estimates in the sequential order', async () => {
-    const par = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile: built!.worker, threads: 2, chunkSize: 4 });
+    const modes: RunMode[] = [];
+    const par = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile: built!.worker, threads: 2, minGroupsForWorkers: 2, chunkSize: 4, onMode: (m) => modes.push(m) });
+    expect(modes).toEqual([{ kind: 'workers', threads: 2, chunkSize: 4 }]);
     expect(par.map((f) => f.group)).toEqual(sequential.map((f) => f.group));
     expect(bits(par)).toEqual(bits(sequential));
     expect(strip(par)).toEqual(strip(sequential));
   });
 
   it('orders groups by group value (code-point order for text labels), not by file order', async () => {
-    const par = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile: built!.worker, threads: 2, chunkSize: 3 });
+    const par = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile: built!.worker, threads: 2, minGroupsForWorkers: 2, chunkSize: 3 });
     const expected = [...new Set([...fx.labels, 'Q-lonely'])].sort();
     expect(par.map((f) => f.group)).toEqual(expected);
     expect(fx.labels).not.toEqual([...fx.labels].sort());
@@ -76,7 +80,7 @@ describe('engine/parallel/fit-groups', () => {
 
   it('a group with one row fails alone; every other group converges', async () => {
     for (const workerFile of [null, built!.worker]) {
-      const par = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile, threads: 2, chunkSize: 5 });
+      const par = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile, threads: 2, minGroupsForWorkers: 2, chunkSize: 5 });
       const lonely = par.find((f) => f.group === 'Q-lonely')!;
       expect(lonely.stop.code).toBe('failed');
       expect(lonely.stop.message.length).toBeGreaterThan(0);
@@ -93,7 +97,7 @@ describe('engine/parallel/fit-groups', () => {
     const bad = 7;
     groups[bad] = { ...groups[bad], columns: [groups[bad].columns[0].subarray(0, 2)] };
     for (const workerFile of [null, built!.worker]) {
-      const out = await fitGroupData(fit, groups, { workerFile, threads: 2, chunkSize: 4 });
+      const out = await fitGroupData(fit, groups, { workerFile, threads: 2, minGroupsForWorkers: 2, chunkSize: 4 });
       expect(out).toHaveLength(groups.length);
       expect(out[bad].stop.code).toBe('failed');
       expect(out[bad].stop.message).toMatch(/shorter/);
@@ -105,7 +109,7 @@ describe('engine/parallel/fit-groups', () => {
   it('reports progress that never decreases and ends at the group count', async () => {
     for (const workerFile of [null, built!.worker]) {
       const seen: [number, number][] = [];
-      await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile, threads: 2, chunkSize: 2, onProgress: (d, t) => seen.push([d, t]) });
+      await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile, threads: 2, minGroupsForWorkers: 2, chunkSize: 2, onProgress: (d, t) => seen.push([d, t]) });
       expect(seen.length).toBeGreaterThan(0);
       for (let i = 1; i < seen.length; i++) expect(seen[i][0]).toBeGreaterThanOrEqual(seen[i - 1][0]);
       expect(seen.every(([, t]) => t === 31)).toBe(true);
@@ -119,7 +123,7 @@ describe('engine/parallel/fit-groups', () => {
       const out = await fitGroupsParallel(fx.plan, 'decay', {
         baseDir: fx.dir,
         workerFile,
-        threads: 2,
+        threads: 2, minGroupsForWorkers: 2,
         chunkSize: 1,
         cancel: token,
         onProgress: (done) => {
@@ -138,7 +142,7 @@ describe('engine/parallel/fit-groups', () => {
 
   it('a token cancelled before the start fits no group', async () => {
     for (const workerFile of [null, built!.worker]) {
-      const out = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile, threads: 2, cancel: { cancelled: true } });
+      const out = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile, threads: 2, minGroupsForWorkers: 2, cancel: { cancelled: true } });
       expect(out).toHaveLength(31);
       expect(out.every((f) => f.stop.code === 'cancelled')).toBe(true);
     }
@@ -149,8 +153,17 @@ describe('engine/parallel/fit-groups', () => {
     dirs.push(dir);
     const broken = path.join(dir, 'worker.js');
     writeFileSync(broken, "throw new Error('this worker is broken on purpose');\n");
-    const out = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile: broken, threads: 2, chunkSize: 4 });
+    const modes: RunMode[] = [];
+    const out = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile: broken, threads: 2, minGroupsForWorkers: 2, chunkSize: 4, onMode: (m) => modes.push(m) });
+    expect(modes.map((m) => m.kind)).toEqual(['workers', 'in_process']);
+    expect(modes[1].kind === 'in_process' && modes[1].reason).toMatch(/broken on purpose/);
     expect(strip(out)).toEqual(strip(sequential));
+  });
+
+  it('keeps a small job in this thread unless told otherwise', async () => {
+    const modes: RunMode[] = [];
+    await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile: built!.worker, threads: 2, onMode: (m) => modes.push(m) });
+    expect(modes).toEqual([{ kind: 'in_process', reason: 'small job (31 groups, 361 rows)' }]);
   });
 
   it('a missing data file gives one failed result naming the file', async () => {
@@ -200,6 +213,16 @@ describe('engine/worker', () => {
     if (last.kind !== 'groupsDone') return;
     expect(last.results.map((r) => r.group)).toEqual(groups.map((g) => g.group));
     expect(bits(last.results)).toEqual(bits(sequential.slice(3, 9)));
+  });
+
+  it('reads the shared cancel flag set by the host thread', async () => {
+    const flag = createCancelFlag();
+    setCancelled(flag);
+    const got = await ask({ kind: 'fitGroups', id: 4, fit: fx.plan.fits[0], groups: groupData().slice(0, 3), cancelFlag: flag });
+    const last = got[got.length - 1];
+    expect(last.kind).toBe('groupsDone');
+    if (last.kind !== 'groupsDone') return;
+    expect(last.results.map((r) => r.stop.code)).toEqual(['cancelled', 'cancelled', 'cancelled']);
   });
 
   it('answers a malformed message with an error, not a crash', async () => {

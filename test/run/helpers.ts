@@ -2,6 +2,7 @@
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { afterAll } from 'vitest';
 import { analyze } from '../../parser/index';
 import { headerLookup } from '../../engine/data/header';
 import { runPlan, type RunOptions } from '../../engine/run/run-plan';
@@ -27,11 +28,12 @@ export function normals(seed: number, count: number): number[] {
 }
 
 const made: string[] = [];
-process.on('exit', () => {
-  for (const d of made) rmSync(d, { recursive: true, force: true });
+// Registered in the root suite of each test file that imports this module.
+afterAll(() => {
+  for (const d of made.splice(0)) rmSync(d, { recursive: true, force: true });
 });
 
-/** A fresh folder under the OS temp dir, removed when the test process exits. */
+/** A fresh folder under the OS temp dir, removed after the test file's tests. */
 export function tempDir(): string {
   const d = mkdtempSync(join(tmpdir(), 'lw-run-'));
   made.push(d);

@@ -52,7 +52,7 @@ export async function benchGroups(ctx: BenchContext): Promise<BenchRow> {
     },
     () => fitGroupsParallel(a.plan, 'hill', { baseDir: ctx.tmp, threads: 1, workerFile: null }),
     runs,
-    ctx.quick ? 0 : 1,
+    0,
   );
   const table = buildGroupTable(last);
   const rate = plates / (cmp.ours.median / 1000);

@@ -25,14 +25,17 @@ function theirs(x: Float64Array, y: Float64Array): Float64Array {
   const n = x.length;
   const X = new Matrix(n, 4);
   const Y = new Matrix(n, 1);
+  // ml-matrix keeps one Float64Array per row in `data` (not in its typings); filling it directly is its fastest path
+  const xRows = (X as unknown as { data: Float64Array[] }).data;
+  const yRows = (Y as unknown as { data: Float64Array[] }).data;
   for (let i = 0; i < n; i++) {
     const v = x[i];
-    const row = X.data[i];
+    const row = xRows[i];
     row[0] = 1;
     row[1] = v;
     row[2] = v * v;
     row[3] = v * v * v;
-    Y.data[i][0] = y[i];
+    yRows[i][0] = y[i];
   }
   const b = new QrDecomposition(X).solve(Y);
   return Float64Array.from({ length: 4 }, (_, j) => b.get(j, 0));

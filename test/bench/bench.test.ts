@@ -1,0 +1,59 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { execFile } from 'node:child_process';
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+import { promisify } from 'node:util';
+import { textReport, type BenchReport } from './report';
+import { buildBundles, removeBuilt, tempDir, type Built } from '../parallel/built';
+
+const run = promisify(execFile);
+
+let built: Built | undefined;
+let report: BenchReport;
+let markdown: string;
+
+beforeAll(async () => {
+  built = await buildBundles();
+  const md = path.join(tempDir('leastwise-bench-md-'), 'bench.md');
+  const { stdout } = await run(process.execPath, [built.bench, '--quick', '--json', '--markdown', md], { maxBuffer: 16 << 20, timeout: 600_000 });
+  report = JSON.parse(stdout) as BenchReport;
+  markdown = readFileSync(md, 'utf8');
+}, 660_000);
+
+afterAll(() => removeBuilt(built));
+
+describe('test/bench/bench (script structure, --quick)', () => {
+  it('reports all nine benchmarks in order, none failing to run', () => {
+    expect(report.quick).toBe(true);
+    expect(report.rows.map((r) => r.id)).toEqual([1, 2, 3, 4, 5, 6, 7, 8, 9]);
+    for (const r of report.rows) {
+      expect(r.details.error, `row ${r.id}: ${r.text}`).toBeUndefined();
+      expect(typeof r.value).toBe('number');
+      expect(r.goal.length).toBeGreaterThan(0);
+      expect(typeof r.met).toBe('boolean');
+    }
+  });
+
+  it('describes the machine and the date', () => {
+    expect(report.machine.cores).toBeGreaterThan(0);
+    expect(report.machine.node).toBe(process.version);
+    expect(Number.isNaN(Date.parse(report.machine.date))).toBe(false);
+    expect(report.machine.cpu.length).toBeGreaterThan(0);
+  });
+
+  it('prints a text table with a line per benchmark and writes the Markdown table', () => {
+    const text = textReport(report).split('\n');
+    for (let id = 1; id <= 9; id++) expect(text.some((l) => l.startsWith(`${id}  `))).toBe(true);
+    const rows = markdown.split('\n').filter((l) => /^\| \d \|/.test(l));
+    expect(rows).toHaveLength(9);
+    expect(markdown).toContain(report.machine.cpu);
+  });
+
+  it('gives ratios measured side by side with their spread', () => {
+    for (const id of [2, 3]) {
+      const r = report.rows.find((x) => x.id === id)!;
+      expect(r.spread).not.toBeNull();
+      expect(r.spread![0]).toBeLessThanOrEqual(r.spread![1]);
+    }
+  });
+});
