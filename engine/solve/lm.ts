@@ -65,6 +65,12 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
       njev++;
     }
     const stop = stopReason(code, message);
+    if (code === 'small_step' && iterations === 0) {
+      // Every trial step from the start was rejected until the trust region
+      // collapsed: the point never moved, so this is not evidence of an optimum.
+      stop.converged = false;
+      stop.message += '; no step was accepted from the starting values (try other starting values or a tighter tolerance)';
+    }
     if (stop.converged && options.polish !== false) {
       const c = polishGaussNewton(problem, { x, r, jac });
       nfev += c.evaluations;

@@ -1,17 +1,17 @@
 /**
- * "Export Report": the last run of a spec as Markdown (engine/views/markdown.ts,
- * the CLI's report), JSON (the RunResult via the engine's `resultToJson`) or SVG charts (engine/views/charts.ts specs rendered in
- * the SVG worker; file names from engine/views/svg.ts). Output files are
- * chosen by the user; the spec and the data are never written.
+ * "Export Report": the last run of a spec as Markdown (the CLI's report,
+ * engine/views/markdown.ts), JSON (the engine's `resultToJson`) or SVG charts
+ * (engine/views/charts.ts specs, rendered in the SVG worker with the CLI's
+ * renderer; file names from `chartFileName`). The user picks the output
+ * files; the spec and the data are never written.
  */
 import * as path from 'node:path';
 import { Worker } from 'node:worker_threads';
 import * as vscode from 'vscode';
 import type { RunResult } from '../../engine/result';
 import { resultToJson } from '../../engine/run/json';
-import { chartSpecs } from '../../engine/views/charts';
+import { chartFileName, chartSpecs } from '../../engine/views/charts';
 import { markdownReport } from '../../engine/views/markdown';
-import { chartFileName } from '../../engine/views/svg';
 import type { LwContext } from '../context';
 import type { ExportFormat } from '../panel/protocol';
 import { isSvgResponse, type SvgRequest, type SvgResponse } from './svgProtocol';

@@ -57,5 +57,5 @@ export function registerCompletion(ctx: LwContext): void {
       const items = completionsAt(analysis, offset, { csvFiles: inPath ? await csvFilesNear(doc) : [] });
       return items.map(toCompletionItem);
     },
-  }, '.', '"', ' '));
+  }, '.', '"'));
 }

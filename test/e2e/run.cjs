@@ -44,19 +44,27 @@ function finish(code) {
   process.exit(failed || code ? 1 : 0);
 }
 
-/** Resolves with the file's text once it exists (checked on each change of its folder). */
-function waitForFile(file, timeoutMs = 60000) {
+/**
+ * Resolves with the file's text once it exists and `complete(text)` holds
+ * (checked on each change in its folder: a file may be created before it is written).
+ */
+function waitForFile(file, complete, timeoutMs = 60000) {
   return new Promise((resolve, reject) => {
     const dir = path.dirname(file);
     const done = () => {
-      if (!fs.existsSync(file)) return false;
+      let text;
+      try {
+        text = fs.readFileSync(file, 'utf8');
+      } catch {
+        return;
+      }
+      if (!complete(text)) return;
       clearTimeout(timer);
       watcher.close();
-      resolve(fs.readFileSync(file, 'utf8'));
-      return true;
+      resolve(text);
     };
     const watcher = fs.watch(dir, () => done());
-    const timer = setTimeout(() => { watcher.close(); reject(new Error(`${file} did not appear`)); }, timeoutMs);
+    const timer = setTimeout(() => { watcher.close(); reject(new Error(`${file} did not appear complete`)); }, timeoutMs);
     done();
   });
 }
@@ -255,17 +263,19 @@ async function quickInput(page, keys, text, rowText, next) {
     await quickInput(page, null, 'Markdown report', 'Markdown report', 'Export Markdown report');
     await page.waitForFunction(() => /cooling-report\.md$/.test(document.querySelector('.quick-input-widget .quick-input-box input')?.value ?? ''));
     await page.keyboard.press('Enter');
-    const report = await waitForFile(path.join(ws, 'cooling-report.md'));
+    const report = await waitForFile(path.join(ws, 'cooling-report.md'), (t) => t.includes('Use of results') && t.endsWith('\n'));
     check('Markdown report exported next to the spec', /^# Fit report/.test(report) && report.includes('newton'), `${report.length} characters`);
 
     // new spec from the CSV: x, y and a model template
-    await quickInput(page, 'Control+P', 'cooling.csv', 'cooling.csv');
+    await page.locator('.quick-input-widget').waitFor({ state: 'hidden' });
+    await page.locator('.tab', { hasText: 'cooling.csv' }).first().click(); // opened above from the chart
+    await page.locator('.tab.active', { hasText: 'cooling.csv' }).waitFor();
     await page.locator('.editor-group-container .monaco-editor .view-lines', { hasText: 'time_min,temp_C' }).first().waitFor();
     await quickInput(page, 'F1', 'Leastwise: New Spec from CSV', 'Leastwise: New Spec from CSV', 'New spec (1/3)');
     await quickInput(page, null, 'time_min', 'time_min', 'New spec (2/3)');
     await quickInput(page, null, 'temp_C', 'temp_C', 'New spec (3/3)');
     await quickInput(page, null, 'exponential decay', 'exponential decay');
-    const scaffold = await waitForFile(path.join(ws, 'cooling-2.lsq'));
+    const scaffold = await waitForFile(path.join(ws, 'cooling-2.lsq'), (t) => /^fit /m.test(t) && t.endsWith('\n'));
     await page.locator('.editor-group-container .monaco-editor .view-lines', { hasText: 'on cooling' }).first().waitFor();
     check('new spec scaffolded from the CSV and opened', /fit \w+ on cooling/.test(scaffold) && scaffold.includes('temp_C'), scaffold.split('\n').find((l) => l.startsWith('fit ')));
   } catch (e) {

@@ -9,8 +9,7 @@ import { join, resolve } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { RunResult } from '../../engine/result';
-import { chartSpecs } from '../../engine/views/charts';
-import { chartFileName } from '../../engine/views/svg';
+import { chartFileName, chartSpecs } from '../../engine/views/charts';
 import { isSvgResponse, type SvgRequest, type SvgResponse } from '../../extension/export/svgProtocol';
 
 const ROOT = resolve(__dirname, '..', '..');
