@@ -54,6 +54,31 @@ export const warningText = {
     `starting value${params.length === 1 ? '' : 's'} for ${params.join(', ')} guessed (${how}); give "= value" to choose your own`,
 } satisfies Record<WarningCode, (...args: never[]) => string> & Record<string, (...args: never[]) => string>;
 
+/** Notes of derived quantities (engine/run/derived.ts): how the uncertainty was obtained, or why a number is missing. */
+export const derivedText = {
+  noResult: (fit: string) => `fit ${fit} has no result`,
+  noGroup: (fit: string, group: string) => `fit ${fit} has no group ${group}`,
+  fitFailed: (fit: string, reason: string) => `fit ${fit} failed (${reason})`,
+  notConverged: (fit: string) => `fit ${fit} did not converge: its estimates are not an optimum`,
+  noParameter: (fit: string, name: string) => `fit ${fit} has no parameter ${name}`,
+  unknownDerived: (name: string) => `no derived quantity ${name} above this one`,
+  dependsOnBroken: (name: string) => `it reads ${name}, which could not be evaluated`,
+  notComputable: (what: string) => `${what} could not be computed`,
+  notFinite: 'the value is not a finite number (e.g. a division by zero or the logarithm of a non-positive number)',
+  compileFailed: (detail: string) => `the expression could not be evaluated (${detail})`,
+  noFreeParameter: 'it reads no free parameter, so it has no standard error',
+  noCovariance: (fits: string[]) => `no standard error: the parameter covariance of ${fits.join(', ')} is not available (see the fit warnings)`,
+  badGradient: 'no standard error: a derivative of the expression is not finite at the estimates',
+  deltaOne: (fit: string) => `standard error by the delta method (first order) from the parameter covariance of ${fit}`,
+  deltaMany: (fits: string[]) =>
+    `standard error by the delta method (first order) from the parameter covariances of ${fits.join(', ')}, parameters of different fits treated as independent`,
+  fixedStatistics: (names: string[]) => `${names.join(', ')} taken as fixed (${names.length === 1 ? 'its' : 'their'} own uncertainty is not included)`,
+  tInterval: (level: string, dof: number) => `${level} Student-t interval with ${dof} degrees of freedom`,
+  normalInterval: (level: string) => `${level} normal interval`,
+  levelsDiffer: 'the fits have different confidence levels, so the interval uses 95%',
+  noInterval: 'no interval: the fit has no degrees of freedom',
+} as const;
+
 /** Texts of run errors that are not data-file errors. */
 export const errorText = {
   unknownData: (fit: string, data: string) => `fit ${fit} uses data "${data}", which is not declared`,

@@ -192,6 +192,38 @@ export interface ExpectationResult {
   message: string;
 }
 
+/**
+ * The value of a `derive` statement (engine/run/derived.ts), one per group
+ * when it reads a per-group fit. Its standard error is by the first-order
+ * delta method over the covariance of the parameters it reads; `note` says
+ * how the uncertainty was obtained, under which assumptions, or why a number
+ * is missing.
+ */
+export interface DerivedResult {
+  name: string;
+  /** Group, when the quantity reads a per-group fit. */
+  group?: string;
+  /** The expression as written in the spec. */
+  expression: string;
+  /** Null when it cannot be computed (see `note`). */
+  value: number | null;
+  /** Null when the value depends on no free parameter or the covariance is unusable. */
+  stderr: number | null;
+  /** Interval value ± q·stderr at `level` (q Student t with `dof` degrees of freedom, or normal when `dof` is null). */
+  lower: number | null;
+  upper: number | null;
+  /** Confidence level of [lower, upper]; null when there is no interval. */
+  level: number | null;
+  /** Degrees of freedom of the Student-t interval; null for a normal interval or none. */
+  dof: number | null;
+  unit?: string;
+  /** Fits the value reads, directly or through earlier derived quantities. */
+  fits: string[];
+  note: string;
+  /** The derive statement in the spec. */
+  range?: Range;
+}
+
 /** A data or run-time problem with a location (spec range or data file cell). */
 export interface RunError {
   code: string;
@@ -223,6 +255,11 @@ export interface RunResult {
   provenance: Provenance;
   fits: FitResult[];
   queries: QueryResult[];
+  /**
+   * Derived quantities in declaration order (additive: absent in results
+   * written before derived quantities existed; views treat absent as none).
+   */
+  derived?: DerivedResult[];
   expectations: ExpectationResult[];
   errors: RunError[];
 }

@@ -12,6 +12,7 @@ import { parentPort } from 'node:worker_threads';
 import { fitGroupList } from './parallel/group-job';
 import { cancelTokenOf, isWorkerRequest, type WorkerRequest, type WorkerResponse } from './parallel/protocol';
 import { runPlanJob } from './parallel/plan-job';
+import { packNumbers } from './parallel/pack';
 
 /** Minimum interval between progress messages, in ms. */
 const PROGRESS_MS = 50;
@@ -35,7 +36,7 @@ async function handle(req: WorkerRequest, send: (m: WorkerResponse) => void): Pr
     const results = fitGroupList(req.fit, req.groups, cancel, (done) => {
       if (done < total) progress(done, total);
     });
-    send({ kind: 'groupsDone', id: req.id, results });
+    send({ kind: 'groupsDone', id: req.id, results: packNumbers(results) });
     return;
   }
   const result = await runPlanJob(req.plan, req.options, cancel, progress);

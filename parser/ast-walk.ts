@@ -19,6 +19,7 @@ export function walkNames(ast: SpecAst, v: NameVisitor): void {
     switch (e.kind) {
       case 'name': if (!e.quoted) v.name(e.range, e.name); break;
       case 'call': v.call(e.fnRange, e.fn); e.args.forEach(expr); break;
+      case 'dotted': n(e.head); e.members.forEach(n); break;
       case 'unary': case 'not': expr(e.arg); break;
       case 'binary': case 'compare': case 'logic': expr(e.left); expr(e.right); break;
       default: break;
@@ -45,6 +46,7 @@ export function walkNames(ast: SpecAst, v: NameVisitor): void {
           }
         }
         break;
+      case 'derive': n(s.name); expr(s.expr); break;
       case 'predict': case 'invert':
         n(s.fit); n(s.column); s.values.forEach(val); break;
       case 'compare': s.fits.forEach(n); break;

@@ -38,6 +38,8 @@ export type ExprAst =
   | { kind: 'number'; value: number; range: Range }
   | { kind: 'name'; name: string; quoted: boolean; range: Range }
   | { kind: 'call'; fn: string; fnRange: Range; args: ExprAst[]; range: Range }
+  /** `head.member[.member…]`, e.g. `cal.slope`: a fit's result (allowed only in `derive`). */
+  | { kind: 'dotted'; head: NameAst; members: NameAst[]; range: Range }
   | { kind: 'unary'; op: '-' | '+'; arg: ExprAst; range: Range }
   | { kind: 'binary'; op: BinaryOp; left: ExprAst; right: ExprAst; range: Range }
   | { kind: 'compare'; op: CompareOp; left: ExprAst; right: ExprAst; range: Range }
@@ -110,6 +112,17 @@ export interface FitAst {
   range: Range;
 }
 
+/** `derive NAME = EXPRESSION [UNIT]`: a number computed from fit results. */
+export interface DeriveAst {
+  kind: 'derive';
+  name: NameAst | undefined;
+  expr: ExprAst;
+  unit?: UnitAst;
+  /** The expression as written, whitespace collapsed (for reports). */
+  text: string;
+  range: Range;
+}
+
 export interface PredictAst {
   kind: 'predict' | 'invert';
   fit: NameAst | undefined;
@@ -131,8 +144,9 @@ export type ExpectBoundAst =
 
 export interface ExpectAst {
   kind: 'expect';
+  /** The first name: a fit (`fit.PATH`) or a derived quantity (`lod`, `lod.se`). */
   fit: NameAst | undefined;
-  /** `fit.PATH`: one name (parameter or statistic) or two (`param.se`). */
+  /** Names after the first: one (parameter or statistic, or `se` of a derived quantity), two (`param.se`), or none (a derived quantity). */
   path: NameAst[];
   bound: ExpectBoundAst | undefined;
   /** The statement as written after `expect`, whitespace collapsed (for reports). */
@@ -140,7 +154,7 @@ export interface ExpectAst {
   range: Range;
 }
 
-export type StatementAst = DataAst | ConstAst | FitAst | PredictAst | CompareAst | ExpectAst;
+export type StatementAst = DataAst | ConstAst | FitAst | DeriveAst | PredictAst | CompareAst | ExpectAst;
 
 export interface SpecAst {
   kind: 'spec';

@@ -41,6 +41,12 @@ export interface FitInfo {
   incomplete: boolean;
 }
 
+export interface DerivedInfo {
+  line: number;
+  /** Fits its value reads, directly or through earlier derived quantities. */
+  fits: string[];
+}
+
 export interface Env {
   r: Reporter;
   ctx: CheckContext;
@@ -48,8 +54,9 @@ export interface Env {
   consts: Map<string, ConstInfo>;
   data: Map<string, DataInfo>;
   fits: Map<string, FitInfo>;
+  derived: Map<string, DerivedInfo>;
   /** First declaration line of every name in the whole file, by kind. */
-  declared: { const: Map<string, number>; data: Map<string, number>; fit: Map<string, number> };
+  declared: { const: Map<string, number>; data: Map<string, number>; fit: Map<string, number>; derive: Map<string, number> };
 }
 
 /** Built-in constants (folded like `const` values). */

@@ -10,7 +10,7 @@
  * Conditions (comparisons, and/or/not) may appear only in `where` and as the
  * first argument of `when`; everywhere else expressions are numbers.
  */
-import type { ExprAst, ValueAst } from './ast';
+import type { ExprAst, NameAst, ValueAst } from './ast';
 import { FUNCTIONS, isFunctionName, type Expr, type Range } from './plan';
 import { BUILTIN_CONSTANTS, isBuiltinConstant, type Env } from './check-env';
 import { MSG } from './messages';
@@ -26,6 +26,16 @@ export interface ExprScope {
   /** Data source whose columns are read. */
   dataName: string;
   columns: ReadonlySet<string> | undefined;
+  /**
+   * Present in a `derive` expression (hooks in check-derive.ts): plain names
+   * and `FIT.NAME` resolve there. Absent elsewhere, where `FIT.NAME` is an error.
+   */
+  derive?: DeriveHooks;
+}
+
+export interface DeriveHooks {
+  name(name: string, quoted: boolean, range: Range, use: ExprUse): Expr;
+  dotted(head: NameAst, members: NameAst[], range: Range, use: ExprUse): Expr;
 }
 
 /** What an expression read. */
@@ -56,7 +66,12 @@ export function resolveExpr(env: Env, ast: ExprAst, want: 'number' | 'condition'
       if (!Number.isFinite(ast.value)) env.r.report('number-range', MSG.numberRange(String(ast.value)), range);
       return { kind: 'number', value: Number.isFinite(ast.value) ? ast.value : 0, range };
     case 'name':
-      return resolveName(env, ast.name, ast.quoted, range, scope, use);
+      return scope.derive ? scope.derive.name(ast.name, ast.quoted, range, use) : resolveName(env, ast.name, ast.quoted, range, scope, use);
+    case 'dotted':
+      if (scope.derive) return scope.derive.dotted(ast.head, ast.members, range, use);
+      env.r.report('reference-not-allowed', MSG.referenceNotAllowed([ast.head, ...ast.members].map((m) => m.name).join('.')), range);
+      use.broken = true;
+      return { kind: 'number', value: 0, range };
     case 'call':
       return resolveCall(env, ast, scope, use);
     case 'unary': {

@@ -1,6 +1,8 @@
 /**
  * Statements that use a fit after it is declared: predict, invert, compare
- * and expect. Each names its fit; the fit must be declared above.
+ * and expect. Each names its fit; the fit must be declared above. An
+ * expectation may instead name a derived quantity declared above (`expect
+ * lod below 0.1`, `expect lod.se below 0.01`).
  */
 import type { CompareAst, ExpectAst, NameAst, PredictAst, ValueAst } from './ast';
 import { STATISTICS, type Bound, type Expectation, type ExpectTarget, type Query, type StatisticName } from './plan';
@@ -72,11 +74,41 @@ export function checkCompare(env: Env, c: CompareAst): Query {
 
 const isStatistic = (s: string): s is StatisticName => (STATISTICS as readonly string[]).includes(s);
 
+/** True when the first name of `expect` is (meant as) a derived quantity rather than a fit. */
+function namesDerived(env: Env, x: ExpectAst): boolean {
+  const head = x.fit;
+  if (!head) return false;
+  if (env.derived.has(head.name)) return true;
+  if (env.fits.has(head.name)) return false;
+  return x.path.length === 0 || (env.declared.derive.has(head.name) && !env.declared.fit.has(head.name));
+}
+
+function derivedTarget(env: Env, head: NameAst, path: NameAst[]): ExpectTarget | undefined {
+  const [first, second] = path;
+  if (env.derived.has(head.name)) {
+    if (!first) return { kind: 'derived', name: head.name, of: 'estimate' };
+    if (first.name === 'se' && !second) return { kind: 'derived', name: head.name, of: 'stderr' };
+    const bad = first.name === 'se' ? second : first;
+    env.r.report('unknown-target', MSG.unknownDerivedPath(bad.name), bad.range, ['se']);
+    return undefined;
+  }
+  const later = env.declared.derive.get(head.name);
+  if (later !== undefined) {
+    env.r.report('declared-later', MSG.declaredLater('derived quantity', head.name, later), head.range);
+  } else if (env.declared.fit.has(head.name)) {
+    env.r.report('unknown-target', MSG.fitNeedsMember(head.name), head.range);
+  } else {
+    env.r.report('undefined-name', MSG.unknownDerived(head.name), head.range, suggest(head.name, [...env.derived.keys(), ...env.fits.keys()]));
+  }
+  return undefined;
+}
+
 export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
-  const fit = lookupFit(env, x.fit);
+  const derived = namesDerived(env, x);
+  const fit = derived ? undefined : lookupFit(env, x.fit);
   const fitName = x.fit?.name ?? '';
-  let target: ExpectTarget | undefined;
-  const [first, second, third] = x.path;
+  let target: ExpectTarget | undefined = derived && x.fit ? derivedTarget(env, x.fit, x.path) : undefined;
+  const [first, second, third] = derived ? [] : x.path;
   if (first) {
     const params = fit?.params ?? [];
     const isParam = params.includes(first.name);
@@ -97,6 +129,8 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
     } else if (fit) {
       env.r.report('unknown-target', MSG.unknownTarget(first.name, fitName), first.range, suggest(first.name, [...params, ...STATISTICS]));
     }
+  } else if (fit && x.fit && !derived) {
+    env.r.report('unknown-target', MSG.fitNeedsMember(fitName), x.fit.range);
   }
 
   let bound: Bound | undefined;
@@ -112,6 +146,6 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
     const value = resolveValue(env, b.value, { allowInf: false });
     if (value !== undefined) bound = { kind: b.kind, value };
   }
-  if (!target || !bound || !fit) return undefined;
+  if (!target || !bound || (!fit && target.kind !== 'derived')) return undefined;
   return { target, bound, text: x.text, range: x.range };
 }

@@ -8,6 +8,7 @@ import { PLAN_VERSION, type DataSource, type Diagnostic, type Plan } from './pla
 import { isBuiltinConstant, type CheckContext, type Env } from './check-env';
 import { newUse, resolveExpr, resolveValue } from './check-expr';
 import { checkFit } from './check-fit';
+import { checkDerive } from './check-derive';
 import { checkCompare, checkExpect, checkQuery } from './check-queries';
 import { MSG } from './messages';
 import { Reporter } from './report';
@@ -16,10 +17,12 @@ import { suggest } from './suggest';
 export type { CheckContext } from './check-env';
 
 export function checkSpec(ast: SpecAst, ctx: CheckContext = {}): { plan: Plan; diagnostics: Diagnostic[] } {
-  const plan: Plan = { version: PLAN_VERSION, data: [], constants: [], fits: [], queries: [], expectations: [] };
+  const plan: Plan = { version: PLAN_VERSION, data: [], constants: [], fits: [], derived: [], queries: [], expectations: [] };
+  const derived: NonNullable<Plan['derived']> = [];
+  plan.derived = derived;
   const r = new Reporter();
   try {
-    const env: Env = { r, ctx, consts: new Map(), data: new Map(), fits: new Map(), declared: declarations(ast.statements) };
+    const env: Env = { r, ctx, consts: new Map(), data: new Map(), fits: new Map(), derived: new Map(), declared: declarations(ast.statements) };
     for (const s of ast.statements) {
       switch (s.kind) {
         case 'data': {
@@ -36,6 +39,11 @@ export function checkSpec(ast: SpecAst, ctx: CheckContext = {}): { plan: Plan; d
           const f = checkFit(env, s);
           if (s.name && !env.fits.has(s.name.name)) env.fits.set(s.name.name, f);
           if (s.name && s.data) plan.fits.push(f.plan);
+          break;
+        }
+        case 'derive': {
+          const d = checkDerive(env, s);
+          if (d) derived.push(d);
           break;
         }
         case 'predict':
@@ -61,11 +69,11 @@ export function checkSpec(ast: SpecAst, ctx: CheckContext = {}): { plan: Plan; d
   return { plan, diagnostics: r.diagnostics };
 }
 
-/** First declaration line of every data, const and fit name in the file. */
+/** First declaration line of every data, const, fit and derive name in the file. */
 function declarations(statements: StatementAst[]): Env['declared'] {
-  const declared: Env['declared'] = { const: new Map(), data: new Map(), fit: new Map() };
+  const declared: Env['declared'] = { const: new Map(), data: new Map(), fit: new Map(), derive: new Map() };
   for (const s of statements) {
-    if ((s.kind === 'const' || s.kind === 'data' || s.kind === 'fit') && s.name && !declared[s.kind].has(s.name.name)) {
+    if ((s.kind === 'const' || s.kind === 'data' || s.kind === 'fit' || s.kind === 'derive') && s.name && !declared[s.kind].has(s.name.name)) {
       declared[s.kind].set(s.name.name, s.name.range.start.line);
     }
   }

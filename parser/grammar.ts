@@ -2,7 +2,7 @@
  * The `.lsq` grammar as one chevrotain CstParser (one reused instance).
  *
  *   spec       := statement*
- *   statement  := data | const | fit | predict | invert | compare | expect
+ *   statement  := data | const | fit | derive | predict | invert | compare | expect
  *   data       := 'data' Name '=' String ( 'where' expr | 'delimiter' String | 'decimal' String )*
  *   const      := 'const' Name '=' value Unit?
  *   fit        := 'fit' Name 'on' Name '{' fitItem* '}'
@@ -10,14 +10,17 @@
  *               | 'param' Name ( '=' value | 'in' '[' value ',' value ']' | 'fixed' | Unit )*
  *               | ('sigma' | 'weight') expr | 'method' Name | 'loss' Name ('scale' value)?
  *               | ('level' | 'iterations' | 'tolerance' | 'rate') value | 'per' column
+ *   derive     := 'derive' Name '=' expr Unit?
  *   predict    := ('predict' | 'invert') Name 'at' column '=' value (',' value)*
  *   compare    := 'compare' Name (',' Name)*
- *   expect     := 'expect' Name ( '.' Name )+ ( 'within' value '..' value | ('above'|'below') value )
+ *   expect     := 'expect' Name ( '.' Name )* ( 'within' value '..' value | ('above'|'below') value )
  *   value      := ('-' | '+')? ( Number | 'inf' | Name )
  *   column     := Name | String
  *
  *   expr       := operand ( BinaryOperator operand )*
- *   operand    := ( '-' | '+' | 'not' )* ( Number | String | Name ( '(' expr (',' expr)* ')' )? | '(' expr ')' )
+ *   operand    := ( '-' | '+' | 'not' )* ( Number | String | Name ( '(' expr (',' expr)* ')' | ( '.' Name )+ )? | '(' expr ')' )
+ *
+ * A dotted name `FIT.NAME` reads a fit's result; the checker allows it only in `derive`.
  *
  * A statement keyword that is first on its line is never read as a name in
  * an operand, value, column, parameter name or option value (tokens.ts
@@ -42,7 +45,7 @@ function label(t: TokenType): string {
 }
 
 function unexpected(tok: IToken): string {
-  return `unexpected ${show(tok)}: a statement starts with data, const, fit, predict, invert, compare or expect`;
+  return `unexpected ${show(tok)}: a statement starts with data, const, fit, derive, predict, invert, compare or expect`;
 }
 
 /** Short, user-facing syntax messages (the parser's defaults name internal token types). */
@@ -76,11 +79,12 @@ export class LsqParser extends CstParser {
         { ALT: () => this.SUBRULE(this.dataStatement) },
         { ALT: () => this.SUBRULE(this.constStatement) },
         { ALT: () => this.SUBRULE(this.fitStatement) },
+        { ALT: () => this.SUBRULE(this.deriveStatement) },
         { ALT: () => this.SUBRULE(this.queryStatement) },
         { ALT: () => this.SUBRULE(this.compareStatement) },
         { ALT: () => this.SUBRULE(this.expectStatement) },
       ],
-      ERR_MSG: 'a statement (data, const, fit, predict, invert, compare or expect)',
+      ERR_MSG: 'a statement (data, const, fit, derive, predict, invert, compare or expect)',
     });
   });
 
@@ -198,6 +202,14 @@ export class LsqParser extends CstParser {
     this.SUBRULE(this.column);
   });
 
+  private deriveStatement = this.RULE('deriveStatement', () => {
+    this.CONSUME(T.Derive);
+    this.CONSUME(T.Name, { LABEL: 'name' });
+    this.CONSUME(T.Equals);
+    this.SUBRULE(this.expression);
+    this.OPTION(() => this.CONSUME(T.Unit, { LABEL: 'unit' }));
+  });
+
   private queryStatement = this.RULE('queryStatement', () => {
     this.OR([{ ALT: () => this.CONSUME(T.Predict, { LABEL: 'keyword' }) }, { ALT: () => this.CONSUME(T.Invert, { LABEL: 'keyword' }) }]);
     this.CONSUME(T.Name, { LABEL: 'fit' });
@@ -215,7 +227,7 @@ export class LsqParser extends CstParser {
   private expectStatement = this.RULE('expectStatement', () => {
     this.CONSUME(T.Expect);
     this.CONSUME(T.Name, { LABEL: 'fit' });
-    this.AT_LEAST_ONE(() => {
+    this.MANY(() => {
       this.CONSUME(T.Dot);
       this.CONSUME2(T.Name, { LABEL: 'path' });
     });
@@ -280,11 +292,21 @@ export class LsqParser extends CstParser {
           GATE: () => !T.startsStatement(this.LA(1)),
           ALT: () => {
             this.CONSUME(T.Name, { LABEL: 'name' });
-            this.OPTION(() => {
-              this.CONSUME(T.LParen, { LABEL: 'call' });
-              this.MANY_SEP({ SEP: T.Comma, DEF: () => this.SUBRULE(this.expression, { LABEL: 'args' }) });
-              this.CONSUME(T.RParen, { LABEL: 'close' });
-            });
+            this.OPTION(() => this.OR2([
+              {
+                ALT: () => {
+                  this.CONSUME(T.LParen, { LABEL: 'call' });
+                  this.MANY_SEP({ SEP: T.Comma, DEF: () => this.SUBRULE(this.expression, { LABEL: 'args' }) });
+                  this.CONSUME(T.RParen, { LABEL: 'close' });
+                },
+              },
+              {
+                ALT: () => this.AT_LEAST_ONE(() => {
+                  this.CONSUME(T.Dot, { LABEL: 'dot' });
+                  this.CONSUME2(T.Name, { LABEL: 'member' });
+                }),
+              },
+            ]));
           },
         },
         {

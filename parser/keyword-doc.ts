@@ -26,11 +26,12 @@ export const KEYWORD_DOCS: Readonly<Record<string, string>> = {
   tolerance: 'tolerance T - relative stopping tolerance of iterative solvers (default 1e-10).',
   rate: 'rate R - learning rate for gradient_descent.',
   per: 'per COLUMN - fit separately for each distinct value of the column.',
+  derive: 'derive NAME = EXPRESSION [UNIT] - a number computed from fit results (FIT.PARAM, FIT.STAT), with a delta-method standard error and interval.',
   predict: 'predict FIT at COLUMN = v1, v2, ... - model values (with intervals) at these predictor values.',
   invert: 'invert FIT at RESPONSE = v1, v2, ... - predictor values at which the model reaches these responses.',
   at: 'at COLUMN = values - the column the query values belong to.',
   compare: 'compare FIT, FIT, ... - side-by-side statistics (AIC, BIC, F-test when nested) of fits.',
-  expect: 'expect FIT.TARGET within LOW .. HIGH | above X | below X - a check reported as pass or fail.',
+  expect: 'expect FIT.TARGET | DERIVED within LOW .. HIGH | above X | below X - a check reported as pass or fail.',
   within: 'within LOW .. HIGH - the value must lie in the closed interval.',
   above: 'above X - the value must be greater than X.',
   below: 'below X - the value must be less than X.',
@@ -55,5 +56,5 @@ export const STATISTIC_DOCS: Readonly<Record<StatisticName, string>> = {
   iterations: 'Iterations the solver took.',
 };
 
-/** Standard error of a parameter estimate: `expect FIT.PARAM.se below X`. */
-export const STDERR_DOC = 'se - standard error of the parameter estimate.';
+/** Standard error of a parameter estimate or derived quantity: `expect FIT.PARAM.se below X`, `expect LOD.se below X`. */
+export const STDERR_DOC = 'se - standard error of the parameter estimate (or of a derived quantity).';

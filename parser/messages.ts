@@ -42,6 +42,8 @@ export const CODES = {
   'predictor-mismatch': 'error',
   'response-mismatch': 'error',
   'compare-too-few': 'error',
+  'reference-not-allowed': 'error',
+  'column-in-derive': 'error',
   'unused-parameter': 'warning',
   'unused-data': 'warning',
   'repeated-fit': 'warning',
@@ -108,6 +110,20 @@ export const MSG = {
   responseMismatch: (fit: string, col: string, cols: readonly string[]) =>
     `${q(col)} is not the response of ${q(fit)} (it reads ${cols.length ? list(cols) : 'no column'})`,
   compareTooFew: 'compare needs at least two different fits',
+  referenceNotAllowed: (text: string) =>
+    `${q(text)} reads a fit result after fitting; FIT.NAME is allowed only in derive (use a parameter, constant or column here)`,
+  columnInDerive: (name: string) =>
+    `${q(name)} is a column; a derived quantity is computed from fit results (FIT.PARAM, FIT.STAT), constants and earlier derived quantities, not from data`,
+  notDeriveName: (name: string) => `${q(name)} is not a constant or a derived quantity declared above`,
+  selfReference: (name: string) => `derived quantity ${q(name)} cannot use itself`,
+  fitNeedsMember: (fit: string) => `${q(fit)} is a fit; name one of its results: ${fit}.PARAM or ${fit}.STAT`,
+  derivedNotFit: (name: string) => `${q(name)} is a derived quantity, not a fit; write ${name} without a member`,
+  seInDerive: 'a standard error cannot enter a derived quantity (its own standard error comes from the fit covariance); use FIT.PARAM or FIT.STAT',
+  derivePathTooLong: 'expected FIT.PARAM or FIT.STAT',
+  unknownDerived: (name: string) => `no derived quantity named ${q(name)}`,
+  unknownDerivedPath: (name: string) => `after a derived quantity only .se (standard error) may follow, not ${q(name)}`,
+  deriveClash: (name: string, what: string, line: number) =>
+    `${q(name)} is already a ${what} (line ${line}); a derived quantity needs its own name`,
   compareRepeated: (name: string) => `fit ${q(name)} is listed twice`,
   unusedParameter: (name: string) => `parameter ${q(name)} is declared but the model does not use it`,
   unusedData: (name: string) => `data ${q(name)} is not used by any fit`,

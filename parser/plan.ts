@@ -52,11 +52,20 @@ export function isFunctionName(name: string): name is FunctionName {
  * Expression tree. Names are already resolved: a `column` reads a data
  * column, a `param` a fitted parameter; constants (`const` statements, `pi`,
  * `e`) are folded into `number` nodes by the checker.
+ *
+ * `result` and `derived` nodes occur only in derived quantities
+ * (`DerivedPlan.expr`), never in fits or filters: `result` reads a number
+ * from a fit's results after fitting (`cal.slope` is the estimate of
+ * parameter `slope` of fit `cal`, `cal.rmse` a statistic), `derived` the
+ * value of a derived quantity declared above.
  */
 export type Expr =
   | { kind: 'number'; value: number; range?: Range }
   | { kind: 'column'; name: string; range?: Range }
   | { kind: 'param'; name: string; range?: Range }
+  | { kind: 'result'; fit: string; of: 'estimate'; name: string; range?: Range }
+  | { kind: 'result'; fit: string; of: 'statistic'; name: StatisticName; range?: Range }
+  | { kind: 'derived'; name: string; range?: Range }
   | { kind: 'negate'; arg: Expr; range?: Range }
   | { kind: 'binary'; op: BinaryOp; left: Expr; right: Expr; range?: Range }
   | { kind: 'call'; fn: FunctionName; args: Expr[]; range?: Range }
@@ -163,7 +172,9 @@ export type StatisticName = (typeof STATISTICS)[number];
 
 export type ExpectTarget =
   | { kind: 'parameter'; fit: string; name: string; of: 'estimate' | 'stderr' }
-  | { kind: 'statistic'; fit: string; name: StatisticName };
+  | { kind: 'statistic'; fit: string; name: StatisticName }
+  /** A derived quantity (`expect lod below 0.1`) or its standard error (`expect lod.se below 0.01`). */
+  | { kind: 'derived'; name: string; of: 'estimate' | 'stderr' };
 
 export type Bound =
   | { kind: 'within'; low: number; high: number }
@@ -178,11 +189,33 @@ export interface Expectation {
   range: Range;
 }
 
+/**
+ * `derive NAME = EXPRESSION [UNIT]`: a number computed from fit results
+ * after fitting, with a standard error by the delta method (engine/run/derived.ts).
+ */
+export interface DerivedPlan {
+  name: string;
+  /** Numbers, functions, `result` and `derived` nodes only (no `column`, no `param`). */
+  expr: Expr;
+  /** The expression as written, whitespace collapsed (for reports). */
+  text: string;
+  unit?: string;
+  /** Fits the value reads, directly or through earlier derived quantities, in order of first use. */
+  fits: string[];
+  range: Range;
+}
+
 export interface Plan {
   version: typeof PLAN_VERSION;
   data: DataSource[];
   constants: ConstantPlan[];
   fits: FitPlan[];
+  /**
+   * Derived quantities in declaration order (each reads only fits and derived
+   * quantities above it). Additive: absent in plans written before derived
+   * quantities existed, which readers treat as none. The checker always writes it.
+   */
+  derived?: DerivedPlan[];
   queries: Query[];
   expectations: Expectation[];
 }

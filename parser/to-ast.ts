@@ -10,7 +10,7 @@
 import type { CstNode, IToken } from 'chevrotain';
 import type { Range } from './plan';
 import type {
-  BoundsAst, ConstAst, DataAst, DataOptionAst, ExpectAst, ExpectBoundAst, ExprAst, FitAst, FitItemAst, NameAst,
+  BoundsAst, ConstAst, DataAst, DataOptionAst, DeriveAst, ExpectAst, ExpectBoundAst, ExprAst, FitAst, FitItemAst, NameAst,
   NumericOptionKind, ParamAst, PredictAst, CompareAst, SpecAst, StatementAst, StringAst, UnitAst, ValueAst,
 } from './ast';
 import { getParser } from './grammar';
@@ -254,6 +254,17 @@ class AstBuilder extends BaseVisitor {
     return { kind: 'per', column, range: cover(kw, column?.range) };
   }
 
+  deriveStatement(ctx: Children): DeriveAst {
+    const kw = this.tokRange(ctx, 'Derive');
+    const name = this.nameOf(ctx, 'name');
+    this.tok(ctx, 'Equals');
+    const expr = this.expr(this.node(ctx, 'expression'));
+    const unit = this.unitOf(this.tok(ctx, 'unit'));
+    const range = cover(kw, name?.range, expr.kind === 'error' ? undefined : expr.range, unit?.range);
+    const text = expr.kind === 'error' ? '' : this.source.slice(expr.range.start.offset, expr.range.end.offset).replace(/\s+/g, ' ').trim();
+    return { kind: 'derive', name, expr, unit, text, range };
+  }
+
   queryStatement(ctx: Children): PredictAst {
     const t = this.tok(ctx, 'keyword');
     const fit = this.nameOf(ctx, 'fit');
@@ -369,6 +380,16 @@ class AstBuilder extends BaseVisitor {
     const name = this.tok(ctx, 'name');
     if (name) {
       const nameRange = tokenRange(name);
+      if (ctx.dot) {
+        const members: NameAst[] = [];
+        for (let i = 0; i < (ctx.member?.length ?? 0); i++) {
+          const m = this.nameOf(ctx, 'member', i);
+          if (m) members.push(m);
+        }
+        if (members.length === 0) return { kind: 'error', range: cover(nameRange, this.tokRange(ctx, 'dot')) };
+        const head: NameAst = { name: name.image, quoted: false, range: nameRange };
+        return { kind: 'dotted', head, members, range: cover(nameRange, members[members.length - 1].range) };
+      }
       if (!ctx.call) return { kind: 'name', name: name.image, quoted: false, range: nameRange };
       const args = this.nodes(ctx, 'args').map((a) => this.expr(a));
       const close = this.tokRange(ctx, 'close');

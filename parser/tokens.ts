@@ -64,6 +64,7 @@ function keyword(word: string, categories: TokenType[] = [Name]): TokenType {
 export const Data = keyword('data');
 export const Const = keyword('const');
 export const Fit = keyword('fit');
+export const Derive = keyword('derive');
 export const Predict = keyword('predict');
 export const Invert = keyword('invert');
 export const Compare = keyword('compare');
@@ -101,7 +102,7 @@ export const Inf = keyword('inf', []);
 
 /** All keywords, longest first so a keyword that is a prefix of another (`in`, `inf`) comes after it. */
 export const KEYWORD_TOKENS: readonly TokenType[] = [
-  Data, Const, Fit, Predict, Invert, Compare, Expect, Where, Delimiter, Decimal, On, Model, Param, In, Fixed,
+  Data, Const, Fit, Derive, Predict, Invert, Compare, Expect, Where, Delimiter, Decimal, On, Model, Param, In, Fixed,
   Sigma, Weight, Method, Loss, Scale, Level, Iterations, Tolerance, Rate, Per, At, Within, Above, Below,
   And, Or, Not, Inf,
 ].sort((a, b) => String(b.PATTERN).length - String(a.PATTERN).length);
@@ -156,7 +157,7 @@ export const ALL_TOKENS: readonly TokenType[] = [
  * `ln(rate)`; a name that must start a line can be written in quotes.)
  */
 export const LINE_START_KEYWORDS: ReadonlySet<TokenType> = new Set([
-  Data, Const, Fit, Predict, Invert, Compare, Expect, Where, Delimiter, Decimal,
+  Data, Const, Fit, Derive, Predict, Invert, Compare, Expect, Where, Delimiter, Decimal,
   Model, Param, Sigma, Weight, Method, Loss, Level, Iterations, Tolerance, Rate, Per,
 ]);
 

@@ -55,11 +55,18 @@ export interface GroupRunOptions {
    * some 50 small groups).
    */
   minGroupsForWorkers?: number;
+  /**
+   * With workers, this thread fits chunks too, so `threads` counts it
+   * (threads − 1 workers): on a machine with as many cores as threads no
+   * core is oversubscribed. Default true; false keeps this thread free (it
+   * then only receives results).
+   */
+  hostThread?: boolean;
   /** Told how groups are being fitted: on worker threads, or in this thread and why (also after workers failed to start). */
   onMode?: (mode: RunMode) => void;
 }
 
-export type RunMode = { kind: 'workers'; threads: number; chunkSize: number } | { kind: 'in_process'; reason: string };
+export type RunMode = { kind: 'workers'; threads: number; chunkSize: number; hostThread: boolean } | { kind: 'in_process'; reason: string };
 
 /** Rows in all groups from which workers are used whatever the group count (see `minGroupsForWorkers`). */
 export const MIN_ROWS_FOR_WORKERS = 50_000;
@@ -129,9 +136,20 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
     starts.push(s);
     chunks.push(groups.slice(s, s + chunkSize));
   }
-  const workerCount = Math.min(threads, chunks.length);
-  options.onMode?.({ kind: 'workers', threads: workerCount, chunkSize });
+  const host = options.hostThread ?? true;
+  const workerCount = Math.min(host ? threads - 1 : threads, chunks.length);
+  options.onMode?.({ kind: 'workers', threads: workerCount, chunkSize, hostThread: host });
+  let nextChunk = 0;
+  const take = () => (nextChunk < chunks.length ? nextChunk++ : null);
   const partial = new Array<number>(chunks.length).fill(0);
+  const finishChunk = (c: number, resultOf: (data: FitData, k: number) => FitResult) => {
+    chunks[c].forEach((data, k) => {
+      results[starts[c] + k] = resultOf(data, k);
+    });
+    done += chunks[c].length - partial[c];
+    partial[c] = chunks[c].length;
+    report();
+  };
   const flag = createCancelFlag();
   if (options.cancel?.cancelled) setCancelled(flag);
   const poll = setInterval(() => {
@@ -139,11 +157,12 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
   }, CANCEL_POLL_MS);
   poll.unref?.();
 
-  const outcome = await runChunksInWorkers({
+  const pool = runChunksInWorkers({
     workerFile,
     threads: workerCount,
     fit,
     chunks,
+    take,
     cancelFlag: flag,
     onChunkProgress(c, n) {
       if (n > partial[c]) {
@@ -153,33 +172,40 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
       }
     },
     onChunkDone(c, chunkResults) {
-      chunks[c].forEach((data, k) => {
+      finishChunk(c, (data, k) => {
         const r = chunkResults[k];
-        results[starts[c] + k] = r && r.group === data.group ? r : unfittedGroup(fit, data, { message: `no result came back for group ${data.group ?? ''}` });
+        return r && r.group === data.group ? r : unfittedGroup(fit, data, { message: `no result came back for group ${data.group ?? ''}` });
       });
-      done += chunks[c].length - partial[c];
-      partial[c] = chunks[c].length;
-      report();
     },
     onChunkFailed(c, message) {
-      chunks[c].forEach((data, k) => {
-        results[starts[c] + k] = unfittedGroup(fit, data, { message });
-      });
-      done += chunks[c].length - partial[c];
-      partial[c] = chunks[c].length;
-      report();
+      finishChunk(c, (data) => unfittedGroup(fit, data, { message }));
     },
   });
+  // this thread fits chunks too, one group at a time, yielding so worker answers are handled promptly
+  const hostLoop = async () => {
+    for (let c = host ? take() : null; c !== null; c = options.cancel?.cancelled ? null : take()) {
+      for (let k = 0; k < chunks[c].length; k++) {
+        results[starts[c] + k] = fitOneGroup(fit, chunks[c][k], options.cancel);
+        partial[c]++;
+        done++;
+        report();
+        await yieldToEventLoop();
+      }
+    }
+  };
+  const [outcome] = await Promise.all([pool, hostLoop()]);
   clearInterval(poll);
 
-  const rest = outcome.notRun.flatMap((c) => chunks[c].map((_, k) => starts[c] + k));
+  const rest = [...outcome.notRun];
+  for (let c = take(); c !== null; c = take()) rest.push(c);
+  const indices = rest.sort((a, b) => a - b).flatMap((c) => chunks[c].map((_, k) => starts[c] + k));
   if (options.cancel?.cancelled) {
-    for (const i of rest) results[i] = unfittedGroup(fit, groups[i], { cancelled: true });
-    done += rest.length;
-    if (rest.length > 0) report();
-  } else if (rest.length > 0) {
+    for (const i of indices) results[i] ??= unfittedGroup(fit, groups[i], { cancelled: true });
+    done = total;
+    if (indices.length > 0) report();
+  } else if (indices.length > 0) {
     options.onMode?.({ kind: 'in_process', reason: outcome.startupError ?? 'chunks left over' });
-    await inProcess(rest);
+    await inProcess(indices);
   }
   return results as FitResult[];
 }

@@ -10,22 +10,24 @@
  *   that chunk's groups (`onChunkFailed`) and is replaced;
  * - a worker that exits before it answered anything is taken as a start-up
  *   failure (e.g. an unusable worker file): no more workers are started and
- *   the chunks not done are returned in `notRun` for the caller to fit in
- *   process;
- * - once the shared cancel flag is set, no further chunk is dispatched; those
- *   chunks are returned in `notRun` as well.
+ *   no more chunks taken; the chunk it held is returned in `notRun`;
+ * - once the shared cancel flag is set, no further chunk is taken.
+ * Chunks come from a queue (`take`) that the caller may also consume.
  */
 import { Worker } from 'node:worker_threads';
 import type { FitPlan } from '../../parser/plan';
 import type { FitResult } from '../result';
 import type { FitData } from '../run/fit-data';
 import { isWorkerResponse, type WorkerRequest } from './protocol';
+import { unpackNumbers } from './pack';
 
 export interface PoolJob {
   workerFile: string;
   threads: number;
   fit: FitPlan;
   chunks: readonly FitData[][];
+  /** The next chunk index to fit, or null when none is left (a queue shared with other consumers). */
+  take(): number | null;
   cancelFlag: SharedArrayBuffer;
   /** Groups of chunk `chunk` finished so far (progress inside a chunk). */
   onChunkProgress(chunk: number, done: number): void;
@@ -34,7 +36,7 @@ export interface PoolJob {
 }
 
 export interface PoolOutcome {
-  /** Chunks not run by a worker (cancelled before dispatch, or workers could not start). */
+  /** Chunks taken by a worker that could not start (still to be fitted). Chunks never taken stay in the queue. */
   notRun: number[];
   /** Why workers could not start, when they could not. */
   startupError: string | null;
@@ -44,14 +46,12 @@ export function runChunksInWorkers(job: PoolJob): Promise<PoolOutcome> {
   const cancelView = new Int32Array(job.cancelFlag);
   const isCancelled = () => Atomics.load(cancelView, 0) !== 0;
   const notRun: number[] = [];
-  let next = 0;
   let active = 0;
   let startupError: string | null = null;
 
   return new Promise((resolve) => {
     const finishIfIdle = () => {
       if (active > 0) return;
-      while (next < job.chunks.length) notRun.push(next++);
       resolve({ notRun: notRun.sort((a, b) => a - b), startupError });
     };
 
@@ -70,12 +70,13 @@ export function runChunksInWorkers(job: PoolJob): Promise<PoolOutcome> {
       let lastError: Error | null = null;
 
       const give = () => {
-        if (startupError !== null || isCancelled() || next >= job.chunks.length) {
+        const c = startupError !== null || isCancelled() ? null : job.take();
+        if (c === null) {
           current = -1;
           void worker.terminate();
           return;
         }
-        current = next++;
+        current = c;
         const request: WorkerRequest = { kind: 'fitGroups', id: current, fit: job.fit, groups: job.chunks[current], cancelFlag: job.cancelFlag };
         worker.postMessage(request);
       };
@@ -87,7 +88,7 @@ export function runChunksInWorkers(job: PoolJob): Promise<PoolOutcome> {
           job.onChunkProgress(current, m.done);
           return;
         }
-        if (m.kind === 'groupsDone') job.onChunkDone(current, m.results);
+        if (m.kind === 'groupsDone') job.onChunkDone(current, unpackNumbers(m.results));
         else if (m.kind === 'error') job.onChunkFailed(current, m.message);
         else job.onChunkFailed(current, `unexpected answer ${m.kind} from a worker thread`);
         give();
@@ -104,7 +105,7 @@ export function runChunksInWorkers(job: PoolJob): Promise<PoolOutcome> {
             notRun.push(current);
           } else {
             job.onChunkFailed(current, `the worker thread fitting this group stopped: ${why}`);
-            if (startupError === null && !isCancelled() && next < job.chunks.length) launch();
+            if (startupError === null && !isCancelled()) launch();
           }
           current = -1;
         }

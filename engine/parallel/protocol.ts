@@ -43,6 +43,7 @@ export type WorkerResponse =
   /** Progress inside a job: `done` of `total` units (groups, or fits for runPlan). */
   | { kind: 'progress'; id: number; done: number; total: number }
   | { kind: 'runPlanDone'; id: number; result: RunResult }
+  /** Results in the order sent; long number arrays travel packed as Float64Arrays (`pack.ts`: `unpackNumbers` restores them). */
   | { kind: 'groupsDone'; id: number; results: FitResult[] }
   /** The job itself could not run (a bug, not a fit failure: those are FitResults with stop `failed`). */
   | { kind: 'error'; id: number; message: string };

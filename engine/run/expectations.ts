@@ -1,12 +1,13 @@
 /**
- * Checking the spec's `expect` statements against fit results. Bounds:
- * `within LOW .. HIGH` is LOW ≤ actual ≤ HIGH; `above X` is actual > X;
- * `below X` is actual < X. A non-finite or missing actual value fails.
- * Per-group fits give one result per group.
+ * Checking the spec's `expect` statements against fit results and derived
+ * quantities. Bounds: `within LOW .. HIGH` is LOW ≤ actual ≤ HIGH; `above X`
+ * is actual > X; `below X` is actual < X. A non-finite or missing actual
+ * value fails. Per-group fits (and derived quantities of them) give one
+ * result per group.
  */
 import type { Bound, Expectation, StatisticName } from '../../parser/plan';
 import { num } from '../messages';
-import type { ExpectationResult, FitResult } from '../result';
+import type { DerivedResult, ExpectationResult, FitResult } from '../result';
 
 /** The number an expectation reads from a fit result (NaN when it cannot be computed). */
 export function statisticValue(result: FitResult, name: StatisticName): number {
@@ -46,15 +47,39 @@ function boundText(bound: Bound): string {
 
 function targetText(e: Expectation): string {
   const t = e.target;
-  return t.kind === 'parameter' ? `${t.fit}.${t.name}${t.of === 'stderr' ? '.se' : ''}` : `${t.fit}.${t.name}`;
+  switch (t.kind) {
+    case 'parameter': return `${t.fit}.${t.name}${t.of === 'stderr' ? '.se' : ''}`;
+    case 'statistic': return `${t.fit}.${t.name}`;
+    case 'derived': return `${t.name}${t.of === 'stderr' ? '.se' : ''}`;
+  }
 }
 
-export function checkExpectations(expectations: readonly Expectation[], results: ReadonlyMap<string, FitResult[]>): ExpectationResult[] {
+/**
+ * True when an expectation belongs to this run: its fit ran, or (for a
+ * derived quantity) the quantity was evaluated.
+ */
+export function expectationApplies(e: Expectation, ran: (fit: string) => boolean, derived: readonly DerivedResult[]): boolean {
+  const t = e.target;
+  return t.kind === 'derived' ? derived.some((d) => d.name === t.name) : ran(t.fit);
+}
+
+export function checkExpectations(
+  expectations: readonly Expectation[],
+  results: ReadonlyMap<string, FitResult[]>,
+  derived: readonly DerivedResult[] = [],
+): ExpectationResult[] {
   const out: ExpectationResult[] = [];
   for (const e of expectations) {
-    const fits = results.get(e.target.fit) ?? [];
+    const t = e.target;
+    if (t.kind === 'derived') {
+      const rows = derived.filter((d) => d.name === t.name);
+      if (rows.length === 0) out.push({ expectation: e, actual: null, passed: false, message: `${targetText(e)}: no derived quantity ${t.name} was computed` });
+      for (const d of rows) out.push(checkDerived(e, d));
+      continue;
+    }
+    const fits = results.get(t.fit) ?? [];
     if (fits.length === 0) {
-      out.push({ expectation: e, actual: null, passed: false, message: `${targetText(e)}: fit ${e.target.fit} has no result` });
+      out.push({ expectation: e, actual: null, passed: false, message: `${targetText(e)}: fit ${t.fit} has no result` });
       continue;
     }
     for (const r of fits) out.push(checkOne(e, r));
@@ -62,10 +87,26 @@ export function checkExpectations(expectations: readonly Expectation[], results:
   return out;
 }
 
+function verdict(e: Expectation, actual: number, where: string, why: string): { actual: number | null; passed: boolean; message: string } {
+  const passed = boundHolds(actual, e.bound);
+  const message = !Number.isFinite(actual)
+    ? `${targetText(e)}${where} could not be computed${why}`
+    : `${targetText(e)}${where} = ${num(actual)} is ${passed ? '' : 'not '}${boundText(e.bound)}`;
+  return { actual: Number.isFinite(actual) ? actual : null, passed, message };
+}
+
+function checkDerived(e: Expectation, d: DerivedResult): ExpectationResult {
+  const where = d.group !== undefined ? ` [${d.group}]` : '';
+  const group = d.group !== undefined ? { group: d.group } : {};
+  const actual = (e.target.kind === 'derived' && e.target.of === 'stderr' ? d.stderr : d.value) ?? NaN;
+  return { expectation: e, ...group, ...verdict(e, actual, where, ` (${d.note.replace(/\.$/, '')})`) };
+}
+
 function checkOne(e: Expectation, r: FitResult): ExpectationResult {
   const where = r.group !== undefined ? ` [${r.group}]` : '';
   const group = r.group !== undefined ? { group: r.group } : {};
   const t = e.target;
+  if (t.kind === 'derived') return { expectation: e, ...group, actual: null, passed: false, message: `${targetText(e)} is not a fit target` };
   let actual: number;
   if (t.kind === 'parameter') {
     const par = r.parameters.find((p) => p.name === t.name);
@@ -74,10 +115,6 @@ function checkOne(e: Expectation, r: FitResult): ExpectationResult {
   } else {
     actual = statisticValue(r, t.name);
   }
-  const passed = boundHolds(actual, e.bound);
   const failedFit = r.stop.code === 'failed' ? ` (the fit failed: ${r.stop.message})` : '';
-  const message = !Number.isFinite(actual)
-    ? `${targetText(e)}${where} could not be computed${failedFit}`
-    : `${targetText(e)}${where} = ${num(actual)} is ${passed ? '' : 'not '}${boundText(e.bound)}`;
-  return { expectation: e, ...group, actual: Number.isFinite(actual) ? actual : null, passed, message };
+  return { expectation: e, ...group, ...verdict(e, actual, where, failedFit) };
 }

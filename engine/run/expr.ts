@@ -32,8 +32,8 @@ export function columnsOf(expr: Expr | undefined, into: string[] = []): string[]
   return into;
 }
 
-/** Maps every node bottom-up; `leaf` may replace column/param/number nodes. */
-function mapLeaves(expr: Expr, leaf: (e: Expr) => Expr): Expr {
+/** Maps every node bottom-up; `leaf` may replace leaf nodes (number, column, param, result, derived). */
+export function mapLeaves(expr: Expr, leaf: (e: Expr) => Expr): Expr {
   switch (expr.kind) {
     case 'negate':
     case 'not':
@@ -85,6 +85,10 @@ export function exprText(expr: Expr): string {
     case 'column':
       return /^[A-Za-z_][A-Za-z0-9_]*$/.test(expr.name) ? expr.name : `"${expr.name}"`;
     case 'param':
+      return expr.name;
+    case 'result':
+      return `${expr.fit}.${expr.name}`;
+    case 'derived':
       return expr.name;
     case 'negate':
       return `-${wrap(expr.arg, PRECEDENCE.negate)}`;

@@ -3,7 +3,8 @@ export { runPlan, runPlanSync, type RunOptions, type RunProgress } from './run-p
 export { runFit, type RunFitOptions } from './fit';
 export { prepareFitData, sortGroupLabels, type FitData, type FitDataResult, type ColumnCompiler } from './fit-data';
 export { runQueries, type QueryContext } from './queries';
-export { checkExpectations, statisticValue, boundHolds } from './expectations';
+export { checkExpectations, statisticValue, boundHolds, expectationApplies } from './expectations';
+export { runDerived } from './derived';
 export { resultToJson, resultToJsonValue } from './json';
 export { loadSources, type LoadedSources } from './datasets';
 export { defaultSolvers, type Solvers } from './solvers';

@@ -1,6 +1,6 @@
 /**
  * Executes a checked plan: loads each data source once, runs every fit (once
- * per group for `per COLUMN`), then the queries and expectations, and returns
+ * per group for `per COLUMN`), then the queries, derived quantities and expectations, and returns
  * one RunResult. Problems in user input (missing file or column, bad cell,
  * unusable rows) are RunError values with locations; nothing is thrown for them.
  *
@@ -18,7 +18,8 @@ import { errorText } from '../messages';
 import { RESULT_VERSION, type FitResult, type RunError, type RunResult } from '../result';
 import type { CancelToken } from '../solve/problem';
 import { loadSources } from './datasets';
-import { checkExpectations } from './expectations';
+import { runDerived } from './derived';
+import { checkExpectations, expectationApplies } from './expectations';
 import { runFit } from './fit';
 import { prepareFitData } from './fit-data';
 import { runQueries } from './queries';
@@ -107,7 +108,8 @@ function* steps(plan: Plan, opts: RunOptions): Generator<void, RunResult> {
   const queries = plan.queries.filter((q) => (q.kind === 'compare' ? q.fits.every(ran) : ran(q.fit)));
   const q = runQueries(queries, { fitPlans, results });
   errors.push(...q.errors);
-  const expectations = checkExpectations(plan.expectations.filter((e) => ran(e.target.fit)), results);
+  const derived = runDerived(plan.derived ?? [], results, ran);
+  const expectations = checkExpectations(plan.expectations.filter((e) => expectationApplies(e, ran, derived)), results, derived);
 
   return {
     version: RESULT_VERSION,
@@ -121,6 +123,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<void, RunResult> {
     },
     fits: [...results.values()].flat(),
     queries: q.results,
+    derived,
     expectations,
     errors,
   };

@@ -1,12 +1,12 @@
 /**
  * A Markdown report a colleague can review: summary, points to review, per-fit
- * tables and linked SVG charts, queries, expectations, errors and provenance,
+ * tables and linked SVG charts, queries, derived quantities, expectations, errors and provenance,
  * and always a short "Use of results" caution.
  */
 import type { FitResult, RunResult } from '../result';
 import { formatLevel, formatNumber } from './format';
 import {
-  expectationLine, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL,
+  derivedBlock, derivedLabel, expectationLine, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL,
   PARAMETER_HEADERS, parameterRows, queryBlocks, stopLine, warningLines,
 } from './summary';
 import { markdownTable, mdCell } from './table';
@@ -52,6 +52,7 @@ export function reviewPoints(result: RunResult): string[] {
     if (!fit.stop.converged) out.push(`Fit ${fitLabel(fit)} did not converge (${fit.stop.code}: ${fit.stop.message}); its numbers are not a solution.`);
     for (const w of warningLines(fit)) out.push(`Fit ${fitLabel(fit)}: ${w}`);
   }
+  for (const d of result.derived ?? []) if (d.value === null) out.push(`Derived quantity ${derivedLabel(d)} could not be computed: ${d.note}`);
   for (const e of result.expectations) if (!e.passed) out.push(`Expectation failed: \`${e.expectation.text}\` (${e.message}).`);
   for (const err of result.errors) out.push(`Error: ${err.message}`);
   return out;
@@ -121,6 +122,14 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
   if (blocks.length) {
     lines.push('## Queries', '');
     for (const b of blocks) lines.push(`### ${b.heading}`, '', ...markdownTable(b.headers, b.rows, b.align), '', ...b.notes, '');
+  }
+  const derived = derivedBlock(result);
+  if (derived) {
+    const defs = new Map((result.derived ?? []).map((d) => [d.name, `\`${d.name} = ${d.expression}\``]));
+    lines.push(`## ${derived.heading}`, '', `As defined in the spec: ${[...defs.values()].join(', ')}.`, '');
+    lines.push(...markdownTable(derived.headers, derived.rows, derived.align), '');
+    lines.push(...derived.notes.map((n) => `- ${mdCell(n)}`), '');
+    lines.push('First-order (delta-method) uncertainties; they assume the listed conditions and do not replace a validated uncertainty evaluation.', '');
   }
   if (result.expectations.length) {
     lines.push('## Expectations', '');

@@ -2,7 +2,7 @@
  * The printable content of a run, as strings, shared by the text and the
  * Markdown views (they differ only in layout). Digits follow format.ts.
  */
-import type { ExpectationResult, FitResult, QueryResult, RunResult } from '../result';
+import type { DerivedResult, ExpectationResult, FitResult, QueryResult, RunResult } from '../result';
 import type { Align } from './table';
 import { formatEstimate, formatInteger, formatLevel, formatNumber, formatP, isUsable, MISSING } from './format';
 
@@ -142,6 +142,43 @@ export function queryBlocks(result: RunResult): QueryBlock[] {
       notes,
     };
   });
+}
+
+/** `lod` or `lod [batch 2]` for a derived quantity of a per-group fit. */
+export function derivedLabel(d: DerivedResult): string {
+  return d.group !== undefined ? `${d.name} [${d.group}]` : d.name;
+}
+
+/**
+ * The derived quantities as one table (name, value, standard error, interval,
+ * unit), or null when there are none. Value, standard error and interval ends
+ * share one last digit (formatEstimate). The notes say, per distinct note,
+ * which quantities it applies to: how the uncertainty was obtained and under
+ * which assumptions, or why a number is missing.
+ */
+export function derivedBlock(result: RunResult): QueryBlock | null {
+  const derived = result.derived ?? [];
+  if (derived.length === 0) return null;
+  const levels = [...new Set(derived.filter((d) => d.lower !== null && d.upper !== null).map((d) => d.level))];
+  const oneLevel = levels.length <= 1;
+  const rows = derived.map((d) => {
+    const f = formatEstimate(d.value ?? NaN, d.stderr, d.lower, d.upper);
+    const hasInterval = d.lower !== null && d.upper !== null;
+    const kind = d.dof !== null ? `t, ${d.dof} dof` : 'normal';
+    const interval = hasInterval ? `[${f.lower}, ${f.upper}]${oneLevel ? '' : ` (${formatLevel(d.level ?? NaN)}, ${kind})`}` : '';
+    return [derivedLabel(d), d.value === null ? MISSING : f.estimate, d.stderr === null ? MISSING : f.stderr, interval, d.unit ?? ''];
+  });
+  const byNote = new Map<string, string[]>();
+  for (const d of derived) byNote.set(d.note, [...(byNote.get(d.note) ?? []), derivedLabel(d)]);
+  const notes = [...byNote].map(([note, names]) => `${names.join(', ')}: ${note}`);
+  const lv = oneLevel && levels[0] !== undefined && levels[0] !== null ? `${formatLevel(levels[0])} ` : '';
+  return {
+    heading: 'Derived quantities',
+    headers: ['quantity', 'value', 'std. error', `${lv}interval`, 'unit'],
+    rows,
+    align: ['left', 'right', 'right', 'right', 'left'],
+    notes,
+  };
 }
 
 export function expectationLine(e: ExpectationResult): { verdict: 'PASS' | 'FAIL'; text: string; actual: string; message: string } {

@@ -1,11 +1,11 @@
 /**
  * Plain-text summary of a run for terminals: per fit a parameter table,
  * goodness of fit, residual checks, warnings and the stopping reason; then
- * query tables and expectation verdicts. Digits follow format.ts.
+ * query tables, derived quantities and expectation verdicts. Digits follow format.ts.
  */
 import type { FitResult, RunResult } from '../result';
 import {
-  expectationLine, expectationTally, fitHeading, goodnessEntries, PARAMETER_HEADERS,
+  derivedBlock, expectationLine, expectationTally, fitHeading, goodnessEntries, PARAMETER_HEADERS,
   parameterRows, queryBlocks, stopLine, warningLines,
 } from './summary';
 import { textTable } from './table';
@@ -41,6 +41,13 @@ export function queryTextLines(result: RunResult): string[] {
   return lines;
 }
 
+/** The derived-quantity table and its notes, as lines (none when the run has no derived quantities). */
+export function derivedTextLines(result: RunResult): string[] {
+  const b = derivedBlock(result);
+  if (!b) return [];
+  return [b.heading, ...textTable(b.headers, b.rows, b.align), ...b.notes.map((n) => `  ${n}`)];
+}
+
 /** Expectation verdicts, one per line, and the tally. */
 export function expectationTextLines(result: RunResult): string[] {
   if (result.expectations.length === 0) return [];
@@ -52,12 +59,14 @@ export function expectationTextLines(result: RunResult): string[] {
   return lines;
 }
 
-/** The whole run summary (fits, queries, expectations) ending with a newline. */
+/** The whole run summary (fits, queries, derived quantities, expectations) ending with a newline. */
 export function runText(result: RunResult): string {
   const sections: string[][] = [];
   for (const fit of result.fits) sections.push(fitTextLines(fit));
   const q = queryTextLines(result);
   if (q.length) sections.push(q);
+  const d = derivedTextLines(result);
+  if (d.length) sections.push(d);
   const e = expectationTextLines(result);
   if (e.length) sections.push(e);
   return sections.map((s) => s.join('\n')).join('\n\n') + '\n';

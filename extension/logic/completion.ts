@@ -1,9 +1,9 @@
 /**
  * Completion items as plain data, chosen from what the line up to the cursor
  * says is expected: a statement keyword, a fit-body keyword, a method or loss
- * name, a data or fit name, a `fit.` member in `expect`, a column, a CSV path,
- * or an expression (functions, the fit's parameters, its data's columns,
- * constants). extension/language/completion.ts maps them to vscode items.
+ * name, a data or fit name, a `fit.` member in `expect` or `derive`, a column,
+ * a CSV path, or an expression (functions, the fit's parameters, its data's
+ * columns, constants; in `derive`: fits, constants and derived quantities). extension/language/completion.ts maps them to vscode items.
  */
 import { FUNCTIONS, LOSSES, METHODS, STATISTICS } from '../../parser/plan';
 import { columnsOf, type EditorAnalysis } from './analysis';
@@ -30,7 +30,7 @@ export interface CompletionEnv {
   csvFiles?: string[];
 }
 
-export const STATEMENT_KEYWORDS = ['data', 'const', 'fit', 'predict', 'invert', 'compare', 'expect'] as const;
+export const STATEMENT_KEYWORDS = ['data', 'const', 'fit', 'derive', 'predict', 'invert', 'compare', 'expect'] as const;
 export const FIT_BODY_KEYWORDS = ['model', 'param', 'sigma', 'weight', 'method', 'loss', 'level', 'iterations', 'tolerance', 'rate', 'per'] as const;
 const IDENT = /^[A-Za-z_][A-Za-z0-9_]*$/;
 
@@ -40,7 +40,7 @@ export function completionsAt(a: EditorAnalysis, offset: number, env: Completion
   const prefix = blankComments(raw);
   if (prefix.length < raw.length || /#/.test(raw.replace(/"[^"]*"/g, ''))) return []; // in a comment
   const fitName = enclosingFit(a, offset) ?? scanEnclosingFit(a.text, offset)?.name;
-  const inFit = fitName !== undefined && !/^\s*(data|const|fit|predict|invert|compare|expect)\b/.test(prefix);
+  const inFit = fitName !== undefined && !/^\s*(data|const|fit|derive|predict|invert|compare|expect)\b/.test(prefix);
   let m: RegExpExecArray | null;
 
   if ((m = /^\s*data\s+\w+\s*=\s*"([^"]*)$/.exec(prefix))) return (env.csvFiles ?? []).map((f) => ({ label: f, kind: 'file' as const }));
@@ -51,11 +51,17 @@ export function completionsAt(a: EditorAnalysis, offset: number, env: Completion
   if (/\bloss\s+\w*$/.test(prefix)) return LOSSES.map((x) => ({ label: x, kind: 'value' as const, detail: 'loss' }));
   if (/^\s*fit\s+\w+\s+\w*$/.test(prefix) && !/\bon\s+\w*$/.test(prefix)) return keywords(['on']);
   if (/^\s*fit\s+\w+\s+on\s+\w*$/.test(prefix)) return dataNames(a);
-  if (/^\s*(predict|invert)\s+\w*$/.test(prefix) || /^\s*compare\s+[\w\s,]*$/.test(prefix) || /^\s*expect\s+\w*$/.test(prefix)) return fitNames(a);
+  if (/^\s*(predict|invert)\s+\w*$/.test(prefix) || /^\s*compare\s+[\w\s,]*$/.test(prefix)) return fitNames(a);
+  if (/^\s*expect\s+\w*$/.test(prefix)) return [...fitNames(a), ...derivedNames(a)];
+  if ((m = /^\s*derive\s+\w+\s*=.*?\b([A-Za-z_]\w*)\.\w*$/.exec(prefix))) return fitMembers(a, m[1]);
+  if (/^\s*derive\s+\w+\s*=/.test(prefix)) return [...fitNames(a), ...derivedNames(a, /^\s*derive\s+(\w+)/.exec(prefix)?.[1]), ...constants(a), ...functions()];
   if (/^\s*(predict|invert)\s+\w+\s+\w*$/.test(prefix)) return keywords(['at']);
   if ((m = /^\s*(predict|invert)\s+(\w+)\s+at\s+\w*$/.exec(prefix))) return queryColumn(a, m[2], m[1] as 'predict' | 'invert');
   if ((m = /^\s*expect\s+(\w+)\.(\w+)\.\w*$/.exec(prefix))) return [{ label: 'se', kind: 'statistic', detail: `standard error of ${m[2]}`, documentation: statisticDoc('se') }];
-  if ((m = /^\s*expect\s+(\w+)\.\w*$/.exec(prefix))) return fitMembers(a, m[1]);
+  if ((m = /^\s*expect\s+(\w+)\.\w*$/.exec(prefix))) {
+    if (a.plan.derived?.some((d) => d.name === m![1])) return [{ label: 'se', kind: 'statistic', detail: `standard error of ${m[1]}`, documentation: statisticDoc('se') }];
+    return fitMembers(a, m[1]);
+  }
   if (/^\s*expect\s+\S+\s+\w*$/.test(prefix)) return keywords(['within', 'above', 'below']);
   if (/^\s*per\s+\w*$/.test(prefix) && fitName) return columns(a, fitName);
   if (/^\s*param\s+\w*$/.test(prefix) && fitName) return undeclaredNames(a, fitName);
@@ -89,6 +95,11 @@ function dataNames(a: EditorAnalysis): LsqCompletion[] {
 
 function fitNames(a: EditorAnalysis): LsqCompletion[] {
   return a.plan.fits.map((f) => ({ label: f.name, kind: 'fit' as const, detail: `fit on ${f.blocks.map((b) => b.data).join(', ')}` }));
+}
+
+/** Derived quantities of the plan (all but `except`, the one being written). */
+function derivedNames(a: EditorAnalysis, except?: string): LsqCompletion[] {
+  return (a.plan.derived ?? []).filter((d) => d.name !== except).map((d) => ({ label: d.name, kind: 'value' as const, detail: `derived = ${d.text}${d.unit ? ` [${d.unit}]` : ''}` }));
 }
 
 function fitMembers(a: EditorAnalysis, fit: string): LsqCompletion[] {

@@ -2,12 +2,14 @@
  * Hover text (Markdown) for the word under the cursor: function docs; a
  * parameter's declaration and, after a fit, its estimate ± standard error and
  * confidence interval (a table for per-group fits); constants, data sources,
- * columns, fits and `expect` statistics.
+ * columns, fits, `expect` statistics, `FIT.NAME` in `derive`, and derived
+ * quantities with their value after a fit.
  */
 import type { FitResult, RunResult } from '../../engine/result';
 import { FUNCTIONS } from '../../parser/plan';
 import { METHOD_LABEL } from '../../engine/views/summary';
 import { columnsOf, type EditorAnalysis } from './analysis';
+import { formatEstimate } from '../../engine/views/format';
 import { fmt, fmtEstimate, fmtInterval, fmtLevel, fmtParameter, fmtPercent } from './format';
 import { constantDoc, functionDoc, keywordDoc, statisticDoc } from './functionDocs';
 import { dataOfFit, enclosingFit } from './locate';
@@ -42,6 +44,15 @@ export function hoverAt(a: EditorAnalysis, offset: number, run?: RunResult): Lsq
     }
     return md(statisticHover(fit, name, run));
   }
+  // derive NAME = ... FIT.PARAM / FIT.STAT ...
+  const member = /^\s*derive\b[^\n]*?\b([A-Za-z_]\w*)\.$/.exec(before.slice(before.lastIndexOf('\n') + 1));
+  if (member && a.plan.fits.some((f) => f.name === member[1])) {
+    const fitName = member[1];
+    if (a.plan.fits.some((f) => f.name === fitName && f.parameters.some((p) => p.name === name))) return md(parameterHover(a, fitName, name, run));
+    return md(statisticHover(fitName, name, run));
+  }
+  const derived = w.quoted ? undefined : a.plan.derived?.find((d) => d.name === name);
+  if (derived) return md(derivedHover(derived.name, derived.text, derived.unit, run));
   const fit = enclosingFit(a, offset);
   if (fit && a.plan.fits.find((f) => f.name === fit)?.parameters.some((p) => p.name === name)) return md(parameterHover(a, fit, name, run));
   const c = a.plan.constants.find((k) => k.name === name);
@@ -114,6 +125,23 @@ export function statisticValue(f: FitResult, stat: string): number | null | unde
     aic: g.aic, aicc: g.aicc, bic: g.bic, n: g.n, dof: g.dof, iterations: f.iterations,
   };
   return Object.prototype.hasOwnProperty.call(table, stat) ? table[stat] : undefined;
+}
+
+/** Definition of a derived quantity and, after a fit, its value ± standard error and interval (per group when grouped). */
+function derivedHover(name: string, text: string, unit: string | undefined, run?: RunResult): string {
+  const u = unit ? ` [${unit}]` : '';
+  const lines = [`**${name}** — derived quantity${u}`, `\`${name} = ${text}\``];
+  const rows = (run?.derived ?? []).filter((d) => d.name === name);
+  for (const d of rows.slice(0, MAX_GROUP_ROWS)) {
+    const f = formatEstimate(d.value ?? NaN, d.stderr, d.lower, d.upper);
+    const group = d.group !== undefined ? `${d.group}: ` : '';
+    const value = d.value === null ? 'n/a' : d.stderr === null ? f.estimate : `${f.estimate} ± ${f.stderr}`;
+    const interval = d.lower !== null && d.upper !== null && d.level !== null ? `, ${fmtLevel(d.level)} interval [${f.lower}, ${f.upper}]` : '';
+    lines.push(`${group}**${value}**${unit ? ` ${unit}` : ''}${interval}`);
+  }
+  if (rows.length > MAX_GROUP_ROWS) lines.push(`… and ${rows.length - MAX_GROUP_ROWS} more groups (see the results panel)`);
+  if (rows.length) lines.push(`_${rows[0].note}_`);
+  return lines.join('\n\n');
 }
 
 function dataHover(a: EditorAnalysis, name: string, path: string): string {

@@ -1,6 +1,7 @@
 /**
  * Outline and navigation as plain data: document symbols (data sources,
- * constants, fits with their parameters, queries and expectations), the
+ * constants, fits with their parameters, derived quantities (as constants),
+ * queries and expectations), the
  * declaration a name refers to, and the fits that get a code lens.
  */
 import type { EditorAnalysis } from './analysis';
@@ -44,6 +45,9 @@ export function documentSymbols(a: EditorAnalysis): LsqSymbol[] {
         out.push({ name: st.name.name, detail: st.data ? `on ${st.data.name}` : '', kind: 'fit', span, nameSpan: spanOf(st.name.range), children });
         break;
       }
+      case 'derive':
+        if (st.name) out.push({ name: st.name.name, detail: st.text ? `= ${st.text}` : '', kind: 'constant', span, nameSpan: spanOf(st.name.range), children: [] });
+        break;
       case 'predict':
       case 'invert':
       case 'compare':

@@ -15,7 +15,7 @@
  */
 import type { FitResult, RunResult } from '../../engine/result';
 import { chartSpecs, type ChartSpec } from '../../engine/views/charts';
-import { goodnessEntries, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/views/summary';
+import { derivedBlock, goodnessEntries, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/views/summary';
 import { buildGroupTable, worstGroups } from '../../engine/group/table';
 import type { GroupFlag } from '../../engine/group/flags';
 import { formatNumber } from '../../engine/views/format';
@@ -82,6 +82,7 @@ export interface PanelModel {
   headline: { fits: number; converged: number; warnings: number; expectations: number; failedExpectations: number; errors: number };
   fits: PanelFit[];
   groups: PanelGroupTable[];
+  /** Query tables; the derived-quantity table (engine/views/summary.ts `derivedBlock`) comes first when there is one. */
   queries: QueryBlock[];
   expectations: { verdict: 'PASS' | 'FAIL'; text: string; actual: string; message: string }[];
   errors: string[];
@@ -143,7 +144,7 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
     },
     fits,
     groups,
-    queries: queryBlocks(run),
+    queries: [derivedBlock(run), ...queryBlocks(run)].filter((b): b is QueryBlock => b !== null),
     expectations: run.expectations.map(expectationLine),
     errors: run.errors.map((e) => `${e.message}${e.file ? ` (${e.file}${e.row ? `, line ${e.row}` : ''})` : ''}`),
   };

@@ -37,7 +37,7 @@ describe('cli (built dist/cli.js)', () => {
     const r = run(dir, 'fit', 'cooling.lsq');
     expect(r.code).toBe(0);
     expect(r.stdout).toContain('Fit newton: temp_C against time_min');
-    expect(r.stdout).toContain('4 of 4 expectations passed.');
+    expect(r.stdout).toContain('5 of 5 expectations passed.');
   });
 
   it('writes schema-valid JSON to stdout and SVG charts', () => {

@@ -24,7 +24,7 @@ describe('cli/fit', () => {
     expect(r.stdout).toContain('Fit newton: temp_C against time_min (Levenberg–Marquardt, squared loss)');
     expect(r.stdout).toMatch(/^ {2}rise +\d+\.\d+ +\d\.\d+ +\d+\.\d+ +\d+\.\d+ +degC$/m);
     expect(r.stdout).toMatch(/reduced χ² \(χ²\/dof\) +\d/);
-    expect(r.stdout).toContain('4 of 4 expectations passed.');
+    expect(r.stdout).toContain('5 of 5 expectations passed.');
     expect(r.stderr).toBe('');
   });
 
@@ -35,6 +35,28 @@ describe('cli/fit', () => {
     expect(r.code).toBe(EXIT.expectationFailed);
     expect(r.stdout).toBe('');
     expect(r.stderr).toMatch(/^cooling\.lsq:\d+:1: error: expectation failed: newton\.tau within 15 \.\. 16 \(/m);
+  });
+
+  it('prints the derived quantities table (photometer LOD and LOQ) and their expectations', async () => {
+    const r = await cli(sampleCopy('photometer'), 'fit', 'photometer.lsq');
+    expect(r.code).toBe(EXIT.ok);
+    const lines = r.stdout.split('\n');
+    const at = lines.indexOf('Derived quantities');
+    expect(at).toBeGreaterThan(0);
+    expect(lines[at + 1]).toMatch(/^ {2}quantity +value +std\. error +95% interval +unit$/);
+    expect(lines[at + 3]).toMatch(/^ {2}lod +0\.08\d+ +0\.000\d+ +\[0\.08\d+, 0\.08\d+\] +mg\/L$/);
+    expect(lines[at + 4]).toMatch(/^ {2}loq +0\.2\d+ +0\.000\d+ +\[0\.2\d+, 0\.2\d+\] +mg\/L$/);
+    expect(lines[at + 5]).toContain('lod, loq: standard error by the delta method');
+    expect(r.stdout).toMatch(/PASS {2}lod below 0\.1 +actual 0\.08/);
+  });
+
+  it('exits 1 when an expectation on a derived quantity fails, naming its line', async () => {
+    const dir = sampleCopy('photometer');
+    edit(dir, 'photometer.lsq', 'expect lod below 0.1', 'expect lod below 0.05');
+    const r = await cli(dir, 'fit', 'photometer.lsq', '--quiet');
+    expect(r.code).toBe(EXIT.expectationFailed);
+    const line = readFileSync(join(dir, 'photometer.lsq'), 'utf8').split('\n').indexOf('expect lod below 0.05') + 1;
+    expect(r.stderr).toMatch(new RegExp(`^photometer\\.lsq:${line}:1: error: expectation failed: lod below 0\\.05 \\(lod = 0\\.08`, 'm'));
   });
 
   it('exits 3 when a fit does not converge (iteration limit 1), even with failed expectations', async () => {

@@ -76,4 +76,20 @@ describe('extension/logic/completion', () => {
     const a = analysisOf(text);
     expect(labels(completionsAt(a, text.length, { csvFiles: ['cooling.csv', 'runs/b.csv'] }))).toEqual(['cooling.csv', 'runs/b.csv']);
   });
+
+  it('derive: offers the keyword, then fits, constants, derived quantities and functions, then FIT members', () => {
+    const start = at(`${COOLING}\nder|`);
+    expect(start.find((i) => i.label === 'derive')?.documentation).toBe(KEYWORD_DOCS.derive);
+    const spec = `${COOLING}derive half_life = ln(2) * newton.tau [min]\n`;
+    const expr = labels(at(`${spec}derive q = 2 * |`));
+    expect(expr).toEqual(expect.arrayContaining(['newton', 'half_life', 'ambient', 'pi', 'ln']));
+    expect(expr).not.toContain('time_min');
+    expect(labels(at(`${spec}derive q = 2 * newton.|`))).toEqual(['rise', 'tau', ...STATISTICS]);
+  });
+
+  it('expect: offers derived quantities beside fits, and only se after a derived quantity', () => {
+    const spec = `${COOLING}derive half_life = ln(2) * newton.tau [min]\n`;
+    expect(labels(at(`${spec}expect |`))).toEqual(['newton', 'half_life']);
+    expect(labels(at(`${spec}expect half_life.|`))).toEqual(['se']);
+  });
 });

@@ -69,4 +69,23 @@ describe('extension/logic/hover', () => {
     const a = analysisOf(COOLING);
     expect(hoverAt(a, COOLING.indexOf('21.5') + 1)).toBeNull();
   });
+
+  it('explains FIT.NAME in a derive line and shows a derived quantity with its value after a fit', () => {
+    const spec = `${COOLING}derive half_life = ln(2) * newton.tau [min]\nexpect half_life below 10\n`;
+    const a = analysisOf(spec);
+    const fit = fitNamed('newton', ['rise', 'tau']);
+    const onTau = hoverAt(a, spec.indexOf('newton.tau [min]') + 'newton.'.length + 1, runWith([fit]));
+    const tau = fit.parameters[1];
+    const f = formatEstimate(tau.estimate, tau.stderr, tau.lower, tau.upper);
+    expect(onTau?.markdown).toContain(`${f.estimate} ± ${f.stderr}`);
+    const before = hoverAt(a, spec.indexOf('expect half_life') + 'expect '.length + 1);
+    expect(before?.markdown).toContain('**half_life** — derived quantity [min]');
+    expect(before?.markdown).toContain('`half_life = ln(2) * newton.tau`');
+    const d = { name: 'half_life', expression: 'ln(2) * newton.tau', value: 8.31777, stderr: 0.0303612, lower: 8.25567, upper: 8.37987, level: 0.95, dof: 23, unit: 'min', fits: ['newton'], note: 'standard error by the delta method.' };
+    const after = hoverAt(a, spec.indexOf('expect half_life') + 'expect '.length + 1, runWith([fit], { derived: [d] }));
+    const g = formatEstimate(d.value, d.stderr, d.lower, d.upper);
+    expect(after?.markdown).toContain(`**${g.estimate} ± ${g.stderr}** min, 95% interval [${g.lower}, ${g.upper}]`);
+    expect(after?.markdown).toContain('_standard error by the delta method._');
+  });
 });
+

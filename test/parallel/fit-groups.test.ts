@@ -39,6 +39,9 @@ afterAll(() => {
   for (const d of dirs) rmSync(d, { recursive: true, force: true });
 });
 
+/** In process; host thread + one worker; two workers. */
+const ways = () => [{ workerFile: null }, { workerFile: built!.worker, hostThread: true }, { workerFile: built!.worker, hostThread: false }];
+
 /** The fixture's groups as the runner splits them. */
 function groupData(): FitData[] {
   const fit = fx.plan.fits[0];
@@ -63,12 +66,14 @@ describe('engine/parallel/fit-groups', () => {
   });
 
   it('fits on worker threads with bit-identical estimates in the sequential order', async () => {
-    const modes: RunMode[] = [];
-    const par = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile: built!.worker, threads: 2, minGroupsForWorkers: 2, chunkSize: 4, onMode: (m) => modes.push(m) });
-    expect(modes).toEqual([{ kind: 'workers', threads: 2, chunkSize: 4 }]);
-    expect(par.map((f) => f.group)).toEqual(sequential.map((f) => f.group));
-    expect(bits(par)).toEqual(bits(sequential));
-    expect(strip(par)).toEqual(strip(sequential));
+    for (const hostThread of [true, false]) {
+      const modes: RunMode[] = [];
+      const par = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile: built!.worker, threads: 2, minGroupsForWorkers: 2, chunkSize: 4, hostThread, onMode: (m) => modes.push(m) });
+      expect(modes).toEqual([{ kind: 'workers', threads: hostThread ? 1 : 2, chunkSize: 4, hostThread }]);
+      expect(par.map((f) => f.group)).toEqual(sequential.map((f) => f.group));
+      expect(bits(par)).toEqual(bits(sequential));
+      expect(strip(par)).toEqual(strip(sequential));
+    }
   });
 
   it('orders groups by group value (code-point order for text labels), not by file order', async () => {
@@ -79,8 +84,8 @@ describe('engine/parallel/fit-groups', () => {
   });
 
   it('a group with one row fails alone; every other group converges', async () => {
-    for (const workerFile of [null, built!.worker]) {
-      const par = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile, threads: 2, minGroupsForWorkers: 2, chunkSize: 5 });
+    for (const how of ways()) {
+      const par = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, ...how, threads: 2, minGroupsForWorkers: 2, chunkSize: 5 });
       const lonely = par.find((f) => f.group === 'Q-lonely')!;
       expect(lonely.stop.code).toBe('failed');
       expect(lonely.stop.message.length).toBeGreaterThan(0);
@@ -96,8 +101,8 @@ describe('engine/parallel/fit-groups', () => {
     // corrupt one group: its column is shorter than its row count, which the compiled model rejects by throwing
     const bad = 7;
     groups[bad] = { ...groups[bad], columns: [groups[bad].columns[0].subarray(0, 2)] };
-    for (const workerFile of [null, built!.worker]) {
-      const out = await fitGroupData(fit, groups, { workerFile, threads: 2, minGroupsForWorkers: 2, chunkSize: 4 });
+    for (const how of ways()) {
+      const out = await fitGroupData(fit, groups, { ...how, threads: 2, minGroupsForWorkers: 2, chunkSize: 4 });
       expect(out).toHaveLength(groups.length);
       expect(out[bad].stop.code).toBe('failed');
       expect(out[bad].stop.message).toMatch(/shorter/);
@@ -107,9 +112,9 @@ describe('engine/parallel/fit-groups', () => {
   });
 
   it('reports progress that never decreases and ends at the group count', async () => {
-    for (const workerFile of [null, built!.worker]) {
+    for (const how of ways()) {
       const seen: [number, number][] = [];
-      await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile, threads: 2, minGroupsForWorkers: 2, chunkSize: 2, onProgress: (d, t) => seen.push([d, t]) });
+      await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, ...how, threads: 2, minGroupsForWorkers: 2, chunkSize: 2, onProgress: (d, t) => seen.push([d, t]) });
       expect(seen.length).toBeGreaterThan(0);
       for (let i = 1; i < seen.length; i++) expect(seen[i][0]).toBeGreaterThanOrEqual(seen[i - 1][0]);
       expect(seen.every(([, t]) => t === 31)).toBe(true);
@@ -118,11 +123,11 @@ describe('engine/parallel/fit-groups', () => {
   });
 
   it('cancels: groups not fitted get stop "cancelled", fitted ones are unchanged, one result per group', async () => {
-    for (const workerFile of [null, built!.worker]) {
+    for (const how of ways()) {
       const token = { cancelled: false };
       const out = await fitGroupsParallel(fx.plan, 'decay', {
         baseDir: fx.dir,
-        workerFile,
+        ...how,
         threads: 2, minGroupsForWorkers: 2,
         chunkSize: 1,
         cancel: token,
@@ -141,8 +146,8 @@ describe('engine/parallel/fit-groups', () => {
   });
 
   it('a token cancelled before the start fits no group', async () => {
-    for (const workerFile of [null, built!.worker]) {
-      const out = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, workerFile, threads: 2, minGroupsForWorkers: 2, cancel: { cancelled: true } });
+    for (const how of ways()) {
+      const out = await fitGroupsParallel(fx.plan, 'decay', { baseDir: fx.dir, ...how, threads: 2, minGroupsForWorkers: 2, cancel: { cancelled: true } });
       expect(out).toHaveLength(31);
       expect(out.every((f) => f.stop.code === 'cancelled')).toBe(true);
     }

@@ -10,6 +10,8 @@ function show(e: Expr): string {
     case 'number': return String(e.value);
     case 'column': return `col:${e.name}`;
     case 'param': return `par:${e.name}`;
+    case 'result': return `${e.of === 'estimate' ? 'est' : 'stat'}:${e.fit}.${e.name}`;
+    case 'derived': return `der:${e.name}`;
     case 'negate': return `(-${show(e.arg)})`;
     case 'not': return `(not ${show(e.arg)})`;
     case 'call': return `${e.fn}(${e.args.map(show).join(', ')})`;

@@ -212,6 +212,51 @@ describe('parser/check diagnostics', () => {
     expect(analyze(spec({ items: '  method gradient_descent\n  rate 0.1' })).diagnostics).toEqual([]);
   });
 
+  it('reference-not-allowed: FIT.NAME outside derive', () => {
+    expectAt(spec({ model: 'y = a * «f.a»' }), 'reference-not-allowed');
+    expectAt('data d = "a.csv" where «g.r2» > 0', 'reference-not-allowed');
+    expectAt(spec({ items: '  weight 1 / «f.rmse»' }), 'reference-not-allowed');
+  });
+
+  it('column-in-derive: a plain (headers known) or quoted column in a derive', () => {
+    expectAt(spec({ after: 'derive k = 2 * «x»' }), 'column-in-derive', HEADERS);
+    expectAt(spec({ after: 'derive k = f.a + «"temp (C)"»' }), 'column-in-derive');
+  });
+
+  it('derive: unknown or later fit, unknown parameter or statistic (did you mean)', () => {
+    expect(expectAt(spec({ after: 'derive k = «g».a' }), 'unknown-fit').suggestions).toEqual(['f']);
+    expectAt(spec({ after: 'derive k = «g».b\nfit g on d {\n  model y = b * x\n  param b\n}' }), 'declared-later');
+    expect(expectAt(spec({ after: 'derive k = 3 * f.«aa»' }), 'unknown-target').suggestions).toEqual(['a']);
+    expect(expectAt(spec({ after: 'derive k = f.«rmes» / f.a' }), 'unknown-target').suggestions).toContain('rmse');
+    expectAt(spec({ after: 'derive k = f.a.«se»' }), 'unknown-target');
+    expectAt(spec({ after: 'derive k = 2 * «f»' }), 'unknown-target');
+    expectAt(spec({ after: 'derive k = f.a\nderive m = «k».a' }), 'unknown-target');
+  });
+
+  it('derive: names that are not constants or derived quantities above', () => {
+    expect(expectAt(spec({ after: 'derive lod = f.a\nderive m = «lodd» * 2' }), 'undefined-name').suggestions).toEqual(['lod']);
+    expectAt(spec({ after: 'derive k = «k» + f.a' }), 'undefined-name');
+    expectAt(spec({ after: 'derive m = «k» * 2\nderive k = f.a' }), 'declared-later');
+    expectAt(spec({ after: 'derive m = «c» * f.a\nconst c = 2' }), 'declared-later');
+  });
+
+  it('derive: duplicate and reserved names', () => {
+    expectAt(spec({ after: 'derive k = f.a\nderive «k» = f.a' }), 'duplicate-name');
+    expectAt(spec({ after: 'derive «f» = f.a' }), 'duplicate-name');
+    expectAt(spec({ after: 'derive «d» = f.a' }), 'duplicate-name');
+    expectAt(spec({ before: 'const c = 1', after: 'derive «c» = f.a' }), 'duplicate-name');
+    expectAt(spec({ after: 'derive «c» = f.a\nconst c = 1' }), 'duplicate-name');
+    expectAt(spec({ after: 'derive «pi» = f.a' }), 'reserved-name');
+  });
+
+  it('expect on derived quantities', () => {
+    expect(expectAt(spec({ after: 'derive lod = f.a\nexpect «lodd» below 1' }), 'undefined-name').suggestions).toEqual(['lod']);
+    expectAt(spec({ after: 'expect «f» below 1' }), 'unknown-target');
+    expectAt(spec({ after: 'expect «k» below 1\nderive k = f.a' }), 'declared-later');
+    expect(expectAt(spec({ after: 'derive k = f.a\nexpect k.«sd» below 1' }), 'unknown-target').suggestions).toEqual(['se']);
+    expect(analyze(spec({ after: 'derive k = f.a\nexpect k below 1\nexpect k.se below 1' })).diagnostics).toEqual([]);
+  });
+
   it('every diagnostic code is exercised above', () => {
     expect([...seen].sort()).toEqual(Object.keys(CODES).sort());
   });

@@ -46,7 +46,7 @@ const VOCAB = [
   'method', 'loss', 'scale', 'level', 'iterations', 'tolerance', 'rate', 'per', 'predict', 'invert', 'at', 'compare', 'expect',
   '.', '..', 'within', 'above', 'below', 'and', 'or', 'not', 'inf', 'pi', 'e', 'x', 'y', 'a', 'f', 'd', '"q.csv"', '"t (C)"',
   '(', ')', '+', '-', '*', '/', '^', '<', '<=', '==', '!=', '>=', '1', '0', '2.5', '1e400', 'when', 'exp', 'ln', 'se', 'r2',
-  '\n', '# c\n', 'linear', 'huber',
+  '\n', '# c\n', 'linear', 'huber', 'derive', 'rmse', 'f.a', 'f.rmse',
 ];
 
 const mutation = fc.record({

@@ -8,6 +8,7 @@ function show(e: ExprAst): string {
   switch (e.kind) {
     case 'number': return String(e.value);
     case 'name': return e.quoted ? `"${e.name}"` : e.name;
+    case 'dotted': return [e.head, ...e.members].map((m) => m.name).join('.');
     case 'call': return `${e.fn}(${e.args.map(show).join(', ')})`;
     case 'unary': return `(${e.op}${show(e.arg)})`;
     case 'not': return `(not ${show(e.arg)})`;

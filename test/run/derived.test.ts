@@ -1,0 +1,310 @@
+/**
+ * Derived quantities end to end (spec → plan → run): values, delta-method
+ * standard errors and intervals, groups, failures, expectations, schema.
+ */
+import Ajv from 'ajv';
+import { describe, expect, it } from 'vitest';
+import { Matrix, inverse } from 'ml-matrix';
+import tQuantile from '@stdlib/stats-base-dists-t-quantile';
+import schema from '../../engine/result.schema.json';
+import { resultToJsonValue } from '../../engine/run/json';
+import { MAX_EXPANDED_NODES, runDerived } from '../../engine/run/derived';
+import type { DerivedResult, FitResult, RunResult } from '../../engine/result';
+import { normals, runSpec, tempDir, writeCsv } from './helpers';
+
+const dir = tempDir();
+
+// Calibration line (invented): y = 0.004 + 0.1·x + 0.003·ε at 12 standards.
+const xs = [0, 0.5, 1, 1.5, 2, 3, 4, 5, 6, 7, 8, 10];
+const e1 = normals(11, xs.length);
+writeCsv(dir, 'line.csv', ['x', 'y'], xs.map((x, i) => [x, 0.004 + 0.1 * x + 0.003 * e1[i]]));
+// A second, independent line (different data).
+const e2 = normals(12, xs.length);
+writeCsv(dir, 'line2.csv', ['x', 'y'], xs.map((x, i) => [x, 0.002 + 0.098 * x + 0.004 * e2[i]]));
+// Exponential decay on a baseline, in two batches with different time constants.
+const ts = Array.from({ length: 16 }, (_, i) => i * 2);
+const e3 = normals(13, 2 * ts.length);
+writeCsv(dir, 'decay.csv', ['t', 'temp', 'batch'], [
+  ...ts.map((t, i) => [t, 20 + 80 * Math.exp(-t / 9) + 0.3 * e3[i], 1]),
+  ...ts.map((t, i) => [t, 20 + 70 * Math.exp(-t / 12) + 0.3 * e3[ts.length + i], 2]),
+]);
+
+const LINE = `data d = "line.csv"
+fit cal on d {
+  model y = intercept + slope * x
+  param intercept
+  param slope
+}
+`;
+const DECAY = `data dec = "decay.csv" where batch == 1
+fit newton on dec {
+  model temp = base + amp * exp(-t / tau)
+  param base = 15
+  param amp = 60
+  param tau = 5
+}
+`;
+
+function one(result: RunResult, name: string): DerivedResult {
+  const rows = (result.derived ?? []).filter((d) => d.name === name);
+  expect(rows, name).toHaveLength(1);
+  return rows[0];
+}
+
+/** Ordinary least squares of y on [1, x] with ml-matrix (general-purpose library): slope, s, se(slope). */
+function olsLine(x: number[], y: number[]): { slope: number; s: number; seSlope: number } {
+  const X = new Matrix(x.map((v) => [1, v]));
+  const Y = Matrix.columnVector(y);
+  const XtXi = inverse(X.transpose().mmul(X));
+  const beta = XtXi.mmul(X.transpose()).mmul(Y);
+  const r = Y.sub(X.mmul(beta));
+  const s = Math.sqrt(r.transpose().mmul(r).get(0, 0) / (x.length - 2));
+  return { slope: beta.get(1, 0), s, seSlope: s * Math.sqrt(XtXi.get(1, 1)) };
+}
+
+describe('engine/run/derived', () => {
+  it('LOD and LOQ of a calibration line match a hand computation from s and the slope', async () => {
+    const { result } = await runSpec(LINE + 'derive lod = 3.3 * cal.rmse / cal.slope [mg/L]\nderive loq = 10 * cal.rmse / cal.slope [mg/L]', dir);
+    const ys = xs.map((x, i) => 0.004 + 0.1 * x + 0.003 * e1[i]);
+    const ols = olsLine(xs, ys);
+    const lod = one(result, 'lod');
+    const loq = one(result, 'loq');
+    // common practice (ICH Q2): LOD = 3.3·s/slope, LOQ = 10·s/slope; s and slope from ml-matrix OLS.
+    expect(lod.value!).toBeCloseTo(3.3 * ols.s / ols.slope, 12);
+    expect(loq.value!).toBeCloseTo(10 * ols.s / ols.slope, 12);
+    // Delta method with s fixed: se(LOD) = 3.3·s/slope² · se(slope).
+    expect(lod.stderr! / ((3.3 * ols.s / ols.slope ** 2) * ols.seSlope)).toBeCloseTo(1, 10);
+    // Student t interval with the fit's dof (library: @stdlib t quantile).
+    const t = tQuantile(0.975, xs.length - 2);
+    expect(lod.dof).toBe(xs.length - 2);
+    expect(lod.level).toBe(0.95);
+    expect(lod.lower!).toBeCloseTo(lod.value! - t * lod.stderr!, 12);
+    expect(lod.upper!).toBeCloseTo(lod.value! + t * lod.stderr!, 12);
+    expect(lod.unit).toBe('mg/L');
+    expect(lod.expression).toBe('3.3 * cal.rmse / cal.slope');
+    expect(lod.fits).toEqual(['cal']);
+    expect(lod.note).toMatch(/delta method/);
+    expect(lod.note).toMatch(/cal\.rmse taken as fixed/);
+  });
+
+  it('the delta-method standard error equals gᵀCg with a finite-difference gradient (ml-matrix)', async () => {
+    const { result } = await runSpec(DECAY + 'derive q = newton.amp * exp(-3 / newton.tau) / (1 + newton.base ^ 2 / 1000)', dir);
+    const fit = result.fits[0];
+    const est = fit.parameters.map((p) => p.estimate);
+    const f = ([base, amp, tau]: number[]) => amp * Math.exp(-3 / tau) / (1 + base ** 2 / 1000);
+    // Central differences, step h_j = 1e-6·|θ_j| (finite differences in tests only).
+    const g = est.map((v, j) => {
+      const h = 1e-6 * Math.abs(v);
+      const up = [...est];
+      const dn = [...est];
+      up[j] += h;
+      dn[j] -= h;
+      return (f(up) - f(dn)) / (2 * h);
+    });
+    const G = new Matrix([g]);
+    const variance = G.mmul(new Matrix(fit.covariance)).mmul(G.transpose()).get(0, 0);
+    const q = one(result, 'q');
+    expect(q.value!).toBeCloseTo(f(est), 12);
+    expect(q.stderr! / Math.sqrt(variance)).toBeCloseTo(1, 6);
+    // The covariance is not diagonal here, so ignoring it would give a different answer.
+    const diagonalOnly = Math.sqrt(g.reduce((s, gj, j) => s + gj * gj * fit.covariance[j][j], 0));
+    expect(Math.abs(diagonalOnly / q.stderr! - 1)).toBeGreaterThan(1e-3);
+  });
+
+  it('ln(2)·tau has standard error ln(2)·se(tau) and the fit\'s t interval', async () => {
+    const { result } = await runSpec(DECAY + 'derive half_life = ln(2) * newton.tau [min]', dir);
+    const tau = result.fits[0].parameters.find((p) => p.name === 'tau')!;
+    const h = one(result, 'half_life');
+    expect(h.value!).toBeCloseTo(Math.LN2 * tau.estimate, 12);
+    expect(h.stderr! / (Math.LN2 * tau.stderr!)).toBeCloseTo(1, 12);
+    // Same t quantile as the parameter interval: the interval scales by ln 2.
+    expect(h.lower! / (Math.LN2 * tau.lower!)).toBeCloseTo(1, 10);
+    expect(h.upper! / (Math.LN2 * tau.upper!)).toBeCloseTo(1, 10);
+  });
+
+  it('a chain of derived quantities propagates through the expanded expression', async () => {
+    const { result } = await runSpec(DECAY + 'derive a = ln(2) * newton.tau\nderive b = 2 * a + newton.base\nderive c = 2 * ln(2) * newton.tau + newton.base', dir);
+    const b = one(result, 'b');
+    const c = one(result, 'c');
+    expect(b.value!).toBeCloseTo(c.value!, 12);
+    expect(b.stderr! / c.stderr!).toBeCloseTo(1, 12);
+    expect(b.fits).toEqual(['newton']);
+  });
+
+  it('two fits: independent parameters, normal interval at their common level', async () => {
+    const spec = LINE + `data d2 = "line2.csv"
+fit cal2 on d2 {
+  model y = intercept + slope * x
+  param intercept
+  param slope
+}
+derive diff = cal2.slope - cal.slope`;
+    const { result } = await runSpec(spec, dir);
+    const se = (fit: string) => result.fits.find((f) => f.name === fit)!.parameters[1].stderr!;
+    const d = one(result, 'diff');
+    expect(d.stderr! / Math.hypot(se('cal'), se('cal2'))).toBeCloseTo(1, 12);
+    expect(d.dof).toBeNull();
+    expect(d.level).toBe(0.95);
+    // z_0.975 = 1.959963984540054 (from memory; standard normal 97.5 % quantile).
+    expect((d.upper! - d.value!) / d.stderr!).toBeCloseTo(1.959963984540054, 9);
+    expect(d.note).toMatch(/independent/);
+    expect(d.note).toMatch(/normal interval/);
+  });
+
+  it('per-group fits give one value per group; a fit without groups is shared', async () => {
+    const spec = `data dec = "decay.csv"
+fit newton on dec {
+  model temp = base + amp * exp(-t / tau)
+  param base = 15
+  param amp = 60
+  param tau = 5
+  per batch
+}
+${LINE}derive half_life = ln(2) * newton.tau [min]
+derive mixed = newton.tau * cal.slope
+expect half_life within 5 .. 7`;
+    const { result } = await runSpec(spec, dir);
+    const rows = (result.derived ?? []).filter((d) => d.name === 'half_life');
+    expect(rows.map((r) => r.group)).toEqual(['1', '2']);
+    for (const r of rows) {
+      const tau = result.fits.find((f) => f.name === 'newton' && f.group === r.group)!.parameters.find((p) => p.name === 'tau')!;
+      expect(r.value!).toBeCloseTo(Math.LN2 * tau.estimate, 12);
+      expect(r.stderr! / (Math.LN2 * tau.stderr!)).toBeCloseTo(1, 12);
+    }
+    expect((result.derived ?? []).filter((d) => d.name === 'mixed').map((r) => r.group)).toEqual(['1', '2']);
+    // Batch 1 (tau 9, half-life ≈ 6.2) passes, batch 2 (tau 12, ≈ 8.3) does not.
+    const checks = result.expectations.map((e) => [e.group, e.passed]);
+    expect(checks).toEqual([['1', true], ['2', false]]);
+  });
+
+  it('expectations read the value or its standard error, and fail with the reason', async () => {
+    const spec = LINE + `derive lod = 3.3 * cal.rmse / cal.slope
+derive nope = 1 / (cal.slope - cal.slope)
+expect lod below 1
+expect lod above 1
+expect lod.se below 1e-9
+expect lod.se above 0
+expect nope below 1`;
+    const { result } = await runSpec(spec, dir);
+    expect(result.expectations.map((e) => e.passed)).toEqual([true, false, false, true, false]);
+    const lod = one(result, 'lod');
+    expect(result.expectations[0].actual).toBe(lod.value);
+    expect(result.expectations[2].actual).toBe(lod.stderr);
+    expect(result.expectations[1].message).toMatch(/^lod = [\d.]+ is not above 1$/);
+    expect(result.expectations[4].actual).toBeNull();
+    expect(result.expectations[4].message).toMatch(/nope could not be computed \(the value is not a finite number/);
+  });
+
+  it('reports why a number is missing: no free parameter, statistics only, failed or missing fit', async () => {
+    const spec = `data d = "line.csv"
+data gone = "missing.csv"
+fit fixed_line on d {
+  model y = intercept + slope * x
+  param intercept
+  param slope = 0.1 fixed
+}
+fit lost on gone {
+  model y = a * x
+  param a
+}
+derive only_fixed = 2 * fixed_line.slope
+derive only_stats = fixed_line.rmse * fixed_line.n
+derive from_lost = lost.a
+derive uses_both = fixed_line.intercept + lost.a`;
+    const { result } = await runSpec(spec, dir, { headers: false });
+    const fx = one(result, 'only_fixed');
+    expect(fx.value).toBeCloseTo(0.2, 15);
+    expect([fx.stderr, fx.lower, fx.upper, fx.level]).toEqual([null, null, null, null]);
+    expect(fx.note).toMatch(/no free parameter/);
+    const st = one(result, 'only_stats');
+    expect(st.value!).toBeCloseTo(result.fits[0].goodness.rmse * xs.length, 12);
+    expect(st.stderr).toBeNull();
+    expect(st.note).toMatch(/fixed_line\.rmse, fixed_line\.n taken as fixed/);
+    for (const name of ['from_lost', 'uses_both']) {
+      const d = one(result, name);
+      expect(d.value).toBeNull();
+      expect(d.note).toBe('fit lost has no result.');
+    }
+  });
+
+  it('a failed fit and a fit without the parameter give no value (direct call)', () => {
+    const fit = (stop: FitResult['stop']): FitResult => ({
+      name: 'f', stop, level: 0.95, goodness: { dof: 3 }, covariance: [[1]], iterations: 0,
+      parameters: [{ name: 'a', estimate: 2, stderr: 1, fixed: false }],
+    }) as unknown as FitResult;
+    const plan = [{ name: 'q', expr: { kind: 'result' as const, fit: 'f', of: 'estimate' as const, name: 'a' }, text: 'f.a', fits: ['f'], range: undefined as never }];
+    const failed = runDerived(plan, new Map([['f', [fit({ code: 'failed', message: 'n < p', converged: false })]]]));
+    expect(failed[0]).toMatchObject({ value: null, note: 'fit f failed (n < p).' });
+    const ok = runDerived(plan, new Map([['f', [fit({ code: 'small_reduction', message: '', converged: true })]]]));
+    expect(ok[0]).toMatchObject({ value: 2, stderr: 1 });
+    const stalled = runDerived(plan, new Map([['f', [fit({ code: 'max_iterations', message: '', converged: false })]]]));
+    expect(stalled[0].note).toMatch(/did not converge/);
+    const other = [{ ...plan[0], expr: { ...plan[0].expr, name: 'b' } }];
+    expect(runDerived(other, new Map([['f', [fit({ code: 'exact', message: '', converged: true })]]]))[0].note).toBe('fit f has no parameter b.');
+  });
+
+  it('a covariance entry that is not finite gives no standard error', () => {
+    const fit = { name: 'f', stop: { code: 'exact', message: '', converged: true }, level: 0.95, goodness: { dof: 3 }, iterations: 0,
+      covariance: [[NaN, 0], [0, 4]], parameters: [{ name: 'a', estimate: 2, fixed: false }, { name: 'b', estimate: 3, fixed: false }] } as unknown as FitResult;
+    const mk = (text: string, expr: DerivedPlanExpr) => ({ name: text, expr, text, fits: ['f'], range: undefined as never });
+    const ref = (name: string) => ({ kind: 'result' as const, fit: 'f', of: 'estimate' as const, name });
+    const [onlyB, withA] = runDerived([mk('b2', { kind: 'binary', op: '*', left: { kind: 'number', value: 2 }, right: ref('b') }), mk('ab', { kind: 'binary', op: '*', left: ref('a'), right: ref('b') })], new Map([['f', [fit]]]));
+    expect(onlyB.stderr).toBeCloseTo(4, 15); // 2·√4; the NaN variance of a is not read (zero derivative)
+    expect(withA.stderr).toBeNull();
+    expect(withA.note).toMatch(/covariance of f is not available/);
+  });
+
+  it('refuses an expansion beyond MAX_EXPANDED_NODES instead of hanging, and says so downstream', () => {
+    const fit = { name: 'f', stop: { code: 'exact', message: '', converged: true }, level: 0.95, goodness: { dof: 3 }, iterations: 0,
+      covariance: [[1]], parameters: [{ name: 'a', estimate: 1, fixed: false }] } as unknown as FitResult;
+    // d0 = f.a, dk = d(k-1) * d(k-1): 2^(k+1) − 1 nodes after expansion.
+    const plans = Array.from({ length: 20 }, (_, k) => ({
+      name: `d${k}`,
+      expr: (k === 0
+        ? { kind: 'result', fit: 'f', of: 'estimate', name: 'a' }
+        : { kind: 'binary', op: '*', left: { kind: 'derived', name: `d${k - 1}` }, right: { kind: 'derived', name: `d${k - 1}` } }) as DerivedPlanExpr,
+      text: '', fits: ['f'], range: undefined as never,
+    }));
+    const out = runDerived(plans, new Map([['f', [fit]]]));
+    const firstTooBig = plans.findIndex((_, k) => 2 ** (k + 1) - 1 > MAX_EXPANDED_NODES);
+    expect(out[firstTooBig - 1].value).toBe(1);
+    expect(out[firstTooBig - 1].stderr).toBeCloseTo(2 ** (firstTooBig - 1), 6); // d(k) = a^(2^k): derivative 2^k at a = 1
+    expect(out[firstTooBig].value).toBeNull();
+    expect(out[firstTooBig].note).toMatch(new RegExp(`more than ${MAX_EXPANDED_NODES} terms`));
+    expect(out[firstTooBig + 1].note).toBe(`it reads d${firstTooBig}, which could not be evaluated.`);
+  });
+
+  it('skips derived quantities (and their expectations) of fits not run', async () => {
+    const spec = LINE + DECAY.replace('data dec', 'data dec2').replace('on dec', 'on dec2') + 'derive a = cal.slope\nderive b = newton.tau\nexpect a above 0\nexpect b above 0';
+    const { result } = await runSpec(spec, dir, { fits: ['newton'] });
+    expect((result.derived ?? []).map((d) => d.name)).toEqual(['b']);
+    expect(result.expectations.map((e) => e.expectation.text)).toEqual(['b above 0']);
+  });
+
+  it('results with derived quantities (groups, missing values) validate against the schema', async () => {
+    const spec = `data dec = "decay.csv"
+fit newton on dec {
+  model temp = base + amp * exp(-t / tau)
+  param base = 15
+  param amp = 60
+  param tau = 5
+  per batch
+}
+${LINE}derive half_life = ln(2) * newton.tau [min]
+derive nope = ln(-cal.slope)
+derive s = cal.rmse
+expect half_life.se below 1
+expect nope above 0`;
+    const { result } = await runSpec(spec, dir);
+    expect(result.derived?.length).toBe(4);
+    const validate = new Ajv().compile(schema);
+    const ok = validate(resultToJsonValue(result));
+    expect(validate.errors ?? []).toEqual([]);
+    expect(ok).toBe(true);
+    const broken = resultToJsonValue<{ derived: { value: unknown }[] }>(result);
+    broken.derived[0].value = 'six';
+    expect(validate(broken)).toBe(false);
+  });
+});
+
+type DerivedPlanExpr = Parameters<typeof runDerived>[0][number]['expr'];
