@@ -1,22 +1,28 @@
 /**
- * `leastwise fit FILE.lsq [--fit NAME] [--json PATH|-] [--report PATH.md] [--charts DIR] [--quiet]`
+ * `leastwise fit FILE.lsq [--fit NAME] [--json PATH|-] [--report PATH.md] [--charts DIR] [--groups PATH.csv] [--threads N] [--quiet]`
  *
  * Checks the spec (data-aware), runs it, prints the summary (or only JSON with
  * `--json -`), writes the requested files and maps the outcome to an exit
  * code: 2 spec/data error > 3 no convergence > 1 failed expectation > 0.
+ * A group of a per-group fit that failed or did not converge counts as a fit
+ * that did not converge (3); the other groups are still fitted and reported.
+ * Group flags that are not failures (few degrees of freedom, at a bound, poor
+ * fit) do not change the exit code.
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { readHeaderFile } from '../data/index';
 import { resultToJson, runPlan } from '../index';
 import type { RunResult } from '../result';
+import type { RunMode } from '../parallel/fit-groups';
 import { runText } from '../views/text';
 import { fitLabel } from '../views/summary';
+import { fitSections, shownFitIndices } from '../views/groups';
 import { parseCommandArgs } from './args';
 import { EXIT, type CliIo, type ExitCode } from './io';
 import { displayPath, plainError, runErrorLine } from './locate';
 import { HELP, MSG } from './messages';
-import { inputPaths, reportChartDir, writeCharts, writeReport, type WrittenChart } from './outputs';
+import { groupTablePaths, inputPaths, reportChartDir, writeCharts, writeGroupTables, writeReport, type WrittenChart } from './outputs';
 import { progressLine } from './progress';
 import { checkSpec, diagnosticText, readSpec, type CheckedSpec } from './spec';
 
@@ -26,6 +32,8 @@ interface FitValues {
   report?: string;
   charts?: string;
   quiet?: boolean;
+  threads?: string;
+  groups?: string;
 }
 
 /** The exit code a finished run deserves. */
@@ -58,6 +66,8 @@ export async function fitCommand(argv: string[], io: CliIo): Promise<ExitCode> {
     report: { type: 'string' },
     charts: { type: 'string' },
     quiet: { type: 'boolean' },
+    threads: { type: 'string' },
+    groups: { type: 'string' },
   });
   const fail = (line: string): ExitCode => {
     io.stderr(line + '\n');
@@ -77,10 +87,17 @@ export async function fitCommand(argv: string[], io: CliIo): Promise<ExitCode> {
   io.stderr(diagnosticText(spec));
   if (spec.errors > 0) return fail(plainError(MSG.specHasErrors(spec.errors)));
 
+  const threads = opts.threads === undefined ? undefined : Number(opts.threads);
+  if (threads !== undefined && !(Number.isInteger(threads) && threads >= 1)) return fail(plainError(MSG.badThreads(opts.threads ?? '')));
+
   const known = spec.plan.fits.map((f) => f.name);
   for (const name of opts.fit ?? []) if (!known.includes(name)) return fail(plainError(MSG.unknownFit(name, known)));
+  const grouped = spec.plan.fits.filter((f) => f.groupBy !== undefined && (!opts.fit?.length || opts.fit.includes(f.name))).map((f) => f.name);
+  if (opts.groups !== undefined && grouped.length === 0) return fail(plainError(MSG.noGroupedFit()));
+  const groupPaths = opts.groups !== undefined ? groupTablePaths(grouped, resolve(io.cwd, opts.groups)) : new Map<string, string>();
 
   const progress = progressLine(io);
+  const modes: string[] = [];
   let result: RunResult;
   try {
     result = await runPlan(spec.plan, {
@@ -88,15 +105,19 @@ export async function fitCommand(argv: string[], io: CliIo): Promise<ExitCode> {
       specText: spec.text,
       specPath: spec.display,
       ...(opts.fit?.length ? { fits: opts.fit } : {}),
+      ...(threads !== undefined ? { threads } : {}),
+      // with --threads, say how the groups were fitted (on stderr, after the run)
+      ...(threads !== undefined && !opts.quiet ? { onGroupMode: (fit: string, mode: RunMode) => modes.push(MSG.groupMode(fit, mode)) } : {}),
       onProgress: (p) => progress.update(MSG.progress(p.group !== undefined ? `${p.fit} [${p.group}]` : p.fit, p.done, p.total)),
     });
   } finally {
     progress.done();
   }
+  for (const m of modes) io.stderr(m + '\n');
 
   // Refuse to write over inputs before writing anything.
   const inputs = inputPaths(result, spec.path);
-  const targets = [opts.json && opts.json !== '-' ? resolve(io.cwd, opts.json) : null, opts.report ? resolve(io.cwd, opts.report) : null].filter((p): p is string => p !== null);
+  const targets = [opts.json && opts.json !== '-' ? resolve(io.cwd, opts.json) : null, opts.report ? resolve(io.cwd, opts.report) : null, ...groupPaths.values()].filter((p): p is string => p !== null);
   for (const t of targets) if (inputs.has(t)) return fail(plainError(MSG.wouldOverwriteInput(displayPath(t, io.cwd))));
 
   const jsonOnly = opts.json === '-';
@@ -120,12 +141,16 @@ export async function fitCommand(argv: string[], io: CliIo): Promise<ExitCode> {
     if (opts.report !== undefined) {
       const path = resolve(io.cwd, opts.report);
       if (opts.charts === undefined) {
+        // only the fits the report shows in full (for a per-group fit with many groups: its flagged groups)
         const dir = reportChartDir(path);
-        charts = await writeCharts(result, dir);
+        charts = await writeCharts(result, dir, new Set(shownFitIndices(fitSections(result))));
         if (!opts.quiet) io.stderr(MSG.wrote(`${charts.length} charts`, displayPath(dir, io.cwd)) + '\n');
       }
       writeReport(result, path, charts, spec.text);
       if (!opts.quiet) io.stderr(MSG.wrote('report', displayPath(path, io.cwd)) + '\n');
+    }
+    if (opts.groups !== undefined) {
+      for (const written of writeGroupTables(result, groupPaths)) if (!opts.quiet) io.stderr(MSG.wrote('group table', displayPath(written, io.cwd)) + '\n');
     }
   } catch (e) {
     const err = e as NodeJS.ErrnoException;

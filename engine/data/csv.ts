@@ -4,49 +4,17 @@
  * leading UTF-8 byte-order mark, a header record, delimiter detection and an
  * optional decimal comma. Pure: no file access, so the editor can reuse it.
  *
- * Tokenising is done by papaparse in step mode, one record at a time, so
- * only typed column arrays are kept, never an object per row.
+ * Plain files (no quotes, consistent LF or CRLF, decimal point) are read by
+ * the scanner in `csv-scan.ts`; everything else, and every file the scanner
+ * declines, is tokenised by papaparse in step mode, one record at a time, so
+ * only typed column arrays are kept, never an object per row. Both paths give
+ * identical tables (differential property test in test/data/csv-scan.test.ts).
  */
 import Papa from 'papaparse';
-import { isMissingCell, parseNumberCell } from './cells';
+import { ColumnBuilder } from './column-builder';
+import { scanPlainCsv } from './csv-scan';
 import { delimiterName, detectDelimiter } from './delimiter';
-import type { CsvOptions, CsvResult, DataColumn, DataError, DataTable } from './types';
-
-/** Growable Float64Array plus optional text, for one column. */
-class ColumnBuilder {
-  values = new Float64Array(256);
-  text: string[] | null = null;
-  nonNumeric = 0;
-  length = 0;
-
-  constructor(readonly name: string) {}
-
-  push(cell: string, decimal: '.' | ','): void {
-    if (this.length === this.values.length) {
-      const grown = new Float64Array(this.values.length * 2);
-      grown.set(this.values);
-      this.values = grown;
-    }
-    const x = parseNumberCell(cell, decimal);
-    this.values[this.length] = x;
-    if (Number.isNaN(x) && !isMissingCell(cell)) {
-      this.nonNumeric++;
-      if (this.text === null) {
-        this.text = [];
-        for (let i = 0; i < this.length; i++) {
-          const v = this.values[i];
-          this.text.push(Number.isNaN(v) ? '' : String(v));
-        }
-      }
-    }
-    if (this.text !== null) this.text.push(cell.trim());
-    this.length++;
-  }
-
-  finish(): DataColumn {
-    return { name: this.name, values: this.values.slice(0, this.length), text: this.text, nonNumeric: this.nonNumeric };
-  }
-}
+import type { CsvOptions, CsvResult, DataError, DataTable, DecimalMark, Delimiter } from './types';
 
 /** Counts line breaks up to an offset, incrementally (offsets only grow). */
 class LineCounter {
@@ -87,6 +55,15 @@ export function parseCsvText(text: string, options: CsvOptions = {}): CsvResult 
   if (body.trim() === '') return fail({ code: 'empty_file', file, message: `${file} is empty: expected a header line naming the columns` });
   const delimiter = options.delimiter ?? detectDelimiter(body, decimal);
 
+  if (decimal === '.' && options.tokenizer !== 'papaparse') {
+    const scanned = scanPlainCsv(body, delimiter);
+    if (scanned !== null) return { ok: true, table: { headers: scanned.headers, delimiter, decimal, columns: scanned.columns, lines: scanned.lines, rowCount: scanned.rowCount } };
+  }
+  return parseWithPapa(body, delimiter, decimal, file, maxErrors);
+}
+
+/** The general path: papaparse in step mode, any RFC 4180 input. */
+function parseWithPapa(body: string, delimiter: Delimiter, decimal: DecimalMark, file: string, maxErrors: number): CsvResult {
   const errors: DataError[] = [];
   const lines: number[] = [];
   const counter = new LineCounter(body);

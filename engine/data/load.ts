@@ -45,7 +45,7 @@ export function loadDataFile(
     return { ok: false, errors: [{ code: 'file_unreadable', file, message: `cannot read data file ${file}: ${reason}` }] };
   }
   const text = typeof content === 'string' ? content : content.toString('utf8');
-  const parsed = parseCsvText(text, { delimiter: options.delimiter, decimal: options.decimal, maxErrors: options.maxErrors, file });
+  const parsed = parseCsvText(text, { delimiter: options.delimiter, decimal: options.decimal, maxErrors: options.maxErrors, tokenizer: options.tokenizer, file });
   if (!parsed.ok) return parsed;
   return {
     ok: true,

@@ -24,6 +24,18 @@ export interface CsvOptions {
   file?: string;
   /** Stop collecting cell errors after this many. Default 20. */
   maxErrors?: number;
+  /**
+   * Which reader tokenises the text. Default `'auto'`: the plain-file scanner
+   * (`csv-scan.ts`) when it accepts the file, else papaparse. `'papaparse'`
+   * always uses papaparse (the reference path, for tests and benchmarks).
+   */
+  tokenizer?: CsvTokenizer;
+}
+
+export type CsvTokenizer = 'auto' | 'papaparse';
+
+export function isCsvTokenizer(value: unknown): value is CsvTokenizer {
+  return value === 'auto' || value === 'papaparse';
 }
 
 export interface DataColumn {

@@ -7,6 +7,11 @@
  * - `not_converged`: the solver stopped without meeting a convergence test
  *   (`stop.converged` false: iteration or evaluation limit, non-finite values,
  *   cancellation).
+ * - `no_dof`: no degrees of freedom left, ν = n − p ≤ 0 (as many rows as free
+ *   parameters, or fewer left after the fit): the curve can pass through every
+ *   point, so there is no standard error, no interval and no test of fit.
+ * - `few_dof`: 0 < ν < `minDof` (default 3, the engine's `few_dof` warning
+ *   threshold, WARNING_THRESHOLDS.minDof): intervals are wide and tests weak.
  * - `at_bound`: at least one parameter estimate sits on a bound.
  * - `poor_fit`:
  *   - with absolute σ (`sigma` given): the χ² statistic is implausible for its
@@ -19,10 +24,11 @@
  *   - skipped (not flagged) when ν ≤ 0 or the statistic is not finite.
  */
 import chisquareCdf from '@stdlib/stats-base-dists-chisquare-cdf';
+import { WARNING_THRESHOLDS } from '../messages';
 import type { FitResult } from '../result';
 
-export type GroupFlag = 'failed' | 'not_converged' | 'at_bound' | 'poor_fit';
-export const GROUP_FLAGS: readonly GroupFlag[] = ['failed', 'not_converged', 'at_bound', 'poor_fit'];
+export type GroupFlag = 'failed' | 'not_converged' | 'no_dof' | 'few_dof' | 'at_bound' | 'poor_fit';
+export const GROUP_FLAGS: readonly GroupFlag[] = ['failed', 'not_converged', 'no_dof', 'few_dof', 'at_bound', 'poor_fit'];
 
 export function isGroupFlag(value: unknown): value is GroupFlag {
   return typeof value === 'string' && (GROUP_FLAGS as readonly string[]).includes(value);
@@ -33,6 +39,8 @@ export interface FlagOptions {
   minR2?: number;
   /** Per-tail probability of the two-sided χ² test with absolute σ. Default 0.001. */
   chi2TailProbability?: number;
+  /** `few_dof` when 0 < ν < minDof. Default WARNING_THRESHOLDS.minDof (3). */
+  minDof?: number;
 }
 
 export const DEFAULT_MIN_R2 = 0.9;
@@ -43,6 +51,9 @@ export function flagsOf(fit: FitResult, options: FlagOptions = {}): GroupFlag[] 
   if (fit.stop.code === 'failed') return ['failed'];
   const flags: GroupFlag[] = [];
   if (!fit.stop.converged) flags.push('not_converged');
+  const dof = fit.goodness.dof;
+  if (!(dof > 0)) flags.push('no_dof');
+  else if (dof < (options.minDof ?? WARNING_THRESHOLDS.minDof)) flags.push('few_dof');
   if (fit.parameters.some((p) => p.atBound !== null)) flags.push('at_bound');
   if (isPoorFit(fit, options)) flags.push('poor_fit');
   return flags;

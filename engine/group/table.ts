@@ -49,8 +49,13 @@ export interface GroupSummary {
   converged: number;
   failed: number;
   notConverged: number;
+  /** Groups without degrees of freedom (`no_dof`) and with few (`few_dof`). */
+  noDof: number;
+  fewDof: number;
   atBound: number;
   poorFit: number;
+  /** Groups with at least one flag (failed ones included). */
+  flagged: number;
   parameters: ParameterSummary[];
   /** Spread of R² over converged groups. */
   r2: Spread;
@@ -133,18 +138,22 @@ function summarize(rows: readonly GroupRow[], parameters: readonly string[]): Gr
     converged: ok.length,
     failed: count('failed'),
     notConverged: count('not_converged'),
+    noDof: count('no_dof'),
+    fewDof: count('few_dof'),
     atBound: count('at_bound'),
     poorFit: count('poor_fit'),
+    flagged: rows.filter((r) => r.flags.length > 0).length,
     parameters: parameters.map((name, j) => ({ name, ...spreadOf(ok.map((r) => r.estimates[j] ?? NaN)) })),
     r2: spreadOf(ok.map((r) => r.r2 ?? NaN)),
   };
 }
 
-const TIER: Record<GroupFlag | 'none', number> = { failed: 0, not_converged: 1, poor_fit: 2, at_bound: 3, none: 4 };
+const TIER: Record<GroupFlag | 'none', number> = { failed: 0, not_converged: 1, no_dof: 2, poor_fit: 3, few_dof: 4, at_bound: 5, none: 6 };
 
 /**
- * The k worst rows, worst first: failed, then not converged, then poor fit,
- * then at a bound, then unflagged; within a tier the larger misfit first
+ * The k worst rows, worst first: failed, then not converged, then without
+ * degrees of freedom, then poor fit, then few degrees of freedom, then at a
+ * bound, then unflagged; within a tier the larger misfit first
  * (|ln χ²/ν| with absolute σ, else 1 − R²; unknown misfit last), ties in table order.
  */
 export function worstGroups(table: GroupTable, k: number): GroupRow[] {

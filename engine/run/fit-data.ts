@@ -159,12 +159,18 @@ export function sortGroupLabels(labels: Iterable<string>): string[] {
 }
 
 function splitGroups(base: FitData, labels: string[], droppedLabels: string[]): FitData[] {
-  const withoutGroup = droppedLabels.filter((l) => l === '').length;
-  return sortGroupLabels(labels).map((group) => {
-    const idx: number[] = [];
-    labels.forEach((l, i) => {
-      if (l === group) idx.push(i);
-    });
+  // One pass buckets row indices by label (O(rows)), instead of one scan of all rows per group.
+  const rowsOf = new Map<string, number[]>();
+  labels.forEach((l, i) => {
+    const bucket = rowsOf.get(l);
+    if (bucket) bucket.push(i);
+    else rowsOf.set(l, [i]);
+  });
+  const droppedOf = new Map<string, number>();
+  for (const l of droppedLabels) droppedOf.set(l, (droppedOf.get(l) ?? 0) + 1);
+  const withoutGroup = droppedOf.get('') ?? 0;
+  return sortGroupLabels(rowsOf.keys()).map((group) => {
+    const idx = rowsOf.get(group)!;
     const pick = (a: Float64Array) => Float64Array.from(idx, (i) => a[i]);
     return {
       ...base,
@@ -175,7 +181,7 @@ function splitGroups(base: FitData, labels: string[], droppedLabels: string[]): 
       y: pick(base.y),
       weights: base.weights ? pick(base.weights) : null,
       x: base.x ? pick(base.x) : null,
-      rowsDropped: droppedLabels.filter((l) => l === group).length,
+      rowsDropped: droppedOf.get(group) ?? 0,
       rowsWithoutGroup: withoutGroup,
     };
   });

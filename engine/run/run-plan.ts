@@ -9,6 +9,14 @@
  * once per iteration) and receive `onProgress` events. `runPlanSync` does the
  * same work without yielding. Both produce the same result for the same input
  * (apart from timings and `startedAt`).
+ *
+ * Per-group fits: `runPlan` may fit the groups of a `per COLUMN` fit on
+ * worker threads (engine/parallel `fitGroupData`) when there are enough of
+ * them to be worth it - the policy and its thresholds are in
+ * group-threads.ts; `threads: 1` keeps every group in this thread. Either
+ * way the results come in group order (the order of `prepareFitData`), a
+ * failing group never stops the others, and estimates are bit-identical;
+ * `runPlanSync` always fits in this thread.
  */
 import { createHash } from 'node:crypto';
 import type { FitPlan, Plan } from '../../parser/plan';
@@ -21,7 +29,10 @@ import { loadSources } from './datasets';
 import { runDerived } from './derived';
 import { checkExpectations, expectationApplies } from './expectations';
 import { runFit } from './fit';
-import { prepareFitData } from './fit-data';
+import { prepareFitData, type FitData } from './fit-data';
+import { groupThreads } from './group-threads';
+import { defaultWorkerFile, fitGroupData, type RunMode } from '../parallel/fit-groups';
+import { CANCELLED_STOP } from '../parallel/group-job';
 import { runQueries } from './queries';
 import type { Solvers } from './solvers';
 import { TOOL_NAME, TOOL_VERSION } from './version';
@@ -48,11 +59,34 @@ export interface RunOptions {
   onProgress?: (progress: RunProgress) => void;
   /** Clock for `startedAt` (default `new Date()`). */
   now?: () => Date;
-  /** Solver implementations (default engine/solve). */
+  /** Solver implementations (default engine/solve). Runs with injected solvers fit every group in this thread. */
   solvers?: Solvers;
+  /**
+   * Threads for the groups of a `per COLUMN` fit (`runPlan` only). Default:
+   * automatic (all cores, only for jobs worth it; see group-threads.ts);
+   * 1 fits every group in this thread; N ≥ 2 uses N threads whenever a fit
+   * has two or more groups.
+   */
+  threads?: number;
+  /**
+   * The engine worker bundle for group fits. Default: `worker.js` beside the
+   * running bundle (dist/worker.js); null never starts worker threads.
+   */
+  workerFile?: string | null;
+  /** Told how the groups of each per-group fit are fitted (`runPlan` only): on worker threads, or in this thread and why. */
+  onGroupMode?: (fit: string, mode: RunMode) => void;
 }
 
-function* steps(plan: Plan, opts: RunOptions): Generator<void, RunResult> {
+/** Asks the driver of `steps` to fit a fit's groups; it answers with their results, or undefined to let `steps` fit them in order. */
+interface GroupBatch {
+  fit: FitPlan;
+  groups: FitData[];
+  /** Fit runs finished before this batch, and the total known so far (for progress). */
+  done: number;
+  total: number;
+}
+
+function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined, RunResult, FitResult[] | undefined> {
   const startedAt = (opts.now ?? (() => new Date()))().toISOString();
   const errors: RunError[] = [];
   const wanted = opts.fits ? new Set(opts.fits) : null;
@@ -93,6 +127,18 @@ function* steps(plan: Plan, opts: RunOptions): Generator<void, RunResult> {
       continue;
     }
     total += prepared.data.length - 1;
+    if (fit.groupBy !== undefined && prepared.data.length > 1) {
+      const fitted = yield { fit, groups: prepared.data, done, total };
+      if (fitted) {
+        done += prepared.data.length;
+        // Groups the cancellation caught before they started are left out, as in the loop below.
+        const started = fitted.filter((r) => !isUnstarted(r));
+        results.get(fit.name)!.push(...started);
+        const missed = fitted.find(isUnstarted);
+        if (missed) errors.push({ code: 'cancelled', message: `run cancelled before fit ${fit.name} [${missed.group ?? ''}]`, range: fit.range, fit: fit.name });
+        continue;
+      }
+    }
     for (const data of prepared.data) {
       if (opts.cancel?.cancelled) {
         errors.push({ code: 'cancelled', message: `run cancelled before fit ${fit.name}${data.group !== undefined ? ` [${data.group}]` : ''}`, range: fit.range, fit: fit.name });
@@ -129,21 +175,52 @@ function* steps(plan: Plan, opts: RunOptions): Generator<void, RunResult> {
   };
 }
 
-/** Runs the plan to completion without yielding. */
+/** A group result standing for a group the cancellation caught before it started (engine/parallel `unfittedGroup`). */
+function isUnstarted(r: FitResult): boolean {
+  return r.stop.code === CANCELLED_STOP.code && r.stop.message === CANCELLED_STOP.message;
+}
+
+/** Runs the plan to completion without yielding (every group in this thread). */
 export function runPlanSync(plan: Plan, opts: RunOptions): RunResult {
   const it = steps(plan, opts);
   for (;;) {
-    const next = it.next();
+    const next = it.next(undefined);
     if (next.done) return next.value;
   }
+}
+
+/** Fits a batch of groups on worker threads when group-threads.ts says so; undefined leaves them to the sequential loop. */
+async function fitBatch(batch: GroupBatch, opts: RunOptions): Promise<FitResult[] | undefined> {
+  const rows = batch.groups.reduce((sum, g) => sum + g.n, 0);
+  const threads = groupThreads(batch.groups.length, rows, { threads: opts.threads, customSolvers: opts.solvers !== undefined });
+  const workerFile = opts.workerFile === undefined ? defaultWorkerFile() : opts.workerFile;
+  const why = threads < 2
+    ? (opts.solvers ? 'injected solvers' : opts.threads !== undefined ? 'one thread asked for' : `small job (${batch.groups.length} groups, ${rows} rows) or one core`)
+    : workerFile === null ? 'no worker bundle beside this program' : null;
+  if (why !== null) {
+    opts.onGroupMode?.(batch.fit.name, { kind: 'in_process', reason: why });
+    return undefined;
+  }
+  return fitGroupData(batch.fit, batch.groups, {
+    threads,
+    workerFile,
+    // the decision is taken above; fitGroupData still fits in this thread when workers cannot start
+    minGroupsForWorkers: 2,
+    ...(opts.cancel ? { cancel: opts.cancel } : {}),
+    onProgress: (d) => opts.onProgress?.({ fit: batch.fit.name, done: batch.done + d, total: batch.total }),
+    onMode: (mode) => opts.onGroupMode?.(batch.fit.name, mode),
+  });
 }
 
 /** Runs the plan, yielding to the event loop between fits (see module comment). */
 export async function runPlan(plan: Plan, opts: RunOptions): Promise<RunResult> {
   const it = steps(plan, opts);
+  let answer: FitResult[] | undefined;
   for (;;) {
-    const next = it.next();
+    const next = it.next(answer);
+    answer = undefined;
     if (next.done) return next.value;
-    await new Promise<void>((resolve) => setImmediate(resolve));
+    if (next.value) answer = await fitBatch(next.value, opts);
+    else await new Promise<void>((resolve) => setImmediate(resolve));
   }
 }

@@ -1,15 +1,21 @@
 /**
  * A Markdown report a colleague can review: summary, points to review, per-fit
  * tables and linked SVG charts, queries, derived quantities, expectations, errors and provenance,
- * and always a short "Use of results" caution.
+ * and always a short "Use of results" caution. A per-group fit gets its group
+ * table, the summary across groups and the worst groups; full per-fit sections
+ * follow only for some of its groups (rule in groups.ts).
  */
 import type { FitResult, RunResult } from '../result';
 import { formatLevel, formatNumber } from './format';
 import {
-  derivedBlock, derivedLabel, expectationLine, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL,
+  derivedBlock, derivedLabel, expectationRows, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL,
   PARAMETER_HEADERS, parameterRows, queryBlocks, stopLine, warningLines,
 } from './summary';
 import { markdownTable, mdCell } from './table';
+import {
+  DETAIL_ALL_GROUPS, detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock,
+  shownFitIndices, worstGroupLines, type FitSection,
+} from './groups';
 
 export interface ChartLink {
   title: string;
@@ -45,10 +51,17 @@ export const USE_OF_RESULTS =
   'legal decisions (clinical calibration, structural or pressure ratings, compliance), the results must be ' +
   'validated under the applicable procedures and local regulations and reviewed by qualified people before use.';
 
-/** Items a reviewer should look at first; empty when nothing stands out. */
+/** Items a reviewer should look at first; empty when nothing stands out. A per-group fit with many groups contributes its counts and its groups shown in full. */
 export function reviewPoints(result: RunResult): string[] {
   const out: string[] = [];
-  for (const fit of result.fits) {
+  const sections = fitSections(result);
+  for (const s of sections) {
+    if (s.kind === 'groups' && s.fits.length > DETAIL_ALL_GROUPS && s.table.summary.flagged > 0) {
+      out.push(`Fit ${s.name}: ${groupCountLine(s.table)} See its group table.`);
+    }
+  }
+  for (const i of shownFitIndices(sections)) {
+    const fit = result.fits[i];
     if (!fit.stop.converged) out.push(`Fit ${fitLabel(fit)} did not converge (${fit.stop.code}: ${fit.stop.message}); its numbers are not a solution.`);
     for (const w of warningLines(fit)) out.push(`Fit ${fitLabel(fit)}: ${w}`);
   }
@@ -56,6 +69,20 @@ export function reviewPoints(result: RunResult): string[] {
   for (const e of result.expectations) if (!e.passed) out.push(`Expectation failed: \`${e.expectation.text}\` (${e.message}).`);
   for (const err of result.errors) out.push(`Error: ${err.message}`);
   return out;
+}
+
+function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: number): string[] {
+  const t = section.table;
+  const lines = [`## ${groupHeading(section)}`, '', groupCountLine(t), ''];
+  const table = groupTableBlock(t);
+  lines.push(...markdownTable(table.headers, table.rows, table.align), '');
+  const summary = groupSummaryBlock(t);
+  lines.push('### Across converged groups', '', ...markdownTable(summary.headers, summary.rows, summary.align), '');
+  const worst = worstGroupLines(t);
+  if (worst.length) lines.push('### Worst groups', '', ...worst.map((w) => `- ${mdCell(w)}`), '');
+  const note = detailNote(section, shown);
+  if (note) lines.push(note, '');
+  return lines;
 }
 
 function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
@@ -75,7 +102,7 @@ function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
   return lines;
 }
 
-function provenanceSection(result: RunResult): string[] {
+function provenanceSection(result: RunResult, sections: readonly FitSection[]): string[] {
   const p = result.provenance;
   const lines = ['## Provenance', ''];
   const rows: string[][] = [
@@ -85,11 +112,13 @@ function provenanceSection(result: RunResult): string[] {
   if (p.specPath) rows.push(['spec', `\`${p.specPath}\``]);
   rows.push(['spec SHA-256', `\`${p.specSha256}\``]);
   for (const d of p.data) rows.push([`data \`${d.name}\``, `\`${d.path}\`, ${d.rows} rows, SHA-256 \`${d.sha256}\``]);
-  for (const fit of result.fits) {
+  // one row per fit; a per-group fit's groups share their options
+  const heads = sections.map((s) => (s.kind === 'single' ? { fit: s.fit, label: fitLabel(s.fit) } : { fit: s.fits[0], label: `${s.name} (every group)` }));
+  for (const { fit, label } of heads) {
     const o = fit.options;
     const limits = o ? [o.maxIterations !== undefined ? `iterations ${o.maxIterations}` : '', o.tolerance !== undefined ? `tolerance ${o.tolerance}` : '', o.loss !== 'squared' ? `loss scale ${o.lossScale}` : ''].filter(Boolean) : [];
     const extra = limits.length ? `, ${limits.join(', ')}` : '';
-    rows.push([`options of ${fitLabel(fit)}`, `${METHOD_LABEL[fit.method]}, ${LOSS_LABEL[fit.loss]}, level ${formatLevel(fit.level)}${extra}`]);
+    rows.push([`options of ${label}`, `${METHOD_LABEL[fit.method]}, ${LOSS_LABEL[fit.loss]}, level ${formatLevel(fit.level)}${extra}`]);
   }
   lines.push(...markdownTable(['item', 'value'], rows, ['left', 'left']), '');
   lines.push('Re-running the same spec on files with the same SHA-256 reproduces these results.', '');
@@ -106,9 +135,17 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
     lines.push('## About this spec', '', 'From the comment at the top of the spec:', '', '```text', ...opts.about.split('\n'), '```', '');
   }
 
+  const sections = fitSections(result);
   if (result.fits.length) {
     lines.push('## Summary', '');
-    const rows = result.fits.map((f) => [fitLabel(f), f.stop.converged ? 'yes' : '**no**', String(f.goodness.n), formatNumber(f.goodness.rmse, 4), formatNumber(f.goodness.r2, 5), String(warningLines(f).length)]);
+    const fitRow = (f: FitResult) => [fitLabel(f), f.stop.converged ? 'yes' : '**no**', String(f.goodness.n), formatNumber(f.goodness.rmse, 4), formatNumber(f.goodness.r2, 5), String(warningLines(f).length)];
+    const rows = sections.flatMap((s) => {
+      if (s.kind === 'single') return [fitRow(s.fit)];
+      if (s.fits.length <= DETAIL_ALL_GROUPS) return s.fits.map(fitRow);
+      const sum = s.table.summary;
+      const n = s.fits.reduce((k, f) => k + f.goodness.n, 0);
+      return [[`${s.name} (${sum.groups} groups)`, sum.converged === sum.groups ? 'yes' : `**${sum.converged} of ${sum.groups}**`, String(n), 'per group', `median ${formatNumber(sum.r2.median, 5)}`, `${sum.flagged} groups flagged`]];
+    });
     lines.push(...markdownTable(['fit', 'converged', 'n', 'RMSE', 'R²', 'warnings'], rows), '');
     lines.push(expectationTally(result), '');
   }
@@ -116,7 +153,15 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
   lines.push('## Points to review', '');
   lines.push(...(review.length ? review.map((r) => `- ${r}`) : ['Nothing stands out: every fit converged with no warnings and every expectation passed. Still look at the residual charts.']), '');
 
-  result.fits.forEach((fit, i) => lines.push(...fitSection(fit, opts.charts?.[i] ?? [])));
+  for (const s of sections) {
+    if (s.kind === 'single') {
+      lines.push(...fitSection(s.fit, opts.charts?.[s.index] ?? []));
+      continue;
+    }
+    const shown = detailIndices(s);
+    lines.push(...groupSection(s, shown.length));
+    for (const i of shown) lines.push(...fitSection(result.fits[i], opts.charts?.[i] ?? []));
+  }
 
   const blocks = queryBlocks(result);
   if (blocks.length) {
@@ -133,7 +178,7 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
   }
   if (result.expectations.length) {
     lines.push('## Expectations', '');
-    const rows = result.expectations.map(expectationLine).map((e) => [e.verdict === 'PASS' ? 'PASS' : '**FAIL**', `\`${e.text}\``, e.actual, e.message]);
+    const rows = expectationRows(result).map((e) => [e.verdict === 'PASS' ? 'PASS' : '**FAIL**', `\`${e.text}\``, e.actual, e.message]);
     lines.push(...markdownTable(['verdict', 'expectation', 'actual', 'detail'], rows, ['left', 'left', 'right', 'left']), '', expectationTally(result), '');
   }
   if (result.errors.length) {
@@ -144,6 +189,6 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
     }
     lines.push('');
   }
-  lines.push(...provenanceSection(result));
+  lines.push(...provenanceSection(result, sections));
   return lines.join('\n').replace(/\n{3,}/g, '\n\n');
 }

@@ -149,6 +149,20 @@ export function derivedLabel(d: DerivedResult): string {
   return d.group !== undefined ? `${d.name} [${d.group}]` : d.name;
 }
 
+/** Lists at most this many groups of a per-group quantity by name in a note; more are counted. */
+const NOTE_GROUPS = 5;
+
+/** Labels of the quantities a note applies to; a per-group quantity's groups are summarised when there are many. */
+function derivedLabels(ds: readonly DerivedResult[], all: readonly DerivedResult[]): string {
+  const names = [...new Set(ds.map((d) => d.name))];
+  return names.map((name) => {
+    const mine = ds.filter((d) => d.name === name);
+    if (mine[0].group === undefined || mine.length <= NOTE_GROUPS) return mine.map(derivedLabel).join(', ');
+    const groups = all.filter((d) => d.name === name).length;
+    return mine.length === groups ? `${name} (all ${groups} groups)` : `${name} (${mine.length} of ${groups} groups)`;
+  }).join(', ');
+}
+
 /**
  * The derived quantities as one table (name, value, standard error, interval,
  * unit), or null when there are none. Value, standard error and interval ends
@@ -168,9 +182,9 @@ export function derivedBlock(result: RunResult): QueryBlock | null {
     const interval = hasInterval ? `[${f.lower}, ${f.upper}]${oneLevel ? '' : ` (${formatLevel(d.level ?? NaN)}, ${kind})`}` : '';
     return [derivedLabel(d), d.value === null ? MISSING : f.estimate, d.stderr === null ? MISSING : f.stderr, interval, d.unit ?? ''];
   });
-  const byNote = new Map<string, string[]>();
-  for (const d of derived) byNote.set(d.note, [...(byNote.get(d.note) ?? []), derivedLabel(d)]);
-  const notes = [...byNote].map(([note, names]) => `${names.join(', ')}: ${note}`);
+  const byNote = new Map<string, DerivedResult[]>();
+  for (const d of derived) byNote.set(d.note, [...(byNote.get(d.note) ?? []), d]);
+  const notes = [...byNote].map(([note, ds]) => `${derivedLabels(ds, derived)}: ${note}`);
   const lv = oneLevel && levels[0] !== undefined && levels[0] !== null ? `${formatLevel(levels[0])} ` : '';
   return {
     heading: 'Derived quantities',
@@ -184,6 +198,33 @@ export function derivedBlock(result: RunResult): QueryBlock | null {
 export function expectationLine(e: ExpectationResult): { verdict: 'PASS' | 'FAIL'; text: string; actual: string; message: string } {
   const text = e.group !== undefined ? `${e.expectation.text} [${e.group}]` : e.expectation.text;
   return { verdict: e.passed ? 'PASS' : 'FAIL', text, actual: e.actual === null ? MISSING : formatNumber(e.actual, 6), message: e.message };
+}
+
+export type ExpectationRow = ReturnType<typeof expectationLine>;
+
+/**
+ * Expectation lines for display. An expectation checked on more than
+ * `manyGroups` groups (default 5) becomes one line for all its groups
+ * (`[all 96 groups]`, or `[3 of 96 groups fail]`) followed by the line of
+ * each failing group; others give one line per result.
+ */
+export function expectationRows(result: RunResult, manyGroups = 5): ExpectationRow[] {
+  const key = (e: ExpectationResult) => `${e.expectation.text}@${e.expectation.range.start.line}:${e.expectation.range.start.column}`;
+  const byKey = new Map<string, ExpectationResult[]>();
+  for (const e of result.expectations) byKey.set(key(e), [...(byKey.get(key(e)) ?? []), e]);
+  const out: ExpectationRow[] = [];
+  for (const es of byKey.values()) {
+    const grouped = es.filter((e) => e.group !== undefined);
+    if (grouped.length <= manyGroups) {
+      out.push(...es.map(expectationLine));
+      continue;
+    }
+    const failed = es.filter((e) => !e.passed);
+    const tag = failed.length === 0 ? `[all ${es.length} groups]` : `[${failed.length} of ${es.length} groups fail]`;
+    out.push({ verdict: failed.length === 0 ? 'PASS' : 'FAIL', text: `${es[0].expectation.text} ${tag}`, actual: '', message: '' });
+    out.push(...failed.map(expectationLine));
+  }
+  return out;
 }
 
 export function expectationTally(result: RunResult): string {

@@ -1,14 +1,19 @@
 /**
  * Plain-text summary of a run for terminals: per fit a parameter table,
- * goodness of fit, residual checks, warnings and the stopping reason; then
- * query tables, derived quantities and expectation verdicts. Digits follow format.ts.
+ * goodness of fit, residual checks, warnings and the stopping reason; per
+ * per-group fit the group table, the summary across groups, the worst groups
+ * and full blocks only for some groups (rule in groups.ts); then query
+ * tables, derived quantities and expectation verdicts. Digits follow format.ts.
  */
 import type { FitResult, RunResult } from '../result';
 import {
-  derivedBlock, expectationLine, expectationTally, fitHeading, goodnessEntries, PARAMETER_HEADERS,
+  derivedBlock, expectationRows, expectationTally, fitHeading, goodnessEntries, PARAMETER_HEADERS,
   parameterRows, queryBlocks, stopLine, warningLines,
 } from './summary';
 import { textTable } from './table';
+import {
+  detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock, worstGroupLines, type FitSection,
+} from './groups';
 
 /** The summary of one fit, as lines. */
 export function fitTextLines(fit: FitResult): string[] {
@@ -51,18 +56,41 @@ export function derivedTextLines(result: RunResult): string[] {
 /** Expectation verdicts, one per line, and the tally. */
 export function expectationTextLines(result: RunResult): string[] {
   if (result.expectations.length === 0) return [];
-  const rows = result.expectations.map(expectationLine);
+  const rows = expectationRows(result);
   const tw = Math.max(...rows.map((r) => r.text.length));
   const lines = ['Expectations'];
-  for (const r of rows) lines.push(`  ${r.verdict}  ${r.text.padEnd(tw)}  actual ${r.actual}${r.verdict === 'FAIL' && r.message ? `  (${r.message})` : ''}`);
+  for (const r of rows) lines.push(`  ${r.verdict}  ${r.actual ? r.text.padEnd(tw) : r.text}${r.actual ? `  actual ${r.actual}` : ''}${r.verdict === 'FAIL' && r.message ? `  (${r.message})` : ''}`);
   lines.push(`  ${expectationTally(result)}`);
+  return lines;
+}
+
+/** A per-group fit: heading, group table, counts, summary across groups, worst groups, and which groups follow in full. */
+export function groupTextLines(section: Extract<FitSection, { kind: 'groups' }>, shown: readonly number[]): string[] {
+  const t = section.table;
+  const lines = [groupHeading(section), `  ${groupCountLine(t)}`, ''];
+  const table = groupTableBlock(t);
+  lines.push(...textTable(table.headers, table.rows, table.align));
+  const summary = groupSummaryBlock(t);
+  lines.push('', `  Across converged groups`, ...textTable(summary.headers, summary.rows, summary.align, '    '));
+  const worst = worstGroupLines(t);
+  if (worst.length) lines.push('', '  Worst groups', ...worst.map((w) => `    ${w}`));
+  const note = detailNote(section, shown.length);
+  if (note) lines.push('', `  ${note}`);
   return lines;
 }
 
 /** The whole run summary (fits, queries, derived quantities, expectations) ending with a newline. */
 export function runText(result: RunResult): string {
   const sections: string[][] = [];
-  for (const fit of result.fits) sections.push(fitTextLines(fit));
+  for (const s of fitSections(result)) {
+    if (s.kind === 'single') {
+      sections.push(fitTextLines(s.fit));
+      continue;
+    }
+    const shown = detailIndices(s);
+    sections.push(groupTextLines(s, shown));
+    for (const i of shown) sections.push(fitTextLines(result.fits[i]));
+  }
   const q = queryTextLines(result);
   if (q.length) sections.push(q);
   const d = derivedTextLines(result);

@@ -18,6 +18,7 @@ import { chartSpecs, type ChartSpec } from '../../engine/views/charts';
 import { derivedBlock, goodnessEntries, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/views/summary';
 import { buildGroupTable, worstGroups } from '../../engine/group/table';
 import type { GroupFlag } from '../../engine/group/flags';
+import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/views/groups';
 import { formatNumber } from '../../engine/views/format';
 import { groupParameterCharts } from './groupCharts';
 
@@ -111,19 +112,17 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
     worst.slice(0, opts.eagerGroupCharts ?? 6).forEach((r) => eager.add(fitKey({ name, group: r.group })));
     groups.push({
       fit: name,
-      headers: ['group', 'n', ...table.parameters.flatMap((p) => [p, `se(${p})`]), 'R²', 'χ²/ν', 'flags'],
+      // the same columns, digits and summary sentences as the CLI and the report (engine/views/groups.ts)
+      headers: groupTableHeaders(table),
       rows: worst.map((r) => ({
         group: r.group,
         key: fitKey({ name, group: r.group }),
         n: r.n,
-        cells: [r.group, String(r.n), ...r.estimates.flatMap((e, j) => [formatNumber(e, 5), formatNumber(r.stderrs[j], 3)]), formatNumber(r.r2, 5), formatNumber(r.chi2Reduced, 4), r.flags.join(', ')],
+        cells: groupRowCells(table, r),
         flags: r.flags,
         message: r.message,
       })),
-      summary: [
-        `${table.summary.groups} groups: ${table.summary.converged} converged, ${table.summary.failed} failed, ${table.summary.notConverged} not converged, ${table.summary.atBound} with a parameter at a bound, ${table.summary.poorFit} poor fits.`,
-        ...table.summary.parameters.map((p) => `${p.name}: median ${formatNumber(p.median, 5)}, IQR ${formatNumber(p.iqr, 4)} (${p.count} groups)`),
-      ],
+      summary: [groupCountLine(table), ...groupSummarySentences(table)],
       charts: groupParameterCharts(fits, table),
     });
   }

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { execFile } from 'node:child_process';
-import { readFileSync } from 'node:fs';
+import { readFileSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import { textReport, type BenchReport } from './report';
@@ -11,16 +11,21 @@ const run = promisify(execFile);
 let built: Built | undefined;
 let report: BenchReport;
 let markdown: string;
+let mdDir: string | undefined;
 
 beforeAll(async () => {
   built = await buildBundles();
-  const md = path.join(tempDir('leastwise-bench-md-'), 'bench.md');
+  mdDir = tempDir('leastwise-bench-md-');
+  const md = path.join(mdDir, 'bench.md');
   const { stdout } = await run(process.execPath, [built.bench, '--quick', '--json', '--markdown', md], { maxBuffer: 16 << 20, timeout: 600_000 });
   report = JSON.parse(stdout) as BenchReport;
   markdown = readFileSync(md, 'utf8');
 }, 660_000);
 
-afterAll(() => removeBuilt(built));
+afterAll(() => {
+  removeBuilt(built);
+  if (mdDir) rmSync(mdDir, { recursive: true, force: true });
+});
 
 describe('test/bench/bench (script structure, --quick)', () => {
   it('reports all nine benchmarks in order, none failing to run', () => {
