@@ -34,8 +34,37 @@ export function ref(g: Graph, id: number): string {
   }
 }
 
+/** Smallest positive normal and largest finite double (bounds of the shared-power guard below). */
+const MIN_NORMAL = 2.2250738585072014e-308;
+const MAX_FINITE = 1.7976931348623157e308;
+
+/**
+ * Shared powers. The derivative rule d(a^b) = b·a^(b−1)·a′ (`derive.ts`)
+ * makes a second node a^e with e = b − 1 next to the value's node p = a^b.
+ * Since a^(b−1) = a^b / a for a ≠ 0, the kernel computes it as one division
+ * from p instead of a second `pow` call, guarded by
+ *   a ≠ 0  and  MIN_NORMAL ≤ |p| ≤ MAX_FINITE
+ * (p neither zero, subnormal, infinite nor NaN, so p/a carries the full
+ * 53-bit precision: relative error ≤ that of pow plus one rounding, ≈ 1.5 ulp;
+ * and it avoids the rounding of e = b − 1 itself, which pow(a, e) inherits as
+ * |ln a|·ulp(b)). Otherwise it falls back to `pow(a, e)` exactly as before.
+ * Returns the id of p when `id` is such an a^e and p is computed earlier in
+ * the same kernel (`available`), else undefined.
+ */
+function sharedPower(g: Graph, id: number, available: ReadonlySet<number>): number | undefined {
+  const n = g.nodes[id];
+  if (n.op !== 'pow') return undefined;
+  const e = g.nodes[n.b];
+  let b: number | undefined;
+  if (e.op === 'sub' && g.isConst(e.b, 1)) b = e.a;
+  else if (e.op === 'const' && Number.isFinite(e.value + 1) && e.value + 1 - 1 === e.value) b = g.findConstant(e.value + 1);
+  if (b === undefined) return undefined;
+  const p = g.findPow(n.a, b);
+  return p !== undefined && p < id && available.has(p) ? p : undefined;
+}
+
 /** Right-hand side computing interior node `id` from its operands' references. */
-function rhs(g: Graph, id: number): string {
+function rhs(g: Graph, id: number, available: ReadonlySet<number> = new Set()): string {
   const n = g.nodes[id];
   const r = (k: number) => ref(g, k);
   switch (n.op) {
@@ -48,6 +77,13 @@ function rhs(g: Graph, id: number): string {
       const e = g.constOf(n.b);
       if (e === 2) return `${r(n.a)} * ${r(n.a)}`;
       if (e === -1) return `1 / ${r(n.a)}`;
+      const p = sharedPower(g, id, available);
+      if (p !== undefined) {
+        const a = r(n.a);
+        const pr = r(p);
+        const abs = `(${pr} < 0 ? -${pr} : ${pr})`;
+        return `(${a} !== 0 && ${abs} >= ${literal(MIN_NORMAL)} && ${abs} <= ${literal(MAX_FINITE)}) ? ${pr} / ${a} : M.pow(${a}, ${r(n.b)})`;
+      }
       return `M.pow(${r(n.a)}, ${r(n.b)})`;
     }
     case 'fn1': return `M.${UNARY_MEMBER[n.fn]}(${r(n.a)})`;
@@ -84,9 +120,12 @@ export function kernelSource(g: Graph, roots: KernelRoots): string {
       body.push(`const ${ref(g, id)} = ${ident('c', n.index)}[i];`);
     }
   }
+  const available = new Set<number>();
   for (const id of nodes) {
     if (isLeaf(g, id)) continue;
-    (g.row[id] ? body : head).push(`const ${ref(g, id)} = ${rhs(g, id)};`);
+    // (a hoisted a^e has a hoisted base and exponent, so its a^b is hoisted too: ascending ids suffice)
+    (g.row[id] ? body : head).push(`const ${ref(g, id)} = ${rhs(g, id, available)};`);
+    available.add(id);
   }
   derivs.forEach((_, j) => { if (j > 0) head.push(`const ${ident('o', j)} = n * ${literal(j)};`); });
   if (roots.value !== undefined) body.push(`out[i] = ${ref(g, roots.value)};`);

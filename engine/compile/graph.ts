@@ -14,7 +14,7 @@
  *   x+0 → x, 0+x → x, x−0 → x, 0−x → −x, x−x → 0 (†), x+(−y) → x−y;
  *   1·x → x, 0·x → 0 (†), (−1)·x → −x, (−a)·b → −(a·b), a·(−b) → −(a·b),
  *   c₁·(c₂·x) → (c₁c₂)·x; x/1 → x, 0/x → 0 (†), x/(−1) → −x, (−a)/b → −(a/b),
- *   a/(−b) → −(a/b); −(−x) → x;
+ *   a/(−b) → −(a/b), (−c)/b → −(c/b) for a constant c > 0 (so −1/b shares 1/b); −(−x) → x;
  *   x^1 → x, x^0 → 1, 1^x → 1; when(c, a, a) → a; when(constant, a, b) → a or b.
  * (†) these assume the other operand is finite, as usual for symbolic
  * differentiation; a non-finite value still shows in the model value itself.
@@ -175,6 +175,8 @@ export class Graph {
     const na = this.nodes[a];
     const nb = this.nodes[b];
     if (na.op === 'neg') return this.neg(this.div(na.a, b));
+    const ca = this.constOf(a);
+    if (ca !== undefined && ca < 0) return this.neg(this.div(this.constant(-ca), b));
     if (nb.op === 'neg') return this.neg(this.div(a, nb.a));
     return this.node2('div', a, b);
   }
@@ -185,6 +187,16 @@ export class Graph {
     const n = this.nodes[a];
     if (n.op === 'neg') return n.a;
     return this.intern(`neg:${a}`, { op: 'neg', a }, this.row[a], this.param[a]);
+  }
+
+  /** The existing constant node of value v, if one was built (no node is created). */
+  findConstant(value: number): number | undefined {
+    return this.index.get(Object.is(value, -0) ? 'k:-0' : `k:${value}`);
+  }
+
+  /** The existing node a^b, if one was built (no node is created). */
+  findPow(a: number, b: number): number | undefined {
+    return this.index.get(`pow:${a},${b}`);
   }
 
   pow(a: number, b: number): number {

@@ -31,6 +31,8 @@ export interface CompiledModel {
     theta: Float64Array, cols: readonly Float64Array[], n: number,
     outHi: Float64Array, outLo: Float64Array, jacHi: Float64Array, jacLo: Float64Array,
   ): void;
+  /** The value alone in double-double (as `valueAndJacobianExtended` without the Jacobian). Compiled on first use. */
+  valueExtended(theta: Float64Array, cols: readonly Float64Array[], n: number, outHi: Float64Array, outLo: Float64Array): void;
   /** True when every ∂f/∂θⱼ is independent of θ (see `isLinearInParameters`). */
   readonly linear: boolean;
   /** Generated source of the value and value+Jacobian kernels (for inspection and tests). */
@@ -82,6 +84,7 @@ export function compileModel(expr: Expr, params: readonly string[], columns: rea
   const valueKernel: Kernel = instantiate(valueSrc);
   const fullKernel: Kernel = instantiate(fullSrc);
   let ddKernel: KernelDD | null = null;
+  let ddValueKernel: KernelDD | null = null;
   const none = new Float64Array(0);
   const model: CompiledModel = {
     params: Object.freeze([...params]),
@@ -100,6 +103,11 @@ export function compileModel(expr: Expr, params: readonly string[], columns: rea
       checkArgs(p, k, theta, cols, n, outHi, outLo, jacHi, jacLo);
       ddKernel ??= instantiateDD(kernelSourceDD(b.g, b.root, b.derivs));
       ddKernel(theta, cols, n, outHi, outLo, jacHi, jacLo);
+    },
+    valueExtended(theta, cols, n, outHi, outLo): void {
+      checkArgs(p, k, theta, cols, n, outHi, outLo, null, null);
+      ddValueKernel ??= instantiateDD(kernelSourceDD(b.g, b.root, []));
+      ddValueKernel(theta, cols, n, outHi, outLo, none, none);
     },
   };
   return Object.freeze(model);

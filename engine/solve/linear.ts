@@ -76,8 +76,9 @@ export function solveLinear(problem: LeastSquaresProblem, options: LinearOptions
       bLo = new Float64Array(n);
       aHi = new Float64Array(n * p);
       aLo = new Float64Array(n * p);
-      problem.residualsExtended(theta0, bHi, bLo);
+      // Jacobian first: `modelProblem` then serves the residuals at the same θ from that one evaluation.
       problem.jacobianExtended(theta0, aHi, aLo);
+      problem.residualsExtended(theta0, bHi, bLo);
       if (!allFinite(bHi) || !allFinite(aHi)) {
         bHi = r0; bLo = null; aHi = jac; aLo = null;
       }

@@ -72,7 +72,9 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
       stop.message += '; no step was accepted from the starting values (try other starting values or a tighter tolerance)';
     }
     if (stop.converged && options.polish !== false) {
-      const c = polishGaussNewton(problem, { x, r, jac });
+      // Workspace shared with polishing (its QR buffer and two n-vectors), so no
+      // further n×p array is allocated for it.
+      const c = polishGaussNewton(problem, { x, r, jac }, 30, qr !== null ? { qr, b: wa, rt } : undefined);
       nfev += c.evaluations;
       njev += c.jacobianEvaluations;
       if (c.steps > 0) stop.message += `; then ${c.steps} Gauss–Newton polishing step(s)`;
@@ -81,6 +83,10 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
     for (let i = 0; i < n; i++) ss += r[i] * r[i];
     return { theta: x, residuals: r, jacobian: jac, cost: 0.5 * ss, stop, iterations, evaluations: nfev, jacobianEvaluations: njev };
   };
+  // Work arrays, allocated once (qr, wa, rt before the first `finish` that may polish).
+  let qr: PivotedQR | null = null;
+  const wa = new Float64Array(n);
+  const rt = new Float64Array(n);
   if (n === 0) return finish('failed', 'no data rows to fit', true);
 
   problem.residuals(x, r);
@@ -89,12 +95,11 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
   if (p === 0) return finish('small_gradient', 'no free parameters to fit', true);
   let fnorm = norm2(r);
 
-  // Work arrays, allocated once.
-  const qr = new PivotedQR(n, p);
-  const jf = new Float64Array(lower !== undefined || upper !== undefined ? n * p : 0);
+  const qrf = new PivotedQR(n, p);
+  qr = qrf;
+  /** Free columns of J when some parameters are held at bounds: allocated on first need only (n×p). */
+  let jf: Float64Array | null = null;
   const rq = new Float64Array(p * p);
-  const wa = new Float64Array(n);
-  const rt = new Float64Array(n);
   const qtf = new Float64Array(p);
   const diag = new Float64Array(p);
   const dF = new Float64Array(p);
@@ -112,14 +117,28 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
   /** Before the first accepted step (Moré's iter = 1). */
   let first = true;
   let initialised = false;
+  /** A new point was accepted (its Jacobian not yet checked and factored). */
   let needJacobian = true;
+  /** `jac` holds J(x). False after x moved without a combined evaluation, or after a rejected combined trial. */
+  let jacAtX = false;
+  /**
+   * Combined trial evaluation: when the problem offers `residualsAndJacobian`,
+   * each (unclipped) trial point's Jacobian is computed with its residuals,
+   * written straight into `jac`: an accepted step then needs no separate
+   * Jacobian pass, and no second n×p buffer is kept. A rejected trial leaves
+   * J(trial) in `jac`, recomputed at x only when J(x) is read again.
+   */
+  const combined = problem.residualsAndJacobian?.bind(problem);
 
   for (;;) {
-    if (options.cancel?.cancelled) return finish('cancelled', `cancelled after ${iterations} iteration(s)`, !needJacobian);
-    if (needJacobian) {
-      if (iterations >= maxIter) return finish('max_iterations', `reached the iteration limit ${maxIter}`, false);
+    if (options.cancel?.cancelled) return finish('cancelled', `cancelled after ${iterations} iteration(s)`, jacAtX);
+    if (needJacobian && iterations >= maxIter) return finish('max_iterations', `reached the iteration limit ${maxIter}`, jacAtX);
+    if (!jacAtX) {
       problem.jacobian(x, jac);
       njev++;
+      jacAtX = true;
+    }
+    if (needJacobian) {
       if (!allFinite(jac)) return finish('non_finite', `Jacobian not finite at iteration ${iterations}`, true);
       blocked.fill(0);
       needJacobian = false;
@@ -133,14 +152,15 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
     const q = bounded ? freeSet(x, grad, lower, upper, blocked, free) : p;
     if (!bounded) for (let j = 0; j < p; j++) free[j] = j;
     if (q === 0) return finish('small_gradient', 'every parameter is held at a bound by the gradient (projected gradient 0)', true);
-    if (q === p) qr.factor(jac, n, p, { pivot: true });
+    if (q === p) qrf.factor(jac, n, p, { pivot: true });
     else {
+      jf ??= new Float64Array(n * p);
       for (let k = 0; k < q; k++) {
         const from = free[k] * n;
         const to = k * n;
         for (let i = 0; i < n; i++) jf[to + i] = jac[from + i];
       }
-      qr.factor(jf, n, q, { pivot: true });
+      qrf.factor(jf, n, q, { pivot: true });
     }
 
     if (!initialised) {
@@ -155,28 +175,29 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
       delta = STEP_FACTOR * xnorm || STEP_FACTOR;
     }
     wa.set(r);
-    qr.applyQt(wa);
+    qrf.applyQt(wa);
     qtf.fill(0);
     for (let k = 0; k < Math.min(n, q); k++) qtf[k] = wa[k];
-    copyR(qr, rq);
+    copyR(qrf, rq);
     // Scaled gradient norm: max_k |(Rᵀ Qᵀr)_k| / (‖J_k‖·‖r‖).
     let gnorm = 0;
     if (fnorm !== 0) {
       for (let k = 0; k < q; k++) {
-        const cn = qr.norms[qr.perm[k]];
+        const cn = qrf.norms[qrf.perm[k]];
         if (cn === 0) continue;
         let s = 0;
         for (let i = 0; i <= k; i++) s += rq[i + k * q] * (qtf[i] / fnorm);
         gnorm = Math.max(gnorm, Math.abs(s / cn));
       }
     }
-    if (gnorm <= gtol) return finish('small_gradient', `scaled gradient ${fmt(gnorm)} <= gtol ${fmt(gtol)}`, true);
-    for (let j = 0; j < p; j++) diag[j] = Math.max(diag[j], norm2(jac, j * n, n));
+    if (gnorm <= gtol) return finish('small_gradient', `scaled gradient ${fmt(gnorm)} <= gtol ${fmt(gtol)}`, jacAtX);
+    // Column norms: the factorisation computed them (same norm2 on the same numbers) when every column is free.
+    for (let j = 0; j < p; j++) diag[j] = Math.max(diag[j], q === p ? qrf.norms[j] : norm2(jac, j * n, n));
     for (let k = 0; k < q; k++) dF[k] = diag[free[k]];
 
     // Inner loop: trial steps until one is accepted.
     for (;;) {
-      par = lmpar.compute(q, rq, qr.perm, dF, qtf, delta, par, xF);
+      par = lmpar.compute(q, rq, qrf.perm, dF, qtf, delta, par, xF);
       xt.set(x);
       for (let k = 0; k < q; k++) xt[free[k]] -= xF[k];
       const clipped = bounded && project(xt, lower, upper);
@@ -194,7 +215,18 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
       const pnorm = Math.sqrt(pn);
       if (first) delta = Math.min(delta, pnorm);
 
-      problem.residuals(xt, rt);
+      // A clipped step reads J(x) below, so it is evaluated without the Jacobian.
+      const withJacobian = combined !== undefined && !clipped;
+      if (clipped && !jacAtX) {
+        problem.jacobian(x, jac);
+        njev++;
+        jacAtX = true;
+      }
+      if (withJacobian) {
+        combined(xt, rt, jac);
+        njev++;
+        jacAtX = false;
+      } else problem.residuals(xt, rt);
       nfev++;
       const fnorm1 = allFinite(rt) ? norm2(rt) : Infinity;
       const actred = 0.1 * fnorm1 < fnorm ? 1 - (fnorm1 / fnorm) ** 2 : -1;
@@ -206,7 +238,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
         let s1 = 0;
         for (let j = 0; j < q; j++) {
           let s = 0;
-          for (let i = j; i < q; i++) s += rq[j + i * q] * xF[qr.perm[i]];
+          for (let i = j; i < q; i++) s += rq[j + i * q] * xF[qrf.perm[i]];
           s1 += s * s;
         }
         const t1 = Math.sqrt(s1) / fnorm;
@@ -248,9 +280,10 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
         iterations++;
         first = false;
         needJacobian = true;
+        jacAtX = withJacobian;
         options.onIteration?.(iterations, 0.5 * fnorm * fnorm);
       }
-      const current = !accepted;
+      const current = jacAtX;
       if (Math.abs(actred) <= ftol && prered <= ftol && 0.5 * ratio <= 1) {
         return finish('small_reduction', `relative reduction ${fmt(Math.abs(actred))} <= ftol ${fmt(ftol)} (predicted ${fmt(prered)})`, current);
       }

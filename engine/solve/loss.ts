@@ -75,6 +75,14 @@ function weighted(problem: LeastSquaresProblem, sqrtW: Float64Array): LeastSquar
       for (let j = 0; j < p; j++) for (let i = 0; i < n; i++) out[j * n + i] *= sqrtW[i];
     },
   };
+  const both = problem.residualsAndJacobian?.bind(problem);
+  if (both) {
+    w.residualsAndJacobian = (theta, out, jac) => {
+      both(theta, out, jac);
+      for (let i = 0; i < n; i++) out[i] *= sqrtW[i];
+      for (let j = 0; j < p; j++) for (let i = 0; i < n; i++) jac[j * n + i] *= sqrtW[i];
+    };
+  }
   if (problem.lower) w.lower = problem.lower;
   if (problem.upper) w.upper = problem.upper;
   return w;

@@ -22,15 +22,37 @@ export interface ModelProblemInput {
   upper?: Float64Array;
 }
 
+/** Element-wise identical parameter vectors (Object.is: −0 and NaN compare as stored). */
+function sameTheta(a: Float64Array, b: Float64Array): boolean {
+  if (a.length !== b.length) return false;
+  for (let j = 0; j < a.length; j++) if (!Object.is(a[j], b[j])) return false;
+  return true;
+}
+
 export function modelProblem(input: ModelProblemInput): LeastSquaresProblem {
   const { model, columns, response: y, n, sqrtWeights: sw } = input;
   const p = model.params.length;
   const f = new Float64Array(n);
-  let ext: { fh: Float64Array; fl: Float64Array; jh: Float64Array; jl: Float64Array } | null = null;
+  let ext: { fh: Float64Array; fl: Float64Array; jh: Float64Array; jl: Float64Array; at: Float64Array } | null = null;
+  /** `ext` holds a full (value + Jacobian) evaluation at θ = ext.at. */
+  let extValid = false;
   const extended = (theta: Float64Array) => {
-    ext ??= { fh: new Float64Array(n), fl: new Float64Array(n), jh: new Float64Array(n * p), jl: new Float64Array(n * p) };
+    ext ??= { fh: new Float64Array(n), fl: new Float64Array(n), jh: new Float64Array(n * p), jl: new Float64Array(n * p), at: new Float64Array(p) };
+    // The linear solver asks for residuals and Jacobian at the same θ in turn: evaluate once (the kernel is deterministic).
+    if (extValid && sameTheta(ext.at, theta)) return ext;
     model.valueAndJacobianExtended(theta, columns, n, ext.fh, ext.fl, ext.jh, ext.jl);
+    ext.at.set(theta);
+    extValid = true;
     return ext;
+  };
+  let val: { fh: Float64Array; fl: Float64Array } | null = null;
+  /** ∂rᵢ/∂θⱼ = −√wᵢ·∂f/∂θⱼ in place. */
+  const negateJacobian = (out: Float64Array) => {
+    for (let j = 0; j < p; j++) {
+      const o = j * n;
+      if (sw) for (let i = 0; i < n; i++) out[o + i] = -sw[i] * out[o + i];
+      else for (let i = 0; i < n; i++) out[o + i] = -out[o + i];
+    }
   };
   const problem: LeastSquaresProblem = {
     n,
@@ -42,14 +64,23 @@ export function modelProblem(input: ModelProblemInput): LeastSquaresProblem {
     },
     jacobian(theta, out) {
       model.valueAndJacobian(theta, columns, n, f, out);
-      for (let j = 0; j < p; j++) {
-        const o = j * n;
-        if (sw) for (let i = 0; i < n; i++) out[o + i] = -sw[i] * out[o + i];
-        else for (let i = 0; i < n; i++) out[o + i] = -out[o + i];
-      }
+      negateJacobian(out);
+    },
+    residualsAndJacobian(theta, out, jac) {
+      model.valueAndJacobian(theta, columns, n, f, jac);
+      if (sw) for (let i = 0; i < n; i++) out[i] = sw[i] * (y[i] - f[i]);
+      else for (let i = 0; i < n; i++) out[i] = y[i] - f[i];
+      negateJacobian(jac);
     },
     residualsExtended(theta, hi, lo) {
-      const e = extended(theta);
+      // value only (cheaper) unless a full evaluation at this θ is at hand
+      let e: { fh: Float64Array; fl: Float64Array };
+      if (ext !== null && extValid && sameTheta(ext.at, theta)) e = ext;
+      else {
+        val ??= { fh: new Float64Array(n), fl: new Float64Array(n) };
+        model.valueExtended(theta, columns, n, val.fh, val.fl);
+        e = val;
+      }
       for (let i = 0; i < n; i++) {
         ddSub(y[i], 0, e.fh[i], e.fl[i]);
         if (sw) ddMul(DD_OUT[0], DD_OUT[1], sw[i], 0);

@@ -22,12 +22,13 @@
  *    for small-residual fits) and the next step contracts: ‖δ⁺‖_D ≤ 0.9·‖δ‖_D
  *    (Gauss–Newton converges linearly on large-residual fits, with rates up
  *    to ~0.8 on the NIST problems);
- *  - otherwise the previous point is kept and polishing ends.
+ *  - otherwise the previous point is kept and polishing ends (its Jacobian
+ *    is then evaluated again into the state's buffer, which held the trial's).
  */
 import type { LeastSquaresProblem } from './problem';
 import { PivotedQR } from '../linalg/qr';
 import { norm2, EPSILON } from '../linalg/norm';
-import { refineLeastSquares } from './refine';
+import { refineLeastSquares, refineWorkspace, type RefineWorkspace } from './refine';
 import { allFinite } from './types';
 
 /** Largest accepted ratio of successive scaled Gauss–Newton steps. */
@@ -49,32 +50,50 @@ export interface PolishCount {
 }
 
 /** Gauss–Newton step at (r, J) into `delta`; returns its scaled norm and ‖θ‖_D in `norms`, or false if rank deficient. */
-function gaussNewtonStep(qr: PivotedQR, n: number, p: number, x: Float64Array, r: Float64Array, jac: Float64Array, b: Float64Array, delta: Float64Array, w: Float64Array): [number, number] | null {
+function gaussNewtonStep(qr: PivotedQR, n: number, p: number, x: Float64Array, r: Float64Array, jac: Float64Array, b: Float64Array, delta: Float64Array, w: Float64Array, rw: RefineWorkspace): [number, number] | null {
   qr.factor(jac, n, p, { pivot: true, scale: true });
   if (qr.rank < p) return null;
   for (let i = 0; i < n; i++) b[i] = -r[i];
   qr.solveLeastSquares(b, delta);
   for (let i = 0; i < n; i++) b[i] = -r[i];
-  refineLeastSquares({ qr, n, p, aHi: jac, aLo: null, bHi: b, bLo: null, maxSteps: 1 }, delta);
+  refineLeastSquares({ qr, n, p, aHi: jac, aLo: null, bHi: b, bLo: null, maxSteps: 1, workspace: rw }, delta);
   for (let j = 0; j < p; j++) w[j] = delta[j] / qr.scale[j];
   const step = norm2(w);
   for (let j = 0; j < p; j++) w[j] = x[j] / qr.scale[j];
   return [step, norm2(w)];
 }
 
-export function polishGaussNewton(problem: LeastSquaresProblem, s: PolishState, maxSteps = 30): PolishCount {
+/**
+ * Optional workspace lent by the caller (e.g. Levenberg–Marquardt's own QR
+ * buffer and two n-vectors it no longer needs), so that polishing allocates
+ * no n×p array besides the trial Jacobian. Contents are overwritten.
+ */
+export interface PolishWorkspace {
+  /** A factorisation object with maxRows ≥ n and maxCols ≥ p. */
+  qr: PivotedQR;
+  /** Two distinct n-vectors, distinct from the state's arrays. */
+  b: Float64Array;
+  rt: Float64Array;
+}
+
+export function polishGaussNewton(problem: LeastSquaresProblem, s: PolishState, maxSteps = 30, work?: PolishWorkspace): PolishCount {
   const { n, p, lower, upper } = problem;
   const count: PolishCount = { steps: 0, evaluations: 0, jacobianEvaluations: 0 };
   if (n === 0 || p === 0 || n < p) return count;
-  const qr = new PivotedQR(n, p);
-  const b = new Float64Array(n);
+  const fits = work !== undefined && work.qr.maxRows >= n && work.qr.maxCols >= p && work.b.length >= n && work.rt.length >= n;
+  const qr = fits ? work.qr : new PivotedQR(n, p);
+  const b = fits ? work.b : new Float64Array(n);
   const delta = new Float64Array(p);
   const deltaT = new Float64Array(p);
   const xt = new Float64Array(p);
-  const rt = new Float64Array(n);
-  const jt = new Float64Array(n * p);
+  const rt = fits ? work.rt : new Float64Array(n);
+  // The trial Jacobian is written into s.jac itself (no second n×p buffer);
+  // J(x) is recomputed there if the trial is not kept (`jacAtX`).
+  const jt = s.jac;
+  let jacAtX = true;
   const w = new Float64Array(p);
-  let cur = gaussNewtonStep(qr, n, p, s.x, s.r, s.jac, b, delta, w);
+  const rw = refineWorkspace(n);
+  let cur = gaussNewtonStep(qr, n, p, s.x, s.r, s.jac, b, delta, w, rw);
   let ss = 0;
   for (let i = 0; i < n; i++) ss += s.r[i] * s.r[i];
   for (let step = 0; step < maxSteps && cur; step++) {
@@ -93,16 +112,21 @@ export function polishGaussNewton(problem: LeastSquaresProblem, s: PolishState, 
     if (!(st <= (1 + GROWTH) * ss)) break;
     problem.jacobian(xt, jt);
     count.jacobianEvaluations++;
+    jacAtX = false;
     if (!allFinite(jt)) break;
-    const next = gaussNewtonStep(qr, n, p, xt, rt, jt, b, deltaT, w);
+    const next = gaussNewtonStep(qr, n, p, xt, rt, jt, b, deltaT, w, rw);
     if (!next || !(next[0] <= CONTRACTION * cur[0])) break;
     s.x.set(xt);
     s.r.set(rt);
-    s.jac.set(jt);
+    jacAtX = true;
     ss = st;
     delta.set(deltaT);
     cur = next;
     count.steps++;
+  }
+  if (!jacAtX) {
+    problem.jacobian(s.x, s.jac);
+    count.jacobianEvaluations++;
   }
   return count;
 }

@@ -16,6 +16,13 @@ export interface LeastSquaresProblem {
    */
   jacobian(theta: Float64Array, out: Float64Array): void;
   /**
+   * Optional: r(θ) into `out` and the Jacobian into `jac` in one evaluation
+   * (same values as `residuals` and `jacobian`). Levenberg–Marquardt uses it
+   * for trial points, so an accepted step needs no separate Jacobian pass
+   * (additive, optional).
+   */
+  residualsAndJacobian?(theta: Float64Array, out: Float64Array, jac: Float64Array): void;
+  /**
    * Optional: r(θ) in double-double, r ≈ hi + lo (see `linalg/dd.ts`). Used by
    * the linear solver's iterative refinement when present (additive, optional).
    */

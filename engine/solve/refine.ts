@@ -34,6 +34,19 @@ export interface RefineInput {
   bHi: Float64Array;
   bLo: Float64Array | null;
   maxSteps?: number;
+  /** Optional n-vectors (each length ≥ n, distinct) reused instead of allocating three per call; contents overwritten. */
+  workspace?: RefineWorkspace;
+}
+
+export interface RefineWorkspace {
+  rho: Float64Array;
+  f: Float64Array;
+  fl: Float64Array;
+}
+
+/** Three n-vectors for `RefineInput.workspace`. */
+export function refineWorkspace(n: number): RefineWorkspace {
+  return { rho: new Float64Array(n), f: new Float64Array(n), fl: new Float64Array(n) };
 }
 
 /** Refines x in place (full-rank factorisations only); returns the number of corrections applied. */
@@ -103,10 +116,9 @@ export function refineLeastSquares(input: RefineInput, x: Float64Array): number 
   const { qr, n, p, aHi, aLo, bHi, bLo } = input;
   const maxSteps = input.maxSteps ?? 10;
   if (qr.rank < p || p === 0 || maxSteps <= 0) return 0;
-  const rho = new Float64Array(n);
-  const f = new Float64Array(n);
-  const fl = new Float64Array(n);
-  const e = new Float64Array(n);
+  const ws = input.workspace;
+  const usable = ws !== undefined && ws.rho.length >= n && ws.f.length >= n && ws.fl.length >= n;
+  const { rho, f, fl } = usable ? ws : refineWorkspace(n);
   const h = new Float64Array(p);
   const z = new Float64Array(p);
   const dx = new Float64Array(p);
@@ -142,7 +154,8 @@ export function refineLeastSquares(input: RefineInput, x: Float64Array): number 
       h[j] = -qr.scale[c] * columnDot(n, c, aHi, aLo, rho);
     }
     qr.solveRt(h, p);
-    e.set(f);
+    // f is recomputed at the next step, so Qᵀf and then δρ = Q·[h; d₂] are formed in place in it.
+    const e = f;
     qr.applyQt(e);
     for (let j = 0; j < p; j++) z[j] = e[j] - h[j];
     qr.solveR(z, p);
@@ -153,12 +166,13 @@ export function refineLeastSquares(input: RefineInput, x: Float64Array): number 
       x[j] += dx[j];
       xs[j] = x[j] / qr.scale[j];
     }
+    applied++;
+    previous = zn;
+    // Converged, or the last allowed step: ρ would not be read again.
+    if (zn <= EPSILON * norm2(xs) || step + 1 >= maxSteps) break;
     for (let j = 0; j < p; j++) e[j] = h[j];
     qr.applyQ(e);
     for (let i = 0; i < n; i++) rho[i] += e[i];
-    applied++;
-    previous = zn;
-    if (zn <= EPSILON * norm2(xs)) break;
   }
   return applied;
 }

@@ -117,3 +117,34 @@ describe('engine/solve/lm levenbergMarquardt', () => {
     expect(on.cost).toBeLessThanOrEqual(off.cost * (1 + 1e-10));
   });
 });
+
+describe('engine/solve/lm combined trial evaluation (residualsAndJacobian)', () => {
+  const x = Array.from({ length: 60 }, (_, i) => 0.01 * 10 ** (i / 15));
+  const y = x.map((v, i) => 2 + 96 / (1 + (v / 0.7) ** 1.3) + 0.5 * noise(i));
+  const cases: [string, { lower?: number[]; upper?: number[] }, number[]][] = [
+    ['unbounded', {}, [5, 90, 1, 1]],
+    ['bounded, bound active', { lower: [3, -Infinity, 0, 0] }, [5, 90, 1, 1]],
+    ['poor start (rejected steps)', {}, [50, 10, 30, 5]],
+  ];
+  for (const [name, bounds, start] of cases) {
+    it(`gives the same fit with and without it, and returns r and J at θ (${name})`, () => {
+      const full = fitProblem('d + (a - d)/(1 + (x/c)^b)', ['d', 'a', 'c', 'b'], x, y, bounds);
+      expect(full.residualsAndJacobian).toBeDefined();
+      const plain: LeastSquaresProblem = { ...full, residualsAndJacobian: undefined };
+      const a = levenbergMarquardt(full, Float64Array.from(start));
+      const b = levenbergMarquardt(plain, Float64Array.from(start));
+      expect(Array.from(a.theta)).toEqual(Array.from(b.theta));
+      expect(a.stop.code).toBe(b.stop.code);
+      expect(a.iterations).toBe(b.iterations);
+      // the returned residuals and Jacobian are those at the returned θ, bit for bit
+      for (const out of [a, b]) {
+        const r = new Float64Array(x.length);
+        const j = new Float64Array(4 * x.length);
+        full.residuals(out.theta, r);
+        full.jacobian(out.theta, j);
+        expect(Array.from(out.residuals)).toEqual(Array.from(r));
+        expect(Array.from(out.jacobian)).toEqual(Array.from(j));
+      }
+    });
+  }
+});

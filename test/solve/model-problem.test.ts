@@ -40,3 +40,38 @@ describe('engine/solve/model-problem modelProblem', () => {
     expect(rl.some((v) => v !== 0) || jl.some((v) => v !== 0)).toBe(true);
   });
 });
+
+describe('engine/solve/model-problem extended evaluations (value-only kernel and θ reuse)', () => {
+  const P = ['a', 'b', 'c'];
+  const model = compileModel(infix('a*exp(-b*x) + c*x^3', P), P, ['x']);
+  const x = Float64Array.from([0.1, 0.5, 1, 2.5, 4]);
+  const y = Float64Array.from([3, 2, 1.5, 1, 0.4]);
+  const n = x.length;
+  const at = (v: number[]) => Float64Array.from(v);
+
+  it('residualsExtended gives the same bits whether served from a full evaluation at θ or computed alone', () => {
+    const fresh = modelProblem({ model, columns: [x], response: y, n });
+    const reuse = modelProblem({ model, columns: [x], response: y, n });
+    const jh = new Float64Array(3 * n);
+    const jl = new Float64Array(3 * n);
+    const thetas = [at([2, 0.7, 0.01]), at([2.5, 0.3, -0.02])];
+    for (const theta of thetas) {
+      const h1 = new Float64Array(n), l1 = new Float64Array(n), h2 = new Float64Array(n), l2 = new Float64Array(n);
+      fresh.residualsExtended!(theta, h1, l1);
+      reuse.jacobianExtended!(theta, jh, jl);
+      reuse.residualsExtended!(theta, h2, l2);
+      expect(Array.from(h2)).toEqual(Array.from(h1));
+      expect(Array.from(l2)).toEqual(Array.from(l1));
+      // and they round to the double residuals (to a few ulps)
+      const r = new Float64Array(n);
+      fresh.residuals(theta, r);
+      for (let i = 0; i < n; i++) expect(Math.abs(h1[i] + l1[i] - r[i])).toBeLessThan(1e-14 * (1 + Math.abs(r[i])));
+    }
+    // a different θ after a full evaluation is not served from the stale one
+    const h3 = new Float64Array(n), l3 = new Float64Array(n), h4 = new Float64Array(n), l4 = new Float64Array(n);
+    reuse.jacobianExtended!(thetas[0], jh, jl);
+    reuse.residualsExtended!(thetas[1], h3, l3);
+    fresh.residualsExtended!(thetas[1], h4, l4);
+    expect(Array.from(h3)).toEqual(Array.from(h4));
+  });
+});

@@ -9,7 +9,7 @@
  *  - runPlan: from a CSV file on disk through the whole runner.
  */
 import { spawnSync } from 'node:child_process';
-import { writeFileSync } from 'node:fs';
+import { readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { compileModel } from '../../../engine/compile';
 import { runFit, runPlan } from '../../../engine/run';
@@ -28,17 +28,37 @@ export interface MemoryFigures {
   n: number;
   baselineRss: number;
   peakRss: number;
-  /** maxRSS already reached before the job (module loading), for reference. */
-  startupPeakRss: number;
+  /** Where the peak came from. */
+  peakSource: 'VmHWM' | 'maxRSS';
   stop: string;
+}
+
+/** VmHWM of this process in bytes (Linux), or null. */
+function highWaterMark(): number | null {
+  try {
+    const m = /^VmHWM:\s+(\d+)\s+kB/m.exec(readFileSync('/proc/self/status', 'utf8'));
+    return m ? Number(m[1]) * 1024 : null;
+  } catch {
+    return null;
+  }
+}
+
+/** Resets the high-water mark to the current resident size (Linux ≥ 4.0); false when not possible. */
+function resetHighWaterMark(): boolean {
+  try {
+    writeFileSync('/proc/self/clear_refs', '5');
+    return true;
+  } catch {
+    return false;
+  }
 }
 
 /** Runs in the child: `node --expose-gc bench.js --child-memory JOB N [CSV]`; prints MemoryFigures as JSON. */
 export async function memoryChild(job: MemoryJob, n: number, csv?: string): Promise<void> {
   const gc = (globalThis as { gc?: () => void }).gc;
   gc?.();
+  const useHwm = resetHighWaterMark() && highWaterMark() !== null;
   const baselineRss = process.memoryUsage().rss;
-  const startupPeakRss = process.resourceUsage().maxRSS * 1024;
   let stop = '';
   if (job === 'runPlan') {
     const spec = ['data d = "' + path.basename(csv!) + '"', 'fit f on d {', `  model y = ${LOGISTIC_MODEL}`, ...E2E_PARAMS.map((p) => `  param ${p}`), '}', ''].join('\n');
@@ -54,7 +74,8 @@ export async function memoryChild(job: MemoryJob, n: number, csv?: string): Prom
       stop = levenbergMarquardt(modelProblem({ model, columns: [x], response: y, n }), Float64Array.from([5, 90, 1, 1])).stop.code;
     }
   }
-  const figures: MemoryFigures = { job, n, baselineRss, peakRss: process.resourceUsage().maxRSS * 1024, startupPeakRss, stop };
+  const peakRss = useHwm ? (highWaterMark() as number) : process.resourceUsage().maxRSS * 1024;
+  const figures: MemoryFigures = { job, n, baselineRss, peakRss, peakSource: useHwm ? 'VmHWM' : 'maxRSS', stop };
   process.stdout.write(JSON.stringify(figures) + '\n');
 }
 
