@@ -55,9 +55,13 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
   const { n, p } = problem;
   const theta = outcome.theta;
   const r = new Float64Array(n);
-  const jac = new Float64Array(n * p);
   problem.residuals(theta, r);
-  if (p > 0) problem.jacobian(theta, jac);
+  // The solvers return J at θ (SolveOutcome contract; bit-identical to a fresh
+  // evaluation, tested in test/solve). Reuse it to keep one n×p array instead of
+  // two; robust fits re-evaluate, since their outcome carries reweighting state.
+  const reuse = !outcome.robustWeights && outcome.jacobian.length === n * p;
+  const jac = reuse ? outcome.jacobian : new Float64Array(n * p);
+  if (!reuse && p > 0) problem.jacobian(theta, jac);
 
   // Covariance Jacobian (robust: scaled by √ρ′)
   let jcov = jac;
