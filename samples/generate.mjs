@@ -14,8 +14,8 @@
  *
  * Seeds: each scenario's seed is the first one counting up from 1101, 2202, …,
  * 7707 for which every true parameter lies within 1.2 standard errors of a
- * reference least-squares fit (SciPy curve_fit, with and without absolute
- * sigma), so the truth sits well inside the reported 95 % intervals. The
+ * reference least-squares fit made independently with a general-purpose
+ * scientific library (with and without absolute sigma), so the truth sits well inside the reported 95 % intervals. The
  * sample tests check the wider 99.9 % intervals, which do not hinge on that
  * choice. The plate scenario (96 per-well fits) was chosen by this engine
  * instead: 8808 is the first seed from 8808 on for which every true parameter

@@ -6,7 +6,7 @@
  * transformations", Numer. Math. 7 (1965) 269-276; Golub & Van Loan, Matrix
  * Computations (4th ed.), Alg. 5.2.1 (Householder QR) and §5.4.2 (QR with
  * column pivoting). Reflectors Hⱼ = I − vvᵀ/vⱼ with vⱼ = 1 + |aⱼⱼ|/‖aⱼ‖ as in
- * Moré, Garbow & Hillstrom's MINPACK design (Moré 1978 §3), so R's diagonal
+ * Moré (1978) §3, so R's diagonal
  * is −sign(aⱼⱼ)·‖aⱼ‖. Pivoting picks the remaining column of largest norm;
  * those norms are downdated and recomputed when cancellation has eaten more
  * than half their digits (test 0.05·(‖ã‖/‖a‖)² ≤ ε).

@@ -1,8 +1,7 @@
 /**
  * Levenberg–Marquardt as a trust-region method with diagonal scaling, after
  * J. J. Moré, "The Levenberg-Marquardt algorithm: implementation and theory",
- * Numerical Analysis (Dundee 1977), LNM 630 (1978) 105-116 — the design of
- * MINPACK's lmder (Moré, Garbow & Hillstrom 1980):
+ * Numerical Analysis (Dundee 1977), LNM 630 (1978) 105-116; the design:
  *  - D = diag of Jacobian column norms, never decreasing (eq. (6.3));
  *  - each iteration factors J·P = Q·R once (pivoted Householder QR); trial
  *    steps solve min‖[J; √λD]p + [r; 0]‖ by Givens updates of R (§3) with λ
