@@ -83,7 +83,7 @@ export const derivedText = {
 export const errorText = {
   unknownData: (fit: string, data: string) => `fit ${fit} uses data "${data}", which is not declared`,
   noRows: (fit: string, file: string) => `fit ${fit} has no usable rows in ${file} after dropping empty cells and applying the filter`,
-  notEnoughRows: (fit: string, n: number, p: number) => `fit ${fit} has ${n} usable rows for ${p} free parameters`,
+  notEnoughRows: (fit: string, n: number, p: number) => `fit ${fit} has ${n} usable row${n === 1 ? '' : 's'} for ${p} free parameter${p === 1 ? '' : 's'}: at least ${p} are needed, more to estimate the scatter`,
   nonFinite: (fit: string, what: string, row: number) => `fit ${fit}: ${what} is not a finite number at data line ${row}`,
   badSigma: (fit: string, row: number, value: number) => `fit ${fit}: sigma must be positive and finite, got ${num(value)} at data line ${row}`,
   badWeight: (fit: string, row: number, value: number) => `fit ${fit}: weight must be non-negative and finite, got ${num(value)} at data line ${row}`,

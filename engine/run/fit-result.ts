@@ -7,15 +7,21 @@ import type { FitPlan, LossKind, Method } from '../../parser/plan';
 import type { FitResult, FitWarning, GoodnessOfFit, ParameterResult, StopReason } from '../result';
 import type { FitData } from './fit-data';
 import { exprText } from './expr';
+import { isLinearInParameters } from '../compile';
 
 export function emptyGoodness(n: number, p: number): GoodnessOfFit {
   return { n, p, dof: n - p, ssr: NaN, rmse: NaN, r2: NaN, adjR2: NaN, chi2: null, chi2Reduced: null, logLikelihood: NaN, aic: NaN, aicc: NaN, bic: NaN, condition: NaN };
 }
 
-/** Method reported for a fit that never reached a solver. */
-export function plannedMethod(method: Method, loss: LossKind): Exclude<Method, 'auto'> {
-  if (method === 'auto') return loss === 'squared' ? 'linear' : 'levenberg_marquardt';
+/** Method reported for a fit that never reached a solver: what `auto` would have chosen. */
+export function plannedMethod(method: Method, loss: LossKind, linear = true): Exclude<Method, 'auto'> {
+  if (method === 'auto') return loss === 'squared' && linear ? 'linear' : 'levenberg_marquardt';
   return method;
+}
+
+function modelIsLinear(fit: FitPlan): boolean {
+  const free = fit.parameters.filter((p) => !p.fixed).map((p) => p.name);
+  return fit.blocks.every((b) => isLinearInParameters(b.model, free));
 }
 
 export function failedFit(fit: FitPlan, data: FitData | null, stop: StopReason, warnings: FitWarning[], elapsedMs = 0): FitResult {
@@ -25,7 +31,7 @@ export function failedFit(fit: FitPlan, data: FitData | null, stop: StopReason, 
   return {
     name: fit.name,
     ...(data?.group !== undefined ? { group: data.group } : {}),
-    method: plannedMethod(fit.options.method, fit.options.loss),
+    method: plannedMethod(fit.options.method, fit.options.loss, modelIsLinear(fit)),
     loss: fit.options.loss,
     level: fit.options.level,
     stop,

@@ -111,23 +111,3 @@ export function logLogSlope(x: readonly number[], y: readonly number[]): number 
   }
   return sxy / sxx;
 }
-
-/** Deterministic pseudo-random numbers in [0, 1): mulberry32 (public-domain generator by Tommy Ettinger). */
-export function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-/** Standard normal deviates by the Box–Muller transform (Box & Muller, Ann. Math. Stat. 29, 1958). */
-export function gaussian(uniform: () => number): () => number {
-  return () => {
-    const u = 1 - uniform();
-    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * uniform());
-  };
-}

@@ -2,7 +2,8 @@ import { describe, it, expect } from 'vitest';
 import { PivotedQR } from '../../engine/linalg/qr';
 import { solveDamped, copyR } from '../../engine/linalg/damped';
 import { LMParameter } from '../../engine/solve/lm-parameter';
-import { rng, randomMatrix } from './random';
+import { randomMatrix } from './random';
+import { rng } from '../fixtures/random';
 
 /** min‖[A; √λD]x − [b; 0]‖ by factoring the stacked matrix afresh (the reference). */
 function stacked(a: Float64Array, m: number, n: number, d: Float64Array, lambda: number, b: Float64Array): Float64Array {

@@ -1,7 +1,8 @@
 import { describe, it, expect } from 'vitest';
 import { Matrix, QrDecomposition } from 'ml-matrix';
 import { PivotedQR, defaultRankTolerance } from '../../engine/linalg/qr';
-import { rng, randomMatrix, toRows } from './random';
+import { randomMatrix, toRows } from './random';
+import { rng } from '../fixtures/random';
 
 /** max |(Q·R)[:, j] − (A·S)[:, perm[j]]| over all columns. */
 function reconstructionError(qr: PivotedQR, a: Float64Array): number {

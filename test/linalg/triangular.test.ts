@@ -2,7 +2,8 @@ import { describe, it, expect } from 'vitest';
 import { Matrix, inverse } from 'ml-matrix';
 import { PivotedQR } from '../../engine/linalg/qr';
 import { inverseR, inverseGram } from '../../engine/linalg/triangular';
-import { rng, randomMatrix, toRows } from './random';
+import { randomMatrix, toRows } from './random';
+import { rng } from '../fixtures/random';
 
 describe('engine/linalg/triangular', () => {
   const next = rng(3);

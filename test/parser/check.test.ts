@@ -1,23 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { analyze, check, parse } from '../../parser/index';
-import { specs } from './helpers';
-import type { Expr, FitPlan } from '../../parser/plan';
+import { show, specs } from './helpers';
+import type { FitPlan } from '../../parser/plan';
 import { DEFAULT_OPTIONS } from '../../parser/check-options';
-
-/** Expression written back with full parentheses (ranges dropped). */
-function show(e: Expr): string {
-  switch (e.kind) {
-    case 'number': return String(e.value);
-    case 'column': return `col:${e.name}`;
-    case 'param': return `par:${e.name}`;
-    case 'result': return `${e.of === 'estimate' ? 'est' : 'stat'}:${e.fit}.${e.name}`;
-    case 'derived': return `der:${e.name}`;
-    case 'negate': return `(-${show(e.arg)})`;
-    case 'not': return `(not ${show(e.arg)})`;
-    case 'call': return `${e.fn}(${e.args.map(show).join(', ')})`;
-    case 'binary': case 'compare': case 'logic': return `(${show(e.left)} ${e.op} ${show(e.right)})`;
-  }
-}
 
 function fitOf(text: string, ctx?: Parameters<typeof analyze>[1]): FitPlan {
   const { plan, diagnostics } = analyze(text, ctx);

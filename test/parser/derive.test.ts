@@ -1,23 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { analyze, lexTokens, parse } from '../../parser/index';
 import type { DeriveAst, ExprAst } from '../../parser/ast';
-import type { Expr } from '../../parser/plan';
-import { marked } from './helpers';
-
-/** Plan expression written back with full parentheses (ranges dropped). */
-function show(e: Expr): string {
-  switch (e.kind) {
-    case 'number': return String(e.value);
-    case 'column': return `col:${e.name}`;
-    case 'param': return `par:${e.name}`;
-    case 'result': return `${e.of === 'estimate' ? 'est' : 'stat'}:${e.fit}.${e.name}`;
-    case 'derived': return `der:${e.name}`;
-    case 'negate': return `(-${show(e.arg)})`;
-    case 'not': return `(not ${show(e.arg)})`;
-    case 'call': return `${e.fn}(${e.args.map(show).join(', ')})`;
-    case 'binary': case 'compare': case 'logic': return `(${show(e.left)} ${e.op} ${show(e.right)})`;
-  }
-}
+import { marked, show } from './helpers';
 
 const FITS = `data std = "std.csv"
 data rep = "rep.csv"

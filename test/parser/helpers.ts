@@ -2,7 +2,7 @@
 import { readFileSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { Diagnostic } from '../../parser/plan';
+import type { Diagnostic, Expr } from '../../parser/plan';
 
 export const SPEC_DIR = fileURLToPath(new URL('./specs', import.meta.url));
 
@@ -40,4 +40,19 @@ export function codes(ds: Diagnostic[]): string[] {
 
 export function errors(ds: Diagnostic[]): Diagnostic[] {
   return ds.filter((d) => d.severity === 'error');
+}
+
+/** Plan expression written back with full parentheses (ranges dropped), for comparing parsed structure in tests. */
+export function show(e: Expr): string {
+  switch (e.kind) {
+    case 'number': return String(e.value);
+    case 'column': return `col:${e.name}`;
+    case 'param': return `par:${e.name}`;
+    case 'result': return `${e.of === 'estimate' ? 'est' : 'stat'}:${e.fit}.${e.name}`;
+    case 'derived': return `der:${e.name}`;
+    case 'negate': return `(-${show(e.arg)})`;
+    case 'not': return `(not ${show(e.arg)})`;
+    case 'call': return `${e.fn}(${e.args.map(show).join(', ')})`;
+    case 'binary': case 'compare': case 'logic': return `(${show(e.left)} ${e.op} ${show(e.right)})`;
+  }
 }

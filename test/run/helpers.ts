@@ -9,23 +9,8 @@ import { runPlan, type RunOptions } from '../../engine/run/run-plan';
 import type { RunResult } from '../../engine/result';
 import type { Diagnostic } from '../../parser/plan';
 
-/** Deterministic standard normal values: mulberry32 uniforms + Box–Muller. */
-export function normals(seed: number, count: number): number[] {
-  let a = seed >>> 0;
-  const uniform = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const out: number[] = [];
-  while (out.length < count) {
-    const u = uniform() || 1e-12;
-    out.push(Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * uniform()));
-  }
-  return out;
-}
+/** Seeded standard normal values (shared test generator), re-exported for the runner tests. */
+export { normals } from '../fixtures/random';
 
 const made: string[] = [];
 // Registered in the root suite of each test file that imports this module.

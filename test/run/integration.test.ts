@@ -233,7 +233,7 @@ predict g at x = 1`, dir);
     expect(A.stop.converged && B.stop.converged).toBe(true);
     expect(B.parameters[1].estimate).toBeCloseTo(1.98, 10); // by hand: Sxy/Sxx = 9.9/5
     expect(C.stop.code).toBe('failed');
-    expect(C.stop.message).toContain('1 usable rows for 2 free parameters');
+    expect(C.stop.message).toContain('1 usable row for 2 free parameters');
     expect(C.warnings.map((w) => w.code)).toContain('few_dof');
     expect(A.warnings.map((w) => w.code)).toContain('rows_dropped');
     expect(result.expectations.map((x) => [x.group, x.passed])).toEqual([['A', true], ['B', true], ['C', false]]);

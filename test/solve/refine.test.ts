@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import { PivotedQR } from '../../engine/linalg/qr';
 import { refineLeastSquares } from '../../engine/solve/refine';
-import { rng } from '../linalg/random';
+import { rng } from '../fixtures/random';
 
 /** Integer matrix with nearly dependent columns, integer truth, exact right-hand side. */
 function consistentSystem(seed: number) {

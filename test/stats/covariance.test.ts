@@ -1,7 +1,8 @@
 import { describe, it, expect } from 'vitest';
 import { Matrix, inverse, SingularValueDecomposition } from 'ml-matrix';
 import { unscaledCovariance, standardErrors, scaledCovariance } from '../../engine/stats/covariance';
-import { rng, randomMatrix, toRows } from '../linalg/random';
+import { randomMatrix, toRows } from '../linalg/random';
+import { rng } from '../fixtures/random';
 
 describe('engine/stats/covariance unscaledCovariance', () => {
   const next = rng(2024);

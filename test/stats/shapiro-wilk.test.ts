@@ -1,24 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { shapiroWilk, shapiroWilkCoefficients, shapiroWilkPValue } from '../../engine/stats/shapiro-wilk';
+import { normals } from '../fixtures/random';
 
-/** Deterministic normal samples: mulberry32 uniforms + Box–Muller (common practice). */
-function normals(seed: number, count: number): number[] {
-  let a = seed >>> 0;
-  const uniform = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const out: number[] = [];
-  while (out.length < count) {
-    const u = uniform() || 1e-12;
-    const v = uniform();
-    out.push(Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v));
-  }
-  return out;
-}
 
 describe('stats/shapiro-wilk', () => {
   it('coefficients match the Shapiro–Wilk (1965) table within Royston accuracy', () => {

@@ -20,7 +20,7 @@ function batches(k: number): FitResult[] {
 /** Batch `i` failed before solving (a group with one usable row). */
 function withFailure(fits: FitResult[], i: number): FitResult[] {
   const out = [...fits];
-  out[i] = { ...out[i], stop: { code: 'failed', message: 'fit cal has 1 usable rows for 2 free parameters', converged: false } };
+  out[i] = { ...out[i], stop: { code: 'failed', message: 'fit cal has 1 usable row for 2 free parameters', converged: false } };
   return out;
 }
 
@@ -55,7 +55,7 @@ describe('views/groups', () => {
     expect(text).toMatch(/Across converged groups\n.*median +Q1 +Q3 +IQR +groups/);
     const slopes = fits.filter((f) => f.stop.converged).map((f) => f.parameters[1].estimate);
     expect(text).toMatch(new RegExp(`\\n {4}slope +\\S+ +\\S+ +\\S+ +\\S+ +${slopes.length}\\n`));
-    expect(text).toContain('Worst groups\n    b04: failed - failed: fit cal has 1 usable rows');
+    expect(text).toContain('Worst groups\n    b04: failed - failed: fit cal has 1 usable row for');
   });
 
   it('with more than 5 groups prints a full block only for flagged groups, worst first', () => {

@@ -9,7 +9,8 @@
 import { readFileSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { loadDataFile, parseCsvText } from '../../../engine/data';
-import { compare, gaussian, measure, rng } from '../harness';
+import { compare, measure } from '../harness';
+import { gaussian, rng } from '../../fixtures/random';
 import { fmt, type BenchRow } from '../report';
 import type { BenchContext } from './context';
 

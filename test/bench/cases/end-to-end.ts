@@ -8,7 +8,8 @@
 import { compileModel } from '../../../engine/compile';
 import { runFit } from '../../../engine/run';
 import { levenbergMarquardt, modelProblem } from '../../../engine/solve';
-import { gaussian, measure, rng } from '../harness';
+import { measure } from '../harness';
+import { gaussian, rng } from '../../fixtures/random';
 import { fitData, logistic4, LOGISTIC_MODEL, modelSpec } from '../data';
 import { fmt, type BenchRow } from '../report';
 import type { BenchContext } from './context';
