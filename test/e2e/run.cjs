@@ -116,6 +116,9 @@ async function quickInput(page, keys, text, rowText, next) {
   const work = fs.mkdtempSync(path.join(os.tmpdir(), 'leastwise-e2e-'));
   const ws = path.join(work, 'cooling');
   fs.cpSync(path.join(repo, 'samples', 'cooling'), ws, { recursive: true });
+  // Workspace setting for the fit-on-save step at the end (nothing before it saves the spec).
+  fs.mkdirSync(path.join(ws, '.vscode'));
+  fs.writeFileSync(path.join(ws, '.vscode', 'settings.json'), JSON.stringify({ 'leastwise.fitOnSave': true }, null, 2) + '\n');
   const specText = fs.readFileSync(path.join(ws, 'cooling.lsq'), 'utf8');
   const specLines = specText.split(/\r?\n/);
   const sigmaLine = specLines.findIndex((l) => /^\s*sigma\s+temp_sd\s*$/.test(l)) + 1;
@@ -278,6 +281,19 @@ async function quickInput(page, keys, text, rowText, next) {
     const scaffold = await waitForFile(path.join(ws, 'cooling-2.lsq'), (t) => /^fit /m.test(t) && t.endsWith('\n'));
     await page.locator('.editor-group-container .monaco-editor .view-lines', { hasText: 'on cooling' }).first().waitFor();
     check('new spec scaffolded from the CSV and opened', /fit \w+ on cooling/.test(scaffold) && scaffold.includes('temp_C'), scaffold.split('\n').find((l) => l.startsWith('fit ')));
+
+    // leastwise.fitOnSave (workspace setting): add an expectation that cannot hold, save, and the
+    // fit re-runs by itself: the status bar reports the failed expectation.
+    await page.locator('.tab', { hasText: 'cooling.lsq' }).first().click();
+    await page.locator('.tab.active', { hasText: 'cooling.lsq' }).first().waitFor();
+    const specEditor = page.locator('.editor-group-container .monaco-editor', { hasText: 'fit newton on bench' }).first();
+    await specEditor.locator('.view-lines').click();
+    await page.keyboard.press('Control+End');
+    await page.keyboard.type('\nexpect newton.tau below 1\n');
+    await page.keyboard.press('Control+S');
+    await waitForFile(path.join(ws, 'cooling.lsq'), (t) => t.includes('expect newton.tau below 1'));
+    await page.locator('.statusbar-item', { hasText: /1 expectation failed/ }).first().waitFor();
+    check('fit on save re-ran the fit and the status bar shows the failed expectation', true);
   } catch (e) {
     failed = true;
     check('no exception while driving VS Code', false, String(e.message).split('\n')[0]);
