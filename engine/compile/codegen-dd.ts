@@ -12,7 +12,7 @@
  *   (t, c, n, outHi, outLo, jacHi, jacLo); jac*[j·n + i] = ∂f/∂θⱼ at row i.
  */
 import { Graph } from './graph';
-import { literal, ident, UNARY_MEMBER, BINARY_MEMBER, COMPARE_JS } from './emit';
+import { literal, ident, rowKernel, UNARY_MEMBER, BINARY_MEMBER, COMPARE_JS } from './emit';
 import { MATH_HELPERS } from './codegen';
 import { DD_OUT, ddAdd, ddSub, ddMul, ddDiv, ddSqrt, ddPowInt } from '../linalg/dd';
 
@@ -103,15 +103,7 @@ export function kernelSourceDD(g: Graph, value: number, derivatives: readonly nu
     const at = j === 0 ? 'i' : `${ident('o', j)} + i`;
     body.push(`jacHi[${at}] = ${hi(g, d)};`, `jacLo[${at}] = ${lo(g, d)};`);
   });
-  return [
-    '"use strict";',
-    'return function (t, c, n, outHi, outLo, jacHi, jacLo) {',
-    ...head.map((s) => '  ' + s),
-    '  for (let i = 0; i < n; i++) {',
-    ...body.map((s) => '    ' + s),
-    '  }',
-    '};',
-  ].join('\n');
+  return rowKernel('t, c, n, outHi, outLo, jacHi, jacLo', head, body);
 }
 
 export type KernelDD = (

@@ -7,7 +7,7 @@
  * are hoisted out of the row loop. The loop allocates nothing.
  */
 import { Graph, UNARY_IMPL, BINARY_IMPL } from './graph';
-import { literal, ident, UNARY_MEMBER, BINARY_MEMBER, COMPARE_JS } from './emit';
+import { literal, ident, rowKernel, UNARY_MEMBER, BINARY_MEMBER, COMPARE_JS } from './emit';
 
 /** The helper object injected into generated code as `M` (frozen, fixed members). */
 export const MATH_HELPERS: Readonly<Record<string, (...a: number[]) => number>> = Object.freeze({
@@ -130,15 +130,7 @@ export function kernelSource(g: Graph, roots: KernelRoots): string {
   derivs.forEach((_, j) => { if (j > 0) head.push(`const ${ident('o', j)} = n * ${literal(j)};`); });
   if (roots.value !== undefined) body.push(`out[i] = ${ref(g, roots.value)};`);
   derivs.forEach((d, j) => body.push(`jac[${j === 0 ? 'i' : `${ident('o', j)} + i`}] = ${ref(g, d)};`));
-  return [
-    '"use strict";',
-    'return function (t, c, n, out, jac) {',
-    ...head.map((s) => '  ' + s),
-    '  for (let i = 0; i < n; i++) {',
-    ...body.map((s) => '    ' + s),
-    '  }',
-    '};',
-  ].join('\n');
+  return rowKernel('t, c, n, out, jac', head, body);
 }
 
 export type Kernel = (t: Float64Array, c: readonly Float64Array[], n: number, out: Float64Array, jac: Float64Array) => void;

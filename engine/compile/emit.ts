@@ -11,6 +11,23 @@ import type { UnaryFn, BinaryFn } from './graph';
 const LITERAL = /^-?(?:\d+(?:\.\d*)?|\.\d+)(?:e[+-]?\d+)?$/;
 
 /** JavaScript source for the finite number `v` (exact: String() round-trips doubles). */
+/**
+ * The source of a generated row kernel: `head` statements run once, `body`
+ * statements once per row i < n. `params` is the parameter list of the
+ * returned function (fixed identifiers only, never user text).
+ */
+export function rowKernel(params: string, head: readonly string[], body: readonly string[]): string {
+  return [
+    '"use strict";',
+    `return function (${params}) {`,
+    ...head.map((s) => '  ' + s),
+    '  for (let i = 0; i < n; i++) {',
+    ...body.map((s) => '    ' + s),
+    '  }',
+    '};',
+  ].join('\n');
+}
+
 export function literal(v: number): string {
   if (typeof v !== 'number' || !Number.isFinite(v)) throw new RangeError('only finite numbers can be emitted');
   if (Object.is(v, -0)) return '(-0)';
