@@ -6,6 +6,7 @@
  * Cancellation: the shared cancel flag is set first (the solvers read it once
  * per iteration and stop with `stop.code = 'cancelled'`); if the worker has
  * not answered `CANCEL_GRACE_MS` (default 1500 ms) later it is terminated.
+ * The outcome says which happened (`how`), for the log and the tests.
  * No vscode import: the extension wraps this in a progress notification.
  */
 import { Worker } from 'node:worker_threads';
@@ -18,7 +19,13 @@ export const CANCEL_GRACE_MS = 1500;
 
 export type RunOutcome =
   | { kind: 'done'; result: RunResult }
-  | { kind: 'cancelled' }
+  /**
+   * `stopped`: the engine saw the flag and answered with what it had (`partial`: fits
+   * or groups not finished carry stop code `cancelled`); `terminated`: the worker was
+   * ended after the grace period.
+   */
+  | { kind: 'cancelled'; how: 'stopped'; partial: RunResult }
+  | { kind: 'cancelled'; how: 'terminated' }
   | { kind: 'crashed'; message: string };
 
 export interface RunJob {
@@ -26,6 +33,8 @@ export interface RunJob {
   options: RunPlanJobOptions;
   /** Called with `done` of `total` units (fits or groups). */
   onProgress?: (done: number, total: number) => void;
+  /** Wait after a cancel before terminating the worker, in ms (default CANCEL_GRACE_MS). */
+  graceMs?: number;
 }
 
 /** A cancellation source shaped like vscode.CancellationToken (subset). */
@@ -50,7 +59,7 @@ export function runInWorker(workerPath: string, job: RunJob, cancel?: CancelSign
     const sub = cancel?.onCancellationRequested(() => {
       cancelled = true;
       setCancelled(flag);
-      grace = setTimeout(() => finish({ kind: 'cancelled' }), CANCEL_GRACE_MS);
+      grace = setTimeout(() => finish({ kind: 'cancelled', how: 'terminated' }), job.graceMs ?? CANCEL_GRACE_MS);
     });
     const finish = (outcome: RunOutcome): void => {
       if (settled) return;
@@ -63,11 +72,11 @@ export function runInWorker(workerPath: string, job: RunJob, cancel?: CancelSign
     worker.on('message', (msg: unknown) => {
       if (!isWorkerResponse(msg) || msg.id !== 1) return;
       if (msg.kind === 'progress') job.onProgress?.(msg.done, msg.total);
-      else if (msg.kind === 'runPlanDone') finish(cancelled ? { kind: 'cancelled' } : { kind: 'done', result: msg.result });
+      else if (msg.kind === 'runPlanDone') finish(cancelled ? { kind: 'cancelled', how: 'stopped', partial: msg.result } : { kind: 'done', result: msg.result });
       else if (msg.kind === 'error') finish({ kind: 'crashed', message: msg.message });
     });
     worker.on('error', (e) => finish({ kind: 'crashed', message: e instanceof Error ? e.message : String(e) }));
-    worker.on('exit', (code) => finish(cancelled ? { kind: 'cancelled' } : { kind: 'crashed', message: `the fit worker exited (code ${code}) before answering` }));
+    worker.on('exit', (code) => finish(cancelled ? { kind: 'cancelled', how: 'terminated' } : { kind: 'crashed', message: `the fit worker exited (code ${code}) before answering` }));
     const request: WorkerRequest = { kind: 'runPlan', id: 1, plan: job.plan, options: job.options, cancelFlag: flag };
     worker.postMessage(request);
     if (cancel?.isCancellationRequested) {

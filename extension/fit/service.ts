@@ -86,7 +86,7 @@ export async function fitDocument(ctx: LwContext, doc: vscode.TextDocument, req:
     );
     if (outcome.kind === 'cancelled') {
       ctx.runs.notify(doc.uri, 'cancelled', 'cancelled');
-      ctx.log.info(`fit of ${doc.uri.fsPath} cancelled after ${Date.now() - started} ms`);
+      ctx.log.info(`fit of ${doc.uri.fsPath} cancelled after ${Date.now() - started} ms (${outcome.how === 'stopped' ? 'the solver stopped' : 'the worker was terminated'})`);
       return undefined;
     }
     if (outcome.kind === 'crashed') {

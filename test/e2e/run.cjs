@@ -9,8 +9,11 @@
 // run "Leastwise: Fit This File" from the command palette -> wait for the
 // parameter table and the drawn charts inside the two nested webview iframes
 // -> hover a parameter for its estimate -> screenshot -> export the Markdown
-// report -> scaffold a new spec from the CSV (QuickPicks: x, y, model). No
-// sleeps: every step waits for a condition. Last line: "N passed, N failed"; exit 1 on failure.
+// report -> scaffold a new spec from the CSV (QuickPicks: x, y, model) ->
+// fit on save -> cancel a long fit from its progress notification
+// (cancel.cjs) -> then a second server with Workspace Trust on for the
+// Restricted Mode checks (restricted.cjs). No sleeps: every step waits for a
+// condition. Last line: "N passed, N failed"; exit 1 on failure.
 //
 // Env: VSCODE_WEB_TOOLS, VSCODE_WEB_HOME (recipe cache), CHROMIUM
 // (default /usr/bin/chromium), E2E_OUT (screenshots, default
@@ -20,84 +23,14 @@
 const fs = require('fs');
 const os = require('os');
 const path = require('path');
-const net = require('net');
-const { spawnSync, execFileSync } = require('child_process');
 
 const repo = path.resolve(__dirname, '..', '..');
 const tools = path.resolve(process.env.VSCODE_WEB_TOOLS || path.join(repo, '..', 'shared', 'tools', 'vscode-web'));
 const home = process.env.VSCODE_WEB_HOME || path.join(os.homedir(), '.cache', 'vscode-web');
 const outDir = path.resolve(process.env.E2E_OUT || path.join(repo, 'test', 'artifacts', 'e2e'));
-const t0 = Date.now();
-const secs = (from) => ((Date.now() - from) / 1000).toFixed(1);
-
-const results = [];
-function check(name, ok, detail) {
-  results.push({ name, ok });
-  console.log(`${ok ? 'ok  ' : 'FAIL'} ${name}${detail ? ` — ${detail}` : ''} (${secs(t0)}s)`);
-  return ok;
-}
-function finish(code) {
-  const passed = results.filter((r) => r.ok).length;
-  const failed = results.length - passed;
-  console.log(`end-to-end total ${secs(t0)}s`);
-  console.log(`${passed} passed, ${failed} failed`);
-  process.exit(failed || code ? 1 : 0);
-}
-
-/**
- * Resolves with the file's text once it exists and `complete(text)` holds
- * (checked on each change in its folder: a file may be created before it is written).
- */
-function waitForFile(file, complete, timeoutMs = 60000) {
-  return new Promise((resolve, reject) => {
-    const dir = path.dirname(file);
-    const done = () => {
-      let text;
-      try {
-        text = fs.readFileSync(file, 'utf8');
-      } catch {
-        return;
-      }
-      if (!complete(text)) return;
-      clearTimeout(timer);
-      watcher.close();
-      resolve(text);
-    };
-    const watcher = fs.watch(dir, () => done());
-    const timer = setTimeout(() => { watcher.close(); reject(new Error(`${file} did not appear complete`)); }, timeoutMs);
-    done();
-  });
-}
-
-function freePort() {
-  return new Promise((resolve) => {
-    const s = net.createServer().listen(0, '127.0.0.1', () => {
-      const { port } = s.address();
-      s.close(() => resolve(port));
-    });
-  });
-}
-
-function run(label, cmd, args, opts = {}) {
-  const t = Date.now();
-  const r = spawnSync(cmd, args, { encoding: 'utf8', ...opts });
-  const ok = r.status === 0;
-  check(`${label} (${secs(t)}s)`, ok, ok ? '' : `${(r.stderr || r.stdout || String(r.error || '')).trim().split('\n').slice(-5).join(' | ')}`);
-  return r;
-}
-
-// Quick input (Ctrl+P / F1 / Ctrl+G): type, wait for a matching row (if any), accept.
-// `next`: the title of the quick input the accepted item opens (the widget is reused,
-// so it never hides); without it, wait until the widget is hidden.
-async function quickInput(page, keys, text, rowText, next) {
-  if (keys) await page.keyboard.press(keys);
-  await page.locator('.quick-input-widget .quick-input-box input').waitFor({ state: 'visible' });
-  await page.keyboard.type(text, { delay: 10 });
-  if (rowText) await page.locator('.quick-input-widget .monaco-list-row', { hasText: rowText }).first().waitFor({ state: 'visible', timeout: 30000 });
-  await page.keyboard.press('Enter');
-  if (next) await page.locator('.quick-input-widget .quick-input-title', { hasText: next }).waitFor();
-  else await page.locator('.quick-input-widget').waitFor({ state: 'hidden' });
-}
+const { secs, check, anyFailed, finish, waitForFile, freePort, run, quickInput, startRecipeServer, openBrowser, webviewFrame } = require('./harness.cjs');
+const { restrictedMode } = require('./restricted.cjs');
+const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
 
 (async () => {
   fs.mkdirSync(outDir, { recursive: true });
@@ -124,56 +57,27 @@ async function quickInput(page, keys, text, rowText, next) {
   const sigmaLine = specLines.findIndex((l) => /^\s*sigma\s+temp_sd\s*$/.test(l)) + 1;
   if (!check('sample spec has a `sigma temp_sd` line', sigmaLine > 0, `line ${sigmaLine}`)) return finish(1);
 
-  // 4. code-server with the .vsix installed
+  // A slow per-group job for the cancel step (written into the workspace, never into samples/).
+  writeSlowJob(ws);
+
+  // 4. code-server with the .vsix installed (the recipe's start.sh: Workspace Trust off)
   const state = path.join(work, 'state');
-  const port = await freePort();
   const tStart = Date.now();
-  let env;
+  let server;
   try {
-    const out = execFileSync(path.join(tools, 'start.sh'), ['--port', String(port), '--workspace', ws, '--extension', vsix, '--state', state], {
-      encoding: 'utf8', env: { ...process.env, VSCODE_WEB_HOME: home }, stdio: ['ignore', 'pipe', 'pipe'],
-    });
-    env = Object.fromEntries(out.trim().split('\n').map((l) => /^(\w+)='?(.*?)'?$/.exec(l)).filter(Boolean).map((m) => [m[1], m[2]]));
+    server = startRecipeServer({ tools, home, port: await freePort(), workspace: ws, vsix, state });
   } catch (e) {
     check('code-server started', false, String(e.stderr || e.message).split('\n').slice(-5).join(' | '));
     return finish(1);
   }
-  check(`code-server started (${secs(tStart)}s)`, Boolean(env.VSCODE_WEB_URL), env.VSCODE_WEB_URL);
-
-  const { chromium } = require(path.join(repo, 'node_modules', 'playwright-core'));
-  const scratch = fs.mkdtempSync(path.join(os.tmpdir(), 'leastwise-e2e-chromium-'));
-  const browser = await chromium.launch({
-    executablePath: process.env.CHROMIUM || '/usr/bin/chromium',
-    headless: process.env.HEADED !== '1',
-    env: { ...process.env, XDG_CONFIG_HOME: scratch, XDG_CACHE_HOME: scratch },
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
-      '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage',
-      '--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE localhost, EXCLUDE 127.0.0.1'],
-  });
-  const context = await browser.newContext({ viewport: { width: 1600, height: 960 } });
-  const page = await context.newPage();
-  page.setDefaultTimeout(60000);
-  const pageErrors = [];
-  page.on('pageerror', (e) => pageErrors.push(e.message));
-  // Requests to other hosts. Webview resources use https://*.vscode-resource.vscode-cdn.net
-  // URLs that the webview's service worker answers locally; those never touch the network.
-  const external = new Set();
-  const isLocal = (u) => ['127.0.0.1', 'localhost'].includes(u.hostname);
-  context.on('requestfinished', async (r) => {
-    const u = new URL(r.url());
-    if (!/^https?:$/.test(u.protocol) || isLocal(u)) return;
-    const res = await r.response().catch(() => null);
-    if (!res || !res.fromServiceWorker()) external.add(u.host);
-  });
-  context.on('requestfailed', (r) => {
-    const u = new URL(r.url());
-    if (/^https?:$/.test(u.protocol) && !isLocal(u)) external.add(u.host);
-  });
+  check(`code-server started (${secs(tStart)}s)`, true, server.url);
+  const browser = await openBrowser(repo);
+  const { page, pageErrors, external } = browser;
 
   let failed = false;
   const tDrive = Date.now();
   try {
-    await page.goto(env.VSCODE_WEB_URL);
+    await page.goto(server.url);
     await page.locator('.monaco-workbench').waitFor();
     await page.locator('.explorer-folders-view .monaco-list-row', { hasText: 'cooling.lsq' }).waitFor();
     check('workbench loaded with the sample workspace', true);
@@ -219,7 +123,7 @@ async function quickInput(page, keys, text, rowText, next) {
     await page.keyboard.press('Control+1');
     await quickInput(page, 'F1', 'Leastwise: Fit This File', 'Leastwise: Fit This File');
     check('"Leastwise: Fit This File" ran from the command palette', true);
-    const frame = page.frameLocator('iframe.webview.ready').frameLocator('#active-frame');
+    const frame = webviewFrame(page);
     await frame.locator('table.lw-params tbody tr[data-param="tau"]').waitFor({ timeout: 90000 });
     const params = await frame.locator('table.lw-params tbody tr').evaluateAll((trs) => trs.map((tr) => tr.getAttribute('data-param')));
     check('results panel shows the parameter table', params.join(',') === 'rise,tau', params.join(','));
@@ -294,6 +198,9 @@ async function quickInput(page, keys, text, rowText, next) {
     await waitForFile(path.join(ws, 'cooling.lsq'), (t) => t.includes('expect newton.tau below 1'));
     await page.locator('.statusbar-item', { hasText: /1 expectation failed/ }).first().waitFor();
     check('fit on save re-ran the fit and the status bar shows the failed expectation', true);
+
+    // cancel a running fit from its progress notification
+    await cancelRunningFit(page, path.join(state, 'user-data', 'logs'));
   } catch (e) {
     failed = true;
     check('no exception while driving VS Code', false, String(e.message).split('\n')[0]);
@@ -303,10 +210,12 @@ async function quickInput(page, keys, text, rowText, next) {
   check('no uncaught errors in the workbench page', pageErrors.length === 0, pageErrors.slice(0, 3).join(' | '));
   check('nothing reached outside 127.0.0.1', external.size === 0, [...external].join(', '));
   await browser.close();
-  fs.rmSync(scratch, { recursive: true, force: true });
+  server.stop();
 
-  spawnSync(path.join(tools, 'start.sh'), ['--stop', state], { stdio: 'ignore', env: { ...process.env, VSCODE_WEB_HOME: home } });
-  const anyFail = failed || results.some((r) => !r.ok);
+  // 5. Restricted Mode: a second server with Workspace Trust on
+  if (!(await restrictedMode({ repo, home, vsix, work, outDir }))) failed = true;
+
+  const anyFail = failed || anyFailed();
   if (anyFail || process.env.KEEP === '1') {
     const logs = path.join(state, 'user-data', 'logs');
     console.log(`kept ${work} (server log ${path.join(state, 'code-server.log')}, extension host logs under ${logs})`);

@@ -1,27 +1,88 @@
 /**
  * The fit runner against the real engine worker (engine/worker.ts bundled
  * here like build.mjs does): a sample spec runs to a result, an
- * already-cancelled run ends as cancelled, and a missing worker file is a
- * crash value, not an exception.
+ * already-cancelled run ends as cancelled, a run cancelled while it fits
+ * stops through the shared flag (the solver sees it and answers), a worker
+ * that never answers is terminated after the grace period, and a missing
+ * worker file is a crash value, not an exception.
+ *
+ * The long jobs are gradient descent with a large iteration limit: about
+ * 20 s (per-group job) and several minutes (single fit) on this machine if
+ * nothing stopped them. The graces given are far above the time the flag
+ * needs (one solver iteration), so `how` tells which mechanism ended the run,
+ * not how fast.
  */
 import { build } from 'esbuild';
-import { mkdirSync, readFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { analyze, hasErrors } from '../../parser';
 import { readHeaderFile } from '../../engine/data';
-import { runInWorker } from '../../extension/fit/runner';
+import { runInWorker, type CancelSignal } from '../../extension/fit/runner';
+import { gaussian, rng } from '../fixtures/random';
 
 const ROOT = resolve(__dirname, '..', '..');
 const OUT = join(ROOT, 'test', 'artifacts', 'extension', 'worker-build');
 const WORKER = join(OUT, 'worker.js');
 const SPEC = join(ROOT, 'samples', 'cooling', 'cooling.lsq');
 
-function job() {
-  const text = readFileSync(SPEC, 'utf8');
-  const a = analyze(text, { headers: (_n, p) => readHeaderFile(join(dirname(SPEC), p))?.headers });
+function job(spec = SPEC) {
+  const text = readFileSync(spec, 'utf8');
+  const a = analyze(text, { headers: (_n, p) => readHeaderFile(join(dirname(spec), p))?.headers });
   expect(hasErrors(a.diagnostics)).toBe(false);
-  return { plan: a.plan, options: { baseDir: dirname(SPEC), specText: text, specPath: SPEC } };
+  return { plan: a.plan, options: { baseDir: dirname(spec), specText: text, specPath: spec } };
+}
+
+/** A cancel source the test fires itself (vscode.CancellationTokenSource's shape). */
+function cancelSource(): CancelSignal & { cancel(): void } {
+  const listeners: (() => void)[] = [];
+  let requested = false;
+  return {
+    get isCancellationRequested() {
+      return requested;
+    },
+    onCancellationRequested(l) {
+      listeners.push(l);
+      return { dispose() {} };
+    },
+    cancel() {
+      if (requested) return;
+      requested = true;
+      for (const l of listeners) l();
+    },
+  };
+}
+
+/** Writes decay data (`groups` batches of 60 rows) and a slow gradient-descent spec; returns the spec path. */
+function slowSpec(dir: string, groups: number, perBatch: boolean): string {
+  const noise = gaussian(rng(11));
+  const rows = ['batch,x,y'];
+  for (let g = 0; g < groups; g++) {
+    for (let i = 0; i < 60; i++) {
+      const x = i / 6;
+      rows.push(`b${String(g).padStart(3, '0')},${x},${((2 + (g % 5)) * Math.exp(-0.3 * x) + 0.5 + 0.01 * noise()).toFixed(5)}`);
+    }
+  }
+  writeFileSync(join(dir, 'batches.csv'), rows.join('\n') + '\n');
+  const spec = join(dir, perBatch ? 'per-batch.lsq' : 'single.lsq');
+  writeFileSync(
+    spec,
+    [
+      'data runs = "batches.csv"',
+      'fit decay on runs {',
+      '  model y = a * exp(-k * x) + c',
+      '  param a = 1',
+      '  param k = 1',
+      '  param c = 0',
+      '  method gradient_descent',
+      `  iterations ${perBatch ? 50000 : 100000000}`,
+      perBatch ? '  per batch' : '',
+      '}',
+      '',
+    ].join('\n'),
+  );
+  return spec;
 }
 
 const never = { isCancellationRequested: false, onCancellationRequested: () => ({ dispose() {} }) };
@@ -46,7 +107,59 @@ describe('extension/fit/runner', () => {
 
   it('ends a run cancelled before it started as cancelled', async () => {
     const outcome = await runInWorker(WORKER, job(), already);
-    expect(outcome.kind).toBe('cancelled');
+    expect(outcome.kind === 'cancelled' && outcome.how).toBe('stopped');
+  });
+
+  it('stops a per-group run cancelled after its first group through the shared flag', async () => {
+    const spec = slowSpec(mkdtempSync(join(tmpdir(), 'leastwise-cancel-')), 200, true);
+    const source = cancelSource();
+    const progress: [number, number][] = [];
+    const outcome = await runInWorker(
+      WORKER,
+      {
+        ...job(spec),
+        graceMs: 60_000,
+        onProgress: (d, t) => {
+          progress.push([d, t]);
+          if (d >= 1) source.cancel();
+        },
+      },
+      source,
+    );
+    expect(outcome.kind === 'cancelled' && outcome.how).toBe('stopped');
+    if (outcome.kind !== 'cancelled' || outcome.how !== 'stopped') return;
+    expect(progress[0]).toEqual([1, 200]);
+    // Groups fitted before the flag keep their results; the run names where the cancel caught it
+    // (engine/run/run-plan.ts leaves out the groups not started).
+    const fitted = outcome.partial.fits;
+    expect(fitted.length).toBeGreaterThan(0);
+    expect(fitted.length).toBeLessThan(200);
+    expect(outcome.partial.errors.some((e) => e.code === 'cancelled' && e.fit === 'decay')).toBe(true);
+  });
+
+  it('stops a single long fit inside the solver when cancelled', async () => {
+    const spec = slowSpec(mkdtempSync(join(tmpdir(), 'leastwise-cancel-')), 1, false);
+    const source = cancelSource();
+    // No progress arrives within one fit; cancel once the worker has had time to start solving.
+    setTimeout(() => source.cancel(), 500);
+    const outcome = await runInWorker(WORKER, { ...job(spec), graceMs: 60_000 }, source);
+    expect(outcome.kind === 'cancelled' && outcome.how).toBe('stopped');
+    if (outcome.kind !== 'cancelled' || outcome.how !== 'stopped') return;
+    const [fit] = outcome.partial.fits;
+    expect(fit.stop.code).toBe('cancelled');
+    expect(fit.stop.converged).toBe(false);
+    expect(fit.iterations).toBeGreaterThan(0); // it was solving when the flag came
+  });
+
+  it('terminates a worker that does not answer a cancel within the grace period', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'leastwise-deaf-'));
+    const deaf = join(dir, 'deaf-worker.js');
+    // A worker that takes the request and never answers (a solver stuck outside its iteration loop).
+    writeFileSync(deaf, "require('node:worker_threads').parentPort.on('message', () => {});\n");
+    const source = cancelSource();
+    const pending = runInWorker(deaf, { ...job(), graceMs: 50 }, source);
+    source.cancel();
+    expect(await pending).toEqual({ kind: 'cancelled', how: 'terminated' });
   });
 
   it('turns a missing worker script into a crash value', async () => {

@@ -1,0 +1,81 @@
+// Cancelling a running fit from its progress notification in a real VS Code.
+// The job: 400 batches of 60 rows, each fitted by gradient descent with a
+// 100,000-iteration limit (about 70 s on two cores if nothing stopped it).
+// The driver waits until the notification reports at least one finished
+// batch (so the fit is running, not starting), presses Cancel, and waits for
+// the status bar to say the fit was cancelled and for the extension's log to
+// say the solver stopped (extension/fit/runner.ts: the worker answered the
+// cancel flag rather than being terminated).
+'use strict';
+const fs = require('fs');
+const path = require('path');
+const { check, quickInput, until } = require('./harness.cjs');
+
+const BATCHES = 400;
+
+/** Writes slow.lsq and batches.csv into `dir` (invented decay data, deterministic). */
+function writeSlowJob(dir) {
+  const rows = ['batch,x,y'];
+  for (let g = 0; g < BATCHES; g++) {
+    for (let i = 0; i < 60; i++) {
+      const x = i / 6;
+      const y = (2 + (g % 5)) * Math.exp(-0.3 * x) + 0.5 + 0.01 * Math.sin(7 * i + g);
+      rows.push(`b${String(g).padStart(3, '0')},${x},${y.toFixed(5)}`);
+    }
+  }
+  fs.writeFileSync(path.join(dir, 'batches.csv'), rows.join('\n') + '\n');
+  fs.writeFileSync(path.join(dir, 'slow.lsq'), [
+    '# A deliberately slow job for the cancel check: gradient descent per batch.',
+    'data runs = "batches.csv"',
+    'fit decay on runs {',
+    '  model y = a * exp(-k * x) + c',
+    '  param a = 1',
+    '  param k = 1',
+    '  param c = 0',
+    '  method gradient_descent',
+    '  iterations 100000',
+    '  per batch',
+    '}',
+    '',
+  ].join('\n'));
+}
+
+/** Newest file named like the extension's log channel under the server's log folder, or null. */
+function findExtensionLog(logsDir) {
+  const found = [];
+  const walk = (d) => {
+    for (const e of fs.readdirSync(d, { withFileTypes: true })) {
+      const p = path.join(d, e.name);
+      if (e.isDirectory()) walk(p);
+      else if (/Leastwise\.log$/.test(e.name)) found.push(p);
+    }
+  };
+  if (fs.existsSync(logsDir)) walk(logsDir);
+  return found.sort((a, b) => fs.statSync(b).mtimeMs - fs.statSync(a).mtimeMs)[0] ?? null;
+}
+
+async function cancelRunningFit(page, logsDir) {
+  await quickInput(page, 'Control+P', 'slow.lsq', 'slow.lsq');
+  const editor = page.locator('.editor-group-container .monaco-editor', { hasText: 'fit decay on runs' }).first();
+  await editor.locator('.view-lines').waitFor();
+  await quickInput(page, 'F1', 'Leastwise: Fit This File', 'Leastwise: Fit This File');
+  const toast = page.locator('.notification-toast', { hasText: 'Leastwise: fitting slow.lsq' }).first();
+  await toast.waitFor();
+  await page.locator('.statusbar-item', { hasText: 'Leastwise: fitting slow.lsq' }).first().waitFor();
+  // running, not starting: at least one batch done
+  await toast.locator('.notification-list-item-message', { hasText: new RegExp(`[1-9]\\d* of ${BATCHES}`) }).waitFor();
+  const progress = (await toast.innerText()).replace(/\s+/g, ' ').trim();
+  check('a long per-group fit shows a progress notification with a count', true, progress.slice(0, 80));
+  await toast.locator('.monaco-button', { hasText: 'Cancel' }).click();
+  await page.locator('.statusbar-item', { hasText: 'Leastwise: cancelled' }).first().waitFor();
+  await toast.waitFor({ state: 'detached' });
+  check('Cancel in the notification ends the fit; the status bar says cancelled', true);
+  // the log channel is flushed to disk asynchronously
+  const line = await until(() => {
+    const log = findExtensionLog(logsDir);
+    return log && fs.readFileSync(log, 'utf8').split('\n').find((l) => /slow\.lsq cancelled after/.test(l));
+  }, `the cancel line in the extension log under ${logsDir}`);
+  check('the solver stopped on the cancel flag (extension log)', /\(the solver stopped\)/.test(line), line.replace(/^.*?\] /, ''));
+}
+
+module.exports = { writeSlowJob, cancelRunningFit };

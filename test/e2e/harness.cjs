@@ -1,0 +1,233 @@
+// Shared pieces of the end-to-end driver (run.cjs): the pass/fail ledger,
+// waiting for files and quick inputs, starting code-server and Chromium.
+// Two ways to start the server:
+//  - startRecipeServer: the shared recipe's start.sh (Workspace Trust off,
+//    as the recipe always starts it);
+//  - startTrustServer: the same steps as start.sh (settings, XDG folders,
+//    .vsix install, own process group, /healthz poll) but with Workspace
+//    Trust on, for the Restricted Mode checks. start.sh passes
+//    --disable-workspace-trust unconditionally, hence this launcher.
+'use strict';
+const fs = require('fs');
+const os = require('os');
+const path = require('path');
+const net = require('net');
+const http = require('http');
+const { spawn, spawnSync, execFileSync } = require('child_process');
+
+const t0 = Date.now();
+const secs = (from) => ((Date.now() - from) / 1000).toFixed(1);
+
+const results = [];
+function check(name, ok, detail) {
+  results.push({ name, ok });
+  console.log(`${ok ? 'ok  ' : 'FAIL'} ${name}${detail ? ` — ${detail}` : ''} (${secs(t0)}s)`);
+  return ok;
+}
+function anyFailed() {
+  return results.some((r) => !r.ok);
+}
+function finish(code) {
+  const passed = results.filter((r) => r.ok).length;
+  const failed = results.length - passed;
+  console.log(`end-to-end total ${secs(t0)}s`);
+  console.log(`${passed} passed, ${failed} failed`);
+  process.exit(failed || code ? 1 : 0);
+}
+
+/**
+ * Resolves with the file's text once it exists and `complete(text)` holds
+ * (checked on each change in its folder: a file may be created before it is written).
+ */
+function waitForFile(file, complete, timeoutMs = 60000) {
+  return new Promise((resolve, reject) => {
+    const dir = path.dirname(file);
+    const done = () => {
+      let text;
+      try {
+        text = fs.readFileSync(file, 'utf8');
+      } catch {
+        return;
+      }
+      if (!complete(text)) return;
+      clearTimeout(timer);
+      watcher.close();
+      resolve(text);
+    };
+    const watcher = fs.watch(dir, () => done());
+    const timer = setTimeout(() => { watcher.close(); reject(new Error(`${file} did not appear complete`)); }, timeoutMs);
+    done();
+  });
+}
+
+/** Resolves with the first truthy value of `probe()`, polled every 200 ms (for files whose name is not known in advance). */
+async function until(probe, what, timeoutMs = 30000) {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const v = probe();
+    if (v) return v;
+    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
+function freePort() {
+  return new Promise((resolve) => {
+    const s = net.createServer().listen(0, '127.0.0.1', () => {
+      const { port } = s.address();
+      s.close(() => resolve(port));
+    });
+  });
+}
+
+function run(label, cmd, args, opts = {}) {
+  const t = Date.now();
+  const r = spawnSync(cmd, args, { encoding: 'utf8', ...opts });
+  const ok = r.status === 0;
+  check(`${label} (${secs(t)}s)`, ok, ok ? '' : `${(r.stderr || r.stdout || String(r.error || '')).trim().split('\n').slice(-5).join(' | ')}`);
+  return r;
+}
+
+// Quick input (Ctrl+P / F1 / Ctrl+G): type, wait for a matching row (if any), accept.
+// `next`: the title of the quick input the accepted item opens (the widget is reused,
+// so it never hides); without it, wait until the widget is hidden.
+async function quickInput(page, keys, text, rowText, next) {
+  if (keys) await page.keyboard.press(keys);
+  await page.locator('.quick-input-widget .quick-input-box input').waitFor({ state: 'visible' });
+  await page.keyboard.type(text, { delay: 10 });
+  if (rowText) await page.locator('.quick-input-widget .monaco-list-row', { hasText: rowText }).first().waitFor({ state: 'visible', timeout: 30000 });
+  await page.keyboard.press('Enter');
+  if (next) await page.locator('.quick-input-widget .quick-input-title', { hasText: next }).waitFor();
+  else await page.locator('.quick-input-widget').waitFor({ state: 'hidden' });
+}
+
+/** The recipe's start.sh (trust off). Returns { url, stop } or throws with start.sh's stderr. */
+function startRecipeServer({ tools, home, port, workspace, vsix, state }) {
+  const out = execFileSync(path.join(tools, 'start.sh'), ['--port', String(port), '--workspace', workspace, '--extension', vsix, '--state', state], {
+    encoding: 'utf8', env: { ...process.env, VSCODE_WEB_HOME: home }, stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  const vars = Object.fromEntries(out.trim().split('\n').map((l) => /^(\w+)='?(.*?)'?$/.exec(l)).filter(Boolean).map((m) => [m[1], m[2]]));
+  if (!vars.VSCODE_WEB_URL) throw new Error(`start.sh printed no URL: ${out}`);
+  return {
+    url: vars.VSCODE_WEB_URL,
+    stop: () => spawnSync(path.join(tools, 'start.sh'), ['--stop', state], { stdio: 'ignore', env: { ...process.env, VSCODE_WEB_HOME: home } }),
+  };
+}
+
+function healthy(port) {
+  return new Promise((resolve) => {
+    http.get({ host: '127.0.0.1', port, path: '/healthz', timeout: 1000 }, (r) => { r.resume(); resolve(r.statusCode === 200); })
+      .on('error', () => resolve(false));
+  });
+}
+
+/**
+ * code-server from the recipe's install with Workspace Trust on (see the file
+ * comment). Same folders and flags as start.sh otherwise; `settings` are
+ * merged into the user settings. Returns { url, stop }.
+ */
+async function startTrustServer({ home, port, workspace, vsix, state, settings = {} }, timeoutMs = 90000) {
+  const entry = path.join(home, 'node_modules', 'code-server', 'out', 'node', 'entry.js');
+  if (!fs.existsSync(entry)) throw new Error(`code-server not installed in ${home} (run the recipe's install.sh)`);
+  const ud = path.join(state, 'user-data');
+  const ed = path.join(state, 'extensions');
+  for (const d of [path.join(ud, 'User'), ed, 'xdg-config', 'xdg-data', 'xdg-cache'].map((d) => path.resolve(state, d))) fs.mkdirSync(d, { recursive: true });
+  fs.writeFileSync(path.join(state, 'config.yaml'), `bind-addr: 127.0.0.1:${port}\nauth: none\ncert: false\n`);
+  fs.writeFileSync(path.join(ud, 'User', 'settings.json'), JSON.stringify({
+    'workbench.startupEditor': 'none',
+    'workbench.tips.enabled': false,
+    'workbench.enableExperiments': false,
+    'workbench.welcomePage.walkthroughs.openOnInstall': false,
+    'security.workspace.trust.enabled': true,
+    'telemetry.telemetryLevel': 'off',
+    'update.mode': 'none',
+    'extensions.autoCheckUpdates': false,
+    'extensions.autoUpdate': false,
+    'extensions.ignoreRecommendations': true,
+    'git.enabled': false,
+    'chat.commandCenter.enabled': false,
+    'editor.accessibilitySupport': 'off',
+    ...settings,
+  }, null, 2));
+  const env = {
+    ...process.env,
+    XDG_CONFIG_HOME: path.join(state, 'xdg-config'),
+    XDG_DATA_HOME: path.join(state, 'xdg-data'),
+    XDG_CACHE_HOME: path.join(state, 'xdg-cache'),
+    EXTENSIONS_GALLERY: '{}', // no marketplace: nothing tries to reach the internet
+  };
+  const args = ['--config', path.join(state, 'config.yaml'), '--bind-addr', `127.0.0.1:${port}`, '--auth', 'none',
+    '--disable-telemetry', '--disable-update-check', '--disable-getting-started-override',
+    '--user-data-dir', ud, '--extensions-dir', ed];
+  const install = spawnSync(process.execPath, [entry, ...args, '--force', '--install-extension', vsix], { encoding: 'utf8', env });
+  if (install.status !== 0) throw new Error(`install of ${vsix} failed: ${(install.stderr || install.stdout).trim().split('\n').slice(-3).join(' | ')}`);
+  const log = fs.openSync(path.join(state, 'code-server.log'), 'w');
+  // detached: own process group, so stop() ends the extension host and the pty host with it
+  const child = spawn(process.execPath, [entry, ...args, '--ignore-last-opened', workspace], { env, detached: true, stdio: ['ignore', log, log] });
+  fs.closeSync(log);
+  let exited = false;
+  child.on('exit', () => { exited = true; });
+  const stop = () => new Promise((resolve) => {
+    if (exited) return resolve();
+    const kill = (sig) => { try { process.kill(-child.pid, sig); } catch { /* gone */ } };
+    const hard = setTimeout(() => kill('SIGKILL'), 10000);
+    child.once('exit', () => { clearTimeout(hard); resolve(); });
+    kill('SIGTERM');
+  });
+  const deadline = Date.now() + timeoutMs;
+  while (!(await healthy(port))) {
+    if (exited) throw new Error(`code-server exited during start (log ${path.join(state, 'code-server.log')})`);
+    if (Date.now() > deadline) { await stop(); throw new Error(`code-server did not answer within ${timeoutMs / 1000}s`); }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  const folder = encodeURIComponent(workspace).replace(/%2F/g, '/');
+  return { url: `http://127.0.0.1:${port}/?folder=${folder}`, stop };
+}
+
+/**
+ * Debian's Chromium through playwright-core (recipe README), a 1600×960 page,
+ * uncaught page errors collected, and every request to a host other than
+ * 127.0.0.1 recorded (webview resources are answered by the webview's service
+ * worker and never touch the network).
+ */
+async function openBrowser(repo) {
+  const { chromium } = require(path.join(repo, 'node_modules', 'playwright-core'));
+  const scratch = fs.mkdtempSync(path.join(os.tmpdir(), 'leastwise-e2e-chromium-'));
+  const browser = await chromium.launch({
+    executablePath: process.env.CHROMIUM || '/usr/bin/chromium',
+    headless: process.env.HEADED !== '1',
+    env: { ...process.env, XDG_CONFIG_HOME: scratch, XDG_CACHE_HOME: scratch },
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
+      '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage',
+      '--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE localhost, EXCLUDE 127.0.0.1'],
+  });
+  const context = await browser.newContext({ viewport: { width: 1600, height: 960 } });
+  const page = await context.newPage();
+  page.setDefaultTimeout(60000);
+  const pageErrors = [];
+  page.on('pageerror', (e) => pageErrors.push(e.message));
+  const external = new Set();
+  const isLocal = (u) => ['127.0.0.1', 'localhost'].includes(u.hostname);
+  context.on('requestfinished', async (r) => {
+    const u = new URL(r.url());
+    if (!/^https?:$/.test(u.protocol) || isLocal(u)) return;
+    const res = await r.response().catch(() => null);
+    if (!res || !res.fromServiceWorker()) external.add(u.host);
+  });
+  context.on('requestfailed', (r) => {
+    const u = new URL(r.url());
+    if (/^https?:$/.test(u.protocol) && !isLocal(u)) external.add(u.host);
+  });
+  const close = async () => {
+    await browser.close();
+    fs.rmSync(scratch, { recursive: true, force: true });
+  };
+  return { page, pageErrors, external, close };
+}
+
+/** The webview's inner frame (two nested iframes: code-server's host frame, then the extension's page). */
+function webviewFrame(page) {
+  return page.frameLocator('iframe.webview.ready').frameLocator('#active-frame');
+}
+
+module.exports = { t0, secs, check, anyFailed, finish, waitForFile, until, freePort, run, quickInput, startRecipeServer, startTrustServer, openBrowser, webviewFrame };
