@@ -56,22 +56,30 @@ export function pointRows(fit: FitResult, maxMarks = MAX_MARKS, by: 'x' | 'fitte
   const p = fit.points;
   const xs = p.x;
   const key = by === 'x' && xs ? xs : p.fitted;
-  const candidates: number[] = [];
-  for (let i = 0; i < p.y.length; i++) {
-    if (finite(p.y[i], p.fitted[i], p.residual[i], key[i])) candidates.push(i);
+  const n = p.y.length;
+  // candidates: rows whose y, fitted, residual and key are finite (flat loop: 1e6-point results)
+  const candidates = new Int32Array(n);
+  let count = 0;
+  for (let i = 0; i < n; i++) {
+    if (Number.isFinite(p.y[i]) && Number.isFinite(p.fitted[i]) && Number.isFinite(p.residual[i]) && Number.isFinite(key[i])) candidates[count++] = i;
   }
-  const keyed = candidates.map((i) => key[i]);
-  const values = candidates.map((i) => p.residual[i]);
-  const kept = keepExtremes(keyed, values, maxMarks).map((k) => candidates[k]);
-  const rows = kept.map((i) => ({
-    row: p.row[i],
-    x: xs ? xs[i] : null,
-    y: p.y[i],
-    fitted: p.fitted[i],
-    residual: p.residual[i],
-    standardized: p.standardized[i],
-  }));
-  return { rows, total: candidates.length, thinned: kept.length < candidates.length };
+  let kept: ArrayLike<number>;
+  if (count === n) kept = keepExtremes(key, p.residual, maxMarks); // the usual case: no copies
+  else {
+    const keyed = new Float64Array(count);
+    const values = new Float64Array(count);
+    for (let k = 0; k < count; k++) {
+      keyed[k] = key[candidates[k]];
+      values[k] = p.residual[candidates[k]];
+    }
+    kept = keepExtremes(keyed, values, maxMarks).map((k) => candidates[k]);
+  }
+  const rows: PointRow[] = new Array(kept.length);
+  for (let k = 0; k < kept.length; k++) {
+    const i = kept[k];
+    rows[k] = { row: p.row[i], x: xs ? xs[i] : null, y: p.y[i], fitted: p.fitted[i], residual: p.residual[i], standardized: p.standardized[i] };
+  }
+  return { rows, total: count, thinned: kept.length < count };
 }
 
 /** Band rows with every entry finite (ends that could not be computed are dropped). */
@@ -101,19 +109,51 @@ export function bandRows(fit: FitResult): BandRow[] {
  */
 export function qqRows(fit: FitResult, maxMarks = MAX_MARKS): Thinned<QqRow> {
   const p = fit.points;
-  const items: { row: number; s: number }[] = [];
-  for (let i = 0; i < p.standardized.length; i++) {
-    if (Number.isFinite(p.standardized[i])) items.push({ row: p.row[i], s: p.standardized[i] });
-  }
-  items.sort((a, b) => a.s - b.s);
-  const n = items.length;
+  const std = p.standardized;
+  let n = 0;
+  for (let i = 0; i < std.length; i++) if (Number.isFinite(std[i])) n++;
+  const sorted = new Float64Array(n);
+  for (let i = 0, k = 0; i < std.length; i++) if (Number.isFinite(std[i])) sorted[k++] = std[i];
+  sorted.sort(); // numeric ascending; a typed-array sort, ~20× faster than sorting {row, s} objects at 1e6
   const positions = keepTails(n, maxMarks);
-  const rows = positions.map((k) => ({
-    row: items[k].row,
+  const at = pointsAtSortedPositions(std, sorted, positions);
+  const rows = positions.map((k, j) => ({
+    row: p.row[at[j]],
     theoretical: normalQuantile((k + 1 - 0.375) / (n + 0.25), 0, 1),
-    standardized: items[k].s,
+    standardized: std[at[j]], // the point's own value (a typed sort puts -0 before 0; a comparator sort keeps them tied)
   }));
   return { rows, total: n, thinned: rows.length < n };
+}
+
+/**
+ * The data index of the point at each sorted position in `positions`, as a
+ * stable sort of the finite points by value would place them: among equal
+ * values (=== , so -0 ties with 0) the j-th in data order takes the j-th
+ * position of that value. One pass over the data, touching only the values at
+ * the wanted positions.
+ */
+function pointsAtSortedPositions(values: ArrayLike<number>, sorted: Float64Array, positions: readonly number[]): number[] {
+  // value -> (occurrence index among equal values, in data order) -> slot in `positions`
+  const wanted = new Map<number, Map<number, number>>();
+  positions.forEach((k, slot) => {
+    const v = sorted[k];
+    let firstOfValue = k;
+    while (firstOfValue > 0 && sorted[firstOfValue - 1] === v) firstOfValue--;
+    let byOccurrence = wanted.get(v);
+    if (!byOccurrence) wanted.set(v, (byOccurrence = new Map()));
+    byOccurrence.set(k - firstOfValue, slot);
+  });
+  const out = new Array<number>(positions.length);
+  const seen = new Map<number, number>();
+  for (let i = 0; i < values.length; i++) {
+    const byOccurrence = wanted.get(values[i]);
+    if (!byOccurrence) continue; // also skips NaN: never a wanted value
+    const occurrence = seen.get(values[i]) ?? 0;
+    seen.set(values[i], occurrence + 1);
+    const slot = byOccurrence.get(occurrence);
+    if (slot !== undefined) out[slot] = i;
+  }
+  return out;
 }
 
 /**
@@ -123,16 +163,24 @@ export function qqRows(fit: FitResult, maxMarks = MAX_MARKS): Thinned<QqRow> {
  * normal density scaled to counts (n · bin width · φ(z)) for comparison.
  */
 export function histogramRows(fit: FitResult): { bins: BinRow[]; curve: CurveRow[]; total: number } {
-  const values = fit.points.standardized.filter((v) => Number.isFinite(v));
-  const n = values.length;
+  const values = fit.points.standardized;
+  let n = 0;
+  let maxAbs = 3;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (!Number.isFinite(v)) continue;
+    n++;
+    if (Math.abs(v) > maxAbs) maxAbs = Math.abs(v);
+  }
   if (n === 0) return { bins: [], curve: [], total: 0 };
   const k = Math.min(40, Math.max(5, Math.ceil(Math.log2(n)) + 1));
-  let maxAbs = 3;
-  for (const v of values) maxAbs = Math.max(maxAbs, Math.abs(v));
   const half = Math.ceil(maxAbs * 2) / 2; // symmetric range, a multiple of 0.5
   const width = (2 * half) / k;
   const counts = new Array<number>(k).fill(0);
-  for (const v of values) counts[Math.min(k - 1, Math.floor((v + half) / width))] += 1;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (Number.isFinite(v)) counts[Math.min(k - 1, Math.floor((v + half) / width))] += 1;
+  }
   const bins = counts.map((count, i) => ({ start: -half + i * width, end: -half + (i + 1) * width, count }));
   const curve: CurveRow[] = [];
   const steps = 120;

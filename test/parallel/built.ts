@@ -43,7 +43,7 @@ export interface Built {
   bench: string;
 }
 
-/** Runs `node build.mjs` and copies dist/worker.js and dist/bench.js (when built) to a fresh temp folder. */
+/** Runs `node build.mjs` and copies dist/worker.js, dist/bench.js and the panel bundle (when built) to a fresh temp folder. */
 export async function buildBundles(): Promise<Built> {
   return withLock(() => {
     execFileSync(process.execPath, ['build.mjs'], { cwd: REPO_ROOT, stdio: 'pipe' });
@@ -54,6 +54,8 @@ export async function buildBundles(): Promise<Built> {
       if (existsSync(from)) copyFileSync(from, to);
       return to;
     };
+    copy('panel.js'); // benchmark 10 serves the page bundle from beside bench.js
+    copy('panel.css');
     return { dir, worker: copy('worker.js'), bench: copy('bench.js') };
   });
 }
