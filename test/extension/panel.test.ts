@@ -196,6 +196,7 @@ describe.skipIf(!haveChromium)('extension/panel page in Chromium', () => {
       mkdirSync(dir, { recursive: true });
       copyFileSync(light, join(dir, 'panel-light.png'));
       copyFileSync(dark, join(dir, 'panel-dark.png'));
+      copyFileSync(join(ARTIFACTS, 'panel-high-contrast.png'), join(dir, 'panel-high-contrast.png'));
     }
   });
 });
