@@ -140,8 +140,9 @@ describe('extension/fit/runner', () => {
   it('stops a single long fit inside the solver when cancelled', async () => {
     const spec = slowSpec(mkdtempSync(join(tmpdir(), 'leastwise-cancel-')), 1, false);
     const source = cancelSource();
-    // No progress arrives within one fit; cancel once the worker has had time to start solving.
-    setTimeout(() => source.cancel(), 500);
+    // No progress arrives within one fit; cancel once the worker has had ample time to start solving
+    // (start-up, a 60-row CSV and compiling take ~0.2 s here; the fit itself would run for hours).
+    setTimeout(() => source.cancel(), 2000);
     const outcome = await runInWorker(WORKER, { ...job(spec), graceMs: 60_000 }, source);
     expect(outcome.kind === 'cancelled' && outcome.how).toBe('stopped');
     if (outcome.kind !== 'cancelled' || outcome.how !== 'stopped') return;
