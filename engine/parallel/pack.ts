@@ -9,6 +9,7 @@
  * data by contract, engine/result.ts) hold no typed arrays of their own, so
  * the round trip is exact: same values, same bits (−0 and NaN included).
  */
+import { toNumberArray } from '../run/number-array';
 
 /** Shorter arrays are left alone (not worth it). */
 export const PACK_MIN_LENGTH = 16;
@@ -40,7 +41,7 @@ export function unpackNumbers<T>(value: T): T {
 }
 
 function unpack(v: unknown): unknown {
-  if (v instanceof Float64Array) return Array.from(v);
+  if (v instanceof Float64Array) return toNumberArray(v);
   if (Array.isArray(v)) {
     for (let i = 0; i < v.length; i++) v[i] = unpack(v[i]);
     return v;

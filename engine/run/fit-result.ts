@@ -8,6 +8,7 @@ import type { FitResult, FitWarning, GoodnessOfFit, ParameterResult, StopReason 
 import type { FitData } from './fit-data';
 import { exprText } from './expr';
 import { isLinearInParameters } from '../compile';
+import { toNumberArray } from './number-array';
 
 export function emptyGoodness(n: number, p: number): GoodnessOfFit {
   return { n, p, dof: n - p, ssr: NaN, rmse: NaN, r2: NaN, adjR2: NaN, chi2: null, chi2Reduced: null, logLikelihood: NaN, aic: NaN, aicc: NaN, bic: NaN, condition: NaN };
@@ -55,16 +56,16 @@ export function failedFit(fit: FitPlan, data: FitData | null, stop: StopReason, 
     goodness: emptyGoodness(n, free),
     residuals: { durbinWatson: null, runs: null, shapiroWilk: null },
     points: {
-      row: data ? Array.from(data.lines) : [],
-      x: data?.x ? Array.from(data.x) : null,
-      y: data ? Array.from(data.y) : [],
+      row: data ? toNumberArray(data.lines) : [],
+      x: data?.x ? toNumberArray(data.x) : null,
+      y: data ? toNumberArray(data.y) : [],
       fitted: new Array<number>(n).fill(NaN),
       residual: new Array<number>(n).fill(NaN),
       standardized: new Array<number>(n).fill(NaN),
       studentized: new Array<number>(n).fill(NaN),
       leverage: new Array<number>(n).fill(NaN),
       cooksDistance: new Array<number>(n).fill(NaN),
-      weight: data?.weights ? Array.from(data.weights) : null,
+      weight: data?.weights ? toNumberArray(data.weights) : null,
     },
     bands: null,
     predictor: data?.predictor ?? fit.blocks[0]?.predictor ?? null,

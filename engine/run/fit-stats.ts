@@ -31,6 +31,7 @@ import { buildCurve } from './curve';
 import { exprText } from './expr';
 import type { FitData } from './fit-data';
 import { expandMatrix, parameterRow } from './fit-result';
+import { numberArrayOf, toNumberArray } from './number-array';
 
 export interface FitStatisticsInput {
   fit: FitPlan;
@@ -156,16 +157,16 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
       goodness,
       residuals,
       points: {
-        row: Array.from(data.lines),
-        x: data.x ? Array.from(data.x) : null,
-        y: Array.from(data.y),
-        fitted: Array.from(fitted),
-        residual: Array.from(data.y, (y, i) => y - fitted[i]),
-        standardized: Array.from(inf.standardized),
-        studentized: Array.from(inf.studentized),
-        leverage: Array.from(inf.leverage),
-        cooksDistance: Array.from(inf.cooksDistance),
-        weight: data.weights ? Array.from(data.weights) : null,
+        row: toNumberArray(data.lines),
+        x: data.x ? toNumberArray(data.x) : null,
+        y: toNumberArray(data.y),
+        fitted: toNumberArray(fitted),
+        residual: numberArrayOf(n, (i) => data.y[i] - fitted[i]),
+        standardized: toNumberArray(inf.standardized),
+        studentized: toNumberArray(inf.studentized),
+        leverage: toNumberArray(inf.leverage),
+        cooksDistance: toNumberArray(inf.cooksDistance),
+        weight: data.weights ? toNumberArray(data.weights) : null,
       },
       bands,
       predictor: data.predictor,
