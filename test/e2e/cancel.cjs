@@ -10,34 +10,13 @@
 const fs = require('fs');
 const path = require('path');
 const { check, quickInput, until } = require('./harness.cjs');
+const { writeSlowJob: writeSlowJobFiles } = require('../fixtures/slow-job.cjs');
 
 const BATCHES = 400;
 
-/** Writes slow.lsq and batches.csv into `dir` (invented decay data, deterministic). */
+/** Writes slow.lsq and batches.csv into `dir` (test/fixtures/slow-job.cjs). */
 function writeSlowJob(dir) {
-  const rows = ['batch,x,y'];
-  for (let g = 0; g < BATCHES; g++) {
-    for (let i = 0; i < 60; i++) {
-      const x = i / 6;
-      const y = (2 + (g % 5)) * Math.exp(-0.3 * x) + 0.5 + 0.01 * Math.sin(7 * i + g);
-      rows.push(`b${String(g).padStart(3, '0')},${x},${y.toFixed(5)}`);
-    }
-  }
-  fs.writeFileSync(path.join(dir, 'batches.csv'), rows.join('\n') + '\n');
-  fs.writeFileSync(path.join(dir, 'slow.lsq'), [
-    '# A deliberately slow job for the cancel check: gradient descent per batch.',
-    'data runs = "batches.csv"',
-    'fit decay on runs {',
-    '  model y = a * exp(-k * x) + c',
-    '  param a = 1',
-    '  param k = 1',
-    '  param c = 0',
-    '  method gradient_descent',
-    '  iterations 100000',
-    '  per batch',
-    '}',
-    '',
-  ].join('\n'));
+  writeSlowJobFiles(dir, { batches: BATCHES, iterations: 100000, perBatch: true });
 }
 
 /** Newest file named like the extension's log channel under the server's log folder, or null. */

@@ -20,7 +20,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { analyze, hasErrors } from '../../parser';
 import { readHeaderFile } from '../../engine/data';
 import { runInWorker, type CancelSignal } from '../../extension/fit/runner';
-import { gaussian, rng } from '../fixtures/random';
+import { writeSlowJob } from '../fixtures/slow-job.cjs';
 
 const ROOT = resolve(__dirname, '..', '..');
 const OUT = join(ROOT, 'test', 'artifacts', 'extension', 'worker-build');
@@ -54,35 +54,10 @@ function cancelSource(): CancelSignal & { cancel(): void } {
   };
 }
 
-/** Writes decay data (`groups` batches of 60 rows) and a slow gradient-descent spec; returns the spec path. */
-function slowSpec(dir: string, groups: number, perBatch: boolean): string {
-  const noise = gaussian(rng(11));
-  const rows = ['batch,x,y'];
-  for (let g = 0; g < groups; g++) {
-    for (let i = 0; i < 60; i++) {
-      const x = i / 6;
-      rows.push(`b${String(g).padStart(3, '0')},${x},${((2 + (g % 5)) * Math.exp(-0.3 * x) + 0.5 + 0.01 * noise()).toFixed(5)}`);
-    }
-  }
-  writeFileSync(join(dir, 'batches.csv'), rows.join('\n') + '\n');
-  const spec = join(dir, perBatch ? 'per-batch.lsq' : 'single.lsq');
-  writeFileSync(
-    spec,
-    [
-      'data runs = "batches.csv"',
-      'fit decay on runs {',
-      '  model y = a * exp(-k * x) + c',
-      '  param a = 1',
-      '  param k = 1',
-      '  param c = 0',
-      '  method gradient_descent',
-      `  iterations ${perBatch ? 50000 : 100000000}`,
-      perBatch ? '  per batch' : '',
-      '}',
-      '',
-    ].join('\n'),
-  );
-  return spec;
+/** The slow gradient-descent job of test/fixtures/slow-job.cjs in a fresh temporary folder; returns the spec path. */
+function slowSpec(batches: number, perBatch: boolean): string {
+  const dir = mkdtempSync(join(tmpdir(), 'leastwise-cancel-'));
+  return writeSlowJob(dir, { batches, iterations: perBatch ? 50000 : 100000000, perBatch, specName: perBatch ? 'per-batch.lsq' : 'single.lsq' });
 }
 
 const never = { isCancellationRequested: false, onCancellationRequested: () => ({ dispose() {} }) };
@@ -111,7 +86,7 @@ describe('extension/fit/runner', () => {
   });
 
   it('stops a per-group run cancelled after its first group through the shared flag', async () => {
-    const spec = slowSpec(mkdtempSync(join(tmpdir(), 'leastwise-cancel-')), 200, true);
+    const spec = slowSpec(200, true);
     const source = cancelSource();
     const progress: [number, number][] = [];
     const outcome = await runInWorker(
@@ -138,10 +113,10 @@ describe('extension/fit/runner', () => {
   });
 
   it('stops a single long fit inside the solver when cancelled', async () => {
-    const spec = slowSpec(mkdtempSync(join(tmpdir(), 'leastwise-cancel-')), 1, false);
+    const spec = slowSpec(2000, false); // 120,000 rows: each descent iteration is two passes over them
     const source = cancelSource();
     // No progress arrives within one fit; cancel once the worker has had ample time to start solving
-    // (start-up, a 60-row CSV and compiling take ~0.2 s here; the fit itself would run for hours).
+    // (start-up, reading the CSV and compiling take ~0.3 s here; the fit itself runs for minutes).
     setTimeout(() => source.cancel(), 2000);
     const outcome = await runInWorker(WORKER, { ...job(spec), graceMs: 60_000 }, source);
     expect(outcome.kind === 'cancelled' && outcome.how).toBe('stopped');
