@@ -6,7 +6,11 @@
  * - `runPlan` (the editor extension): runs a whole plan, reading its data
  *   files, and answers `runPlanDone`.
  * Progress goes out as `progress` messages at most every PROGRESS_MS (and at
- * the end of a job). A job that throws answers `error`; the worker stays up.
+ * the end of a job); a runPlan job also reports the accepted iterations of
+ * the fits it solves itself as `iteration` messages, the first at once and
+ * then at most every ITERATION_MS (a long single fit shows it is moving). A
+ * message posted from inside a solve leaves at once: a worker's postMessage
+ * does not wait for its own event loop. A job that throws answers `error`; the worker stays up.
  */
 import { parentPort } from 'node:worker_threads';
 import { fitGroupList } from './parallel/group-job';
@@ -16,6 +20,8 @@ import { packNumbers } from './parallel/pack';
 
 /** Minimum interval between progress messages, in ms. */
 const PROGRESS_MS = 50;
+/** Minimum interval between iteration messages, in ms. */
+const ITERATION_MS = 250;
 
 function throttled(post: (done: number, total: number) => void): (done: number, total: number) => void {
   let last = 0;
@@ -39,7 +45,13 @@ async function handle(req: WorkerRequest, send: (m: WorkerResponse) => void): Pr
     send({ kind: 'groupsDone', id: req.id, results: packNumbers(results) });
     return;
   }
-  const result = await runPlanJob(req.plan, req.options, cancel, progress);
+  let lastIteration = -Infinity;
+  const result = await runPlanJob(req.plan, req.options, cancel, progress, (it) => {
+    const now = Date.now();
+    if (now - lastIteration < ITERATION_MS) return;
+    lastIteration = now;
+    send({ kind: 'iteration', id: req.id, ...it });
+  });
   send({ kind: 'runPlanDone', id: req.id, result });
 }
 

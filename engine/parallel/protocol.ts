@@ -42,6 +42,8 @@ export type WorkerRequest =
 export type WorkerResponse =
   /** Progress inside a job: `done` of `total` units (groups, or fits for runPlan). */
   | { kind: 'progress'; id: number; done: number; total: number }
+  /** An accepted iteration of a fit the runPlan job solves itself (at most every ITERATION_MS, engine/worker.ts). */
+  | { kind: 'iteration'; id: number; fit: string; group?: string; iteration: number; cost: number }
   | { kind: 'runPlanDone'; id: number; result: RunResult }
   /** Results in the order sent; long number arrays travel packed as Float64Arrays (`pack.ts`: `unpackNumbers` restores them). */
   | { kind: 'groupsDone'; id: number; results: FitResult[] }
@@ -68,6 +70,8 @@ export function isWorkerResponse(x: unknown): x is WorkerResponse {
   switch (x.kind) {
     case 'progress':
       return typeof x.done === 'number' && typeof x.total === 'number';
+    case 'iteration':
+      return typeof x.fit === 'string' && (x.group === undefined || typeof x.group === 'string') && typeof x.iteration === 'number' && typeof x.cost === 'number';
     case 'runPlanDone':
       return isObject(x.result);
     case 'groupsDone':

@@ -30,6 +30,8 @@ export interface RunFitOptions {
   solvers?: Solvers;
   /** Millisecond clock for `elapsedMs` (default performance.now). */
   clock?: () => number;
+  /** Called after each accepted iteration of an iterative solver with the objective (½‖r‖², robust: ½Σc²ρ). */
+  onIteration?: (iteration: number, cost: number) => void;
 }
 
 const failedStop = (message: string): StopReason => ({ code: 'failed', message, converged: false });
@@ -51,7 +53,7 @@ export function runFit(fit: FitPlan, data: FitData, options: RunFitOptions = {})
   if (n < p) return fail(errorText.notEnoughRows(fit.name, n, p), [{ code: 'few_dof', message: warningText.few_dof(n, p) }, ...groupWarnings]);
 
   try {
-    return fitCore(fit, data, solvers, options.cancel, groupWarnings, () => clock() - t0);
+    return fitCore(fit, data, solvers, options, groupWarnings, () => clock() - t0);
   } catch (e) {
     // A compiler, solver or statistics routine rejecting its input (e.g. a loss scale
     // it cannot use) ends this fit only, as a failed result with the reason.
@@ -59,7 +61,7 @@ export function runFit(fit: FitPlan, data: FitData, options: RunFitOptions = {})
   }
 }
 
-function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, cancel: CancelToken | undefined, groupWarnings: FitWarning[], elapsed: () => number): FitResult {
+function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Pick<RunFitOptions, 'cancel' | 'onIteration'>, groupWarnings: FitWarning[], elapsed: () => number): FitResult {
   const { expr, free } = freeModel(fit);
   const freePlans = fit.parameters.filter((p) => !p.fixed);
   const n = data.n;
@@ -80,7 +82,7 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, cancel: CancelTo
   const theta0 = guess.theta.map((v, j) => Math.min(upper[j], Math.max(lower[j], v)));
 
   const problem = modelProblem({ model, columns: data.columns, response: data.y, n, sqrtWeights: sqrtW ?? undefined, lower, upper });
-  const solved = solve(fit, model.linear, problem, theta0, lower, upper, solvers, cancel);
+  const solved = solve(fit, model.linear, problem, theta0, lower, upper, solvers, watch);
   if ('error' in solved) return failedFit(fit, data, failedStop(solved.error), groupWarnings, elapsed());
   const stats = fitStatistics({
     fit,
@@ -120,11 +122,13 @@ function solve(
   lower: Float64Array,
   upper: Float64Array,
   solvers: Solvers,
-  cancel: CancelToken | undefined,
+  watch: Pick<RunFitOptions, 'cancel' | 'onIteration'>,
 ): Solved {
   const o = fit.options;
+  const cancel = watch.cancel;
   const iterative = {
     cancel,
+    ...(watch.onIteration ? { onIteration: watch.onIteration } : {}),
     ...(o.maxIterations !== undefined ? { maxIterations: o.maxIterations } : {}),
     ...(o.tolerance !== undefined ? { ftol: o.tolerance, xtol: o.tolerance, gtol: o.tolerance } : {}),
     ...(o.learningRate !== undefined ? { learningRate: o.learningRate } : {}),

@@ -1,5 +1,5 @@
 /** Plan runner: executes a plan into a RunResult. */
-export { runPlan, runPlanSync, type RunOptions, type RunProgress } from './run-plan';
+export { runPlan, runPlanSync, type RunIteration, type RunOptions, type RunProgress } from './run-plan';
 export { runFit, type RunFitOptions } from './fit';
 export { prepareFitData, sortGroupLabels, type FitData, type FitDataResult, type ColumnCompiler } from './fit-data';
 export { runQueries, type QueryContext } from './queries';

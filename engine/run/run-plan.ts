@@ -45,6 +45,16 @@ export interface RunProgress {
   total: number;
 }
 
+/** An accepted solver iteration of a fit run in this thread (not of groups fitted on worker threads). */
+export interface RunIteration {
+  fit: string;
+  group?: string;
+  /** 1-based, per solver phase (a robust fit restarts the count for its reweighting phase). */
+  iteration: number;
+  /** The solver's objective after the iteration: ½‖r‖² (robust losses: ½Σc²ρ(rᵢ²/c²)). */
+  cost: number;
+}
+
 export interface RunOptions {
   /** Folder that data paths are relative to (the spec file's folder). */
   baseDir: string;
@@ -57,6 +67,8 @@ export interface RunOptions {
   fits?: string[];
   cancel?: CancelToken;
   onProgress?: (progress: RunProgress) => void;
+  /** Each accepted iteration of a fit solved in this thread (long single fits: the editor shows it). */
+  onIteration?: (iteration: RunIteration) => void;
   /** Clock for `startedAt` (default `new Date()`). */
   now?: () => Date;
   /** Solver implementations (default engine/solve). Runs with injected solvers fit every group in this thread. */
@@ -144,7 +156,11 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
         errors.push({ code: 'cancelled', message: `run cancelled before fit ${fit.name}${data.group !== undefined ? ` [${data.group}]` : ''}`, range: fit.range, fit: fit.name });
         break;
       }
-      results.get(fit.name)!.push(runFit(fit, data, { cancel: opts.cancel, solvers: opts.solvers }));
+      const onIteration = opts.onIteration;
+      const watch = onIteration
+        ? { onIteration: (iteration: number, cost: number) => onIteration({ fit: fit.name, ...(data.group !== undefined ? { group: data.group } : {}), iteration, cost }) }
+        : {};
+      results.get(fit.name)!.push(runFit(fit, data, { cancel: opts.cancel, solvers: opts.solvers, ...watch }));
       opts.onProgress?.({ fit: fit.name, ...(data.group !== undefined ? { group: data.group } : {}), done: ++done, total });
       yield;
     }

@@ -12,6 +12,7 @@
 import { Worker } from 'node:worker_threads';
 import type { Plan } from '../../parser/plan';
 import type { RunResult } from '../../engine/result';
+import type { RunIteration } from '../../engine/run';
 import { createCancelFlag, isWorkerResponse, setCancelled, type RunPlanJobOptions, type WorkerRequest } from '../../engine/parallel/protocol';
 
 /** Wait after setting the cancel flag before terminating the worker. */
@@ -33,6 +34,8 @@ export interface RunJob {
   options: RunPlanJobOptions;
   /** Called with `done` of `total` units (fits or groups). */
   onProgress?: (done: number, total: number) => void;
+  /** An accepted iteration of a fit solved in the worker (throttled there). */
+  onIteration?: (info: RunIteration) => void;
   /** Wait after a cancel before terminating the worker, in ms (default CANCEL_GRACE_MS). */
   graceMs?: number;
 }
@@ -72,6 +75,7 @@ export function runInWorker(workerPath: string, job: RunJob, cancel?: CancelSign
     worker.on('message', (msg: unknown) => {
       if (!isWorkerResponse(msg) || msg.id !== 1) return;
       if (msg.kind === 'progress') job.onProgress?.(msg.done, msg.total);
+      else if (msg.kind === 'iteration') job.onIteration?.({ fit: msg.fit, ...(msg.group !== undefined ? { group: msg.group } : {}), iteration: msg.iteration, cost: msg.cost });
       else if (msg.kind === 'runPlanDone') finish(cancelled ? { kind: 'cancelled', how: 'stopped', partial: msg.result } : { kind: 'done', result: msg.result });
       else if (msg.kind === 'error') finish({ kind: 'crashed', message: msg.message });
     });

@@ -9,6 +9,7 @@ import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { LwContext } from '../context';
 import { specDiagnostics } from '../logic/diagnostics';
+import { progressMessage, type FitProgress } from '../logic/progress';
 import { buildPanelModel } from '../panel/model';
 import type { StoredRun } from '../state/runs';
 import { runInWorker } from './runner';
@@ -74,12 +75,20 @@ export async function fitDocument(ctx: LwContext, doc: vscode.TextDocument, req:
       (progress, token) => {
         const sub = token.onCancellationRequested(() => source.cancel());
         let last = 0;
+        const state: FitProgress = { done: 0, total: 0 };
         return runInWorker(workerPath, {
           ...job,
           onProgress: (done, total) => {
             const pct = total > 0 ? (100 * done) / total : 0;
-            progress.report({ message: `${done} of ${total}`, increment: Math.max(0, pct - last) });
+            state.done = done;
+            state.total = total;
+            state.iteration = undefined; // a finished unit: its iterations are over
+            progress.report({ message: progressMessage(state), increment: Math.max(0, pct - last) });
             last = pct;
+          },
+          onIteration: (iteration) => {
+            state.iteration = iteration;
+            progress.report({ message: progressMessage(state) });
           },
         }, source.token).finally(() => sub.dispose());
       },

@@ -5,7 +5,8 @@
 // batch (so the fit is running, not starting), presses Cancel, and waits for
 // the status bar to say the fit was cancelled and for the extension's log to
 // say the solver stopped (extension/fit/runner.ts: the worker answered the
-// cancel flag rather than being terminated).
+// cancel flag rather than being terminated). Then the same rows as one fit
+// (long.lsq): the notification shows its iterations, and Cancel ends it.
 'use strict';
 const fs = require('fs');
 const path = require('path');
@@ -17,6 +18,8 @@ const BATCHES = 400;
 /** Writes slow.lsq and batches.csv into `dir` (test/fixtures/slow-job.cjs). */
 function writeSlowJob(dir) {
   writeSlowJobFiles(dir, { batches: BATCHES, iterations: 100000, perBatch: true });
+  // the same rows as one fit (24,000 rows): no groups, so the notification shows iterations
+  writeSlowJobFiles(dir, { batches: BATCHES, iterations: 100000000, perBatch: false, specName: 'long.lsq' });
 }
 
 /** Newest file named like the extension's log channel under the server's log folder, or null. */
@@ -55,6 +58,19 @@ async function cancelRunningFit(page, logsDir) {
     return log && fs.readFileSync(log, 'utf8').split('\n').find((l) => /slow\.lsq cancelled after/.test(l));
   }, `the cancel line in the extension log under ${logsDir}`);
   check('the solver stopped on the cancel flag (extension log)', /\(the solver stopped\)/.test(line), line.replace(/^.*?\] /, ''));
+
+  // a single long fit: the notification reports its iterations
+  await quickInput(page, 'Control+P', 'long.lsq', 'long.lsq');
+  await page.locator('.tab.active', { hasText: 'long.lsq' }).waitFor();
+  await quickInput(page, 'F1', 'Leastwise: Fit This File', 'Leastwise: Fit This File');
+  const longToast = page.locator('.notification-toast', { hasText: 'Leastwise: fitting long.lsq' }).first();
+  const iterating = longToast.locator('.notification-list-item-message', { hasText: /decay: iteration [\d,]+, objective/ });
+  await iterating.waitFor();
+  await page.locator('.statusbar-item', { hasText: 'Leastwise: fitting long.lsq' }).first().waitFor();
+  check('a long single fit shows its iterations in the notification', true, (await iterating.innerText()).replace(/\s+/g, ' ').slice(0, 100));
+  await longToast.locator('.monaco-button', { hasText: 'Cancel' }).click();
+  await page.locator('.statusbar-item', { hasText: 'Leastwise: cancelled' }).first().waitFor();
+  await longToast.waitFor({ state: 'detached' });
 }
 
 module.exports = { writeSlowJob, cancelRunningFit };

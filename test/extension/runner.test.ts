@@ -8,9 +8,10 @@
  *
  * The long jobs are gradient descent with a large iteration limit: about
  * 20 s (per-group job) and several minutes (single fit) on this machine if
- * nothing stopped them. The graces given are far above the time the flag
- * needs (one solver iteration), so `how` tells which mechanism ended the run,
- * not how fast.
+ * nothing stopped them; each is cancelled on its first progress or iteration
+ * message, i.e. while it runs. The graces given are far above the time the
+ * flag needs (one solver iteration), so `how` tells which mechanism ended the
+ * run, not how fast.
  */
 import { build } from 'esbuild';
 import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
@@ -20,6 +21,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { analyze, hasErrors } from '../../parser';
 import { readHeaderFile } from '../../engine/data';
 import { runInWorker, type CancelSignal } from '../../extension/fit/runner';
+import type { RunIteration } from '../../engine/run';
 import { writeSlowJob } from '../fixtures/slow-job.cjs';
 
 const ROOT = resolve(__dirname, '..', '..');
@@ -112,19 +114,22 @@ describe('extension/fit/runner', () => {
     expect(outcome.partial.errors.some((e) => e.code === 'cancelled' && e.fit === 'decay')).toBe(true);
   });
 
-  it('stops a single long fit inside the solver when cancelled', async () => {
-    const spec = slowSpec(2000, false); // 120,000 rows: each descent iteration is two passes over them
+  it('reports the iterations of a single long fit and stops it inside the solver when cancelled', async () => {
+    const spec = slowSpec(2000, false); // 120,000 rows by gradient descent: minutes if nothing stopped it
     const source = cancelSource();
-    // No progress arrives within one fit; cancel once the worker has had ample time to start solving
-    // (start-up, reading the CSV and compiling take ~0.3 s here; the fit itself runs for minutes).
-    setTimeout(() => source.cancel(), 2000);
-    const outcome = await runInWorker(WORKER, { ...job(spec), graceMs: 60_000 }, source);
+    const seen: RunIteration[] = [];
+    // cancel at the first iteration message: the solver is running
+    const outcome = await runInWorker(WORKER, { ...job(spec), graceMs: 60_000, onIteration: (it) => { seen.push(it); source.cancel(); } }, source);
+    expect(seen.length).toBeGreaterThan(0);
+    expect(seen[0].fit).toBe('decay');
+    expect(seen[0].iteration).toBeGreaterThan(0);
+    expect(Number.isFinite(seen[0].cost)).toBe(true);
     expect(outcome.kind === 'cancelled' && outcome.how).toBe('stopped');
     if (outcome.kind !== 'cancelled' || outcome.how !== 'stopped') return;
     const [fit] = outcome.partial.fits;
     expect(fit.stop.code).toBe('cancelled');
     expect(fit.stop.converged).toBe(false);
-    expect(fit.iterations).toBeGreaterThan(0); // it was solving when the flag came
+    expect(fit.iterations).toBeGreaterThanOrEqual(seen[0].iteration);
   });
 
   it('terminates a worker that does not answer a cancel within the grace period', async () => {

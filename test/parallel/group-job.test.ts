@@ -66,6 +66,10 @@ describe('engine/parallel/protocol', () => {
     expect(isWorkerResponse({ kind: 'groupsDone', id: 2, results: [] })).toBe(true);
     expect(isWorkerResponse({ kind: 'groupsDone', id: '2', results: [] })).toBe(false);
     expect(isWorkerResponse({ kind: 'error', id: 2 })).toBe(false);
+    expect(isWorkerResponse({ kind: 'iteration', id: 2, fit: 'decay', iteration: 7, cost: 0.5 })).toBe(true);
+    expect(isWorkerResponse({ kind: 'iteration', id: 2, fit: 'decay', group: 'b001', iteration: 7, cost: 0.5 })).toBe(true);
+    expect(isWorkerResponse({ kind: 'iteration', id: 2, fit: 'decay', group: 3, iteration: 7, cost: 0.5 })).toBe(false);
+    expect(isWorkerResponse({ kind: 'iteration', id: 2, fit: 'decay', iteration: '7', cost: 0.5 })).toBe(false);
   });
 
   it('reads the shared cancel flag through a token', () => {

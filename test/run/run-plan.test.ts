@@ -65,6 +65,29 @@ describe('run/run-plan runPlan', () => {
     expect(r.expectations.find((e) => 'fit' in e.expectation.target && e.expectation.target.fit === 'two')?.passed).toBe(false);
   });
 
+  it('reports the accepted iterations of an iterative fit, with a falling objective', async () => {
+    const text = `data d = "decay.csv"
+fit d1 on d {
+  model y = a * exp(-k * x)
+  param a = 1
+  param k = 1
+}`;
+    // y = 5·exp(−0.4x) with a small alternating offset, invented
+    writeCsv(dir, 'decay.csv', ['x', 'y'], Array.from({ length: 12 }, (_, i) => [i, 5 * Math.exp(-0.4 * i) + (i % 2 ? 0.01 : -0.01)]));
+    const a = analyze(text);
+    const seen: { fit: string; iteration: number; cost: number }[] = [];
+    const r = runPlanSync(a.plan, { baseDir: dir, specText: text, onIteration: (it) => seen.push(it) });
+    const fit = r.fits[0];
+    expect(fit.stop.converged).toBe(true);
+    expect(seen.length).toBeGreaterThan(1);
+    expect(seen.every((s) => s.fit === 'd1')).toBe(true);
+    expect(seen.map((s) => s.iteration)).toEqual(seen.map((_, i) => i + 1));
+    // Levenberg–Marquardt accepts only steps that lower ½‖r‖² (Moré 1978, common practice)
+    for (let i = 1; i < seen.length; i++) expect(seen[i].cost).toBeLessThan(seen[i - 1].cost);
+    expect(seen.at(-1)!.iteration).toBeLessThanOrEqual(fit.iterations);
+    expect(2 * seen.at(-1)!.cost).toBeCloseTo(fit.goodness.ssr, 12);
+  });
+
   it('reads through an injected reader, relative to baseDir, and records provenance', async () => {
     const asked: string[] = [];
     const r = await runPlan(plan, {
