@@ -11,7 +11,7 @@
  */
 import type { TopLevelSpec } from 'vega-lite';
 import type { FitResult } from '../result';
-import { bandRows, histogramRows, pointRows, prefersLogX, qqRows, type Thinned } from './chart-data';
+import { bandRows, histogramRows, pointRows, prefersLogX, qqRows, type PointRow, type Thinned } from './chart-data';
 import { MAX_MARKS } from './downsample';
 import { formatLevel } from './format';
 import { FONT, PALETTE, type Palette } from './palette';
@@ -92,10 +92,10 @@ function zeroRule(pal: Palette): Json {
 }
 
 /** (a) Data, fitted curve, confidence and prediction bands. */
-function fitChart(fit: FitResult, o: Required<ChartOptions>): ChartSpec | null {
+function fitChart(fit: FitResult, o: ChartContext): ChartSpec | null {
   if (!fit.points.x || !fit.predictor) return null;
   const pal = o.palette;
-  const pts = pointRows(fit, o.maxMarks, 'x');
+  const pts = o.points('x');
   const bands = bandRows(fit);
   const xName = fit.predictor;
   const level = formatLevel(fit.level);
@@ -144,9 +144,9 @@ function fitChart(fit: FitResult, o: Required<ChartOptions>): ChartSpec | null {
 }
 
 /** (a') Observed against fitted values, for models without a single predictor. */
-function observedFittedChart(fit: FitResult, o: Required<ChartOptions>): ChartSpec {
+function observedFittedChart(fit: FitResult, o: ChartContext): ChartSpec {
   const pal = o.palette;
-  const pts = pointRows(fit, o.maxMarks, 'fitted');
+  const pts = o.points('fitted');
   let lo = Infinity;
   let hi = -Infinity;
   for (const r of pts.rows) {
@@ -169,10 +169,10 @@ function observedFittedChart(fit: FitResult, o: Required<ChartOptions>): ChartSp
 }
 
 /** (b) and (c) Residuals against the predictor or against fitted values. */
-function residualChart(fit: FitResult, o: Required<ChartOptions>, against: 'x' | 'fitted'): ChartSpec | null {
+function residualChart(fit: FitResult, o: ChartContext, against: 'x' | 'fitted'): ChartSpec | null {
   if (against === 'x' && (!fit.points.x || !fit.predictor)) return null;
   const pal = o.palette;
-  const pts = pointRows(fit, o.maxMarks, against);
+  const pts = o.points(against);
   const xTitle = against === 'x' ? (fit.predictor as string) : 'fitted value';
   const xEnc = { field: against, type: 'quantitative', title: xTitle, scale: against === 'x' && prefersLogX(pts.rows, []) ? { type: 'log' } : { zero: false } };
   const layers: Json[] = [
@@ -193,7 +193,7 @@ function residualChart(fit: FitResult, o: Required<ChartOptions>, against: 'x' |
 }
 
 /** (d) Normal Q-Q plot of standardized residuals with the line y = x. */
-function qqChart(fit: FitResult, o: Required<ChartOptions>): ChartSpec {
+function qqChart(fit: FitResult, o: ChartContext): ChartSpec {
   const pal = o.palette;
   const qq = qqRows(fit, o.maxMarks);
   let lo = -2;
@@ -218,7 +218,7 @@ function qqChart(fit: FitResult, o: Required<ChartOptions>): ChartSpec {
 }
 
 /** (e) Histogram of standardized residuals with the standard normal curve. */
-function histogramChart(fit: FitResult, o: Required<ChartOptions>): ChartSpec {
+function histogramChart(fit: FitResult, o: ChartContext): ChartSpec {
   const pal = o.palette;
   const h = histogramRows(fit);
   const layers: Json[] = [
@@ -239,12 +239,22 @@ function histogramChart(fit: FitResult, o: Required<ChartOptions>): ChartSpec {
 }
 
 /** All charts for one fit, in display order. */
+/** Chart options with defaults, plus the thinned point rows shared by the charts (by x: the fit and residual charts). */
+type ChartContext = Required<ChartOptions> & { points(by: 'x' | 'fitted'): Thinned<PointRow> };
+
 export function chartSpecs(fit: FitResult, opts: ChartOptions = {}): ChartSpec[] {
-  const o: Required<ChartOptions> = {
+  const maxMarks = opts.maxMarks ?? MAX_MARKS;
+  const thinned = new Map<'x' | 'fitted', Thinned<PointRow>>();
+  const o: ChartContext = {
     width: opts.width ?? 560,
     height: opts.height ?? 320,
-    maxMarks: opts.maxMarks ?? MAX_MARKS,
+    maxMarks,
     palette: opts.palette ?? PALETTE,
+    points(by) {
+      let t = thinned.get(by);
+      if (!t) thinned.set(by, (t = pointRows(fit, maxMarks, by)));
+      return t;
+    },
   };
   const out: (ChartSpec | null)[] = [
     fitChart(fit, o) ?? observedFittedChart(fit, o),
