@@ -3,14 +3,16 @@
  * expressions go through vega-interpreter (`ast: true`), so nothing is
  * compiled with `eval`/`new Function`; vega-embed's and the tooltip's own
  * style sheets are off (page.css styles the tooltip), so no inline style
- * element is injected. Each chart gets `data-marks` (number of drawn mark
- * items) once rendered, which the tests read.
+ * element is injected. Tooltips of point layers are formatted on hover
+ * (tooltips.ts). Each chart gets `data-marks` (number of drawn mark items)
+ * once rendered, which the tests read.
  */
 import embed, { type Result } from 'vega-embed';
 import { expressionInterpreter } from 'vega-interpreter';
 import type { PanelChart } from '../model';
 import { h } from './dom';
 import { themed, themeFont, themePalette } from './theme';
+import { deferredTooltipHandler, deferTooltips } from './tooltips';
 
 export interface ChartEvents {
   /** A data point with a CSV row was clicked. */
@@ -34,13 +36,14 @@ export function chartFigure(chart: PanelChart, maxWidth: number, events: ChartEv
   const el = h('figure', { class: 'lw-chart', data: { chartId: chart.id }, attrs: { 'aria-label': chart.title } }, target);
   const spec = themed(chart.spec, themePalette(), themeFont()) as Record<string, unknown>;
   if (typeof spec.width === 'number' && maxWidth > 0 && spec.width > maxWidth) spec.width = Math.max(240, Math.floor(maxWidth));
+  const tips = deferTooltips(spec); // formatted on hover (tooltips.ts)
   const drawn = embed(target, spec as never, {
     ast: true,
     expr: expressionInterpreter,
     actions: false,
     defaultStyle: false,
     renderer: 'svg',
-    tooltip: { theme: 'custom', disableDefaultStyle: true },
+    tooltip: deferredTooltipHandler(tips, { theme: 'custom', disableDefaultStyle: true }),
     logLevel: 1, // vega.Error
   })
     .then((result) => {
