@@ -13,6 +13,7 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { readHeaderFile } from '../data/index';
 import { resultToJson, runPlan } from '../index';
+import { iterationText } from '../views/progress';
 import type { RunResult } from '../result';
 import type { RunMode } from '../parallel/fit-groups';
 import { runText } from '../views/text';
@@ -109,6 +110,8 @@ export async function fitCommand(argv: string[], io: CliIo): Promise<ExitCode> {
       // with --threads, say how the groups were fitted (on stderr, after the run)
       ...(threads !== undefined && !opts.quiet ? { onGroupMode: (fit: string, mode: RunMode) => modes.push(MSG.groupMode(fit, mode)) } : {}),
       onProgress: (p) => progress.update(MSG.progress(p.group !== undefined ? `${p.fit} [${p.group}]` : p.fit, p.done, p.total)),
+      // a long single fit: its iterations (the line is only drawn on a terminal, throttled)
+      onIteration: (it) => progress.update(MSG.iterating(iterationText(it))),
     });
   } finally {
     progress.done();

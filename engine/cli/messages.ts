@@ -120,5 +120,6 @@ export const MSG = {
   scaffolded: (spec: string, title: string, y: string, x: string) =>
     `wrote ${spec}: ${title} of ${y} against ${x}. Next: leastwise check ${spec}, then leastwise fit ${spec}`,
   internal: (detail: string) => `internal error: ${detail} (please report this with the spec and data)`,
-  progress: (fit: string, done: number, total: number) => `fitted ${fit} (${done + 1} of ${total})`,
+  progress: (fit: string, done: number, total: number) => `fitted ${fit} (${done} of ${total})`,
+  iterating: (what: string) => `fitting ${what}`,
 };

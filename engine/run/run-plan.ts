@@ -40,7 +40,7 @@ import { TOOL_NAME, TOOL_VERSION } from './version';
 export interface RunProgress {
   fit: string;
   group?: string;
-  /** 0-based index of the finished fit run and the total known so far. */
+  /** Fit runs finished so far (1 after the first; groups count one each) and the total known so far. */
   done: number;
   total: number;
 }

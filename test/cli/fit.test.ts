@@ -3,6 +3,8 @@ import { existsSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { EXIT } from '../../engine/cli/io';
 import { runExitCode } from '../../engine/cli/fit';
+import { memoryIo } from '../../engine/cli/io';
+import { runCli } from '../../engine/cli/main';
 import { parseXml } from '../views/xml';
 import { cleanTemp, cli, hasStackTrace, sampleCopy, validateResult } from './helpers';
 import type { RunResult } from '../../engine/result';
@@ -18,6 +20,19 @@ function edit(dir: string, file: string, from: string | RegExp, to: string): voi
 }
 
 describe('cli/fit', () => {
+  it('shows the iterations of a fit on a terminal\'s progress line, then clears it', async () => {
+    const dir = sampleCopy('cooling');
+    // a clock that jumps a second per reading: every update passes the quiet period and the throttle
+    let t = 0;
+    const io = { ...memoryIo(dir, true), now: () => (t += 1000) };
+    const code = await runCli(['fit', 'cooling.lsq'], io);
+    expect(code).toBe(EXIT.ok);
+    const lines = io.err.filter((e) => e.startsWith('\r\x1b[2K') && e.length > 5);
+    expect(lines.some((l) => /fitting newton: iteration 1, objective \d/.test(l))).toBe(true);
+    expect(lines.some((l) => l.endsWith('fitted newton (1 of 1)'))).toBe(true);
+    expect(io.err.filter((e) => e !== '').at(-1)).toBe('\r\x1b[2K'); // cleared at the end
+  });
+
   it('prints a summary and exits 0 when every expectation passes', async () => {
     const r = await cli(sampleCopy('cooling'), 'fit', 'cooling.lsq');
     expect(r.code).toBe(EXIT.ok);

@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { memoryIo } from '../../engine/cli/io';
 import { progressLine } from '../../engine/cli/progress';
+import { MSG } from '../../engine/cli/messages';
+import { iterationText } from '../../engine/views/progress';
 
 describe('cli/progress', () => {
   it('stays silent when stderr is not a terminal', () => {
@@ -24,5 +26,12 @@ describe('cli/progress', () => {
     p.update('two');
     p.done();
     expect(io.err).toEqual(['\r\x1b[2Kone', '\r\x1b[2Ktwo', '\r\x1b[2K']);
+  });
+
+  it('words: finished fits counted from 1, and the iteration of a long fit', () => {
+    expect(MSG.progress('kinetics [A01]', 1, 96)).toBe('fitted kinetics [A01] (1 of 96)');
+    expect(MSG.progress('kinetics [H12]', 96, 96)).toBe('fitted kinetics [H12] (96 of 96)');
+    expect(MSG.iterating(iterationText({ fit: 'decay', iteration: 12345, cost: 0.001234567 }))).toBe('fitting decay: iteration 12,345, objective 0.001235');
+    expect(iterationText({ fit: 'kinetics', group: 'D07', iteration: 3, cost: 2 })).toBe('kinetics [D07]: iteration 3, objective 2');
   });
 });
