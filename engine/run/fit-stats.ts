@@ -3,8 +3,8 @@
  * parameter intervals, goodness of fit, per-point influence, residual
  * diagnostics in predictor order, bands, warnings.
  *
- * Residuals and Jacobian are re-evaluated at the final estimate, so the
- * figures do not depend on what a solver left in its buffers.
+ * Residuals and Jacobian are those the solver returns at the final estimate
+ * (SolveOutcome contract), re-evaluated for robust fits.
  * Covariance scale: s² = SSR/dof when the variance is estimated, 1 when σ is
  * absolute. Robust losses: the covariance is that of the final weighted
  * least-squares step of IRLS (Holland & Welsch 1977, Commun. Statist. A6:813–827),
@@ -55,12 +55,14 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
   const { fit, data, problem, outcome } = input;
   const { n, p } = problem;
   const theta = outcome.theta;
-  const r = new Float64Array(n);
-  problem.residuals(theta, r);
-  // The solvers return J at θ (SolveOutcome contract; bit-identical to a fresh
-  // evaluation, tested in test/solve). Reuse it to keep one n×p array instead of
-  // two; robust fits re-evaluate, since their outcome carries reweighting state.
-  const reuse = !outcome.robustWeights && outcome.jacobian.length === n * p;
+  // The solvers return r and J at θ (SolveOutcome contract; J bit-identical to a
+  // fresh evaluation, r too or, from the linear solver, evaluated in double-double
+  // and so closer to the exact residuals; tested in test/solve). Reusing them saves
+  // a pass over the data and keeps one n×p array instead of two; robust fits
+  // re-evaluate, since their outcome carries reweighting state.
+  const reuse = !outcome.robustWeights && outcome.jacobian.length === n * p && outcome.residuals.length === n;
+  const r = reuse ? outcome.residuals : new Float64Array(n);
+  if (!reuse) problem.residuals(theta, r);
   const jac = reuse ? outcome.jacobian : new Float64Array(n * p);
   if (!reuse && p > 0) problem.jacobian(theta, jac);
 
