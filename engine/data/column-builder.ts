@@ -28,13 +28,7 @@ export class ColumnBuilder {
     this.values[this.length] = x;
     if (Number.isNaN(x) && !isMissingCell(cell)) {
       this.nonNumeric++;
-      if (this.text === null) {
-        this.text = [];
-        for (let i = 0; i < this.length; i++) {
-          const v = this.values[i];
-          this.text.push(Number.isNaN(v) ? '' : String(v));
-        }
-      }
+      this.startText();
     }
     if (this.text !== null) this.text.push(cell.trim());
     this.length++;
@@ -58,6 +52,12 @@ export class ColumnBuilder {
     if (this.length === this.values.length) this.grow();
     this.values[this.length] = NaN;
     this.nonNumeric++;
+    this.startText().push(cell);
+    this.length++;
+  }
+
+  /** The text list, started on the first text cell with the spelling of the cells before it (blank for missing ones). */
+  private startText(): string[] {
     if (this.text === null) {
       this.text = [];
       for (let i = 0; i < this.length; i++) {
@@ -65,8 +65,7 @@ export class ColumnBuilder {
         this.text.push(Number.isNaN(v) ? '' : String(v));
       }
     }
-    this.text.push(cell);
-    this.length++;
+    return this.text;
   }
 
   /** Takes back the last cell added; only for missing (blank) cells, which never switch a column to text. */
