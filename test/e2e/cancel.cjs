@@ -10,7 +10,7 @@
 'use strict';
 const fs = require('fs');
 const path = require('path');
-const { check, quickInput, until } = require('./harness.cjs');
+const { check, quickInput, until, findExtensionLog } = require('./harness.cjs');
 const { writeSlowJob: writeSlowJobFiles } = require('../fixtures/slow-job.cjs');
 
 const BATCHES = 400;
@@ -20,20 +20,6 @@ function writeSlowJob(dir) {
   writeSlowJobFiles(dir, { batches: BATCHES, iterations: 100000, perBatch: true });
   // the same rows as one fit (24,000 rows): no groups, so the notification shows iterations
   writeSlowJobFiles(dir, { batches: BATCHES, iterations: 100000000, perBatch: false, specName: 'long.lsq' });
-}
-
-/** Newest file named like the extension's log channel under the server's log folder, or null. */
-function findExtensionLog(logsDir) {
-  const found = [];
-  const walk = (d) => {
-    for (const e of fs.readdirSync(d, { withFileTypes: true })) {
-      const p = path.join(d, e.name);
-      if (e.isDirectory()) walk(p);
-      else if (/Leastwise\.log$/.test(e.name)) found.push(p);
-    }
-  };
-  if (fs.existsSync(logsDir)) walk(logsDir);
-  return found.sort((a, b) => fs.statSync(b).mtimeMs - fs.statSync(a).mtimeMs)[0] ?? null;
 }
 
 async function cancelRunningFit(page, logsDir) {

@@ -71,6 +71,20 @@ async function until(probe, what, timeoutMs = 30000) {
   }
 }
 
+/** Newest file named like the extension's log channel under the server's log folder, or null. */
+function findExtensionLog(logsDir) {
+  const found = [];
+  const walk = (d) => {
+    for (const e of fs.readdirSync(d, { withFileTypes: true })) {
+      const p = path.join(d, e.name);
+      if (e.isDirectory()) walk(p);
+      else if (/Leastwise\.log$/.test(e.name)) found.push(p);
+    }
+  };
+  if (fs.existsSync(logsDir)) walk(logsDir);
+  return found.sort((a, b) => fs.statSync(b).mtimeMs - fs.statSync(a).mtimeMs)[0] ?? null;
+}
+
 function freePort() {
   return new Promise((resolve) => {
     const s = net.createServer().listen(0, '127.0.0.1', () => {
@@ -230,4 +244,4 @@ function webviewFrame(page) {
   return page.frameLocator('iframe.webview.ready').frameLocator('#active-frame');
 }
 
-module.exports = { t0, secs, check, anyFailed, finish, waitForFile, until, freePort, run, quickInput, startRecipeServer, startTrustServer, openBrowser, webviewFrame };
+module.exports = { t0, secs, check, anyFailed, finish, waitForFile, until, findExtensionLog, freePort, run, quickInput, startRecipeServer, startTrustServer, openBrowser, webviewFrame };

@@ -1,13 +1,16 @@
 // Restricted Mode (Workspace Trust) in a real VS Code: a second code-server
 // with trust on. The user answers the startup question with "No, I don't
 // trust the authors"; editing support works (an error squiggle on a misspelt
-// column, completion of column names); "Fit This File" and "Export Report"
-// refuse with the message from extension/trust.ts and open no results panel;
-// then the user trusts the folder from that message and the same fit runs.
+// column, completion of column names); saving does not fit although the
+// workspace asks for fit on save (a restricted setting, which VS Code hides
+// from extensions in Restricted Mode); "Fit This File" and "Export Report"
+// refuse with the message from
+// extension/trust.ts and open no results panel; then the user trusts the
+// folder from that message and the same fit runs.
 'use strict';
 const fs = require('fs');
 const path = require('path');
-const { check, secs, freePort, quickInput, startTrustServer, openBrowser, webviewFrame } = require('./harness.cjs');
+const { check, secs, freePort, quickInput, startTrustServer, openBrowser, webviewFrame, waitForFile } = require('./harness.cjs');
 
 /** First words of untrustedMessage('fit' | 'export') in extension/trust.ts. */
 const REFUSAL = (action) => `Leastwise does not ${action} in Restricted Mode`;
@@ -15,6 +18,9 @@ const REFUSAL = (action) => `Leastwise does not ${action} in Restricted Mode`;
 async function restrictedMode({ repo, home, vsix, work, outDir }) {
   const ws = path.join(work, 'restricted', 'cooling');
   fs.cpSync(path.join(repo, 'samples', 'cooling'), ws, { recursive: true });
+  // fit on save asked for by the workspace: a restricted setting, ignored until the folder is trusted
+  fs.mkdirSync(path.join(ws, '.vscode'));
+  fs.writeFileSync(path.join(ws, '.vscode', 'settings.json'), JSON.stringify({ 'leastwise.fitOnSave': true }, null, 2) + '\n');
   const specLines = fs.readFileSync(path.join(ws, 'cooling.lsq'), 'utf8').split(/\r?\n/);
   const sigmaLine = specLines.findIndex((l) => /^\s*sigma\s+temp_sd\s*$/.test(l)) + 1;
   const state = path.join(work, 'restricted', 'state');
@@ -64,6 +70,13 @@ async function restrictedMode({ repo, home, vsix, work, outDir }) {
     await page.keyboard.type('sd');
     await editor.locator('.squiggly-error').first().waitFor({ state: 'detached' });
 
+    // save with leastwise.fitOnSave set by the workspace: a restricted setting, so no fit runs (checked
+    // below: the status bar still shows no fit after the refused command, well after a fit would end)
+    await page.keyboard.press('Control+End');
+    await page.keyboard.type('\n# edited in Restricted Mode\n');
+    await page.keyboard.press('Control+S');
+    await waitForFile(path.join(ws, 'cooling.lsq'), (t) => t.includes('# edited in Restricted Mode'));
+
     // fitting refuses with the explanation and opens no panel
     await quickInput(page, 'F1', 'Leastwise: Fit This File', 'Leastwise: Fit This File');
     const toast = page.locator('.notification-toast', { hasText: REFUSAL('fit') }).first();
@@ -71,7 +84,7 @@ async function restrictedMode({ repo, home, vsix, work, outDir }) {
     const webviews = await page.locator('iframe.webview').count();
     check('Restricted Mode: "Fit This File" refuses with the trust message and opens no panel', webviews === 0, `${webviews} webviews`);
     const statusText = (await page.locator('.statusbar-item', { hasText: 'Leastwise' }).first().innerText()).trim();
-    check('Restricted Mode: the status bar shows no fit', !/fitting|fit failed|\d+\/\d+ fit/.test(statusText), statusText);
+    check('Restricted Mode: the status bar shows no fit (none from the command, none from saving with fitOnSave)', !/fitting|fit failed|\d+\/\d+ fit/.test(statusText), statusText);
     await toast.locator('.monaco-button', { hasText: 'Manage Workspace Trust' }).waitFor();
     await page.screenshot({ path: path.join(outDir, 'vscode-restricted.png'), animations: 'disabled' });
     await quickInput(page, 'F1', 'Leastwise: Export Report', 'Leastwise: Export Report');
