@@ -143,9 +143,14 @@ function pointsAtSortedPositions(values: ArrayLike<number>, sorted: Float64Array
     if (!byOccurrence) wanted.set(v, (byOccurrence = new Map()));
     byOccurrence.set(k - firstOfValue, slot);
   });
+  // Pre-filter: a bitmap over a 16-bit hash of each wanted value's bits, so most points
+  // (a few thousand wanted values among a million) skip the Map lookup.
+  const bitmap = new Uint8Array(1 << 16);
+  for (const v of wanted.keys()) bitmap[valueHash16(v)] = 1;
   const out = new Array<number>(positions.length);
   const seen = new Map<number, number>();
   for (let i = 0; i < values.length; i++) {
+    if (bitmap[valueHash16(values[i])] === 0) continue;
     const byOccurrence = wanted.get(values[i]);
     if (!byOccurrence) continue; // also skips NaN: never a wanted value
     const occurrence = seen.get(values[i]) ?? 0;
@@ -154,6 +159,15 @@ function pointsAtSortedPositions(values: ArrayLike<number>, sorted: Float64Array
     if (slot !== undefined) out[slot] = i;
   }
   return out;
+}
+
+const HASH_F64 = new Float64Array(1);
+const HASH_U32 = new Uint32Array(HASH_F64.buffer);
+
+/** 16-bit hash of a double's bits (Fibonacci hashing); -0 and 0 hash alike, as a Map treats them. */
+function valueHash16(v: number): number {
+  HASH_F64[0] = v === 0 ? 0 : v;
+  return Math.imul(HASH_U32[0] ^ Math.imul(HASH_U32[1], 0x85ebca6b), 0x9e3779b1) >>> 16;
 }
 
 /**

@@ -61,7 +61,7 @@ function refHistogramCounts(values: number[]): number[] {
 
 /** A value from a few levels (ties), a free double, or a non-finite entry. */
 const cell = fc.oneof(
-  { weight: 3, arbitrary: fc.constantFrom(-2, -0.5, 0, 0.5, 1.25) },
+  { weight: 3, arbitrary: fc.constantFrom(-2, -0.5, 0, -0, 0.5, 1.25) },
   { weight: 6, arbitrary: fc.double({ min: -5, max: 5, noNaN: true }) },
   { weight: 1, arbitrary: fc.constantFrom(NaN, Infinity, -Infinity) },
 );
