@@ -3,7 +3,8 @@
  * disk, no errors), a cancellable progress notification, the run in the
  * engine's worker (runner.ts), then the result into the run store (which
  * refreshes diagnostics, lenses, status bar and panel). One run per spec at
- * a time: a new run cancels the previous one of the same spec.
+ * a time: a new run cancels the previous one of the same spec, whose outcome
+ * is then only logged (the newer run owns the status bar and the results).
  */
 import * as path from 'node:path';
 import * as vscode from 'vscode';
@@ -93,6 +94,11 @@ export async function fitDocument(ctx: LwContext, doc: vscode.TextDocument, req:
         }, source.token).finally(() => sub.dispose());
       },
     );
+    if (running.get(key) !== source) {
+      // A newer fit of this spec replaced this one (it cancelled this run): its state is the one to show.
+      ctx.log.info(`fit of ${doc.uri.fsPath} replaced by a newer fit after ${Date.now() - started} ms (${outcome.kind})`);
+      return undefined;
+    }
     if (outcome.kind === 'cancelled') {
       ctx.runs.notify(doc.uri, 'cancelled', 'cancelled');
       ctx.log.info(`fit of ${doc.uri.fsPath} cancelled after ${Date.now() - started} ms (${outcome.how === 'stopped' ? 'the solver stopped' : 'the worker was terminated'})`);

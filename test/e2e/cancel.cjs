@@ -54,9 +54,21 @@ async function cancelRunningFit(page, logsDir) {
   await iterating.waitFor();
   await page.locator('.statusbar-item', { hasText: 'Leastwise: fitting long.lsq' }).first().waitFor();
   check('a long single fit shows its iterations in the notification', true, (await iterating.innerText()).replace(/\s+/g, ' ').slice(0, 100));
-  await longToast.locator('.monaco-button', { hasText: 'Cancel' }).click();
+
+  // fitting the same spec again replaces the running fit; the replaced run must not report itself cancelled
+  await quickInput(page, 'F1', 'Leastwise: Fit This File', 'Leastwise: Fit This File');
+  const replaced = await until(() => {
+    const log = findExtensionLog(logsDir);
+    return log && fs.readFileSync(log, 'utf8').split('\n').find((l) => /long\.lsq replaced by a newer fit/.test(l));
+  }, 'the replaced-fit line in the extension log');
+  const toasts = page.locator('.notification-toast', { hasText: 'Leastwise: fitting long.lsq' });
+  await page.waitForFunction(() => document.querySelectorAll('.notification-toast').length === 1);
+  await toasts.first().locator('.notification-list-item-message', { hasText: /iteration/ }).waitFor();
+  const status = (await page.locator('.statusbar-item', { hasText: 'Leastwise' }).first().innerText()).trim();
+  check('fitting a spec again replaces its running fit; the status bar follows the new run', /fitting long\.lsq/.test(status), `${status}; ${replaced.replace(/^.*?\] /, '')}`);
+  await toasts.first().locator('.monaco-button', { hasText: 'Cancel' }).click();
   await page.locator('.statusbar-item', { hasText: 'Leastwise: cancelled' }).first().waitFor();
-  await longToast.waitFor({ state: 'detached' });
+  await toasts.first().waitFor({ state: 'detached' });
 }
 
 module.exports = { writeSlowJob, cancelRunningFit };
