@@ -62,7 +62,8 @@ async function cancelRunningFit(page, logsDir) {
     return log && fs.readFileSync(log, 'utf8').split('\n').find((l) => /long\.lsq replaced by a newer fit/.test(l));
   }, 'the replaced-fit line in the extension log');
   const toasts = page.locator('.notification-toast', { hasText: 'Leastwise: fitting long.lsq' });
-  await page.waitForFunction(() => document.querySelectorAll('.notification-toast').length === 1);
+  // the replaced run's notification is gone, the new run's remains
+  await page.waitForFunction(() => [...document.querySelectorAll('.notification-toast')].filter((t) => t.textContent.includes('Leastwise: fitting long.lsq')).length === 1);
   await toasts.first().locator('.notification-list-item-message', { hasText: /iteration/ }).waitFor();
   const status = (await page.locator('.statusbar-item', { hasText: 'Leastwise' }).first().innerText()).trim();
   check('fitting a spec again replaces its running fit; the status bar follows the new run', /fitting long\.lsq/.test(status), `${status}; ${replaced.replace(/^.*?\] /, '')}`);

@@ -60,6 +60,13 @@ function waitForFile(file, complete, timeoutMs = 60000) {
   });
 }
 
+/** First line of a driver error plus, for a Playwright wait, the locator it waited for. */
+function errorSummary(e) {
+  const lines = String((e && e.message) || e).split('\n');
+  const waiting = lines.find((l) => /waiting for /.test(l));
+  return waiting ? `${lines[0]} (${waiting.trim().replace(/^- /, '')})` : lines[0];
+}
+
 /** Resolves with the first truthy value of `probe()`, polled every 200 ms (for files whose name is not known in advance). */
 async function until(probe, what, timeoutMs = 30000) {
   const deadline = Date.now() + timeoutMs;
@@ -109,7 +116,9 @@ async function quickInput(page, keys, text, rowText, next) {
   if (keys) await page.keyboard.press(keys);
   await page.locator('.quick-input-widget .quick-input-box input').waitFor({ state: 'visible' });
   await page.keyboard.type(text, { delay: 10 });
-  if (rowText) await page.locator('.quick-input-widget .monaco-list-row', { hasText: rowText }).first().waitFor({ state: 'visible', timeout: 30000 });
+  // Enter accepts the focused row: wait until the row we want is the focused one (the list filters
+  // asynchronously; a visible but unfocused match would let Enter pick another row or nothing)
+  if (rowText) await page.locator('.quick-input-widget .monaco-list-row.focused', { hasText: rowText }).first().waitFor({ state: 'visible', timeout: 30000 });
   await page.keyboard.press('Enter');
   if (next) await page.locator('.quick-input-widget .quick-input-title', { hasText: next }).waitFor();
   else await page.locator('.quick-input-widget').waitFor({ state: 'hidden' });
@@ -244,4 +253,4 @@ function webviewFrame(page) {
   return page.frameLocator('iframe.webview.ready').frameLocator('#active-frame');
 }
 
-module.exports = { t0, secs, check, anyFailed, finish, waitForFile, until, findExtensionLog, freePort, run, quickInput, startRecipeServer, startTrustServer, openBrowser, webviewFrame };
+module.exports = { t0, secs, check, anyFailed, finish, errorSummary, waitForFile, until, findExtensionLog, freePort, run, quickInput, startRecipeServer, startTrustServer, openBrowser, webviewFrame };

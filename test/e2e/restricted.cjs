@@ -10,7 +10,7 @@
 'use strict';
 const fs = require('fs');
 const path = require('path');
-const { check, secs, freePort, quickInput, startTrustServer, openBrowser, webviewFrame, waitForFile } = require('./harness.cjs');
+const { check, secs, freePort, quickInput, startTrustServer, openBrowser, webviewFrame, waitForFile, errorSummary } = require('./harness.cjs');
 
 /** First words of untrustedMessage('fit' | 'export') in extension/trust.ts. */
 const REFUSAL = (action) => `Leastwise does not ${action} in Restricted Mode`;
@@ -106,7 +106,7 @@ async function restrictedMode({ repo, home, vsix, work, outDir }) {
     check('after trusting, the same fit runs and the panel shows the parameters', true);
   } catch (e) {
     ok = false;
-    check('no exception while driving VS Code in Restricted Mode', false, String(e.message).split('\n')[0]);
+    check('no exception while driving VS Code in Restricted Mode', false, errorSummary(e));
     await page.screenshot({ path: path.join(outDir, 'vscode-restricted-failure.png') }).catch(() => {});
   }
   check('Restricted Mode run: no uncaught errors in the workbench page', browser.pageErrors.length === 0, browser.pageErrors.slice(0, 3).join(' | '));

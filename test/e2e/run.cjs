@@ -28,7 +28,7 @@ const repo = path.resolve(__dirname, '..', '..');
 const tools = path.resolve(process.env.VSCODE_WEB_TOOLS || path.join(repo, '..', 'shared', 'tools', 'vscode-web'));
 const home = process.env.VSCODE_WEB_HOME || path.join(os.homedir(), '.cache', 'vscode-web');
 const outDir = path.resolve(process.env.E2E_OUT || path.join(repo, 'test', 'artifacts', 'e2e'));
-const { secs, check, anyFailed, finish, waitForFile, freePort, run, quickInput, startRecipeServer, openBrowser, webviewFrame } = require('./harness.cjs');
+const { secs, check, anyFailed, finish, waitForFile, freePort, run, quickInput, startRecipeServer, openBrowser, webviewFrame, errorSummary } = require('./harness.cjs');
 const { restrictedMode } = require('./restricted.cjs');
 const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
 
@@ -203,7 +203,7 @@ const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
     await cancelRunningFit(page, path.join(state, 'user-data', 'logs'));
   } catch (e) {
     failed = true;
-    check('no exception while driving VS Code', false, String(e.message).split('\n')[0]);
+    check('no exception while driving VS Code', false, errorSummary(e));
   }
   if (failed) await page.screenshot({ path: path.join(outDir, 'vscode-failure.png') }).catch(() => {});
   console.log(`drive ${secs(tDrive)}s`);
