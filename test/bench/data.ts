@@ -8,6 +8,7 @@ import type { Expr, FitPlan, Plan } from '../../parser/plan';
 import type { FitData } from '../../engine/run';
 import type { LeastSquaresProblem } from '../../engine/solve/problem';
 import { performance } from 'node:perf_hooks';
+import { gaussian, rng } from '../fixtures/random';
 
 export interface ModelSpec {
   plan: Plan;
@@ -60,6 +61,39 @@ export function logistic4(x: number, bottom: number, top: number, ec50: number, 
 }
 
 export const LOGISTIC_MODEL = 'bottom + (top - bottom) / (1 + (x / ec50)^hill)';
+
+/** How `groupedLogisticCsv` draws its invented curves. */
+export interface GroupedLogisticOptions {
+  /** Header line, three columns: group, dose, response. */
+  header: string;
+  /** Group label prefix; labels are the prefix and a 5-digit index. */
+  prefix: string;
+  doses: readonly number[];
+  /** ec50 = ec50Low · 10^(ec50Decades · u), u uniform on [0, 1). */
+  ec50Low: number;
+  ec50Decades: number;
+  /** Seeds of the noise and of the per-group constants. */
+  seeds: [noise: number, constants: number];
+}
+
+/**
+ * CSV text of invented per-group 4PL curves: per group bottom 2–6, top
+ * 90–105, ec50 log-uniform, hill 0.7–1.9, plus N(0, 1.5) noise, three decimals.
+ */
+export function groupedLogisticCsv(groups: number, o: GroupedLogisticOptions): string {
+  const g = gaussian(rng(o.seeds[0]));
+  const u = rng(o.seeds[1]);
+  const lines = [o.header];
+  for (let p = 0; p < groups; p++) {
+    const label = `${o.prefix}${String(p).padStart(5, '0')}`;
+    const bottom = 2 + 4 * u();
+    const top = 90 + 15 * u();
+    const ec50 = o.ec50Low * 10 ** (o.ec50Decades * u());
+    const hill = 0.7 + 1.2 * u();
+    for (const d of o.doses) lines.push(`${label},${d},${(logistic4(d, bottom, top, ec50, hill) + 1.5 * g()).toFixed(3)}`);
+  }
+  return lines.join('\n') + '\n';
+}
 
 export interface Trace {
   /** Residual and Jacobian passes over the data so far. */

@@ -16,8 +16,7 @@ import type { FitResult } from '../../../engine/result';
 import { loadSources } from '../../../engine/run/datasets';
 import { prepareFitData } from '../../../engine/run';
 import { compare, measure } from '../harness';
-import { gaussian, rng } from '../../fixtures/random';
-import { logistic4, LOGISTIC_MODEL } from '../data';
+import { groupedLogisticCsv, LOGISTIC_MODEL } from '../data';
 import { fmt, type BenchRow } from '../report';
 import type { BenchContext } from './context';
 
@@ -25,18 +24,7 @@ const DOSES = [0.01, 0.03, 0.1, 0.3, 1, 3, 10, 30, 100];
 
 /** Invented assay plates: per-plate 4PL constants, N(0, 1.5) noise. */
 export function writePlates(dir: string, plates: number): void {
-  const g = gaussian(rng(17));
-  const u = rng(19);
-  const lines = ['plate,dose,signal'];
-  for (let p = 0; p < plates; p++) {
-    const label = `P${String(p).padStart(5, '0')}`;
-    const bottom = 2 + 4 * u();
-    const top = 90 + 15 * u();
-    const ec50 = 0.2 * 10 ** (1.5 * u());
-    const hill = 0.7 + 1.2 * u();
-    for (const d of DOSES) lines.push(`${label},${d},${(logistic4(d, bottom, top, ec50, hill) + 1.5 * g()).toFixed(3)}`);
-  }
-  writeFileSync(`${dir}/plates.csv`, lines.join('\n') + '\n');
+  writeFileSync(`${dir}/plates.csv`, groupedLogisticCsv(plates, { header: 'plate,dose,signal', prefix: 'P', doses: DOSES, ec50Low: 0.2, ec50Decades: 1.5, seeds: [17, 19] }));
   writeFileSync(
     `${dir}/plates.lsq`,
     ['data plates = "plates.csv"', 'fit hill on plates {', `  model signal = ${LOGISTIC_MODEL.replace(/\bx\b/g, 'dose')}`, '  param bottom = 0', '  param top = 100', '  param ec50 = 1 in [0, inf]', '  param hill = 1', '  per plate', '}', ''].join('\n'),
