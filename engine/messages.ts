@@ -85,6 +85,7 @@ export const inputText = {
     `it is ${({ directory: 'a folder', fifo: 'a named pipe', device: 'a device', socket: 'a socket', other: 'a special file' } as const)[kind]}, not a regular file (only regular files are read)`,
   missing: 'no such file',
   unreadable: (code: string) => `it cannot be opened (${code})`,
+  tooLarge: (maxBytes: number) => `it is larger than ${Math.round(maxBytes / 1024 / 1024)} MB, the most read here`,
 } as const;
 
 /** Refusals of the output guard (engine/io/guard.ts), shared by the CLI and the editor's export. */
@@ -95,6 +96,8 @@ export const outputText = {
   inputName: (input: { role: 'spec' | 'file'; path: string } | { role: 'data'; name: string; path: string }) =>
     input.role === 'data' ? `the data file "${input.path}" (data ${input.name})` : input.role === 'spec' ? 'the spec of this run' : `the file ${input.path} that this command reads`,
   sameTarget: (output: string, first: string, second: string) => `${first} and ${second} would both write ${output}; nothing was written`,
+  /** Where only uris can be compared (file systems other than the local one). */
+  isInputUri: 'refusing to write over the spec or one of its data files; inputs are never written, so nothing was written',
 } as const;
 
 /** Texts of run errors that are not data-file errors. */

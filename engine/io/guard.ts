@@ -27,7 +27,7 @@ export function dataFilePath(written: string, specDir: string): string {
  * The inputs of a spec: the spec file and every data statement of its plan
  * (`data` in plan order), each resolved as the engine resolves it.
  */
-export function declaredInputs(specPath: string, data: readonly Pick<DataSource, 'name' | 'path' | 'range'>[], specDir = dirname(specPath)): InputFile[] {
+export function declaredInputs(specPath: string, data: readonly (Pick<DataSource, 'name' | 'path'> & { range?: Range })[], specDir = dirname(specPath)): InputFile[] {
   return [
     { role: 'spec', path: specPath },
     ...data.map((d): InputFile => ({ role: 'data', path: dataFilePath(d.path, specDir), name: d.name, written: d.path, range: d.range })),

@@ -6,6 +6,6 @@
  * writer of the project goes through this module.
  */
 export { fileIdentity, realLocation, sameFile, type FileIdentity } from './identity';
-export { fileKind, inputStatus, InputError, openInput, openInputSync, readInputHead, readInputHeadSync, readInputSync, type FileKind, type HeadOptions, type InputStatus } from './input';
+export { fileKind, inputStatus, InputError, openInput, openInputSync, readInput, readInputHead, readInputHeadSync, readInputSync, type FileKind, type HeadOptions, type InputStatus } from './input';
 export { clashMessage, dataFilePath, declaredInputs, OutputGuard, type Clash, type InputFile, type OutputTarget } from './guard';
 export { OutputError, OutputStage, TargetExistsError, writeAllOrNothing, type StagedContent, type StageHooks } from './stage';

@@ -177,3 +177,17 @@ export async function readInputHead(path: string, options: HeadOptions): Promise
     await handle.close();
   }
 }
+
+/** The whole content of a regular file, read asynchronously; refuses files larger than `maxBytes` (an InputError, code EFBIG). */
+export async function readInput(path: string, maxBytes = Infinity): Promise<Buffer> {
+  const handle = await openInput(path);
+  try {
+    const { size } = await handle.stat();
+    if (size > maxBytes) throw new InputError('EFBIG', inputText.tooLarge(maxBytes));
+    return await handle.readFile();
+  } catch (e) {
+    throw e instanceof InputError ? e : systemError(e);
+  } finally {
+    await handle.close();
+  }
+}
