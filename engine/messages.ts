@@ -95,7 +95,8 @@ export const outputText = {
     `refusing to write ${output} (${what}): it is ${input}${alias ? ' under another name (a link)' : ''}; inputs are never written, so nothing was written`,
   inputName: (input: { role: 'spec' | 'file'; path: string } | { role: 'data'; name: string; path: string }) =>
     input.role === 'data' ? `the data file "${input.path}" (data ${input.name})` : input.role === 'spec' ? 'the spec of this run' : `the file ${input.path} that this command reads`,
-  sameTarget: (output: string, first: string, second: string) => `${first} and ${second} would both write ${output}; nothing was written`,
+  sameTarget: (output: string, first: string, second: string) =>
+    `${first === second ? `two outputs (${first})` : `${first} and ${second}`} would both write ${output}; nothing was written`,
   /** Where only uris can be compared (file systems other than the local one). */
   isInputUri: 'refusing to write over the spec or one of its data files; inputs are never written, so nothing was written',
 } as const;

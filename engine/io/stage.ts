@@ -15,7 +15,9 @@
  * same folder removes such files of processes that no longer run.
  *
  * Targets are written where they really are: a target that is a symbolic
- * link is replaced at the link's destination, so the link stays.
+ * link is replaced at the link's destination, so the link stays. A target
+ * that is a device or a named pipe (`/dev/null`, `/dev/stdout`) is never
+ * renamed over: it is opened and written at commit, after the renames.
  *
  * The caller checks the targets against the run's inputs first (guard.ts).
  */
@@ -73,8 +75,30 @@ function processRuns(pid: number): boolean {
   }
 }
 
+/** What an existing target is, when it is not a regular file (or nothing there). */
+function specialTarget(target: string): 'directory' | 'stream' | null {
+  try {
+    const st = statSync(target);
+    return st.isFile() ? null : st.isDirectory() ? 'directory' : 'stream';
+  } catch {
+    return null;
+  }
+}
+
+function writeContent(fd: number, content: StagedContent, onBytes: (total: number) => void): void {
+  let bytes = 0;
+  const write = (chunk: string | Uint8Array): void => {
+    bytes += writeAll(fd, typeof chunk === 'string' ? Buffer.from(chunk, 'utf8') : chunk);
+    onBytes(bytes);
+  };
+  if (typeof content === 'function') content(write);
+  else write(content);
+}
+
 export class OutputStage {
   private readonly staged: Staged[] = [];
+  /** Devices and named pipes, written directly at commit. */
+  private readonly streams: { target: string; content: StagedContent }[] = [];
   /** Folders created by this stage, deepest last (removed on abort when empty). */
   private readonly created: string[] = [];
   private readonly swept = new Set<string>();
@@ -108,6 +132,12 @@ export class OutputStage {
    * Returns the real target path.
    */
   file(target: string, content: StagedContent, options: { exclusive?: boolean } = {}): string {
+    const special = specialTarget(target);
+    if (special === 'directory') throw new OutputError(target, Object.assign(new Error('is a folder'), { code: 'EISDIR' }));
+    if (special === 'stream' && !options.exclusive) {
+      this.streams.push({ target, content });
+      return target;
+    }
     const real = realLocation(target);
     const dir = this.folder(dirname(real));
     this.sweep(dir);
@@ -128,17 +158,13 @@ export class OutputStage {
           /* a file system without modes: the default ones */
         }
       }
-      let bytes = 0;
-      const write = (chunk: string | Uint8Array): void => {
-        bytes += writeAll(fd, typeof chunk === 'string' ? Buffer.from(chunk, 'utf8') : chunk);
+      writeContent(fd, content, (bytes) => {
         const pause = this.hooks.pause;
         if (pause && !this.paused && bytes >= pause.afterBytes) {
           this.paused = true;
           pause.onPause(temp);
         }
-      };
-      if (typeof content === 'function') content(write);
-      else write(content);
+      });
       fsyncSync(fd);
     } catch (e) {
       // a system error writing the file; anything else (a renderer's exception) passes as it is
@@ -178,14 +204,26 @@ export class OutputStage {
       this.abort();
       throw e;
     }
-    const done = this.staged.map((s) => s.target);
+    const done = [...this.staged.map((s) => s.target), ...this.streams.map((s) => s.target)];
     this.staged.length = 0;
     this.created.length = 0;
+    for (const s of this.streams.splice(0)) {
+      let fd: number | undefined;
+      try {
+        fd = openSync(s.target, 'w');
+        writeContent(fd, s.content, () => {});
+      } catch (e) {
+        throw (e as NodeJS.ErrnoException).syscall !== undefined ? new OutputError(s.target, e) : e;
+      } finally {
+        if (fd !== undefined) closeSync(fd);
+      }
+    }
     return done;
   }
 
   /** Remove every temporary file and the folders this stage created (when empty). */
   abort(): void {
+    this.streams.length = 0;
     for (const s of this.staged.splice(0)) {
       try {
         unlinkSync(s.temp);

@@ -190,6 +190,13 @@ describe('output safety (cli)', () => {
     expect(JSON.parse(readFileSync(join(dir, 'out', 'result.json'), 'utf8')).fits).toHaveLength(2);
   });
 
+  it('writes to a device such as /dev/null without replacing it', async () => {
+    const dir = workspace();
+    const r = await cli(dir, 'fit', 'cooling.lsq', '--quiet', '--json', '/dev/null');
+    expect(r.code).toBe(EXIT.ok);
+    expect(statSync('/dev/null').isCharacterDevice()).toBe(true);
+  });
+
   it('keeps the permissions of an output it replaces, and writes through a link to an earlier output', async () => {
     const dir = workspace();
     writeFileSync(join(dir, 'keep.json'), 'old');

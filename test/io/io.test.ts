@@ -4,7 +4,7 @@
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync, linkSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
+import { existsSync, linkSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import {
@@ -12,6 +12,7 @@ import {
   fileIdentity,
   InputError,
   inputStatus,
+  OutputError,
   OutputGuard,
   OutputStage,
   readInputHead,
@@ -131,6 +132,19 @@ describe('engine/io stage', () => {
     expect(readdirSync(d)).toEqual(['taken.lsq']);
     writeAllOrNothing([{ path: join(d, 'free.lsq'), content: 'spec', exclusive: true }]);
     expect(readFileSync(join(d, 'free.lsq'), 'utf8')).toBe('spec');
+  });
+
+  it('writes a device target directly at commit, never renaming over it, and refuses a folder target', () => {
+    const d = temp();
+    const stage = new OutputStage();
+    stage.file('/dev/null', (write) => write('discarded'));
+    stage.file(join(d, 'regular.txt'), 'kept');
+    expect(stage.commit()).toEqual([join(d, 'regular.txt'), '/dev/null']);
+    expect(statSync('/dev/null').isCharacterDevice()).toBe(true);
+    expect(readdirSync('/dev').some((f) => f.includes('.leastwise-'))).toBe(false);
+    mkdirSync(join(d, 'folder'));
+    expect(() => new OutputStage().file(join(d, 'folder'), 'x')).toThrow(OutputError);
+    expect(readdirSync(join(d, 'folder'))).toEqual([]);
   });
 
   it('sweeps temporary files of processes that no longer run, and keeps those of running ones', () => {
