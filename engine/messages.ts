@@ -79,6 +79,28 @@ export const derivedText = {
   noInterval: 'no interval: the fit has no degrees of freedom',
 } as const;
 
+/** Why an input file cannot be read (engine/io/input.ts): only regular files are read. */
+export const inputText = {
+  notRegular: (kind: 'directory' | 'fifo' | 'device' | 'socket' | 'other') =>
+    `it is ${({ directory: 'a folder', fifo: 'a named pipe', device: 'a device', socket: 'a socket', other: 'a special file' } as const)[kind]}, not a regular file (only regular files are read)`,
+  missing: 'no such file',
+  unreadable: (code: string) => `it cannot be opened (${code})`,
+  tooLarge: (maxBytes: number) => `it is larger than ${Math.round(maxBytes / 1024 / 1024)} MB, the most read here`,
+} as const;
+
+/** Refusals of the output guard (engine/io/guard.ts), shared by the CLI and the editor's export. */
+export const outputText = {
+  /** `what` names the output (`--json`, `a chart of --report`, `the export`); `input` comes from `inputName`. */
+  isInput: (output: string, what: string, input: string, alias: boolean) =>
+    `refusing to write ${output} (${what}): it is ${input}${alias ? ' under another name (a link)' : ''}; inputs are never written, so nothing was written`,
+  inputName: (input: { role: 'spec' | 'file'; path: string } | { role: 'data'; name: string; path: string }) =>
+    input.role === 'data' ? `the data file "${input.path}" (data ${input.name})` : input.role === 'spec' ? 'the spec of this run' : `the file ${input.path} that this command reads`,
+  sameTarget: (output: string, first: string, second: string) =>
+    `${first === second ? `two outputs (${first})` : `${first} and ${second}`} would both write ${output}; nothing was written`,
+  /** Where only uris can be compared (file systems other than the local one). */
+  isInputUri: 'refusing to write over the spec or one of its data files; inputs are never written, so nothing was written',
+} as const;
+
 /** Texts of run errors that are not data-file errors. */
 export const errorText = {
   unknownData: (fit: string, data: string) => `fit ${fit} uses data "${data}", which is not declared`,

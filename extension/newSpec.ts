@@ -3,26 +3,42 @@
  * model template (QuickPicks); the spec is written by the shared scaffolder
  * (engine/templates `scaffoldSpec`, the same as the CLI's `new`) into a NEW
  * file next to the CSV (`<csv name>.lsq`, or `-2`, `-3`… when taken) and
- * opened. The CSV itself is only read.
+ * opened. Needs a trusted workspace (it reads a whole data file and writes a
+ * file). The CSV is only read, and only when it is a regular file; a local
+ * spec is written through engine/io (checked against the CSV by file
+ * identity, staged, linked into place only while the name is free).
  */
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import { parseCsvText } from '../engine/data';
+import { clashMessage, OutputGuard, readInput, writeAllOrNothing } from '../engine/io';
 import { scaffoldSpec, TEMPLATES } from '../engine/templates';
 import type { LwContext } from './context';
+import { requireTrust } from './trust';
 
 /** Largest CSV read for scaffolding (starting values need the data). */
 const MAX_CSV_BYTES = 200 * 1024 * 1024;
 
+/** The CSV's text: local files through engine/io (regular files only, asynchronous), others through vscode.workspace.fs. */
+async function readCsv(csv: vscode.Uri): Promise<string> {
+  if (csv.scheme === 'file') return (await readInput(csv.fsPath, MAX_CSV_BYTES)).toString('utf8');
+  const stat = await vscode.workspace.fs.stat(csv);
+  if (!(stat.type & vscode.FileType.File)) throw new Error('it is not a regular file (only regular files are read)');
+  if (stat.size > MAX_CSV_BYTES) throw new Error(`it is larger than ${MAX_CSV_BYTES / 1024 / 1024} MB; write the spec by hand`);
+  return Buffer.from(await vscode.workspace.fs.readFile(csv)).toString('utf8');
+}
+
 export async function newSpecFromCsv(ctx: LwContext, arg?: unknown): Promise<vscode.Uri | undefined> {
+  if (!(await requireTrust('newSpec'))) return undefined;
   const csv = await pickCsv(arg);
   if (!csv) return undefined;
-  const stat = await vscode.workspace.fs.stat(csv);
-  if (stat.size > MAX_CSV_BYTES) {
-    void vscode.window.showErrorMessage(`Leastwise: ${path.posix.basename(csv.path)} is larger than ${MAX_CSV_BYTES / 1024 / 1024} MB; write the spec by hand.`);
+  let text: string;
+  try {
+    text = await readCsv(csv);
+  } catch (e) {
+    void vscode.window.showErrorMessage(`Leastwise: cannot read ${path.posix.basename(csv.path)}: ${e instanceof Error ? e.message : String(e)}`);
     return undefined;
   }
-  const text = Buffer.from(await vscode.workspace.fs.readFile(csv)).toString('utf8');
   const parsed = parseCsvText(text, { file: path.posix.basename(csv.path) });
   if (!parsed.ok) {
     void vscode.window.showErrorMessage(`Leastwise: cannot read ${path.posix.basename(csv.path)}: ${parsed.errors[0]?.message ?? 'unknown error'}`);
@@ -50,7 +66,14 @@ export async function newSpecFromCsv(ctx: LwContext, arg?: unknown): Promise<vsc
     return undefined;
   }
   const target = await freeName(csv);
-  await vscode.workspace.fs.writeFile(target, Buffer.from(result.text, 'utf8'));
+  if (target.scheme === 'file') {
+    const clashes = new OutputGuard([{ role: 'file', path: csv.fsPath }]).check([{ path: target.fsPath, what: 'the new spec' }]);
+    if (clashes.length) {
+      void vscode.window.showErrorMessage(`Leastwise: ${clashMessage(clashes[0], (p) => path.basename(p))}`);
+      return undefined;
+    }
+    writeAllOrNothing([{ path: target.fsPath, content: result.text, exclusive: true }]);
+  } else await vscode.workspace.fs.writeFile(target, Buffer.from(result.text, 'utf8'));
   ctx.log.info(`new spec ${target.fsPath} (${template.id}, ${y.label} against ${x.label})`);
   await vscode.window.showTextDocument(target);
   return target;

@@ -9,10 +9,12 @@
  * Group flags that are not failures (few degrees of freedom, at a bound, poor
  * fit) do not change the exit code.
  */
-import { mkdirSync, writeFileSync } from 'node:fs';
-import { dirname, resolve } from 'node:path';
+import { resolve } from 'node:path';
+import type { Range } from '../../parser/plan';
 import { readHeaderFile } from '../data/index';
-import { resultToJson, runPlan } from '../index';
+import { runPlan } from '../index';
+import { clashMessage, declaredInputs, OutputError, OutputGuard, OutputStage, type Clash, type OutputTarget } from '../io/index';
+import { writeJson } from '../run/json';
 import { iterationText } from '../views/progress';
 import type { RunResult } from '../result';
 import type { RunMode } from '../parallel/fit-groups';
@@ -21,9 +23,9 @@ import { fitLabel } from '../views/summary';
 import { fitSections, shownFitIndices } from '../views/groups';
 import { parseCommandArgs } from './args';
 import { EXIT, type CliIo, type ExitCode } from './io';
-import { displayPath, plainError, runErrorLine } from './locate';
+import { displayPath, located, plainError, runErrorLine } from './locate';
 import { HELP, MSG } from './messages';
-import { groupTablePaths, inputPaths, reportChartDir, writeCharts, writeGroupTables, writeReport, type WrittenChart } from './outputs';
+import { chartTargets, groupTablePaths, reportChartDir, stageCharts, stageGroupTables, stageJson, stageReport, type PlannedChart } from './outputs';
 import { progressLine } from './progress';
 import { checkSpec, diagnosticText, readSpec, type CheckedSpec } from './spec';
 
@@ -97,6 +99,23 @@ export async function fitCommand(argv: string[], io: CliIo): Promise<ExitCode> {
   if (opts.groups !== undefined && grouped.length === 0) return fail(plainError(MSG.noGroupedFit()));
   const groupPaths = opts.groups !== undefined ? groupTablePaths(grouped, resolve(io.cwd, opts.groups)) : new Map<string, string>();
 
+  // Every output, checked against every declared input before the run (chart files, named by the
+  // result, are checked once it is known); nothing is written on a clash.
+  const inputs = declaredInputs(spec.path, spec.plan.data, spec.dir);
+  const guard = new OutputGuard(inputs);
+  const jsonPath = opts.json !== undefined && opts.json !== '-' ? resolve(io.cwd, opts.json) : undefined;
+  const reportPath = opts.report !== undefined ? resolve(io.cwd, opts.report) : undefined;
+  const chartDir = opts.charts !== undefined ? resolve(io.cwd, opts.charts) : reportPath !== undefined ? reportChartDir(reportPath) : undefined;
+  const chartsOf = opts.charts !== undefined ? '--charts' : 'a chart of --report';
+  const before: OutputTarget[] = [
+    ...(jsonPath ? [{ path: jsonPath, what: '--json' }] : []),
+    ...(reportPath ? [{ path: reportPath, what: '--report' }] : []),
+    ...(chartDir ? [{ path: chartDir, what: opts.charts !== undefined ? '--charts' : 'the chart folder of --report' }] : []),
+    ...[...groupPaths.values()].map((path) => ({ path, what: '--groups' })),
+  ];
+  const early = guard.check(before);
+  if (early.length) return refuse(early, spec, io);
+
   const progress = progressLine(io);
   const modes: string[] = [];
   let result: RunResult;
@@ -118,48 +137,57 @@ export async function fitCommand(argv: string[], io: CliIo): Promise<ExitCode> {
   }
   for (const m of modes) io.stderr(m + '\n');
 
-  // Refuse to write over inputs before writing anything.
-  const inputs = inputPaths(result, spec.path);
-  const targets = [opts.json && opts.json !== '-' ? resolve(io.cwd, opts.json) : null, opts.report ? resolve(io.cwd, opts.report) : null, ...groupPaths.values()].filter((p): p is string => p !== null);
-  for (const t of targets) if (inputs.has(t)) return fail(plainError(MSG.wouldOverwriteInput(displayPath(t, io.cwd))));
-
-  const jsonOnly = opts.json === '-';
-  const json = opts.json !== undefined ? resultToJson(result) : '';
-  if (jsonOnly) io.stdout(json.endsWith('\n') ? json : json + '\n');
-  else if (!opts.quiet) io.stdout(runText(result));
-
-  try {
-    if (opts.json !== undefined && !jsonOnly) {
-      const path = resolve(io.cwd, opts.json);
-      mkdirSync(dirname(path), { recursive: true });
-      writeFileSync(path, json.endsWith('\n') ? json : json + '\n');
-      if (!opts.quiet) io.stderr(MSG.wrote('result JSON', displayPath(path, io.cwd)) + '\n');
-    }
-    let charts: WrittenChart[] = [];
-    if (opts.charts !== undefined) {
-      const dir = resolve(io.cwd, opts.charts);
-      charts = await writeCharts(result, dir);
-      if (!opts.quiet) io.stderr(MSG.wrote(`${charts.length} charts`, displayPath(dir, io.cwd)) + '\n');
-    }
-    if (opts.report !== undefined) {
-      const path = resolve(io.cwd, opts.report);
-      if (opts.charts === undefined) {
-        // only the fits the report shows in full (for a per-group fit with many groups: its flagged groups)
-        const dir = reportChartDir(path);
-        charts = await writeCharts(result, dir, new Set(shownFitIndices(fitSections(result))));
-        if (!opts.quiet) io.stderr(MSG.wrote(`${charts.length} charts`, displayPath(dir, io.cwd)) + '\n');
-      }
-      writeReport(result, path, charts, spec.text);
-      if (!opts.quiet) io.stderr(MSG.wrote('report', displayPath(path, io.cwd)) + '\n');
-    }
-    if (opts.groups !== undefined) {
-      for (const written of writeGroupTables(result, groupPaths)) if (!opts.quiet) io.stderr(MSG.wrote('group table', displayPath(written, io.cwd)) + '\n');
-    }
-  } catch (e) {
-    const err = e as NodeJS.ErrnoException;
-    return fail(plainError(MSG.cannotWrite(err.path ?? 'output', err.code ?? err.message)));
+  // The chart files: with --charts every fit's, else only those the report shows in full
+  // (for a per-group fit with many groups: its flagged groups).
+  let charts: PlannedChart[] = [];
+  if (chartDir !== undefined) {
+    charts = chartTargets(result, chartDir, opts.charts !== undefined ? undefined : new Set(shownFitIndices(fitSections(result))));
+    const late = guard.check(charts.map((c) => ({ path: c.path, what: chartsOf })));
+    if (late.length) return refuse(late, spec, io);
   }
+
+  if (opts.json !== '-' && !opts.quiet) io.stdout(runText(result));
+
+  // Stage every file, then commit them together: a failure leaves every earlier file as it was.
+  const stage = new OutputStage(io.writeHooks);
+  const wrote: string[] = [];
+  try {
+    if (jsonPath) {
+      stageJson(stage, result, jsonPath);
+      wrote.push(MSG.wrote('result JSON', displayPath(jsonPath, io.cwd)));
+    }
+    if (chartDir !== undefined) {
+      stage.folder(chartDir);
+      const written = await stageCharts(stage, result, charts);
+      wrote.push(MSG.wrote(`${written.length} charts`, displayPath(chartDir, io.cwd)));
+      if (reportPath) {
+        stageReport(stage, result, reportPath, written, spec.text);
+        wrote.push(MSG.wrote('report', displayPath(reportPath, io.cwd)));
+      }
+    }
+    for (const path of stageGroupTables(stage, result, groupPaths)) wrote.push(MSG.wrote('group table', displayPath(path, io.cwd)));
+    stage.commit();
+  } catch (e) {
+    stage.abort();
+    if (e instanceof OutputError) return fail(plainError(MSG.cannotWrite(displayPath(e.path, io.cwd), e.code)));
+    return fail(plainError(MSG.renderFailed(e instanceof Error ? e.message.split('\n')[0] : String(e))));
+  }
+  if (opts.json === '-') {
+    writeJson(result, io.stdout);
+    io.stdout('\n');
+  }
+  if (!opts.quiet) for (const line of wrote) io.stderr(line + '\n');
 
   io.stderr(problemLines(result, spec, io));
   return runExitCode(result);
+}
+
+/** Print each clash (at the data statement for a data file, else at the option) and exit 2. */
+function refuse(clashes: readonly Clash[], spec: CheckedSpec, io: CliIo): ExitCode {
+  for (const c of clashes) {
+    const message = clashMessage(c, (p) => displayPath(p, io.cwd));
+    const range: Range | undefined = c.kind === 'input' && c.input.role === 'data' ? c.input.range : undefined;
+    io.stderr((range ? located(spec.display, range.start.line, range.start.column, 'error', message) : plainError(message)) + '\n');
+  }
+  return EXIT.inputError;
 }

@@ -4,6 +4,8 @@
  * one from `process`; tests pass a recording one.
  */
 
+import type { StageHooks } from '../io/index';
+
 export interface CliIo {
   stdout(text: string): void;
   stderr(text: string): void;
@@ -13,6 +15,8 @@ export interface CliIo {
   cwd: string;
   /** Clock in milliseconds for progress throttling. Default `Date.now`. */
   now?: () => number;
+  /** Test hooks of the output writer (engine/io/stage.ts); cli.ts sets them from the environment. */
+  writeHooks?: StageHooks;
 }
 
 /** Exit codes of every command. */

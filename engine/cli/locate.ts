@@ -17,9 +17,17 @@ export function displayPath(path: string, cwd: string): string {
   return abs;
 }
 
+/** Control characters, line breaks and line separators (from file names or data) shown as escapes, so a message stays one line and cannot drive the terminal. */
+export function printable(text: string): string {
+  return text.replace(/[\u0000-\u0008\u000a-\u001f\u007f-\u009f\u2028\u2029]/g, (c) => {
+    const named: Record<string, string> = { '\n': '\\n', '\r': '\\r' };
+    return named[c] ?? `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`;
+  });
+}
+
 export function located(file: string, line: number | undefined, column: number | undefined, severity: Severity, message: string): string {
   const where = line === undefined ? file : column === undefined ? `${file}:${line}` : `${file}:${line}:${column}`;
-  return `${where}: ${severity}: ${message}`;
+  return printable(`${where}: ${severity}: ${message}`);
 }
 
 /** One diagnostic line; suggestions are appended unless the message already offers them. */
@@ -66,5 +74,5 @@ export function withoutLocation(message: string, file: string): string {
 
 /** Unlocated error line (command-line problems). */
 export function plainError(message: string): string {
-  return `error: ${message}`;
+  return printable(`error: ${message}`);
 }

@@ -1,11 +1,13 @@
 /**
  * `leastwise new DATA.csv [--x COL --y COL --model ID] [--out FILE]`: write a
  * starter spec from a template with starting values computed from the data.
- * Existing files are never overwritten (the write uses the exclusive flag).
+ * The spec goes through engine/io like every output: checked against the CSV
+ * by file identity, written to a temporary file and linked into place only
+ * when the name is free (existing files are never overwritten).
  */
-import { readFileSync, writeFileSync } from 'node:fs';
 import { basename, dirname, extname, join, relative, resolve, sep } from 'node:path';
 import { parseCsvText, type DataTable } from '../data/index';
+import { clashMessage, OutputError, OutputGuard, readInputSync, TargetExistsError, writeAllOrNothing, type InputError } from '../io/index';
 import { findTemplate, scaffoldSpec, TEMPLATES } from '../templates/index';
 import { closest, parseCommandArgs } from './args';
 import { EXIT, type CliIo, type ExitCode } from './io';
@@ -47,10 +49,9 @@ export async function newCommand(argv: string[], io: CliIo): Promise<ExitCode> {
   const csvDisplay = displayPath(csvPath, io.cwd);
   let text: string;
   try {
-    text = readFileSync(csvPath, 'utf8');
+    text = readInputSync(csvPath).toString('utf8'); // regular files only (engine/io)
   } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    return fail(located(csvDisplay, undefined, undefined, 'error', MSG.cannotRead(code === 'ENOENT' ? 'no such file' : code ?? String(e))));
+    return fail(located(csvDisplay, undefined, undefined, 'error', MSG.cannotRead((e as InputError).message)));
   }
   const parsed = parseCsvText(text, { file: csvDisplay });
   if (!parsed.ok) {
@@ -88,12 +89,13 @@ export async function newCommand(argv: string[], io: CliIo): Promise<ExitCode> {
     return EXIT.ok;
   }
   const outDisplay = displayPath(outPath, io.cwd);
-  if (outPath === csvPath) return fail(plainError(MSG.wouldOverwriteInput(outDisplay)));
+  const clashes = new OutputGuard([{ role: 'file', path: csvPath }]).check([{ path: outPath, what: '--out' }]);
+  if (clashes.length) return fail(plainError(clashMessage(clashes[0], (p) => displayPath(p, io.cwd))));
   try {
-    writeFileSync(outPath, result.text, { flag: 'wx' });
+    writeAllOrNothing([{ path: outPath, content: result.text, exclusive: true }], io.writeHooks);
   } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    return fail(plainError(code === 'EEXIST' ? MSG.exists(outDisplay) : MSG.cannotWrite(outDisplay, code ?? String(e))));
+    if (e instanceof TargetExistsError) return fail(plainError(MSG.exists(outDisplay)));
+    return fail(plainError(MSG.cannotWrite(outDisplay, e instanceof OutputError ? e.code : String(e))));
   }
   io.stdout(MSG.scaffolded(outDisplay, template.title, y, x) + '\n');
   return EXIT.ok;

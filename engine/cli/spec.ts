@@ -2,11 +2,11 @@
  * Reading and checking a spec file for the commands: text, paths, the
  * data-aware parser check (CSV headers read from disk) and located output.
  */
-import { existsSync, readFileSync, statSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { analyze } from '../../parser/index';
 import type { Diagnostic, Plan } from '../../parser/plan';
 import { readHeaderFile } from '../data/index';
+import { dataFilePath, inputStatus, readInputSync, type InputError } from '../io/index';
 import type { CliIo } from './io';
 import { diagnosticLine, displayPath, located, sortDiagnostics } from './locate';
 import { MSG } from './messages';
@@ -33,12 +33,11 @@ export function readSpec(arg: string, io: CliIo): { ok: true; spec: LoadedSpec }
   const path = resolve(io.cwd, arg);
   const display = displayPath(path, io.cwd);
   try {
-    const text = readFileSync(path, 'utf8');
+    // regular files only (engine/io): a named pipe or a device never blocks the read
+    const text = readInputSync(path).toString('utf8');
     return { ok: true, spec: { path, display, dir: dirname(path), text } };
   } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    const detail = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a folder' : code ?? String(e);
-    return { ok: false, line: located(display, undefined, undefined, 'error', MSG.cannotRead(detail)) };
+    return { ok: false, line: located(display, undefined, undefined, 'error', MSG.cannotRead((e as InputError).message)) };
   }
 }
 
@@ -57,13 +56,22 @@ export function headerReader(specDir: string): (dataName: string, path: string) 
   };
 }
 
-/** Errors for data files the spec names that do not exist (or are folders), at their `data` statements. */
+/**
+ * Errors for data files the spec names that do not exist or are not regular
+ * files (a folder, a named pipe, a device), at their `data` statements.
+ */
 export function missingDataDiagnostics(plan: Plan, specDir: string): Diagnostic[] {
   const out: Diagnostic[] = [];
   for (const d of plan.data) {
-    const abs = resolve(specDir, d.path);
-    const ok = existsSync(abs) && statSync(abs).isFile();
-    if (!ok) out.push({ severity: 'error', code: 'data_file_missing', message: MSG.dataMissing(d.path), range: d.range });
+    const status = inputStatus(dataFilePath(d.path, specDir));
+    if (status.ok) continue;
+    const missing = status.error.code === 'ENOENT';
+    out.push({
+      severity: 'error',
+      code: missing ? 'data_file_missing' : 'data_file_unreadable',
+      message: missing ? MSG.dataMissing(d.path) : MSG.dataUnreadable(d.path, status.error.message),
+      range: d.range,
+    });
   }
   return out;
 }

@@ -2,9 +2,10 @@
  * Reading only the header of a CSV file: for the parser's column check and
  * editor completion, without reading whole data files.
  */
-import { closeSync, openSync, readSync } from 'node:fs';
+import { closeSync, readSync } from 'node:fs';
 import { isAbsolute, resolve } from 'node:path';
 import Papa from 'papaparse';
+import { openInputSync } from '../io/input';
 import { stripBom } from './csv';
 import { detectDelimiter } from './delimiter';
 import type { DecimalMark, Delimiter } from './types';
@@ -41,7 +42,7 @@ export function readHeaderFile(path: string, options: { delimiter?: Delimiter; d
   const maxBytes = options.maxBytes ?? 65536;
   let fd: number | null = null;
   try {
-    fd = openSync(path, 'r');
+    fd = openInputSync(path); // regular files only: a named pipe must not block
     const buffer = Buffer.alloc(maxBytes);
     const size = readSync(fd, buffer, 0, maxBytes, 0);
     let text = buffer.subarray(0, size).toString('utf8');

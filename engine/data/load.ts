@@ -3,11 +3,11 @@
  * SHA-256 of the bytes as read (node:crypto) and the row count.
  */
 import { createHash } from 'node:crypto';
-import { readFileSync } from 'node:fs';
+import { readInputSync } from '../io/input';
 import { parseCsvText } from './csv';
 import type { CsvOptions, DataError, DataTable } from './types';
 
-/** Reads a file's bytes (or text); the default is `fs.readFileSync`. Injected by tests and the editor. */
+/** Reads a file's bytes (or text); the default is `readInputSync` (engine/io: regular files only). Injected by tests and the editor. */
 export type FileReader = (path: string) => Buffer | string;
 
 export interface LoadedData {
@@ -32,7 +32,7 @@ export function loadDataFile(
   options: Omit<CsvOptions, 'file'> & { displayPath?: string; readFile?: FileReader } = {},
 ): LoadResult {
   const file = options.displayPath ?? path;
-  const reader: FileReader = options.readFile ?? ((p) => readFileSync(p));
+  const reader: FileReader = options.readFile ?? readInputSync;
   let content: Buffer | string;
   try {
     content = reader(path);

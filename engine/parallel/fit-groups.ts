@@ -74,7 +74,7 @@ export const MIN_ROWS_FOR_WORKERS = 50_000;
 export interface FitGroupsOptions extends GroupRunOptions {
   /** Folder the spec's data paths are relative to. */
   baseDir: string;
-  /** File reader for the data (default fs.readFileSync). */
+  /** File reader for the data (default engine/io `readInputSync`: regular files only). */
   readFile?: FileReader;
 }
 

@@ -61,7 +61,7 @@ export interface RunOptions {
   /** The spec text (hashed into the provenance). */
   specText: string;
   specPath?: string;
-  /** File reader (default fs.readFileSync); files are only read. */
+  /** File reader (default engine/io `readInputSync`: regular files only); files are only read. */
   readFile?: FileReader;
   /** Run only these fits (default all); queries and expectations of other fits are skipped. */
   fits?: string[];

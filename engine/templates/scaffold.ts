@@ -3,6 +3,7 @@
  * Pure: the caller reads the CSV and writes the file.
  */
 import { FUNCTIONS } from '../../parser/plan';
+import { StringLiteral } from '../../parser/tokens';
 import { cleanPairs, round4 } from './heuristics';
 import type { Template } from './types';
 
@@ -26,10 +27,31 @@ export type ScaffoldResult =
 const RESERVED = new Set(['and', 'or', 'not', 'inf', 'pi', 'e']);
 const IDENT = /^[A-Za-z_][A-Za-z0-9_]*$/;
 
+/**
+ * Characters refused in quoted text written into a spec although the lexer
+ * would take them: control characters (they reach terminals raw) and the
+ * Unicode line and paragraph separators and NEL (editors show them as line
+ * breaks and offer to remove them).
+ */
+const UNSAFE_IN_TEXT = /[\u0000-\u0008\u000b-\u001f\u007f\u0085\u2028\u2029]/;
+
+/**
+ * `text` as a double-quoted spec string, or null when the language cannot
+ * represent it: spec text has no escapes, so a `"` or a line break cannot be
+ * written (the StringLiteral token of parser/tokens.ts decides), and
+ * UNSAFE_IN_TEXT is refused on top.
+ */
+export function specString(text: string): string | null {
+  const quoted = `"${text}"`;
+  const m = (StringLiteral.PATTERN as RegExp).exec(quoted);
+  if (!m || m.index !== 0 || m[0].length !== quoted.length || UNSAFE_IN_TEXT.test(text)) return null;
+  return quoted;
+}
+
 /** A column as it must be written in an expression: bare when a plain name, else "double-quoted". */
 export function columnRef(name: string): string | null {
   if (IDENT.test(name) && !RESERVED.has(name) && !Object.prototype.hasOwnProperty.call(FUNCTIONS, name)) return name;
-  return name.includes('"') || /[\r\n]/.test(name) ? null : `"${name}"`;
+  return specString(name);
 }
 
 /** An identifier derived from free text (file names): `lab readings-2.csv` → `lab_readings_2`. */
@@ -61,7 +83,11 @@ export function scaffoldSpec(input: ScaffoldInput): ScaffoldResult {
   const t = input.template;
   const xRef = columnRef(input.x);
   const yRef = columnRef(input.y);
-  if (xRef === null || yRef === null) return { ok: false, message: `column name ${xRef === null ? input.x : input.y} cannot be written in a spec (it contains a double quote or a line break)` };
+  if (xRef === null || yRef === null) return { ok: false, message: `column name ${JSON.stringify(xRef === null ? input.x : input.y)} cannot be written in a spec (it contains a double quote, a line break or a control character)` };
+  const dataRef = specString(input.dataPath);
+  if (dataRef === null) {
+    return { ok: false, message: `the data path ${JSON.stringify(input.dataPath)} cannot be written in a spec (it contains a double quote, a line break or a control character, and spec text has no escapes); rename the file` };
+  }
 
   const original = cleanPairs(input.xValues, input.yValues);
   let d = original;
@@ -100,7 +126,7 @@ export function scaffoldSpec(input: ScaffoldInput): ScaffoldResult {
   for (const h of header) lines.push(`# ${h}`);
   lines.push('# Starting values were computed from the data:');
   for (const n of start.notes) lines.push(`#   ${n}`);
-  lines.push('', `data ${dataName} = "${input.dataPath}"`);
+  lines.push('', `data ${dataName} = ${dataRef}`);
   for (const c of t.constants ?? []) lines.push(`const ${c.name} = ${c.value}   # ${c.comment}`);
   lines.push('', `fit ${fitName} on ${dataName} {`, `  model ${yRef} = ${t.model(predictor, names)}`);
   const width = Math.max(...t.parameters.map((p) => names[p.name].length));

@@ -3,16 +3,22 @@
  * engine/views/markdown.ts), JSON (the engine's `resultToJson`) or SVG charts
  * (engine/views/charts.ts specs, rendered in the SVG worker with the CLI's
  * renderer; file names from `chartFileName`). The user picks the output
- * files; the spec and the data are never written.
+ * files; the spec and the data are never written: local targets are
+ * checked against the spec and every data file it declares (engine/io's
+ * output guard, logic/exportGuard.ts) and written all-or-nothing through
+ * temporary files (engine/io stage.ts).
  */
 import * as path from 'node:path';
 import { Worker } from 'node:worker_threads';
 import * as vscode from 'vscode';
 import type { RunResult } from '../../engine/result';
-import { resultToJson } from '../../engine/run/json';
+import { writeAllOrNothing, type StagedContent } from '../../engine/io';
+import { outputText } from '../../engine/messages';
+import { writeJson } from '../../engine/run/json';
 import { chartFileName, chartSpecs } from '../../engine/views/charts';
 import { markdownReport } from '../../engine/views/markdown';
 import type { LwContext } from '../context';
+import { exportRefusal, type ExportInputs } from '../logic/exportGuard';
 import type { ExportFormat } from '../panel/protocol';
 import { isSvgResponse, type SvgRequest, type SvgResponse } from './svgProtocol';
 
@@ -33,22 +39,28 @@ export async function exportReport(ctx: LwContext, specUri: vscode.Uri, format?:
   if (!fmt) return [];
   const dir = vscode.Uri.joinPath(specUri, '..');
   const base = name.replace(/\.lsq$/i, '');
-  if (fmt === 'svg') return exportSvg(ctx, stored.run, dir);
+  if (fmt === 'svg') return exportSvg(ctx, specUri, stored.run, dir);
   const target = await vscode.window.showSaveDialog({
     defaultUri: vscode.Uri.joinPath(dir, fmt === 'markdown' ? `${base}-report.md` : `${base}-result.json`),
     filters: fmt === 'markdown' ? { Markdown: ['md'] } : { JSON: ['json'] },
     title: `Export ${fmt === 'markdown' ? 'Markdown report' : 'JSON result'}`,
   });
   if (!target) return [];
-  const text = fmt === 'markdown' ? markdownReport(stored.run) : `${resultToJson(stored.run)}\n`;
-  await vscode.workspace.fs.writeFile(target, Buffer.from(text, 'utf8'));
+  const content: StagedContent =
+    fmt === 'markdown'
+      ? markdownReport(stored.run)
+      : (write) => {
+          writeJson(stored.run, write);
+          write('\n');
+        };
+  if (!(await writeChecked(ctx, specUri, stored.run, [{ uri: target, content }]))) return [];
   void vscode.window.showInformationMessage(`Leastwise: wrote ${path.posix.basename(target.path)}`, 'Open').then((pick) => {
     if (pick) void vscode.window.showTextDocument(target);
   });
   return [target];
 }
 
-async function exportSvg(ctx: LwContext, run: RunResult, dir: vscode.Uri): Promise<vscode.Uri[]> {
+async function exportSvg(ctx: LwContext, specUri: vscode.Uri, run: RunResult, dir: vscode.Uri): Promise<vscode.Uri[]> {
   const picked = await vscode.window.showOpenDialog({ canSelectFiles: false, canSelectFolders: true, defaultUri: dir, openLabel: 'Write SVG charts here', title: 'Folder for the SVG charts' });
   const folder = picked?.[0];
   if (!folder) return [];
@@ -68,19 +80,62 @@ async function exportSvg(ctx: LwContext, run: RunResult, dir: vscode.Uri): Promi
   }
   const answer = await vscode.window.withProgress({ location: vscode.ProgressLocation.Notification, title: `Leastwise: drawing ${charts.length} charts` }, () =>
     renderInWorker(ctx.ext.asAbsolutePath(path.join('dist', 'svg-worker.js')), { id: 1, charts }));
-  const written: vscode.Uri[] = [];
+  const drawn: { uri: vscode.Uri; content: StagedContent }[] = [];
   for (const f of answer.files) {
-    if (f.svg === undefined) {
-      ctx.log.error(`SVG export of ${f.file} failed: ${f.error}`);
-      continue;
-    }
-    const uri = vscode.Uri.joinPath(folder, f.file);
-    await vscode.workspace.fs.writeFile(uri, Buffer.from(f.svg, 'utf8'));
-    written.push(uri);
+    if (f.svg === undefined) ctx.log.error(`SVG export of ${f.file} failed: ${f.error}`);
+    else drawn.push({ uri: vscode.Uri.joinPath(folder, f.file), content: f.svg });
   }
+  if (!(await writeChecked(ctx, specUri, run, drawn))) return [];
+  const written = drawn.map((d) => d.uri);
   const failed = answer.files.length - written.length;
   void vscode.window.showInformationMessage(`Leastwise: wrote ${written.length} SVG chart${written.length === 1 ? '' : 's'}${failed ? ` (${failed} failed, see the Leastwise output)` : ''}.`);
   return written;
+}
+
+/** The spec's inputs: its current data statements and those of the run being exported. */
+async function exportInputs(ctx: LwContext, specUri: vscode.Uri, run: RunResult): Promise<ExportInputs> {
+  let declared: ExportInputs['declared'] = [];
+  try {
+    declared = (await ctx.analyses.get(await vscode.workspace.openTextDocument(specUri))).plan.data;
+  } catch {
+    /* the spec cannot be opened: the run's record of its data remains */
+  }
+  return { specPath: specUri.fsPath, declared, recorded: run.provenance.data };
+}
+
+/**
+ * Write `files` all at once after checking them against the spec's inputs
+ * (local files); other file systems through vscode.workspace.fs, refusing a
+ * target that is the spec or a data file by uri. False (with the message
+ * shown) when refused.
+ */
+async function writeChecked(ctx: LwContext, specUri: vscode.Uri, run: RunResult, files: { uri: vscode.Uri; content: StagedContent }[]): Promise<boolean> {
+  const inputs = await exportInputs(ctx, specUri, run);
+  const local = files.every((f) => f.uri.scheme === 'file') && specUri.scheme === 'file';
+  const refusal = local
+    ? exportRefusal(inputs, files.map((f) => f.uri.fsPath))
+    : files.some((f) => f.uri.toString() === specUri.toString() || [...inputs.declared, ...inputs.recorded].some((d) => vscode.Uri.joinPath(specUri, '..', d.path).toString() === f.uri.toString()))
+      ? outputText.isInputUri
+      : null;
+  if (refusal) {
+    void vscode.window.showErrorMessage(`Leastwise: ${refusal}`);
+    return false;
+  }
+  if (local) writeAllOrNothing(files.map((f) => ({ path: f.uri.fsPath, content: f.content })));
+  else {
+    for (const f of files) {
+      const text = typeof f.content === 'function' ? collect(f.content) : f.content;
+      await vscode.workspace.fs.writeFile(f.uri, typeof text === 'string' ? Buffer.from(text, 'utf8') : text);
+    }
+  }
+  ctx.log.info(`exported ${files.map((f) => f.uri.fsPath).join(', ')}`);
+  return true;
+}
+
+function collect(content: (write: (chunk: string) => void) => void): string {
+  const parts: string[] = [];
+  content((c) => parts.push(c));
+  return parts.join('');
 }
 
 function renderInWorker(workerPath: string, req: SvgRequest): Promise<SvgResponse> {

@@ -25,9 +25,9 @@ export function toCompletionItem(c: LsqCompletion): vscode.CompletionItem {
   return item;
 }
 
-/** CSV files near the spec, as paths relative to its folder (for `data x = "`). */
+/** CSV files near the spec, as paths relative to its folder (for `data x = "`); none for a spec outside the workspace folders. */
 async function csvFilesNear(doc: vscode.TextDocument): Promise<string[]> {
-  if (doc.uri.scheme === 'untitled') return [];
+  if (doc.uri.scheme === 'untitled' || !vscode.workspace.getWorkspaceFolder(doc.uri)) return [];
   const dir = vscode.Uri.joinPath(doc.uri, '..');
   const out: string[] = [];
   const walk = async (uri: vscode.Uri, prefix: string, depth: number): Promise<void> => {
@@ -39,7 +39,8 @@ async function csvFilesNear(doc: vscode.TextDocument): Promise<string[]> {
     }
     for (const [name, type] of entries) {
       if (type & vscode.FileType.Directory) {
-        if (depth > 0 && !name.startsWith('.') && name !== 'node_modules') await walk(vscode.Uri.joinPath(uri, name), `${prefix}${name}/`, depth - 1);
+        // linked folders may lead out of the workspace: not listed
+        if (depth > 0 && !(type & vscode.FileType.SymbolicLink) && !name.startsWith('.') && name !== 'node_modules') await walk(vscode.Uri.joinPath(uri, name), `${prefix}${name}/`, depth - 1);
       } else if (/\.(csv|tsv|txt)$/i.test(name)) out.push(`${prefix}${name}`);
       if (out.length >= 200) return;
     }

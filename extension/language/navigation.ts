@@ -38,14 +38,11 @@ export function registerNavigation(ctx: LwContext): void {
         if (d.kind === 'spec') return new vscode.Location(doc.uri, toRange(lineIndex(analysis, analysis.text), d.span));
         const csv = resolveDataUri(doc.uri, d.path);
         if (!csv) return undefined;
-        // the column's position in the header line
-        let col = 0;
-        try {
-          const head = Buffer.from((await vscode.workspace.fs.readFile(csv)).subarray(0, 65536)).toString('utf8').split(/\r?\n/)[0];
-          col = Math.max(0, head.indexOf(d.column));
-        } catch {
-          return undefined;
-        }
+        // the column's position in the header line, read under the editor's rules (inside the
+        // workspace, regular files, capped, asynchronous: logic/dataFiles.ts)
+        const head = await ctx.analyses.headers.headerLine(doc.uri, d.path);
+        if (head === undefined) return undefined;
+        const col = Math.max(0, head.indexOf(d.column));
         return new vscode.Location(csv, new vscode.Range(0, col, 0, col + d.column.length));
       },
     }),

@@ -17,11 +17,15 @@ export interface DataFileStatus {
   path: string;
   /**
    * `found` (header read), `missing` (no such file), `unreadable` (exists but
-   * cannot be read or has no header), `unknown` (not looked at, e.g. a
-   * non-file document or a path with no folder to resolve against).
+   * cannot be read - a folder, a named pipe - or has no header), `unknown`
+   * (not read: a non-file document, a path with no folder to resolve
+   * against, a file outside the workspace folders or a header wider than
+   * the editor reads; see logic/dataFiles.ts).
    */
   state: 'found' | 'missing' | 'unreadable' | 'unknown';
   headers?: string[];
+  /** Why the file is `unreadable`, or why an `unknown` file was not read (shown as a diagnostic). */
+  reason?: string;
   /** Span of the quoted path in the spec, for diagnostics. */
   pathSpan?: Span;
 }

@@ -19,6 +19,7 @@ import type { FitResult, FitWarning, RunResult, WarningCode } from '../../engine
 import type { EditorAnalysis } from './analysis';
 import { findFit, findParam, findExpectation, findData, modelSpan } from './locate';
 import { firstLine, spanOf, type Span } from './text';
+import { dataFileText } from './dataFiles';
 
 export type LsqSeverity = Severity | 'hint';
 /** Where a diagnostic comes from; the adapter shows it as the diagnostic's source. */
@@ -67,21 +68,25 @@ function fromParser(d: Diagnostic): LsqDiagnostic {
   return { ...s, severity: d.severity, code: d.code, message: d.message, source: 'syntax', ...(d.suggestions?.length ? { suggestions: [...d.suggestions] } : {}) };
 }
 
-/** "File not found" / "cannot read" on the quoted path of each data statement. */
+/**
+ * "File not found" / "cannot read" (errors) and "columns not checked"
+ * (information: a file the editor does not read) on the quoted path of each
+ * data statement.
+ */
 export function dataDiagnostics(analysis: EditorAnalysis): LsqDiagnostic[] {
   const out: LsqDiagnostic[] = [];
   for (const d of analysis.data) {
-    if (d.state !== 'missing' && d.state !== 'unreadable') continue;
+    const noted = d.state === 'unknown' && d.reason !== undefined;
+    if (d.state !== 'missing' && d.state !== 'unreadable' && !noted) continue;
     const at = d.pathSpan ?? findData(analysis, d.name) ?? { start: 0, end: 0 };
-    out.push({
-      ...at,
-      severity: 'error',
-      code: d.state === 'missing' ? 'data.file_not_found' : 'data.file_unreadable',
-      message: d.state === 'missing'
-        ? `data file "${d.path}" not found (paths are relative to the spec's folder)`
-        : `data file "${d.path}" cannot be read or has no header line`,
-      source: 'data',
-    });
+    const message =
+      d.state === 'missing'
+        ? dataFileText.missing(d.path)
+        : d.state === 'unreadable'
+          ? dataFileText.unreadable(d.path, d.reason ?? dataFileText.noHeader)
+          : dataFileText.notChecked(d.path, d.reason ?? '');
+    const code = d.state === 'missing' ? 'data.file_not_found' : d.state === 'unreadable' ? 'data.file_unreadable' : 'data.not_checked';
+    out.push({ ...at, severity: noted ? 'info' : 'error', code, message, source: 'data' });
   }
   return out;
 }

@@ -147,7 +147,7 @@ function derivedHover(name: string, text: string, unit: string | undefined, run?
 function dataHover(a: EditorAnalysis, name: string, path: string): string {
   const st = a.data.find((d) => d.name === name);
   const cols = st?.headers;
-  const state = st?.state === 'missing' ? '\n\n⚠ file not found' : '';
+  const state = st?.state === 'missing' ? '\n\n⚠ file not found' : st?.reason ? `\n\n⚠ ${st.reason}` : '';
   const list = cols?.length ? `\n\ncolumns: ${cols.slice(0, 20).map((c) => `\`${c}\``).join(', ')}${cols.length > 20 ? ', …' : ''}` : '';
   return `**${name}** — data \`${path}\`${state}${list}`;
 }

@@ -86,6 +86,7 @@ export class AnalysisStore implements vscode.Disposable {
   }
 
   dispose(): void {
+    this.headers.dispose();
     for (const t of this.timers.values()) clearTimeout(t);
     this.timers.clear();
     this.emitter.dispose();

@@ -59,3 +59,25 @@ export function validateResult(value: unknown): { ok: boolean; errors: string } 
 export function hasStackTrace(text: string): boolean {
   return /\n\s+at .+\(.+:\d+:\d+\)/.test(text) || /^\s+at /m.test(text);
 }
+
+/**
+ * A private build of the CLI (`<tempdir>/cli.js`, with the engine worker beside it as in dist/), for tests
+ * that run the executable in a child process: concurrent rebuilds of dist/ by other test files do not matter.
+ */
+export async function privateCliBuild(): Promise<string> {
+  const { build } = await import('esbuild');
+  const dir = tempDir('lw-cli-build-');
+  await build({
+    entryPoints: { cli: join(ROOT, 'cli.ts'), worker: join(ROOT, 'engine', 'worker.ts') },
+    outdir: dir,
+    bundle: true,
+    platform: 'node',
+    target: 'node20',
+    format: 'cjs',
+    external: ['vscode'],
+    mainFields: ['module', 'main'],
+    alias: { 'vega-canvas': join(ROOT, 'node_modules/vega-canvas/build/vega-canvas.browser.js') },
+    logLevel: 'silent',
+  });
+  return join(dir, 'cli.js');
+}

@@ -1,7 +1,8 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { copyFileSync, readFileSync, writeFileSync } from 'node:fs';
+import { copyFileSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { EXIT } from '../../engine/cli/io';
+import { printable } from '../../engine/cli/locate';
 import { cleanTemp, cli, SAMPLES, tempDir } from './helpers';
 
 afterAll(cleanTemp);
@@ -66,6 +67,38 @@ describe('cli/new', () => {
     expect(readFileSync(join(dir, 'rates.lsq'), 'utf8')).toBe('# mine\n');
     const self = await cli(dir, 'new', 'rates.csv', '--out', 'rates.csv');
     expect(self.code).toBe(EXIT.inputError);
+  });
+
+  it('quotes hostile CSV file names in the spec, so the spec reads back the same path and nothing else', async () => {
+    const names = ['back\\slash.csv', "it's $(id) `date` ${HOME}.csv", 'semi;colon, comma.csv', 'data #1 [mg].csv', 'tab\there.csv', 'é 漢字 😀.csv', '-dash.csv'];
+    for (const name of names) {
+      const dir = tempDir();
+      copyFileSync(join(SAMPLES, 'enzyme/rates.csv'), join(dir, name));
+      const made = await cli(dir, 'new', `./${name}`, '--out', 'spec.lsq', '--model', 'michaelis_menten');
+      expect(made.code, `${name}: ${made.stderr}`).toBe(EXIT.ok);
+      const plan = await cli(dir, 'plan', 'spec.lsq');
+      expect(plan.code, `${name}: ${plan.stderr}`).toBe(EXIT.ok);
+      const parsed = JSON.parse(plan.stdout) as { data: { path: string }[]; fits: unknown[] };
+      expect(parsed.data.map((d) => d.path)).toEqual([name]);
+      expect(parsed.fits).toHaveLength(1);
+    }
+  });
+
+  it('refuses CSV file names the spec language cannot write (a quote, a line break, a control character), writing nothing', async () => {
+    const names = ['we"ird.csv', 'two\nlines.csv', 'car\rriage.csv', 'line\u2028sep.csv', 'para\u2029sep.csv', 'bell\u0007.csv', 'esc\u001b[2J.csv'];
+    for (const name of names) {
+      const dir = tempDir();
+      copyFileSync(join(SAMPLES, 'enzyme/rates.csv'), join(dir, name));
+      for (const out of ['spec.lsq', '-']) {
+        const r = await cli(dir, 'new', name, '--out', out);
+        expect(r.code, name).toBe(EXIT.inputError);
+        expect(r.stdout).toBe('');
+        expect(r.stderr).toContain(`error: the data path ${printable(JSON.stringify(name))} cannot be written in a spec (it contains a double quote, a line break or a control character, and spec text has no escapes); rename the file`);
+        // the message itself carries no raw line break or control character
+        expect(r.stderr.slice(0, -1)).not.toMatch(/[\u0000-\u001f\u2028\u2029]/);
+      }
+      expect(readdirSync(dir)).toEqual([name]);
+    }
   });
 
   it('picks the first two numeric columns by default and can write to stdout', async () => {

@@ -12,7 +12,7 @@ const fs = require('fs');
 const path = require('path');
 const { check, secs, freePort, quickInput, startTrustServer, openBrowser, webviewFrame, waitForFile, errorSummary } = require('./harness.cjs');
 
-/** First words of untrustedMessage('fit' | 'export') in extension/trust.ts. */
+/** First words of untrustedMessage('fit' | 'export' | 'newSpec') in extension/trust.ts (the action's verb). */
 const REFUSAL = (action) => `Leastwise does not ${action} in Restricted Mode`;
 
 async function restrictedMode({ repo, home, vsix, work, outDir }) {
@@ -90,6 +90,13 @@ async function restrictedMode({ repo, home, vsix, work, outDir }) {
     await quickInput(page, 'F1', 'Leastwise: Export Report', 'Leastwise: Export Report');
     await page.locator('.notification-toast', { hasText: REFUSAL('export') }).first().waitFor();
     check('Restricted Mode: "Export Report" refuses with the trust message', true);
+    const specsBefore = fs.readdirSync(ws).filter((f) => f.endsWith('.lsq')).sort();
+    await quickInput(page, 'F1', 'Leastwise: New Spec from CSV', 'Leastwise: New Spec from CSV');
+    await page.locator('.notification-toast', { hasText: REFUSAL('create specs from CSV files') }).first().waitFor();
+    const asked = await page.locator('.quick-input-widget .quick-input-title', { hasText: 'New spec (1/3)' }).isVisible();
+    const specsAfter = fs.readdirSync(ws).filter((f) => f.endsWith('.lsq')).sort();
+    check('Restricted Mode: "New Spec from CSV" refuses with the trust message, asks nothing and writes no spec',
+      !asked && JSON.stringify(specsAfter) === JSON.stringify(specsBefore), `${specsAfter.join(', ')}${asked ? '; the column picker opened' : ''}`);
 
     // trust from the message: "Manage Workspace Trust" opens the trust editor
     await toast.locator('.monaco-button', { hasText: 'Manage Workspace Trust' }).click();
