@@ -94,3 +94,35 @@ export const errorText = {
   wrongResponse: (fit: string, given: string, response: string) => `${fit} fits ${response}, not ${given}`,
   internal: (fit: string, message: string) => `fit ${fit} could not be completed: ${message}`,
 } as const;
+
+/** `file:line:column` (column = 1-based field number), or `file:line` without a column. */
+export function dataPlace(file: string, line: number, field?: number): string {
+  return field === undefined ? `${file}:${line}` : `${file}:${line}:${field}`;
+}
+
+/** Texts of data-file errors (engine/data): each starts with its place in the file. */
+export const dataText = {
+  emptyFile: (file: string) => `${file} is empty: expected a header line naming the columns`,
+  noHeader: (file: string) => `${file} has no header line: it holds only blank lines and delimiters`,
+  delimiterConflict: 'the comma cannot be both the delimiter and the decimal mark; use delimiter ";" with decimal ","',
+  tooManyFields: (place: string, fields: number, width: number, delimiter: string) =>
+    `${place}: ${fields} fields where the header has ${width} (${delimiter}-separated); field ${width + 1} has no column`,
+  tooFewFields: (place: string, fields: number, width: number, delimiter: string, missing: string) =>
+    `${place}: ${fields} field${fields === 1 ? '' : 's'} where the header has ${width} (${delimiter}-separated); column ${missing} is missing`,
+  unclosedQuote: (place: string, column: string) =>
+    `${place}: the quoted cell of ${column} that opens here is never closed (a closing " is missing)`,
+  textAfterQuote: (place: string, column: string) =>
+    `${place}: text after the closing quote of a quoted cell in ${column}; a quote inside a quoted cell must be doubled ("")`,
+  /** A column in messages: `"name" (field k)`, or `field k` past the header. */
+  column: (name: string | undefined, field: number) => (name === undefined ? `field ${field}` : `"${name}" (field ${field})`),
+  headerTooLong: (file: string, cap: number) =>
+    `the header of ${file} does not end within its first ${cap / 1048576} MiB; its columns are not checked (a header longer than that is taken as a broken file)`,
+  noDataRows: (fit: string, file: string, headerLine: number) =>
+    `fit ${fit}: ${file} has a header (line ${headerLine}) but no data rows`,
+  allRowsMissing: (fit: string, file: string, rows: number, columns: string[]) =>
+    `fit ${fit}: every one of the ${rows} data row${rows === 1 ? '' : 's'} of ${file} has an empty or NA cell in a column the fit uses (${columns.join(', ')}), so no row is left; this is the first`,
+  allRowsFiltered: (fit: string, file: string, rows: number) =>
+    `fit ${fit}: the where condition of the data statement leaves none of the ${rows} usable row${rows === 1 ? '' : 's'} of ${file}`,
+  allRowsExcluded: (fit: string, file: string, rows: number, what: string) =>
+    `fit ${fit}: every one of the ${rows} usable row${rows === 1 ? '' : 's'} of ${file} has ${what}, which leaves it out of the fit, so no row is left`,
+} as const;

@@ -5,7 +5,7 @@
  * errors, never silently dropped.
  */
 import { isMissingCell } from './cells';
-import type { DataColumn, DataError, DataTable } from './types';
+import { cellLine, type DataColumn, type DataError, type DataTable } from './types';
 
 /** A compiled filter over the selected numeric columns: writes 1 (keep) or 0 per row. */
 export type RowFilter = (cols: readonly Float64Array[], n: number, out: Float64Array) => void;
@@ -113,30 +113,32 @@ function findColumn(table: DataTable, name: string, file: string, errors: DataEr
     errors.push({
       code: 'missing_column',
       file,
-      row: 1,
+      row: table.headerLine,
       column: name,
       message: `${file}: no column "${name}"; the header has ${table.headers.filter((h) => h !== '').map((h) => `"${h}"`).join(', ')}`,
     });
   } else {
-    errors.push({ code: 'duplicate_column', file, row: 1, column: name, message: `${file}: the header names "${name}" ${matches.length} times` });
+    errors.push({ code: 'duplicate_column', file, row: table.headerLine, column: name, message: `${file}: the header names "${name}" ${matches.length} times` });
   }
   return undefined;
 }
 
 function collectNonNumeric(table: DataTable, col: DataColumn, file: string, errors: DataError[], maxErrors: number): void {
   if (col.nonNumeric === 0 || col.text === null) return;
+  const index = table.columns.indexOf(col);
   for (let i = 0; i < table.rowCount && errors.length < maxErrors; i++) {
     if (Number.isNaN(col.values[i]) && !isMissingCell(col.text[i])) {
-      const row = table.lines[i];
+      const row = cellLine(table, i, index);
       const value = col.text[i];
       const hint = table.decimal === '.' && /^[+-]?\d+,\d+$/.test(value) ? ' (decimal comma? add decimal "," to the data statement)' : '';
       errors.push({
         code: 'non_numeric_cell',
         file,
         row,
+        field: index + 1,
         column: col.name,
         value,
-        message: `${file}:${row}: column "${col.name}" holds "${value}", not a number${hint}`,
+        message: `${file}:${row}:${index + 1}: column "${col.name}" holds "${value}", not a number${hint}`,
       });
     }
   }
