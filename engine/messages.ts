@@ -6,6 +6,12 @@
  */
 import type { WarningCode } from './result';
 
+/** At most 10 line numbers, then how many more. */
+export function listLines(lines: ArrayLike<number>): string {
+  const shown = Array.from({ length: Math.min(lines.length, 10) }, (_, i) => lines[i]).join(', ');
+  return lines.length > 10 ? `${shown} and ${lines.length - 10} more` : shown;
+}
+
 export function num(x: number): string {
   if (!Number.isFinite(x)) return String(x);
   return Number(x.toPrecision(6)).toString();
@@ -48,6 +54,9 @@ export const warningText = {
   /** Also code 'rows_dropped': rows of a per-group fit without a group value. */
   rows_without_group: (rows: number, file: string, column: string) =>
     `${rows} row${rows === 1 ? '' : 's'} of ${file} ha${rows === 1 ? 's' : 've'} no value in the group column ${column} and belong${rows === 1 ? 's' : ''} to no group`,
+  /** Also code 'rows_dropped': rows a weight of 0 leaves out of the fit (listed in the result's `excluded`). */
+  rows_excluded: (rows: number, file: string, lines: ArrayLike<number>) =>
+    `${rows} row${rows === 1 ? '' : 's'} of ${file} ha${rows === 1 ? 's' : 've'} weight 0 and ${rows === 1 ? 'is' : 'are'} left out of the fit (line${rows === 1 ? '' : 's'} ${listLines(lines)}); ${rows === 1 ? 'it is' : 'they are'} still drawn`,
   rank_deficient: (rank: number, p: number, params: string[]) =>
     `the parameters are not all determined by the data (rank ${rank} of ${p})${params.length ? `; check ${params.join(', ')}` : ''}`,
   guessed_start: (params: string[], how: string) =>
@@ -86,7 +95,7 @@ export const errorText = {
   notEnoughRows: (fit: string, n: number, p: number) => `fit ${fit} has ${n} usable row${n === 1 ? '' : 's'} for ${p} free parameter${p === 1 ? '' : 's'}: at least ${p} are needed, more to estimate the scatter`,
   nonFinite: (fit: string, what: string, row: number) => `fit ${fit}: ${what} is not a finite number at data line ${row}`,
   badSigma: (fit: string, row: number, value: number) => `fit ${fit}: sigma must be positive and finite, got ${num(value)} at data line ${row}`,
-  badWeight: (fit: string, row: number, value: number) => `fit ${fit}: weight must be non-negative and finite, got ${num(value)} at data line ${row}`,
+  badWeight: (fit: string, row: number, value: number) => `fit ${fit}: weight must be non-negative and finite (0 leaves a row out), got ${num(value)} at data line ${row}`,
   unknownFit: (name: string) => `no fit named ${name}`,
   fixedWithoutValue: (fit: string, names: string[]) => `fit ${fit}: fixed parameter${names.length > 1 ? 's' : ''} ${names.join(', ')} need${names.length > 1 ? '' : 's'} a value`,
   noPredictor: (fit: string, what: string) => `${what} needs a fit with a single predictor column; ${fit} has none`,
@@ -117,10 +126,9 @@ export const dataText = {
   column: (name: string | undefined, field: number) => (name === undefined ? `field ${field}` : `"${name}" (field ${field})`),
   headerTooLong: (file: string, cap: number) =>
     `the header of ${file} does not end within its first ${cap / 1048576} MiB; its columns are not checked (a header longer than that is taken as a broken file)`,
-  noDataRows: (fit: string, file: string, headerLine: number) =>
-    `fit ${fit}: ${file} has a header (line ${headerLine}) but no data rows`,
+  noDataRows: (fit: string, file: string) => `fit ${fit}: ${file} has a header but no data rows`,
   allRowsMissing: (fit: string, file: string, rows: number, columns: string[]) =>
-    `fit ${fit}: every one of the ${rows} data row${rows === 1 ? '' : 's'} of ${file} has an empty or NA cell in a column the fit uses (${columns.join(', ')}), so no row is left; this is the first`,
+    `fit ${fit}: every one of the ${rows} data row${rows === 1 ? '' : 's'} of ${file} has an empty or NA cell in a column the fit uses (${columns.join(', ')}), so no row is left (the first such cell is here)`,
   allRowsFiltered: (fit: string, file: string, rows: number) =>
     `fit ${fit}: the where condition of the data statement leaves none of the ${rows} usable row${rows === 1 ? '' : 's'} of ${file}`,
   allRowsExcluded: (fit: string, file: string, rows: number, what: string) =>

@@ -37,6 +37,8 @@ export interface Selection {
   filteredOut: number;
   /** With `label`: the label of each dropped row ('' when the label itself is missing), else null. */
   droppedLabels: string[] | null;
+  /** The first row dropped for a missing value: its table row index and the first used column (header order) missing there. */
+  firstDropped: { index: number; column: string } | null;
 }
 
 export type SelectResult = { ok: true; selection: Selection } | { ok: false; errors: DataError[] };
@@ -72,6 +74,12 @@ export function selectRows(table: DataTable, request: SelectRequest): SelectResu
     if (ok) nPresent++;
   }
   const dropped = total - nPresent;
+  let firstDropped: Selection['firstDropped'] = null;
+  const i0 = dropped > 0 ? present.indexOf(0) : -1;
+  if (i0 >= 0) {
+    const missingHere = table.columns.find((c) => (c === labelCol && isMissingCell(labelOf(c, i0))) || (found.includes(c) && Number.isNaN(c.values[i0])));
+    if (missingHere) firstDropped = { index: i0, column: missingHere.name };
+  }
   const droppedLabels = labelCol ? [] as string[] : null;
   if (droppedLabels && labelCol) {
     for (let i = 0; i < total; i++) {
@@ -103,7 +111,7 @@ export function selectRows(table: DataTable, request: SelectRequest): SelectResu
   const lines = new Int32Array(n);
   for (let i = 0; i < n; i++) lines[i] = table.lines[keepIdx[i]];
   const labels = labelCol ? keepIdx.map((i) => labelOf(labelCol, i)) : null;
-  return { ok: true, selection: { columns, n, lines, labels, dropped, filteredOut, droppedLabels } };
+  return { ok: true, selection: { columns, n, lines, labels, dropped, filteredOut, droppedLabels, firstDropped } };
 }
 
 function findColumn(table: DataTable, name: string, file: string, errors: DataError[]): DataColumn | undefined {

@@ -30,8 +30,9 @@ import { boundHit, fitWarnings } from '../stats/warnings';
 import { buildCurve } from './curve';
 import { exprText } from './expr';
 import type { FitData } from './fit-data';
-import { expandMatrix, parameterRow } from './fit-result';
+import { excludedFields, expandMatrix, parameterRow } from './fit-result';
 import { numberArrayOf, toNumberArray } from './number-array';
+import { warningText } from '../messages';
 
 export interface FitStatisticsInput {
   fit: FitPlan;
@@ -48,7 +49,7 @@ export interface FitStatisticsInput {
 
 type StatFields = Pick<
   FitResult,
-  'parameters' | 'covariance' | 'correlation' | 'goodness' | 'residuals' | 'points' | 'bands' | 'predictor' | 'response' | 'sigmaAbsolute' | 'rowsDropped'
+  'parameters' | 'covariance' | 'correlation' | 'goodness' | 'residuals' | 'points' | 'bands' | 'predictor' | 'response' | 'sigmaAbsolute' | 'rowsDropped' | 'excluded'
 >;
 
 export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; warnings: FitWarning[] } {
@@ -175,8 +176,9 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
       response: exprText(fit.blocks[0].response),
       sigmaAbsolute: data.sigmaAbsolute,
       rowsDropped: data.rowsDropped,
+      ...excludedFields(data),
     },
-    warnings,
+    warnings: data.excluded ? [...warnings, { code: 'rows_dropped', message: warningText.rows_excluded(data.excluded.lines.length, data.file, data.excluded.lines) }] : warnings,
   };
 }
 
