@@ -231,11 +231,10 @@ export class CsvScanner {
     let inQuotes = false;
     for (let i = pos; i < n; i++) {
       const b = buf[i];
-      if (b === QUOTE) {
-        inQuotes = !inQuotes; // a doubled quote toggles twice: no net change
-        content = true;
-      } else if (inQuotes) continue;
-      else if (b === LF || b === CR) {
+      if (b === QUOTE) inQuotes = !inQuotes; // a doubled quote toggles twice: no net change
+      else if (inQuotes) {
+        if (!isBlankByte(b)) content = true;
+      } else if (b === LF || b === CR) {
         if (content) return pickDelimiter(comma, semicolon, tab, this.options.decimal);
         comma = semicolon = tab = 0;
       } else if (b === COMMA) comma++;
@@ -305,8 +304,9 @@ export class CsvScanner {
       break;
     }
     this.line = line;
-    if (fields.every((f) => f === '')) {
-      if (fields.length > 1) this.skippedDelimiters = true;
+    // blank before the header: nothing but spaces, tabs, commas and semicolons (the rule of delimiter detection)
+    if (fields.every((f) => /^[ \t\r\n,;]*$/.test(f))) {
+      if (fields.length > 1 || fields[0] !== '') this.skippedDelimiters = true;
       return p;
     }
     this.headers = fields;
@@ -533,6 +533,11 @@ export class CsvScanner {
   private takeBack(count: number): void {
     for (let j = 0; j < count; j++) this.builders[j].unpush();
   }
+}
+
+/** Bytes that are no content of a header line: space, tab, CR, LF, comma, semicolon. */
+function isBlankByte(b: number): boolean {
+  return b === SPACE || b === TAB || b === CR || b === LF || b === COMMA || b === SEMICOLON;
 }
 
 /** ASCII text of a plain number cell, its decimal mark written as '.' (for Number()). */

@@ -2,8 +2,8 @@
  * Delimiter detection from the header line.
  *
  * Rule (documented for users): in the first line that holds anything but
- * spaces, commas, semicolons and tabs (the header; a quoted line break
- * continues the line), count commas, semicolons and tabs outside double
+ * spaces, tabs, commas, semicolons and quotes (the header; a quoted line
+ * break continues the line), count commas, semicolons and tabs outside double
  * quotes; the most frequent wins; ties are broken in the order tab,
  * semicolon, comma; a header with none of them is a single column read as
  * comma-separated. When the decimal mark is a comma, the comma is not a
@@ -20,11 +20,10 @@ export function detectDelimiter(text: string, decimal: DecimalMark = '.'): Delim
   let inQuotes = false;
   for (let i = 0; i < text.length; i++) {
     const c = text[i];
-    if (c === '"') {
-      inQuotes = !inQuotes; // an escaped quote "" toggles twice: no net change
-      content = true;
-    } else if (inQuotes) continue;
-    else if (c === '\n' || c === '\r') {
+    if (c === '"') inQuotes = !inQuotes; // an escaped quote "" toggles twice: no net change
+    else if (inQuotes) {
+      if (!' \t\r\n,;'.includes(c)) content = true;
+    } else if (c === '\n' || c === '\r') {
       if (content) break;
       comma = semicolon = tab = 0;
     } else if (c === ',') comma++;
