@@ -95,6 +95,8 @@ export const errorText = {
   notEnoughRows: (fit: string, n: number, p: number) => `fit ${fit} has ${n} usable row${n === 1 ? '' : 's'} for ${p} free parameter${p === 1 ? '' : 's'}: at least ${p} are needed, more to estimate the scatter`,
   nonFinite: (fit: string, what: string, row: number) => `fit ${fit}: ${what} is not a finite number at data line ${row}`,
   badSigma: (fit: string, row: number, value: number) => `fit ${fit}: sigma must be positive and finite, got ${num(value)} at data line ${row}`,
+  sigmaOutOfRange: (fit: string, row: number, value: number) =>
+    `fit ${fit}: sigma ${num(value)} at data line ${row} is out of range: its weight 1/σ² is not a finite positive double (|σ| must lie between about 1e-154 and 1e154); give the response and sigma in other units`,
   badWeight: (fit: string, row: number, value: number) => `fit ${fit}: weight must be non-negative and finite (0 leaves a row out), got ${num(value)} at data line ${row}`,
   unknownFit: (name: string) => `no fit named ${name}`,
   fixedWithoutValue: (fit: string, names: string[]) => `fit ${fit}: fixed parameter${names.length > 1 ? 's' : ''} ${names.join(', ')} need${names.length > 1 ? '' : 's'} a value`,

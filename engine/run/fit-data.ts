@@ -135,6 +135,8 @@ export function prepareFitData(fit: FitPlan, source: DataSource, table: DataTabl
     const bad = firstBad(sigma, (v) => v > 0 && Number.isFinite(v));
     if (bad >= 0) errors.push({ code: 'bad_sigma', message: errorText.badSigma(fit.name, s.lines[bad], sigma[bad]), file: source.path, row: s.lines[bad], range: block.sigma.range ?? block.range, fit: fit.name });
     weights = sigma.map((v) => 1 / (v * v));
+    const out = bad >= 0 ? -1 : firstBad(weights, (w) => w > 0 && Number.isFinite(w));
+    if (out >= 0) errors.push({ code: 'bad_sigma', message: errorText.sigmaOutOfRange(fit.name, s.lines[out], sigma[out]), file: source.path, row: s.lines[out], range: block.sigma.range ?? block.range, fit: fit.name });
   } else if (block.weight) {
     weights = evalExpr(block.weight);
     // 0 leaves the row out of the fit (below); negative and non-finite weights are errors

@@ -1,7 +1,7 @@
 /**
  * Reads the header line of each data file a spec names, for the checker's
- * column check, completion and the "file not found" diagnostic. Only the
- * first 64 KiB of a local file are read (engine/data `readHeaderFile`);
+ * column check, completion and the "file not found" diagnostic. A local
+ * file is read until its header ends, at most 16 MiB (engine/data `readHeaderFile`);
  * other file systems go through `vscode.workspace.fs`. Results are cached by
  * file, modification time and size.
  */

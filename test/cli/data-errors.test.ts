@@ -193,6 +193,15 @@ describe('weight 0 leaves a point out', () => {
     expect(r.stderr).toMatch(/sigma must be positive and finite, got Infinity at data line 3/);
   });
 
+  it('a sigma whose weight 1/σ² leaves the range of doubles is a located error, not a silent drop', async () => {
+    const spec = 'data d = "d.csv"\nfit f on d {\n  model y = a + b * x\n  param a\n  param b\n  sigma s\n}\n';
+    for (const sigma of ['1e-200', '1e200']) {
+      const r = await fitWith(`x,y,s\n1,2,1\n2,4,${sigma}\n3,6,1\n4,8.1,1\n`, spec);
+      expect(r.code).toBe(EXIT.inputError);
+      expect(r.stderr).toContain(`d.csv:3: error: fit f: sigma ${Number(sigma)} at data line 3 is out of range`);
+    }
+  });
+
   it('draws the left-out rows hollow in the data chart', async () => {
     const dir = tempDir('lw-w0-');
     writeFileSync(join(dir, 'd.csv'), data);
