@@ -126,7 +126,7 @@ function findColumn(table: DataTable, name: string, file: string, errors: DataEr
       message: `${file}: no column "${name}"; the header has ${table.headers.filter((h) => h !== '').map((h) => `"${h}"`).join(', ')}`,
     });
   } else {
-    errors.push({ code: 'duplicate_column', file, row: table.headerLine, column: name, message: `${file}: the header names "${name}" ${matches.length} times` });
+    errors.push({ code: 'duplicate_column', file, row: table.headerLine, field: table.headers.indexOf(name, table.headers.indexOf(name) + 1) + 1, column: name, message: `${file}: the header names "${name}" ${matches.length} times` });
   }
   return undefined;
 }

@@ -123,25 +123,30 @@ export function prepareFitData(fit: FitPlan, source: DataSource, table: DataTabl
     return out;
   };
   const errors: RunError[] = [];
+  /** The field of a value that is one column as written (`weight w`), for the place of its errors. */
+  const fieldOf = (e: Expr | undefined): { field?: number; column?: string } => {
+    const k = e?.kind === 'column' ? table.headers.indexOf(e.name) : -1;
+    return k >= 0 && e?.kind === 'column' ? { field: k + 1, column: e.name } : {};
+  };
   const y = evalExpr(block.response);
   const firstBad = (values: Float64Array, ok: (v: number) => boolean) => values.findIndex((v) => !ok(v));
   const badY = firstBad(y, Number.isFinite);
   if (badY >= 0) {
-    errors.push({ code: 'non_finite_response', message: errorText.nonFinite(fit.name, 'the response', s.lines[badY]), file: source.path, row: s.lines[badY], range: block.response.range ?? block.range, fit: fit.name });
+    errors.push({ code: 'non_finite_response', message: errorText.nonFinite(fit.name, 'the response', s.lines[badY]), file: source.path, row: s.lines[badY], ...fieldOf(block.response), range: block.response.range ?? block.range, fit: fit.name });
   }
   let weights: Float64Array | null = null;
   if (block.sigma) {
     const sigma = evalExpr(block.sigma);
     const bad = firstBad(sigma, (v) => v > 0 && Number.isFinite(v));
-    if (bad >= 0) errors.push({ code: 'bad_sigma', message: errorText.badSigma(fit.name, s.lines[bad], sigma[bad]), file: source.path, row: s.lines[bad], range: block.sigma.range ?? block.range, fit: fit.name });
+    if (bad >= 0) errors.push({ code: 'bad_sigma', message: errorText.badSigma(fit.name, s.lines[bad], sigma[bad]), file: source.path, row: s.lines[bad], ...fieldOf(block.sigma), range: block.sigma.range ?? block.range, fit: fit.name });
     weights = sigma.map((v) => 1 / (v * v));
     const out = bad >= 0 ? -1 : firstBad(weights, (w) => w > 0 && Number.isFinite(w));
-    if (out >= 0) errors.push({ code: 'bad_sigma', message: errorText.sigmaOutOfRange(fit.name, s.lines[out], sigma[out]), file: source.path, row: s.lines[out], range: block.sigma.range ?? block.range, fit: fit.name });
+    if (out >= 0) errors.push({ code: 'bad_sigma', message: errorText.sigmaOutOfRange(fit.name, s.lines[out], sigma[out]), file: source.path, row: s.lines[out], ...fieldOf(block.sigma), range: block.sigma.range ?? block.range, fit: fit.name });
   } else if (block.weight) {
     weights = evalExpr(block.weight);
     // 0 leaves the row out of the fit (below); negative and non-finite weights are errors
     const bad = firstBad(weights, (v) => v >= 0 && Number.isFinite(v));
-    if (bad >= 0) errors.push({ code: 'bad_weight', message: errorText.badWeight(fit.name, s.lines[bad], weights[bad]), file: source.path, row: s.lines[bad], range: block.weight.range ?? block.range, fit: fit.name });
+    if (bad >= 0) errors.push({ code: 'bad_weight', message: errorText.badWeight(fit.name, s.lines[bad], weights[bad]), file: source.path, row: s.lines[bad], ...fieldOf(block.weight), range: block.weight.range ?? block.range, fit: fit.name });
   }
   if (errors.length) return fail(errors);
 

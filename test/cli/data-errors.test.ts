@@ -178,7 +178,7 @@ describe('weight 0 leaves a point out', () => {
   it('negative and non-finite weights stay located errors; all weights 0 is a data error', async () => {
     const neg = await fitWith(data.replace('3,6.2,0', '3,6.2,-1'), spec(''));
     expect(neg.code).toBe(EXIT.inputError);
-    expect(neg.stderr).toMatch(/d\.csv:4: error: fit f: weight must be non-negative and finite \(0 leaves a row out\), got -1 at data line 4/);
+    expect(neg.stderr).toMatch(/d\.csv:4:3: error: fit f: weight must be non-negative and finite \(0 leaves a row out\), got -1 at data line 4/);
     const inf = await fitWith(data, spec('').replace('weight w', 'weight 1 / (w - w)'));
     expect(inf.code).toBe(EXIT.inputError);
     expect(inf.stderr).toMatch(/weight must be non-negative and finite/);
@@ -198,7 +198,7 @@ describe('weight 0 leaves a point out', () => {
     for (const sigma of ['1e-200', '1e200']) {
       const r = await fitWith(`x,y,s\n1,2,1\n2,4,${sigma}\n3,6,1\n4,8.1,1\n`, spec);
       expect(r.code).toBe(EXIT.inputError);
-      expect(r.stderr).toContain(`d.csv:3: error: fit f: sigma ${Number(sigma)} at data line 3 is out of range`);
+      expect(r.stderr).toContain(`d.csv:3:3: error: fit f: sigma ${Number(sigma)} at data line 3 is out of range`);
     }
   });
 
