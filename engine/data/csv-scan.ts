@@ -62,6 +62,9 @@ const NINE = 57;
 const E_UPPER = 69;
 const E_LOWER = 101;
 
+/** Rows read before the columns are reserved from the size estimate (ScannerOptions.sizeHint). */
+const RESERVE_SAMPLE_ROWS = 1000;
+
 /** `quoted()` results besides an end offset. */
 const INCOMPLETE = -1;
 const UNCLOSED = -2;
@@ -76,6 +79,8 @@ export interface ScannerOptions {
   maxErrors: number;
   /** Stop after the header record (header reading for `check` and the editor). */
   headerOnly?: boolean;
+  /** Total bytes of the input when known (a file's size): columns are then reserved for the rows it likely holds. */
+  sizeHint?: number;
 }
 
 export interface ScannedTable {
@@ -129,6 +134,10 @@ export class CsvScanner {
   private qLines = 0;
   /** Errors before the record being read: a record cut off takes its errors back too. */
   private errorMark = 0;
+  /** Bytes consumed by earlier scans, and where the data records start (after the header). */
+  private consumed = 0;
+  private dataStart = -1;
+  private reserved = false;
 
   constructor(private readonly options: ScannerOptions) {
     this.delimiter = options.delimiter ?? null;
@@ -141,6 +150,38 @@ export class CsvScanner {
    * cut off by the end of the chunk); with `final`, everything is consumed.
    */
   scan(buf: Uint8Array, n: number, final: boolean): number {
+    const used = this.scanChunk(buf, n, final);
+    if (this.dataStart < 0 && this.headers !== null) this.dataStart = this.consumed + this.headerEnd;
+    this.consumed += used;
+    if (!this.reserved && this.rowCount >= RESERVE_SAMPLE_ROWS) this.reserve();
+    return used;
+  }
+
+  /** Where the header record ended in the chunk that held it. */
+  private headerEnd = 0;
+
+  /**
+   * Reserves each column for the rows the input likely holds: its size over
+   * the bytes per record so far, plus 2 % (once, after RESERVE_SAMPLE_ROWS
+   * rows; see ColumnBuilder.reserve). An allocation that fails leaves the
+   * columns in blocks.
+   */
+  private reserve(): void {
+    this.reserved = true;
+    const size = this.options.sizeHint;
+    const perRow = (this.consumed - this.dataStart) / this.rowCount;
+    if (!size || !(perRow > 0) || this.dataStart < 0) return;
+    const rows = Math.ceil(((size - this.dataStart) / perRow) * 1.02) + 64;
+    if (!(rows > this.rowCount) || rows > 2 ** 30) return;
+    try {
+      for (const b of this.builders) b.reserve(rows);
+      this.lines.reserve(rows);
+    } catch {
+      // not enough memory for one block per column: blocks it is
+    }
+  }
+
+  private scanChunk(buf: Uint8Array, n: number, final: boolean): number {
     let pos = 0;
     if (!this.bomChecked) {
       if (!final && n < 3 && (n === 0 || buf[0] === 0xef) && (n < 2 || buf[1] === 0xbb)) return 0; // maybe a cut byte-order mark
@@ -152,6 +193,7 @@ export class CsvScanner {
       const next = this.header(buf, pos, n, final);
       if (next < 0) return pos;
       pos = next;
+      if (this.headers !== null) this.headerEnd = next;
     }
     return this.done ? n : pos;
   }

@@ -87,13 +87,13 @@ export function bytesSource(bytes: Uint8Array): ByteSource {
  * Reads a CSV file's records with a header. Returns the table, or every
  * located error found (up to `maxErrors`). Never throws for bad input.
  */
-export function readCsv(source: ByteSource, options: CsvOptions & { onBytes?: (bytes: Uint8Array) => void } = {}): CsvResult & { bytes: number } {
+export function readCsv(source: ByteSource, options: CsvOptions & { onBytes?: (bytes: Uint8Array) => void; sizeHint?: number } = {}): CsvResult & { bytes: number } {
   const file = options.file ?? '<text>';
   const decimal = options.decimal ?? '.';
   if (options.delimiter === ',' && decimal === ',') {
     return { ok: false, errors: [{ code: 'delimiter_conflict', file, message: dataText.delimiterConflict }], bytes: 0 };
   }
-  const scanner = new CsvScanner({ delimiter: options.delimiter, decimal, file, maxErrors: options.maxErrors ?? 20 });
+  const scanner = new CsvScanner({ delimiter: options.delimiter, decimal, file, maxErrors: options.maxErrors ?? 20, sizeHint: options.sizeHint });
   const run = runScanner(scanner, source, { chunkSize: options.chunkSize, onBytes: options.onBytes });
   if (scanner.errors.length > 0) return { ok: false, errors: scanner.errors, bytes: run.bytes };
   const scanned = scanner.table();

@@ -7,7 +7,7 @@
  * whose columns fit in memory loads (its text is never held whole).
  */
 import { createHash } from 'node:crypto';
-import { closeSync, openSync, readSync } from 'node:fs';
+import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
 import { bytesSource, readCsv, type ByteSource } from './csv';
 import type { CsvOptions, DataError, DataTable } from './types';
 
@@ -66,12 +66,12 @@ export function loadDataFile(
       return { ok: false, errors: [fileError(e, file)] };
     }
     const bytes = typeof content === 'string' ? Buffer.from(content, 'utf8') : content;
-    parsed = readCsv(bytesSource(bytes), { ...csv, file, onBytes });
+    parsed = readCsv(bytesSource(bytes), { ...csv, file, onBytes, sizeHint: bytes.length });
   } else {
     let fd: number | null = null;
     try {
       fd = openForReading(path);
-      parsed = readCsv(fdSource(fd), { ...csv, file, onBytes });
+      parsed = readCsv(fdSource(fd), { ...csv, file, onBytes, sizeHint: fstatSync(fd).size });
     } catch (e) {
       return { ok: false, errors: [fileError(e, file)] };
     } finally {

@@ -31,6 +31,32 @@ describe('data/column-builder ColumnBuilder', () => {
     expect(c.text).toBeNull();
   });
 
+  it('reserve: one block for the estimated rows, returned without a copy when nearly full, blocks beyond it', () => {
+    const b = new ColumnBuilder('x');
+    for (let i = 0; i < 10; i++) b.pushNumber(i);
+    b.reserve(100_000);
+    for (let i = 10; i < 95_000; i++) b.pushNumber(i);
+    const c = b.finish();
+    expect(c.values.length).toBe(95_000);
+    expect(c.values.buffer.byteLength).toBe(100_000 * 8); // a view on the reserved block: no copy
+    expect(c.values[94_999]).toBe(94_999);
+    // an estimate that is too low: the reserved block fills, then blocks follow and are joined
+    const low = new ColumnBuilder('y');
+    low.reserve(70_000);
+    for (let i = 0; i < 70_000 + 70_000; i++) low.pushNumber(i);
+    for (let k = 0; k < 70_001; k++) low.unpush(); // back into the reserved block
+    low.pushNumber(-5);
+    const d = low.finish();
+    expect(d.values.length).toBe(70_000);
+    expect(d.values[69_998]).toBe(69_998);
+    expect(d.values[69_999]).toBe(-5);
+    // an estimate far too high: copied to its length
+    const high = new ColumnBuilder('z');
+    high.reserve(1000);
+    high.pushNumber(1);
+    expect(high.finish().values.buffer.byteLength).toBe(8);
+  });
+
   it('LineList joins its blocks in order', () => {
     const l = new LineList();
     for (let i = 0; i < 70_000; i++) l.push(i + 2);

@@ -5,6 +5,7 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { readHeaderFile, readHeaderText } from '../../engine/data/header';
 import { loadDataFile } from '../../engine/data/load';
+import { parseCsvBytes } from '../../engine/data/csv';
 
 const dir = mkdtempSync(join(tmpdir(), 'lw-data-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -57,6 +58,13 @@ describe('data/load loadDataFile', () => {
     expect(Array.from(small.data.table.columns[2].values)).toEqual(Array.from(whole.data.table.columns[2].values));
     expect(small.data.table.columns[1].text).toEqual(whole.data.table.columns[1].text);
     expect(small.data.table.lines[2999]).toBe(2 + 2 * 2999);
+    // columns reserved from the file size (loadDataFile) hold the same as columns grown in blocks (no size known)
+    const blocks = parseCsvBytes(readFileSync(path));
+    expect(blocks.ok).toBe(true);
+    if (!blocks.ok) return;
+    expect(Array.from(blocks.table.columns[2].values)).toEqual(Array.from(small.data.table.columns[2].values));
+    expect(Array.from(blocks.table.lines)).toEqual(Array.from(small.data.table.lines));
+    expect(small.data.table.columns[2].values.buffer.byteLength).toBeLessThan(1.1 * 3000 * 8);
   });
 });
 
