@@ -6,6 +6,12 @@
  */
 import type { WarningCode } from './result';
 
+/** At most 10 line numbers, then how many more. */
+export function listLines(lines: ArrayLike<number>): string {
+  const shown = Array.from({ length: Math.min(lines.length, 10) }, (_, i) => lines[i]).join(', ');
+  return lines.length > 10 ? `${shown} and ${lines.length - 10} more` : shown;
+}
+
 export function num(x: number): string {
   if (!Number.isFinite(x)) return String(x);
   return Number(x.toPrecision(6)).toString();
@@ -48,6 +54,9 @@ export const warningText = {
   /** Also code 'rows_dropped': rows of a per-group fit without a group value. */
   rows_without_group: (rows: number, file: string, column: string) =>
     `${rows} row${rows === 1 ? '' : 's'} of ${file} ha${rows === 1 ? 's' : 've'} no value in the group column ${column} and belong${rows === 1 ? 's' : ''} to no group`,
+  /** Also code 'rows_dropped': rows a weight of 0 leaves out of the fit (listed in the result's `excluded`). */
+  rows_excluded: (rows: number, file: string, lines: ArrayLike<number>) =>
+    `${rows} row${rows === 1 ? '' : 's'} of ${file} ha${rows === 1 ? 's' : 've'} weight 0 and ${rows === 1 ? 'is' : 'are'} left out of the fit (line${rows === 1 ? '' : 's'} ${listLines(lines)}); ${rows === 1 ? 'it is' : 'they are'} still drawn`,
   rank_deficient: (rank: number, p: number, params: string[]) =>
     `the parameters are not all determined by the data (rank ${rank} of ${p})${params.length ? `; check ${params.join(', ')}` : ''}`,
   guessed_start: (params: string[], how: string) =>
@@ -108,11 +117,44 @@ export const errorText = {
   notEnoughRows: (fit: string, n: number, p: number) => `fit ${fit} has ${n} usable row${n === 1 ? '' : 's'} for ${p} free parameter${p === 1 ? '' : 's'}: at least ${p} are needed, more to estimate the scatter`,
   nonFinite: (fit: string, what: string, row: number) => `fit ${fit}: ${what} is not a finite number at data line ${row}`,
   badSigma: (fit: string, row: number, value: number) => `fit ${fit}: sigma must be positive and finite, got ${num(value)} at data line ${row}`,
-  badWeight: (fit: string, row: number, value: number) => `fit ${fit}: weight must be non-negative and finite, got ${num(value)} at data line ${row}`,
+  sigmaOutOfRange: (fit: string, row: number, value: number) =>
+    `fit ${fit}: sigma ${num(value)} at data line ${row} is out of range: its weight 1/σ² is not a finite positive double (|σ| must lie between about 1e-154 and 1e154); give the response and sigma in other units`,
+  badWeight: (fit: string, row: number, value: number) => `fit ${fit}: weight must be non-negative and finite (0 leaves a row out), got ${num(value)} at data line ${row}`,
   unknownFit: (name: string) => `no fit named ${name}`,
   fixedWithoutValue: (fit: string, names: string[]) => `fit ${fit}: fixed parameter${names.length > 1 ? 's' : ''} ${names.join(', ')} need${names.length > 1 ? '' : 's'} a value`,
   noPredictor: (fit: string, what: string) => `${what} needs a fit with a single predictor column; ${fit} has none`,
   wrongVariable: (fit: string, given: string, predictor: string) => `${fit} varies with ${predictor}, not ${given}`,
   wrongResponse: (fit: string, given: string, response: string) => `${fit} fits ${response}, not ${given}`,
   internal: (fit: string, message: string) => `fit ${fit} could not be completed: ${message}`,
+} as const;
+
+/** `file:line:column` (column = 1-based field number), or `file:line` without a column. */
+export function dataPlace(file: string, line: number, field?: number): string {
+  return field === undefined ? `${file}:${line}` : `${file}:${line}:${field}`;
+}
+
+/** Texts of data-file errors (engine/data): each starts with its place in the file. */
+export const dataText = {
+  emptyFile: (file: string) => `${file} is empty: expected a header line naming the columns`,
+  noHeader: (file: string) => `${file} has no header line: it holds only blank lines and delimiters`,
+  delimiterConflict: 'the comma cannot be both the delimiter and the decimal mark; use delimiter ";" with decimal ","',
+  tooManyFields: (place: string, fields: number, width: number, delimiter: string) =>
+    `${place}: ${fields} fields where the header has ${width} (${delimiter}-separated); field ${width + 1} has no column`,
+  tooFewFields: (place: string, fields: number, width: number, delimiter: string, missing: string) =>
+    `${place}: ${fields} field${fields === 1 ? '' : 's'} where the header has ${width} (${delimiter}-separated); column ${missing} is missing`,
+  unclosedQuote: (place: string, column: string) =>
+    `${place}: the quoted cell of ${column} that opens here is never closed (a closing " is missing)`,
+  textAfterQuote: (place: string, column: string) =>
+    `${place}: text after the closing quote of a quoted cell in ${column}; a quote inside a quoted cell must be doubled ("")`,
+  /** A column in messages: `"name" (field k)`, or `field k` past the header. */
+  column: (name: string | undefined, field: number) => (name === undefined ? `field ${field}` : `"${name}" (field ${field})`),
+  headerTooLong: (file: string, cap: number) =>
+    `the header of ${file} does not end within its first ${cap / 1048576} MiB; its columns are not checked (a header longer than that is taken as a broken file)`,
+  noDataRows: (fit: string, file: string) => `fit ${fit}: ${file} has a header but no data rows`,
+  allRowsMissing: (fit: string, file: string, rows: number, columns: string[]) =>
+    `fit ${fit}: every one of the ${rows} data row${rows === 1 ? '' : 's'} of ${file} has an empty or NA cell in a column the fit uses (${columns.join(', ')}), so no row is left (the first such cell is here)`,
+  allRowsFiltered: (fit: string, file: string, rows: number) =>
+    `fit ${fit}: the where condition of the data statement leaves none of the ${rows} usable row${rows === 1 ? '' : 's'} of ${file}`,
+  allRowsExcluded: (fit: string, file: string, rows: number, what: string) =>
+    `fit ${fit}: every one of the ${rows} usable row${rows === 1 ? '' : 's'} of ${file} has ${what}, which leaves it out of the fit, so no row is left`,
 } as const;

@@ -116,6 +116,15 @@ export interface PointTable {
   weight: number[] | null;
 }
 
+/** Rows left out of a fit, with their values (same conventions as `PointTable`). */
+export interface ExcludedPoints {
+  reason: 'weight_zero';
+  /** 1-based file line of each row. */
+  row: number[];
+  x: number[] | null;
+  y: number[];
+}
+
 /** Bands over the predictor range (delta method), for single-predictor fits. */
 export interface Bands {
   x: number[];
@@ -166,6 +175,12 @@ export interface FitResult {
   response: string;
   sigmaAbsolute: boolean;
   rowsDropped: number;
+  /**
+   * Rows left out of the fit on purpose (additive, optional; absent when none):
+   * not in `points`, n, dof or any statistic, but still drawn. `reason`
+   * `weight_zero`: the weight expression is 0 there.
+   */
+  excluded?: ExcludedPoints;
   warnings: FitWarning[];
   /** Milliseconds spent fitting (not deterministic; views may omit it). */
   elapsedMs: number;
@@ -233,6 +248,8 @@ export interface RunError {
   /** Where in a data file. */
   file?: string;
   row?: number;
+  /** 1-based field number of the place in its file line (the column of `file:line:column`; additive, optional). */
+  field?: number;
   column?: string;
   /** The offending cell text, when a data cell is at fault (additive, optional). */
   value?: string;

@@ -31,6 +31,7 @@
  * candidate is used (1, the bound ± 1, or the lowest interior grid point).
  */
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
+import { norm2 } from './linalg/norm';
 
 /** What the guesser needs from a compiled model (free parameters only). */
 export interface StartModel {
@@ -214,28 +215,37 @@ function solveLinearSet(input: StartInput, theta: Float64Array, linear: number[]
   });
   const rw = new Float64Array(n);
   for (let i = 0; i < n; i++) rw[i] = (sqrtW ? sqrtW[i] : 1) * (y[i] - f[i]);
+  // norms safe from under- and overflow (linalg/norm.ts; the same value as √Σc² where that is in range)
   const norms = cj.map((c) => {
-    let s = 0;
-    for (let i = 0; i < n; i++) s += c[i] * c[i];
-    return s > 0 && Number.isFinite(s) ? Math.sqrt(s) : 1;
+    const s = norm2(c, 0, n);
+    return s > 0 && Number.isFinite(s) ? s : 1;
   });
-  const A = new Matrix(q, q);
-  const b = new Float64Array(q);
-  for (let a = 0; a < q; a++) {
-    const ca = cj[a];
-    let rhs = 0;
-    for (let i = 0; i < n; i++) rhs += ca[i] * rw[i];
-    b[a] = rhs / norms[a];
-    for (let c = 0; c <= a; c++) {
-      const cc = cj[c];
-      let s = 0;
-      for (let i = 0; i < n; i++) s += ca[i] * cc[i];
-      const v = s / (norms[a] * norms[c]);
-      A.set(a, c, v);
-      A.set(c, a, v);
+  const normal = (unit: boolean) => {
+    // unit: columns divided by their norms before the products (for columns near 1e±300, whose products leave the range)
+    const cols = unit ? cj.map((c, a) => c.map((v) => v / norms[a])) : cj;
+    const A = new Matrix(q, q);
+    const b = new Float64Array(q);
+    for (let a = 0; a < q; a++) {
+      const ca = cols[a];
+      let rhs = 0;
+      for (let i = 0; i < n; i++) rhs += ca[i] * rw[i];
+      b[a] = unit ? rhs : rhs / norms[a];
+      for (let c = 0; c <= a; c++) {
+        const cc = cols[c];
+        let s = 0;
+        for (let i = 0; i < n; i++) s += ca[i] * cc[i];
+        const v = unit ? s : s / (norms[a] * norms[c]);
+        A.set(a, c, v);
+        A.set(c, a, v);
+      }
     }
-  }
-  if (!b.every(Number.isFinite) || !A.to1DArray().every(Number.isFinite)) return;
+    return { A, b };
+  };
+  const finite = (m: { A: Matrix; b: Float64Array }) => m.b.every(Number.isFinite) && m.A.to1DArray().every(Number.isFinite);
+  let system = normal(false);
+  if (!finite(system)) system = normal(true);
+  if (!finite(system)) return;
+  const { A, b } = system;
   const eig = new EigenvalueDecomposition(A, { assumeSymmetric: true });
   const values = eig.realEigenvalues;
   const vectors = eig.eigenvectorMatrix;

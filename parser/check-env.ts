@@ -10,9 +10,11 @@ export interface CheckContext {
   /**
    * Column names of a data source, when the caller can read them (editor, CLI).
    * Returning `undefined` (or omitting the callback) means "unknown": then
-   * unresolved identifiers in expressions are taken as columns.
+   * unresolved identifiers in expressions are taken as columns. `options`
+   * are the data statement's `delimiter` and `decimal`, for reading the header
+   * as the fit will read the file.
    */
-  headers?: (dataName: string, path: string) => string[] | undefined;
+  headers?: (dataName: string, path: string, options: { delimiter?: ',' | ';' | '\t'; decimal?: '.' | ',' }) => string[] | undefined;
 }
 
 export interface ConstInfo {

@@ -80,9 +80,9 @@ function declarations(statements: StatementAst[]): Env['declared'] {
   return declared;
 }
 
-function readHeaders(env: Env, name: string, path: string): ReadonlySet<string> | undefined {
+function readHeaders(env: Env, name: string, path: string, options: Pick<DataSource, 'delimiter' | 'decimal'>): ReadonlySet<string> | undefined {
   try {
-    const h = env.ctx.headers?.(name, path);
+    const h = env.ctx.headers?.(name, path, options);
     return Array.isArray(h) ? new Set(h.map(String)) : undefined;
   } catch {
     return undefined; // a failing callback means "headers unknown", not a crash
@@ -98,7 +98,15 @@ function checkData(env: Env, s: DataAst): DataSource | undefined {
   const prev = env.data.get(name);
   if (prev) r.report('duplicate-name', MSG.duplicate('data', name, prev.line), s.name.range);
   if (s.path.value.trim() === '') r.report('empty-path', MSG.emptyPath, s.path.range);
-  const headers = readHeaders(env, name, s.path.value);
+  // the header is read with the statement's delimiter and decimal options (checked below)
+  const readOptions: Pick<DataSource, 'delimiter' | 'decimal'> = {};
+  for (const o of s.options) {
+    const v = o.kind === 'delimiter' || o.kind === 'decimal' ? o.value?.value : undefined;
+    if (v === undefined) continue;
+    if (o.kind === 'delimiter' && readOptions.delimiter === undefined && Object.prototype.hasOwnProperty.call(DELIMITERS, v)) readOptions.delimiter = DELIMITERS[v];
+    if (o.kind === 'decimal' && readOptions.decimal === undefined && (v === '.' || v === ',')) readOptions.decimal = v;
+  }
+  const headers = readHeaders(env, name, s.path.value, readOptions);
   const source: DataSource = { name, path: s.path.value, range: s.range };
   const seen = new Set<string>();
   for (const o of s.options) {

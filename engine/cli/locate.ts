@@ -55,7 +55,7 @@ export function runErrorLine(
 ): string {
   if (e.file && (e.row !== undefined || !e.range)) {
     const abs = isAbsolute(e.file) ? e.file : resolve(spec.dir, e.file);
-    const col = e.column !== undefined ? columnIndex(abs, e.column) : undefined;
+    const col = e.field ?? (e.column !== undefined ? columnIndex(abs, e.column) : undefined);
     return located(displayPath(abs, cwd), e.row, e.row !== undefined ? col : undefined, 'error', withoutLocation(e.message, e.file));
   }
   if (e.range) return located(spec.display, e.range.start.line, e.range.start.column, 'error', e.message);

@@ -5,7 +5,7 @@
 import { dirname, resolve } from 'node:path';
 import { analyze } from '../../parser/index';
 import type { Diagnostic, Plan } from '../../parser/plan';
-import { readHeaderFile } from '../data/index';
+import { readHeader, type HeaderOptions } from '../data/index';
 import { dataFilePath, inputStatus, readInputSync, type InputError } from '../io/index';
 import type { CliIo } from './io';
 import { diagnosticLine, displayPath, located, sortDiagnostics } from './locate';
@@ -47,13 +47,21 @@ export function readSpec(arg: string, io: CliIo): { ok: true; spec: LoadedSpec }
  * parser falls back to taking unknown names as columns and the run reports the
  * missing file with its location.
  */
-export function headerReader(specDir: string): (dataName: string, path: string) => string[] | undefined {
+export function headerReader(specDir: string): ((dataName: string, path: string, options?: HeaderOptions) => string[] | undefined) & { tooLong: Map<string, string> } {
   const cache = new Map<string, string[] | undefined>();
-  return (_name, path) => {
+  /** Data paths (as written) whose header is longer than the cap, with the message. */
+  const tooLong = new Map<string, string>();
+  const read = (_name: string, path: string, options: HeaderOptions = {}) => {
     const abs = resolve(specDir, path);
-    if (!cache.has(abs)) cache.set(abs, readHeaderFile(abs)?.headers);
-    return cache.get(abs);
+    const key = `${options.delimiter ?? ''}\u0000${options.decimal ?? ''}\u0000${abs}`;
+    if (!cache.has(key)) {
+      const r = readHeader(abs, { ...options, displayPath: path });
+      if (!r.ok && r.reason === 'too_long') tooLong.set(path, r.message);
+      cache.set(key, r.ok ? r.info.headers : undefined);
+    }
+    return cache.get(key);
   };
+  return Object.assign(read, { tooLong });
 }
 
 /**
@@ -77,8 +85,13 @@ export function missingDataDiagnostics(plan: Plan, specDir: string): Diagnostic[
 }
 
 export function checkSpec(spec: LoadedSpec): CheckedSpec {
-  const { plan, diagnostics } = analyze(spec.text, { headers: headerReader(spec.dir) });
-  const sorted = sortDiagnostics([...diagnostics, ...missingDataDiagnostics(plan, spec.dir)]);
+  const headers = headerReader(spec.dir);
+  const { plan, diagnostics } = analyze(spec.text, { headers });
+  const longHeaders: Diagnostic[] = plan.data.flatMap((d) => {
+    const message = headers.tooLong.get(d.path);
+    return message ? [{ severity: 'warning' as const, code: 'header_too_long', message, range: d.range }] : [];
+  });
+  const sorted = sortDiagnostics([...diagnostics, ...missingDataDiagnostics(plan, spec.dir), ...longHeaders]);
   return {
     ...spec,
     plan,

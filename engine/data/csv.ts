@@ -1,132 +1,122 @@
 /**
- * CSV text → column table, per RFC 4180 (quoted fields with embedded
- * delimiters, doubled quotes and line breaks; CRLF or LF line ends), plus a
- * leading UTF-8 byte-order mark, a header record, delimiter detection and an
- * optional decimal comma. Pure: no file access, so the editor can reuse it.
+ * CSV → column table: drives the chunked scanner (`csv-scan.ts`) from a
+ * byte source (a file, a buffer, text). Pure apart from the source the
+ * caller passes, so the editor can reuse it.
  *
- * Plain files (no quotes, consistent LF or CRLF, decimal point) are read by
- * the scanner in `csv-scan.ts`; everything else, and every file the scanner
- * declines, is tokenised by papaparse in step mode, one record at a time, so
- * only typed column arrays are kept, never an object per row. Both paths give
- * identical tables (differential property test in test/data/csv-scan.test.ts).
+ * Streaming: bytes are read into one buffer of `chunkSize` (default 1 MiB);
+ * after each read the scanner takes the complete records, and the cut-off
+ * rest moves to the front for the next read. When a single record fills the
+ * whole buffer, the buffer doubles, so a record of any length costs linear
+ * time. Memory: the buffer plus the columns, never the file's text.
  */
-import Papa from 'papaparse';
-import { ColumnBuilder } from './column-builder';
-import { scanPlainCsv } from './csv-scan';
-import { delimiterName, detectDelimiter } from './delimiter';
-import type { CsvOptions, CsvResult, DataError, DataTable, DecimalMark, Delimiter } from './types';
+import { CsvScanner } from './csv-scan';
+import { dataText } from '../messages';
+import type { CsvOptions, CsvResult, DataError, DataTable } from './types';
 
-/** Counts line breaks up to an offset, incrementally (offsets only grow). */
-class LineCounter {
-  private pos = 0;
-  private line = 1;
-  private readonly breakChar: string;
+/** Reads up to `length` bytes into buf at `offset`; returns how many (0 at the end). */
+export type ByteSource = (buf: Uint8Array, offset: number, length: number) => number;
 
-  constructor(private readonly text: string) {
-    // CR-only files (old Mac) count '\r'; LF and CRLF files count '\n'.
-    this.breakChar = text.includes('\n') || !text.includes('\r') ? '\n' : '\r';
-  }
+export const DEFAULT_CHUNK_SIZE = 1 << 20;
 
-  lineAt(offset: number): number {
-    for (; this.pos < offset && this.pos < this.text.length; this.pos++) {
-      if (this.text[this.pos] === this.breakChar) this.line++;
+export interface ScanRun {
+  /** Bytes read from the source. */
+  bytes: number;
+  /** The scan stopped at `maxBytes` before it was done. */
+  capped: boolean;
+}
+
+/**
+ * Feeds `source` to `scanner` until the input ends or the scanner is done.
+ * `onBytes` sees every byte read, in order (for hashing). With `maxBytes`,
+ * reading stops after that many bytes (`capped` when the scanner wanted more).
+ */
+export function runScanner(
+  scanner: CsvScanner,
+  source: ByteSource,
+  options: { chunkSize?: number; onBytes?: (bytes: Uint8Array) => void; maxBytes?: number } = {},
+): ScanRun {
+  const chunk = Math.max(1, Math.floor(options.chunkSize ?? DEFAULT_CHUNK_SIZE));
+  const maxBytes = options.maxBytes ?? Infinity;
+  let buf = new Uint8Array(Math.max(1, Math.min(chunk, maxBytes)));
+  let len = 0;
+  let total = 0;
+  /** The last scan consumed nothing: fill the whole buffer before scanning again. */
+  let stalled = false;
+  for (;;) {
+    if (len === buf.length) {
+      // One record fills the buffer: double it (linear total cost for a record of any length).
+      const grown = new Uint8Array(buf.length * 2);
+      grown.set(buf.subarray(0, len));
+      buf = grown;
     }
-    return this.line;
+    let eof = false;
+    do {
+      const want = Math.min(buf.length - len, stalled ? Infinity : chunk, maxBytes - total);
+      if (want <= 0) return { bytes: total, capped: true }; // at the cap with the scanner wanting more
+      const got = source(buf, len, want);
+      if (got <= 0) {
+        eof = true;
+        break;
+      }
+      options.onBytes?.(buf.subarray(len, len + got));
+      len += got;
+      total += got;
+    } while (stalled && len < buf.length);
+    const used = scanner.scan(buf, len, eof);
+    if (scanner.done || eof) return { bytes: total, capped: false };
+    stalled = used === 0;
+    if (used > 0) {
+      buf.copyWithin(0, used, len);
+      len -= used;
+    }
   }
+}
+
+/** A byte source over an in-memory array. */
+export function bytesSource(bytes: Uint8Array): ByteSource {
+  let at = 0;
+  return (buf, offset, length) => {
+    const k = Math.min(length, bytes.length - at);
+    buf.set(bytes.subarray(at, at + k), offset);
+    at += k;
+    return k;
+  };
+}
+
+/**
+ * Reads a CSV file's records with a header. Returns the table, or every
+ * located error found (up to `maxErrors`). Never throws for bad input.
+ */
+export function readCsv(source: ByteSource, options: CsvOptions & { onBytes?: (bytes: Uint8Array) => void; sizeHint?: number } = {}): CsvResult & { bytes: number } {
+  const file = options.file ?? '<text>';
+  const decimal = options.decimal ?? '.';
+  if (options.delimiter === ',' && decimal === ',') {
+    return { ok: false, errors: [{ code: 'delimiter_conflict', file, message: dataText.delimiterConflict }], bytes: 0 };
+  }
+  const scanner = new CsvScanner({ delimiter: options.delimiter, decimal, file, maxErrors: options.maxErrors ?? 20, sizeHint: options.sizeHint });
+  const run = runScanner(scanner, source, { chunkSize: options.chunkSize, onBytes: options.onBytes });
+  if (scanner.errors.length > 0) return { ok: false, errors: scanner.errors, bytes: run.bytes };
+  const scanned = scanner.table();
+  if (scanned === null) {
+    const error: DataError = { code: 'empty_file', file, message: scanner.onlyDelimiters ? dataText.noHeader(file) : dataText.emptyFile(file) };
+    return { ok: false, errors: [error], bytes: run.bytes };
+  }
+  const table: DataTable = { ...scanned, decimal };
+  return { ok: true, table, bytes: run.bytes };
+}
+
+/** CSV from bytes (UTF-8, optional byte-order mark). */
+export function parseCsvBytes(bytes: Uint8Array, options: CsvOptions = {}): CsvResult {
+  const { bytes: _read, ...result } = readCsv(bytesSource(bytes), options);
+  return result;
+}
+
+/** CSV from text (encoded as UTF-8 first; a leading U+FEFF is skipped like a byte-order mark). */
+export function parseCsvText(text: string, options: CsvOptions = {}): CsvResult {
+  return parseCsvBytes(new TextEncoder().encode(text), options);
 }
 
 /** Strips a leading UTF-8 byte-order mark (U+FEFF). */
 export function stripBom(text: string): string {
   return text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-}
-
-/**
- * Parses CSV text with a header record. Returns the table, or every located
- * error found (up to `maxErrors`). Never throws for bad input.
- */
-export function parseCsvText(text: string, options: CsvOptions = {}): CsvResult {
-  const file = options.file ?? '<text>';
-  const decimal = options.decimal ?? '.';
-  const maxErrors = options.maxErrors ?? 20;
-  const body = stripBom(text);
-  if (options.delimiter === ',' && decimal === ',') {
-    return fail({ code: 'delimiter_conflict', file, message: 'the comma cannot be both the delimiter and the decimal mark; use delimiter ";" with decimal ","' });
-  }
-  if (body.trim() === '') return fail({ code: 'empty_file', file, message: `${file} is empty: expected a header line naming the columns` });
-  const delimiter = options.delimiter ?? detectDelimiter(body, decimal);
-
-  if (decimal === '.' && options.tokenizer !== 'papaparse') {
-    const scanned = scanPlainCsv(body, delimiter);
-    if (scanned !== null) return { ok: true, table: { headers: scanned.headers, delimiter, decimal, columns: scanned.columns, lines: scanned.lines, rowCount: scanned.rowCount } };
-  }
-  return parseWithPapa(body, delimiter, decimal, file, maxErrors);
-}
-
-/** The general path: papaparse in step mode, any RFC 4180 input. */
-function parseWithPapa(body: string, delimiter: Delimiter, decimal: DecimalMark, file: string, maxErrors: number): CsvResult {
-  const errors: DataError[] = [];
-  const lines: number[] = [];
-  const counter = new LineCounter(body);
-  let headers: string[] | null = null;
-  let builders: ColumnBuilder[] = [];
-  let recordStart = 0;
-
-  Papa.parse<string[]>(body, {
-    delimiter,
-    quoteChar: '"',
-    escapeChar: '"',
-    header: false,
-    dynamicTyping: false,
-    skipEmptyLines: false,
-    step: (step) => {
-      const line = counter.lineAt(recordStart);
-      recordStart = step.meta.cursor;
-      const fields = step.data;
-      for (const e of step.errors) {
-        if (errors.length < maxErrors) errors.push({ code: 'csv_syntax', file, row: line, message: `${file}:${line}: ${e.message}` });
-      }
-      if (fields.every((f) => f.trim() === '')) return; // blank line
-      if (headers === null) {
-        headers = fields.map((f) => f.trim());
-        builders = headers.map((h) => new ColumnBuilder(h));
-        return;
-      }
-      if (!fitsHeader(fields, headers.length)) {
-        if (errors.length < maxErrors) {
-          errors.push({
-            code: 'ragged_row',
-            file,
-            row: line,
-            message: `${file}:${line}: ${fields.length} fields where the header has ${headers.length} (${delimiterName(delimiter)}-separated)`,
-          });
-        }
-        return;
-      }
-      for (let j = 0; j < builders.length; j++) builders[j].push(fields[j], decimal);
-      lines.push(line);
-    },
-  });
-
-  if (errors.length > 0) return { ok: false, errors };
-  if (headers === null) return fail({ code: 'empty_file', file, message: `${file} has no header line` });
-  const table: DataTable = {
-    headers,
-    delimiter,
-    decimal,
-    columns: builders.map((b) => b.finish()),
-    lines: Int32Array.from(lines),
-    rowCount: lines.length,
-  };
-  return { ok: true, table };
-}
-
-/** A record fits the header when it has as many fields, or more fields that are all empty (trailing delimiters). */
-function fitsHeader(fields: string[], width: number): boolean {
-  if (fields.length < width) return false;
-  for (let j = width; j < fields.length; j++) if (fields[j].trim() !== '') return false;
-  return true;
-}
-
-function fail(error: DataError): CsvResult {
-  return { ok: false, errors: [error] };
 }

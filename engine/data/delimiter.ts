@@ -1,31 +1,48 @@
 /**
- * Delimiter detection from the first record (the header).
+ * Delimiter detection from the header line.
  *
- * Rule (documented for users): count commas, semicolons and tabs outside
- * double quotes in the first record; the most frequent wins; ties are broken
- * in the order tab, semicolon, comma; a header with none of them is a single
- * column read as comma-separated. When the decimal mark is a comma, the comma
- * is not a candidate (the usual pairing is `;` with decimal `,`).
+ * Rule (documented for users): in the first line that holds anything but
+ * spaces, tabs, commas, semicolons and quotes (the header; a quoted line
+ * break continues the line), count commas, semicolons and tabs outside double
+ * quotes; the most frequent wins; ties are broken in the order tab,
+ * semicolon, comma; a header with none of them is a single column read as
+ * comma-separated. When the decimal mark is a comma, the comma is not a
+ * candidate (the usual pairing is `;` with decimal `,`). The CSV scanner
+ * (`csv-scan.ts`) applies the same rule to bytes; a test checks they agree.
  */
 import type { DecimalMark, Delimiter } from './types';
 
 export function detectDelimiter(text: string, decimal: DecimalMark = '.'): Delimiter {
-  const counts = { ',': 0, ';': 0, '\t': 0 };
+  let comma = 0;
+  let semicolon = 0;
+  let tab = 0;
+  let content = false;
   let inQuotes = false;
   for (let i = 0; i < text.length; i++) {
     const c = text[i];
     if (c === '"') inQuotes = !inQuotes; // an escaped quote "" toggles twice: no net change
-    else if (!inQuotes && (c === '\n' || c === '\r')) break;
-    else if (!inQuotes && (c === ',' || c === ';' || c === '\t')) counts[c]++;
+    else if (inQuotes) {
+      if (!' \t\r\n,;'.includes(c)) content = true;
+    } else if (c === '\n' || c === '\r') {
+      if (content) break;
+      comma = semicolon = tab = 0;
+    } else if (c === ',') comma++;
+    else if (c === ';') semicolon++;
+    else if (c === '\t') tab++;
+    else if (c !== ' ' && c !== '\uFEFF') content = true;
   }
-  if (decimal === ',') counts[','] = -1;
-  const order: Delimiter[] = ['\t', ';', ','];
+  return pickDelimiter(comma, semicolon, tab, decimal);
+}
+
+/** The delimiter from the counts of one line, by the rule above. */
+export function pickDelimiter(comma: number, semicolon: number, tab: number, decimal: DecimalMark): Delimiter {
+  const counts: [Delimiter, number][] = [['\t', tab], [';', semicolon], [',', decimal === ',' ? -1 : comma]];
   let best: Delimiter = decimal === ',' ? ';' : ',';
   let bestCount = 0;
-  for (const d of order) {
-    if (counts[d] > bestCount) {
+  for (const [d, k] of counts) {
+    if (k > bestCount) {
       best = d;
-      bestCount = counts[d];
+      bestCount = k;
     }
   }
   return best;

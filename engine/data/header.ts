@@ -1,74 +1,98 @@
 /**
  * Reading only the header of a CSV file: for the parser's column check and
  * editor completion, without reading whole data files.
+ *
+ * The header is read by the same scanner as the data (`csv-scan.ts`), so it
+ * honours the data statement's options (`delimiter`, `decimal`, which also
+ * steers delimiter detection) and quoted names, and it is read whole: bytes
+ * are read until the header record ends, however wide it is, up to
+ * HEADER_MAX_BYTES. A header that does not end within that many bytes is
+ * reported as `too_long` (a message, not a cut header that would make real
+ * columns "unknown").
  */
-import { closeSync, readSync } from 'node:fs';
+import { closeSync } from 'node:fs';
 import { isAbsolute, resolve } from 'node:path';
-import Papa from 'papaparse';
-import { openInputSync } from '../io/input';
-import { stripBom } from './csv';
-import { detectDelimiter } from './delimiter';
+import { bytesSource, runScanner, type ByteSource } from './csv';
+import { CsvScanner } from './csv-scan';
+import { fdSource, fileError, openForReading } from './load';
+import { dataText } from '../messages';
 import type { DecimalMark, Delimiter } from './types';
+
+/**
+ * Most bytes read to find the end of a header: 16 MiB, room for about a
+ * million columns of 15-character names; anything longer is taken as a
+ * broken file rather than read on (the editor reads headers as you type).
+ */
+export const HEADER_MAX_BYTES = 16 * 1024 * 1024;
 
 export interface HeaderInfo {
   headers: string[];
   delimiter: Delimiter;
 }
 
-/** Column names from the first non-blank record of CSV text; null when there is none. */
-export function readHeaderText(text: string, options: { delimiter?: Delimiter; decimal?: DecimalMark } = {}): HeaderInfo | null {
-  const body = stripBom(text);
-  const delimiter = options.delimiter ?? detectDelimiter(body, options.decimal ?? '.');
-  let headers: string[] | null = null;
-  const parser = Papa.parse<string[]>(body, {
-    delimiter,
-    quoteChar: '"',
-    escapeChar: '"',
-    skipEmptyLines: 'greedy',
-    step: (step, handle) => {
-      headers = step.data.map((f) => f.trim());
-      handle.abort();
-    },
-  });
-  void parser;
-  return headers === null ? null : { headers, delimiter };
+export interface HeaderOptions {
+  delimiter?: Delimiter;
+  decimal?: DecimalMark;
+  /** Most bytes read before giving up. Default HEADER_MAX_BYTES. */
+  maxBytes?: number;
+  /** Bytes per read. Default 64 KiB (most headers end in the first read). */
+  chunkSize?: number;
 }
 
-/**
- * Column names of a CSV file, reading at most `maxBytes` (default 65536) from
- * its start. Returns null when the file cannot be read or has no header.
- */
-export function readHeaderFile(path: string, options: { delimiter?: Delimiter; decimal?: DecimalMark; maxBytes?: number } = {}): HeaderInfo | null {
-  const maxBytes = options.maxBytes ?? 65536;
+/** A header, or why there is none: the file cannot be read, holds no header, or its header is longer than the cap. */
+export type HeaderResult =
+  | { ok: true; info: HeaderInfo }
+  | { ok: false; reason: 'unreadable' | 'empty' | 'too_long' | 'syntax'; message: string };
+
+function scanHeader(source: ByteSource, file: string, options: HeaderOptions): HeaderResult {
+  const maxBytes = options.maxBytes ?? HEADER_MAX_BYTES;
+  const scanner = new CsvScanner({ delimiter: options.delimiter, decimal: options.decimal ?? '.', file, maxErrors: 1, headerOnly: true });
+  const run = runScanner(scanner, source, { maxBytes, chunkSize: options.chunkSize ?? 65536 });
+  const info = scanner.headerInfo();
+  if (info) return { ok: true, info: { headers: info.headers, delimiter: info.delimiter } };
+  if (run.capped) return { ok: false, reason: 'too_long', message: dataText.headerTooLong(file, maxBytes) };
+  if (scanner.errors.length) return { ok: false, reason: 'syntax', message: scanner.errors[0].message };
+  return { ok: false, reason: 'empty', message: dataText.emptyFile(file) };
+}
+
+/** Column names from the first non-blank record of CSV text; null when there is none. */
+export function readHeaderText(text: string, options: HeaderOptions = {}): HeaderInfo | null {
+  const r = scanHeader(bytesSource(new TextEncoder().encode(text)), '<text>', options);
+  return r.ok ? r.info : null;
+}
+
+/** The header of a CSV file, or why there is none (never throws). */
+export function readHeader(path: string, options: HeaderOptions & { displayPath?: string } = {}): HeaderResult {
+  const file = options.displayPath ?? path;
   let fd: number | null = null;
   try {
-    fd = openInputSync(path); // regular files only: a named pipe must not block
-    const buffer = Buffer.alloc(maxBytes);
-    const size = readSync(fd, buffer, 0, maxBytes, 0);
-    let text = buffer.subarray(0, size).toString('utf8');
-    if (size === maxBytes) {
-      // Cut at the last line break so a partial record is not taken as the header.
-      const cut = Math.max(text.lastIndexOf('\n'), text.lastIndexOf('\r'));
-      if (cut > 0) text = text.slice(0, cut);
-    }
-    return readHeaderText(text, options);
-  } catch {
-    return null;
+    fd = openForReading(path);
+    return scanHeader(fdSource(fd), file, options);
+  } catch (e) {
+    return { ok: false, reason: 'unreadable', message: fileError(e, file).message };
   } finally {
     if (fd !== null) closeSync(fd);
   }
 }
 
+/** Column names of a CSV file; null when the file cannot be read, has no header, or its header is too long (see `readHeader`). */
+export function readHeaderFile(path: string, options: HeaderOptions = {}): HeaderInfo | null {
+  const r = readHeader(path, options);
+  return r.ok ? r.info : null;
+}
+
 /**
  * A `headers` callback for the parser's CheckContext: column names of a data
- * statement's file, resolved against `baseDir` (the spec's folder); undefined
- * when the file cannot be read, so the parser treats unknown names as columns.
+ * statement's file, resolved against `baseDir` (the spec's folder), read with
+ * the statement's delimiter and decimal options; undefined when the file
+ * cannot be read, so the parser treats unknown names as columns.
  */
-export function headerLookup(baseDir: string): (dataName: string, path: string) => string[] | undefined {
+export function headerLookup(baseDir: string): (dataName: string, path: string, options?: { delimiter?: Delimiter; decimal?: DecimalMark }) => string[] | undefined {
   const cache = new Map<string, string[] | undefined>();
-  return (_dataName, path) => {
+  return (_dataName, path, options = {}) => {
     const full = isAbsolute(path) ? path : resolve(baseDir, path);
-    if (!cache.has(full)) cache.set(full, readHeaderFile(full)?.headers);
-    return cache.get(full);
+    const key = `${options.delimiter ?? ''}\u0000${options.decimal ?? ''}\u0000${full}`;
+    if (!cache.has(key)) cache.set(key, readHeaderFile(full, options)?.headers);
+    return cache.get(key);
   };
 }

@@ -5,7 +5,7 @@
  * errors, never silently dropped.
  */
 import { isMissingCell } from './cells';
-import type { DataColumn, DataError, DataTable } from './types';
+import { cellLine, type DataColumn, type DataError, type DataTable } from './types';
 
 /** A compiled filter over the selected numeric columns: writes 1 (keep) or 0 per row. */
 export type RowFilter = (cols: readonly Float64Array[], n: number, out: Float64Array) => void;
@@ -37,6 +37,8 @@ export interface Selection {
   filteredOut: number;
   /** With `label`: the label of each dropped row ('' when the label itself is missing), else null. */
   droppedLabels: string[] | null;
+  /** The first row dropped for a missing value: its table row index and the first used column (header order) missing there. */
+  firstDropped: { index: number; column: string } | null;
 }
 
 export type SelectResult = { ok: true; selection: Selection } | { ok: false; errors: DataError[] };
@@ -72,6 +74,12 @@ export function selectRows(table: DataTable, request: SelectRequest): SelectResu
     if (ok) nPresent++;
   }
   const dropped = total - nPresent;
+  let firstDropped: Selection['firstDropped'] = null;
+  const i0 = dropped > 0 ? present.indexOf(0) : -1;
+  if (i0 >= 0) {
+    const missingHere = table.columns.find((c) => (c === labelCol && isMissingCell(labelOf(c, i0))) || (found.includes(c) && Number.isNaN(c.values[i0])));
+    if (missingHere) firstDropped = { index: i0, column: missingHere.name };
+  }
   const droppedLabels = labelCol ? [] as string[] : null;
   if (droppedLabels && labelCol) {
     for (let i = 0; i < total; i++) {
@@ -103,7 +111,7 @@ export function selectRows(table: DataTable, request: SelectRequest): SelectResu
   const lines = new Int32Array(n);
   for (let i = 0; i < n; i++) lines[i] = table.lines[keepIdx[i]];
   const labels = labelCol ? keepIdx.map((i) => labelOf(labelCol, i)) : null;
-  return { ok: true, selection: { columns, n, lines, labels, dropped, filteredOut, droppedLabels } };
+  return { ok: true, selection: { columns, n, lines, labels, dropped, filteredOut, droppedLabels, firstDropped } };
 }
 
 function findColumn(table: DataTable, name: string, file: string, errors: DataError[]): DataColumn | undefined {
@@ -113,30 +121,32 @@ function findColumn(table: DataTable, name: string, file: string, errors: DataEr
     errors.push({
       code: 'missing_column',
       file,
-      row: 1,
+      row: table.headerLine,
       column: name,
       message: `${file}: no column "${name}"; the header has ${table.headers.filter((h) => h !== '').map((h) => `"${h}"`).join(', ')}`,
     });
   } else {
-    errors.push({ code: 'duplicate_column', file, row: 1, column: name, message: `${file}: the header names "${name}" ${matches.length} times` });
+    errors.push({ code: 'duplicate_column', file, row: table.headerLine, field: table.headers.indexOf(name, table.headers.indexOf(name) + 1) + 1, column: name, message: `${file}: the header names "${name}" ${matches.length} times` });
   }
   return undefined;
 }
 
 function collectNonNumeric(table: DataTable, col: DataColumn, file: string, errors: DataError[], maxErrors: number): void {
   if (col.nonNumeric === 0 || col.text === null) return;
+  const index = table.columns.indexOf(col);
   for (let i = 0; i < table.rowCount && errors.length < maxErrors; i++) {
     if (Number.isNaN(col.values[i]) && !isMissingCell(col.text[i])) {
-      const row = table.lines[i];
+      const row = cellLine(table, i, index);
       const value = col.text[i];
       const hint = table.decimal === '.' && /^[+-]?\d+,\d+$/.test(value) ? ' (decimal comma? add decimal "," to the data statement)' : '';
       errors.push({
         code: 'non_numeric_cell',
         file,
         row,
+        field: index + 1,
         column: col.name,
         value,
-        message: `${file}:${row}: column "${col.name}" holds "${value}", not a number${hint}`,
+        message: `${file}:${row}:${index + 1}: column "${col.name}" holds "${value}", not a number${hint}`,
       });
     }
   }

@@ -24,18 +24,8 @@ export interface CsvOptions {
   file?: string;
   /** Stop collecting cell errors after this many. Default 20. */
   maxErrors?: number;
-  /**
-   * Which reader tokenises the text. Default `'auto'`: the plain-file scanner
-   * (`csv-scan.ts`) when it accepts the file, else papaparse. `'papaparse'`
-   * always uses papaparse (the reference path, for tests and benchmarks).
-   */
-  tokenizer?: CsvTokenizer;
-}
-
-export type CsvTokenizer = 'auto' | 'papaparse';
-
-export function isCsvTokenizer(value: unknown): value is CsvTokenizer {
-  return value === 'auto' || value === 'papaparse';
+  /** Bytes per read when streaming a file (`loadDataFile`). Default 1 MiB. */
+  chunkSize?: number;
 }
 
 export interface DataColumn {
@@ -63,6 +53,19 @@ export interface DataTable {
    */
   lines: Int32Array;
   rowCount: number;
+  /** File line of the header record (1 unless blank lines come first). */
+  headerLine: number;
+  /**
+   * For records that span several lines (a line break inside a quoted cell):
+   * the file line where each of their cells starts, by row index. Other rows
+   * start and end on `lines[row]`.
+   */
+  cellLines: Map<number, Int32Array>;
+}
+
+/** File line where cell (row, column index) starts. */
+export function cellLine(table: DataTable, row: number, column: number): number {
+  return table.cellLines.get(row)?.[column] ?? table.lines[row];
 }
 
 /** Codes of data errors (stable; tests and views key on them). */
@@ -76,14 +79,18 @@ export type DataErrorCode =
   | 'missing_column'
   | 'duplicate_column'
   | 'non_numeric_cell'
-  | 'no_rows';
+  | 'no_rows'
+  | 'header_too_long';
 
-/** A located data problem; `row` is the 1-based line in the file. */
+/** A located data problem; `row` is the 1-based line in the file, `field` the 1-based column number in it. */
 export interface DataError {
   code: DataErrorCode;
   message: string;
   file: string;
   row?: number;
+  /** 1-based field number of the cell at fault in its record (the column of `file:line:column`). */
+  field?: number;
+  /** Column name, when the place is a column of the header. */
   column?: string;
   /** The offending cell text, when a cell is at fault. */
   value?: string;

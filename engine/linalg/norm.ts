@@ -1,8 +1,9 @@
 /**
  * Euclidean norms safe from overflow and underflow. The fast path sums
  * squares directly; when that sum overflows or falls below 1e-290 (where
- * squares of small entries lose accuracy by underflow) the entries are
- * rescaled by the largest magnitude first, as in LAPACK's dnrm2 design
+ * squares of small entries lose accuracy by underflow, down to a sum of 0
+ * for entries below about 1e-162) the entries are rescaled by the largest
+ * magnitude first, as in LAPACK's dnrm2 design
  * (J. L. Blue, "A portable Fortran program to find the Euclidean norm of a
  * vector", ACM TOMS 4 (1978) 15-23, gives the threshold analysis).
  * NaN entries give NaN.
@@ -16,7 +17,8 @@ export function norm2(x: ArrayLike<number>, offset = 0, length = x.length - offs
   const end = offset + length;
   for (let i = offset; i < end; i++) s += x[i] * x[i];
   if (s < Infinity && s > TINY_SUM) return Math.sqrt(s);
-  if (s === 0 || Number.isNaN(s)) return s;
+  // s = 0 is no proof of a zero vector: squares of entries below ~1e-162 underflow to 0
+  if (Number.isNaN(s)) return s;
   let big = 0;
   for (let i = offset; i < end; i++) {
     const a = Math.abs(x[i]);

@@ -25,11 +25,13 @@ export function inverseR(qr: PivotedQR, k = qr.rank): Float64Array {
 
 /**
  * (AᵀA)⁻¹ (p×p, column-major, original column order) from the factorisation
- * of A. When rank k < p, rows and columns of the parameters beyond the rank
+ * of A; with `withScale` false, (SᵀAᵀAS)⁻¹ = S⁻¹(AᵀA)⁻¹S⁻¹ of the
+ * equilibrated columns instead (entries bounded by κ², never under- or
+ * overflowing with the units of the columns). When rank k < p, rows and columns of the parameters beyond the rank
  * (in pivot order) are NaN and the remaining block is (A₁ᵀA₁)⁻¹ of the
  * k retained columns, i.e. the covariance with the others held fixed.
  */
-export function inverseGram(qr: PivotedQR, k = qr.rank): Float64Array {
+export function inverseGram(qr: PivotedQR, k = qr.rank, withScale = true): Float64Array {
   const p = qr.n;
   const ri = inverseR(qr, k);
   const out = new Float64Array(p * p).fill(NaN);
@@ -40,7 +42,7 @@ export function inverseGram(qr: PivotedQR, k = qr.rank): Float64Array {
       for (let l = j; l < k; l++) s += ri[i + l * k] * ri[j + l * k];
       const oi = qr.perm[i];
       const oj = qr.perm[j];
-      const v = s * qr.scale[oi] * qr.scale[oj];
+      const v = withScale ? s * qr.scale[oi] * qr.scale[oj] : s;
       out[oi + oj * p] = v;
       out[oj + oi * p] = v;
     }

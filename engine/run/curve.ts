@@ -1,23 +1,26 @@
 /**
  * The fitted curve of a single-predictor fit as functions for bands,
  * predictions and inverse predictions: model values and parameter gradients
- * at any predictor values, the parameter covariance, the t critical value
- * and the variance of one new observation.
+ * at any predictor values, the parameter covariance (factored as standard
+ * errors and correlations, engine/stats/bands.ts), the t critical value and
+ * the standard deviation of one new observation.
  *
  * Rebuilt from plain data (the plan and the fit's numbers), so queries work
  * the same on results computed in another thread.
  *
- * Variance of one new observation at x (prediction band):
+ * Variance of one new observation at x (prediction band), given as its root:
  * - unweighted: s²;
  * - relative weights: s²/w(x) when the weight expression reads no column but
  *   the predictor, else s²·mean(1/wᵢ) over the fitted rows;
  * - absolute σ: σ(x)² when the sigma expression reads no column but the
  *   predictor, else mean(σᵢ²) over the fitted rows.
+ * Roots are formed without squaring s or σ (s·√(1/w), …), so they stay in
+ * range for data near 1e-300 or 1e+300.
  */
 import type { Expr, FitPlan } from '../../parser/plan';
 import { compileColumnExpr, compileModel } from '../compile';
 import type { FitResult } from '../result';
-import type { ModelAt, NewObservationVariance } from '../stats/bands';
+import type { FactoredCovariance, ModelAt, NewObservationSd } from '../stats/bands';
 import { tCritical } from '../stats/distributions';
 import { columnsOf, substituteParams } from './expr';
 
@@ -33,8 +36,8 @@ export interface CurveInput {
   predictor: string;
   /** Free-parameter estimates. */
   estimates: Float64Array;
-  /** Scaled covariance of the free parameters, p×p flat. */
-  cov: ArrayLike<number>;
+  /** Covariance of the free-parameter estimates. */
+  cov: FactoredCovariance;
   dof: number;
   level: number;
   /** Residual standard deviation s. */
@@ -46,8 +49,8 @@ export interface CurveInput {
 
 export interface Curve {
   modelAt: ModelAt;
-  newVar: NewObservationVariance;
-  cov: ArrayLike<number>;
+  newSd: NewObservationSd;
+  cov: FactoredCovariance;
   p: number;
   /** t_{(1+level)/2, dof} (NaN when dof ≤ 0). */
   t: number;
@@ -65,47 +68,51 @@ export function buildCurve(input: CurveInput): Curve {
     model.valueAndJacobian(estimates, [xs], m, f, gradient);
     return { f, gradient };
   };
-  return { modelAt, newVar: newObservationVariance(input), cov: input.cov, p, t: tCritical(input.level, input.dof) };
+  return { modelAt, newSd: newObservationSd(input), cov: input.cov, p, t: tCritical(input.level, input.dof) };
 }
 
-function newObservationVariance(input: CurveInput): NewObservationVariance {
+function newObservationSd(input: CurveInput): NewObservationSd {
   const block = input.fit.blocks[0];
-  const s2 = input.rmse * input.rmse;
-  const meanInverse = () => {
-    const w = input.weights;
-    if (!w || w.length === 0) return 1;
-    let s = 0;
-    for (let i = 0; i < w.length; i++) s += 1 / w[i];
-    return s / w.length;
+  const s = input.rmse;
+  /** √(mean of vᵢ²) for vᵢ = f(i) (σᵢ or 1/√wᵢ), scaled by its largest term first. */
+  const rootMeanSquare = (term: (i: number) => number, count: number) => {
+    let big = 0;
+    for (let i = 0; i < count; i++) big = Math.max(big, Math.abs(term(i)));
+    if (count === 0 || big === 0 || !Number.isFinite(big)) return count === 0 ? 1 : big;
+    let sum = 0;
+    for (let i = 0; i < count; i++) sum += (term(i) / big) ** 2;
+    return big * Math.sqrt(sum / count);
   };
+  const w = input.weights;
+  const n = w ? w.length : 0;
   const onPredictor = (e: Expr) => columnsOf(e).every((c) => c === input.predictor);
   const evalAt = (e: Expr, xs: Float64Array) => {
     const out = new Float64Array(xs.length);
     compileColumnExpr(e, [input.predictor])([xs], xs.length, out);
     return out;
   };
+  const fill = (v: number) => (xs: Float64Array) => new Float64Array(xs.length).fill(v);
   if (input.sigmaAbsolute && block.sigma) {
     const sigma = block.sigma;
-    if (onPredictor(sigma)) return (xs) => evalAt(sigma, xs).map((v) => v * v);
-    const v = meanInverse();
-    return (xs) => new Float64Array(xs.length).fill(v);
+    if (onPredictor(sigma)) return (xs) => evalAt(sigma, xs).map(Math.abs);
+    return fill(w && n > 0 ? rootMeanSquare((i) => 1 / Math.sqrt(w[i]), n) : 1);
   }
   if (block.weight) {
     const weight = block.weight;
-    if (onPredictor(weight)) return (xs) => evalAt(weight, xs).map((w) => s2 / w);
-    const v = s2 * meanInverse();
-    return (xs) => new Float64Array(xs.length).fill(v);
+    if (onPredictor(weight)) return (xs) => evalAt(weight, xs).map((wx) => s / Math.sqrt(wx));
+    return fill(s * (w && n > 0 ? rootMeanSquare((i) => 1 / Math.sqrt(w[i]), n) : 1));
   }
-  return (xs) => new Float64Array(xs.length).fill(s2);
+  return fill(s);
 }
 
-/** Free-parameter estimates and covariance (flat p×p) out of a FitResult. */
-export function freeParts(result: FitResult): { estimates: Float64Array; cov: Float64Array } {
+/** Free-parameter estimates and their covariance (standard errors and correlations) out of a FitResult. */
+export function freeParts(result: FitResult): { estimates: Float64Array; cov: FactoredCovariance } {
   const idx = result.parameters.map((p, i) => (p.fixed ? -1 : i)).filter((i) => i >= 0);
   const p = idx.length;
-  const cov = new Float64Array(p * p);
-  idx.forEach((a, j) => idx.forEach((b, k) => (cov[j * p + k] = result.covariance[a]?.[b] ?? NaN)));
-  return { estimates: Float64Array.from(idx, (i) => result.parameters[i].estimate), cov };
+  const corr = new Float64Array(p * p);
+  idx.forEach((a, j) => idx.forEach((b, k) => (corr[j * p + k] = result.correlation[a]?.[b] ?? NaN)));
+  const se = Float64Array.from(idx, (i) => result.parameters[i].stderr ?? NaN);
+  return { estimates: Float64Array.from(idx, (i) => result.parameters[i].estimate), cov: { p, se, corr } };
 }
 
 /** The curve of a finished single-predictor fit, or null when it has no predictor. */

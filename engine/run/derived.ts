@@ -6,7 +6,10 @@
  *
  * Standard error: first-order delta method (law of propagation of
  * uncertainty), Var f(θ̂) ≈ gᵀ C g with g = ∂f/∂θ at θ̂ and C the covariance of
- * the estimates (`FitResult.covariance`); e.g. Casella & Berger (2002),
+ * the estimates, taken as C = diag(se)·ρ·diag(se) from the standard errors and
+ * the correlation matrix of the FitResult and formed with every term divided
+ * by the largest |gⱼ·seⱼ| (so estimates near 1e-300 or 1e+300 keep their
+ * standard errors); e.g. Casella & Berger (2002),
  * Statistical Inference, 2nd ed., §5.5.4, and JCGM 100:2008 (GUM) §5.2.2,
  * eq. (13). The gradient is exact: the expression is compiled (engine/compile,
  * symbolic differentiation) as a one-row "model" whose parameters are the
@@ -172,34 +175,52 @@ function evaluate(p: Prepared, pick: ReadonlyMap<string, FitResult>): Numbers {
   const finish = (lead: string): Numbers => ({ ...result, note: sentence([lead, ...notes, ...caveats].join('; ')) });
   if (paramFits.length === 0) return finish(derivedText.noFreeParameter);
 
-  // gᵀCg, fit by fit (zero covariance between fits).
-  let variance = 0;
-  let scale = 0;
+  // gᵀCg, fit by fit (zero covariance between fits), with C = diag(se)·ρ·diag(se) of each fit and
+  // every term divided by the largest |gⱼ·seⱼ| first, so nothing is squared out of range.
+  const perFit: { m: number; q: number }[] = [];
   const badCovariance: string[] = [];
   for (const fit of paramFits) {
-    const cov = pick.get(fit)!.covariance;
+    const r = pick.get(fit)!;
     const idx = p.slots.map((s, j) => (s.fit === fit && free[j] >= 0 ? j : -1)).filter((j) => j >= 0);
+    const v = new Map<number, number>();
+    let m = 0;
     for (const a of idx) {
       if (!Number.isFinite(g[a])) return finish(derivedText.badGradient);
-      for (const b of idx) {
-        if (g[a] === 0 || g[b] === 0) continue;
-        const c = cov[free[a]]?.[free[b]];
-        if (typeof c !== 'number' || !Number.isFinite(c)) {
+      if (g[a] === 0) continue;
+      const se = r.parameters[free[a]].stderr;
+      const va = typeof se === 'number' ? g[a] * se : NaN;
+      if (!Number.isFinite(va)) {
+        if (!badCovariance.includes(fit)) badCovariance.push(fit);
+        continue;
+      }
+      if (va === 0) continue; // an estimate that does not vary (e.g. an exact fit) adds nothing
+      v.set(a, va);
+      m = Math.max(m, Math.abs(va));
+    }
+    let q = 0;
+    let scale = 0;
+    for (const [a, va] of v) {
+      for (const [b, vb] of v) {
+        const rho = r.correlation?.[free[a]]?.[free[b]];
+        if (typeof rho !== 'number' || !Number.isFinite(rho)) {
           if (!badCovariance.includes(fit)) badCovariance.push(fit);
           continue;
         }
-        const term = g[a] * c * g[b];
-        variance += term;
+        const term = (va / m) * rho * (vb / m);
+        q += term;
         scale += Math.abs(term);
       }
     }
+    if (q < 0) {
+      if (-q > NEGATIVE_VARIANCE_TOLERANCE * scale) return finish(derivedText.noCovariance(paramFits));
+      q = 0;
+    }
+    if (m > 0) perFit.push({ m, q });
   }
   if (badCovariance.length) return finish(derivedText.noCovariance(badCovariance));
-  if (variance < 0) {
-    if (-variance > NEGATIVE_VARIANCE_TOLERANCE * scale) return finish(derivedText.noCovariance(paramFits));
-    variance = 0;
-  }
-  const se = Math.sqrt(variance);
+  const big = perFit.reduce((a, f) => Math.max(a, f.m), 0);
+  const variance = big === 0 ? 0 : perFit.reduce((a, f) => a + (f.m / big) ** 2 * f.q, 0);
+  const se = big * Math.sqrt(variance);
   result.stderr = se;
   const lead = paramFits.length === 1 ? derivedText.deltaOne(paramFits[0]) : derivedText.deltaMany(paramFits);
 

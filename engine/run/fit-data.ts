@@ -4,8 +4,8 @@
  * Plain typed arrays and strings only, so it can be sent to a worker thread.
  */
 import type { DataSource, Expr, FitPlan, Range } from '../../parser/plan';
-import { selectRows, type DataError, type DataTable } from '../data';
-import { errorText } from '../messages';
+import { cellLine, selectRows, type DataError, type DataTable } from '../data';
+import { dataText, errorText } from '../messages';
 import type { RunError } from '../result';
 import { columnsOf } from './expr';
 
@@ -35,6 +35,17 @@ export interface FitData {
   rowsDropped: number;
   /** Rows dropped because the group label is missing (grouped fits only). */
   rowsWithoutGroup: number;
+  /** Rows left out of the fit by a weight of 0 (absent when none): not in n, dof or any statistic, still drawn. */
+  excluded?: ExcludedRows;
+}
+
+/** Rows a weight of 0 leaves out of a fit: their file lines and values, for tables and charts. */
+export interface ExcludedRows {
+  lines: Int32Array;
+  /** Predictor values (single-predictor fits), else null. */
+  x: Float64Array | null;
+  /** Response values. */
+  y: Float64Array;
 }
 
 export type FitDataResult = { ok: true; data: FitData[] } | { ok: false; errors: RunError[] };
@@ -76,6 +87,7 @@ export function dataErrorToRunError(e: DataError, range?: Range, fit?: string): 
     message: e.message,
     file: e.file,
     ...(e.row !== undefined ? { row: e.row } : {}),
+    ...(e.field !== undefined ? { field: e.field } : {}),
     ...(e.column !== undefined ? { column: e.column } : {}),
     ...(e.value !== undefined ? { value: e.value } : {}),
     ...(range ? { range } : {}),
@@ -101,54 +113,120 @@ export function prepareFitData(fit: FitPlan, source: DataSource, table: DataTabl
   const sel = selectRows(table, { numeric: used, label: fit.groupBy, filter, file: source.path });
   if (!sel.ok) return fail(sel.errors.map((e) => dataErrorToRunError(e, e.column === fit.groupBy ? fit.range : locate(e.column), fit.name)));
   const s = sel.selection;
-  const n = s.n;
+  const empty = noRowsError(fit, source, table, s, block);
+  if (empty) return fail([empty]);
   const cols = s.columns;
 
   const evalExpr = (e: Expr): Float64Array => {
-    const out = new Float64Array(n);
-    compile(e, used)(cols, n, out);
+    const out = new Float64Array(s.n);
+    compile(e, used)(cols, s.n, out);
     return out;
   };
   const errors: RunError[] = [];
+  /** The field of a value that is one column as written (`weight w`), for the place of its errors. */
+  const fieldOf = (e: Expr | undefined): { field?: number; column?: string } => {
+    const k = e?.kind === 'column' ? table.headers.indexOf(e.name) : -1;
+    return k >= 0 && e?.kind === 'column' ? { field: k + 1, column: e.name } : {};
+  };
   const y = evalExpr(block.response);
   const firstBad = (values: Float64Array, ok: (v: number) => boolean) => values.findIndex((v) => !ok(v));
   const badY = firstBad(y, Number.isFinite);
   if (badY >= 0) {
-    errors.push({ code: 'non_finite_response', message: errorText.nonFinite(fit.name, 'the response', s.lines[badY]), file: source.path, row: s.lines[badY], range: block.response.range ?? block.range, fit: fit.name });
+    errors.push({ code: 'non_finite_response', message: errorText.nonFinite(fit.name, 'the response', s.lines[badY]), file: source.path, row: s.lines[badY], ...fieldOf(block.response), range: block.response.range ?? block.range, fit: fit.name });
   }
   let weights: Float64Array | null = null;
   if (block.sigma) {
     const sigma = evalExpr(block.sigma);
     const bad = firstBad(sigma, (v) => v > 0 && Number.isFinite(v));
-    if (bad >= 0) errors.push({ code: 'bad_sigma', message: errorText.badSigma(fit.name, s.lines[bad], sigma[bad]), file: source.path, row: s.lines[bad], range: block.sigma.range ?? block.range, fit: fit.name });
+    if (bad >= 0) errors.push({ code: 'bad_sigma', message: errorText.badSigma(fit.name, s.lines[bad], sigma[bad]), file: source.path, row: s.lines[bad], ...fieldOf(block.sigma), range: block.sigma.range ?? block.range, fit: fit.name });
     weights = sigma.map((v) => 1 / (v * v));
+    const out = bad >= 0 ? -1 : firstBad(weights, (w) => w > 0 && Number.isFinite(w));
+    if (out >= 0) errors.push({ code: 'bad_sigma', message: errorText.sigmaOutOfRange(fit.name, s.lines[out], sigma[out]), file: source.path, row: s.lines[out], ...fieldOf(block.sigma), range: block.sigma.range ?? block.range, fit: fit.name });
   } else if (block.weight) {
     weights = evalExpr(block.weight);
-    const bad = firstBad(weights, (v) => v > 0 && Number.isFinite(v));
-    if (bad >= 0) errors.push({ code: 'bad_weight', message: errorText.badWeight(fit.name, s.lines[bad], weights[bad]), file: source.path, row: s.lines[bad], range: block.weight.range ?? block.range, fit: fit.name });
+    // 0 leaves the row out of the fit (below); negative and non-finite weights are errors
+    const bad = firstBad(weights, (v) => v >= 0 && Number.isFinite(v));
+    if (bad >= 0) errors.push({ code: 'bad_weight', message: errorText.badWeight(fit.name, s.lines[bad], weights[bad]), file: source.path, row: s.lines[bad], ...fieldOf(block.weight), range: block.weight.range ?? block.range, fit: fit.name });
   }
   if (errors.length) return fail(errors);
 
   const predictor = block.predictor ?? (modelColumns.length === 1 ? modelColumns[0] : null);
-  const modelCols = modelColumns.map((c) => cols[used.indexOf(c)]);
-  const base: FitData = {
+  const hasPredictor = predictor !== null && modelColumns.includes(predictor);
+  let base: FitData = {
     fit: fit.name,
     source: source.name,
     file: source.path,
-    n,
+    n: s.n,
     modelColumns,
-    columns: modelCols,
+    columns: modelColumns.map((c) => cols[used.indexOf(c)]),
     lines: s.lines,
     y,
     weights,
     sigmaAbsolute: block.sigma !== undefined,
-    x: predictor !== null && modelColumns.includes(predictor) ? cols[used.indexOf(predictor)] : null,
-    predictor: predictor !== null && modelColumns.includes(predictor) ? predictor : null,
+    x: hasPredictor ? cols[used.indexOf(predictor)] : null,
+    predictor: hasPredictor ? predictor : null,
     rowsDropped: s.dropped,
     rowsWithoutGroup: 0,
   };
-  if (!fit.groupBy || !s.labels) return { ok: true, data: [base] };
-  return { ok: true, data: splitGroups(base, s.labels, s.droppedLabels ?? []) };
+  let labels = s.labels;
+  let excludedLabels: string[] | null = null;
+  if (block.weight && weights && weights.includes(0)) {
+    const keep = Uint8Array.from(weights, (w) => (w > 0 ? 1 : 0));
+    if (!keep.includes(1)) {
+      return fail([{ code: 'no_rows', message: dataText.allRowsExcluded(fit.name, source.path, s.n, 'a weight of 0'), file: source.path, range: block.weight.range ?? block.range, fit: fit.name }]);
+    }
+    if (labels) excludedLabels = labels.filter((_, i) => keep[i] === 0);
+    if (labels) labels = labels.filter((_, i) => keep[i] === 1);
+    base = excludeRows(base, keep);
+  }
+  if (!fit.groupBy || !labels) return { ok: true, data: [base] };
+  return { ok: true, data: splitGroups(base, labels, s.droppedLabels ?? [], excludedLabels ?? []) };
+}
+
+/**
+ * A located data error when a fit is left with no rows: a header without data
+ * (at the header line), every row missing a used cell (at the first such
+ * cell), or a where condition that keeps no row (at the condition).
+ */
+function noRowsError(fit: FitPlan, source: DataSource, table: DataTable, s: { n: number; dropped: number; filteredOut: number; firstDropped: { index: number; column: string } | null }, block: FitPlan['blocks'][number]): RunError | null {
+  if (s.n > 0) return null;
+  const file = source.path;
+  if (table.rowCount === 0) {
+    return { code: 'no_rows', message: dataText.noDataRows(fit.name, file), file, row: table.headerLine, range: source.range, fit: fit.name };
+  }
+  if (s.filteredOut > 0 || !s.firstDropped) {
+    return { code: 'no_rows', message: dataText.allRowsFiltered(fit.name, file, s.filteredOut), file, range: source.filter?.range ?? source.range, fit: fit.name };
+  }
+  const { index, column } = s.firstDropped;
+  const k = table.headers.indexOf(column);
+  const used = [...new Set([...columnsOf(block.model), ...columnsOf(block.response), ...(block.sigma ? columnsOf(block.sigma) : []), ...(block.weight ? columnsOf(block.weight) : []), ...(fit.groupBy ? [fit.groupBy] : [])])];
+  return {
+    code: 'no_rows',
+    message: dataText.allRowsMissing(fit.name, file, table.rowCount, used),
+    file,
+    row: cellLine(table, index, k),
+    field: k + 1,
+    column,
+    range: fit.range,
+    fit: fit.name,
+  };
+}
+
+/** `data` without the rows where keep is 0, which are kept apart as excluded. */
+function excludeRows(data: FitData, keep: Uint8Array): FitData {
+  const pick = (a: Float64Array, want: number) => a.filter((_, i) => keep[i] === want);
+  const lines = (want: number) => data.lines.filter((_, i) => keep[i] === want);
+  const kept = keep.reduce((a, k) => a + k, 0);
+  return {
+    ...data,
+    n: kept,
+    columns: data.columns.map((c) => pick(c, 1)),
+    lines: lines(1),
+    y: pick(data.y, 1),
+    weights: data.weights ? pick(data.weights, 1) : null,
+    x: data.x ? pick(data.x, 1) : null,
+    excluded: { lines: lines(0), x: data.x ? pick(data.x, 0) : null, y: pick(data.y, 0) },
+  };
 }
 
 /** Distinct labels in a deterministic order: numerically when all are numbers, else by code point. */
@@ -158,22 +236,33 @@ export function sortGroupLabels(labels: Iterable<string>): string[] {
   return numeric ? distinct.sort((a, b) => Number(a) - Number(b) || (a < b ? -1 : a > b ? 1 : 0)) : distinct.sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
 }
 
-function splitGroups(base: FitData, labels: string[], droppedLabels: string[]): FitData[] {
+function splitGroups(base: FitData, labels: string[], droppedLabels: string[], excludedLabels: string[]): FitData[] {
   // One pass buckets row indices by label (O(rows)), instead of one scan of all rows per group.
-  const rowsOf = new Map<string, number[]>();
-  labels.forEach((l, i) => {
-    const bucket = rowsOf.get(l);
-    if (bucket) bucket.push(i);
-    else rowsOf.set(l, [i]);
-  });
+  const bucketsOf = (list: string[]) => {
+    const map = new Map<string, number[]>();
+    list.forEach((l, i) => {
+      const bucket = map.get(l);
+      if (bucket) bucket.push(i);
+      else map.set(l, [i]);
+    });
+    return map;
+  };
+  const rowsOf = bucketsOf(labels);
+  const excludedOf = bucketsOf(excludedLabels);
   const droppedOf = new Map<string, number>();
   for (const l of droppedLabels) droppedOf.set(l, (droppedOf.get(l) ?? 0) + 1);
   const withoutGroup = droppedOf.get('') ?? 0;
-  return sortGroupLabels(rowsOf.keys()).map((group) => {
-    const idx = rowsOf.get(group)!;
+  const { excluded: all, ...rest } = base;
+  // a group whose rows all have weight 0 is still a group (its fit fails for lack of rows)
+  return sortGroupLabels([...rowsOf.keys(), ...excludedOf.keys()]).map((group) => {
+    const idx = rowsOf.get(group) ?? [];
     const pick = (a: Float64Array) => Float64Array.from(idx, (i) => a[i]);
+    const ex = excludedOf.get(group);
+    const excluded: ExcludedRows | undefined = ex && all
+      ? { lines: Int32Array.from(ex, (i) => all.lines[i]), x: all.x ? Float64Array.from(ex, (i) => all.x![i]) : null, y: Float64Array.from(ex, (i) => all.y[i]) }
+      : undefined;
     return {
-      ...base,
+      ...rest,
       group,
       n: idx.length,
       columns: base.columns.map(pick),
@@ -183,6 +272,7 @@ function splitGroups(base: FitData, labels: string[], droppedLabels: string[]): 
       x: base.x ? pick(base.x) : null,
       rowsDropped: droppedOf.get(group) ?? 0,
       rowsWithoutGroup: withoutGroup,
+      ...(excluded ? { excluded } : {}),
     };
   });
 }

@@ -72,9 +72,17 @@ export function failedFit(fit: FitPlan, data: FitData | null, stop: StopReason, 
     response: fit.blocks[0] ? exprText(fit.blocks[0].response) : '',
     sigmaAbsolute: fit.blocks[0]?.sigma !== undefined,
     rowsDropped: data?.rowsDropped ?? 0,
+    ...(data ? excludedFields(data) : {}),
     warnings,
     elapsedMs,
   };
+}
+
+/** The result's `excluded` field for rows left out by a weight of 0 (nothing when there are none). */
+export function excludedFields(data: FitData): Pick<FitResult, 'excluded'> {
+  const e = data.excluded;
+  if (!e || e.lines.length === 0) return {};
+  return { excluded: { reason: 'weight_zero', row: toNumberArray(e.lines), x: e.x ? toNumberArray(e.x) : null, y: toNumberArray(e.y) } };
 }
 
 /** Full P×P matrix in plan parameter order from a free-parameter p×p flat matrix; fixed rows/columns get `fill`. */

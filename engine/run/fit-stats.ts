@@ -17,21 +17,22 @@
  */
 import type { FitPlan } from '../../parser/plan';
 import type { FitResult, FitWarning, ResidualDiagnostics } from '../result';
-import { unscaledCovariance } from '../stats/covariance';
+import { estimateCovariance, unscaledCovariance } from '../stats/covariance';
 import type { LeastSquaresProblem } from '../solve/problem';
 import type { SolveOutcome } from '../solve/types';
 import { bandsOver } from '../stats/bands';
 import { goodnessOfFit } from '../stats/goodness';
 import { influence, leverages } from '../stats/influence';
-import { correlationMatrix, parameterIntervals, scaleCovariance } from '../stats/intervals';
+import { parameterIntervalsFromSe } from '../stats/intervals';
 import { durbinWatson, orderBy, runsTest } from '../stats/residual-tests';
 import { shapiroWilk } from '../stats/shapiro-wilk';
 import { boundHit, fitWarnings } from '../stats/warnings';
 import { buildCurve } from './curve';
 import { exprText } from './expr';
 import type { FitData } from './fit-data';
-import { expandMatrix, parameterRow } from './fit-result';
+import { excludedFields, expandMatrix, parameterRow } from './fit-result';
 import { numberArrayOf, toNumberArray } from './number-array';
+import { warningText } from '../messages';
 
 export interface FitStatisticsInput {
   fit: FitPlan;
@@ -43,12 +44,14 @@ export interface FitStatisticsInput {
   upper: Float64Array;
   /** Starting values of the free parameters. */
   start: Float64Array;
+  /** Response scale c (engine/linalg/scale.ts): the problem's residuals and Jacobian are those of the data divided by c. Default 1. */
+  responseScale?: number;
   guessed: { names: string[]; how: string };
 }
 
 type StatFields = Pick<
   FitResult,
-  'parameters' | 'covariance' | 'correlation' | 'goodness' | 'residuals' | 'points' | 'bands' | 'predictor' | 'response' | 'sigmaAbsolute' | 'rowsDropped'
+  'parameters' | 'covariance' | 'correlation' | 'goodness' | 'residuals' | 'points' | 'bands' | 'predictor' | 'response' | 'sigmaAbsolute' | 'rowsDropped' | 'excluded'
 >;
 
 export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; warnings: FitWarning[] } {
@@ -75,20 +78,25 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
     rcov = r.map((v, i) => v * Math.sqrt(rw[i]));
   }
   const cov = unscaledCovariance(jcov, n, p);
-  const goodness = goodnessOfFit({ residuals: r, y: data.y, weights: data.weights, p, sigmaAbsolute: data.sigmaAbsolute, condition: cov.condition });
-  let s2 = goodness.dof > 0 ? goodness.ssr / goodness.dof : NaN;
-  if (rw && goodness.dof > 0) s2 = rcov.reduce((a, v) => a + v * v, 0) / goodness.dof;
-  const scale = data.sigmaAbsolute ? 1 : s2;
-  const scaled = scaleCovariance(cov.unscaled, scale);
-  const intervals = parameterIntervals(theta, scaled, fit.options.level, goodness.dof);
-  const correlation = correlationMatrix(scaled, p);
+  const c = input.responseScale ?? 1;
+  const goodness = goodnessOfFit({ residuals: r, y: data.y, weights: data.weights, p, sigmaAbsolute: data.sigmaAbsolute, condition: cov.condition, scale: c });
+  // s/c from the scaled residuals, in range whatever the units (robust covariance: of the last reweighted step)
+  const rootMean = (v: Float64Array) => (goodness.dof > 0 ? Math.sqrt(v.reduce((a, x) => a + x * x, 0) / goodness.dof) : NaN);
+  const sScaled = rootMean(r);
+  // covariance k²·(J̃ᵀJ̃)⁻¹ of the scaled problem J̃ = J/c: k = s/c (variance estimated), 1/c (σ absolute)
+  const estimated = estimateCovariance(cov, data.sigmaAbsolute ? 1 / c : rw ? rootMean(rcov) : sScaled);
+  const scaled = estimated.covariance;
+  const intervals = parameterIntervalsFromSe(theta, estimated.se, fit.options.level, goodness.dof);
+  const correlation = rowsOf(estimated.correlation, p);
 
-  const h = leverages(jcov, n, p, cov.unscaled);
-  const inf = influence(r, h, goodness.rmse, p);
+  // leverages from the equilibrated Jacobian J·S and its (SJᵀJS)⁻¹: unit-free
+  const jEq = jcov.map((v, k) => v * cov.columnScale[Math.floor(k / n)]);
+  const h = leverages(jEq, n, p, cov.core);
+  const inf = influence(r, h, sScaled, p);
   const sqrtW = data.weights ? data.weights.map(Math.sqrt) : null;
-  const fitted = data.y.map((y, i) => y - r[i] / (sqrtW ? sqrtW[i] : 1));
+  const fitted = data.y.map((y, i) => y - (c * r[i]) / (sqrtW ? sqrtW[i] : 1));
 
-  const residuals: ResidualDiagnostics = residualsAtRoundingLevel(r, data, goodness.dof)
+  const residuals: ResidualDiagnostics = residualsAtRoundingLevel(r, data, goodness.dof, c)
     ? { durbinWatson: null, runs: null, shapiroWilk: null }
     : (() => {
         const order = data.x ? orderBy(data.x) : undefined;
@@ -107,14 +115,14 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
       fit,
       predictor: data.predictor,
       estimates: theta,
-      cov: scaled,
+      cov: { p, se: estimated.se, corr: estimated.correlation },
       dof: goodness.dof,
       level: fit.options.level,
       rmse: goodness.rmse,
       sigmaAbsolute: data.sigmaAbsolute,
       weights: data.weights,
     });
-    bands = bandsOver(min, max, curve.modelAt, curve.cov, curve.p, curve.t, curve.newVar);
+    bands = bandsOver(min, max, curve.modelAt, curve.cov, curve.t, curve.newSd);
   }
 
   const freeIndex = new Map<string, number>();
@@ -175,15 +183,22 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
       response: exprText(fit.blocks[0].response),
       sigmaAbsolute: data.sigmaAbsolute,
       rowsDropped: data.rowsDropped,
+      ...excludedFields(data),
     },
-    warnings,
+    warnings: data.excluded ? [...warnings, { code: 'rows_dropped', message: warningText.rows_excluded(data.excluded.lines.length, data.file, data.excluded.lines) }] : warnings,
   };
+}
+
+/** A flat p×p matrix as nested rows. */
+function rowsOf(flat: Float64Array, p: number): number[][] {
+  return Array.from({ length: p }, (_, j) => Array.from(flat.subarray(j * p, (j + 1) * p)));
 }
 
 /** Relative size of residuals treated as rounding noise (see module comment). */
 const ROUNDING_LEVEL = 1e-12;
 
-function residualsAtRoundingLevel(r: Float64Array, data: FitData, dof: number): boolean {
+/** `r` are the residuals divided by the response scale `c`. */
+function residualsAtRoundingLevel(r: Float64Array, data: FitData, dof: number, c: number): boolean {
   if (dof <= 0) return true;
   let ss = 0;
   let ymax = 0;
@@ -192,5 +207,5 @@ function residualsAtRoundingLevel(r: Float64Array, data: FitData, dof: number): 
     const wy = Math.abs(data.y[i]) * (data.weights ? Math.sqrt(data.weights[i]) : 1);
     if (wy > ymax) ymax = wy;
   }
-  return Math.sqrt(ss / Math.max(1, r.length)) <= ROUNDING_LEVEL * ymax;
+  return Math.sqrt(ss / Math.max(1, r.length)) <= ROUNDING_LEVEL * (ymax / c);
 }

@@ -23,6 +23,7 @@ import { holdParams } from './expr';
 import { freeModel } from './curve';
 import { defaultSolvers, type Solvers } from './solvers';
 import { fitStatistics } from './fit-stats';
+import { responseScale } from '../linalg/scale';
 
 export interface RunFitOptions {
   cancel?: CancelToken;
@@ -68,7 +69,11 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Pick<RunF
   const model: CompiledModel = compileModel(expr, free, data.modelColumns);
   const lower = Float64Array.from(freePlans, (q) => q.lower ?? -Infinity);
   const upper = Float64Array.from(freePlans, (q) => q.upper ?? Infinity);
-  const sqrtW = data.weights ? data.weights.map(Math.sqrt) : null;
+  // Responses far from 1 (|√w·y| outside [2^-400, 2^400]) are fitted divided by a power of two c
+  // (exact), so squares of residuals stay in range; the statistics scale back (engine/linalg/scale.ts).
+  const rawSqrtW = data.weights ? data.weights.map(Math.sqrt) : null;
+  const c = responseScale(data.y, rawSqrtW, n);
+  const sqrtW = c === 1 ? rawSqrtW : rawSqrtW ? rawSqrtW.map((v) => v / c) : new Float64Array(n).fill(1 / c);
 
   const guess = guessStart({
     model,
@@ -82,7 +87,9 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Pick<RunF
   const theta0 = guess.theta.map((v, j) => Math.min(upper[j], Math.max(lower[j], v)));
 
   const problem = modelProblem({ model, columns: data.columns, response: data.y, n, sqrtWeights: sqrtW ?? undefined, lower, upper });
-  const solved = solve(fit, model.linear, problem, theta0, lower, upper, solvers, watch);
+  const onIteration = watch.onIteration;
+  const scaledWatch = c === 1 || !onIteration ? watch : { ...watch, onIteration: (it: number, cost: number) => onIteration(it, cost * c * c) };
+  const solved = solve(fit, model.linear, problem, theta0, lower, upper, solvers, scaledWatch, c);
   if ('error' in solved) return failedFit(fit, data, failedStop(solved.error), groupWarnings, elapsed());
   const stats = fitStatistics({
     fit,
@@ -93,6 +100,7 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Pick<RunF
     lower,
     upper,
     start: theta0,
+    responseScale: c,
     // A direct linear solve does not use starting values, so a guess is not worth a warning there.
     guessed: { names: solved.method === 'linear' ? [] : guess.guessed, how: guess.how },
   });
@@ -123,6 +131,7 @@ function solve(
   upper: Float64Array,
   solvers: Solvers,
   watch: Pick<RunFitOptions, 'cancel' | 'onIteration'>,
+  scale = 1,
 ): Solved {
   const o = fit.options;
   const cancel = watch.cancel;
@@ -162,7 +171,8 @@ function solve(
   if (loss !== 'squared' && outcome.stop.code !== 'cancelled') {
     if (!solvers.robust) return { error: `the robust solver (loss ${loss}) is not available in this build` };
     const from = outcome.theta.every(Number.isFinite) ? outcome.theta : theta0;
-    outcome = add(solvers.robust(problem, from, loss, o.lossScale, iterative));
+    // the loss scale is in units of the weighted residual; the problem's residuals are divided by c
+    outcome = add(solvers.robust(problem, from, loss, o.lossScale / scale, iterative));
     if (used === 'linear') used = 'levenberg_marquardt';
   }
   return { outcome, method: used, iterations, evaluations };

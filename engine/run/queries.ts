@@ -63,7 +63,7 @@ function predict(q: Extract<Query, { kind: 'predict' }>, ctx: QueryContext): Out
       fit: q.fit,
       ...(r.group !== undefined ? { group: r.group } : {}),
       variable: q.variable,
-      predictions: predictAt(q.values, curve.modelAt, curve.cov, curve.p, curve.t, curve.newVar),
+      predictions: predictAt(q.values, curve.modelAt, curve.cov, curve.t, curve.newSd),
     });
   }
   return out;
@@ -98,7 +98,7 @@ function invert(q: Extract<Query, { kind: 'invert' }>, ctx: QueryContext): Out {
     }
     const lo = Math.min(...xs);
     const hi = Math.max(...xs);
-    const band = (v: Float64Array) => bandsAt(v, curve.modelAt, curve.cov, curve.p, curve.t, curve.newVar);
+    const band = (v: Float64Array) => bandsAt(v, curve.modelAt, curve.cov, curve.t, curve.newSd);
     const inversions: InversePrediction[] = q.values.map((v) => {
       const y0 = transform!(v);
       if (!Number.isFinite(y0)) return { response: v, x: null, interval: [null, null], message: `${exprText(response)} is not defined at ${q.response} = ${v}` };

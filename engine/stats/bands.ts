@@ -7,15 +7,42 @@
  *   prediction: f(x₀) ± t·√(gᵀCg + v(x₀)),
  * where t = t_{(1+level)/2, dof} and v(x₀) is the variance of one new
  * observation at x₀ (s² unweighted; s²/w(x₀) with relative weights; σ(x₀)²
- * when σ is absolute - supplied by the caller).
+ * when σ is absolute - supplied by the caller as its root).
+ *
+ * Scale: C is given factored as standard errors and correlations (C =
+ * diag(se)·ρ·diag(se)) and √(gᵀCg) is formed as m·√((v/m)ᵀρ(v/m)) with
+ * vⱼ = gⱼ·seⱼ, m = max|vⱼ| (engine/linalg/scale.ts), and the prediction
+ * half-width as t·hypot(√(gᵀCg), √v): nothing is squared, so bands of data
+ * near 1e-300 or 1e+300 are as accurate as near 1.
  */
 import type { Bands, Prediction } from '../result';
+import { quadraticFormRoot } from '../linalg/scale';
+
+/** Covariance of p estimates as standard errors and a correlation matrix (flat p×p, ρⱼⱼ = 1). */
+export interface FactoredCovariance {
+  p: number;
+  se: ArrayLike<number>;
+  corr: ArrayLike<number>;
+}
+
+/** The factored form of a flat p×p covariance C (for callers that hold C; a zero variance gets correlations 0). */
+export function factorCovariance(cov: ArrayLike<number>, p: number): FactoredCovariance {
+  const se = Float64Array.from({ length: p }, (_, j) => (cov[j * p + j] >= 0 ? Math.sqrt(cov[j * p + j]) : NaN));
+  const corr = new Float64Array(p * p);
+  for (let j = 0; j < p; j++) {
+    for (let k = 0; k < p; k++) {
+      const d = se[j] * se[k];
+      corr[j * p + k] = j === k ? (Number.isNaN(se[j]) ? NaN : 1) : d > 0 ? cov[j * p + k] / d : d === 0 ? 0 : NaN;
+    }
+  }
+  return { p, se, corr };
+}
 
 /** Model values and their parameter gradient at predictor values (gradient m×p, column-major). */
 export type ModelAt = (xs: Float64Array) => { f: Float64Array; gradient: Float64Array };
 
-/** Variance of a single new observation at each predictor value. */
-export type NewObservationVariance = (xs: Float64Array) => Float64Array;
+/** Standard deviation of a single new observation at each predictor value. */
+export type NewObservationSd = (xs: Float64Array) => Float64Array;
 
 /** Ratio max/min above which a positive predictor range gets a log-spaced grid (dose series, dilutions). */
 export const LOG_GRID_RATIO = 1000;
@@ -47,32 +74,28 @@ export interface BandPoints {
   prediction: Float64Array;
 }
 
-/** Band half-widths at the given predictor values. `cov` is the scaled p×p covariance (flat). */
-export function bandsAt(xs: Float64Array, modelAt: ModelAt, cov: ArrayLike<number>, p: number, t: number, newVar: NewObservationVariance): BandPoints {
+/** Band half-widths at the given predictor values. */
+export function bandsAt(xs: Float64Array, modelAt: ModelAt, cov: FactoredCovariance, t: number, newSd: NewObservationSd): BandPoints {
   const m = xs.length;
+  const p = cov.p;
   const { f, gradient } = modelAt(xs);
-  const v = newVar(xs);
+  const sd = newSd(xs);
   const confidence = new Float64Array(m);
   const prediction = new Float64Array(m);
+  const v = new Float64Array(p);
   for (let i = 0; i < m; i++) {
-    let q = 0;
-    for (let j = 0; j < p; j++) {
-      const gj = gradient[j * m + i];
-      let row = 0;
-      for (let k = 0; k < p; k++) row += cov[j * p + k] * gradient[k * m + i];
-      q += gj * row;
-    }
-    q = Math.max(q, 0); // rounding can make gᵀCg slightly negative when it is ~0
-    confidence[i] = t * Math.sqrt(q);
-    prediction[i] = t * Math.sqrt(q + v[i]);
+    for (let j = 0; j < p; j++) v[j] = gradient[j * m + i] * cov.se[j];
+    const se = quadraticFormRoot(v, cov.corr, p);
+    confidence[i] = t * se;
+    prediction[i] = t * Math.hypot(se, sd[i]);
   }
   return { fitted: f, confidence, prediction };
 }
 
 /** Bands over `grid(min, max, count)` as the result's `Bands`. */
-export function bandsOver(min: number, max: number, modelAt: ModelAt, cov: ArrayLike<number>, p: number, t: number, newVar: NewObservationVariance, count = 200): Bands {
+export function bandsOver(min: number, max: number, modelAt: ModelAt, cov: FactoredCovariance, t: number, newSd: NewObservationSd, count = 200): Bands {
   const xs = grid(min, max, count);
-  const b = bandsAt(xs, modelAt, cov, p, t, newVar);
+  const b = bandsAt(xs, modelAt, cov, t, newSd);
   const arr = (fn: (i: number) => number) => Array.from(xs, (_, i) => fn(i));
   return {
     x: Array.from(xs),
@@ -85,9 +108,9 @@ export function bandsOver(min: number, max: number, modelAt: ModelAt, cov: Array
 }
 
 /** Predictions with confidence and prediction intervals at given values. */
-export function predictAt(values: readonly number[], modelAt: ModelAt, cov: ArrayLike<number>, p: number, t: number, newVar: NewObservationVariance): Prediction[] {
+export function predictAt(values: readonly number[], modelAt: ModelAt, cov: FactoredCovariance, t: number, newSd: NewObservationSd): Prediction[] {
   const xs = Float64Array.from(values);
-  const b = bandsAt(xs, modelAt, cov, p, t, newVar);
+  const b = bandsAt(xs, modelAt, cov, t, newSd);
   return values.map((x, i) => ({
     x,
     fitted: b.fitted[i],

@@ -23,6 +23,15 @@ import { inverseGram } from '../linalg/triangular';
 export interface CovarianceResult {
   /** (JᵀJ)⁻¹, p×p column-major (symmetric), original parameter order. */
   unscaled: Float64Array;
+  /**
+   * The same for the equilibrated Jacobian J·S: (SJᵀJS)⁻¹, so that
+   * (JᵀJ)⁻¹ = S·core·S; its entries do not depend on the units of the
+   * parameters (bounded by κ²), so products with S never under- or overflow
+   * where the result itself is representable.
+   */
+  core: Float64Array;
+  /** S: 1/‖Jⱼ‖ per parameter (1 for a zero column), original order. */
+  columnScale: Float64Array;
   p: number;
   rank: number;
   rankDeficient: boolean;
@@ -41,23 +50,24 @@ export interface CovarianceOptions {
 
 export function unscaledCovariance(jacobian: Float64Array, n: number, p: number, options: CovarianceOptions = {}): CovarianceResult {
   if (p === 0) {
-    return { unscaled: new Float64Array(0), p, rank: 0, rankDeficient: false, dependent: [], condition: 1, tolerance: 0 };
+    return { unscaled: new Float64Array(0), core: new Float64Array(0), columnScale: new Float64Array(0), p, rank: 0, rankDeficient: false, dependent: [], condition: 1, tolerance: 0 };
   }
   let finite = true;
   for (let i = 0; i < n * p; i++) if (!Number.isFinite(jacobian[i])) { finite = false; break; }
   if (!finite || n === 0) {
     return {
-      unscaled: new Float64Array(p * p).fill(NaN), p, rank: 0, rankDeficient: true,
+      unscaled: new Float64Array(p * p).fill(NaN), core: new Float64Array(p * p).fill(NaN), columnScale: new Float64Array(p).fill(NaN), p, rank: 0, rankDeficient: true,
       dependent: Array.from({ length: p }, (_, j) => j), condition: Infinity, tolerance: NaN,
     };
   }
   const qr = new PivotedQR(n, p).factor(jacobian, n, p, { pivot: true, scale: true, rankTolerance: options.rankTolerance });
   const unscaled = inverseGram(qr);
+  const core = inverseGram(qr, qr.rank, false);
   const dependent: number[] = [];
   for (let k = qr.rank; k < p; k++) dependent.push(qr.perm[k]);
   dependent.sort((a, b) => a - b);
   return {
-    unscaled, p, rank: qr.rank, rankDeficient: qr.rank < p, dependent,
+    unscaled, core, columnScale: Float64Array.from(qr.scale.subarray(0, p)), p, rank: qr.rank, rankDeficient: qr.rank < p, dependent,
     condition: qr.rank < p || n < p ? Infinity : conditionOfR(qr),
     tolerance: qr.tolerance,
   };
@@ -93,4 +103,31 @@ export function scaledCovariance(cov: CovarianceResult, s2: number): number[][] 
     out.push(row);
   }
   return out;
+}
+
+/**
+ * The covariance k²·(JᵀJ)⁻¹ of the estimates in factored form, computed
+ * without forming k² or (JᵀJ)⁻¹ (either may be out of range where the
+ * result is not): seⱼ = (k·Sⱼ)·√coreⱼⱼ, ρⱼₗ = coreⱼₗ/√(coreⱼⱼ·coreₗₗ) and
+ * Cⱼₗ = (k·Sⱼ)·coreⱼₗ·(k·Sₗ). `k` is s (estimated variance) or 1/c (σ
+ * absolute with responses scaled by c). NaN where the covariance is undefined
+ * (parameters beyond the rank).
+ */
+export function estimateCovariance(cov: CovarianceResult, k: number): { se: Float64Array; correlation: Float64Array; covariance: Float64Array } {
+  const { p, core, columnScale: d } = cov;
+  const se = new Float64Array(p);
+  const correlation = new Float64Array(p * p);
+  const covariance = new Float64Array(p * p);
+  const f = Float64Array.from(d, (dj) => k * dj);
+  for (let j = 0; j < p; j++) se[j] = f[j] * Math.sqrt(core[j * p + j]);
+  for (let j = 0; j < p; j++) {
+    for (let l = 0; l < p; l++) {
+      const c = core[j * p + l];
+      const dd = core[j * p + j] * core[l * p + l];
+      // no correlation of estimates that do not vary (k = 0: an exact fit), as with the covariance itself
+      correlation[j * p + l] = dd > 0 && k > 0 ? (j === l ? 1 : c / Math.sqrt(dd)) : NaN;
+      covariance[j * p + l] = f[j] * c * f[l];
+    }
+  }
+  return { se, correlation, covariance };
 }

@@ -18,7 +18,16 @@
  *   ch. 2: AIC and its least-squares form, the small-sample AICc; BIC: Schwarz
  *   1978, Ann. Statist. 6:461–464).
  * Undefined figures (dof ≤ 0, n − k − 1 ≤ 0, SST = 0) are NaN (null in JSON).
+ *
+ * Scale (`scale` c, a power of two, engine/linalg/scale.ts): the residuals
+ * given are rᵢ/c, and every sum of squares is formed from values divided by
+ * c (weights by a power of two near their largest), so data near 1e-300 or
+ * 1e+300 give the same R², s/c, χ²/c² and likelihood as data near 1; only the
+ * reported SSR = c²·Σ(rᵢ/c)² and s = c·√(Σ(rᵢ/c)²/dof) carry the units (and
+ * SSR can leave the range of doubles where s does not). With c = 1 and
+ * moderate weights every figure is computed exactly as without scaling.
  */
+import { powerOfTwoNear } from '../linalg/scale';
 import type { GoodnessOfFit } from '../result';
 
 export interface GoodnessInput {
@@ -34,6 +43,8 @@ export interface GoodnessInput {
   sigmaAbsolute: boolean;
   /** 2-norm condition number of the Jacobian at the estimate (passed through). */
   condition: number;
+  /** Response scale c: `residuals` are rᵢ/c. Default 1. */
+  scale?: number;
 }
 
 /** Number of estimated quantities in the likelihood: p, plus 1 for the variance when it is estimated. */
@@ -50,28 +61,36 @@ export function informationCriteria(logLikelihood: number, k: number, n: number)
 
 export function goodnessOfFit(input: GoodnessInput): GoodnessOfFit {
   const { residuals, y, weights, p, sigmaAbsolute } = input;
+  const c = input.scale ?? 1;
   const n = residuals.length;
-  const w = (i: number) => (weights ? weights[i] : 1);
-  let ssr = 0;
+  // weights divided by a power of two near the largest (exact), so Σw and Σwy cannot overflow
+  let wBig = 0;
+  if (weights) for (let i = 0; i < n; i++) if (weights[i] > wBig && weights[i] < Infinity) wBig = weights[i];
+  const wScale = wBig > 2 ** 400 || (wBig > 0 && wBig < 2 ** -400) ? powerOfTwoNear(wBig) : 1;
+  const w = (i: number) => (weights ? (wScale === 1 ? weights[i] : weights[i] / wScale) : 1);
+  let ss = 0; // Σ (rᵢ/c)²
   let sw = 0;
-  let swy = 0;
+  let swy = 0; // Σ w·y/c
   let sumLogW = 0;
   for (let i = 0; i < n; i++) {
-    ssr += residuals[i] * residuals[i];
+    ss += residuals[i] * residuals[i];
     sw += w(i);
-    swy += w(i) * y[i];
-    sumLogW += Math.log(w(i));
+    swy += w(i) * (c === 1 ? y[i] : y[i] / c);
+    sumLogW += weights ? Math.log(weights[i]) : 0;
   }
-  const mean = swy / sw;
-  let sst = 0;
-  for (let i = 0; i < n; i++) sst += w(i) * (y[i] - mean) ** 2;
+  const mean = swy / sw; // ȳ_w / c
+  let sst = 0; // Σ wᵢ(yᵢ − ȳ_w)² / c² (with w/wScale)
+  for (let i = 0; i < n; i++) sst += w(i) * ((c === 1 ? y[i] : y[i] / c) - mean) ** 2;
+  if (wScale !== 1) sst *= wScale; // back to Σ wᵢ(…)²/c², now that the terms are summed
   const dof = n - p;
-  const rmse = dof > 0 ? Math.sqrt(ssr / dof) : NaN;
-  const r2 = sst > 0 ? 1 - ssr / sst : NaN;
+  const ssr = ss * c * c;
+  const rmse = dof > 0 ? Math.sqrt(ss / dof) * c : NaN;
+  const r2 = sst > 0 ? 1 - ss / sst : NaN;
   const adjR2 = dof > 0 && n > 1 ? 1 - ((1 - r2) * (n - 1)) / dof : NaN;
+  // ln(SSR/n) = ln(Σ(r/c)²/n) + 2 ln c: finite where SSR itself is out of range
   const logLikelihood = sigmaAbsolute
     ? -0.5 * n * Math.log(2 * Math.PI) + 0.5 * sumLogW - 0.5 * ssr
-    : -0.5 * n * (Math.log(2 * Math.PI) + Math.log(ssr / n) + 1) + 0.5 * sumLogW;
+    : -0.5 * n * (Math.log(2 * Math.PI) + Math.log(ss / n) + 2 * Math.log(c) + 1) + 0.5 * sumLogW;
   const k = likelihoodParameterCount(p, sigmaAbsolute);
   return {
     n,

@@ -50,3 +50,12 @@ export function correlationMatrix(cov: ArrayLike<number>, p: number): number[][]
   }
   return rows;
 }
+
+/** se, lower, upper for each free parameter from standard errors already computed (engine/stats/covariance `estimateCovariance`). */
+export function parameterIntervalsFromSe(estimates: ArrayLike<number>, se: ArrayLike<number>, level: number, dof: number): ParameterInterval[] {
+  const t = tCritical(level, dof);
+  return Array.from({ length: estimates.length }, (_, j) => {
+    const e = se[j] >= 0 ? se[j] : NaN;
+    return { stderr: e, lower: estimates[j] - t * e, upper: estimates[j] + t * e };
+  });
+}

@@ -82,6 +82,26 @@ export function pointRows(fit: FitResult, maxMarks = MAX_MARKS, by: 'x' | 'fitte
   return { rows, total: count, thinned: kept.length < count };
 }
 
+/** A row left out of the fit (weight 0), drawn apart from the fitted points. */
+export interface ExcludedRow {
+  row: number;
+  x: number;
+  y: number;
+}
+
+/**
+ * The rows a fit left out (`FitResult.excluded`) with finite x and y, for the
+ * data chart; at most `maxMarks`, evenly spaced in row order when there are more.
+ */
+export function excludedRows(fit: FitResult, maxMarks = MAX_MARKS): ExcludedRow[] {
+  const e = fit.excluded;
+  if (!e || !e.x) return [];
+  const all: ExcludedRow[] = [];
+  for (let i = 0; i < e.row.length; i++) if (Number.isFinite(e.x[i]) && Number.isFinite(e.y[i])) all.push({ row: e.row[i], x: e.x[i], y: e.y[i] });
+  if (all.length <= maxMarks) return all;
+  return Array.from({ length: maxMarks }, (_, k) => all[Math.floor((k * all.length) / maxMarks)]);
+}
+
 /** Band rows with every entry finite (ends that could not be computed are dropped). */
 export function bandRows(fit: FitResult): BandRow[] {
   const b = fit.bands;

@@ -11,7 +11,7 @@
  */
 import type { TopLevelSpec } from 'vega-lite';
 import type { FitResult } from '../result';
-import { bandRows, histogramRows, pointRows, prefersLogX, qqRows, type PointRow, type Thinned } from './chart-data';
+import { bandRows, excludedRows, histogramRows, pointRows, prefersLogX, qqRows, type PointRow, type Thinned } from './chart-data';
 import { MAX_MARKS } from './downsample';
 import { formatLevel } from './format';
 import { FONT, PALETTE, type Palette } from './palette';
@@ -136,9 +136,18 @@ function fitChart(fit: FitResult, o: ChartContext): ChartSpec | null {
       { field: 'residual', type: 'quantitative', title: 'residual', format: NUM },
     ]),
   });
+  const left = excludedRows(fit, o.maxMarks);
+  if (left.length) {
+    layers.push({
+      name: 'excluded_points', data: { values: left },
+      mark: { type: 'point', filled: false, size: pointSize(left.length), color: pal.points, opacity: 0.85 },
+      encoding: { x: xEnc, y: { field: 'y', type: 'quantitative' }, tooltip: [rowTip, { field: 'x', type: 'quantitative', title: xName, format: NUM }, { field: 'y', type: 'quantitative', title: yTitle, format: NUM }] },
+    });
+  }
   const subtitle = bands.length
     ? [`Points: data. Line: fitted curve. Dark shade: ${level} confidence band; light shade: ${level} prediction band.`]
     : ['Points: data. Line: fitted values.'];
+  if (left.length) subtitle.push(`Hollow points: ${left.length} row${left.length === 1 ? '' : 's'} left out of the fit (weight 0).`);
   const title = `${fit.name}${groupSuffix(fit)}: data and fitted curve`;
   return { id: 'fit', title, spec: top(pal, title, [...subtitle, ...thinNote(pts)], o.width, o.height, { layer: layers }) };
 }

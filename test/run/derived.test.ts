@@ -229,7 +229,7 @@ derive uses_both = fixed_line.intercept + lost.a`;
 
   it('a failed fit and a fit without the parameter give no value (direct call)', () => {
     const fit = (stop: FitResult['stop']): FitResult => ({
-      name: 'f', stop, level: 0.95, goodness: { dof: 3 }, covariance: [[1]], iterations: 0,
+      name: 'f', stop, level: 0.95, goodness: { dof: 3 }, covariance: [[1]], correlation: [[1]], iterations: 0,
       parameters: [{ name: 'a', estimate: 2, stderr: 1, fixed: false }],
     }) as unknown as FitResult;
     const plan = [{ name: 'q', expr: { kind: 'result' as const, fit: 'f', of: 'estimate' as const, name: 'a' }, text: 'f.a', fits: ['f'], range: undefined as never }];
@@ -245,7 +245,8 @@ derive uses_both = fixed_line.intercept + lost.a`;
 
   it('a covariance entry that is not finite gives no standard error', () => {
     const fit = { name: 'f', stop: { code: 'exact', message: '', converged: true }, level: 0.95, goodness: { dof: 3 }, iterations: 0,
-      covariance: [[NaN, 0], [0, 4]], parameters: [{ name: 'a', estimate: 2, fixed: false }, { name: 'b', estimate: 3, fixed: false }] } as unknown as FitResult;
+      covariance: [[NaN, 0], [0, 4]], correlation: [[NaN, NaN], [NaN, 1]],
+      parameters: [{ name: 'a', estimate: 2, stderr: NaN, fixed: false }, { name: 'b', estimate: 3, stderr: 2, fixed: false }] } as unknown as FitResult;
     const mk = (text: string, expr: DerivedPlanExpr) => ({ name: text, expr, text, fits: ['f'], range: undefined as never });
     const ref = (name: string) => ({ kind: 'result' as const, fit: 'f', of: 'estimate' as const, name });
     const [onlyB, withA] = runDerived([mk('b2', { kind: 'binary', op: '*', left: { kind: 'number', value: 2 }, right: ref('b') }), mk('ab', { kind: 'binary', op: '*', left: ref('a'), right: ref('b') })], new Map([['f', [fit]]]));
@@ -256,7 +257,7 @@ derive uses_both = fixed_line.intercept + lost.a`;
 
   it('refuses an expansion beyond MAX_EXPANDED_NODES instead of hanging, and says so downstream', () => {
     const fit = { name: 'f', stop: { code: 'exact', message: '', converged: true }, level: 0.95, goodness: { dof: 3 }, iterations: 0,
-      covariance: [[1]], parameters: [{ name: 'a', estimate: 1, fixed: false }] } as unknown as FitResult;
+      covariance: [[1]], correlation: [[1]], parameters: [{ name: 'a', estimate: 1, stderr: 1, fixed: false }] } as unknown as FitResult;
     // d0 = f.a, dk = d(k-1) * d(k-1): 2^(k+1) − 1 nodes after expansion.
     const plans = Array.from({ length: 20 }, (_, k) => ({
       name: `d${k}`,

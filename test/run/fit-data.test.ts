@@ -63,3 +63,37 @@ fit f on d {
     expect(Array.from(r.data[1].lines)).toEqual([3, 5]);
   });
 });
+
+describe('run/fit-data weight 0 and empty data', () => {
+  const GROUPED = `data d = "d.csv"
+fit f on d {
+  model y = a + b * x
+  param a
+  param b
+  weight w
+  per g
+}`;
+
+  it('keeps weight-0 rows apart, per group, with their lines and values', () => {
+    const r = prepare(GROUPED, 'g,x,y,w\nA,1,2,1\nB,1,5,0\nA,2,4,0\nB,2,6,1\nA,3,6,1\nB,3,7,1\nC,1,1,0\n');
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    expect(r.data.map((d) => d.group)).toEqual(['A', 'B', 'C']);
+    const [a, b, c] = r.data;
+    expect([a.n, Array.from(a.lines), Array.from(a.excluded!.lines), Array.from(a.excluded!.y)]).toEqual([2, [2, 6], [4], [4]]);
+    expect([b.n, Array.from(b.lines), Array.from(b.excluded!.lines), Array.from(b.excluded!.x!)]).toEqual([2, [5, 7], [3], [1]]);
+    // a group whose rows all have weight 0 stays a group, with no rows to fit
+    expect([c.n, Array.from(c.excluded!.lines)]).toEqual([0, [8]]);
+    expect(Array.from(a.weights!)).toEqual([1, 1]);
+  });
+
+  it('no row of the table, or none left after dropping, is a located no_rows error', () => {
+    const header = prepare(GROUPED, 'g,x,y,w\r\n');
+    expect(!header.ok && header.errors[0]).toMatchObject({ code: 'no_rows', row: 1, file: 'd.csv' });
+    const missing = prepare(GROUPED, 'g,x,y,w\nA,1,,1\n,2,3,1\n');
+    expect(!missing.ok && missing.errors[0]).toMatchObject({ code: 'no_rows', row: 2, field: 3, column: 'y' });
+    // the label column comes first in the header: its missing cell is the place
+    const label = prepare(GROUPED, 'g,x,y,w\n,1,2,1\n');
+    expect(!label.ok && label.errors[0]).toMatchObject({ code: 'no_rows', row: 2, field: 1, column: 'g' });
+  });
+});

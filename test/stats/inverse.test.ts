@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { bandsAt, grid, predictAt, type ModelAt } from '../../engine/stats/bands';
+import { bandsAt, factorCovariance, grid, predictAt, type ModelAt } from '../../engine/stats/bands';
 import { inversePrediction } from '../../engine/stats/inverse';
 import { brentRoot } from '../../engine/stats/root';
 
@@ -20,8 +20,9 @@ const line: ModelAt = (xs) => {
   });
   return { f, gradient };
 };
-const newVar = (xs: Float64Array) => new Float64Array(xs.length).fill(s2);
-const curve = (xs: Float64Array) => bandsAt(xs, line, C, 2, t, newVar);
+const newSd = (xs: Float64Array) => new Float64Array(xs.length).fill(Math.sqrt(s2));
+const F = factorCovariance(C, 2);
+const curve = (xs: Float64Array) => bandsAt(xs, line, F, t, newSd);
 
 describe('stats/bands', () => {
   it('grid spans min..max inclusive with the requested count', () => {
@@ -29,11 +30,24 @@ describe('stats/bands', () => {
     expect(Array.from(g)).toEqual([2, 2.5, 3, 3.5, 4]);
   });
   it('predictAt: half-widths t·√(gᵀCg) and t·√(gᵀCg + s²) by hand', () => {
-    const [p] = predictAt([3], line, C, 2, t, newVar);
+    const [p] = predictAt([3], line, F, t, newSd);
     const q = C[0] + 2 * 3 * C[1] + 9 * C[3]; // gᵀCg with g = (1, 3)
     expect(p.fitted).toBeCloseTo(7.5, 14);
     expect(p.confidence[1] - p.fitted).toBeCloseTo(t * Math.sqrt(q), 12);
     expect(p.prediction[1] - p.fitted).toBeCloseTo(t * Math.sqrt(q + s2), 12);
+  });
+
+  it('gives the same relative half-widths for a covariance and s scaled by 1e-300 or 1e+300 (no squares formed)', () => {
+    const xs = Float64Array.of(0, 3, 9);
+    const ref = bandsAt(xs, line, F, t, newSd);
+    for (const k of [1e-300, 1e-150, 1e150, 1e300]) {
+      const scaled = { p: 2, se: Array.from(F.se, (v) => v * k), corr: F.corr };
+      const b = bandsAt(xs, line, scaled, t, (v) => new Float64Array(v.length).fill(Math.sqrt(s2) * k));
+      for (let i = 0; i < xs.length; i++) {
+        expect(b.confidence[i] / k / ref.confidence[i]).toBeCloseTo(1, 12);
+        expect(b.prediction[i] / k / ref.prediction[i]).toBeCloseTo(1, 12);
+      }
+    }
   });
 });
 
@@ -69,7 +83,7 @@ describe('stats/inverse inversePrediction', () => {
 
   it('reports the smallest of several solutions', () => {
     const parabola: ModelAt = (xs) => ({ f: xs.map((x) => (x - 5) ** 2), gradient: new Float64Array(xs.length) });
-    const r = inversePrediction(4, 0, 10, (xs) => bandsAt(xs, parabola, [0], 1, t, (v) => new Float64Array(v.length).fill(0.01)));
+    const r = inversePrediction(4, 0, 10, (xs) => bandsAt(xs, parabola, factorCovariance([0], 1), t, (v) => new Float64Array(v.length).fill(0.1)));
     expect(r.x).toBeCloseTo(3, 9);
     expect(r.message).toContain('2 solutions');
   });

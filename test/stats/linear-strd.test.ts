@@ -5,7 +5,7 @@
  */
 import { Matrix, QrDecomposition, inverse } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
-import { bandsAt } from '../../engine/stats/bands';
+import { bandsAt, factorCovariance } from '../../engine/stats/bands';
 import { tCritical } from '../../engine/stats/distributions';
 import { goodnessOfFit } from '../../engine/stats/goodness';
 import { influence, leverages } from '../../engine/stats/influence';
@@ -69,10 +69,9 @@ for (const [name, degree] of [['Norris', 1], ['Pontius', 2]] as const) {
       const bands = bandsAt(
         xs,
         () => ({ f: Float64Array.from(f.d.y.map((y, i) => y - f.residuals[i])), gradient: f.jac }),
-        cov,
-        f.p,
+        factorCovariance(cov, f.p),
         t,
-        (v) => new Float64Array(v.length).fill(g.rmse ** 2),
+        (v) => new Float64Array(v.length).fill(g.rmse),
       );
       for (let i = 0; i < f.n; i++) {
         expect(h[i]).toBeCloseTo(hat.get(i, i), 8);
