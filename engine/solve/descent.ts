@@ -26,7 +26,10 @@
  *                   upper bound with Jⱼᵀr < 0) is at a constrained optimum in
  *                   that direction and left out (the projected gradient);
  *  small_reduction: 0 ≤ cost_k − cost_{k+1} ≤ reductionTolerance·cost_k [1e-15 —
- *                   per-step reductions of a first-order method are small by nature];
+ *                   per-step reductions of a first-order method are small by
+ *                   nature], with the scaled gradient ≤ 1e-3 (`stagnation.ts`
+ *                   DEAD_GRADIENT: a constant cost with a large gradient is a
+ *                   cycle, left to the stagnation test);
  *  small_step:      ‖Δφ‖ ≤ stepTolerance·(‖φ‖ + stepTolerance) [1e-15, for the same reason];
  *  stagnated:       over 1000 iterations the best cost fell by ≤ 1e-12
  *                   relative and the best point moved by ≤ 1e-9 relative
@@ -49,7 +52,7 @@ import { norm2 } from '../linalg/norm';
 import { project } from './bounds';
 import { stopText } from './messages';
 import { validateSolveOptions } from './options';
-import { DESCENT_STAGNATION, StagnationWatch } from './stagnation';
+import { DEAD_GRADIENT, DESCENT_STAGNATION, StagnationWatch } from './stagnation';
 import { TraceRecorder } from './trace';
 
 export interface DescentOptions extends SolveOptions {
@@ -176,7 +179,8 @@ function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: D
     }
     const limit = o.xtol * (norm2(phi) + o.xtol);
     if (sn <= limit) return { code: 'small_step', message: stopText.smallScaledStep(sn, limit) };
-    if (reduction >= 0 && reduction <= o.ftol * (cost + reduction)) {
+    // a tiny reduction with a large gradient is a cycle or a crawl, not a minimum (stagnation.ts DEAD_GRADIENT): left to the window test
+    if (reduction >= 0 && reduction <= o.ftol * (cost + reduction) && gnorm <= DEAD_GRADIENT) {
       return { code: 'small_reduction', message: `relative reduction ${fmt(reduction / (cost + reduction))} below its tolerance ${fmt(o.ftol)}` };
     }
     const stalled = watch?.record(next, s.x);

@@ -33,6 +33,10 @@
  *                   angle between r and each Jacobian column; 0 at a zero residual);
  *  the same three with the tolerance replaced by ε = 2⁻⁵² mean that no
  *  further progress is possible in double precision (reported as such);
+ *  a reduction or step stop with the scaled gradient above 1e-3 and
+ *  prered ≤ reductionTolerance is not a minimum (`stagnation.ts`
+ *  DEAD_GRADIENT): `non_finite` when non-finite trials were met (the trust
+ *  region was cut at the edge of the model's domain), else `stagnated`;
  *  stagnated (`stagnation.ts`: over 50 accepted iterations the cost fell by
  *  ≤ 1e-10 relative and no parameter moved by more than 1e-6 relative; not
  *  converged), max_iterations (accepted steps, default 1000), max_evaluations
@@ -52,7 +56,7 @@ import { project, freeSet } from './bounds';
 import { polishGaussNewton } from './polish';
 import { stopText } from './messages';
 import { validateSolveOptions } from './options';
-import { LM_STAGNATION, StagnationWatch } from './stagnation';
+import { DEAD_GRADIENT, LM_STAGNATION, StagnationWatch } from './stagnation';
 import { TraceRecorder, finiteOrNull } from './trace';
 
 /** Initial trust radius factor (Moré 1978 §6: 100). */
@@ -77,6 +81,8 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
   let iterations = 0;
   const recorder = options.trace ? new TraceRecorder('levenberg_marquardt') : null;
   let nonFinite: NonFiniteReport | null = null;
+  /** The last non-finite trial of the run (kept after later acceptances, for a dead stop). */
+  let lastNonFinite: NonFiniteReport | null = null;
   /** A trial step was evaluated (a non-finite stop is then not about the starting values). */
   let started = false;
   const finish = (code: StopCode, message: string, jacobianCurrent: boolean): SolveOutcome => {
@@ -264,10 +270,10 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
       nfev++;
       started = true;
       let trialFinite = allFinite(rt);
-      if (!trialFinite) nonFinite = nonFiniteReport('residuals', rt, n, 1, xt);
+      if (!trialFinite) nonFinite = lastNonFinite = nonFiniteReport('residuals', rt, n, 1, xt);
       else if (withJacobian && !allFinite(jac)) {
         trialFinite = false;
-        nonFinite = nonFiniteReport('jacobian', jac, n, p, xt);
+        nonFinite = lastNonFinite = nonFiniteReport('jacobian', jac, n, p, xt);
       }
       let fnorm1 = trialFinite ? norm2(rt) : Infinity;
       let actred = 0.1 * fnorm1 < fnorm ? 1 - (fnorm1 / fnorm) ** 2 : -1;
@@ -306,7 +312,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
         njev++;
         jacAtX = false;
         if (!allFinite(jac)) {
-          nonFinite = nonFiniteReport('jacobian', jac, n, p, xt);
+          nonFinite = lastNonFinite = nonFiniteReport('jacobian', jac, n, p, xt);
           fnorm1 = Infinity;
           actred = -1;
           ratio = prered !== 0 ? actred / prered : 0;
@@ -345,19 +351,32 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
         if (stalled) return finish('stagnated', stopText.stagnated(stalled, watch.settings.costTolerance, watch.settings.stepTolerance), true);
       }
       const current = jacAtX;
+      // a large gradient measure the model cannot reduce: not a minimum (stagnation.ts DEAD_GRADIENT)
+      const dead = gnorm > DEAD_GRADIENT && prered <= ftol;
+      const deadStop = (): SolveOutcome => {
+        if (lastNonFinite) {
+          nonFinite = lastNonFinite;
+          return finish('non_finite', stopText.noFiniteStep(lastNonFinite.what, delta), current);
+        }
+        return finish('stagnated', stopText.deadRegion(gnorm, prered), current);
+      };
       if (Math.abs(actred) <= ftol && prered <= ftol && 0.5 * ratio <= 1) {
+        if (dead) return deadStop();
         return finish('small_reduction', stopText.smallReduction(Math.abs(actred), ftol, prered), current);
       }
       if (delta <= xtol * xnorm) {
         if (!accepted && nonFinite) return finish('non_finite', stopText.noFiniteStep(nonFinite.what, delta), current);
+        if (dead) return deadStop();
         return finish('small_step', stopText.smallRadius(delta, xtol * xnorm), current);
       }
       if (nfev >= maxFev) return finish('max_evaluations', stopText.maxEvaluations(maxFev), current);
       if (Math.abs(actred) <= EPSILON && prered <= EPSILON && 0.5 * ratio <= 1) {
+        if (dead) return deadStop();
         return finish('small_reduction', stopText.smallReductionRounding(Math.abs(actred)), current);
       }
       if (delta <= EPSILON * xnorm) {
         if (!accepted && nonFinite) return finish('non_finite', stopText.noFiniteStep(nonFinite.what, delta), current);
+        if (dead) return deadStop();
         return finish('small_step', stopText.smallRadiusRounding(delta, xnorm), current);
       }
       if (gnorm <= EPSILON) return finish('small_gradient', stopText.smallGradientRounding(gnorm), current);

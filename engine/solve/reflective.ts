@@ -53,8 +53,9 @@
  *                   for a full step only (a step cut short at a bound is
  *                   small because of the bound, not because the cost is flat);
  *  small_step:      Δ ≤ stepTolerance·‖Dθ‖;
- *  either of the two with γ > 1e-3 and prered ≤ reductionTolerance is a dead
- *  region (DEAD_GRADIENT), reported as `stagnated`, not converged;
+ *  either of the two with γ > 1e-3 and prered ≤ reductionTolerance is not a
+ *  minimum (`stagnation.ts` DEAD_GRADIENT): `non_finite` when non-finite
+ *  trials were met, else `stagnated`, not converged;
  *  the machine-precision forms, stagnated (`stagnation.ts`, 50 accepted
  *  iterations), max_iterations (1000), max_evaluations, non_finite (the
  *  trust region collapsed on non-finite trials, or non-finite values at the
@@ -78,7 +79,7 @@ import { colemanLiScaling, makeStrictlyFeasible } from './bounds';
 import { polishGaussNewton } from './polish';
 import { stopText } from './messages';
 import { validateSolveOptions } from './options';
-import { LM_STAGNATION, StagnationWatch } from './stagnation';
+import { DEAD_GRADIENT, LM_STAGNATION, StagnationWatch } from './stagnation';
 import { TraceRecorder, finiteOrNull } from './trace';
 import { StepWork, modelValue, selectStep, type StepModel } from './reflective-step';
 
@@ -88,18 +89,6 @@ const STEP_FACTOR = 1;
 const ACCEPT_RATIO = 1e-4;
 /** Smallest step-back factor θ_b (module comment, step 4). */
 export const STEP_BACK = 0.995;
-/**
- * Dead region: the scaled gradient measure γ is above this while the model
- * predicts a relative reduction no larger than the reduction tolerance. A
- * large cosine on a column whose norm has collapsed (an exponential whose
- * rate ran off, its Jacobian column ≈ 0) cannot be acted on: the reduction
- * and step tests would fire there, but it is not a minimum (NIST StRD MGH17
- * from start 1 with sign bounds ended there with γ = 0.27 and a predicted
- * reduction 7e-16). Near a minimum γ is ~√(relative reduction), far below
- * 1e-3; at a zero-residual solution γ is rounding noise but the predicted
- * reduction of that noise is not small. Reported as `stagnated`.
- */
-const DEAD_GRADIENT = 1e-3;
 /** Floor of a bound distance |vⱼ| in the scaling (the smallest normal double). */
 const MIN_DISTANCE = 2.2250738585072014e-308;
 
@@ -120,6 +109,8 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
   let iterations = 0;
   const recorder = options.trace ? new TraceRecorder('reflective_trust_region') : null;
   let nonFinite: NonFiniteReport | null = null;
+  /** The last non-finite trial of the run (kept after later acceptances, for a dead-region stop). */
+  let lastNonFinite: NonFiniteReport | null = null;
   /** A trial step was evaluated (a non-finite stop is then not about the starting values). */
   let started = false;
   let qr: PivotedQR | null = null;
@@ -164,11 +155,11 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
     nfev++;
     njev++;
     if (!allFinite(out)) {
-      nonFinite = nonFiniteReport('residuals', out, n, 1, at);
+      nonFinite = lastNonFinite = nonFiniteReport('residuals', out, n, 1, at);
       return false;
     }
     if (!allFinite(jac)) {
-      nonFinite = nonFiniteReport('jacobian', jac, n, p, at);
+      nonFinite = lastNonFinite = nonFiniteReport('jacobian', jac, n, p, at);
       return false;
     }
     return true;
@@ -363,15 +354,22 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
       }
       // (a step shortened at a bound is small because of the bound, not because the cost is flat: no reduction stop on it)
       const full = choice.kind === 'full';
-      // a large gradient measure the model cannot reduce: a dead region, not a minimum (DEAD_GRADIENT)
+      // a large gradient measure the model cannot reduce: not a minimum (stagnation.ts DEAD_GRADIENT)
       const dead = gamma > DEAD_GRADIENT && prered <= ftol;
+      const deadStop = (): SolveOutcome => {
+        if (lastNonFinite) {
+          nonFinite = lastNonFinite;
+          return finish('non_finite', stopText.noFiniteStep(lastNonFinite.what, delta), jacAtX);
+        }
+        return finish('stagnated', stopText.deadRegion(gamma, prered), jacAtX);
+      };
       if (full && Math.abs(actred) <= ftol && prered <= ftol && 0.5 * ratio <= 1) {
-        if (dead) return finish('stagnated', stopText.deadRegion(gamma, prered), jacAtX);
+        if (dead) return deadStop();
         return finish('small_reduction', stopText.smallReduction(Math.abs(actred), ftol, prered), jacAtX);
       }
       if (delta <= xtol * xnorm) {
         if (!accepted && nonFinite) return finish('non_finite', stopText.noFiniteStep(nonFinite.what, delta), jacAtX);
-        if (dead) return finish('stagnated', stopText.deadRegion(gamma, prered), jacAtX);
+        if (dead) return deadStop();
         return finish('small_step', stopText.smallRadius(delta, xtol * xnorm), jacAtX);
       }
       if (nfev >= maxFev) return finish('max_evaluations', stopText.maxEvaluations(maxFev), jacAtX);
@@ -380,7 +378,7 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
       }
       if (delta <= EPSILON * xnorm) {
         if (!accepted && nonFinite) return finish('non_finite', stopText.noFiniteStep(nonFinite.what, delta), jacAtX);
-        if (dead) return finish('stagnated', stopText.deadRegion(gamma, prered), jacAtX);
+        if (dead) return deadStop();
         return finish('small_step', stopText.smallRadiusRounding(delta, xnorm), jacAtX);
       }
       if (accepted) break;

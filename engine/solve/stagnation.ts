@@ -87,3 +87,19 @@ export class StagnationWatch {
     return { cost: this.bestCost, theta: this.best };
   }
 }
+
+/**
+ * A reduction or step stop with the scaled gradient measure above this and a
+ * predicted relative reduction no larger than the reduction tolerance is not
+ * a minimum (shared by Levenberg–Marquardt, the reflective method and
+ * gradient descent): the model cannot act on a large gradient, because a
+ * Jacobian column has died out (an exponential whose rate ran off: NIST StRD
+ * MGH17 from start 1 with sign bounds stopped there with γ = 0.27 and a
+ * predicted reduction 7e-16) or because the trust region was cut down by
+ * non-finite trial points at the edge of the model's domain. Near a minimum γ
+ * is ~√(relative reduction), far below 1e-3; at a zero-residual solution γ is
+ * rounding noise, but the predicted reduction of that noise is not small.
+ * Such a stop is reported as `non_finite` (when non-finite trials were met)
+ * or `stagnated`, never as converged.
+ */
+export const DEAD_GRADIENT = 1e-3;
