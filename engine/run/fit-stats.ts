@@ -126,23 +126,7 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
     bands = bandsOver(min, max, curve.modelAt, curve.cov, curve.p, curve.t, curve.newVar);
   }
 
-  const freeIndex = new Map<string, number>();
-  fit.parameters.filter((q) => !q.fixed).forEach((q, j) => freeIndex.set(q.name, j));
-  const guessed = new Set(input.guessed.names);
-  const parameters = fit.parameters.map((q) => {
-    const j = freeIndex.get(q.name);
-    if (j === undefined) {
-      const v = q.initial ?? NaN;
-      return parameterRow(q, { estimate: v, stderr: NaN, lower: NaN, upper: NaN, initial: v, guessed: false, atBound: null });
-    }
-    return parameterRow(q, {
-      estimate: theta[j],
-      ...intervals[j],
-      initial: input.start[j],
-      guessed: guessed.has(q.name),
-      atBound: boundHit(theta[j], input.lower[j], input.upper[j]),
-    });
-  });
+  const parameters = parameterRows(input, theta, (j) => intervals[j]);
 
   const free = fit.parameters.filter((q) => !q.fixed).map((q, j) => ({ name: q.name, estimate: theta[j], lower: input.lower[j], upper: input.upper[j] }));
   const warnings = fitWarnings({
@@ -167,18 +151,7 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
       correlation: expandMatrix(fit, correlation, NaN),
       goodness,
       residuals,
-      points: {
-        row: toNumberArray(data.lines),
-        x: data.x ? toNumberArray(data.x) : null,
-        y: toNumberArray(data.y),
-        fitted: toNumberArray(fitted),
-        residual: numberArrayOf(n, (i) => data.y[i] - fitted[i]),
-        standardized: toNumberArray(inf.standardized),
-        studentized: toNumberArray(inf.studentized),
-        leverage: toNumberArray(inf.leverage),
-        cooksDistance: toNumberArray(inf.cooksDistance),
-        weight: data.weights ? toNumberArray(data.weights) : null,
-      },
+      points: pointTable(data, fitted, inf),
       bands,
       predictor: data.predictor,
       response: exprText(fit.blocks[0].response),
@@ -214,20 +187,7 @@ function withheld(input: FitStatisticsInput, r: Float64Array): { fields: StatFie
   const goodness = { ...emptyGoodness(n, p), ssr: Number.isFinite(ssr) ? ssr : NaN };
   const sqrtW = data.weights ? data.weights.map(Math.sqrt) : null;
   const fitted = data.y.map((y, i) => y - r[i] / (sqrtW ? sqrtW[i] : 1));
-  const freeIndex = new Map<string, number>();
-  fit.parameters.filter((q) => !q.fixed).forEach((q, j) => freeIndex.set(q.name, j));
-  const guessed = new Set(input.guessed.names);
-  const parameters = fit.parameters.map((q) => {
-    const j = freeIndex.get(q.name);
-    if (j === undefined) {
-      const v = q.initial ?? NaN;
-      return parameterRow(q, { estimate: v, stderr: NaN, lower: NaN, upper: NaN, initial: v, guessed: false, atBound: null });
-    }
-    return parameterRow(q, {
-      estimate: theta[j], stderr: NaN, lower: NaN, upper: NaN, initial: input.start[j], guessed: guessed.has(q.name),
-      atBound: boundHit(theta[j], input.lower[j], input.upper[j]),
-    });
-  });
+  const parameters = parameterRows(input, theta, () => ({ stderr: NaN, lower: NaN, upper: NaN }));
   const P = fit.parameters.length;
   const nan = () => Array.from({ length: P }, () => new Array<number>(P).fill(NaN));
   const free = fit.parameters.filter((q) => !q.fixed).map((q, j) => ({ name: q.name, estimate: theta[j], lower: input.lower[j], upper: input.upper[j] }));
@@ -244,18 +204,7 @@ function withheld(input: FitStatisticsInput, r: Float64Array): { fields: StatFie
       correlation: nan(),
       goodness,
       residuals: none,
-      points: {
-        row: toNumberArray(data.lines),
-        x: data.x ? toNumberArray(data.x) : null,
-        y: toNumberArray(data.y),
-        fitted: toNumberArray(fitted),
-        residual: numberArrayOf(n, (i) => data.y[i] - fitted[i]),
-        standardized: missing,
-        studentized: missing.slice(),
-        leverage: missing.slice(),
-        cooksDistance: missing.slice(),
-        weight: data.weights ? toNumberArray(data.weights) : null,
-      },
+      points: pointTable(data, fitted, { standardized: missing, studentized: missing, leverage: missing, cooksDistance: missing }),
       bands: null,
       predictor: data.predictor,
       response: exprText(fit.blocks[0].response),
@@ -263,5 +212,43 @@ function withheld(input: FitStatisticsInput, r: Float64Array): { fields: StatFie
       rowsDropped: data.rowsDropped,
     },
     warnings,
+  };
+}
+
+/** The parameter rows of a result: free parameters with their interval (`intervalOf(j)`), fixed ones at their value. */
+function parameterRows(input: FitStatisticsInput, theta: Float64Array, intervalOf: (j: number) => { stderr: number; lower: number; upper: number }): FitResult['parameters'] {
+  const { fit } = input;
+  const freeIndex = new Map<string, number>();
+  fit.parameters.filter((q) => !q.fixed).forEach((q, j) => freeIndex.set(q.name, j));
+  const guessed = new Set(input.guessed.names);
+  return fit.parameters.map((q) => {
+    const j = freeIndex.get(q.name);
+    if (j === undefined) {
+      const v = q.initial ?? NaN;
+      return parameterRow(q, { estimate: v, stderr: NaN, lower: NaN, upper: NaN, initial: v, guessed: false, atBound: null });
+    }
+    return parameterRow(q, {
+      estimate: theta[j],
+      ...intervalOf(j),
+      initial: input.start[j],
+      guessed: guessed.has(q.name),
+      atBound: boundHit(theta[j], input.lower[j], input.upper[j]),
+    });
+  });
+}
+
+/** The per-point table: data, fitted values and residuals, and the influence columns given. */
+function pointTable(data: FitData, fitted: Float64Array, inf: { standardized: ArrayLike<number>; studentized: ArrayLike<number>; leverage: ArrayLike<number>; cooksDistance: ArrayLike<number> }): FitResult['points'] {
+  return {
+    row: toNumberArray(data.lines),
+    x: data.x ? toNumberArray(data.x) : null,
+    y: toNumberArray(data.y),
+    fitted: toNumberArray(fitted),
+    residual: numberArrayOf(data.n, (i) => data.y[i] - fitted[i]),
+    standardized: toNumberArray(inf.standardized),
+    studentized: toNumberArray(inf.studentized),
+    leverage: toNumberArray(inf.leverage),
+    cooksDistance: toNumberArray(inf.cooksDistance),
+    weight: data.weights ? toNumberArray(data.weights) : null,
   };
 }

@@ -46,16 +46,16 @@
  * last digits unless `polish: false`.
  */
 import type { LeastSquaresProblem } from './problem';
-import { type SolveOptions, type SolveOutcome, type NonFiniteReport, DEFAULT_TOLERANCE, stopReason, allFinite, nonFiniteReport } from './types';
+import { type SolveOptions, type SolveOutcome, type NonFiniteReport, allFinite, nonFiniteReport } from './types';
 import type { StopCode } from '../result';
 import { PivotedQR } from '../linalg/qr';
 import { copyR } from '../linalg/damped';
 import { norm2, EPSILON } from '../linalg/norm';
 import { LMParameter } from './lm-parameter';
 import { project, freeSet } from './bounds';
-import { polishGaussNewton } from './polish';
+import { finishSolve } from './finish';
 import { stopText } from './messages';
-import { validateSolveOptions } from './options';
+import { trustRegionSettings, validateSolveOptions } from './options';
 import { DEAD_GRADIENT, LM_STAGNATION, StagnationWatch } from './stagnation';
 import { TraceRecorder, finiteOrNull } from './trace';
 
@@ -66,11 +66,7 @@ const ACCEPT_RATIO = 1e-4;
 
 export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64Array, options: SolveOptions = {}): SolveOutcome {
   const { n, p, lower, upper } = problem;
-  const ftol = options.reductionTolerance ?? DEFAULT_TOLERANCE;
-  const xtol = options.stepTolerance ?? DEFAULT_TOLERANCE;
-  const gtol = options.gradientTolerance ?? DEFAULT_TOLERANCE;
-  const maxIter = options.maxIterations ?? 1000;
-  const maxFev = options.maxEvaluations ?? Math.max(2000, 2 * maxIter, 100 * (p + 1));
+  const { ftol, xtol, gtol, maxIter, maxFev } = trustRegionSettings(options, p);
 
   const x = Float64Array.from(theta0);
   project(x, lower, upper);
@@ -85,34 +81,10 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
   let lastNonFinite: NonFiniteReport | null = null;
   /** A trial step was evaluated (a non-finite stop is then not about the starting values). */
   let started = false;
-  const finish = (code: StopCode, message: string, jacobianCurrent: boolean): SolveOutcome => {
-    if (!jacobianCurrent && n > 0 && p > 0 && code !== 'non_finite') {
-      problem.jacobian(x, jac);
-      njev++;
-    }
-    const stop = stopReason(code, message);
-    if ((code === 'small_step' || (code === 'non_finite' && started)) && iterations === 0) {
-      // Every trial step from the start was rejected until the trust region
-      // collapsed: the point never moved, so this is not evidence of an optimum.
-      stop.converged = false;
-      stop.message += stopText.noStepAccepted;
-    }
-    if (stop.converged && options.polish !== false) {
-      // Workspace shared with polishing (its QR buffer and two n-vectors), so no
-      // further n×p array is allocated for it.
-      const c = polishGaussNewton(problem, { x, r, jac }, 30, qr !== null ? { qr, b: wa, rt } : undefined);
-      nfev += c.evaluations;
-      njev += c.jacobianEvaluations;
-      if (c.steps > 0) stop.message += stopText.polished(c.steps);
-    }
-    let ss = 0;
-    for (let i = 0; i < n; i++) ss += r[i] * r[i];
-    return {
-      theta: x, residuals: r, jacobian: jac, cost: 0.5 * ss, stop, iterations, evaluations: nfev, jacobianEvaluations: njev,
-      ...(recorder ? { trace: recorder.result() } : {}),
-      ...(code === 'non_finite' && nonFinite ? { nonFinite } : {}),
-    };
-  };
+  const finish = (code: StopCode, message: string, jacobianCurrent: boolean): SolveOutcome => finishSolve(code, message, {
+    problem, x, r, jac, jacobianCurrent, iterations, evaluations: nfev, jacobianEvaluations: njev, started,
+    polish: options.polish !== false, strictInterior: false, workspace: qr !== null ? { qr, b: wa, rt } : undefined, recorder, nonFinite,
+  });
   // Work arrays, allocated once (qr, wa, rt before the first `finish` that may polish).
   let qr: PivotedQR | null = null;
   const wa = new Float64Array(n);

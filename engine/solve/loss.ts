@@ -23,7 +23,8 @@
  * |Δθⱼ|/(|θⱼ| + 1e-10) is ≤ √τ;
  * a non-converged inner LM stop ends the iteration with that stop.
  * The outcome's residuals and Jacobian are the unweighted ones at the final
- * θ, `robustWeights` the final wᵢ and `cost` the robust cost.
+ * θ, `robustWeights` the final wᵢ and `cost` the robust cost; with a trace
+ * asked for, `trace` is that of the last reweighted solve.
  */
 import type { LossKind } from '../../parser/plan';
 import type { LeastSquaresProblem } from './problem';

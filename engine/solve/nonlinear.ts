@@ -5,11 +5,12 @@
  * 'projection'` selects Levenberg–Marquardt's projection with an active set
  * instead (kept for comparison: test/robustness, test/strd, test/bench).
  *
- * The choice is measured (README "Accuracy", robustness table): with
- * bounds, the reflective method has fewer failures and wrong minima on the
- * robustness suite and matches the projection on NIST StRD with bounds;
- * without bounds both reduce to the same Levenberg–Marquardt step, and
- * Moré's implementation stays the unbounded path.
+ * The choice is measured (README "Accuracy"; figures in `reflective.ts`):
+ * with bounds, the reflective method has 0 failures on the 12,000-curve
+ * robustness suite against 2,156 for projection, and reaches the certified
+ * minimum on 53 of 54 NIST StRD runs with sign bounds against 50; without
+ * bounds Levenberg–Marquardt keeps all 54 NIST runs at ≥ 9.9 digits where
+ * the reflective method has 53, so it stays the unbounded path.
  */
 import type { LeastSquaresProblem } from './problem';
 import type { SolveOptions, SolveOutcome } from './types';

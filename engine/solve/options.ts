@@ -9,7 +9,7 @@
  *   learningRate: finite and > 0.
  */
 import type { SolveOptions } from './types';
-import { fmt } from './types';
+import { DEFAULT_TOLERANCE, fmt } from './types';
 
 export interface CheckedOptions extends SolveOptions {
   learningRate?: number;
@@ -38,4 +38,16 @@ export function validateSolveOptions(o: CheckedOptions): string | null {
     return `the ${LABELS.learningRate} must be a positive finite number (got ${fmt(o.learningRate)})`;
   }
   return null;
+}
+
+/** Tolerances and limits of the trust-region solvers (Levenberg–Marquardt, reflective) with their defaults (documented in lm.ts). */
+export function trustRegionSettings(o: SolveOptions, p: number): { ftol: number; xtol: number; gtol: number; maxIter: number; maxFev: number } {
+  const maxIter = o.maxIterations ?? 1000;
+  return {
+    ftol: o.reductionTolerance ?? DEFAULT_TOLERANCE,
+    xtol: o.stepTolerance ?? DEFAULT_TOLERANCE,
+    gtol: o.gradientTolerance ?? DEFAULT_TOLERANCE,
+    maxIter,
+    maxFev: o.maxEvaluations ?? Math.max(2000, 2 * maxIter, 100 * (p + 1)),
+  };
 }
