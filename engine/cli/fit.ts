@@ -1,5 +1,5 @@
 /**
- * `leastwise fit FILE.lsq [--fit NAME] [--json PATH|-] [--report PATH.md] [--charts DIR] [--groups PATH.csv] [--threads N] [--quiet]`
+ * `leastwise fit FILE.lsq [--fit NAME] [--json PATH|-] [--report PATH.md] [--charts DIR] [--groups PATH.csv] [--threads N] [--quiet] [--trace]`
  *
  * Checks the spec (data-aware), runs it, prints the summary (or only JSON with
  * `--json -`), writes the requested files and maps the outcome to an exit
@@ -37,6 +37,7 @@ interface FitValues {
   quiet?: boolean;
   threads?: string;
   groups?: string;
+  trace?: boolean;
 }
 
 /** The exit code a finished run deserves. */
@@ -71,6 +72,7 @@ export async function fitCommand(argv: string[], io: CliIo): Promise<ExitCode> {
     quiet: { type: 'boolean' },
     threads: { type: 'string' },
     groups: { type: 'string' },
+    trace: { type: 'boolean' },
   });
   const fail = (line: string): ExitCode => {
     io.stderr(line + '\n');
@@ -126,6 +128,7 @@ export async function fitCommand(argv: string[], io: CliIo): Promise<ExitCode> {
       specPath: spec.display,
       ...(opts.fit?.length ? { fits: opts.fit } : {}),
       ...(threads !== undefined ? { threads } : {}),
+      ...(opts.trace ? { trace: true } : {}),
       // with --threads, say how the groups were fitted (on stderr, after the run)
       ...(threads !== undefined && !opts.quiet ? { onGroupMode: (fit: string, mode: RunMode) => modes.push(MSG.groupMode(fit, mode)) } : {}),
       onProgress: (p) => progress.update(MSG.progress(p.group !== undefined ? `${p.fit} [${p.group}]` : p.fit, p.done, p.total)),

@@ -62,6 +62,9 @@ Options:
                    1 fits every group in this thread
   --quiet          print no summary; problems and failed expectations still
                    go to stderr
+  --trace          record each solver's per-iteration trace (cost, gradient,
+                   step, trust radius, reduction ratio) in the summary and
+                   the JSON; per-group fits then run in this thread
   -h, --help       show this help
 
 A per-group fit prints its group table, the median and IQR of each parameter

@@ -87,6 +87,8 @@ export interface RunOptions {
   workerFile?: string | null;
   /** Told how the groups of each per-group fit are fitted (`runPlan` only): on worker threads, or in this thread and why. */
   onGroupMode?: (fit: string, mode: RunMode) => void;
+  /** Record each fit's per-iteration solver trace in its result (`FitResult.trace`); the groups of per-group fits are then fitted in this thread. Default false. */
+  trace?: boolean;
 }
 
 /** Asks the driver of `steps` to fit a fit's groups; it answers with their results, or undefined to let `steps` fit them in order. */
@@ -160,7 +162,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
       const watch = onIteration
         ? { onIteration: (iteration: number, cost: number) => onIteration({ fit: fit.name, ...(data.group !== undefined ? { group: data.group } : {}), iteration, cost }) }
         : {};
-      results.get(fit.name)!.push(runFit(fit, data, { cancel: opts.cancel, solvers: opts.solvers, ...watch }));
+      results.get(fit.name)!.push(runFit(fit, data, { cancel: opts.cancel, solvers: opts.solvers, ...watch, ...(opts.trace ? { trace: true } : {}) }));
       opts.onProgress?.({ fit: fit.name, ...(data.group !== undefined ? { group: data.group } : {}), done: ++done, total });
       yield;
     }

@@ -8,10 +8,18 @@
  * fitted when the model has no single predictor), residuals against the
  * predictor, residuals against fitted values, normal Q-Q plot of standardized
  * residuals, histogram of standardized residuals.
+ *
+ * A fit that did not converge (summary.ts `fitStatus`) gets the data chart
+ * without any curve, titled "not fitted", and, when the solver moved, the
+ * residual charts titled "at the last iterate (not a fitted result)"; no Q-Q
+ * plot or histogram (its standardized residuals are withheld). The x axis
+ * (linear or logarithmic) is chosen from the data alone, so a fit and the
+ * same fit failed draw the same axes.
  */
 import type { TopLevelSpec } from 'vega-lite';
 import type { FitResult } from '../result';
 import { bandRows, excludedRows, histogramRows, pointRows, prefersLogX, qqRows, type PointRow, type Thinned } from './chart-data';
+import { fitStatus } from './summary';
 import { MAX_MARKS } from './downsample';
 import { formatLevel } from './format';
 import { FONT, PALETTE, type Palette } from './palette';
@@ -96,10 +104,11 @@ function fitChart(fit: FitResult, o: ChartContext): ChartSpec | null {
   if (!fit.points.x || !fit.predictor) return null;
   const pal = o.palette;
   const pts = o.points('x');
-  const bands = bandRows(fit);
+  const fitted = fitStatus(fit) === 'fitted';
+  const bands = fitted ? bandRows(fit) : [];
   const xName = fit.predictor;
   const level = formatLevel(fit.level);
-  const xScale = prefersLogX(pts.rows, bands) ? { type: 'log' } : { zero: false };
+  const xScale = prefersLogX(pts.rows, []) ? { type: 'log' } : { zero: false };
   const xEnc = { field: 'x', type: 'quantitative', title: xName, scale: xScale };
   const yTitle = fit.response;
   const layers: Json[] = [];
@@ -119,7 +128,7 @@ function fitChart(fit: FitResult, o: ChartContext): ChartSpec | null {
       mark: { type: 'line', color: pal.curve, strokeWidth: 2 },
       encoding: { x: xEnc, y: { field: 'fitted', type: 'quantitative' }, order: { field: 'x', type: 'quantitative' } },
     });
-  } else {
+  } else if (fitted) {
     const curve = [...pts.rows].sort((a, b) => (a.x as number) - (b.x as number));
     layers.push({
       name: 'fitted_curve', data: { values: curve },
@@ -144,11 +153,13 @@ function fitChart(fit: FitResult, o: ChartContext): ChartSpec | null {
       encoding: { x: xEnc, y: { field: 'y', type: 'quantitative' }, tooltip: [rowTip, { field: 'x', type: 'quantitative', title: xName, format: NUM }, { field: 'y', type: 'quantitative', title: yTitle, format: NUM }] },
     });
   }
-  const subtitle = bands.length
-    ? [`Points: data. Line: fitted curve. Dark shade: ${level} confidence band; light shade: ${level} prediction band.`]
-    : ['Points: data. Line: fitted values.'];
+  const subtitle = !fitted
+    ? ['Points: data. No curve: the fit did not converge, so there is no fitted curve to draw.']
+    : bands.length
+      ? [`Points: data. Line: fitted curve. Dark shade: ${level} confidence band; light shade: ${level} prediction band.`]
+      : ['Points: data. Line: fitted values.'];
   if (left.length) subtitle.push(`Hollow points: ${left.length} row${left.length === 1 ? '' : 's'} left out of the fit (weight 0).`);
-  const title = `${fit.name}${groupSuffix(fit)}: data and fitted curve`;
+  const title = fitted ? `${fit.name}${groupSuffix(fit)}: data and fitted curve` : `${fit.name}${groupSuffix(fit)}: data (not fitted)`;
   return { id: 'fit', title, spec: top(pal, title, [...subtitle, ...thinNote(pts)], o.width, o.height, { layer: layers }) };
 }
 
@@ -173,8 +184,10 @@ function observedFittedChart(fit: FitResult, o: ChartContext): ChartSpec {
         [{ field: 'y', type: 'quantitative', title: 'observed', format: NUM }, { field: 'fitted', type: 'quantitative', title: 'fitted', format: NUM }]),
     },
   ];
-  const title = `${fit.name}${groupSuffix(fit)}: observed against fitted`;
-  return { id: 'observed-fitted', title, spec: top(pal, title, ['Points on the dashed line are fitted exactly.', ...thinNote(pts)], o.width, o.height, { layer: layers }) };
+  const fitted = fitStatus(fit) === 'fitted';
+  const title = fitted ? `${fit.name}${groupSuffix(fit)}: observed against fitted` : `${fit.name}${groupSuffix(fit)}: observed against the last iterate (not a fitted result)`;
+  const hint = fitted ? 'Points on the dashed line are fitted exactly.' : 'The fit did not converge: the horizontal axis holds the model where the solver stopped.';
+  return { id: 'observed-fitted', title, spec: top(pal, title, [hint, ...thinNote(pts)], o.width, o.height, { layer: layers }) };
 }
 
 /** (b) and (c) Residuals against the predictor or against fitted values. */
@@ -196,8 +209,11 @@ function residualChart(fit: FitResult, o: ChartContext, against: 'x' | 'fitted')
     },
   ];
   const id: ChartId = against === 'x' ? 'residuals-predictor' : 'residuals-fitted';
-  const title = `${fit.name}${groupSuffix(fit)}: residuals against ${xTitle}`;
-  const hint = 'A pattern (curve, funnel, runs) suggests the model or the weights miss something.';
+  const fitted = fitStatus(fit) === 'fitted';
+  const title = `${fit.name}${groupSuffix(fit)}: residuals against ${xTitle}${fitted ? '' : ' at the last iterate (not a fitted result)'}`;
+  const hint = fitted
+    ? 'A pattern (curve, funnel, runs) suggests the model or the weights miss something.'
+    : 'The fit did not converge: these are the residuals where the solver stopped, not those of a fitted model.';
   return { id, title, spec: top(pal, title, [hint, ...thinNote(pts)], o.width, Math.round(o.height * 0.6), { layer: layers }) };
 }
 
@@ -265,13 +281,12 @@ export function chartSpecs(fit: FitResult, opts: ChartOptions = {}): ChartSpec[]
       return t;
     },
   };
-  const out: (ChartSpec | null)[] = [
-    fitChart(fit, o) ?? observedFittedChart(fit, o),
-    residualChart(fit, o, 'x'),
-    residualChart(fit, o, 'fitted'),
-    qqChart(fit, o),
-    histogramChart(fit, o),
-  ];
+  const status = fitStatus(fit);
+  const out: (ChartSpec | null)[] = status === 'fitted'
+    ? [fitChart(fit, o) ?? observedFittedChart(fit, o), residualChart(fit, o, 'x'), residualChart(fit, o, 'fitted'), qqChart(fit, o), histogramChart(fit, o)]
+    : status === 'last_iterate'
+      ? [fitChart(fit, o) ?? observedFittedChart(fit, o), residualChart(fit, o, 'x'), residualChart(fit, o, 'fitted')]
+      : [fitChart(fit, o)];
   return out.filter((c): c is ChartSpec => c !== null);
 }
 

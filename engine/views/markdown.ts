@@ -9,7 +9,7 @@ import type { FitResult, RunResult } from '../result';
 import { formatLevel, formatNumber } from './format';
 import {
   derivedBlock, derivedLabel, expectationRows, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL,
-  PARAMETER_HEADERS, parameterRows, queryBlocks, stopLine, warningLines,
+  notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, stopLine, warningLines,
 } from './summary';
 import { markdownTable, mdCell } from './table';
 import {
@@ -87,7 +87,9 @@ function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: n
 
 function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
   const lines = [`## ${fitHeading(fit)}`, '', stopLine(fit) + '.', ''];
-  lines.push(`Confidence level ${formatLevel(fit.level)}; intervals use Student's t with ${fit.goodness.dof} degrees of freedom.`, '');
+  const marked = notFittedNote(fit);
+  if (marked) lines.push(`> **${mdCell(marked)}**`, '');
+  else lines.push(`Confidence level ${formatLevel(fit.level)}; intervals use Student's t with ${fit.goodness.dof} degrees of freedom.`, '');
   lines.push(...markdownTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']), '');
   lines.push('### Goodness of fit', '');
   lines.push(...markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left']), '');

@@ -19,10 +19,41 @@ export const LOSS_LABEL: Record<FitResult['loss'], string> = {
   cauchy: 'Cauchy loss',
 };
 
+/**
+ * How far a fit's numbers can be read as a result: `fitted` (the solver
+ * converged), `last_iterate` (it stopped without converging: the values are
+ * where it stopped), `not_fitted` (no step was taken: the values are the
+ * starting values). The engine withholds every statistic of the last two
+ * (engine/run/fit-stats.ts); the views say so wherever they show the fit.
+ */
+export type FitStatus = 'fitted' | 'last_iterate' | 'not_fitted';
+
+export function fitStatus(fit: FitResult): FitStatus {
+  if (fit.stop.converged) return 'fitted';
+  return fit.iterations > 0 ? 'last_iterate' : 'not_fitted';
+}
+
+/** The marking of a fit that is not a result (null for a fitted one), shared by the CLI, the report and the panel. */
+export function notFittedNote(fit: FitResult): string | null {
+  switch (fitStatus(fit)) {
+    case 'fitted': return null;
+    case 'last_iterate':
+      return 'Not a fitted result: the values shown are where the solver stopped (its last iterate), not a least-squares solution. Standard errors, intervals, goodness of fit and residual checks are withheld, and no fitted curve is drawn.';
+    case 'not_fitted':
+      return 'Nothing was fitted: the values shown are the starting values. Standard errors, intervals, goodness of fit and residual checks are withheld, and no fitted curve is drawn.';
+  }
+}
+
 /** `newton` or `newton [batch=B]` for per-group fits. */
 export function fitLabel(fit: FitResult): string {
   return fit.group !== undefined ? `${fit.name} [${fit.group}]` : fit.name;
 }
+
+/** How the bounds of a Levenberg–Marquardt fit were handled (engine/solve/nonlinear.ts). */
+export const BOUNDS_LABEL: Record<NonNullable<FitResult['boundsMethod']>, string> = {
+  reflective: 'interior reflective bounds',
+  projection: 'projected bounds',
+};
 
 export function fitHeading(fit: FitResult): string {
   return `Fit ${fitLabel(fit)}: ${fit.response} against ${fit.predictor ?? 'its columns'} (${METHOD_LABEL[fit.method]}, ${LOSS_LABEL[fit.loss]})`;
@@ -31,7 +62,8 @@ export function fitHeading(fit: FitResult): string {
 /** One sentence on how and why the solver stopped. */
 export function stopLine(fit: FitResult): string {
   const verdict = fit.stop.converged ? 'converged' : 'NOT converged';
-  const count = fit.iterations > 0 || fit.method !== 'linear' ? `; ${fit.iterations} iterations, ${fit.evaluations} evaluations` : '';
+  const bounds = fit.boundsMethod ? `, ${BOUNDS_LABEL[fit.boundsMethod]}` : '';
+  const count = fit.iterations > 0 || fit.method !== 'linear' ? `; ${fit.iterations} iterations, ${fit.evaluations} evaluations${bounds}` : '';
   return `Stopped: ${verdict} (${fit.stop.code}: ${fit.stop.message}${count})`;
 }
 
@@ -39,10 +71,13 @@ export const PARAMETER_HEADERS = (level: number): string[] => ['parameter', 'est
 
 /** Rows of the parameter table: name, estimate, SE, interval ends, unit, note. */
 export function parameterRows(fit: FitResult): string[][] {
+  const status = fitStatus(fit);
   return fit.parameters.map((p) => {
     const f = formatEstimate(p.estimate, p.fixed ? null : p.stderr, p.fixed ? null : p.lower, p.fixed ? null : p.upper);
     const notes: string[] = [];
     if (p.fixed) notes.push('fixed');
+    else if (status === 'last_iterate') notes.push('last iterate, not fitted');
+    else if (status === 'not_fitted') notes.push('starting value, not fitted');
     if (p.atBound) notes.push(`at ${p.atBound} bound`);
     if (!p.fixed && isUsable(p.relativeStderr) && p.relativeStderr > 0.5) notes.push(`poorly determined (SE ${formatNumber(p.relativeStderr * 100, 2)}% of estimate)`);
     return [p.name, f.estimate, p.fixed ? 'fixed' : f.stderr, p.fixed ? '' : f.lower, p.fixed ? '' : f.upper, p.unit ?? '', notes.join('; ')];
@@ -55,9 +90,20 @@ export interface Entry {
   note?: string;
 }
 
-/** Goodness-of-fit entries in reading order. */
+/** Goodness-of-fit entries in reading order; for a fit that is not a result only the counts and the SSR where it stopped. */
 export function goodnessEntries(fit: FitResult): Entry[] {
   const g = fit.goodness;
+  const status = fitStatus(fit);
+  if (status !== 'fitted') {
+    const out: Entry[] = [
+      { label: 'points (n)', value: formatInteger(g.n), note: fit.rowsDropped > 0 ? `${fit.rowsDropped} rows dropped` : undefined },
+      { label: 'free parameters (p)', value: formatInteger(g.p) },
+      { label: 'degrees of freedom', value: formatInteger(g.dof) },
+    ];
+    if (status === 'last_iterate' && isUsable(g.ssr)) out.push({ label: 'SSR at the last iterate', value: formatNumber(g.ssr, 6), note: 'where the solver stopped, not a minimum' });
+    out.push({ label: 'R², RMSE, AIC and the rest', value: 'withheld', note: status === 'last_iterate' ? 'the fit did not converge' : 'nothing was fitted' });
+    return out;
+  }
   const e: Entry[] = [
     { label: 'points (n)', value: formatInteger(g.n), note: fit.rowsDropped > 0 ? `${fit.rowsDropped} rows dropped` : undefined },
     { label: 'free parameters (p)', value: formatInteger(g.p) },
@@ -86,6 +132,28 @@ export function goodnessEntries(fit: FitResult): Entry[] {
  */
 export function warningLines(fit: FitResult): string[] {
   return fit.warnings.filter((w) => w.code !== 'r2_nonlinear').map((w) => `${w.message}${w.parameters?.length ? ` (${w.parameters.join(', ')})` : ''} [${w.code}]`);
+}
+
+/** Column labels of the solver trace table (`traceRows`). */
+export const TRACE_HEADERS = ['iteration', 'cost', 'trial cost', 'gradient', 'step', 'radius', 'ratio', 'accepted', 'step kind', 'bounds met'];
+
+/** Rows of the per-iteration trace (fit --trace), or none. */
+export function traceRows(fit: FitResult): string[][] {
+  if (!fit.trace) return [];
+  const n = (v: number | null, sig = 4) => formatNumber(v, sig);
+  return fit.trace.records.map((r) => [
+    formatInteger(r.iteration), n(r.cost, 10), n(r.trialCost, 10), n(r.gradient, 3), n(r.step, 3), n(r.radius, 3), n(r.ratio, 3),
+    r.accepted ? 'yes' : 'no', r.kind ? `${r.kind}${r.stepBack !== null && r.stepBack !== undefined ? ` (step back ${formatNumber(r.stepBack, 6)})` : ''}` : '', (r.bounds ?? []).join(', '),
+  ]);
+}
+
+/** The trace's heading line: solver, records shown and left out. */
+export function traceHeading(fit: FitResult): string | null {
+  const t = fit.trace;
+  if (!t) return null;
+  const solver = { levenberg_marquardt: 'Levenberg–Marquardt', reflective_trust_region: 'interior reflective trust region', gradient_descent: 'gradient descent' }[t.solver];
+  const omitted = t.omitted > 0 ? `; ${t.omitted} in the middle left out` : '';
+  return `Solver trace (${solver}): ${t.records.length} trial steps${omitted}. Cost ½‖r‖²; gradient: the scaled measure of the stop test; step: scaled length; ratio: actual over predicted reduction.`;
 }
 
 export interface QueryBlock {

@@ -7,8 +7,8 @@
  */
 import type { FitResult, RunResult } from '../result';
 import {
-  derivedBlock, expectationRows, expectationTally, fitHeading, goodnessEntries, PARAMETER_HEADERS,
-  parameterRows, queryBlocks, stopLine, warningLines,
+  derivedBlock, expectationRows, expectationTally, fitHeading, goodnessEntries, notFittedNote, PARAMETER_HEADERS,
+  parameterRows, queryBlocks, stopLine, TRACE_HEADERS, traceHeading, traceRows, warningLines,
 } from './summary';
 import { textTable } from './table';
 import {
@@ -17,7 +17,10 @@ import {
 
 /** The summary of one fit, as lines. */
 export function fitTextLines(fit: FitResult): string[] {
-  const lines: string[] = [fitHeading(fit), `  ${stopLine(fit)}`, ''];
+  const lines: string[] = [fitHeading(fit), `  ${stopLine(fit)}`];
+  const marked = notFittedNote(fit);
+  if (marked) lines.push(`  ! ${marked}`);
+  lines.push('');
   lines.push(...textTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']));
   lines.push('', '  Goodness of fit');
   const entries = goodnessEntries(fit);
@@ -31,6 +34,10 @@ export function fitTextLines(fit: FitResult): string[] {
   if (warnings.length) {
     lines.push('', '  Warnings');
     for (const wline of warnings) lines.push(`    ! ${wline}`);
+  }
+  const trace = traceHeading(fit);
+  if (trace) {
+    lines.push('', `  ${trace}`, ...textTable(TRACE_HEADERS, traceRows(fit), ['right', 'right', 'right', 'right', 'right', 'right', 'right', 'left', 'left', 'left'], '    '));
   }
   return lines;
 }

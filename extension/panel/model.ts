@@ -15,7 +15,7 @@
  */
 import type { FitResult, RunResult } from '../../engine/result';
 import { chartSpecs, type ChartSpec } from '../../engine/views/charts';
-import { derivedBlock, goodnessEntries, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/views/summary';
+import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/views/summary';
 import { buildGroupTable, worstGroups } from '../../engine/group/table';
 import type { GroupFlag } from '../../engine/group/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/views/groups';
@@ -40,6 +40,8 @@ export interface PanelFit {
   heading: string;
   stop: string;
   converged: boolean;
+  /** The marking of a fit that is not a result (engine/views/summary.ts `notFittedNote`), shown as a banner; null when fitted. */
+  notFitted: string | null;
   parameterHeaders: string[];
   /** Formatted rows; column 0 is the parameter name. */
   parameterRows: string[][];
@@ -165,6 +167,7 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     heading: fitHeading(f),
     stop: stopLine(f),
     converged: f.stop.converged,
+    notFitted: notFittedNote(f),
     parameterHeaders: PARAMETER_HEADERS(f.level),
     parameterRows: parameterRows(f),
     flagged: f.parameters.filter((p) => p.atBound).map((p) => p.name),
@@ -188,11 +191,13 @@ export function chartsForKey(run: RunResult, key: string): PanelChart[] | null {
 
 function keyStats(f: FitResult): PanelFit['keyStats'] {
   const g = f.goodness;
-  const out: PanelFit['keyStats'] = [
+  const counts: PanelFit['keyStats'] = [
     { label: 'n', value: String(g.n), title: 'points used' },
     { label: 'dof', value: String(g.dof), title: 'degrees of freedom' },
-    { label: 'RMSE', value: formatNumber(g.rmse, 4), title: 'residual standard deviation' },
   ];
+  // a fit that is not a result shows no goodness-of-fit figures (the engine withholds them)
+  if (fitStatus(f) !== 'fitted') return [...counts, { label: 'fit', value: 'not fitted', title: notFittedNote(f) ?? '' }];
+  const out: PanelFit['keyStats'] = [...counts, { label: 'RMSE', value: formatNumber(g.rmse, 4), title: 'residual standard deviation' }];
   if (f.sigmaAbsolute) out.push({ label: 'χ²/ν', value: formatNumber(g.chi2Reduced, 4), title: 'reduced chi-square (near 1 when σ matches the scatter)' });
   out.push({ label: 'R²', value: formatNumber(g.r2, 5), title: f.method === 'linear' ? 'coefficient of determination' : 'coefficient of determination (descriptive only for a nonlinear model)' });
   out.push({ label: 'AICc', value: formatNumber(g.aicc, 5), title: 'small-sample Akaike information criterion' });

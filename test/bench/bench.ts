@@ -3,7 +3,7 @@
  *
  *   node build.mjs && node dist/bench.js [--quick] [--json] [--markdown FILE] [--only 1,4,7]
  *
- * Prints one row per benchmark (1-14, see the cases/ modules) with the
+ * Prints one row per benchmark (1-15, see the cases/ modules) with the
  * headline figure, its spread over the runs (min-max), the goal and whether
  * it is met, after a line describing the machine and date. Comparisons are
  * measured side by side in one run and given as ratios. `--json` prints the
@@ -28,6 +28,7 @@ import { benchScaling } from './cases/scaling';
 import { benchMemory, isMemoryJob, memoryChild } from './cases/memory';
 import { benchPanelPaint } from './cases/panel-paint';
 import { benchJsonOutput, benchVersusCubic, benchVersusGroups, benchVersusLogistic } from './cases/versus-script';
+import { benchRobustness } from './cases/robustness';
 
 const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<BenchRow> }[] = [
   { id: 1, name: 'LM vs gradient descent', run: benchDescent },
@@ -40,10 +41,11 @@ const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<Ben
   { id: 8, name: 'Scaling in n and p', run: benchScaling },
   { id: 9, name: 'Peak memory', run: benchMemory },
   { id: 10, name: 'Results panel first paint', run: benchPanelPaint },
-  { id: 11, name: '4PL from CSV vs general-purpose script', run: benchVersusLogistic },
-  { id: 12, name: 'Cubic from CSV vs general-purpose script', run: benchVersusCubic },
-  { id: 13, name: '--json cost and peak memory', run: benchJsonOutput },
-  { id: 14, name: 'Per-group fits vs general-purpose loop', run: benchVersusGroups },
+  { id: 11, name: 'Robustness suite', run: benchRobustness },
+  { id: 12, name: '4PL from CSV vs general-purpose script', run: benchVersusLogistic },
+  { id: 13, name: 'Cubic from CSV vs general-purpose script', run: benchVersusCubic },
+  { id: 14, name: '--json cost and peak memory', run: benchJsonOutput },
+  { id: 15, name: 'Per-group fits vs general-purpose loop', run: benchVersusGroups },
 ];
 
 interface Args {
@@ -91,7 +93,7 @@ async function main(argv: string[]): Promise<number> {
       if (args.only && !args.only.has(c.id)) continue;
       ctx.log(`(${c.id}) ${c.name}...`);
       try {
-        rows.push(await c.run(ctx));
+        rows.push({ ...(await c.run(ctx)), id: c.id }); // the list above numbers the rows
       } catch (e) {
         rows.push(failedRow(c.id, c.name, e));
       }

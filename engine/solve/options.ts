@@ -1,0 +1,53 @@
+/**
+ * Up-front checks of the solver options, so that a bad value ends a fit at
+ * once with a message naming the option (as a `failed` stop), instead of a
+ * solver running with it. The spec checker (parser/check-options.ts) already
+ * refuses non-positive values; these rules add what the solvers need:
+ *   maxIterations, maxEvaluations: whole numbers ≥ 1;
+ *   reductionTolerance, stepTolerance, gradientTolerance: 0 ≤ tol < 1 (relative
+ *     tolerances; 0 turns a test off);
+ *   learningRate: finite and > 0.
+ */
+import type { SolveOptions } from './types';
+import { DEFAULT_TOLERANCE, fmt } from './types';
+
+export interface CheckedOptions extends SolveOptions {
+  learningRate?: number;
+}
+
+const LABELS: Record<string, string> = {
+  maxIterations: 'iteration limit',
+  maxEvaluations: 'evaluation limit',
+  reductionTolerance: 'reduction tolerance',
+  stepTolerance: 'step tolerance',
+  gradientTolerance: 'gradient tolerance',
+  learningRate: 'learning rate',
+};
+
+/** Null when the options are usable, else the message for a `failed` stop. */
+export function validateSolveOptions(o: CheckedOptions): string | null {
+  for (const key of ['maxIterations', 'maxEvaluations'] as const) {
+    const v = o[key];
+    if (v !== undefined && !(Number.isInteger(v) && v >= 1)) return `the ${LABELS[key]} must be a whole number of at least 1 (got ${fmt(v)})`;
+  }
+  for (const key of ['reductionTolerance', 'stepTolerance', 'gradientTolerance'] as const) {
+    const v = o[key];
+    if (v !== undefined && !(v >= 0 && v < 1)) return `the ${LABELS[key]} must be at least 0 and below 1: it is relative (got ${fmt(v)})`;
+  }
+  if (o.learningRate !== undefined && !(o.learningRate > 0 && Number.isFinite(o.learningRate))) {
+    return `the ${LABELS.learningRate} must be a positive finite number (got ${fmt(o.learningRate)})`;
+  }
+  return null;
+}
+
+/** Tolerances and limits of the trust-region solvers (Levenberg–Marquardt, reflective) with their defaults (documented in lm.ts). */
+export function trustRegionSettings(o: SolveOptions, p: number): { ftol: number; xtol: number; gtol: number; maxIter: number; maxFev: number } {
+  const maxIter = o.maxIterations ?? 1000;
+  return {
+    ftol: o.reductionTolerance ?? DEFAULT_TOLERANCE,
+    xtol: o.stepTolerance ?? DEFAULT_TOLERANCE,
+    gtol: o.gradientTolerance ?? DEFAULT_TOLERANCE,
+    maxIter,
+    maxFev: o.maxEvaluations ?? Math.max(2000, 2 * maxIter, 100 * (p + 1)),
+  };
+}
