@@ -10,13 +10,23 @@
  * from the clamped point (reported as levenberg_marquardt). A robust loss
  * first solves the squared-loss problem, then hands that estimate to the
  * robust solver.
+ *
+ * Starting values (engine/solve/start): parameters without `= value` get a
+ * data-driven start. The multi-start search (explore.ts) runs for
+ * Levenberg–Marquardt fits when the spec asks for it (`explore N`, N > 0),
+ * or by default when a nonlinear free parameter has no start value and the
+ * fit is not one group of a per-group fit (`explore 0` switches it off). Its
+ * lowest converged minimum is the fit reported; when that is lower than the
+ * one reached from the starting values, the stop message says so and a
+ * `lower_minimum` warning names both sums of squares. A robust loss then
+ * starts from the search's result.
  */
 import type { FitPlan, LossKind } from '../../parser/plan';
 import { compileModel, isLinearInParameters, type CompiledModel } from '../compile';
-import type { FitResult, FitWarning, StopReason } from '../result';
+import type { FitResult, FitWarning, SearchResult, StopReason } from '../result';
 import { modelProblem, type CancelToken, type SolveOutcome } from '../solve';
-import { guessStart } from '../start';
-import { errorText, warningText } from '../messages';
+import { defaultPoints, explore, guessStart, isLower, linearSet, type ExploreOutcome, type StartInput } from '../solve/start';
+import { errorText, searchText, warningText } from '../messages';
 import type { FitData } from './fit-data';
 import { failedFit } from './fit-result';
 import { holdParams } from './expr';
@@ -32,6 +42,14 @@ export interface RunFitOptions {
   clock?: () => number;
   /** Called after each accepted iteration of an iterative solver with the objective (½‖r‖², robust: ½Σc²ρ). */
   onIteration?: (iteration: number, cost: number) => void;
+  /**
+   * Starting values to use instead of the spec's (free parameters, in
+   * declaration order); entries that are NaN are guessed. Per-group retries
+   * (engine/parallel/group-job.ts) use it.
+   */
+  startOverride?: Float64Array;
+  /** Search even a group of a per-group fit (when a nonlinear parameter has no start or `explore` asks). Default false for groups. */
+  searchGroup?: boolean;
 }
 
 const failedStop = (message: string): StopReason => ({ code: 'failed', message, converged: false });
@@ -61,7 +79,9 @@ export function runFit(fit: FitPlan, data: FitData, options: RunFitOptions = {})
   }
 }
 
-function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Pick<RunFitOptions, 'cancel' | 'onIteration'>, groupWarnings: FitWarning[], elapsed: () => number): FitResult {
+type Watch = Pick<RunFitOptions, 'cancel' | 'onIteration' | 'startOverride' | 'searchGroup'>;
+
+function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, groupWarnings: FitWarning[], elapsed: () => number): FitResult {
   const { expr, free } = freeModel(fit);
   const freePlans = fit.parameters.filter((p) => !p.fixed);
   const n = data.n;
@@ -70,20 +90,43 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Pick<RunF
   const upper = Float64Array.from(freePlans, (q) => q.upper ?? Infinity);
   const sqrtW = data.weights ? data.weights.map(Math.sqrt) : null;
 
-  const guess = guessStart({
+  const override = watch.startOverride;
+  const startInput: StartInput = {
     model,
     cols: data.columns,
     n,
     y: data.y,
     sqrtW,
-    parameters: freePlans.map((q, j) => ({ name: q.name, initial: q.initial, lower: lower[j], upper: upper[j] })),
+    parameters: freePlans.map((q, j) => {
+      const initial = override && Number.isFinite(override[j]) ? override[j] : override ? undefined : q.initial;
+      return { name: q.name, ...(initial !== undefined ? { initial } : {}), lower: lower[j], upper: upper[j] };
+    }),
     isLinearIn: (names) => isLinearInParameters(holdParams(expr, new Set(free.filter((f) => !names.includes(f)))), names),
-  });
+    structure: { expr, columns: data.modelColumns },
+  };
+  const guess = guessStart(startInput);
   const theta0 = guess.theta.map((v, j) => Math.min(upper[j], Math.max(lower[j], v)));
 
   const problem = modelProblem({ model, columns: data.columns, response: data.y, n, sqrtWeights: sqrtW ?? undefined, lower, upper });
-  const solved = solve(fit, model.linear, problem, theta0, lower, upper, solvers, watch);
+  const search = searchPlan(fit, data, model.linear, startInput, watch);
+  const solved = solve(fit, model.linear, problem, theta0, lower, upper, solvers, watch, search && { ...search, start: startInput });
   if ('error' in solved) return failedFit(fit, data, failedStop(solved.error), groupWarnings, elapsed());
+  const searchWarnings: FitWarning[] = [];
+  let searchResult: SearchResult | undefined;
+  if (solved.search && search) {
+    const s = solved.search;
+    searchResult = searchSummary(s, search.reason, free);
+    const reportedSsr = 2 * s.best.cost;
+    if (s.lowerElsewhere) {
+      solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.lowerElsewhere(2 * s.fromStart.cost)}` };
+      searchWarnings.push({ code: 'lower_minimum', message: warningText.lower_minimum(2 * s.fromStart.cost, reportedSsr, s.points, guess.guessed.length === 0), parameters: free });
+    }
+    const lowerUnconverged = s.minima.find((m) => !m.converged && isLower(m.ssr, reportedSsr, 0));
+    if (lowerUnconverged && solved.outcome.stop.converged) {
+      solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.lowerUnconverged(lowerUnconverged.ssr)}` };
+      searchWarnings.push({ code: 'lower_minimum', message: searchText.unconvergedLower(lowerUnconverged.ssr, reportedSsr), parameters: free });
+    }
+  }
   const stats = fitStatistics({
     fit,
     data,
@@ -107,12 +150,55 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Pick<RunF
     iterations: solved.iterations,
     evaluations: solved.evaluations,
     ...stats.fields,
-    warnings: [...stats.warnings, ...groupWarnings],
+    warnings: [...searchWarnings, ...stats.warnings, ...groupWarnings],
+    ...(searchResult ? { search: searchResult } : {}),
     elapsedMs: elapsed(),
   };
 }
 
-type Solved = { outcome: SolveOutcome; method: Exclude<FitPlan['options']['method'], 'auto'>; iterations: number; evaluations: number } | { error: string };
+type Solved = { outcome: SolveOutcome; method: Exclude<FitPlan['options']['method'], 'auto'>; iterations: number; evaluations: number; search?: ExploreOutcome } | { error: string };
+
+interface SearchPlan {
+  reason: SearchResult['reason'];
+  /** Design points; undefined: the default for the number of nonlinear parameters. */
+  points?: number;
+}
+
+/** Whether (and why) the multi-start search runs for this fit (see the module comment). */
+function searchPlan(fit: FitPlan, data: FitData, linearModel: boolean, start: StartInput, watch: Watch): SearchPlan | null {
+  const asked = fit.options.explore;
+  if (asked === 0 || linearModel) return null;
+  if (fit.options.method === 'linear' || fit.options.method === 'gradient_descent') return null;
+  if (asked !== undefined) return { reason: 'asked', points: asked };
+  if (data.group !== undefined && !watch.searchGroup) return null;
+  const all = start.parameters.map((_, j) => j);
+  const linear = linearSet(start, all);
+  const missing = all.some((j) => !linear.includes(j) && start.parameters[j].initial === undefined);
+  return missing ? { reason: 'no_start' } : null;
+}
+
+function searchSummary(s: ExploreOutcome, reason: SearchResult['reason'], free: readonly string[]): SearchResult {
+  const reportedSsr = 2 * s.best.cost;
+  let reportedMarked = false;
+  return {
+    reason,
+    parameters: [...free],
+    box: s.box.map((b) => ({ parameter: b.name, lower: b.lower, upper: b.upper, scale: b.scale })),
+    points: s.points,
+    partial: s.partial,
+    refined: s.refined,
+    minima: s.minima.map((m) => {
+      const reported = !reportedMarked && m.converged && Math.abs(m.ssr - reportedSsr) <= 1e-8 * Math.max(m.ssr, reportedSsr);
+      if (reported) reportedMarked = true;
+      return { ssr: m.ssr, estimates: Array.from(m.theta), converged: m.converged, hits: m.hits, fromStart: m.fromStart, reported };
+    }),
+    startSsr: 2 * s.fromStart.cost,
+    lowerElsewhere: s.lowerElsewhere,
+    ...(s.skipped ? { skipped: s.skipped } : {}),
+    iterations: s.iterations,
+    evaluations: s.evaluations,
+  };
+}
 
 function solve(
   fit: FitPlan,
@@ -122,7 +208,8 @@ function solve(
   lower: Float64Array,
   upper: Float64Array,
   solvers: Solvers,
-  watch: Pick<RunFitOptions, 'cancel' | 'onIteration'>,
+  watch: Watch,
+  search?: (SearchPlan & { start: StartInput }) | null,
 ): Solved {
   const o = fit.options;
   const cancel = watch.cancel;
@@ -140,6 +227,7 @@ function solve(
   let used: Exclude<FitPlan['options']['method'], 'auto'> = method;
   let iterations = 0;
   let evaluations = 0;
+  let searched: ExploreOutcome | undefined;
   const add = (s: SolveOutcome) => {
     iterations += s.iterations;
     evaluations += s.evaluations;
@@ -155,6 +243,17 @@ function solve(
   } else if (method === 'gradient_descent') {
     if (!solvers.gradientDescent) return { error: 'the gradient descent solver is not available in this build' };
     outcome = add(solvers.gradientDescent(problem, theta0, iterative));
+  } else if (search) {
+    searched = explore({
+      start: search.start,
+      theta0,
+      problem,
+      ...(search.points !== undefined ? { points: search.points } : {}),
+      solve: (pr, t, opts) => solvers.levenbergMarquardt(pr, t, { ...iterative, ...opts }),
+      options: iterative,
+    });
+    // the fit's own counts are those of the reported solve; the search's work is in `search`
+    outcome = add(searched.best);
   } else {
     outcome = add(solvers.levenbergMarquardt(problem, theta0, iterative));
   }
@@ -165,5 +264,5 @@ function solve(
     outcome = add(solvers.robust(problem, from, loss, o.lossScale, iterative));
     if (used === 'linear') used = 'levenberg_marquardt';
   }
-  return { outcome, method: used, iterations, evaluations };
+  return { outcome, method: used, iterations, evaluations, ...(searched ? { search: searched } : {}) };
 }

@@ -1,0 +1,98 @@
+/**
+ * The box the multi-start search (explore.ts) spreads its design over, per
+ * nonlinear parameter with guess g (the given or data-driven start), bounds
+ * [lower, upper] and structural role (roles.ts; S the predictor's spread,
+ * h its smallest spacing):
+ *   - both bounds finite: [lower, upper]; on a log scale when
+ *     0 < lower and upper/lower ≥ LOG_RATIO (or the mirror for upper < 0);
+ *   - location (a peak centre, a shift): the values that put it inside the
+ *     data, linear scale;
+ *   - scale (units of the predictor, as tau in x/tau): |p| from h/ROLE_FACTOR
+ *     to ROLE_FACTOR·S, log scale;
+ *   - rate (units of 1/predictor, as k in k·x): |p| from 1/(ROLE_FACTOR·S) to
+ *     ROLE_FACTOR/h, log scale;
+ *   (scale and rate keep the sign of g, positive when g = 0;)
+ *   - otherwise, with one bound b finite: distances from b on a log scale,
+ *     |g − b|/BOX_FACTOR … |g − b|·BOX_FACTOR (1/BOX_FACTOR … BOX_FACTOR
+ *     when g sits on b), towards the open side;
+ *   - no bound: magnitudes |g|/BOX_FACTOR … |g|·BOX_FACTOR on a log scale
+ *     with the sign of g (1/BOX_FACTOR … BOX_FACTOR, positive, when g = 0).
+ * The search does not flip the sign of an unbounded parameter; the
+ * data-driven start has compared both signs (grid.ts). Role boxes are cut to
+ * the bounds. The start itself is always among the candidates, so a box
+ * need not contain it.
+ * BOX_FACTOR = 100: two decades either way, wide enough for a start that is
+ * off by an order of magnitude and narrow enough for a few dozen points.
+ * ROLE_FACTOR = 10: time constants and periods from a tenth of the point
+ * spacing to ten times the data range cover what the data can resolve.
+ */
+import type { Role } from './roles';
+import type { StartParameter } from './types';
+
+export const BOX_FACTOR = 100;
+export const ROLE_FACTOR = 10;
+/** Bounds this far apart (ratio) are searched on a log scale. */
+export const LOG_RATIO = 100;
+
+export interface BoxSide {
+  /** Parameter name. */
+  name: string;
+  /** Ends of the box (lower < upper). */
+  lower: number;
+  upper: number;
+  /** Log scale: the distance |value − origin| is spread geometrically (origin: the finite bound, or 0). */
+  scale: 'linear' | 'log';
+  origin: number;
+}
+
+export function searchBox(par: StartParameter, guess: number, role: Role | undefined): BoxSide {
+  const { name, lower, upper } = par;
+  const lo = Number.isFinite(lower);
+  const hi = Number.isFinite(upper);
+  const g = Number.isFinite(guess) ? guess : 0;
+  if (lo && hi) {
+    if ((lower > 0 && upper / lower >= LOG_RATIO) || (upper < 0 && lower / upper >= LOG_RATIO)) return { name, lower, upper, scale: 'log', origin: 0 };
+    return { name, lower, upper, scale: 'linear', origin: 0 };
+  }
+  if (role?.kind === 'location') {
+    const a = Math.max(lower, role.min);
+    const b = Math.min(upper, role.max);
+    if (a < b) return { name, lower: a, upper: b, scale: 'linear', origin: 0 };
+  } else if (role) {
+    const [near, far] = role.kind === 'scale' ? [role.spacing / ROLE_FACTOR, ROLE_FACTOR * role.spread] : [1 / (ROLE_FACTOR * role.spread), ROLE_FACTOR / role.spacing];
+    const sign = g < 0 ? -1 : 1;
+    const a = Math.max(lower, sign > 0 ? near : -far);
+    const b = Math.min(upper, sign > 0 ? far : -near);
+    if (a < b && (a > 0 || b < 0)) return { name, lower: a, upper: b, scale: 'log', origin: 0 };
+  }
+  if (lo || hi) {
+    const base = lo ? lower : upper;
+    const dist = Math.abs(g - base);
+    const m = dist > 0 ? dist : 1;
+    const near = m / BOX_FACTOR;
+    const far = m * BOX_FACTOR;
+    return lo
+      ? { name, lower: lower + near, upper: lower + far, scale: 'log', origin: lower }
+      : { name, lower: upper - far, upper: upper - near, scale: 'log', origin: upper };
+  }
+  const m = g !== 0 ? Math.abs(g) : 1;
+  return g < 0
+    ? { name, lower: -m * BOX_FACTOR, upper: -m / BOX_FACTOR, scale: 'log', origin: 0 }
+    : { name, lower: m / BOX_FACTOR, upper: m * BOX_FACTOR, scale: 'log', origin: 0 };
+}
+
+/** The value at unit coordinate u ∈ [0, 1) of a box side (log scale: |value − origin| spread geometrically). */
+export function boxValue(side: BoxSide, u: number): number {
+  const { lower, upper, origin } = side;
+  const linear = lower + u * (upper - lower);
+  if (side.scale === 'linear') return linear;
+  const dl = Math.abs(lower - origin);
+  const du = Math.abs(upper - origin);
+  // a log side never straddles its origin (its ends are at least m/BOX_FACTOR away); linear if it did
+  if (!(dl > 0 && du > 0) || (lower - origin) * (upper - origin) < 0) return linear;
+  const sign = upper > origin ? 1 : -1;
+  const a = Math.min(dl, du);
+  const b = Math.max(dl, du);
+  const d = sign > 0 ? a * (b / a) ** u : b * (a / b) ** u;
+  return origin + sign * d;
+}
