@@ -7,10 +7,10 @@
  *     0 < lower and upper/lower ≥ LOG_RATIO (or the mirror for upper < 0);
  *   - location (a peak centre, a shift): the values that put it inside the
  *     data, linear scale;
- *   - scale (units of the predictor, as tau in x/tau): |p| from h/ROLE_FACTOR
- *     to ROLE_FACTOR·S, log scale;
+ *   - scale (units of the predictor, as tau in x/tau): |p| from h to
+ *     ROLE_FACTOR·S, log scale;
  *   - rate (units of 1/predictor, as k in k·x): |p| from 1/(ROLE_FACTOR·S) to
- *     ROLE_FACTOR/h, log scale;
+ *     1/h, log scale;
  *   (scale and rate keep the sign of g, positive when g = 0;)
  *   - otherwise, with one bound b finite: distances from b on a log scale,
  *     |g − b|/BOX_FACTOR … |g − b|·BOX_FACTOR (1/BOX_FACTOR … BOX_FACTOR
@@ -23,8 +23,10 @@
  * need not contain it.
  * BOX_FACTOR = 100: two decades either way, wide enough for a start that is
  * off by an order of magnitude and narrow enough for a few dozen points.
- * ROLE_FACTOR = 10: time constants and periods from a tenth of the point
- * spacing to ten times the data range cover what the data can resolve.
+ * ROLE_FACTOR = 10: time constants and periods from the point spacing to ten
+ * times the data range cover what the data can resolve; shorter ones decay or
+ * oscillate between two points (a period below the spacing is an alias of a
+ * longer one on evenly spaced data, with the same sum of squares).
  */
 import type { Role } from './roles';
 import type { StartParameter } from './types';
@@ -59,7 +61,7 @@ export function searchBox(par: StartParameter, guess: number, role: Role | undef
     const b = Math.min(upper, role.max);
     if (a < b) return { name, lower: a, upper: b, scale: 'linear', origin: 0 };
   } else if (role) {
-    const [near, far] = role.kind === 'scale' ? [role.spacing / ROLE_FACTOR, ROLE_FACTOR * role.spread] : [1 / (ROLE_FACTOR * role.spread), ROLE_FACTOR / role.spacing];
+    const [near, far] = role.kind === 'scale' ? [role.spacing, ROLE_FACTOR * role.spread] : [1 / (ROLE_FACTOR * role.spread), 1 / role.spacing];
     const sign = g < 0 ? -1 : 1;
     const a = Math.max(lower, sign > 0 ? near : -far);
     const b = Math.min(upper, sign > 0 ? far : -near);

@@ -129,7 +129,7 @@ export function explore(input: ExploreInput): ExploreOutcome {
   const roles = fullInput.structure ? parameterRoles(fullInput.structure.expr, fullInput.structure.columns, sample.cols, sample.n) : new Map();
   const box = nonlinear.map((j) => searchBox(parameters[j], input.theta0[j], roles.get(parameters[j].name)));
   const count0 = input.points ?? defaultPoints(nonlinear.length);
-  const design = sobolPoints(nonlinear.length, count0).map((u) => Float64Array.from(u, (v, k) => boxValue(box[k], v)));
+  const design = sobolPoints(nonlinear.length, count0).map((u) => Float64Array.from(u, (v, k) => boxValue(box[k], shifted(v, k))));
   const reduced = reducedProblem(sample, input.theta0, linear, nonlinear);
   const alpha0 = Float64Array.from(nonlinear, (j) => input.theta0[j]);
   const candidates = [alpha0, Float64Array.from(nonlinear, (j) => fromStart.theta[j]), ...design];
@@ -172,6 +172,17 @@ export function explore(input: ExploreInput): ExploreOutcome {
     if (o.stop.converged && (!best.stop.converged || ssrOf(o) < ssrOf(best))) best = o;
   }
   return finish(best, { box, points: candidates.length, partial: partial.length, refined });
+}
+
+/**
+ * A fixed shift of each coordinate modulo 1 (a Cranley–Patterson rotation: R. Cranley & T. N. L. Patterson, SIAM
+ * J. Numer. Anal. 13 (1976) 904–914), by the fractional parts of k·(√5 − 1)/2. It keeps the design's spread and
+ * breaks the symmetry of the first Sobol' coordinates under exchange (their first points come in mirrored pairs
+ * (u, v), (v, u)), which would spend half the design twice on models with interchangeable terms.
+ */
+function shifted(u: number, k: number): number {
+  const s = u + (((k + 1) * (Math.sqrt(5) - 1)) / 2) % 1;
+  return s >= 1 ? s - 1 : s;
 }
 
 function sameBasin(a: Float64Array, b: Float64Array): boolean {

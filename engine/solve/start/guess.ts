@@ -13,7 +13,8 @@
  *    their own parameters, the denominator with a parameter-free term:
  *    the linearised least-squares problem (Levy 1959) gives every start.
  * 4. Otherwise the general fallback: L by separable least squares for each
- *    candidate of N on a coarse grid (grid.ts).
+ *    candidate of N on a coarse grid (grid.ts), refined by the parameters'
+ *    structural roles (roles.ts: locations, scales, rates, periods).
  * The linear parameters are always re-solved for the chosen N, so a start
  * is the best point of its kind for the data.
  * Large data: at most MAX_START_ROWS = 5000 rows are used (every k-th row,
@@ -24,6 +25,7 @@ import { linearSet, SeparableSolver } from './separable';
 import { gridSearch } from './grid';
 import { recogniseStart } from './recognise';
 import { rationalStart } from './rational';
+import { parameterRoles } from './roles';
 
 /** Rows used for guessing: at most this many, every ⌈n/MAX_START_ROWS⌉-th row (deterministic thinning). */
 export const MAX_START_ROWS = 5000;
@@ -70,7 +72,10 @@ export function guessStart(full: StartInput): StartGuess {
   const sep = new SeparableSolver(input, linear);
   let evaluated = 0;
   if (nonlinear.length === 0) sep.solve(theta);
-  else evaluated = gridSearch(theta, nonlinear, parameters, input.cols, n, sep);
+  else {
+    const roles = input.structure ? parameterRoles(input.structure.expr, input.structure.columns, input.cols, n) : new Map();
+    evaluated = gridSearch(theta, nonlinear, parameters, input.cols, n, sep, roles);
+  }
   const parts: string[] = [];
   if (linear.length) parts.push(`linear least squares for ${names(linear)}`);
   if (nonlinear.length) parts.push(`grid search over ${names(nonlinear)} (${evaluated} candidates)`);

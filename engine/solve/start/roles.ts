@@ -12,7 +12,8 @@
  *   rate      at the same power as such a factor, as k in k·x: p has the
  *             units of 1/predictor.
  * Scale and rate carry the predictor's spread S (max − min) and its
- * smallest spacing h between distinct values.
+ * smallest spacing h between distinct values, and whether they sit inside
+ * the argument of sin or cos (`periodic`: a period or a frequency).
  */
 import type { Expr } from '../../../parser/plan';
 import { canonical, columnsIn, evaluate, paramsIn, type Canon } from './canonical';
@@ -24,7 +25,7 @@ export function paramsOfExpr(expr: Expr): Set<string> {
 
 export type Role =
   | { kind: 'location'; min: number; max: number }
-  | { kind: 'scale' | 'rate'; spread: number; spacing: number };
+  | { kind: 'scale' | 'rate'; spread: number; spacing: number; periodic: boolean };
 
 /** Spread and smallest positive spacing of a column's finite values (spacing = spread when all but one coincide). */
 function spreadOf(values: Float64Array, n: number): { spread: number; spacing: number } | null {
@@ -64,7 +65,7 @@ export function parameterRoles(expr: Expr, columns: readonly string[], cols: rea
   };
   const locations: [string, Extract<Role, { kind: 'location' }>][] = [];
   const products: [string, Role][] = [];
-  const visit = (c: Canon): void => {
+  const visit = (c: Canon, trig = false): void => {
     switch (c.t) {
       case 'sum': {
         const paramTerms = c.terms.filter((t) => t.e.t === 'par');
@@ -82,7 +83,7 @@ export function parameterRoles(expr: Expr, columns: readonly string[], cols: rea
           }
           if (min <= max) locations.push([name, { kind: 'location', min, max }]);
         }
-        for (const t of c.terms) visit(t.e);
+        for (const t of c.terms) visit(t.e, trig);
         break;
       }
       case 'prod': {
@@ -92,19 +93,19 @@ export function parameterRoles(expr: Expr, columns: readonly string[], cols: rea
             const col = g === f ? null : predictorLike(g.e);
             const s = col ? spreadFor(col) : null;
             if (!s) continue;
-            products.push([f.e.name, { kind: f.p * g.p < 0 ? 'scale' : 'rate', ...s }]);
+            products.push([f.e.name, { kind: f.p * g.p < 0 ? 'scale' : 'rate', ...s, periodic: trig }]);
             break;
           }
         }
-        for (const f of c.fs) visit(f.e);
+        for (const f of c.fs) visit(f.e, trig);
         break;
       }
       case 'pow':
-        visit(c.base);
-        visit(c.exp);
+        visit(c.base, trig);
+        visit(c.exp, trig);
         break;
       case 'call':
-        for (const a of c.args) visit(a);
+        for (const a of c.args) visit(a, trig || c.fn === 'sin' || c.fn === 'cos');
         break;
       default:
         break;
