@@ -13,7 +13,7 @@ const CASES: { id: string; x: number[]; f: (x: number) => number; truth: Record<
   { id: 'power', x: grid(1, 50, 12), f: (x) => 3 * x ** 0.75, truth: { a: 3, b: 0.75 }, rel: 1e-9 },
   { id: 'michaelis_menten', x: [0.1, 0.2, 0.5, 1, 2, 5, 10], f: (s) => (40 * s) / (0.8 + s), truth: { vmax: 40, km: 0.8 }, rel: 1e-9 },
   { id: 'arrhenius', x: grid(300, 400, 8), f: (t) => 5e7 * Math.exp((-60 * 1000) / (GAS_CONSTANT * t)), truth: { A: 5e7, Ea: 60 }, rel: 1e-6 },
-  { id: 'exp_decay', x: grid(0, 60, 31), f: (t) => 21.5 + 164 * Math.exp(-t / 14.2), truth: { plateau: 21.5, span: 164, tau: 14.2 }, rel: 0.1 },
+  { id: 'exp_decay', x: grid(0, 60, 31), f: (t) => 21.5 + 164 * Math.exp(-t / 14.2), truth: { final_level: 21.5, amplitude: 164, tau: 14.2 }, rel: 0.1 },
   { id: 'logistic4', x: logGrid(1e-3, 1e2, 11), f: (d) => 4 + (98 - 4) / (1 + (0.42 / d) ** 1.2), truth: { zero_dose: 4, full_dose: 98, ec50: 0.42, hill: 1.2 }, rel: 0.35 },
   { id: 'gaussian', x: grid(0, 100, 101), f: (x) => 3 + 10 * Math.exp(-((x - 40) ** 2) / (2 * 6 ** 2)), truth: { baseline: 3, height: 10, center: 40, width: 6 }, rel: 0.1 },
 ];
@@ -34,7 +34,7 @@ describe('templates', () => {
 
   it('scaffolds specs that parse and check clean against the CSV header', () => {
     const x = grid(1, 10, 10);
-    for (const t of [...TEMPLATES, findTemplate('poly5')!]) {
+    for (const t of [...TEMPLATES, findTemplate('polynomial', { degree: 5 })!]) {
       const y = x.map((v) => 2 + Math.exp(-v / 4) + 0.1 * v);
       const r = scaffoldSpec({ template: t, dataPath: 'data/run 1.csv', headers: ['time (s)', 'signal'], x: 'time (s)', y: 'signal', xValues: x, yValues: y });
       expect(r.ok, t.id).toBe(true);
@@ -59,9 +59,12 @@ describe('templates', () => {
   });
 
   it('knows its ids and writes names safely', () => {
-    expect(findTemplate('poly9')?.parameters).toHaveLength(10);
-    expect(findTemplate('poly10')).toBeUndefined();
+    expect(findTemplate('polynomial', { degree: 9 })?.parameters).toHaveLength(10);
+    expect(findTemplate('polynomial')?.parameters).toHaveLength(3);
+    expect(findTemplate('poly3')).toBeUndefined();
     expect(templateIds()).toContain('michaelis_menten');
+    expect(templateIds()).toContain('polynomial');
+    expect(templateIds().some((id) => /^poly\d/.test(id))).toBe(false);
     expect(columnRef('temp_C')).toBe('temp_C');
     expect(columnRef('exp')).toBe('"exp"');
     expect(columnRef('a "b"')).toBeNull();
