@@ -16,10 +16,18 @@ import { literal, ident, rowKernel, UNARY_MEMBER, BINARY_MEMBER, COMPARE_JS } fr
 import { MATH_HELPERS } from './codegen';
 import { DD_OUT, ddAdd, ddSub, ddMul, ddDiv, ddSqrt, ddPowInt } from '../linalg/dd';
 
+/** The strong-zero product of derivative rules (graph.ts `mulz`) in double-double: a = ah + al = 0 exactly when ah = 0. */
+function ddMulStrongZero(ah: number, al: number, bh: number, bl: number): void {
+  if (ah === 0) {
+    DD_OUT[0] = 0;
+    DD_OUT[1] = 0;
+  } else ddMul(ah, al, bh, bl);
+}
+
 /** Helpers injected as `M` into double-double kernels (frozen). */
 export const DD_HELPERS = Object.freeze({
   ...MATH_HELPERS,
-  R: DD_OUT, add: ddAdd, sub: ddSub, mul: ddMul, div: ddDiv, sqrt2: ddSqrt, powi: ddPowInt,
+  R: DD_OUT, add: ddAdd, sub: ddSub, mul: ddMul, mulz: ddMulStrongZero, div: ddDiv, sqrt2: ddSqrt, powi: ddPowInt,
 });
 
 /** Largest |k| for which x^k is evaluated by double-double binary powering. */
@@ -52,6 +60,7 @@ function define(g: Graph, id: number): string {
     case 'add': return viaR(`M.add(${pair(n.a)}, ${pair(n.b)})`);
     case 'sub': return viaR(`M.sub(${pair(n.a)}, ${pair(n.b)})`);
     case 'mul': return viaR(`M.mul(${pair(n.a)}, ${pair(n.b)})`);
+    case 'mulz': return viaR(`M.mulz(${pair(n.a)}, ${pair(n.b)})`);
     case 'div': return viaR(`M.div(${pair(n.a)}, ${pair(n.b)})`);
     case 'neg': return `const ${H} = -${hi(g, n.a)}, ${L} = -${lo(g, n.a)};`;
     case 'pow': {

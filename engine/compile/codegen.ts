@@ -71,6 +71,8 @@ function rhs(g: Graph, id: number, available: ReadonlySet<number> = new Set()): 
     case 'add': return `${r(n.a)} + ${r(n.b)}`;
     case 'sub': return `${r(n.a)} - ${r(n.b)}`;
     case 'mul': return `${r(n.a)} * ${r(n.b)}`;
+    // strong zero of the first factor (graph.ts `mulz`): 0·∞ and 0·NaN give 0
+    case 'mulz': return `${r(n.a)} === 0 ? 0 : ${r(n.a)} * ${r(n.b)}`;
     case 'div': return `${r(n.a)} / ${r(n.b)}`;
     case 'neg': return `-${r(n.a)}`;
     case 'pow': {

@@ -5,13 +5,45 @@
  * are shared. The rules are the textbook ones; the choices that matter
  * numerically are noted:
  *   a/b     → (a′ − (a/b)·b′)/b          reuses the quotient node;
- *   a^b     → b·a^(b−1)·a′ when b′ = 0   (valid for a ≤ 0 and integer b),
- *             a^b·ln(a)·b′ when a′ = 0, the full form otherwise;
+ *   a^b     → a′·(b·a^(b−1)) + b′·(a^b·ln a)   (each product below is `mulz`);
  *   sqrt(a) → a′/(2·sqrt(a)), tan(a) → (1 + tan²a)·a′, tanh(a) → (1 − tanh²a)·a′;
  *   erf(a)  → (2/√π)·e^{−a²}·a′, erfc the negative;
  *   abs(a)  → sign(a)·a′; min/max → the derivative of the selected argument;
  *   when(c, a, b) → when(c, a′, b′); comparisons and logic are piecewise
  *   constant (derivative 0).
+ *
+ * Removable singularities (limits, not IEEE accidents). Every chain-rule
+ * product is built as `mulz(x, y)` = (x = 0 ? 0 : x·y) with the factor whose
+ * zero decides the limit first (graph.ts `mulz`; it differs from x·y only
+ * when x = 0 and y is ±∞ or NaN):
+ *  - f(a)′ = a′·f′(a), a·b → a′·b + b′·a, (a/b)′ uses b′·(a/b): a term whose
+ *    inner derivative is exactly 0 contributes 0. That is the limit whenever
+ *    the inner expression does not move with θ near the point, e.g. a = x·θ
+ *    or x/θ at a data value x = 0 (a ≡ 0 for every θ), where f′(a) may be
+ *    infinite: sqrt(x·θ), (x/ec)^h with 0 < h < 1.
+ *  - a^b through the exponent, b′·(a^b·ln a): at a = 0 with b > 0 the value
+ *    0^b is 0 for every b nearby, so the derivative is 0 (the limit
+ *    u·ln u → 0 as u → 0⁺), where IEEE gives 0·(−∞) = NaN. This is the
+ *    derivative of (dose/ec)^h in h at dose 0, of a·t^k in k at t = 0, of
+ *    exp(−(t/τ)^β) in β at t = 0. (a^b underflowing to 0 for a tiny a > 0
+ *    also gives 0, which is a^b·ln a to within the underflow.)
+ *  - a^b through the base, a′·(b·a^(b−1)): b = 0 gives 0 (a^0 ≡ 1 for every
+ *    a, IEEE pow(a, 0) = 1, even at a = 0 where 0·0^(−1) = 0·∞).
+ * Values and derivatives of a^b at a = 0, by the sign of b (θ a parameter;
+ * x a data column, so ∂/∂x-type terms arise when the base holds a
+ * parameter, e.g. (x − x₀)^b):
+ *   value:     b > 0: 0;  b = 0: 1 (IEEE 0^0 = 1);  b < 0: +∞ (a pole, left non-finite);
+ *   ∂/∂base:   b > 1: 0;  b = 1: 1;  0 < b < 1: +∞·a′ (infinite slope, a genuine
+ *              singularity: left non-finite unless a′ = 0, see above);
+ *              b = 0: 0;  b < 0: non-finite (value infinite);
+ *   ∂/∂b:      b > 0: 0 (limit above);  b = 0: 0^b jumps from +∞ to 1 to 0, so
+ *              there is no derivative: −∞ (1·ln 0) is kept;  b < 0: value infinite.
+ *   Integer and non-integer b alike (a < 0 with non-integer b is NaN already in
+ *   the value; ln a < 0 is NaN, so ∂/∂b is NaN for a < 0, where a^b is defined
+ *   only at integer b and has no derivative in b).
+ * The solvers treat a non-finite residual or Jacobian at a trial point as a
+ * failed step (engine/solve), so the genuine singularities left above only
+ * shrink the trust region.
  */
 import { Graph } from './graph';
 
@@ -43,26 +75,26 @@ export class Differentiator {
       case 'add': return g.add(this.d(n.a), this.d(n.b));
       case 'sub': return g.sub(this.d(n.a), this.d(n.b));
       case 'neg': return g.neg(this.d(n.a));
-      case 'mul': return g.add(g.mul(this.d(n.a), n.b), g.mul(n.a, this.d(n.b)));
+      case 'mul': return g.add(g.mulz(this.d(n.a), n.b), g.mulz(this.d(n.b), n.a));
       case 'div': {
         const da = this.d(n.a);
         const db = this.d(n.b);
         if (g.isConst(db, 0)) return g.div(da, n.b);
-        return g.div(g.sub(da, g.mul(id, db)), n.b);
+        return g.div(g.sub(da, g.mulz(db, id)), n.b);
       }
       case 'pow': return this.power(id, n.a, n.b);
-      case 'fn1': return g.mul(this.unary(id, n.fn, n.a), this.d(n.a));
+      case 'fn1': return g.mulz(this.d(n.a), this.unary(id, n.fn, n.a));
       case 'fn2': {
         const da = this.d(n.a);
         const db = this.d(n.b);
         switch (n.fn) {
           case 'min': return g.when(g.compare('<=', n.a, n.b), da, db);
           case 'max': return g.when(g.compare('>=', n.a, n.b), da, db);
-          case 'hypot': return g.div(g.add(g.mul(n.a, da), g.mul(n.b, db)), id);
+          case 'hypot': return g.div(g.add(g.mulz(da, n.a), g.mulz(db, n.b)), id);
           case 'atan2': {
             // atan2(y, x): (x·y′ − y·x′)/(x² + y²)
             const den = g.add(g.mul(n.a, n.a), g.mul(n.b, n.b));
-            return g.div(g.sub(g.mul(n.b, da), g.mul(n.a, db)), den);
+            return g.div(g.sub(g.mulz(da, n.b), g.mulz(db, n.a)), den);
           }
         }
         break;
@@ -78,11 +110,11 @@ export class Differentiator {
     const da = this.d(a);
     const db = this.d(b);
     const one = g.constant(1);
-    // b·a^(b−1)·a′
-    const baseTerm = g.isConst(da, 0) ? g.constant(0) : g.mul(g.mul(b, g.pow(a, g.sub(b, one))), da);
+    // a′·(b·a^(b−1)): zero when a′ = 0 (a does not move) or b = 0 (a^0 ≡ 1)
+    const baseTerm = g.isConst(da, 0) ? g.constant(0) : g.mulz(da, g.mulz(b, g.pow(a, g.sub(b, one))));
     if (g.isConst(db, 0)) return baseTerm;
-    // a^b·ln(a)·b′
-    const expTerm = g.mul(g.mul(id, g.fn1('ln', a)), db);
+    // b′·(a^b·ln a): zero when a^b = 0 (a = 0, b > 0: the limit of u·ln u)
+    const expTerm = g.mulz(db, g.mulz(id, g.fn1('ln', a)));
     return g.add(baseTerm, expTerm);
   }
 

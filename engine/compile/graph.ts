@@ -15,7 +15,9 @@
  *   1·x → x, 0·x → 0 (†), (−1)·x → −x, (−a)·b → −(a·b), a·(−b) → −(a·b),
  *   c₁·(c₂·x) → (c₁c₂)·x; x/1 → x, 0/x → 0 (†), x/(−1) → −x, (−a)/b → −(a/b),
  *   a/(−b) → −(a/b), (−c)/b → −(c/b) for a constant c > 0 (so −1/b shares 1/b); −(−x) → x;
- *   x^1 → x, x^0 → 1, 1^x → 1; when(c, a, a) → a; when(constant, a, b) → a or b.
+ *   x^1 → x, x^0 → 1, 1^x → 1; when(c, a, a) → a; when(constant, a, b) → a or b;
+ *   mulz (the strong-zero product of derivative rules, see `mulz`) becomes a
+ *   plain product when either factor is a constant.
  * (†) these assume the other operand is finite, as usual for symbolic
  * differentiation; a non-finite value still shows in the model value itself.
  */
@@ -31,7 +33,7 @@ export type Node =
   | { op: 'const'; value: number }
   | { op: 'param'; index: number }
   | { op: 'col'; index: number }
-  | { op: 'add' | 'sub' | 'mul' | 'div' | 'pow' | 'and' | 'or'; a: number; b: number }
+  | { op: 'add' | 'sub' | 'mul' | 'mulz' | 'div' | 'pow' | 'and' | 'or'; a: number; b: number }
   | { op: 'neg' | 'not'; a: number }
   | { op: 'fn1'; fn: UnaryFn; a: number }
   | { op: 'fn2'; fn: BinaryFn; a: number; b: number }
@@ -102,7 +104,7 @@ export class Graph {
     return this.intern(`c:${index}`, { op: 'col', index }, true, false);
   }
 
-  private node2(op: 'add' | 'sub' | 'mul' | 'div' | 'pow' | 'and' | 'or', a: number, b: number): number {
+  private node2(op: 'add' | 'sub' | 'mul' | 'mulz' | 'div' | 'pow' | 'and' | 'or', a: number, b: number): number {
     return this.intern(`${op}:${a},${b}`, { op, a, b }, this.row[a] || this.row[b], this.param[a] || this.param[b]);
   }
 
@@ -164,6 +166,27 @@ export class Graph {
     if (ca !== undefined && nb.op === 'neg') return this.mul(this.constant(-ca), nb.a);
     // IEEE multiplication is exactly commutative: order non-constant operands by id for sharing.
     return ca === undefined && a > b ? this.node2('mul', b, a) : this.node2('mul', a, b);
+  }
+
+  /**
+   * The chain-rule product a·b with a strong zero in its first factor:
+   * a = 0 gives 0 even when b is infinite or NaN (`derive.ts` puts the inner
+   * derivative, or the factor whose zero decides the limit, first). It
+   * differs from `mul` only when a = 0 and b is not finite, so it is built as
+   * a plain product whenever a is a constant (a nonzero constant cannot
+   * trigger the rule) or b is one (a finite b gives a·b = ±0 anyway).
+   */
+  mulz(a: number, b: number): number {
+    const ca = this.constOf(a);
+    const cb = this.constOf(b);
+    if (ca === 0) return this.constant(0);
+    if (ca !== undefined || cb !== undefined) return this.mul(a, b);
+    const na = this.nodes[a];
+    const nb = this.nodes[b];
+    // Signs move outwards as in `mul` (a zero test on −a is the test on a).
+    if (na.op === 'neg') return this.neg(this.mulz(na.a, b));
+    if (nb.op === 'neg') return this.neg(this.mulz(a, nb.a));
+    return this.node2('mulz', a, b);
   }
 
   div(a: number, b: number): number {
