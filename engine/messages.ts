@@ -60,6 +60,7 @@ export const warningText = {
 
 /** Notes added to a fit's stop message by the multi-start search (engine/run/fit.ts). */
 export const searchText = {
+  sameMinimum: 'solved from a point the multi-start search refined (the starting values lead to the same minimum)',
   lowerElsewhere: (startSsr: number) => `the multi-start search found this minimum below the one reached from the starting values (SSR ${num(startSsr)})`,
   lowerUnconverged: (ssr: number) => `the multi-start search also reached SSR ${num(ssr)}, lower than this minimum, where the solver did not converge: this may not be the lowest minimum`,
   unconvergedLower: (ssr: number, reported: number) =>

@@ -121,6 +121,9 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
       solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.lowerElsewhere(2 * s.fromStart.cost)}` };
       searchWarnings.push({ code: 'lower_minimum', message: warningText.lower_minimum(2 * s.fromStart.cost, reportedSsr, s.points, guess.guessed.length === 0), parameters: free });
     }
+    if (!s.lowerElsewhere && s.best !== s.fromStart) {
+      solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.sameMinimum}` };
+    }
     const lowerUnconverged = s.minima.find((m) => !m.converged && isLower(m.ssr, reportedSsr, 0));
     if (lowerUnconverged && solved.outcome.stop.converged) {
       solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.lowerUnconverged(lowerUnconverged.ssr)}` };

@@ -98,7 +98,7 @@ const expGrowth: Template = {
 const logistic4: Template = {
   id: 'logistic4',
   title: '4-parameter logistic (dose–response)',
-  formula: 'y = zero_dose + (full_dose − zero_dose) / (1 + (ec50/x)^hill)',
+  formula: 'y = full_dose + (zero_dose − full_dose) / (1 + (x/ec50)^hill)',
   fitName: 'dose_response',
   parameters: [
     { name: 'zero_dose', meaning: 'response without the agent (dose → 0)' },
@@ -108,7 +108,8 @@ const logistic4: Template = {
   ],
   requires: ['nonnegative_x', 'two_positive_x'],
   note: 'Doses must be zero or positive: zero-dose controls (no agent) sit on the zero_dose level. The curve is symmetric in log dose. Rising or falling data both work: the direction is in full_dose − zero_dose.',
-  model: (x, p) => `${p.zero_dose} + (${p.full_dose} - ${p.zero_dose}) / (1 + (${p.ec50} / ${x})^${p.hill})`,
+  // (x/ec50)^hill, not (ec50/x)^hill: at a zero dose the power is 0 and its derivatives have finite limits (engine/compile)
+  model: (x, p) => `${p.full_dose} + (${p.zero_dose} - ${p.full_dose}) / (1 + (${x} / ${p.ec50})^${p.hill})`,
   start(d) {
     const s = logistic4Start(d);
     return { values: { zero_dose: s.values.zero, full_dose: s.values.full, ec50: s.values.mid, hill: s.values.slope }, notes: s.notes };

@@ -8,7 +8,7 @@
 import type { FitResult, RunResult } from '../result';
 import {
   derivedBlock, expectationRows, expectationTally, fitHeading, goodnessEntries, PARAMETER_HEADERS,
-  parameterRows, queryBlocks, stopLine, warningLines,
+  parameterRows, queryBlocks, searchLine, stopLine, warningLines,
 } from './summary';
 import { textTable } from './table';
 import {
@@ -17,7 +17,8 @@ import {
 
 /** The summary of one fit, as lines. */
 export function fitTextLines(fit: FitResult): string[] {
-  const lines: string[] = [fitHeading(fit), `  ${stopLine(fit)}`, ''];
+  const search = searchLine(fit);
+  const lines: string[] = [fitHeading(fit), `  ${stopLine(fit)}`, ...(search ? [`  ${search}`] : []), ''];
   lines.push(...textTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']));
   lines.push('', '  Goodness of fit');
   const entries = goodnessEntries(fit);
