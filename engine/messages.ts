@@ -54,8 +54,10 @@ export const warningText = {
     `starting value${params.length === 1 ? '' : 's'} for ${params.join(', ')} guessed (${how}); give "= value" to choose your own`,
   lower_minimum: (startSsr: number, ssr: number, points: number, given: boolean) =>
     `from the ${given ? 'given' : 'guessed'} starting values the fit stops at a local minimum (SSR ${num(startSsr)}); the search over ${points} starting points found a lower one (SSR ${num(ssr)}), which is reported here - check that it makes sense for your data`,
-  retried_start: (first: string, from: 'own_start' | 'search') =>
-    `the fit from the shared starting values did not succeed (${first}); this group was fitted again from ${from === 'own_start' ? 'starting values computed from its own data' : 'a multi-start search on its own data'}`,
+  retried_start: (first: string, from: 'own_start' | 'search', recovered: boolean) =>
+    recovered
+      ? `the fit from the shared starting values did not converge (${first}); this group was fitted again from ${from === 'own_start' ? 'starting values computed from its own data' : 'a multi-start search on its own data'}, which converged`
+      : `the fit from the shared starting values did not converge (${first}), nor did fits from starting values computed from its own data and a multi-start search on it; the first attempt is reported`,
 } satisfies Record<WarningCode, (...args: never[]) => string> & Record<string, (...args: never[]) => string>;
 
 /** Notes added to a fit's stop message by the multi-start search (engine/run/fit.ts). */

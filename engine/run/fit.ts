@@ -44,10 +44,12 @@ export interface RunFitOptions {
   onIteration?: (iteration: number, cost: number) => void;
   /**
    * Starting values to use instead of the spec's (free parameters, in
-   * declaration order); entries that are NaN are guessed. Per-group retries
-   * (engine/parallel/group-job.ts) use it.
+   * declaration order); NaN entries are guessed from the data. `how` says
+   * where the others came from (for the guessed-start warning, when the spec
+   * gave no value). Per-group fits (engine/group/starts.ts,
+   * engine/parallel/group-job.ts) use it.
    */
-  startOverride?: Float64Array;
+  startOverride?: { theta: Float64Array; how: string };
   /** Search even a group of a per-group fit (when a nonlinear parameter has no start or `explore` asks). Default false for groups. */
   searchGroup?: boolean;
 }
@@ -98,7 +100,7 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
     y: data.y,
     sqrtW,
     parameters: freePlans.map((q, j) => {
-      const initial = override && Number.isFinite(override[j]) ? override[j] : override ? undefined : q.initial;
+      const initial = override ? (Number.isFinite(override.theta[j]) ? override.theta[j] : undefined) : q.initial;
       return { name: q.name, ...(initial !== undefined ? { initial } : {}), lower: lower[j], upper: upper[j] };
     }),
     isLinearIn: (names) => isLinearInParameters(holdParams(expr, new Set(free.filter((f) => !names.includes(f)))), names),
@@ -106,6 +108,10 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
   };
   const guess = guessStart(startInput);
   const theta0 = guess.theta.map((v, j) => Math.min(upper[j], Math.max(lower[j], v)));
+  // Starts taken from an override count as guessed when the spec has no value for them.
+  const fromOverride = override ? freePlans.filter((q, j) => q.initial === undefined && Number.isFinite(override.theta[j])).map((q) => q.name) : [];
+  const guessedNames = [...fromOverride, ...guess.guessed];
+  const guessedHow = [fromOverride.length && override ? `${fromOverride.join(', ')}: ${override.how}` : '', guess.how].filter((s) => s).join('; ');
 
   const problem = modelProblem({ model, columns: data.columns, response: data.y, n, sqrtWeights: sqrtW ?? undefined, lower, upper });
   const search = searchPlan(fit, data, model.linear, startInput, watch);
@@ -140,7 +146,7 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
     upper,
     start: theta0,
     // A direct linear solve does not use starting values, so a guess is not worth a warning there.
-    guessed: { names: solved.method === 'linear' ? [] : guess.guessed, how: guess.how },
+    guessed: { names: solved.method === 'linear' ? [] : guessedNames, how: guessedHow },
   });
   return {
     name: fit.name,

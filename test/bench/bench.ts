@@ -23,7 +23,7 @@ import { benchKernel } from './cases/kernel';
 import { benchEndToEnd } from './cases/end-to-end';
 import { benchCsv } from './cases/csv';
 import { benchParse } from './cases/parse';
-import { benchGroups } from './cases/groups';
+import { benchGroups, benchGroupStarts } from './cases/groups';
 import { benchScaling } from './cases/scaling';
 import { benchMemory, isMemoryJob, memoryChild } from './cases/memory';
 import { benchPanelPaint } from './cases/panel-paint';
@@ -39,6 +39,7 @@ const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<Ben
   { id: 8, name: 'Scaling in n and p', run: benchScaling },
   { id: 9, name: 'Peak memory', run: benchMemory },
   { id: 10, name: 'Results panel first paint', run: benchPanelPaint },
+  { id: 11, name: 'Per-group automatic starts', run: benchGroupStarts },
 ];
 
 interface Args {
