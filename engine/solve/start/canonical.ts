@@ -5,8 +5,9 @@
  * sum and one coefficient per product, numeric powers are exponents of
  * product factors (so `a/b^2`, `a*b^-2` and `a/(b*b)` read alike), and a
  * numeric power of a product is distributed over its factors
- * (`((x - c)/w)^2` = `(x - c)^2 · w^-2`). Nothing is expanded, so the form
- * stays the size of the input.
+ * (`((x - c)/w)^2` = `(x - c)^2 · w^-2`). Terms and factors are kept sorted
+ * by their key, so equal forms have equal keys whatever the written order.
+ * Nothing is expanded, so the form stays the size of the input.
  */
 import type { Expr } from '../../../parser/plan';
 
@@ -99,7 +100,7 @@ function makeSum(items: { c: number; e: Canon }[]): Canon {
     }
   };
   for (const it of items) add(it.c, it.e);
-  const kept = terms.filter((t) => t.c !== 0);
+  const kept = terms.filter((t) => t.c !== 0).sort(byKey);
   if (kept.length === 0) return num(k);
   if (k === 0 && kept.length === 1 && kept[0].c === 1) return kept[0].e;
   return { t: 'sum', k, terms: kept };
@@ -125,7 +126,13 @@ function makeProd(items: { e: Canon; p: number }[]): Canon {
     }
   };
   for (const it of items) add(it.e, it.p);
-  return simplifyProd(c, fs.filter((f) => f.p !== 0));
+  return simplifyProd(c, fs.filter((f) => f.p !== 0).sort(byKey));
+}
+
+function byKey(a: { e: Canon }, b: { e: Canon }): number {
+  const ka = key(a.e);
+  const kb = key(b.e);
+  return ka < kb ? -1 : ka > kb ? 1 : 0;
 }
 
 function simplifyProd(c: number, fs: { e: Canon; p: number }[]): Canon {

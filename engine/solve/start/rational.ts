@@ -1,7 +1,7 @@
 /**
  * Starting values for rational models f = N(x; a)/D(x; b) whose numerator is
  * linear in its parameters a, whose denominator is linear in its own
- * parameters b (disjoint from a) and has a parameter-free part D₀(x) ≠ 0
+ * parameters b (disjoint from a) and has a parameter-free part D₀(x), not 0 on every row
  * (e.g. (b1 + b2·x + b3·x²)/(1 + b4·x + b5·x²)).
  *
  * Method: the linearisation y·D = N (E. C. Levy, "Complex-curve fitting",
@@ -66,6 +66,8 @@ export function rationalStart(input: StartInput, unknown: readonly number[]): { 
   const jd = new Float64Array(n * nb);
   parts.num.valueAndJacobian(new Float64Array(na), cols, n, n0, jn);
   parts.den.valueAndJacobian(new Float64Array(nb), cols, n, d0, jd);
+  // the parameter-free part of the denominator must not vanish (else y·D = N has the trivial solution)
+  if (!d0.some((v) => v !== 0 && Number.isFinite(v))) return null;
   const q = na + nb;
   if (n < q) return null;
   const A = new Float64Array(n * q);
