@@ -24,6 +24,7 @@ import { benchEndToEnd } from './cases/end-to-end';
 import { benchCsv } from './cases/csv';
 import { benchParse } from './cases/parse';
 import { benchGroups, benchGroupStarts } from './cases/groups';
+import { benchSearch } from './cases/search';
 import { benchScaling } from './cases/scaling';
 import { benchMemory, isMemoryJob, memoryChild } from './cases/memory';
 import { benchPanelPaint } from './cases/panel-paint';
@@ -40,6 +41,7 @@ const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<Ben
   { id: 9, name: 'Peak memory', run: benchMemory },
   { id: 10, name: 'Results panel first paint', run: benchPanelPaint },
   { id: 11, name: 'Per-group automatic starts', run: benchGroupStarts },
+  { id: 12, name: 'Multi-start search', run: benchSearch },
 ];
 
 interface Args {
