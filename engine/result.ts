@@ -9,7 +9,7 @@ export const RESULT_VERSION = 1 as const;
 
 /**
  * Why an iterative solver stopped, with the numbers behind it, e.g.
- * `{ code: 'small_reduction', message: 'relative reduction 3.1e-13 <= ftol 1e-12' }`.
+ * `{ code: 'small_reduction', message: 'relative reduction 3.1e-13 below its tolerance 1e-12 …' }`.
  */
 export type StopCode =
   | 'exact'            // direct solve (linear least squares): no iterations
@@ -18,15 +18,62 @@ export type StopCode =
   | 'small_gradient'   // scaled gradient below tolerance
   | 'max_iterations'
   | 'max_evaluations'
-  | 'non_finite'       // residuals or Jacobian became NaN/Infinity
+  | 'stagnated'        // no progress in cost and parameters over a window of iterations (not converged)
+  | 'non_finite'       // residuals or Jacobian not finite where no finite step was left
   | 'cancelled'
-  | 'failed';          // could not start (e.g. n < p, no rows)
+  | 'failed';          // could not start (e.g. n < p, no rows, an invalid option)
 
 export interface StopReason {
   code: StopCode;
   message: string;
   /** True when the stop means a (local) optimum was found. */
   converged: boolean;
+  /**
+   * With code `non_finite`: where the model was not finite (additive, optional):
+   * data-file lines (the first few), how many rows, the parameters whose
+   * derivative was not finite (empty when the residuals were), and the
+   * parameter values at that point.
+   */
+  nonFinite?: { what: 'residuals' | 'jacobian'; lines: number[]; rows: number; parameters: string[]; at: Record<string, number> };
+}
+
+/**
+ * One trial step of an iterative solver, recorded when a trace was asked for
+ * (`leastwise fit --trace`). Trust-region methods record every trial
+ * (accepted or not); gradient descent every iteration.
+ */
+export interface IterationRecord {
+  /** Accepted iterations before this trial. */
+  iteration: number;
+  /** ½‖r‖² at the point the step was taken from. */
+  cost: number;
+  /** ½‖r‖² at the trial point; null when not finite. */
+  trialCost: number | null;
+  /** Scaled gradient measure at the point the step was taken from (as in the stop test). */
+  gradient: number;
+  /** Scaled norm of the step. */
+  step: number;
+  /** Trust-region radius after this trial; null for gradient descent. */
+  radius: number | null;
+  /** Actual over predicted reduction; null for gradient descent or a non-finite trial. */
+  ratio: number | null;
+  accepted: boolean;
+  /** Interior reflective method: the step chosen (full, truncated at a bound, reflected, scaled gradient). */
+  kind?: 'full' | 'truncated' | 'reflected' | 'gradient';
+  /** Interior reflective method: the step-back factor applied at a bound (null when the full step stayed inside). */
+  stepBack?: number | null;
+  /** Interior reflective method: parameters whose bound the step met. */
+  bounds?: string[];
+  /** Interior reflective method: parameters whose scaling is by their distance to a bound (the gradient points at it). */
+  active?: string[];
+}
+
+export interface FitTrace {
+  /** Which solver recorded it. */
+  solver: 'levenberg_marquardt' | 'reflective_trust_region' | 'gradient_descent';
+  records: IterationRecord[];
+  /** Records left out in the middle of a long run (the first and the last are kept; see engine/solve/trace.ts). */
+  omitted: number;
 }
 
 export type WarningCode =
@@ -207,6 +254,14 @@ export interface FitResult {
   stop: StopReason;
   iterations: number;
   evaluations: number;
+  /**
+   * Levenberg–Marquardt with bounds: how they were handled (additive, optional):
+   * `reflective` — the interior reflective trust region (engine/solve/reflective.ts),
+   * `projection` — projection with an active set. Absent without bounds.
+   */
+  boundsMethod?: 'reflective' | 'projection';
+  /** Per-iteration solver trace, when asked for (additive, optional). */
+  trace?: FitTrace;
   parameters: ParameterResult[];
   /** Covariance of the free parameters, in `parameters` order (fixed ones are zero rows). */
   covariance: number[][];

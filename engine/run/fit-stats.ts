@@ -10,6 +10,12 @@
  * least-squares step of IRLS (Holland & Welsch 1977, Commun. Statist. A6:813–827),
  * i.e. J and r scaled by √ρ′(rᵢ²/c²), a common approximation; SSR, R² and
  * the points table use the plain (weighted) residuals.
+ * A fit that did not converge is not a result: its standard errors,
+ * intervals, covariance, goodness-of-fit figures (all but n, p, dof and the
+ * SSR at the last iterate), residual diagnostics, per-point influence and
+ * bands are withheld (NaN / null), and so are the warnings computed from
+ * them (engine/stats/warnings.ts); fitted values and residuals at the last
+ * iterate are kept, for the views to show as such.
  * Residual diagnostics (Durbin–Watson, runs, Shapiro–Wilk) are null when
  * dof ≤ 0 or when the residuals are at rounding level:
  * √(SSR/n) ≤ ROUNDING_LEVEL·max|√wᵢyᵢ| (an exact fit; their signs and
@@ -30,7 +36,7 @@ import { boundHit, fitWarnings } from '../stats/warnings';
 import { buildCurve } from './curve';
 import { exprText } from './expr';
 import type { FitData } from './fit-data';
-import { expandMatrix, parameterRow } from './fit-result';
+import { emptyGoodness, expandMatrix, parameterRow } from './fit-result';
 import { numberArrayOf, toNumberArray } from './number-array';
 
 export interface FitStatisticsInput {
@@ -65,6 +71,9 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
   if (!reuse) problem.residuals(theta, r);
   const jac = reuse ? outcome.jacobian : new Float64Array(n * p);
   if (!reuse && p > 0) problem.jacobian(theta, jac);
+
+  // Not converged: nothing below is a statistic of a fit (module comment); only the SSR at the last iterate is kept.
+  if (!outcome.stop.converged) return withheld(input, r);
 
   // Covariance Jacobian (robust: scaled by √ρ′)
   let jcov = jac;
@@ -193,4 +202,66 @@ function residualsAtRoundingLevel(r: Float64Array, data: FitData, dof: number): 
     if (wy > ymax) ymax = wy;
   }
   return Math.sqrt(ss / Math.max(1, r.length)) <= ROUNDING_LEVEL * ymax;
+}
+
+/** The fields of a fit that did not converge: last-iterate values only, every statistic withheld. */
+function withheld(input: FitStatisticsInput, r: Float64Array): { fields: StatFields; warnings: FitWarning[] } {
+  const { fit, data, problem, outcome } = input;
+  const { n, p } = problem;
+  const theta = outcome.theta;
+  let ssr = 0;
+  for (let i = 0; i < n; i++) ssr += r[i] * r[i];
+  const goodness = { ...emptyGoodness(n, p), ssr: Number.isFinite(ssr) ? ssr : NaN };
+  const sqrtW = data.weights ? data.weights.map(Math.sqrt) : null;
+  const fitted = data.y.map((y, i) => y - r[i] / (sqrtW ? sqrtW[i] : 1));
+  const freeIndex = new Map<string, number>();
+  fit.parameters.filter((q) => !q.fixed).forEach((q, j) => freeIndex.set(q.name, j));
+  const guessed = new Set(input.guessed.names);
+  const parameters = fit.parameters.map((q) => {
+    const j = freeIndex.get(q.name);
+    if (j === undefined) {
+      const v = q.initial ?? NaN;
+      return parameterRow(q, { estimate: v, stderr: NaN, lower: NaN, upper: NaN, initial: v, guessed: false, atBound: null });
+    }
+    return parameterRow(q, {
+      estimate: theta[j], stderr: NaN, lower: NaN, upper: NaN, initial: input.start[j], guessed: guessed.has(q.name),
+      atBound: boundHit(theta[j], input.lower[j], input.upper[j]),
+    });
+  });
+  const P = fit.parameters.length;
+  const nan = () => Array.from({ length: P }, () => new Array<number>(P).fill(NaN));
+  const free = fit.parameters.filter((q) => !q.fixed).map((q, j) => ({ name: q.name, estimate: theta[j], lower: input.lower[j], upper: input.upper[j] }));
+  const none = { durbinWatson: null, runs: null, shapiroWilk: null };
+  const warnings = fitWarnings({
+    free, correlation: nan(), condition: NaN, rank: p, undetermined: [], n, stop: outcome.stop, residuals: none, linear: input.linear,
+    rowsDropped: data.rowsDropped, file: data.file, guessed: input.guessed,
+  });
+  const missing = new Array<number>(n).fill(NaN);
+  return {
+    fields: {
+      parameters,
+      covariance: nan(),
+      correlation: nan(),
+      goodness,
+      residuals: none,
+      points: {
+        row: toNumberArray(data.lines),
+        x: data.x ? toNumberArray(data.x) : null,
+        y: toNumberArray(data.y),
+        fitted: toNumberArray(fitted),
+        residual: numberArrayOf(n, (i) => data.y[i] - fitted[i]),
+        standardized: missing,
+        studentized: missing.slice(),
+        leverage: missing.slice(),
+        cooksDistance: missing.slice(),
+        weight: data.weights ? toNumberArray(data.weights) : null,
+      },
+      bands: null,
+      predictor: data.predictor,
+      response: exprText(fit.blocks[0].response),
+      sigmaAbsolute: data.sigmaAbsolute,
+      rowsDropped: data.rowsDropped,
+    },
+    warnings,
+  };
 }

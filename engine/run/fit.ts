@@ -5,7 +5,9 @@
  * has stop code `failed` and says why. Safe to call per group from workers.
  *
  * Method choice (`method auto`): the linear QR solver when the model is
- * linear in its free parameters (compiler test), else Levenberg–Marquardt. A
+ * linear in its free parameters (compiler test), else Levenberg–Marquardt
+ * (with bounds: the interior reflective trust region, engine/solve/nonlinear.ts;
+ * the result says so in `boundsMethod`). A
  * linear solution that violates a bound is re-solved by Levenberg–Marquardt
  * from the clamped point (reported as levenberg_marquardt). A robust loss
  * first solves the squared-loss problem, then hands that estimate to the
@@ -23,9 +25,9 @@
  */
 import type { FitPlan, LossKind } from '../../parser/plan';
 import { compileModel, isLinearInParameters, type CompiledModel } from '../compile';
-import type { FitResult, FitWarning, SearchResult, StopReason } from '../result';
-import { modelProblem, type CancelToken, type SolveOutcome } from '../solve';
-import { defaultPoints, explore, guessStart, isLower, linearSet, type ExploreOutcome, type StartInput } from '../solve/start';
+import type { FitResult, FitTrace, FitWarning, SearchResult, StopReason } from '../result';
+import { boundsMethodFor, modelProblem, nonFiniteDetail, type CancelToken, type SolveOutcome, type SolverTrace } from '../solve';
+import { explore, guessStart, isLower, linearSet, type ExploreOutcome, type StartInput } from '../solve/start';
 import { errorText, searchText, warningText } from '../messages';
 import type { FitData } from './fit-data';
 import { failedFit } from './fit-result';
@@ -52,6 +54,8 @@ export interface RunFitOptions {
   startOverride?: { theta: Float64Array; how: string };
   /** Search even a group of a per-group fit (when a nonlinear parameter has no start or `explore` asks). Default false for groups. */
   searchGroup?: boolean;
+  /** Record the solver's per-iteration trace in the result (`FitResult.trace`). Default false. */
+  trace?: boolean;
 }
 
 const failedStop = (message: string): StopReason => ({ code: 'failed', message, converged: false });
@@ -81,7 +85,7 @@ export function runFit(fit: FitPlan, data: FitData, options: RunFitOptions = {})
   }
 }
 
-type Watch = Pick<RunFitOptions, 'cancel' | 'onIteration' | 'startOverride' | 'searchGroup'>;
+type Watch = Pick<RunFitOptions, 'cancel' | 'onIteration' | 'trace' | 'startOverride' | 'searchGroup'>;
 
 function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, groupWarnings: FitWarning[], elapsed: () => number): FitResult {
   const { expr, free } = freeModel(fit);
@@ -136,6 +140,9 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
       searchWarnings.push({ code: 'lower_minimum', message: searchText.unconvergedLower(lowerUnconverged.ssr, reportedSsr), parameters: free });
     }
   }
+  const names = freePlans.map((q) => q.name);
+  const stop = locateStop(solved.outcome, names, data.lines);
+  const boundsMethod = solved.method === 'levenberg_marquardt' ? boundsMethodFor(problem) : null;
   const stats = fitStatistics({
     fit,
     data,
@@ -155,9 +162,11 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
     options: fit.options,
     loss: fit.options.loss,
     level: fit.options.level,
-    stop: solved.outcome.stop,
+    stop,
     iterations: solved.iterations,
     evaluations: solved.evaluations,
+    ...(boundsMethod ? { boundsMethod } : {}),
+    ...(solved.outcome.trace ? { trace: namedTrace(solved.outcome.trace, names) } : {}),
     ...stats.fields,
     warnings: [...searchWarnings, ...stats.warnings, ...groupWarnings],
     ...(searchResult ? { search: searchResult } : {}),
@@ -226,7 +235,8 @@ function solve(
     cancel,
     ...(watch.onIteration ? { onIteration: watch.onIteration } : {}),
     ...(o.maxIterations !== undefined ? { maxIterations: o.maxIterations } : {}),
-    ...(o.tolerance !== undefined ? { ftol: o.tolerance, xtol: o.tolerance, gtol: o.tolerance } : {}),
+    ...(o.tolerance !== undefined ? { reductionTolerance: o.tolerance, stepTolerance: o.tolerance, gradientTolerance: o.tolerance } : {}),
+    ...(watch.trace ? { trace: true } : {}),
     ...(o.learningRate !== undefined ? { learningRate: o.learningRate } : {}),
   };
   const method = o.method === 'auto' ? (linear ? 'linear' : 'levenberg_marquardt') : o.method;
@@ -274,4 +284,30 @@ function solve(
     if (used === 'linear') used = 'levenberg_marquardt';
   }
   return { outcome, method: used, iterations, evaluations, ...(searched ? { search: searched } : {}) };
+}
+
+/** The solver's stop, with a non-finite stop located: data-file lines, parameter names and values. */
+function locateStop(outcome: SolveOutcome, names: readonly string[], lines: Int32Array): StopReason {
+  const nf = outcome.nonFinite;
+  if (outcome.stop.code !== 'non_finite' || !nf) return outcome.stop;
+  const at: Record<string, number> = {};
+  names.forEach((name, j) => { at[name] = nf.theta[j]; });
+  return {
+    ...outcome.stop,
+    message: `${outcome.stop.message}: ${nonFiniteDetail(nf, names, lines)}`,
+    nonFinite: { what: nf.what, lines: nf.rows.map((i) => lines[i]), rows: nf.count, parameters: nf.parameters.map((j) => names[j]), at },
+  };
+}
+
+/** The solver's trace with parameter indices replaced by names. */
+function namedTrace(t: SolverTrace, names: readonly string[]): FitTrace {
+  const name = (js: number[] | undefined) => js?.map((j) => names[j]);
+  return {
+    solver: t.solver,
+    omitted: t.omitted,
+    records: t.records.map((r) => {
+      const { bounds, active, ...rest } = r;
+      return { ...rest, ...(bounds ? { bounds: name(bounds) } : {}), ...(active ? { active: name(active) } : {}) };
+    }),
+  };
 }

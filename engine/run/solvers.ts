@@ -4,7 +4,7 @@
  * a solver added in one place.
  */
 import type { LossKind } from '../../parser/plan';
-import { gradientDescent, levenbergMarquardt, robustFit, solveLinear } from '../solve';
+import { gradientDescent, robustFit, solveLinear, solveNonlinear } from '../solve';
 import type { LeastSquaresProblem, SolveOptions, SolveOutcome } from '../solve';
 
 export interface IterativeOptions extends SolveOptions {
@@ -14,6 +14,7 @@ export interface IterativeOptions extends SolveOptions {
 
 export interface Solvers {
   linear(problem: LeastSquaresProblem, options: { cancel?: SolveOptions['cancel'] }): SolveOutcome;
+  /** Levenberg–Marquardt; with bounds, the interior reflective trust region unless `options.bounds` says otherwise (engine/solve/nonlinear.ts). */
   levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64Array, options: IterativeOptions): SolveOutcome;
   /** Optional so that test fakes may leave it out; the fit then fails with a clear stop message. */
   gradientDescent?(problem: LeastSquaresProblem, theta0: Float64Array, options: IterativeOptions): SolveOutcome;
@@ -23,7 +24,7 @@ export interface Solvers {
 
 export const defaultSolvers: Solvers = {
   linear: (problem, options) => solveLinear(problem, { cancel: options.cancel }),
-  levenbergMarquardt: (problem, theta0, options) => levenbergMarquardt(problem, theta0, options),
+  levenbergMarquardt: (problem, theta0, options) => solveNonlinear(problem, theta0, options),
   gradientDescent: (problem, theta0, options) => gradientDescent(problem, theta0, options),
   robust: (problem, theta0, loss, scale, options) => robustFit(problem, theta0, loss, scale, options),
 };

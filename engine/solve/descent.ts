@@ -20,22 +20,37 @@
  * never used to solve).
  *
  * Stopping (defaults in brackets):
- *  small_gradient:  max_j |Jⱼᵀr| / (‖Jⱼ‖·‖r‖) ≤ gtol [1e-10] (as in LM);
- *  small_reduction: 0 ≤ cost_k − cost_{k+1} ≤ ftol·cost_k [1e-15 — per-step
- *                   reductions of a first-order method are small by nature];
- *  small_step:      ‖Δφ‖ ≤ xtol·(‖φ‖ + xtol) [1e-15, for the same reason];
- *  failed:          divergence, cost > 10·initial cost (lower the rate);
+ *  small_gradient:  max_j |Jⱼᵀr| / (‖Jⱼ‖·‖r‖) ≤ gradientTolerance [1e-10] (as
+ *                   in LM), over the components the bounds let move: a
+ *                   parameter on its lower bound with Jⱼᵀr > 0 (or on its
+ *                   upper bound with Jⱼᵀr < 0) is at a constrained optimum in
+ *                   that direction and left out (the projected gradient);
+ *  small_reduction: 0 ≤ cost_k − cost_{k+1} ≤ reductionTolerance·cost_k [1e-15 —
+ *                   per-step reductions of a first-order method are small by nature];
+ *  small_step:      ‖Δφ‖ ≤ stepTolerance·(‖φ‖ + stepTolerance) [1e-15, for the same reason];
+ *  stagnated:       over 1000 iterations the best cost fell by ≤ 1e-12
+ *                   relative and the best point moved by ≤ 1e-9 relative
+ *                   (`stagnation.ts`; e.g. a learning rate that makes the
+ *                   iterates cycle with a constant cost); the best point is
+ *                   returned, not converged;
+ *  failed:          divergence, cost > 10·initial cost (lower the rate), or
+ *                   an invalid option (`options.ts`);
  *  max_iterations [100000], max_evaluations [2·maxIterations + 600],
- *  non_finite, cancelled.
+ *  non_finite (residuals or Jacobian not finite at an iterate; a fixed-rate
+ *  method has no trust region to shrink), cancelled.
  * Each iteration is one residual pass and one Jacobian pass over the data
  * (`evaluations`, `jacobianEvaluations`).
  */
 import { Matrix, EigenvalueDecomposition } from 'ml-matrix';
 import type { LeastSquaresProblem } from './problem';
-import { type SolveOptions, type SolveOutcome, DEFAULT_TOLERANCE, stopReason, fmt, allFinite } from './types';
+import { type SolveOptions, type SolveOutcome, type NonFiniteReport, DEFAULT_TOLERANCE, stopReason, fmt, allFinite, nonFiniteReport } from './types';
 import type { StopCode } from '../result';
 import { norm2 } from '../linalg/norm';
 import { project } from './bounds';
+import { stopText } from './messages';
+import { validateSolveOptions } from './options';
+import { DESCENT_STAGNATION, StagnationWatch } from './stagnation';
+import { TraceRecorder } from './trace';
 
 export interface DescentOptions extends SolveOptions {
   /** Learning rate η in scaled parameters. Default: chosen by the trial grid (module comment). */
@@ -73,6 +88,7 @@ interface State {
   jac: Float64Array;
   nfev: number;
   it: number;
+  nonFinite: NonFiniteReport | null;
 }
 
 interface Settings {
@@ -87,8 +103,10 @@ interface Settings {
   monotone: boolean;
 }
 
-/** Runs the iteration from the state (r, J current at x); returns the stop. */
-function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: DescentOptions): { code: StopCode; message: string } {
+interface Stop { code: StopCode; message: string }
+
+/** Runs the iteration from the state (r, J current at x); returns the stop (the state may be moved to the best point seen). */
+function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: DescentOptions, recorder: TraceRecorder | null): Stop {
   const { n, p, lower, upper } = problem;
   const g = new Float64Array(p);
   const step = new Float64Array(p);
@@ -97,24 +115,42 @@ function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: D
     problem.residuals(s.x, s.r);
     problem.jacobian(s.x, s.jac);
     s.nfev++;
-    return allFinite(s.r) && allFinite(s.jac);
+    if (!allFinite(s.r)) s.nonFinite = nonFiniteReport('residuals', s.r, n, 1, s.x);
+    else if (!allFinite(s.jac)) s.nonFinite = nonFiniteReport('jacobian', s.jac, n, p, s.x);
+    else return true;
+    return false;
   };
   const initial = 0.5 * norm2(s.r) ** 2;
   let cost = initial;
+  const watch = o.monotone ? null : new StagnationWatch(p, DESCENT_STAGNATION, o.d.map((dj) => 1 / dj));
+  /** Moves the state to the best point the stagnation watch saw (one more pass over the data). */
+  const toBest = (): void => {
+    if (!watch) return;
+    const best = watch.bestPoint();
+    if (best.cost < cost) {
+      s.x.set(best.theta);
+      evaluate();
+    }
+  };
   for (let k = 0; ; k++) {
-    if (options.cancel?.cancelled) return { code: 'cancelled', message: `cancelled after ${s.it} iteration(s)` };
+    if (options.cancel?.cancelled) return { code: 'cancelled', message: stopText.cancelled(s.it) };
     const rn = norm2(s.r);
     let gnorm = 0;
     for (let j = 0; j < p; j++) {
       let sum = 0;
       for (let i = 0; i < n; i++) sum += s.jac[j * n + i] * s.r[i];
       g[j] = sum;
+      // projected gradient: a parameter held at its bound by the gradient does not count
+      if ((lower && s.x[j] <= lower[j] && sum > 0) || (upper && s.x[j] >= upper[j] && sum < 0)) continue;
       const cn = norm2(s.jac, j * n, n);
       if (cn > 0 && rn > 0) gnorm = Math.max(gnorm, Math.abs(sum) / (cn * rn));
     }
-    if (gnorm <= o.gtol) return { code: 'small_gradient', message: `scaled gradient ${fmt(gnorm)} <= gtol ${fmt(o.gtol)}` };
-    if (k >= o.maxIter) return { code: 'max_iterations', message: `reached the iteration limit ${o.maxIter} (scaled gradient ${fmt(gnorm)})` };
-    if (s.nfev >= o.maxFev) return { code: 'max_evaluations', message: `reached the evaluation limit ${o.maxFev}` };
+    if (gnorm <= o.gtol) return { code: 'small_gradient', message: stopText.smallGradient(gnorm, o.gtol) };
+    if (k >= o.maxIter) {
+      toBest();
+      return { code: 'max_iterations', message: `${stopText.maxIterations(o.maxIter)} (scaled gradient ${fmt(gnorm)})` };
+    }
+    if (s.nfev >= o.maxFev) return { code: 'max_evaluations', message: stopText.maxEvaluations(o.maxFev) };
     for (let j = 0; j < p; j++) {
       step[j] = s.x[j];
       s.x[j] -= (o.rate * g[j]) / (o.d[j] * o.d[j]);
@@ -125,18 +161,28 @@ function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: D
       phi[j] = o.d[j] * s.x[j];
     }
     s.it++;
-    if (!evaluate()) return { code: 'non_finite', message: `residuals or Jacobian not finite at iteration ${s.it}` };
+    const sn = norm2(step);
+    if (!evaluate()) {
+      recorder?.add({ iteration: s.it - 1, cost, trialCost: null, gradient: gnorm, step: sn, radius: null, ratio: null, accepted: false });
+      return { code: 'non_finite', message: `the residuals or the Jacobian are not finite at iteration ${s.it}` };
+    }
     const next = 0.5 * norm2(s.r) ** 2;
+    recorder?.add({ iteration: s.it - 1, cost, trialCost: next, gradient: gnorm, step: sn, radius: null, ratio: null, accepted: true });
     if (!o.monotone) options.onIteration?.(s.it, next);
     const reduction = cost - next;
     cost = next;
     if (next > DIVERGENCE * initial || (o.monotone && reduction < 0)) {
       return { code: 'failed', message: `diverged: cost rose from ${fmt(initial)} to ${fmt(next)} at iteration ${s.it}; use a smaller learning rate` };
     }
-    const sn = norm2(step);
-    if (sn <= o.xtol * (norm2(phi) + o.xtol)) return { code: 'small_step', message: `scaled step ${fmt(sn)} <= xtol·(‖φ‖ + xtol) = ${fmt(o.xtol * (norm2(phi) + o.xtol))}` };
+    const limit = o.xtol * (norm2(phi) + o.xtol);
+    if (sn <= limit) return { code: 'small_step', message: stopText.smallScaledStep(sn, limit) };
     if (reduction >= 0 && reduction <= o.ftol * (cost + reduction)) {
-      return { code: 'small_reduction', message: `relative reduction ${fmt(reduction / (cost + reduction))} <= ftol ${fmt(o.ftol)}` };
+      return { code: 'small_reduction', message: `relative reduction ${fmt(reduction / (cost + reduction))} below its tolerance ${fmt(o.ftol)}` };
+    }
+    const stalled = watch?.record(next, s.x);
+    if (stalled) {
+      toBest();
+      return { code: 'stagnated', message: stopText.stagnated(stalled, DESCENT_STAGNATION.costTolerance, DESCENT_STAGNATION.stepTolerance) };
     }
   }
 }
@@ -146,29 +192,37 @@ export function gradientDescent(problem: LeastSquaresProblem, theta0: Float64Arr
   const maxIter = options.maxIterations ?? 100000;
   const settings: Settings = {
     rate: NaN, d: new Float64Array(p), maxIter, maxFev: options.maxEvaluations ?? 2 * maxIter + 600,
-    ftol: options.ftol ?? DESCENT_FTOL, xtol: options.xtol ?? DESCENT_FTOL, gtol: options.gtol ?? DEFAULT_TOLERANCE, monotone: false,
+    ftol: options.reductionTolerance ?? DESCENT_FTOL, xtol: options.stepTolerance ?? DESCENT_FTOL, gtol: options.gradientTolerance ?? DEFAULT_TOLERANCE, monotone: false,
   };
   const x0 = Float64Array.from(theta0);
   project(x0, lower, upper);
-  const s: State = { x: Float64Array.from(x0), r: new Float64Array(n), jac: new Float64Array(n * p), nfev: 0, it: 0 };
+  const s: State = { x: Float64Array.from(x0), r: new Float64Array(n), jac: new Float64Array(n * p), nfev: 0, it: 0, nonFinite: null };
+  const recorder = options.trace ? new TraceRecorder('gradient_descent') : null;
   const done = (code: StopCode, message: string): SolveOutcome => {
     const note = Number.isFinite(settings.rate) ? ` (learning rate ${fmt(settings.rate)})` : '';
     return {
       theta: s.x, residuals: s.r, jacobian: s.jac, cost: 0.5 * norm2(s.r) ** 2, stop: stopReason(code, message + note),
       iterations: s.it, evaluations: s.nfev, jacobianEvaluations: s.nfev,
+      ...(recorder ? { trace: recorder.result() } : {}),
+      ...(code === 'non_finite' && s.nonFinite ? { nonFinite: s.nonFinite } : {}),
     };
   };
-  if (n === 0) return done('failed', 'no data rows to fit');
+  const invalid = validateSolveOptions(options);
+  if (invalid !== null) return done('failed', stopText.invalidOption(invalid));
+  if (n === 0) return done('failed', stopText.noRows);
   const start = (): boolean => {
     s.x.set(x0);
     s.it = 0;
     problem.residuals(s.x, s.r);
     problem.jacobian(s.x, s.jac);
     s.nfev++;
-    return allFinite(s.r) && allFinite(s.jac);
+    if (!allFinite(s.r)) s.nonFinite = nonFiniteReport('residuals', s.r, n, 1, s.x);
+    else if (!allFinite(s.jac)) s.nonFinite = nonFiniteReport('jacobian', s.jac, n, p, s.x);
+    else return true;
+    return false;
   };
-  if (!start()) return done('non_finite', 'residuals or Jacobian at the starting values are not finite');
-  if (p === 0) return done('small_gradient', 'no free parameters to fit');
+  if (!start()) return done('non_finite', stopText.startNotFinite(s.nonFinite?.what ?? 'residuals'));
+  if (p === 0) return done('small_gradient', stopText.noFreeParameters);
   for (let j = 0; j < p; j++) {
     const c = norm2(s.jac, j * n, n);
     settings.d[j] = c > 0 ? c : 1;
@@ -180,13 +234,14 @@ export function gradientDescent(problem: LeastSquaresProblem, theta0: Float64Arr
     for (let k = 0; k < GRID_SIZE; k++) {
       trial.rate = base * 2 ** -k;
       settings.rate = trial.rate;
-      const stop = iterate(problem, s, trial, options);
+      const stop = iterate(problem, s, trial, options, null);
       if (stop.code === 'cancelled') return done(stop.code, stop.message);
       if (stop.code !== 'failed' && stop.code !== 'non_finite') break;
       start();
     }
     if (s.it > 0) start();
   }
-  const stop = iterate(problem, s, settings, options);
+  s.nonFinite = null;
+  const stop = iterate(problem, s, settings, options, recorder);
   return done(stop.code, stop.message);
 }

@@ -10,28 +10,39 @@
  *  - ρ = actual/predicted reduction; Δ is shrunk (by a factor from quadratic
  *    interpolation, clamped to [0.1, 0.5]) when ρ ≤ 1/4, doubled-ish
  *    (Δ = 2‖Dp‖) when ρ ≥ 3/4 or λ = 0 (§4, eq. (4.2)-(4.4)); a step is
- *    accepted when ρ ≥ 1e-4. Initial Δ = 100·‖Dθ₀‖ (or 100 if zero).
- * Bounds: projection with an active set (`bounds.ts`); when the projected
- * step differs from the LM step, ρ uses the predicted reduction of the
- * projected step, −(2rᵀJs + ‖Js‖²)/‖r‖².
+ *    accepted when ρ ≥ 1e-4 and both r and J are finite at the trial point.
+ *    Initial Δ = 100·‖Dθ₀‖ (or 100 if zero).
+ * Non-finite values: a trial point whose residuals or Jacobian are not finite
+ * is a failed step (ρ < 0: Δ shrinks to at most a tenth), never the end of
+ * the fit; when Δ then collapses with the last trial non-finite, the stop is
+ * `non_finite` (not converged) with the rows and parameter values
+ * (`nonFinite` of the outcome). Non-finite residuals or Jacobian at the
+ * starting values leave no step to take: `non_finite` at once.
+ * Bounds: this module is the projection method, with an active set
+ * (`bounds.ts`); when the projected step differs from the LM step, ρ uses the
+ * predicted reduction of the projected step, −(2rᵀJs + ‖Js‖²)/‖r‖². Bounded
+ * problems go to the interior reflective method by default (`reflective.ts`,
+ * chosen in `index.ts`).
  *
- * Stopping tests (all relative; defaults ftol = xtol = gtol = 1e-10):
- *  small_reduction: |actred| ≤ ftol and prered ≤ ftol and ρ ≤ 2, where
- *                   actred = 1 − (‖r⁺‖/‖r‖)², prered its linear-model prediction;
- *  small_step:      Δ ≤ xtol·‖Dθ‖;
- *  small_gradient:  max_j |Jⱼᵀr| / (‖Jⱼ‖·‖r‖) ≤ gtol (cosine of the angle
- *                   between r and each Jacobian column; 0 at a zero residual);
+ * Stopping tests (all relative; tolerances default to 1e-10):
+ *  small_reduction: |actred| ≤ reductionTolerance and prered ≤ reductionTolerance
+ *                   and ρ ≤ 2, where actred = 1 − (‖r⁺‖/‖r‖)², prered its
+ *                   linear-model prediction;
+ *  small_step:      Δ ≤ stepTolerance·‖Dθ‖;
+ *  small_gradient:  max_j |Jⱼᵀr| / (‖Jⱼ‖·‖r‖) ≤ gradientTolerance (cosine of the
+ *                   angle between r and each Jacobian column; 0 at a zero residual);
  *  the same three with the tolerance replaced by ε = 2⁻⁵² mean that no
  *  further progress is possible in double precision (reported as such);
- *  max_iterations (Jacobian evaluations, default 200), max_evaluations
- *  (residual evaluations, default max(1000, 100·(p+1))), cancelled,
- *  non_finite (r or J at an accepted point not finite; a non-finite trial
- *  point is treated as a failed step and shrinks Δ).
+ *  stagnated (`stagnation.ts`: over 50 accepted iterations the cost fell by
+ *  ≤ 1e-10 relative and no parameter moved by more than 1e-6 relative; not
+ *  converged), max_iterations (accepted steps, default 1000), max_evaluations
+ *  (residual evaluations, default max(2000, 2·maxIterations, 100·(p+1))),
+ *  cancelled, non_finite (above), failed (an invalid option, `options.ts`).
  * After a converged stop, Gauss–Newton polishing (`polish.ts`) settles the
  * last digits unless `polish: false`.
  */
 import type { LeastSquaresProblem } from './problem';
-import { type SolveOptions, type SolveOutcome, DEFAULT_TOLERANCE, stopReason, fmt, allFinite } from './types';
+import { type SolveOptions, type SolveOutcome, type NonFiniteReport, DEFAULT_TOLERANCE, stopReason, allFinite, nonFiniteReport } from './types';
 import type { StopCode } from '../result';
 import { PivotedQR } from '../linalg/qr';
 import { copyR } from '../linalg/damped';
@@ -39,15 +50,21 @@ import { norm2, EPSILON } from '../linalg/norm';
 import { LMParameter } from './lm-parameter';
 import { project, freeSet } from './bounds';
 import { polishGaussNewton } from './polish';
+import { stopText } from './messages';
+import { validateSolveOptions } from './options';
+import { LM_STAGNATION, StagnationWatch } from './stagnation';
+import { TraceRecorder, finiteOrNull } from './trace';
 
 /** Initial trust radius factor (Moré 1978 §6: 100). */
 const STEP_FACTOR = 100;
+/** Smallest ratio ρ of an accepted step (Moré 1978 §4: 1e-4). */
+const ACCEPT_RATIO = 1e-4;
 
 export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64Array, options: SolveOptions = {}): SolveOutcome {
   const { n, p, lower, upper } = problem;
-  const ftol = options.ftol ?? DEFAULT_TOLERANCE;
-  const xtol = options.xtol ?? DEFAULT_TOLERANCE;
-  const gtol = options.gtol ?? DEFAULT_TOLERANCE;
+  const ftol = options.reductionTolerance ?? DEFAULT_TOLERANCE;
+  const xtol = options.stepTolerance ?? DEFAULT_TOLERANCE;
+  const gtol = options.gradientTolerance ?? DEFAULT_TOLERANCE;
   const maxIter = options.maxIterations ?? 1000;
   const maxFev = options.maxEvaluations ?? Math.max(2000, 2 * maxIter, 100 * (p + 1));
 
@@ -58,17 +75,21 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
   let nfev = 0;
   let njev = 0;
   let iterations = 0;
+  const recorder = options.trace ? new TraceRecorder('levenberg_marquardt') : null;
+  let nonFinite: NonFiniteReport | null = null;
+  /** A trial step was evaluated (a non-finite stop is then not about the starting values). */
+  let started = false;
   const finish = (code: StopCode, message: string, jacobianCurrent: boolean): SolveOutcome => {
     if (!jacobianCurrent && n > 0 && p > 0 && code !== 'non_finite') {
       problem.jacobian(x, jac);
       njev++;
     }
     const stop = stopReason(code, message);
-    if (code === 'small_step' && iterations === 0) {
+    if ((code === 'small_step' || (code === 'non_finite' && started)) && iterations === 0) {
       // Every trial step from the start was rejected until the trust region
       // collapsed: the point never moved, so this is not evidence of an optimum.
       stop.converged = false;
-      stop.message += '; no step was accepted from the starting values (try other starting values or a tighter tolerance)';
+      stop.message += stopText.noStepAccepted;
     }
     if (stop.converged && options.polish !== false) {
       // Workspace shared with polishing (its QR buffer and two n-vectors), so no
@@ -76,22 +97,31 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
       const c = polishGaussNewton(problem, { x, r, jac }, 30, qr !== null ? { qr, b: wa, rt } : undefined);
       nfev += c.evaluations;
       njev += c.jacobianEvaluations;
-      if (c.steps > 0) stop.message += `; then ${c.steps} Gauss–Newton polishing step(s)`;
+      if (c.steps > 0) stop.message += stopText.polished(c.steps);
     }
     let ss = 0;
     for (let i = 0; i < n; i++) ss += r[i] * r[i];
-    return { theta: x, residuals: r, jacobian: jac, cost: 0.5 * ss, stop, iterations, evaluations: nfev, jacobianEvaluations: njev };
+    return {
+      theta: x, residuals: r, jacobian: jac, cost: 0.5 * ss, stop, iterations, evaluations: nfev, jacobianEvaluations: njev,
+      ...(recorder ? { trace: recorder.result() } : {}),
+      ...(code === 'non_finite' && nonFinite ? { nonFinite } : {}),
+    };
   };
   // Work arrays, allocated once (qr, wa, rt before the first `finish` that may polish).
   let qr: PivotedQR | null = null;
   const wa = new Float64Array(n);
   const rt = new Float64Array(n);
-  if (n === 0) return finish('failed', 'no data rows to fit', true);
+  const invalid = validateSolveOptions(options);
+  if (invalid !== null) return finish('failed', stopText.invalidOption(invalid), true);
+  if (n === 0) return finish('failed', stopText.noRows, true);
 
   problem.residuals(x, r);
   nfev++;
-  if (!allFinite(r)) return finish('non_finite', 'residuals at the starting values are not finite', true);
-  if (p === 0) return finish('small_gradient', 'no free parameters to fit', true);
+  if (!allFinite(r)) {
+    nonFinite = nonFiniteReport('residuals', r, n, 1, x);
+    return finish('non_finite', stopText.startNotFinite('residuals'), true);
+  }
+  if (p === 0) return finish('small_gradient', stopText.noFreeParameters, true);
   let fnorm = norm2(r);
 
   const qrf = new PivotedQR(n, p);
@@ -109,6 +139,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
   const blocked = new Uint8Array(p);
   const lmpar = new LMParameter(p);
   const bounded = lower !== undefined || upper !== undefined;
+  const watch = new StagnationWatch(p, { ...LM_STAGNATION, costTolerance: Math.max(LM_STAGNATION.costTolerance, ftol) });
 
   let par = 0;
   let delta = 0;
@@ -116,9 +147,9 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
   /** Before the first accepted step (Moré's iter = 1). */
   let first = true;
   let initialised = false;
-  /** A new point was accepted (its Jacobian not yet checked and factored). */
+  /** A new point was accepted (its Jacobian not yet factored). */
   let needJacobian = true;
-  /** `jac` holds J(x). False after x moved without a combined evaluation, or after a rejected combined trial. */
+  /** `jac` holds J(x). False after a rejected combined trial (it then holds J(trial)). */
   let jacAtX = false;
   /**
    * Combined trial evaluation: when the problem offers `residualsAndJacobian`,
@@ -130,15 +161,19 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
   const combined = problem.residualsAndJacobian?.bind(problem);
 
   for (;;) {
-    if (options.cancel?.cancelled) return finish('cancelled', `cancelled after ${iterations} iteration(s)`, jacAtX);
-    if (needJacobian && iterations >= maxIter) return finish('max_iterations', `reached the iteration limit ${maxIter}`, jacAtX);
+    if (options.cancel?.cancelled) return finish('cancelled', stopText.cancelled(iterations), jacAtX);
+    if (needJacobian && iterations >= maxIter) return finish('max_iterations', stopText.maxIterations(maxIter), jacAtX);
     if (!jacAtX) {
       problem.jacobian(x, jac);
       njev++;
       jacAtX = true;
+      // Only the starting point can get here with a non-finite J: accepted points have a finite one.
+      if (!allFinite(jac)) {
+        nonFinite = nonFiniteReport('jacobian', jac, n, p, x);
+        return finish('non_finite', stopText.startNotFinite('jacobian'), true);
+      }
     }
     if (needJacobian) {
-      if (!allFinite(jac)) return finish('non_finite', `Jacobian not finite at iteration ${iterations}`, true);
       blocked.fill(0);
       needJacobian = false;
     }
@@ -150,7 +185,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
     }
     const q = bounded ? freeSet(x, grad, lower, upper, blocked, free) : p;
     if (!bounded) for (let j = 0; j < p; j++) free[j] = j;
-    if (q === 0) return finish('small_gradient', 'every parameter is held at a bound by the gradient (projected gradient 0)', true);
+    if (q === 0) return finish('small_gradient', stopText.allAtBounds, true);
     if (q === p) qrf.factor(jac, n, p, { pivot: true });
     else {
       jf ??= new Float64Array(n * p);
@@ -189,7 +224,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
         gnorm = Math.max(gnorm, Math.abs(s / cn));
       }
     }
-    if (gnorm <= gtol) return finish('small_gradient', `scaled gradient ${fmt(gnorm)} <= gtol ${fmt(gtol)}`, jacAtX);
+    if (gnorm <= gtol) return finish('small_gradient', stopText.smallGradient(gnorm, gtol), jacAtX);
     // Column norms: the factorisation computed them (same norm2 on the same numbers) when every column is free.
     for (let j = 0; j < p; j++) diag[j] = Math.max(diag[j], q === p ? qrf.norms[j] : norm2(jac, j * n, n));
     for (let k = 0; k < q; k++) dF[k] = diag[free[k]];
@@ -227,8 +262,15 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
         jacAtX = false;
       } else problem.residuals(xt, rt);
       nfev++;
-      const fnorm1 = allFinite(rt) ? norm2(rt) : Infinity;
-      const actred = 0.1 * fnorm1 < fnorm ? 1 - (fnorm1 / fnorm) ** 2 : -1;
+      started = true;
+      let trialFinite = allFinite(rt);
+      if (!trialFinite) nonFinite = nonFiniteReport('residuals', rt, n, 1, xt);
+      else if (withJacobian && !allFinite(jac)) {
+        trialFinite = false;
+        nonFinite = nonFiniteReport('jacobian', jac, n, p, xt);
+      }
+      let fnorm1 = trialFinite ? norm2(rt) : Infinity;
+      let actred = 0.1 * fnorm1 < fnorm ? 1 - (fnorm1 / fnorm) ** 2 : -1;
 
       let prered: number;
       let dirder: number;
@@ -257,7 +299,19 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
         prered = -(2 * rjs + js2) / f2;
         dirder = rjs / f2;
       }
-      const ratio = prered !== 0 ? actred / prered : 0;
+      let ratio = prered !== 0 ? actred / prered : 0;
+      if (ratio >= ACCEPT_RATIO && !withJacobian) {
+        // A step about to be accepted needs a finite Jacobian at its point (J(x) is no longer read).
+        problem.jacobian(xt, jac);
+        njev++;
+        jacAtX = false;
+        if (!allFinite(jac)) {
+          nonFinite = nonFiniteReport('jacobian', jac, n, p, xt);
+          fnorm1 = Infinity;
+          actred = -1;
+          ratio = prered !== 0 ? actred / prered : 0;
+        }
+      }
 
       if (ratio <= 0.25) {
         let t = actred >= 0 ? 0.5 : (0.5 * dirder) / (dirder + 0.5 * actred);
@@ -268,7 +322,11 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
         delta = pnorm / 0.5;
         par *= 0.5;
       }
-      const accepted = ratio >= 1e-4;
+      const accepted = ratio >= ACCEPT_RATIO;
+      recorder?.add({
+        iteration: iterations, cost: 0.5 * fnorm * fnorm, trialCost: finiteOrNull(0.5 * fnorm1 * fnorm1), gradient: gnorm,
+        step: pnorm, radius: delta, ratio: Number.isFinite(fnorm1) ? ratio : null, accepted,
+      });
       if (accepted) {
         x.set(xt);
         r.set(rt);
@@ -279,22 +337,30 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
         iterations++;
         first = false;
         needJacobian = true;
-        jacAtX = withJacobian;
+        // jac holds J(x): from the combined evaluation or the acceptance check above
+        jacAtX = true;
+        nonFinite = null;
         options.onIteration?.(iterations, 0.5 * fnorm * fnorm);
+        const stalled = watch.record(0.5 * fnorm * fnorm, x);
+        if (stalled) return finish('stagnated', stopText.stagnated(stalled, watch.settings.costTolerance, watch.settings.stepTolerance), true);
       }
       const current = jacAtX;
       if (Math.abs(actred) <= ftol && prered <= ftol && 0.5 * ratio <= 1) {
-        return finish('small_reduction', `relative reduction ${fmt(Math.abs(actred))} <= ftol ${fmt(ftol)} (predicted ${fmt(prered)})`, current);
+        return finish('small_reduction', stopText.smallReduction(Math.abs(actred), ftol, prered), current);
       }
       if (delta <= xtol * xnorm) {
-        return finish('small_step', `trust-region radius ${fmt(delta)} <= xtol·‖Dθ‖ = ${fmt(xtol * xnorm)}`, current);
+        if (!accepted && nonFinite) return finish('non_finite', stopText.noFiniteStep(nonFinite.what, delta), current);
+        return finish('small_step', stopText.smallRadius(delta, xtol * xnorm), current);
       }
-      if (nfev >= maxFev) return finish('max_evaluations', `reached the evaluation limit ${maxFev}`, current);
+      if (nfev >= maxFev) return finish('max_evaluations', stopText.maxEvaluations(maxFev), current);
       if (Math.abs(actred) <= EPSILON && prered <= EPSILON && 0.5 * ratio <= 1) {
-        return finish('small_reduction', `relative reduction ${fmt(Math.abs(actred))} at machine precision`, current);
+        return finish('small_reduction', stopText.smallReductionRounding(Math.abs(actred)), current);
       }
-      if (delta <= EPSILON * xnorm) return finish('small_step', `trust-region radius ${fmt(delta)} at machine precision of ‖Dθ‖ = ${fmt(xnorm)}`, current);
-      if (gnorm <= EPSILON) return finish('small_gradient', `scaled gradient ${fmt(gnorm)} at machine precision`, current);
+      if (delta <= EPSILON * xnorm) {
+        if (!accepted && nonFinite) return finish('non_finite', stopText.noFiniteStep(nonFinite.what, delta), current);
+        return finish('small_step', stopText.smallRadiusRounding(delta, xnorm), current);
+      }
+      if (gnorm <= EPSILON) return finish('small_gradient', stopText.smallGradientRounding(gnorm), current);
       if (accepted) break;
     }
   }

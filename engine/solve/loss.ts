@@ -11,14 +11,16 @@
  * regression using iteratively reweighted least-squares", Comm. Statist.
  * Theory Methods 6 (1977) 813-827): with weights wᵢ = ρ′(rᵢ²/c²) frozen at
  * the current θ, the weighted problem min ½Σ wᵢrᵢ² is solved by
- * Levenberg–Marquardt, then the weights are renewed. Since these ρ are
+ * Levenberg–Marquardt (the interior reflective method with bounds,
+ * `nonlinear.ts`), then the weights are renewed. Since these ρ are
  * concave in z, each reweighted problem majorises the robust cost, so the
  * robust cost never increases (an MM algorithm: Lange, Hunter & Yang,
  * J. Comput. Graph. Statist. 9 (2000) 1-20).
  *
  * Stopping (documented): at most 100 reweightings (`maxReweightings`); stop
- * when the relative decrease of the robust cost is ≤ ftol (default 1e-10)
- * and the largest relative parameter change |Δθⱼ|/(|θⱼ| + 1e-10) is ≤ √ftol;
+ * when the relative decrease of the robust cost is ≤ the reduction tolerance
+ * τ (default 1e-10) and the largest relative parameter change
+ * |Δθⱼ|/(|θⱼ| + 1e-10) is ≤ √τ;
  * a non-converged inner LM stop ends the iteration with that stop.
  * The outcome's residuals and Jacobian are the unweighted ones at the final
  * θ, `robustWeights` the final wᵢ and `cost` the robust cost.
@@ -26,7 +28,7 @@
 import type { LossKind } from '../../parser/plan';
 import type { LeastSquaresProblem } from './problem';
 import { type SolveOptions, type SolveOutcome, DEFAULT_TOLERANCE, stopReason, fmt } from './types';
-import { levenbergMarquardt } from './lm';
+import { solveNonlinear } from './nonlinear';
 
 export interface RobustOptions extends SolveOptions {
   /** Reweighting limit. Default 100. */
@@ -89,10 +91,10 @@ function weighted(problem: LeastSquaresProblem, sqrtW: Float64Array): LeastSquar
 }
 
 export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, loss: LossKind, scale: number, options: RobustOptions = {}): SolveOutcome {
-  if (loss === 'squared') return levenbergMarquardt(problem, theta0, options);
+  if (loss === 'squared') return solveNonlinear(problem, theta0, options);
   if (!(scale > 0) || !Number.isFinite(scale)) throw new RangeError('loss scale must be a positive finite number');
   const { n, p } = problem;
-  const ftol = options.ftol ?? DEFAULT_TOLERANCE;
+  const ftol = options.reductionTolerance ?? DEFAULT_TOLERANCE;
   const maxRe = options.maxReweightings ?? 100;
   const c2 = scale * scale;
   // The inner solves report nothing themselves: progress is the robust cost per reweighting.
@@ -107,6 +109,7 @@ export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, lo
   let evaluations = 1;
   let jacobianEvaluations = 0;
   let last: SolveOutcome | null = null;
+  let nonFinite: SolveOutcome['nonFinite'];
   let message = '';
   let code: SolveOutcome['stop']['code'] = 'max_iterations';
   for (let k = 1; k <= maxRe; k++) {
@@ -115,11 +118,11 @@ export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, lo
       weights[i] = rhoPrime(loss, (r[i] * r[i]) / c2);
       sqrtW[i] = Math.sqrt(weights[i]);
     }
-    last = levenbergMarquardt(weighted(problem, sqrtW), theta, inner);
+    last = solveNonlinear(weighted(problem, sqrtW), theta, inner);
     iterations += last.iterations;
     evaluations += last.evaluations + 1;
     jacobianEvaluations += last.jacobianEvaluations;
-    if (!last.stop.converged) { code = last.stop.code; message = `reweighting ${k}: ${last.stop.message}`; theta = last.theta; break; }
+    if (!last.stop.converged) { code = last.stop.code; message = `reweighting ${k}: ${last.stop.message}`; theta = last.theta; nonFinite = last.nonFinite; break; }
     let change = 0;
     for (let j = 0; j < p; j++) change = Math.max(change, Math.abs(last.theta[j] - theta[j]) / (Math.abs(theta[j]) + DEFAULT_TOLERANCE));
     theta = Float64Array.from(last.theta);
@@ -129,7 +132,7 @@ export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, lo
     cost = next;
     if (reduction <= ftol && change <= Math.sqrt(ftol)) {
       code = 'small_reduction';
-      message = `IRLS: relative robust-cost change ${fmt(Math.abs(reduction))} <= ftol ${fmt(ftol)} and parameter change ${fmt(change)} <= √ftol after ${k} reweighting(s)`;
+      message = `IRLS: relative robust-cost change ${fmt(Math.abs(reduction))} below the reduction tolerance ${fmt(ftol)} and parameter change ${fmt(change)} below its square root after ${k} reweighting(s)`;
       break;
     }
     if (k === maxRe) message = `IRLS: reached ${maxRe} reweightings (last relative change ${fmt(reduction)})`;
@@ -143,5 +146,7 @@ export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, lo
   return {
     theta, residuals: r, jacobian: jac, cost: robustCost(loss, scale, r),
     stop: stopReason(code, message), iterations, evaluations, jacobianEvaluations, robustWeights: weights,
+    ...(last?.trace ? { trace: last.trace } : {}),
+    ...(code === 'non_finite' && nonFinite ? { nonFinite } : {}),
   };
 }

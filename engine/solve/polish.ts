@@ -16,7 +16,8 @@
  * Documented rules (scaled norms ‖δ‖_D = ‖diag(‖Jⱼ‖)·δ‖):
  *  - at most `maxSteps` (default 30) steps;
  *  - stop when ‖δ‖_D ≤ ε·‖θ‖_D (ε = 2⁻⁵²): nothing left to resolve;
- *  - a trial point θ + δ is kept when it lies inside the bounds, its
+ *  - a trial point θ + δ is kept when it lies inside the bounds (strictly
+ *    inside after the interior reflective method), its
  *    residuals and Jacobian are finite, the cost did not grow by more than
  *    GROWTH = 1e-10 relative (beyond any rounding noise, which reaches ~1e-11
  *    for small-residual fits) and the next step contracts: ‖δ⁺‖_D ≤ 0.9·‖δ‖_D
@@ -76,7 +77,8 @@ export interface PolishWorkspace {
   rt: Float64Array;
 }
 
-export function polishGaussNewton(problem: LeastSquaresProblem, s: PolishState, maxSteps = 30, work?: PolishWorkspace): PolishCount {
+/** `strictInterior`: trial points must lie strictly inside the bounds (the interior reflective method), not merely inside. */
+export function polishGaussNewton(problem: LeastSquaresProblem, s: PolishState, maxSteps = 30, work?: PolishWorkspace, strictInterior = false): PolishCount {
   const { n, p, lower, upper } = problem;
   const count: PolishCount = { steps: 0, evaluations: 0, jacobianEvaluations: 0 };
   if (n === 0 || p === 0 || n < p) return count;
@@ -102,6 +104,7 @@ export function polishGaussNewton(problem: LeastSquaresProblem, s: PolishState, 
     for (let j = 0; j < p; j++) {
       xt[j] = s.x[j] + delta[j];
       if ((lower && xt[j] < lower[j]) || (upper && xt[j] > upper[j])) inside = false;
+      if (strictInterior && ((lower && xt[j] === lower[j]) || (upper && xt[j] === upper[j]))) inside = false;
     }
     if (!inside) break;
     problem.residuals(xt, rt);

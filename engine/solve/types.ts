@@ -1,27 +1,50 @@
 /**
  * Options and outcome shared by the solvers (linear QR, Levenberg–Marquardt,
- * gradient descent, robust IRLS).
+ * the interior reflective trust region, gradient descent, robust IRLS).
+ * Options are checked by `validateSolveOptions` (`options.ts`) before a
+ * solver starts; an invalid option gives a `failed` stop that says which.
  */
 import type { StopReason, StopCode } from '../result';
+import type { SolverTrace } from './trace';
 import type { CancelToken } from './problem';
+
+/** How bound-constrained nonlinear problems are solved (`index.ts` `solveNonlinear`). */
+export type BoundsMethod = 'reflective' | 'projection';
 
 export interface SolveOptions {
   /** Iteration limit. Default 1000 (LM: the hardest NIST StRD starts need up to ~750), 100000 (gradient descent). */
   maxIterations?: number;
   /** Residual-evaluation limit. Default max(2000, 2·maxIterations, 100·(p + 1)) for LM, 2·maxIterations + 600 for gradient descent. */
   maxEvaluations?: number;
-  /** Relative cost-reduction tolerance (see each solver for its inequality). Default 1e-10. */
-  ftol?: number;
-  /** Relative step tolerance. Default 1e-10. */
-  xtol?: number;
+  /** Relative cost-reduction tolerance (see each solver for its inequality). Default 1e-10 (gradient descent 1e-15). */
+  reductionTolerance?: number;
+  /** Relative step tolerance. Default 1e-10 (gradient descent 1e-15). */
+  stepTolerance?: number;
   /** Scaled-gradient tolerance. Default 1e-10. */
-  gtol?: number;
+  gradientTolerance?: number;
   /** Checked once per iteration. */
   cancel?: CancelToken;
-  /** LM: Gauss–Newton polishing after a converged stop (`polish.ts`). Default true. */
+  /** LM and reflective: Gauss–Newton polishing after a converged stop (`polish.ts`). Default true. */
   polish?: boolean;
   /** Called after each accepted iteration with the cost ½‖r‖². */
   onIteration?: (it: number, cost: number) => void;
+  /** Record a per-iteration trace in the outcome (`trace.ts`). Default false. */
+  trace?: boolean;
+  /** Bounded nonlinear problems: interior reflective trust region (default) or projection with an active set. */
+  bounds?: BoundsMethod;
+}
+
+/** Where the model stopped being finite: rows, parameters and the parameter values (located by the run layer). */
+export interface NonFiniteReport {
+  what: 'residuals' | 'jacobian';
+  /** 0-based residual indices, the first few (at most NON_FINITE_ROWS). */
+  rows: number[];
+  /** Number of rows with a non-finite entry. */
+  count: number;
+  /** Free-parameter indices whose Jacobian column has a non-finite entry (empty for residuals). */
+  parameters: number[];
+  /** The parameter values at which it happened. */
+  theta: number[];
 }
 
 export interface SolveOutcome {
@@ -40,13 +63,18 @@ export interface SolveOutcome {
   rank?: number;
   /** Robust fits: final IRLS weights ρ′(rᵢ²/c²) per residual. */
   robustWeights?: Float64Array;
+  /** Per-iteration trace, when `options.trace` was set. */
+  trace?: SolverTrace;
+  /** With a `non_finite` stop: where the residuals or the Jacobian were not finite. */
+  nonFinite?: NonFiniteReport;
 }
 
 export const DEFAULT_TOLERANCE = 1e-10;
 
+const CONVERGED: ReadonlySet<StopCode> = new Set(['exact', 'small_reduction', 'small_step', 'small_gradient']);
+
 export function stopReason(code: StopCode, message: string): StopReason {
-  const converged = code === 'exact' || code === 'small_reduction' || code === 'small_step' || code === 'small_gradient';
-  return { code, message, converged };
+  return { code, message, converged: CONVERGED.has(code) };
 }
 
 /** Short exponential notation for stop messages, e.g. 3.1e-13. */
@@ -66,4 +94,32 @@ export function halfSumSquares(r: Float64Array): number {
   let s = 0;
   for (let i = 0; i < r.length; i++) s += r[i] * r[i];
   return 0.5 * s;
+}
+
+/** Most rows named in a non-finite report. */
+export const NON_FINITE_ROWS = 5;
+
+/** Locate the non-finite entries of r (length n) or of J (n×p column-major). */
+export function nonFiniteReport(what: NonFiniteReport['what'], values: Float64Array, n: number, p: number, theta: Float64Array): NonFiniteReport {
+  const cols = what === 'residuals' ? 1 : p;
+  const bad = new Uint8Array(n);
+  const parameters: number[] = [];
+  for (let j = 0; j < cols; j++) {
+    let any = false;
+    for (let i = 0; i < n; i++) {
+      if (!Number.isFinite(values[j * n + i])) {
+        bad[i] = 1;
+        any = true;
+      }
+    }
+    if (any && what === 'jacobian') parameters.push(j);
+  }
+  const rows: number[] = [];
+  let count = 0;
+  for (let i = 0; i < n; i++) {
+    if (!bad[i]) continue;
+    count++;
+    if (rows.length < NON_FINITE_ROWS) rows.push(i);
+  }
+  return { what, rows, count, parameters, theta: Array.from(theta) };
 }

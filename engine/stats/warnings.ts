@@ -1,7 +1,12 @@
 /**
  * Fit warnings from the finished statistics. Thresholds and texts live in
  * engine/messages.ts (WARNING_THRESHOLDS, warningText); each rule below says
- * which inequality triggers it.
+ * which inequality triggers it. A fit that did not converge gets only the
+ * warnings about its input and its stop (guessed starts, dropped rows, no
+ * convergence, few degrees of freedom, a parameter at a bound at the last
+ * iterate): the statistical ones (rank, conditioning, correlation, residual
+ * patterns and normality, the R² caveat) describe a fitted result and are
+ * withheld (engine/run/fit-stats.ts).
  */
 import { WARNING_THRESHOLDS as T, num, warningText } from '../messages';
 import type { FitWarning, ResidualDiagnostics, StopReason } from '../result';
@@ -48,6 +53,7 @@ export function fitWarnings(input: WarningInput): FitWarning[] {
       out.push({ code: 'at_bound', message: warningText.at_bound(par.name, side, side === 'lower' ? par.lower : par.upper), parameters: [par.name] });
     }
   }
+  if (!input.stop.converged) return out;
   if (input.rank < p) {
     const undetermined = input.undetermined;
     out.push({ code: 'rank_deficient', message: warningText.rank_deficient(input.rank, p, undetermined), parameters: undetermined });

@@ -10,8 +10,8 @@ describe('engine/solve/descent gradientDescent', () => {
   it('converges to the linear least-squares solution with feature scaling', () => {
     const y = xs.map((x, i) => 4 + 0.5 * x + 0.2 * noise(i));
     const p = fitProblem('a + b*x', ['a', 'b'], xs, y);
-    // ftol 0: run until the gradient test or exact stagnation (the default reduction test stops ~1e-8 early).
-    const gd = gradientDescent(p, Float64Array.from([0, 0]), { gtol: 1e-12, ftol: 0 });
+    // reduction tolerance 0: run until the gradient test or exact stagnation (the default reduction test stops ~1e-8 early).
+    const gd = gradientDescent(p, Float64Array.from([0, 0]), { gradientTolerance: 1e-12, reductionTolerance: 0 });
     const lin = solveLinear(p);
     expect(gd.stop.converged).toBe(true);
     expect(gd.theta[0]).toBeCloseTo(lin.theta[0], 8);
@@ -28,7 +28,7 @@ describe('engine/solve/descent gradientDescent', () => {
     const y = xs.map((x, i) => 3 * Math.exp(-0.4 * x) + 0.01 * noise(i));
     const p = fitProblem('a*exp(-b*x)', ['a', 'b'], xs, y);
     const lm = levenbergMarquardt(p, Float64Array.from([1, 1]));
-    const gd = gradientDescent(p, Float64Array.from([1, 1]), { maxIterations: 200000, gtol: 1e-9 });
+    const gd = gradientDescent(p, Float64Array.from([1, 1]), { maxIterations: 200000, gradientTolerance: 1e-9 });
     expect(gd.iterations).toBeGreaterThan(10 * lm.iterations);
     expect(gd.theta[0]).toBeCloseTo(lm.theta[0], 5);
     expect(gd.theta[1]).toBeCloseTo(lm.theta[1], 5);

@@ -12,6 +12,14 @@
  * Marquardt (tolerances below); linear ones with the QR solver. Standard
  * errors are √(s²·(JᵀJ)⁻¹ⱼⱼ), s² = RSS/(n − p).
  *
+ * Solver variants (the comparison behind engine/solve/nonlinear.ts):
+ * `lm` (the default path without bounds), `reflective` (the interior
+ * reflective trust region) and `projection` (LM with projection and an active
+ * set), optionally with sign bounds (`bounds: 'sign'`): a parameter whose
+ * certified value and both starts are positive gets [0, inf], all negative
+ * [-inf, 0] — the bounds a user who knows the signs would write; they hold at
+ * the certified minimum but may be met on the way.
+ *
  * Rounding-level residuals (documented floor): when the certified RSS is
  * positive but below 1e-20·Σy² (only Lanczos1: RSS 1.4e-25 for Σy² ≈ 9), the residuals
  * are at the rounding level of the data and of double-precision model
@@ -29,17 +37,54 @@ import { NONLINEAR_MODELS, LINEAR_MODELS, modelExpr } from './models';
 import { compileModel, compileColumnExpr } from '../../engine/compile/index';
 import { modelProblem } from '../../engine/solve/model-problem';
 import { levenbergMarquardt } from '../../engine/solve/lm';
+import { reflectiveTrustRegion } from '../../engine/solve/reflective';
 import { solveLinear } from '../../engine/solve/linear';
 import { unscaledCovariance, standardErrors } from '../../engine/stats/covariance';
 import type { SolveOptions, SolveOutcome } from '../../engine/solve/types';
 
 /** LM settings for the certification runs: tight tolerances, generous limits. */
-export const STRD_LM_OPTIONS: SolveOptions = { ftol: 1e-15, xtol: 1e-15, gtol: 1e-15, maxIterations: 5000, maxEvaluations: 50000 };
+export const STRD_LM_OPTIONS: SolveOptions = { reductionTolerance: 1e-15, stepTolerance: 1e-15, gradientTolerance: 1e-15, maxIterations: 5000, maxEvaluations: 50000 };
 
 /** Relative floor for rounding-level RSS (see module comment). */
 export const RSS_FLOOR_RELATIVE = 1e-20;
 
 export const TARGETS = { nls: { params: 7, se: 6, rss: 6 }, lls: { params: 9, se: 6, rss: 6 } } as const;
+
+/**
+ * Interchangeable terms (parameter indices per term): a fit that lands on the
+ * certified minimum with the terms swapped has the same residual sum of
+ * squares and the same curve (two exponentials or two Gaussian peaks
+ * exchanged). `minLreRelabelled` scores the best assignment.
+ */
+export const INTERCHANGEABLE: Record<string, number[][]> = {
+  Lanczos1: [[0, 1], [2, 3], [4, 5]],
+  Lanczos2: [[0, 1], [2, 3], [4, 5]],
+  Lanczos3: [[0, 1], [2, 3], [4, 5]],
+  MGH17: [[1, 3], [2, 4]],
+  Gauss1: [[2, 3, 4], [5, 6, 7]],
+  Gauss2: [[2, 3, 4], [5, 6, 7]],
+  Gauss3: [[2, 3, 4], [5, 6, 7]],
+};
+
+function permutations<T>(xs: T[]): T[][] {
+  if (xs.length <= 1) return [xs];
+  return xs.flatMap((x, i) => permutations([...xs.slice(0, i), ...xs.slice(i + 1)]).map((rest) => [x, ...rest]));
+}
+
+/** Min LRE over the parameters under the best relabelling of interchangeable terms. */
+export function relabelledLre(ds: StrdDataset, theta: ArrayLike<number>): number {
+  const score = (est: number[]) => Math.min(...ds.parameters.map((q, j) => lre(est[j], q.certified, q.digits)));
+  const base = Array.from(theta);
+  const groups = INTERCHANGEABLE[ds.name];
+  if (!groups) return score(base);
+  let best = -Infinity;
+  for (const order of permutations(groups.map((_, k) => k))) {
+    const est = base.slice();
+    groups.forEach((g, k) => g.forEach((j, m) => { est[j] = base[groups[order[k]][m]]; }));
+    best = Math.max(best, score(est));
+  }
+  return best;
+}
 
 export interface StrdRow {
   dataset: string;
@@ -47,6 +92,8 @@ export interface StrdRow {
   /** NIST start 1 or 2 (nonlinear), null for linear datasets. */
   start: 1 | 2 | null;
   minLreParams: number;
+  /** As `minLreParams`, under the best relabelling of interchangeable terms (INTERCHANGEABLE). */
+  minLreRelabelled: number;
   minLreSE: number;
   lreRSS: number;
   /** True when the RSS/SE floor rule applied. */
@@ -72,7 +119,28 @@ function sumSquares(x: Float64Array): number {
   return s;
 }
 
-export function fitDataset(ds: StrdDataset, start: 1 | 2 | null, options: SolveOptions = STRD_LM_OPTIONS): StrdRow {
+export type StrdSolver = 'lm' | 'reflective' | 'projection';
+
+export interface StrdVariant {
+  solver: StrdSolver;
+  bounds: 'none' | 'sign';
+}
+
+export const DEFAULT_VARIANT: StrdVariant = { solver: 'lm', bounds: 'none' };
+
+/** Sign bounds of a dataset (module comment): lower and upper per parameter. */
+export function signBounds(ds: StrdDataset): { lower: Float64Array; upper: Float64Array } {
+  const lower = new Float64Array(ds.parameters.length).fill(-Infinity);
+  const upper = new Float64Array(ds.parameters.length).fill(Infinity);
+  ds.parameters.forEach((q, j) => {
+    const values = [q.certified, ...(q.starts ?? [])];
+    if (values.every((v) => v > 0)) lower[j] = 0;
+    else if (values.every((v) => v < 0)) upper[j] = 0;
+  });
+  return { lower, upper };
+}
+
+export function fitDataset(ds: StrdDataset, start: 1 | 2 | null, options: SolveOptions = STRD_LM_OPTIONS, variant: StrdVariant = DEFAULT_VARIANT): StrdRow {
   const params = ds.parameters.map((q) => q.name);
   const spec = (ds.kind === 'nls' ? NONLINEAR_MODELS : LINEAR_MODELS)[ds.name];
   if (!spec) throw new Error(`no model for ${ds.name}`);
@@ -81,11 +149,15 @@ export function fitDataset(ds: StrdDataset, start: 1 | 2 | null, options: SolveO
   const compiled = compileModel(model, params, predictors);
   const y = new Float64Array(ds.n);
   compileColumnExpr(response, ds.columns)(ds.data, ds.n, y);
-  const problem = modelProblem({ model: compiled, columns: ds.data.slice(1), response: y, n: ds.n });
+  const bounds = variant.bounds === 'sign' && start !== null ? signBounds(ds) : {};
+  const problem = modelProblem({ model: compiled, columns: ds.data.slice(1), response: y, n: ds.n, ...bounds });
 
   let out: SolveOutcome;
   if (start === null) out = solveLinear(problem);
-  else out = levenbergMarquardt(problem, Float64Array.from(ds.parameters.map((q) => q.starts![start - 1])), options);
+  else {
+    const theta0 = Float64Array.from(ds.parameters.map((q) => q.starts![start - 1]));
+    out = variant.solver === 'reflective' ? reflectiveTrustRegion(problem, theta0, options) : levenbergMarquardt(problem, theta0, options);
+  }
 
   const n = ds.n;
   const p = params.length;
@@ -107,18 +179,18 @@ export function fitDataset(ds: StrdDataset, start: 1 | 2 | null, options: SolveO
     lreRSS = lre(rss, ds.rss, ds.rssDigits);
   }
   return {
-    dataset: ds.name, kind: ds.kind, start, minLreParams, minLreSE, lreRSS, floor,
+    dataset: ds.name, kind: ds.kind, start, minLreParams, minLreRelabelled: relabelledLre(ds, out.theta), minLreSE, lreRSS, floor,
     iterations: out.iterations, stop: out.stop.code, stopMessage: out.stop.message,
     estimates: Array.from(out.theta), stderrs: Array.from(se), rss,
   };
 }
 
 /** Every (dataset, start) case, in NIST's order of difficulty within each kind. */
-export function runAll(names: { nls: string[]; lls: string[] }, dir?: string): StrdRow[] {
+export function runAll(names: { nls: string[]; lls: string[] }, dir?: string, variant: StrdVariant = DEFAULT_VARIANT): StrdRow[] {
   const rows: StrdRow[] = [];
   for (const name of names.nls) {
     const ds = readStrd('nls', name, dir);
-    rows.push(fitDataset(ds, 1), fitDataset(ds, 2));
+    rows.push(fitDataset(ds, 1, STRD_LM_OPTIONS, variant), fitDataset(ds, 2, STRD_LM_OPTIONS, variant));
   }
   for (const name of names.lls) rows.push(fitDataset(readStrd('lls', name, dir), null));
   return rows;

@@ -1,8 +1,11 @@
 /**
  * `npm run strd`: fits every NIST StRD regression dataset (nonlinear from
  * both starts, linear once) and prints the LRE table, then the nonlinear
- * ones written with no start values through a spec (no-start.ts); `--json`
- * prints `[{dataset, start, minLreParams, minLreSE, lreRSS, iterations, stop}]`
+ * ones written with no start values through a spec (no-start.ts). `--solver
+ * lm|reflective|projection` and `--bounds none|sign` choose the nonlinear
+ * solver variant of the first table (test/strd/run-strd.ts; default lm,
+ * none); `--json` prints
+ * `[{dataset, start, minLreParams, minLreRelabelled, minLreSE, lreRSS, iterations, stop}]`
  * with `start: "none"` for the no-start runs.
  * Exit code 0 when every case meets its target (nonlinear: parameters ≥ 7,
  * SE and RSS ≥ 6; linear: parameters ≥ 9, SE and RSS ≥ 6; no start values:
@@ -10,7 +13,7 @@
  * 2 when the data folder is missing (STRD_DIR, default ../shared/strd).
  */
 import { strdDir, strdAvailable, listDatasets, readStrd } from './read-strd';
-import { runAll, meetsTargets, NLS_ORDER, LLS_ORDER, TARGETS, type StrdRow } from './run-strd';
+import { runAll, meetsTargets, NLS_ORDER, LLS_ORDER, TARGETS, type StrdRow, type StrdVariant } from './run-strd';
 import { makeWorkDir } from './pipeline';
 import { meetsNoStartTargets, noStartTable, NO_START_TARGETS, runNoStart, type NoStartRow } from './no-start';
 
@@ -38,7 +41,14 @@ async function main(argv: string[]): Promise<number> {
     return 2;
   }
   const present = { nls: new Set(listDatasets('nls', dir)), lls: new Set(listDatasets('lls', dir)) };
-  const rows = runAll({ nls: NLS_ORDER.filter((d) => present.nls.has(d)), lls: LLS_ORDER.filter((d) => present.lls.has(d)) }, dir);
+  const flag = (name: string, allowed: string[], fallback: string): string => {
+    const k = argv.indexOf(name);
+    const v = k >= 0 ? argv[k + 1] : fallback;
+    if (!allowed.includes(v)) throw new Error(`${name} must be one of ${allowed.join(', ')}`);
+    return v;
+  };
+  const variant = { solver: flag('--solver', ['lm', 'reflective', 'projection'], 'lm'), bounds: flag('--bounds', ['none', 'sign'], 'none') } as StrdVariant;
+  const rows = runAll({ nls: NLS_ORDER.filter((d) => present.nls.has(d)), lls: LLS_ORDER.filter((d) => present.lls.has(d)) }, dir, variant);
   const failing = rows.filter((r) => !meetsTargets(r));
   const work = makeWorkDir();
   const noStart: NoStartRow[] = [];
@@ -50,12 +60,12 @@ async function main(argv: string[]): Promise<number> {
   const failingNoStart = noStart.filter((r) => !meetsNoStartTargets(r));
   if (argv.includes('--json')) {
     const out = [
-      ...rows.map(({ dataset, start, minLreParams, minLreSE, lreRSS, iterations, stop }) => ({ dataset, start, minLreParams, minLreSE, lreRSS, iterations, stop })),
-      ...noStart.map((r) => ({ dataset: r.dataset, start: 'none', minLreParams: r.minLreParams, minLreSE: r.minLreSE, lreRSS: r.lreRSS, iterations: r.fit?.iterations ?? 0, stop: r.fit?.stop.code ?? 'failed' })),
+      ...rows.map(({ dataset, start, minLreParams, minLreRelabelled, minLreSE, lreRSS, iterations, stop }) => ({ dataset, start, minLreParams, minLreRelabelled, minLreSE, lreRSS, iterations, stop })),
+      ...noStart.map((r) => ({ dataset: r.dataset, start: 'none', minLreParams: r.minLreParamsRaw, minLreRelabelled: r.minLreParams, minLreSE: r.minLreSE, lreRSS: r.lreRSS, iterations: r.fit?.iterations ?? 0, stop: r.fit?.stop.code ?? 'failed' })),
     ];
     process.stdout.write(JSON.stringify(out, null, 2) + '\n');
   } else {
-    process.stdout.write(`NIST StRD (${dir})\n\n${table(rows)}\n\n`);
+    process.stdout.write(`NIST StRD (${dir}); nonlinear solver ${variant.solver}, bounds ${variant.bounds}\n\n${table(rows)}\n\n`);
     process.stdout.write(`LRE = -log10(relative error), capped at the certified digits; minimum over parameters.\n`);
     process.stdout.write(`Targets: nonlinear params >= ${TARGETS.nls.params}, SE/RSS >= ${TARGETS.nls.se}; linear params >= ${TARGETS.lls.params}, SE/RSS >= ${TARGETS.lls.se}.\n`);
     process.stdout.write(`* rounding-level RSS (Lanczos1): RSS floor rule, SE compared as SE/s (see test/strd/run-strd.ts).\n`);

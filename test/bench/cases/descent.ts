@@ -56,7 +56,7 @@ function cases(n: number): Case[] {
 }
 
 function optimum(c: Case): number {
-  const tight = { ftol: 1e-15, xtol: 1e-15, gtol: 1e-15, maxIterations: 1000 };
+  const tight = { reductionTolerance: 1e-15, stepTolerance: 1e-15, gradientTolerance: 1e-15, maxIterations: 1000 };
   const costs = [levenbergMarquardt(c.problem, c.theta0, tight).cost];
   if (c.linear) costs.push(solveLinear(c.problem).cost);
   return Math.min(...costs);

@@ -1,0 +1,50 @@
+/**
+ * Stop messages of the iterative solvers, in one place and in plain words:
+ * each names the quantity, its value and the tolerance or limit it met
+ * (the inequalities are in each solver's module comment).
+ */
+import { fmt } from './types';
+import type { Stagnation } from './stagnation';
+import type { NonFiniteReport } from './types';
+
+export const stopText = {
+  smallReduction: (actual: number, tol: number, predicted: number) =>
+    `relative reduction ${fmt(actual)} below its tolerance ${fmt(tol)} (predicted ${fmt(predicted)})`,
+  smallReductionRounding: (actual: number) => `relative reduction ${fmt(actual)} at the rounding level of double precision`,
+  smallRadius: (radius: number, limit: number) => `trust-region radius ${fmt(radius)} below the step tolerance times the scaled parameter size (${fmt(limit)})`,
+  smallRadiusRounding: (radius: number, size: number) => `trust-region radius ${fmt(radius)} at the rounding level of the scaled parameter size ${fmt(size)}`,
+  smallGradient: (g: number, tol: number) => `scaled gradient ${fmt(g)} below its tolerance ${fmt(tol)}`,
+  smallGradientRounding: (g: number) => `scaled gradient ${fmt(g)} at the rounding level of double precision`,
+  smallScaledStep: (step: number, limit: number) => `scaled step ${fmt(step)} below the step tolerance times the scaled parameter size (${fmt(limit)})`,
+  maxIterations: (limit: number) => `reached the iteration limit ${limit}`,
+  maxEvaluations: (limit: number) => `reached the evaluation limit ${limit}`,
+  cancelled: (iterations: number) => `cancelled after ${iterations} iteration(s)`,
+  noRows: 'no data rows to fit',
+  noFreeParameters: 'no free parameters to fit',
+  allAtBounds: 'every parameter is held at a bound by the gradient (projected gradient 0)',
+  noStepAccepted: '; no step was accepted from the starting values (try other starting values or a tighter tolerance)',
+  polished: (steps: number) => `; then ${steps} Gauss–Newton polishing step(s)`,
+  stagnated: (s: Stagnation, costTolerance: number, stepTolerance: number) =>
+    `no progress over the last ${s.window} iterations: the best cost fell by a relative ${fmt(s.reduction)} (threshold ${fmt(costTolerance)}) and the best parameters moved by a relative ${fmt(s.move)} (threshold ${fmt(stepTolerance)})`,
+  deadRegion: (gamma: number, predicted: number) =>
+    `no progress possible: the scaled gradient ${fmt(gamma)} is far from 0 but the model predicts a relative reduction of only ${fmt(predicted)}; this is not a minimum (the model has lost its dependence on a parameter here, e.g. a rate constant ran off)`,
+  startNotFinite: (what: NonFiniteReport['what']) =>
+    what === 'residuals' ? 'the residuals at the starting values are not finite' : 'the Jacobian at the starting values is not finite, so no step can be computed',
+  noFiniteStep: (what: NonFiniteReport['what'], radius: number) =>
+    `no finite step: every trial near the last point gave non-finite ${what === 'residuals' ? 'residuals' : 'derivatives'} until the trust region shrank to ${fmt(radius)}`,
+  invalidOption: (message: string) => `invalid solver option: ${message}`,
+} as const;
+
+/**
+ * The located part of a non-finite stop, for the run layer: data-file lines
+ * (or 1-based row numbers when no lines are known), the parameters whose
+ * derivative was not finite and the parameter values.
+ */
+export function nonFiniteDetail(r: NonFiniteReport, names: readonly string[], lines?: ArrayLike<number>): string {
+  const rows = r.rows.map((i) => String(lines ? lines[i] : i + 1));
+  const more = r.count > rows.length ? ` and ${r.count - rows.length} more` : '';
+  const where = `${lines ? 'data line' : 'row'}${r.count === 1 ? '' : 's'} ${rows.join(', ')}${more}`;
+  const params = r.what === 'jacobian' && r.parameters.length ? ` (derivative with respect to ${r.parameters.map((j) => names[j]).join(', ')})` : '';
+  const at = names.map((name, j) => `${name} = ${fmt(r.theta[j])}`).join(', ');
+  return `not finite at ${where}${params} with ${at}`;
+}
