@@ -12,7 +12,10 @@
  *     Sobol' sample (sobol.ts) of `points` points over the box of the
  *     nonlinear parameters (box.ts), plus the start itself.
  *  3. From each design point, a partial solve: PARTIAL_ITERATIONS
- *     Levenberg–Marquardt iterations on the reduced problem (reduced.ts),
+ *     iterations (PARTIAL_EVALUATIONS evaluations at most) of the fit's
+ *     nonlinear solver (Levenberg–Marquardt, or the interior reflective
+ *     trust region with bounds: engine/solve/nonlinear.ts) on the reduced
+ *     problem (reduced.ts),
  *     on at most MAX_PARTIAL_ROWS rows (every k-th row, guess.ts thinning):
  *     partial solves only rank basins.
  *  4. The `refine` best partial results in distinct basins (every nonlinear
@@ -31,7 +34,7 @@
  */
 import type { LeastSquaresProblem } from '../problem';
 import type { SolveOptions, SolveOutcome } from '../types';
-import { levenbergMarquardt } from '../lm';
+import { solveNonlinear } from '../nonlinear';
 import type { StartInput } from './types';
 import { linearSet } from './separable';
 import { MAX_START_ROWS, thinned } from './guess';
@@ -43,6 +46,8 @@ import { addMinimum, isLower, responseScale, type Minimum } from './minima';
 
 /** LM iterations of a partial solve. */
 export const PARTIAL_ITERATIONS = 12;
+/** Residual evaluations of a partial solve at most (rejected trial steps count; a start where most steps fail is not worth more). */
+export const PARTIAL_EVALUATIONS = 4 * PARTIAL_ITERATIONS;
 /** Rows used by the partial solves (every k-th row beyond). Measured (bench case 12, 1e5-point logistic): the same minimum as with 5000 rows, the whole search in about half the time. */
 export const MAX_PARTIAL_ROWS = 1000;
 /** Two partial results are in the same basin when every nonlinear parameter agrees within this relative difference. */
@@ -96,7 +101,7 @@ export interface ExploreOutcome {
 const ssrOf = (o: SolveOutcome) => (Number.isFinite(o.cost) ? 2 * o.cost : Infinity);
 
 export function explore(input: ExploreInput): ExploreOutcome {
-  const solve = input.solve ?? levenbergMarquardt;
+  const solve = input.solve ?? solveNonlinear;
   const options = input.options ?? {};
   const cancel = options.cancel;
   const fullInput = input.start;
@@ -146,10 +151,10 @@ export function explore(input: ExploreInput): ExploreOutcome {
 
   // 3. partial solves
   const partial: { ssr: number; alpha: Float64Array }[] = [];
-  const partialOptions: SolveOptions = { maxIterations: PARTIAL_ITERATIONS, polish: false, cancel };
+  const partialOptions: SolveOptions = { maxIterations: PARTIAL_ITERATIONS, maxEvaluations: PARTIAL_EVALUATIONS, polish: false, cancel };
   for (const a of candidates) {
     if (cancel?.cancelled) break;
-    const o = count(levenbergMarquardt(partialReduced, a, partialOptions));
+    const o = count(solveNonlinear(partialReduced, a, partialOptions));
     const s = ssrOf(o);
     if (Number.isFinite(s) && o.theta.every(Number.isFinite)) partial.push({ ssr: s, alpha: Float64Array.from(o.theta) });
   }
@@ -169,7 +174,7 @@ export function explore(input: ExploreInput): ExploreOutcome {
   const starts: { r: SolveOutcome; theta: Float64Array; ssr: number }[] = [];
   for (const a of chosen) {
     if (cancel?.cancelled) break;
-    const r = count(levenbergMarquardt(reduced, a, { cancel }));
+    const r = count(solveNonlinear(reduced, a, { cancel }));
     const theta = reduced.fullTheta(r.theta.every(Number.isFinite) ? r.theta : a);
     for (let j = 0; j < theta.length; j++) theta[j] = Math.min(parameters[j].upper, Math.max(parameters[j].lower, theta[j]));
     starts.push({ r, theta, ssr: sampled ? fullSsr(input.problem, theta) : 0 });
