@@ -28,7 +28,7 @@ export type DataRequirement = 'positive_x' | 'nonnegative_x' | 'two_positive_x' 
 export interface Template {
   /** Stable id used on the command line (`--model`), e.g. `exp_decay`, `polynomial`. */
   id: string;
-  /** Plain name, e.g. "exponential decay to a plateau". */
+  /** Plain name, e.g. "exponential decay to a final level". */
   title: string;
   /** The model written with symbols, for help texts. */
   formula: string;

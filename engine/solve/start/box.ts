@@ -5,12 +5,18 @@
  * h its smallest spacing):
  *   - both bounds finite: [lower, upper]; on a log scale when
  *     0 < lower and upper/lower ≥ LOG_RATIO (or the mirror for upper < 0);
+ *     with one bound at 0 and a scale or rate role, the role's log box
+ *     (below) cut to the bounds (a potency in [0, 1000] is searched by decades,
+ *     not evenly);
  *   - location (a peak centre, a shift): the values that put it inside the
  *     data, linear scale;
- *   - scale (units of the predictor, as tau in x/tau): |p| from h to
- *     ROLE_FACTOR·S, log scale;
- *   - rate (units of 1/predictor, as k in k·x): |p| from 1/(ROLE_FACTOR·S) to
- *     1/h, log scale;
+ *   - scale (units of the predictor, as tau in x/tau): |p| from
+ *     min(h, m)/ROLE_FACTOR to ROLE_FACTOR·S (m the smallest non-zero |x|:
+ *     on log-spaced doses a potency may lie below the lowest dose), log scale;
+ *     a period inside sin or cos from 2h (shorter periods are aliases of
+ *     longer ones on evenly spaced data, with the same sum of squares);
+ *   - rate (units of 1/predictor, as k in k·x): the reciprocals, |p| from
+ *     1/(ROLE_FACTOR·S) to ROLE_FACTOR/min(h, m), to 1/(2h) inside sin or cos;
  *   (scale and rate keep the sign of g, positive when g = 0;)
  *   - otherwise, with one bound b finite: distances from b on a log scale,
  *     |g − b|/BOX_FACTOR … |g − b|·BOX_FACTOR (1/BOX_FACTOR … BOX_FACTOR
@@ -23,10 +29,8 @@
  * need not contain it.
  * BOX_FACTOR = 100: two decades either way, wide enough for a start that is
  * off by an order of magnitude and narrow enough for a few dozen points.
- * ROLE_FACTOR = 10: time constants and periods from the point spacing to ten
- * times the data range cover what the data can resolve; shorter ones decay or
- * oscillate between two points (a period below the spacing is an alias of a
- * longer one on evenly spaced data, with the same sum of squares).
+ * ROLE_FACTOR = 10: a decade beyond the finest detail and the whole range of
+ * the data covers what they can resolve.
  */
 import type { Role } from './roles';
 import type { StartParameter } from './types';
@@ -54,18 +58,16 @@ export function searchBox(par: StartParameter, guess: number, role: Role | undef
   const g = Number.isFinite(guess) ? guess : 0;
   if (lo && hi) {
     if ((lower > 0 && upper / lower >= LOG_RATIO) || (upper < 0 && lower / upper >= LOG_RATIO)) return { name, lower, upper, scale: 'log', origin: 0 };
-    return { name, lower, upper, scale: 'linear', origin: 0 };
+    const roleBox = role && role.kind !== 'location' && (lower === 0 || upper === 0) ? magnitudeBox(name, role, lower, upper, upper === 0 ? -1 : 1) : null;
+    return roleBox ?? { name, lower, upper, scale: 'linear', origin: 0 };
   }
   if (role?.kind === 'location') {
     const a = Math.max(lower, role.min);
     const b = Math.min(upper, role.max);
     if (a < b) return { name, lower: a, upper: b, scale: 'linear', origin: 0 };
   } else if (role) {
-    const [near, far] = role.kind === 'scale' ? [role.spacing, ROLE_FACTOR * role.spread] : [1 / (ROLE_FACTOR * role.spread), 1 / role.spacing];
-    const sign = g < 0 ? -1 : 1;
-    const a = Math.max(lower, sign > 0 ? near : -far);
-    const b = Math.min(upper, sign > 0 ? far : -near);
-    if (a < b && (a > 0 || b < 0)) return { name, lower: a, upper: b, scale: 'log', origin: 0 };
+    const box = magnitudeBox(name, role, lower, upper, g < 0 ? -1 : 1);
+    if (box) return box;
   }
   if (lo || hi) {
     const base = lo ? lower : upper;
@@ -81,6 +83,16 @@ export function searchBox(par: StartParameter, guess: number, role: Role | undef
   return g < 0
     ? { name, lower: -m * BOX_FACTOR, upper: -m / BOX_FACTOR, scale: 'log', origin: 0 }
     : { name, lower: m / BOX_FACTOR, upper: m * BOX_FACTOR, scale: 'log', origin: 0 };
+}
+
+/** The log box of a scale or rate role (module comment) on the side `sign`, cut to [lower, upper]; null when empty. */
+function magnitudeBox(name: string, role: Extract<Role, { kind: 'scale' | 'rate' }>, lower: number, upper: number, sign: 1 | -1): BoxSide | null {
+  const fine = role.periodic ? 2 * role.spacing : Math.min(role.spacing, role.smallest) / ROLE_FACTOR;
+  const coarse = ROLE_FACTOR * role.spread;
+  const [near, far] = role.kind === 'scale' ? [fine, coarse] : [1 / coarse, 1 / fine];
+  const a = Math.max(lower, sign > 0 ? near : -far);
+  const b = Math.min(upper, sign > 0 ? far : -near);
+  return a < b && (a > 0 || b < 0) ? { name, lower: a, upper: b, scale: 'log', origin: 0 } : null;
 }
 
 /** The value at unit coordinate u ∈ [0, 1) of a box side (log scale: |value − origin| spread geometrically). */

@@ -11,9 +11,10 @@
  *             (x − c)²/w²: p has the units of the predictor;
  *   rate      at the same power as such a factor, as k in k·x: p has the
  *             units of 1/predictor.
- * Scale and rate carry the predictor's spread S (max − min) and its
- * smallest spacing h between distinct values, and whether they sit inside
- * the argument of sin or cos (`periodic`: a period or a frequency).
+ * Scale and rate carry the predictor's spread S (max − min), its smallest
+ * spacing h between distinct values and its smallest non-zero magnitude m,
+ * and whether they sit inside the argument of sin or cos (`periodic`: a
+ * period or a frequency).
  */
 import type { Expr } from '../../../parser/plan';
 import { canonical, columnsIn, evaluate, paramsIn, type Canon } from './canonical';
@@ -25,10 +26,10 @@ export function paramsOfExpr(expr: Expr): Set<string> {
 
 export type Role =
   | { kind: 'location'; min: number; max: number }
-  | { kind: 'scale' | 'rate'; spread: number; spacing: number; periodic: boolean };
+  | { kind: 'scale' | 'rate'; spread: number; spacing: number; smallest: number; periodic: boolean };
 
-/** Spread and smallest positive spacing of a column's finite values (spacing = spread when all but one coincide). */
-function spreadOf(values: Float64Array, n: number): { spread: number; spacing: number } | null {
+/** Spread, smallest positive spacing (the spread when all but one coincide) and smallest non-zero magnitude of a column's finite values. */
+function spreadOf(values: Float64Array, n: number): { spread: number; spacing: number; smallest: number } | null {
   const v: number[] = [];
   for (let i = 0; i < n; i++) if (Number.isFinite(values[i])) v.push(values[i]);
   if (v.length < 2) return null;
@@ -41,14 +42,16 @@ function spreadOf(values: Float64Array, n: number): { spread: number; spacing: n
     // spacings below 1e-9 of the spread are rounding of equal values, not distinct points
     if (d > 1e-9 * spread && d < spacing) spacing = d;
   }
-  return { spread, spacing };
+  let smallest = Infinity;
+  for (const x of v) if (x !== 0 && Math.abs(x) < smallest) smallest = Math.abs(x);
+  return { spread, spacing, smallest: Number.isFinite(smallest) ? smallest : spread };
 }
 
 /** Roles of the parameters of `expr` over the data (see the module comment); the first role found per parameter wins, locations first. */
 export function parameterRoles(expr: Expr, columns: readonly string[], cols: readonly Float64Array[], n: number): Map<string, Role> {
   const out = new Map<string, Role>();
   const colOf = (name: string) => cols[columns.indexOf(name)];
-  const spreads = new Map<string, { spread: number; spacing: number } | null>();
+  const spreads = new Map<string, ReturnType<typeof spreadOf>>();
   const spreadFor = (name: string) => {
     if (!spreads.has(name)) spreads.set(name, colOf(name) ? spreadOf(colOf(name), n) : null);
     return spreads.get(name) ?? null;
