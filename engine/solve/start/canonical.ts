@@ -141,53 +141,36 @@ function simplifyProd(c: number, fs: { e: Canon; p: number }[]): Canon {
   return { t: 'prod', c, fs };
 }
 
-/** Parameters read by a canonical form. */
-export function paramsIn(c: Canon, into: Set<string> = new Set()): Set<string> {
+/** Calls `visit` on every leaf (number, column, parameter) of a canonical form. */
+function forEachLeaf(c: Canon, visit: (leaf: Canon) => void): void {
   switch (c.t) {
-    case 'par':
-      into.add(c.name);
-      break;
     case 'sum':
-      for (const t of c.terms) paramsIn(t.e, into);
+      for (const t of c.terms) forEachLeaf(t.e, visit);
       break;
     case 'prod':
-      for (const f of c.fs) paramsIn(f.e, into);
+      for (const f of c.fs) forEachLeaf(f.e, visit);
       break;
     case 'pow':
-      paramsIn(c.base, into);
-      paramsIn(c.exp, into);
+      forEachLeaf(c.base, visit);
+      forEachLeaf(c.exp, visit);
       break;
     case 'call':
-      for (const a of c.args) paramsIn(a, into);
+      for (const a of c.args) forEachLeaf(a, visit);
       break;
     default:
-      break;
+      visit(c);
   }
+}
+
+/** Parameters read by a canonical form. */
+export function paramsIn(c: Canon, into: Set<string> = new Set()): Set<string> {
+  forEachLeaf(c, (l) => (l.t === 'par' ? into.add(l.name) : undefined));
   return into;
 }
 
 /** Columns read by a canonical form. */
 export function columnsIn(c: Canon, into: Set<string> = new Set()): Set<string> {
-  switch (c.t) {
-    case 'col':
-      into.add(c.name);
-      break;
-    case 'sum':
-      for (const t of c.terms) columnsIn(t.e, into);
-      break;
-    case 'prod':
-      for (const f of c.fs) columnsIn(f.e, into);
-      break;
-    case 'pow':
-      columnsIn(c.base, into);
-      columnsIn(c.exp, into);
-      break;
-    case 'call':
-      for (const a of c.args) columnsIn(a, into);
-      break;
-    default:
-      break;
-  }
+  forEachLeaf(c, (l) => (l.t === 'col' ? into.add(l.name) : undefined));
   return into;
 }
 
