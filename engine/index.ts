@@ -6,6 +6,6 @@ export { runPlan, runPlanSync, runFit, prepareFitData, runQueries, checkExpectat
 export type { RunOptions, RunProgress, RunFitOptions, FitData, Solvers } from './run';
 export { parseCsvText, loadDataFile, readHeaderFile, readHeaderText, headerLookup, selectRows, detectDelimiter, sha256Hex } from './data';
 export type { CsvOptions, CsvResult, DataTable, DataColumn, DataError, HeaderInfo, FileReader } from './data';
-export { guessStart } from './start';
+export { guessStart } from './solve/start';
 export { warningText, errorText, WARNING_THRESHOLDS } from './messages';
 export * from './result';

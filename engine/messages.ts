@@ -61,7 +61,22 @@ export const warningText = {
     `the parameters are not all determined by the data (rank ${rank} of ${p})${params.length ? `; check ${params.join(', ')}` : ''}`,
   guessed_start: (params: string[], how: string) =>
     `starting value${params.length === 1 ? '' : 's'} for ${params.join(', ')} guessed (${how}); give "= value" to choose your own`,
+  lower_minimum: (startSsr: number, ssr: number, points: number, given: boolean) =>
+    `from the ${given ? 'given' : 'guessed'} starting values the fit stops at a local minimum (SSR ${num(startSsr)}); the search over ${points} starting points found a lower one (SSR ${num(ssr)}), which is reported here - check that it makes sense for your data`,
+  retried_start: (first: string, from: 'own_start' | 'search', recovered: boolean) =>
+    recovered
+      ? `the fit from the shared starting values did not converge (${first}); this group was fitted again from ${from === 'own_start' ? 'starting values computed from its own data' : 'a multi-start search on its own data'}, which converged`
+      : `the fit from the shared starting values did not converge (${first}), nor did fits from starting values computed from its own data and a multi-start search on it; the first attempt is reported`,
 } satisfies Record<WarningCode, (...args: never[]) => string> & Record<string, (...args: never[]) => string>;
+
+/** Notes added to a fit's stop message by the multi-start search (engine/run/fit.ts). */
+export const searchText = {
+  sameMinimum: 'solved from a point the multi-start search refined (the starting values lead to the same minimum)',
+  lowerElsewhere: (startSsr: number) => `the multi-start search found this minimum below the one reached from the starting values (SSR ${num(startSsr)})`,
+  lowerUnconverged: (ssr: number) => `the multi-start search also reached SSR ${num(ssr)}, lower than this minimum, where the solver did not converge: this may not be the lowest minimum`,
+  unconvergedLower: (ssr: number, reported: number) =>
+    `the search reached a lower sum of squares (${num(ssr)}) than the reported minimum (${num(reported)}) at a point where the solver did not converge; the reported fit may not be the lowest minimum`,
+} as const;
 
 /** Notes of derived quantities (engine/run/derived.ts): how the uncertainty was obtained, or why a number is missing. */
 export const derivedText = {

@@ -87,7 +87,11 @@ export type WarningCode =
   | 'r2_nonlinear'
   | 'rows_dropped'
   | 'rank_deficient'
-  | 'guessed_start';
+  | 'guessed_start'
+  /** The multi-start search found a lower sum of squares than the fit from the starting values reached. */
+  | 'lower_minimum'
+  /** A group of a per-group fit failed from the shared start and was fitted again from its own start. */
+  | 'retried_start';
 
 export interface FitWarning {
   code: WarningCode;
@@ -198,6 +202,55 @@ export interface InversePrediction {
   message?: string;
 }
 
+/** One distinct minimum found by the multi-start search. */
+export interface SearchMinimum {
+  /** Sum of squared (weighted) residuals there. */
+  ssr: number;
+  /** Free-parameter values, in `SearchResult.parameters` order. */
+  estimates: number[];
+  /** The solver converged there (a local minimum); false: where a refinement stopped without converging. */
+  converged: boolean;
+  /** Refined candidates (the fit from the start included) that ended here. */
+  hits: number;
+  /** The fit from the starting values ended here. */
+  fromStart: boolean;
+  /** This is the fit reported. */
+  reported: boolean;
+}
+
+/** The multi-start search of a fit (engine/solve/start/explore.ts), when it ran. */
+export interface SearchResult {
+  /** Why it ran: a nonlinear parameter had no start value, or the spec asked for it (`explore N`). */
+  reason: 'no_start' | 'asked';
+  /** Free parameters, in the order of `minima[].estimates`. */
+  parameters: string[];
+  /** Box of the nonlinear parameters the design covered (linear ones are solved exactly for each point). */
+  box: { parameter: string; lower: number; upper: number; scale: 'linear' | 'log' }[];
+  /** Starting points tried (design and start), partial solves that gave a finite sum of squares, full refinements. */
+  points: number;
+  partial: number;
+  refined: number;
+  /** Distinct minima, lowest sum of squares first (equal SSR within 1e-8 relative counts as one). */
+  minima: SearchMinimum[];
+  /** Sum of squares reached from the starting values. */
+  startSsr: number;
+  /** A lower minimum than the one reached from the starting values was found (and is the one reported). */
+  lowerElsewhere: boolean;
+  /** Why no design was run, when none was (e.g. a model linear in its parameters). */
+  skipped?: string;
+  /** Solver iterations and residual evaluations of the whole search (included in the fit's counts). */
+  iterations: number;
+  evaluations: number;
+}
+
+/** A group fitted a second time after its first attempt failed (per-group fits). */
+export interface RetryRecord {
+  /** How the first attempt stopped. */
+  first: StopReason;
+  /** Where the second attempt started: the group's own data-driven start, or the multi-start search on the group. */
+  from: 'own_start' | 'search';
+}
+
 export interface FitResult {
   name: string;
   /** Group value when the fit ran per group. */
@@ -237,6 +290,10 @@ export interface FitResult {
    */
   excluded?: ExcludedPoints;
   warnings: FitWarning[];
+  /** The multi-start search, when it ran (additive, optional). */
+  search?: SearchResult;
+  /** Per-group fits: the group failed from the shared start and was fitted again (additive, optional). */
+  retry?: RetryRecord;
   /** Milliseconds spent fitting (not deterministic; views may omit it). */
   elapsedMs: number;
 }

@@ -41,7 +41,7 @@ async function handle(req: WorkerRequest, send: (m: WorkerResponse) => void): Pr
     const total = req.groups.length;
     const results = fitGroupList(req.fit, req.groups, cancel, (done) => {
       if (done < total) progress(done, total);
-    });
+    }, req.shared);
     send({ kind: 'groupsDone', id: req.id, results: packNumbers(results) });
     return;
   }

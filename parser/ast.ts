@@ -87,7 +87,7 @@ export interface ParamAst {
   range: Range;
 }
 
-export type NumericOptionKind = 'level' | 'iterations' | 'tolerance' | 'rate';
+export type NumericOptionKind = 'level' | 'iterations' | 'tolerance' | 'rate' | 'explore';
 
 export interface NumericOptionAst {
   kind: NumericOptionKind;

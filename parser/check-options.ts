@@ -1,9 +1,9 @@
 /**
- * Fit options (method, loss, level, iterations, tolerance, rate, per):
+ * Fit options (method, loss, level, iterations, tolerance, rate, explore, per):
  * value checks and the defaults documented on `FitOptions` in plan.ts.
  */
 import type { FitAst, FitItemAst, NumericOptionAst, NumericOptionKind } from './ast';
-import { LOSSES, METHODS, type FitOptions, type LossKind, type Method } from './plan';
+import { LOSSES, MAX_EXPLORE, METHODS, type FitOptions, type LossKind, type Method } from './plan';
 import type { Env } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
@@ -74,6 +74,14 @@ export function checkOptions(env: Env, fit: FitAst, dataName: string, columns: R
     if (options.method !== 'gradient_descent' && !methodUnreadable) {
       r.report('option-ignored', MSG.rateIgnored, rate.range);
     }
+  }
+
+  const explore = once('explore', 'explore');
+  if (explore) {
+    const v = resolveValue(env, explore.value, { allowInf: false });
+    if (v !== undefined && !(Number.isInteger(v) && v >= 0 && v <= MAX_EXPLORE)) r.report('explore-range', MSG.exploreRange(v, MAX_EXPLORE), explore.value.range);
+    else if (v !== undefined) options.explore = v;
+    if (v !== undefined && (options.method === 'linear' || options.method === 'gradient_descent')) r.report('option-ignored', MSG.exploreIgnored, explore.range);
   }
 
   let groupBy: string | undefined;

@@ -9,7 +9,7 @@
  *   fitItem    := 'model' expr '=' expr
  *               | 'param' Name ( '=' value | 'in' '[' value ',' value ']' | 'fixed' | Unit )*
  *               | ('sigma' | 'weight') expr | 'method' Name | 'loss' Name ('scale' value)?
- *               | ('level' | 'iterations' | 'tolerance' | 'rate') value | 'per' column
+ *               | ('level' | 'iterations' | 'tolerance' | 'rate' | 'explore') value | 'per' column
  *   derive     := 'derive' Name '=' expr Unit?
  *   predict    := ('predict' | 'invert') Name 'at' column '=' value (',' value)*
  *   compare    := 'compare' Name (',' Name)*
@@ -133,7 +133,7 @@ export class LsqParser extends CstParser {
         { ALT: () => this.SUBRULE(this.numberOption) },
         { ALT: () => this.SUBRULE(this.perOption) },
       ],
-      ERR_MSG: 'model, param, sigma, weight, method, loss, level, iterations, tolerance, rate, per or }',
+      ERR_MSG: 'model, param, sigma, weight, method, loss, level, iterations, tolerance, rate, explore, per or }',
     });
   });
 
@@ -193,6 +193,7 @@ export class LsqParser extends CstParser {
       { ALT: () => this.CONSUME(T.Iterations, { LABEL: 'keyword' }) },
       { ALT: () => this.CONSUME(T.Tolerance, { LABEL: 'keyword' }) },
       { ALT: () => this.CONSUME(T.Rate, { LABEL: 'keyword' }) },
+      { ALT: () => this.CONSUME(T.Explore, { LABEL: 'keyword' }) },
     ]);
     this.SUBRULE(this.value);
   });

@@ -32,6 +32,7 @@ export const CODES = {
   'fixed-without-value': 'error',
   'unknown-option': 'error',
   'level-range': 'error',
+  'explore-range': 'error',
   'not-positive': 'error',
   'not-integer': 'error',
   'inf-not-allowed': 'error',
@@ -129,5 +130,7 @@ export const MSG = {
   unusedData: (name: string) => `data ${q(name)} is not used by any fit`,
   scaleIgnored: 'scale only matters for a robust loss (huber, soft_l1, cauchy); it is ignored with squared',
   rateIgnored: 'rate only matters for method gradient_descent; it is ignored here',
+  exploreRange: (v: number, max: number) => `explore must be a whole number from 0 (no search) to ${max}, not ${v}`,
+  exploreIgnored: 'explore only matters for the Levenberg–Marquardt solver (method auto or levenberg_marquardt); it is ignored here',
   didYouMean: (names: readonly string[]) => (names.length ? ` - did you mean ${names.map(q).join(' or ')}?` : ''),
 } as const;

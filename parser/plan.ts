@@ -118,6 +118,9 @@ export const METHODS: readonly Method[] = ['auto', 'linear', 'levenberg_marquard
 export type LossKind = 'squared' | 'huber' | 'soft_l1' | 'cauchy';
 export const LOSSES: readonly LossKind[] = ['squared', 'huber', 'soft_l1', 'cauchy'];
 
+/** Largest `explore N` (design points of the multi-start search). */
+export const MAX_EXPLORE = 4096;
+
 export interface FitOptions {
   /** Solver choice. Default `auto`: linear QR when the model is linear in its parameters, else Levenberg–Marquardt. */
   method: Method;
@@ -133,6 +136,14 @@ export interface FitOptions {
   tolerance?: number;
   /** Gradient descent learning rate (after feature scaling). Default: chosen by the solver. */
   learningRate?: number;
+  /**
+   * Multi-start search (`explore N`): N low-discrepancy starting points over
+   * the nonlinear parameters, the best few refined (engine/solve/start/explore.ts).
+   * 0 switches the search off. Default (absent): a search with 32 points per
+   * nonlinear parameter (32–256) when a nonlinear parameter has no start value
+   * and the fit is not per group; none otherwise.
+   */
+  explore?: number;
 }
 
 /** One dataset's share of a fit: `response = model` over the rows of `data`. */

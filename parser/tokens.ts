@@ -88,6 +88,7 @@ export const Level = keyword('level');
 export const Iterations = keyword('iterations');
 export const Tolerance = keyword('tolerance');
 export const Rate = keyword('rate');
+export const Explore = keyword('explore');
 export const Per = keyword('per');
 // Queries and expectations
 export const At = keyword('at');
@@ -103,7 +104,7 @@ export const Inf = keyword('inf', []);
 /** All keywords, longest first so a keyword that is a prefix of another (`in`, `inf`) comes after it. */
 export const KEYWORD_TOKENS: readonly TokenType[] = [
   Data, Const, Fit, Derive, Predict, Invert, Compare, Expect, Where, Delimiter, Decimal, On, Model, Param, In, Fixed,
-  Sigma, Weight, Method, Loss, Scale, Level, Iterations, Tolerance, Rate, Per, At, Within, Above, Below,
+  Sigma, Weight, Method, Loss, Scale, Level, Iterations, Tolerance, Rate, Explore, Per, At, Within, Above, Below,
   And, Or, Not, Inf,
 ].sort((a, b) => String(b.PATTERN).length - String(a.PATTERN).length);
 
@@ -158,7 +159,7 @@ export const ALL_TOKENS: readonly TokenType[] = [
  */
 export const LINE_START_KEYWORDS: ReadonlySet<TokenType> = new Set([
   Data, Const, Fit, Derive, Predict, Invert, Compare, Expect, Where, Delimiter, Decimal,
-  Model, Param, Sigma, Weight, Method, Loss, Level, Iterations, Tolerance, Rate, Per,
+  Model, Param, Sigma, Weight, Method, Loss, Level, Iterations, Tolerance, Rate, Explore, Per,
 ]);
 
 /** Payload set on a token that is the first token on its line. */

@@ -3,7 +3,7 @@
  * Messages are single lines without the `file:line:col: error:` prefix
  * (locate.ts adds it).
  */
-import { templateIds } from '../templates';
+import { DEFAULT_POLY_DEGREE, MAX_POLY_DEGREE, templateIds } from '../templates';
 
 export const TOOL = 'leastwise';
 
@@ -85,6 +85,7 @@ Options:
   --y COL          response column (default: the next numeric column)
   --model ID       template (default: line). One of:
                    ${templateIds().join(', ')}
+  --degree N       degree of --model polynomial (default ${DEFAULT_POLY_DEGREE}, at most ${MAX_POLY_DEGREE})
   --out FILE       spec to write (default: DATA.lsq next to the CSV; "-" for
                    stdout). An existing file is never overwritten.
   -h, --help       show this help
@@ -120,6 +121,8 @@ export const MSG = {
   notNumeric: (name: string) => `column '${name}' holds no numbers`,
   needTwoNumeric: () => 'the data need at least two numeric columns (predictor and response)',
   sameColumn: (name: string) => `--x and --y both name '${name}'`,
+  degreeWithoutPolynomial: () => '--degree goes with --model polynomial',
+  badDegree: (given: string, max: number) => `--degree must be a whole number from 1 to ${max}, not '${given}'`,
   unknownTemplate: (id: string, suggestion: string | null) => `unknown model template '${id}'${suggestion ? ` - did you mean '${suggestion}'?` : ''} (templates: ${templateIds().join(', ')})`,
   scaffolded: (spec: string, title: string, y: string, x: string) =>
     `wrote ${spec}: ${title} of ${y} against ${x}. Next: leastwise check ${spec}, then leastwise fit ${spec}`,

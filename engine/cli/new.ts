@@ -1,5 +1,5 @@
 /**
- * `leastwise new DATA.csv [--x COL --y COL --model ID] [--out FILE]`: write a
+ * `leastwise new DATA.csv [--x COL --y COL --model ID [--degree N]] [--out FILE]`: write a
  * starter spec from a template with starting values computed from the data.
  * The spec goes through engine/io like every output: checked against the CSV
  * by file identity, written to a temporary file and linked into place only
@@ -8,7 +8,7 @@
 import { basename, dirname, extname, join, relative, resolve, sep } from 'node:path';
 import { parseCsvText, type DataTable } from '../data/index';
 import { clashMessage, OutputError, OutputGuard, readInputSync, TargetExistsError, writeAllOrNothing, type InputError } from '../io/index';
-import { findTemplate, scaffoldSpec, TEMPLATES } from '../templates/index';
+import { findTemplate, MAX_POLY_DEGREE, scaffoldSpec, templateIds } from '../templates/index';
 import { closest, parseCommandArgs } from './args';
 import { EXIT, type CliIo, type ExitCode } from './io';
 import { displayPath, located, plainError } from './locate';
@@ -18,6 +18,7 @@ interface NewValues {
   x?: string;
   y?: string;
   model?: string;
+  degree?: string;
   out?: string;
 }
 
@@ -26,7 +27,7 @@ function numericColumns(t: DataTable): string[] {
 }
 
 export async function newCommand(argv: string[], io: CliIo): Promise<ExitCode> {
-  const args = parseCommandArgs<NewValues>('new', argv, { x: { type: 'string' }, y: { type: 'string' }, model: { type: 'string' }, out: { type: 'string' } });
+  const args = parseCommandArgs<NewValues>('new', argv, { x: { type: 'string' }, y: { type: 'string' }, model: { type: 'string' }, degree: { type: 'string' }, out: { type: 'string' } });
   const fail = (line: string): ExitCode => {
     io.stderr(line + '\n');
     return EXIT.inputError;
@@ -39,11 +40,14 @@ export async function newCommand(argv: string[], io: CliIo): Promise<ExitCode> {
   if (args.positionals.length !== 1) return fail(plainError(args.positionals.length ? MSG.oneFile('new') : MSG.needFiles('new')));
 
   const modelId = args.values.model ?? 'line';
-  const template = findTemplate(modelId);
-  if (!template) {
-    const ids = [...TEMPLATES.map((t) => t.id), 'poly4', 'poly5'];
-    return fail(plainError(MSG.unknownTemplate(modelId, closest(modelId, ids))));
+  let degree: number | undefined;
+  if (args.values.degree !== undefined) {
+    degree = Number(args.values.degree);
+    if (modelId !== 'polynomial') return fail(plainError(MSG.degreeWithoutPolynomial()));
+    if (!(Number.isInteger(degree) && degree >= 1 && degree <= MAX_POLY_DEGREE)) return fail(plainError(MSG.badDegree(args.values.degree, MAX_POLY_DEGREE)));
   }
+  const template = findTemplate(modelId, { degree });
+  if (!template) return fail(plainError(MSG.unknownTemplate(modelId, closest(modelId, templateIds()))));
 
   const csvPath = resolve(io.cwd, args.positionals[0]);
   const csvDisplay = displayPath(csvPath, io.cwd);

@@ -38,6 +38,8 @@ export interface GroupRow {
   flags: GroupFlag[];
   /** The solver's stop message (the reason of a failure). */
   message: string;
+  /** The group did not converge from the shared start and was fitted again (engine/parallel/group-job.ts). */
+  retried: boolean;
 }
 
 export interface ParameterSummary extends Spread {
@@ -56,6 +58,9 @@ export interface GroupSummary {
   poorFit: number;
   /** Groups with at least one flag (failed ones included). */
   flagged: number;
+  /** Groups fitted again after the shared start did not converge, and how many of those converged. */
+  retried: number;
+  recovered: number;
   parameters: ParameterSummary[];
   /** Spread of R² over converged groups. */
   r2: Spread;
@@ -127,6 +132,7 @@ function rowOf(fit: FitResult, parameters: readonly string[], options: FlagOptio
     chi2Reduced: failed ? null : finiteOrNull(fit.goodness.chi2Reduced),
     flags: flagsOf(fit, options),
     message: fit.stop.message,
+    retried: fit.retry !== undefined,
   };
 }
 
@@ -143,6 +149,8 @@ function summarize(rows: readonly GroupRow[], parameters: readonly string[]): Gr
     atBound: count('at_bound'),
     poorFit: count('poor_fit'),
     flagged: rows.filter((r) => r.flags.length > 0).length,
+    retried: rows.filter((r) => r.retried).length,
+    recovered: rows.filter((r) => r.retried && r.converged).length,
     parameters: parameters.map((name, j) => ({ name, ...spreadOf(ok.map((r) => r.estimates[j] ?? NaN)) })),
     r2: spreadOf(ok.map((r) => r.r2 ?? NaN)),
   };

@@ -31,6 +31,7 @@ import type { FitResult } from '../result';
 import type { CancelToken } from '../solve/problem';
 import { prepareFitData, type FitData } from '../run/fit-data';
 import { fitOneGroup, unfittedGroup } from './group-job';
+import { sharedStart } from '../group/starts';
 import { runChunksInWorkers } from './pool';
 import { createCancelFlag, setCancelled } from './protocol';
 
@@ -101,11 +102,13 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
   const workerFile = options.workerFile === undefined ? defaultWorkerFile() : options.workerFile;
   let done = 0;
   const report = () => options.onProgress?.(done, total);
+  // one shared start for every way of fitting the groups (engine/group/starts.ts)
+  const shared = sharedStart(fit, groups);
 
   const inProcess = async (indices: Iterable<number>) => {
     let last = Date.now();
     for (const i of indices) {
-      results[i] = fitOneGroup(fit, groups[i], options.cancel);
+      results[i] = fitOneGroup(fit, groups[i], { cancel: options.cancel, shared });
       done++;
       report();
       if (Date.now() - last >= YIELD_MS) {
@@ -161,6 +164,7 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
     workerFile,
     threads: workerCount,
     fit,
+    shared,
     chunks,
     take,
     cancelFlag: flag,
@@ -185,7 +189,7 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
   const hostLoop = async () => {
     for (let c = host ? take() : null; c !== null; c = options.cancel?.cancelled ? null : take()) {
       for (let k = 0; k < chunks[c].length; k++) {
-        results[starts[c] + k] = fitOneGroup(fit, chunks[c][k], options.cancel);
+        results[starts[c] + k] = fitOneGroup(fit, chunks[c][k], { cancel: options.cancel, shared });
         partial[c]++;
         done++;
         report();

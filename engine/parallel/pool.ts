@@ -20,11 +20,14 @@ import type { FitResult } from '../result';
 import type { FitData } from '../run/fit-data';
 import { isWorkerResponse, type WorkerRequest } from './protocol';
 import { unpackNumbers } from './pack';
+import type { SharedStart } from '../group/starts';
 
 export interface PoolJob {
   workerFile: string;
   threads: number;
   fit: FitPlan;
+  /** The fit's shared start, sent with every chunk. */
+  shared?: SharedStart;
   chunks: readonly FitData[][];
   /** The next chunk index to fit, or null when none is left (a queue shared with other consumers). */
   take(): number | null;
@@ -77,7 +80,7 @@ export function runChunksInWorkers(job: PoolJob): Promise<PoolOutcome> {
           return;
         }
         current = c;
-        const request: WorkerRequest = { kind: 'fitGroups', id: current, fit: job.fit, groups: job.chunks[current], cancelFlag: job.cancelFlag };
+        const request: WorkerRequest = { kind: 'fitGroups', id: current, fit: job.fit, groups: job.chunks[current], ...(job.shared ? { shared: job.shared } : {}), cancelFlag: job.cancelFlag };
         worker.postMessage(request);
       };
 

@@ -17,6 +17,7 @@
 import type { FitPlan, Plan } from '../../parser/plan';
 import type { FitResult, RunResult } from '../result';
 import type { FitData } from '../run/fit-data';
+import type { SharedStart } from '../group/starts';
 
 /** Options of `runPlan` that can cross a thread boundary (no functions). */
 export interface RunPlanJobOptions {
@@ -36,6 +37,8 @@ export type WorkerRequest =
       fit: FitPlan;
       /** One group's rows each (engine/run `prepareFitData`), fitted in this order. */
       groups: FitData[];
+      /** The fit's shared start (engine/group/starts.ts), computed once by the host. */
+      shared?: SharedStart;
       cancelFlag: SharedArrayBuffer | null;
     };
 
@@ -61,7 +64,7 @@ export function isWorkerRequest(x: unknown): x is WorkerRequest {
   if (!isObject(x) || typeof x.id !== 'number') return false;
   const flagOk = x.cancelFlag === null || x.cancelFlag instanceof SharedArrayBuffer;
   if (x.kind === 'runPlan') return flagOk && isObject(x.plan) && isObject(x.options) && typeof x.options.baseDir === 'string';
-  if (x.kind === 'fitGroups') return flagOk && isObject(x.fit) && typeof x.fit.name === 'string' && Array.isArray(x.groups);
+  if (x.kind === 'fitGroups') return flagOk && isObject(x.fit) && typeof x.fit.name === 'string' && Array.isArray(x.groups) && (x.shared === undefined || (isObject(x.shared) && typeof x.shared.kind === 'string'));
   return false;
 }
 

@@ -12,13 +12,23 @@
  * from the clamped point (reported as levenberg_marquardt). A robust loss
  * first solves the squared-loss problem, then hands that estimate to the
  * robust solver.
+ *
+ * Starting values (engine/solve/start): parameters without `= value` get a
+ * data-driven start. The multi-start search (explore.ts) runs for
+ * Levenberg–Marquardt fits when the spec asks for it (`explore N`, N > 0),
+ * or by default when a nonlinear free parameter has no start value and the
+ * fit is not one group of a per-group fit (`explore 0` switches it off). Its
+ * lowest converged minimum is the fit reported; when that is lower than the
+ * one reached from the starting values, the stop message says so and a
+ * `lower_minimum` warning names both sums of squares. A robust loss then
+ * starts from the search's result.
  */
 import type { FitPlan, LossKind } from '../../parser/plan';
 import { compileModel, isLinearInParameters, type CompiledModel } from '../compile';
-import type { FitResult, FitTrace, FitWarning, StopReason } from '../result';
+import type { FitResult, FitTrace, FitWarning, SearchResult, StopReason } from '../result';
 import { boundsMethodFor, modelProblem, nonFiniteDetail, type CancelToken, type SolveOutcome, type SolverTrace } from '../solve';
-import { guessStart } from '../start';
-import { errorText, warningText } from '../messages';
+import { explore, guessStart, isLower, linearSet, type ExploreOutcome, type StartInput } from '../solve/start';
+import { errorText, searchText, warningText } from '../messages';
 import type { FitData } from './fit-data';
 import { failedFit } from './fit-result';
 import { holdParams } from './expr';
@@ -35,6 +45,16 @@ export interface RunFitOptions {
   clock?: () => number;
   /** Called after each accepted iteration of an iterative solver with the objective (½‖r‖², robust: ½Σc²ρ). */
   onIteration?: (iteration: number, cost: number) => void;
+  /**
+   * Starting values to use instead of the spec's (free parameters, in
+   * declaration order); NaN entries are guessed from the data. `how` says
+   * where the others came from (for the guessed-start warning, when the spec
+   * gave no value). Per-group fits (engine/group/starts.ts,
+   * engine/parallel/group-job.ts) use it.
+   */
+  startOverride?: { theta: Float64Array; how: string };
+  /** Search even a group of a per-group fit (when a nonlinear parameter has no start or `explore` asks). Default false for groups. */
+  searchGroup?: boolean;
   /** Record the solver's per-iteration trace in the result (`FitResult.trace`). Default false. */
   trace?: boolean;
 }
@@ -66,7 +86,9 @@ export function runFit(fit: FitPlan, data: FitData, options: RunFitOptions = {})
   }
 }
 
-function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Pick<RunFitOptions, 'cancel' | 'onIteration' | 'trace'>, groupWarnings: FitWarning[], elapsed: () => number): FitResult {
+type Watch = Pick<RunFitOptions, 'cancel' | 'onIteration' | 'trace' | 'startOverride' | 'searchGroup'>;
+
+function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, groupWarnings: FitWarning[], elapsed: () => number): FitResult {
   const { expr, free } = freeModel(fit);
   const freePlans = fit.parameters.filter((p) => !p.fixed);
   const n = data.n;
@@ -75,26 +97,58 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Pick<RunF
   const upper = Float64Array.from(freePlans, (q) => q.upper ?? Infinity);
   // Responses far from 1 (|√w·y| outside [2^-400, 2^400]) are fitted divided by a power of two c
   // (exact), so squares of residuals stay in range; the statistics scale back (engine/linalg/scale.ts).
+  // Costs of the scaled problem are multiplied by c² wherever they are reported.
   const rawSqrtW = data.weights ? data.weights.map(Math.sqrt) : null;
   const c = responseScale(data.y, rawSqrtW, n);
   const sqrtW = c === 1 ? rawSqrtW : rawSqrtW ? rawSqrtW.map((v) => v / c) : new Float64Array(n).fill(1 / c);
 
-  const guess = guessStart({
+  const override = watch.startOverride;
+  const startInput: StartInput = {
     model,
     cols: data.columns,
     n,
     y: data.y,
     sqrtW,
-    parameters: freePlans.map((q, j) => ({ name: q.name, initial: q.initial, lower: lower[j], upper: upper[j] })),
+    parameters: freePlans.map((q, j) => {
+      const initial = override ? (Number.isFinite(override.theta[j]) ? override.theta[j] : undefined) : q.initial;
+      return { name: q.name, ...(initial !== undefined ? { initial } : {}), lower: lower[j], upper: upper[j] };
+    }),
     isLinearIn: (names) => isLinearInParameters(holdParams(expr, new Set(free.filter((f) => !names.includes(f)))), names),
-  });
+    structure: { expr, columns: data.modelColumns },
+  };
+  const guess = guessStart(startInput);
   const theta0 = guess.theta.map((v, j) => Math.min(upper[j], Math.max(lower[j], v)));
+  // Starts taken from an override count as guessed when the spec has no value for them.
+  const fromOverride = override ? freePlans.filter((q, j) => q.initial === undefined && Number.isFinite(override.theta[j])).map((q) => q.name) : [];
+  const guessedNames = [...fromOverride, ...guess.guessed];
+  const guessedHow = [fromOverride.length && override ? `${fromOverride.join(', ')}: ${override.how}` : '', guess.how].filter((s) => s).join('; ');
 
   const problem = modelProblem({ model, columns: data.columns, response: data.y, n, sqrtWeights: sqrtW ?? undefined, lower, upper });
+  const search = searchPlan(fit, data, model.linear, startInput, watch);
   const onIteration = watch.onIteration;
   const scaledWatch = c === 1 || !onIteration ? watch : { ...watch, onIteration: (it: number, cost: number) => onIteration(it, cost * c * c) };
-  const solved = solve(fit, model.linear, problem, theta0, lower, upper, solvers, scaledWatch, c);
+  const solved = solve(fit, model.linear, problem, theta0, lower, upper, solvers, scaledWatch, c, search && { ...search, start: startInput });
   if ('error' in solved) return failedFit(fit, data, failedStop(solved.error), groupWarnings, elapsed());
+  const searchWarnings: FitWarning[] = [];
+  let searchResult: SearchResult | undefined;
+  if (solved.search && search) {
+    const s = solved.search;
+    const c2 = c * c;
+    searchResult = searchSummary(s, search.reason, free, c2);
+    const reportedSsr = 2 * s.best.cost * c2;
+    if (s.lowerElsewhere) {
+      solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.lowerElsewhere(2 * s.fromStart.cost * c2)}` };
+      searchWarnings.push({ code: 'lower_minimum', message: warningText.lower_minimum(2 * s.fromStart.cost * c2, reportedSsr, s.points, guess.guessed.length === 0), parameters: free });
+    }
+    if (!s.lowerElsewhere && s.best !== s.fromStart) {
+      solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.sameMinimum}` };
+    }
+    const lowerUnconverged = s.minima.find((m) => !m.converged && isLower(m.ssr * c2, reportedSsr, 0));
+    if (lowerUnconverged && solved.outcome.stop.converged) {
+      solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.lowerUnconverged(lowerUnconverged.ssr * c2)}` };
+      searchWarnings.push({ code: 'lower_minimum', message: searchText.unconvergedLower(lowerUnconverged.ssr * c2, reportedSsr), parameters: free });
+    }
+  }
   const names = freePlans.map((q) => q.name);
   const stop = locateStop(solved.outcome, names, data.lines);
   const boundsMethod = solved.method === 'levenberg_marquardt' ? boundsMethodFor(problem) : null;
@@ -109,7 +163,7 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Pick<RunF
     start: theta0,
     responseScale: c,
     // A direct linear solve does not use starting values, so a guess is not worth a warning there.
-    guessed: { names: solved.method === 'linear' ? [] : guess.guessed, how: guess.how },
+    guessed: { names: solved.method === 'linear' ? [] : guessedNames, how: guessedHow },
   });
   return {
     name: fit.name,
@@ -124,12 +178,57 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Pick<RunF
     ...(boundsMethod ? { boundsMethod } : {}),
     ...(solved.outcome.trace ? { trace: namedTrace(solved.outcome.trace, names) } : {}),
     ...stats.fields,
-    warnings: [...stats.warnings, ...groupWarnings],
+    warnings: [...searchWarnings, ...stats.warnings, ...groupWarnings],
+    ...(searchResult ? { search: searchResult } : {}),
     elapsedMs: elapsed(),
   };
 }
 
-type Solved = { outcome: SolveOutcome; method: Exclude<FitPlan['options']['method'], 'auto'>; iterations: number; evaluations: number } | { error: string };
+type Solved = { outcome: SolveOutcome; method: Exclude<FitPlan['options']['method'], 'auto'>; iterations: number; evaluations: number; search?: ExploreOutcome } | { error: string };
+
+interface SearchPlan {
+  reason: SearchResult['reason'];
+  /** Design points; undefined: the default for the number of nonlinear parameters. */
+  points?: number;
+}
+
+/** Whether (and why) the multi-start search runs for this fit (see the module comment). */
+function searchPlan(fit: FitPlan, data: FitData, linearModel: boolean, start: StartInput, watch: Watch): SearchPlan | null {
+  const asked = fit.options.explore;
+  if (asked === 0 || linearModel) return null;
+  if (fit.options.method === 'linear' || fit.options.method === 'gradient_descent') return null;
+  if (asked !== undefined) return { reason: 'asked', points: asked };
+  if (data.group !== undefined && !watch.searchGroup) return null;
+  const all = start.parameters.map((_, j) => j);
+  const linear = linearSet(start, all);
+  const missing = all.some((j) => !linear.includes(j) && start.parameters[j].initial === undefined);
+  return missing ? { reason: 'no_start' } : null;
+}
+
+/** The search as reported; `c2` = c², the factor from the scaled problem's sums of squares to the data's. */
+function searchSummary(s: ExploreOutcome, reason: SearchResult['reason'], free: readonly string[], c2: number): SearchResult {
+  const reportedSsr = 2 * s.best.cost * c2;
+  let reportedMarked = false;
+  return {
+    reason,
+    parameters: [...free],
+    box: s.box.map((b) => ({ parameter: b.name, lower: b.lower, upper: b.upper, scale: b.scale })),
+    points: s.points,
+    partial: s.partial,
+    refined: s.refined,
+    minima: s.minima.map((m) => {
+      const ssr = m.ssr * c2;
+      const reported = !reportedMarked && m.converged && Math.abs(ssr - reportedSsr) <= 1e-8 * Math.max(ssr, reportedSsr);
+      if (reported) reportedMarked = true;
+      return { ssr, estimates: Array.from(m.theta), converged: m.converged, hits: m.hits, fromStart: m.fromStart, reported };
+    }),
+    startSsr: 2 * s.fromStart.cost * c2,
+    lowerElsewhere: s.lowerElsewhere,
+    ...(s.skipped ? { skipped: s.skipped } : {}),
+    iterations: s.iterations,
+    evaluations: s.evaluations,
+  };
+}
 
 function solve(
   fit: FitPlan,
@@ -139,8 +238,9 @@ function solve(
   lower: Float64Array,
   upper: Float64Array,
   solvers: Solvers,
-  watch: Pick<RunFitOptions, 'cancel' | 'onIteration' | 'trace'>,
-  scale = 1,
+  watch: Watch,
+  scale: number,
+  search?: (SearchPlan & { start: StartInput }) | null,
 ): Solved {
   const o = fit.options;
   const cancel = watch.cancel;
@@ -159,6 +259,7 @@ function solve(
   let used: Exclude<FitPlan['options']['method'], 'auto'> = method;
   let iterations = 0;
   let evaluations = 0;
+  let searched: ExploreOutcome | undefined;
   const add = (s: SolveOutcome) => {
     iterations += s.iterations;
     evaluations += s.evaluations;
@@ -174,6 +275,17 @@ function solve(
   } else if (method === 'gradient_descent') {
     if (!solvers.gradientDescent) return { error: 'the gradient descent solver is not available in this build' };
     outcome = add(solvers.gradientDescent(problem, theta0, iterative));
+  } else if (search) {
+    searched = explore({
+      start: search.start,
+      theta0,
+      problem,
+      ...(search.points !== undefined ? { points: search.points } : {}),
+      solve: (pr, t, opts) => solvers.levenbergMarquardt(pr, t, { ...iterative, ...opts }),
+      options: iterative,
+    });
+    // the fit's own counts are those of the reported solve; the search's work is in `search`
+    outcome = add(searched.best);
   } else {
     outcome = add(solvers.levenbergMarquardt(problem, theta0, iterative));
   }
@@ -185,7 +297,7 @@ function solve(
     outcome = add(solvers.robust(problem, from, loss, o.lossScale / scale, iterative));
     if (used === 'linear') used = 'levenberg_marquardt';
   }
-  return { outcome, method: used, iterations, evaluations };
+  return { outcome, method: used, iterations, evaluations, ...(searched ? { search: searched } : {}) };
 }
 
 /** The solver's stop, with a non-finite stop located: data-file lines, parameter names and values. */

@@ -32,7 +32,8 @@ import { runFit } from './fit';
 import { prepareFitData, type FitData } from './fit-data';
 import { groupThreads } from './group-threads';
 import { defaultWorkerFile, fitGroupData, type RunMode } from '../parallel/fit-groups';
-import { CANCELLED_STOP } from '../parallel/group-job';
+import { CANCELLED_STOP, fitOneGroup } from '../parallel/group-job';
+import { sharedStart } from '../group/starts';
 import { runQueries } from './queries';
 import type { Solvers } from './solvers';
 import { TOOL_NAME, TOOL_VERSION } from './version';
@@ -153,6 +154,8 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
         continue;
       }
     }
+    // groups of a per-group fit share one start and retry from their own data (engine/parallel/group-job.ts)
+    const shared = fit.groupBy !== undefined ? sharedStart(fit, prepared.data) : undefined;
     for (const data of prepared.data) {
       if (opts.cancel?.cancelled) {
         errors.push({ code: 'cancelled', message: `run cancelled before fit ${fit.name}${data.group !== undefined ? ` [${data.group}]` : ''}`, range: fit.range, fit: fit.name });
@@ -162,7 +165,11 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
       const watch = onIteration
         ? { onIteration: (iteration: number, cost: number) => onIteration({ fit: fit.name, ...(data.group !== undefined ? { group: data.group } : {}), iteration, cost }) }
         : {};
-      results.get(fit.name)!.push(runFit(fit, data, { cancel: opts.cancel, solvers: opts.solvers, ...watch, ...(opts.trace ? { trace: true } : {}) }));
+      const trace = opts.trace ? { trace: true } : {};
+      const one = shared
+        ? fitOneGroup(fit, data, { cancel: opts.cancel, shared, ...(opts.solvers ? { solvers: opts.solvers } : {}), ...watch, ...trace })
+        : runFit(fit, data, { cancel: opts.cancel, solvers: opts.solvers, ...watch, ...trace });
+      results.get(fit.name)!.push(one);
       opts.onProgress?.({ fit: fit.name, ...(data.group !== undefined ? { group: data.group } : {}), done: ++done, total });
       yield;
     }

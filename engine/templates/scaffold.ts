@@ -102,6 +102,8 @@ export function scaffoldSpec(input: ScaffoldInput): ScaffoldResult {
     if (p.note) header.push(p.note);
   }
   if (t.requires.includes('positive_x') && d.x.some((v) => !(v > 0))) return { ok: false, message: `${t.title} needs every ${input.x} value to be positive` };
+  if (t.requires.includes('nonnegative_x') && d.x.some((v) => !(v >= 0))) return { ok: false, message: `${t.title} needs every ${input.x} value to be zero or positive` };
+  if (t.requires.includes('two_positive_x') && new Set(d.x.filter((v) => v > 0)).size < 2) return { ok: false, message: `${t.title} needs at least two different positive ${input.x} values` };
   if (t.requires.includes('positive_y') && d.y.some((v) => !(v > 0))) return { ok: false, message: `${t.title} needs every ${input.y} value to be positive` };
 
   // Parameter names must not clash with column names or constants.

@@ -22,12 +22,13 @@ export interface StartValues {
 }
 
 /** What the model needs from the data; checked before scaffolding. */
-export type DataRequirement = 'positive_x' | 'positive_y';
+/** positive_x: every x > 0; nonnegative_x: every x ≥ 0; two_positive_x: at least two distinct x > 0; positive_y: every y > 0. */
+export type DataRequirement = 'positive_x' | 'nonnegative_x' | 'two_positive_x' | 'positive_y';
 
 export interface Template {
-  /** Stable id used on the command line (`--model`), e.g. `exp_decay`, `poly3`. */
+  /** Stable id used on the command line (`--model`), e.g. `exp_decay`, `polynomial`. */
   id: string;
-  /** Plain name, e.g. "exponential decay to a plateau". */
+  /** Plain name, e.g. "exponential decay to a final level". */
   title: string;
   /** The model written with symbols, for help texts. */
   formula: string;

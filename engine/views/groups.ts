@@ -135,7 +135,8 @@ export function groupCountLine(table: GroupTable): string {
     ['failed', s.failed], ['not_converged', s.notConverged], ['no_dof', s.noDof], ['few_dof', s.fewDof], ['at_bound', s.atBound], ['poor_fit', s.poorFit],
   ];
   const detail = byFlag.filter(([, n]) => n > 0).map(([f, n]) => `${n} ${FLAG_LABEL[f]}`);
-  return `${s.groups} groups: ${s.converged} converged, ${s.failed} failed, ${s.notConverged} not converged; ${s.flagged} flagged${detail.length ? ` (${detail.join(', ')})` : ''}.`;
+  const retried = s.retried > 0 ? ` ${s.retried} retried from their own starting values (${s.recovered} of them converged).` : '';
+  return `${s.groups} groups: ${s.converged} converged, ${s.failed} failed, ${s.notConverged} not converged; ${s.flagged} flagged${detail.length ? ` (${detail.join(', ')})` : ''}.${retried}`;
 }
 
 /** Headers and rows of the summary across converged groups: per parameter (and R²) the median, quartiles, IQR and count. */

@@ -9,7 +9,7 @@ import type { FitResult, RunResult } from '../result';
 import { formatLevel, formatNumber } from './format';
 import {
   derivedBlock, derivedLabel, expectationRows, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL,
-  notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, stopLine, warningLines,
+  notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, searchLine, stopLine, warningLines,
 } from './summary';
 import { markdownTable, mdCell } from './table';
 import {
@@ -86,7 +86,8 @@ function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: n
 }
 
 function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
-  const lines = [`## ${fitHeading(fit)}`, '', stopLine(fit) + '.', ''];
+  const search = searchLine(fit);
+  const lines = [`## ${fitHeading(fit)}`, '', stopLine(fit) + '.', ...(search ? ['', search + '.'] : []), ''];
   const marked = notFittedNote(fit);
   if (marked) lines.push(`> **${mdCell(marked)}**`, '');
   else lines.push(`Confidence level ${formatLevel(fit.level)}; intervals use Student's t with ${fit.goodness.dof} degrees of freedom.`, '');

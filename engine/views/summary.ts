@@ -67,6 +67,27 @@ export function stopLine(fit: FitResult): string {
   return `Stopped: ${verdict} (${fit.stop.code}: ${fit.stop.message}${count})`;
 }
 
+/** Minima listed by `searchLine` (the rest are counted). */
+const SEARCH_MINIMA_SHOWN = 3;
+
+/**
+ * One sentence on the multi-start search, when it ran: points tried, distinct
+ * minima (lowest first, the reported one marked) and where the fit from the
+ * starting values ended. Null when the fit had no search.
+ */
+export function searchLine(fit: FitResult): string | null {
+  const s = fit.search;
+  if (!s) return null;
+  if (s.skipped) return `Search: not run (${s.skipped})`;
+  const shown = s.minima.slice(0, SEARCH_MINIMA_SHOWN).map((m) => `${formatNumber(m.ssr, 6)}${m.reported ? ' reported' : ''}${m.converged ? '' : ' not converged'}`);
+  const more = s.minima.length > SEARCH_MINIMA_SHOWN ? `, ${s.minima.length - SEARCH_MINIMA_SHOWN} more` : '';
+  const start = s.reason === 'asked' ? 'given' : 'computed';
+  const ending = s.lowerElsewhere
+    ? `; the fit from the ${start} starting values stopped higher, at SSR ${formatNumber(s.startSsr, 6)}`
+    : '; the fit from the starting values reached the lowest';
+  return `Search: ${s.points} starting points, ${s.refined} refined, ${s.minima.length} distinct minim${s.minima.length === 1 ? 'um' : 'a'} by SSR (${shown.join(', ')}${more})${ending}`;
+}
+
 export const PARAMETER_HEADERS = (level: number): string[] => ['parameter', 'estimate', 'std. error', `${formatLevel(level)} low`, `${formatLevel(level)} high`, 'unit', 'note'];
 
 /** Rows of the parameter table: name, estimate, SE, interval ends, unit, note. */

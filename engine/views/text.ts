@@ -8,7 +8,7 @@
 import type { FitResult, RunResult } from '../result';
 import {
   derivedBlock, expectationRows, expectationTally, fitHeading, goodnessEntries, notFittedNote, PARAMETER_HEADERS,
-  parameterRows, queryBlocks, stopLine, TRACE_HEADERS, traceHeading, traceRows, warningLines,
+  parameterRows, queryBlocks, searchLine, stopLine, TRACE_HEADERS, traceHeading, traceRows, warningLines,
 } from './summary';
 import { textTable } from './table';
 import {
@@ -17,7 +17,8 @@ import {
 
 /** The summary of one fit, as lines. */
 export function fitTextLines(fit: FitResult): string[] {
-  const lines: string[] = [fitHeading(fit), `  ${stopLine(fit)}`];
+  const search = searchLine(fit);
+  const lines: string[] = [fitHeading(fit), `  ${stopLine(fit)}`, ...(search ? [`  ${search}`] : [])];
   const marked = notFittedNote(fit);
   if (marked) lines.push(`  ! ${marked}`);
   lines.push('');

@@ -48,6 +48,8 @@ const WARNING_SEVERITY: Record<WarningCode, LsqSeverity> = {
   rows_dropped: 'info',
   rank_deficient: 'warning',
   guessed_start: 'hint',
+  lower_minimum: 'warning',
+  retried_start: 'info',
 };
 
 const PARAM_WARNINGS: readonly WarningCode[] = ['at_bound', 'high_correlation', 'guessed_start'];

@@ -3,7 +3,7 @@
  *
  *   node build.mjs && node dist/bench.js [--quick] [--json] [--markdown FILE] [--only 1,4,7]
  *
- * Prints one row per benchmark (1-15, see the cases/ modules) with the
+ * Prints one row per benchmark (1-17, see the cases/ modules) with the
  * headline figure, its spread over the runs (min-max), the goal and whether
  * it is met, after a line describing the machine and date. Comparisons are
  * measured side by side in one run and given as ratios. `--json` prints the
@@ -23,7 +23,8 @@ import { benchKernel } from './cases/kernel';
 import { benchEndToEnd } from './cases/end-to-end';
 import { benchCsv } from './cases/csv';
 import { benchParse } from './cases/parse';
-import { benchGroups } from './cases/groups';
+import { benchGroups, benchGroupStarts } from './cases/groups';
+import { benchSearch } from './cases/search';
 import { benchScaling } from './cases/scaling';
 import { benchMemory, isMemoryJob, memoryChild } from './cases/memory';
 import { benchPanelPaint } from './cases/panel-paint';
@@ -42,10 +43,12 @@ const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<Ben
   { id: 9, name: 'Peak memory', run: benchMemory },
   { id: 10, name: 'Results panel first paint', run: benchPanelPaint },
   { id: 11, name: 'Robustness suite', run: benchRobustness },
-  { id: 12, name: '4PL from CSV vs general-purpose script', run: benchVersusLogistic },
-  { id: 13, name: 'Cubic from CSV vs general-purpose script', run: benchVersusCubic },
-  { id: 14, name: '--json cost and peak memory', run: benchJsonOutput },
-  { id: 15, name: 'Per-group fits vs general-purpose loop', run: benchVersusGroups },
+  { id: 12, name: 'Per-group automatic starts', run: benchGroupStarts },
+  { id: 13, name: 'Multi-start search', run: benchSearch },
+  { id: 14, name: '4PL from CSV vs general-purpose script', run: benchVersusLogistic },
+  { id: 15, name: 'Cubic from CSV vs general-purpose script', run: benchVersusCubic },
+  { id: 16, name: '--json cost and peak memory', run: benchJsonOutput },
+  { id: 17, name: 'Per-group fits vs general-purpose loop', run: benchVersusGroups },
 ];
 
 interface Args {

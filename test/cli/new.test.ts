@@ -10,7 +10,7 @@ afterAll(cleanTemp);
 /** Scaffold, check and fit: each template on data it suits (sample CSVs or written here). */
 const CASES: { model: string; csv: string; x: string; y: string }[] = [
   { model: 'line', csv: 'photometer/standards.csv', x: 'conc_mgL', y: 'absorbance' },
-  { model: 'poly2', csv: 'photometer/standards.csv', x: 'conc_mgL', y: 'absorbance' },
+  { model: 'polynomial', csv: 'photometer/standards.csv', x: 'conc_mgL', y: 'absorbance' },
   { model: 'exp_decay', csv: 'cooling/cooling.csv', x: 'time_min', y: 'temp_C' },
   { model: 'logistic4', csv: 'doseresponse/assay.csv', x: 'dose_uM', y: 'activity_pct' },
   { model: 'michaelis_menten', csv: 'enzyme/rates.csv', x: 'substrate_mM', y: 'rate_uM_min' },
@@ -55,6 +55,41 @@ describe('cli/new', () => {
     const params = Object.fromEntries(JSON.parse(fitted.stdout).fits[0].parameters.map((p: { name: string; estimate: number }) => [p.name, p.estimate]));
     expect(params.center).toBeCloseTo(531, 0);
     expect(params.width).toBeCloseTo(4, 0);
+  });
+
+  it('scaffolds a polynomial of the degree asked for (--degree)', async () => {
+    const dir = tempDir();
+    copyFileSync(join(SAMPLES, 'photometer/standards.csv'), join(dir, 'standards.csv'));
+    const r = await cli(dir, 'new', 'standards.csv', '--model', 'polynomial', '--degree', '3', '--out', '-');
+    expect(r.code, r.stderr).toBe(EXIT.ok);
+    expect(r.stdout).toContain('# polynomial of degree 3: absorbance against conc_mgL');
+    expect(r.stdout).toContain('model absorbance = c0 + c1 * conc_mgL + c2 * conc_mgL^2 + c3 * conc_mgL^3');
+    expect(r.stdout).toContain('fit cubic on standards {');
+  });
+
+  it('scaffolds a 4-parameter logistic for a plate with zero-dose controls, and it fits', async () => {
+    const dir = tempDir();
+    // invented assay: two untreated (dose 0) wells, then eight doses in duplicate; falling curve
+    const rows = ['dose_nM,signal'];
+    const f = (d: number) => 12 + (96 - 12) / (1 + (d / 35) ** 1.3);
+    const noise = [0.8, -1.1, 0.4, -0.3, 1.2, -0.9, 0.2, 0.6, -0.5, 1.0, -0.7, 0.3, -1.2, 0.9, 0.1, -0.4, 0.7, -0.2];
+    let k = 0;
+    for (const d of [0, 0, 1, 1, 3, 3, 10, 10, 30, 30, 100, 100, 300, 300, 1000, 1000, 3000, 3000]) rows.push(`${d},${(f(d) + noise[k++]).toFixed(2)}`);
+    writeFileSync(join(dir, 'plate.csv'), rows.join('\n') + '\n');
+    const made = await cli(dir, 'new', 'plate.csv', '--model', 'logistic4');
+    expect(made.code, made.stderr).toBe(EXIT.ok);
+    const text = readFileSync(join(dir, 'plate.lsq'), 'utf8');
+    expect(text).toContain('zero-dose controls');
+    const fitted = await cli(dir, 'fit', 'plate.lsq', '--json', '-');
+    expect(fitted.code, fitted.stderr).toBe(EXIT.ok);
+    const fit = JSON.parse(fitted.stdout).fits[0];
+    expect(fit.stop.converged).toBe(true);
+    const est = Object.fromEntries(fit.parameters.map((p: { name: string; estimate: number }) => [p.name, p.estimate]));
+    // the invented truth (zero_dose 96, full_dose 12, ec50 35, hill 1.3 in this parameterisation: hill > 0 falls from zero_dose)
+    expect(est.zero_dose).toBeCloseTo(96, -0.5);
+    expect(est.full_dose).toBeCloseTo(12, -0.5);
+    expect(est.ec50).toBeGreaterThan(25);
+    expect(est.ec50).toBeLessThan(50);
   });
 
   it('never overwrites an existing file', async () => {
@@ -118,10 +153,15 @@ describe('cli/new', () => {
     expect(col.stderr).toBe("standards.csv:1: error: no column 'conc' in the data (columns: conc_mgL, absorbance)\n");
     const tpl = await cli(dir, 'new', 'standards.csv', '--model', 'michaelis');
     expect(tpl.stderr).toMatch(/unknown model template 'michaelis'/);
-    // concentration 0 is not a valid dose for the logistic template
-    const pos = await cli(dir, 'new', 'standards.csv', '--model', 'logistic4');
+    // concentration 0 cannot enter a power law (0^b)
+    const pos = await cli(dir, 'new', 'standards.csv', '--model', 'power');
     expect(pos.code).toBe(EXIT.inputError);
     expect(pos.stderr).toContain('needs every conc_mgL value to be positive');
+    const deg = await cli(dir, 'new', 'standards.csv', '--model', 'line', '--degree', '3');
+    expect(deg.stderr).toBe('error: --degree goes with --model polynomial\n');
+    const bad = await cli(dir, 'new', 'standards.csv', '--model', 'polynomial', '--degree', '2.5');
+    expect(bad.code).toBe(EXIT.inputError);
+    expect(bad.stderr).toMatch(/--degree must be a whole number from 1 to 20, not '2\.5'/);
     const missing = await cli(dir, 'new', 'nothing.csv');
     expect(missing.stderr).toBe('nothing.csv: error: cannot read file: no such file\n');
   });

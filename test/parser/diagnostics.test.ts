@@ -172,6 +172,17 @@ describe('parser/check diagnostics', () => {
     expectAt(spec({ items: '  iterations «2.5»' }), 'not-integer');
   });
 
+  it('explore-range: a whole number from 0 to MAX_EXPLORE', () => {
+    expectAt(spec({ items: '  explore «-1»' }), 'explore-range');
+    expectAt(spec({ items: '  explore «2.5»' }), 'explore-range');
+    expectAt(spec({ items: '  explore «5000»' }), 'explore-range');
+    const ok = analyze(spec({ items: '  explore 0' }));
+    expect(ok.diagnostics).toEqual([]);
+    expect(ok.plan.fits[0].options.explore).toBe(0);
+    expect(analyze(spec({ items: '  explore 64' })).plan.fits[0].options.explore).toBe(64);
+    expect(analyze(spec({})).plan.fits[0].options.explore).toBeUndefined();
+  });
+
   it('inf-not-allowed, number-range, empty-path, delimiter-clash', () => {
     expectAt(spec({ items: '  param b = «inf»' }), 'inf-not-allowed');
     expectAt(spec({ after: 'predict f at x = 1, «-inf»' }), 'inf-not-allowed');
@@ -209,6 +220,7 @@ describe('parser/check diagnostics', () => {
     expectAt('data «e» = "b.csv"\n' + spec({}), 'unused-data');
     expectAt(spec({ items: '  loss squared scale «2»' }), 'option-ignored');
     expectAt(spec({ items: '  «rate 0.1»' }), 'option-ignored');
+    expectAt(spec({ items: '  method gradient_descent\n  «explore 16»' }), 'option-ignored');
     expect(analyze(spec({ items: '  method gradient_descent\n  rate 0.1' })).diagnostics).toEqual([]);
   });
 

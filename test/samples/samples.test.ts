@@ -46,7 +46,7 @@ describe('samples', () => {
       expect(spec).toMatch(/^expect /m);
       expect(spec).toMatch(/^data \w+ = "[^"]+\.csv"/m);
     }
-    for (const clinical of ['photometer', 'doseresponse']) {
+    for (const clinical of ['photometer', 'doseresponse', 'agonist']) {
       expect(readFileSync(join(SAMPLES, clinical, `${clinical}.lsq`), 'utf8')).toMatch(/CAUTION: .*\n(#.*\n)*#.*qualified people/);
     }
   });

@@ -1,16 +1,16 @@
 /**
- * (12-15) Side by side with what an analyst would otherwise run: a short
+ * (14-17) Side by side with what an analyst would otherwise run: a short
  * general-purpose script (python3 with numpy and scipy, reading the CSV with
  * pandas when installed, else numpy's C reader; test/bench/reference/
  * script_fit.py) against our CLI on the same generated CSV files, as whole
  * processes, in alternating rounds (ours, script, script, ours, ...), wall
  * time; ratio = ours / script per round (median and spread).
  *
- *  12  4-parameter logistic, 1e6 points, from CSV (our summary printed)
- *  13  cubic polynomial, 1e6 points, from CSV
- *  14  the 4PL with `--json`: time against the summary run, peak memory
+ *  14  4-parameter logistic, 1e6 points, from CSV (our summary printed)
+ *  15  cubic polynomial, 1e6 points, from CSV
+ *  16  the 4PL with `--json`: time against the summary run, peak memory
  *      against the script's; plus a 1e7-row line with summary and `--json`
- *  15  10,000 per-well 4PL fits (12 doses each): given starts and automatic
+ *  17  10,000 per-well 4PL fits (12 doses each): given starts and automatic
  *      starts against the script's loop over groups (fits per second, CPU)
  *
  * Peak memory and CPU time come from each process's own accounting at exit
@@ -201,7 +201,7 @@ export async function benchVersusLogistic(ctx: BenchContext): Promise<BenchRow> 
   const prep = await prepare(ctx);
   const n = ctx.quick ? 20_000 : 1_000_000;
   const { csv, spec } = await logisticFiles(prep.dir, n);
-  return comparisonRow(ctx, prep, 12, `4-parameter logistic, ${fmt(n, 1)} points from CSV, ours / script`, ['fit', spec], ['--csv', csv, '--model', 'logistic4'], ctx.quick ? 1 : 5);
+  return comparisonRow(ctx, prep, 14, `4-parameter logistic, ${fmt(n, 1)} points from CSV, ours / script`, ['fit', spec], ['--csv', csv, '--model', 'logistic4'], ctx.quick ? 1 : 5);
 }
 
 export async function benchVersusCubic(ctx: BenchContext): Promise<BenchRow> {
@@ -211,7 +211,7 @@ export async function benchVersusCubic(ctx: BenchContext): Promise<BenchRow> {
   await writeXY(csv, n, (i) => -2 + (4 * i) / (n - 1), (x) => 1.5 - 0.8 * x + 0.3 * x * x + 0.05 * x * x * x, 0.2, 7);
   const spec = path.join(prep.dir, `cubic-${n}.lsq`);
   writeSpec(spec, path.basename(csv), 'a + b*x + c*x^2 + d*x^3', ['a', 'b', 'c', 'd']);
-  return comparisonRow(ctx, prep, 13, `cubic polynomial, ${fmt(n, 1)} points from CSV, ours / script`, ['fit', spec], ['--csv', csv, '--model', 'cubic'], ctx.quick ? 1 : 5);
+  return comparisonRow(ctx, prep, 15, `cubic polynomial, ${fmt(n, 1)} points from CSV, ours / script`, ['fit', spec], ['--csv', csv, '--model', 'cubic'], ctx.quick ? 1 : 5);
 }
 
 /** (13) `--json` of the 1e6-point 4PL against its summary run and the script's peak memory; a 1e7-row line, summary and JSON. */
@@ -249,7 +249,7 @@ export async function benchJsonOutput(ctx: BenchContext): Promise<BenchRow> {
   const bigText = ctx.quick ? '' : `; 1e7 rows: summary ${(big.summary as { ok: boolean }).ok ? 'ok' : 'FAILED'}, JSON ${(big.json as { ok: boolean }).ok ? 'ok' : 'FAILED'}`;
   const memMet = scriptPeak === null ? null : oursPeak.median <= scriptPeak.median;
   return {
-    id: 14,
+    id: 16,
     name: `--json of the ${fmt(n, 1)}-point 4PL fit: time vs summary run; peak memory vs the script`,
     value: p.ratio.median,
     unit: '×',
@@ -307,7 +307,7 @@ export async function benchVersusGroups(ctx: BenchContext): Promise<BenchRow> {
     ? `given starts ${fmt(speedup!.median)}× faster than the script (${fmt(fitsPerS)} fits/s, CPU ${fmt(cpu(p.ours).median)} s vs ${fmt(cpu(p.other).median)} s); automatic starts ${fmt(autoSpeedup)}× (${fmt(autoPerS)} fits/s, CPU ${fmt(cpu(autoRuns).median)} s, ${fmt(cpu(autoRuns).median / cpu(p.ours).median)}× given)`
     : skippedText(`given ${fmt(fitsPerS)} fits/s, automatic ${fmt(autoPerS)} fits/s`);
   return {
-    id: 15,
+    id: 17,
     name: `${fmt(wells, 2)} per-well 4PL fits (12 doses), CLI on all cores vs the script's loop`,
     value: speedup ? Math.min(speedup.median, autoSpeedup!) : null,
     unit: '× faster',

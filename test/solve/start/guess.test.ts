@@ -1,40 +1,13 @@
 import { Matrix, QrDecomposition } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
-import { analyze } from '../../parser/index';
-import { compileModel, isLinearInParameters } from '../../engine/compile';
-import { candidates, guessStart, type StartParameter } from '../../engine/start';
-import { holdParams } from '../../engine/run/expr';
+import { candidates, guessStart, type StartParameter } from '../../../engine/solve/start';
+import { setup } from './helpers';
 
-/** Builds a guessStart input from a model text over column x. */
-function setup(modelText: string, params: StartParameter[], xs: number[], ys: number[]) {
-  const decl = params.map((p) => `  param ${p.name}`).join('\n');
-  const { plan } = analyze(`data d = "x.csv"\nfit f on d {\n  model y = ${modelText}\n${decl}\n}`);
-  const expr = plan.fits[0].blocks[0].model;
-  const names = params.map((p) => p.name);
-  const model = compileModel(expr, names, ['x']);
-  const cols = [Float64Array.from(xs)];
-  const y = Float64Array.from(ys);
-  const input = {
-    model,
-    cols,
-    n: xs.length,
-    y,
-    sqrtW: null,
-    parameters: params,
-    isLinearIn: (sub: readonly string[]) => isLinearInParameters(holdParams(expr, new Set(names.filter((q) => !sub.includes(q)))), sub),
-  };
-  const ssr = (theta: Float64Array) => {
-    const f = new Float64Array(xs.length);
-    model.value(theta, cols, xs.length, f);
-    return ys.reduce((s, v, i) => s + (v - f[i]) ** 2, 0);
-  };
-  return { input, ssr };
-}
 const free = (name: string, extra: Partial<StartParameter> = {}): StartParameter => ({ name, lower: -Infinity, upper: Infinity, ...extra });
 const xs = Array.from({ length: 30 }, (_, i) => i * 0.2);
 
-describe('start guessStart', () => {
-  it('solves a model linear in all parameters exactly (ml-matrix least squares)', () => {
+describe('solve/start guessStart', () => {
+  it('solves a model linear in all parameters exactly (reference: ml-matrix QR least squares)', () => {
     const ys = xs.map((x) => 1.5 - 2 * x + 0.3 * x * x + 0.01 * Math.sin(9 * x));
     const { input } = setup('a + b * x + c * x^2', [free('a'), free('b'), free('c')], xs, ys);
     const g = guessStart(input);
@@ -44,10 +17,10 @@ describe('start guessStart', () => {
     expect(g.how).toBe('linear least squares for a, b, c');
   });
 
-  it('finds the decade of a rate and solves the amplitude', () => {
+  it('finds the decade of a rate and solves the amplitude (general fallback, no structure)', () => {
     for (const k of [0.03, 0.8, 25]) {
-      const ys = xs.map((x) => 4 * Math.exp(-k * x) + 0.5);
-      const { input, ssr } = setup('amp * exp(-k * x) + c', [free('amp'), free('k'), free('c')], xs, ys);
+      const ys = xs.map((x) => 4 * Math.exp(-k * x) + 0.5 + 0.01 * Math.sin(7 * x));
+      const { input, ssr } = setup('amp * exp(-k * x) + c', [free('amp'), free('k'), free('c')], xs, ys, false);
       const g = guessStart(input);
       // half-decade magnitudes: the chosen k is within a factor √10 of the truth, or does as well
       const ratio = Math.abs(Math.log10(g.theta[1] / k));
@@ -91,17 +64,17 @@ describe('start guessStart', () => {
     expect(c[1] / c[0]).toBeCloseTo(c[2] / c[1], 10);
     const lin = candidates({ name: 'm', lower: -1, upper: 1 }, []);
     expect(lin[1] - lin[0]).toBeCloseTo(lin[2] - lin[1], 12);
-    expect(candidates({ name: 'q', lower: 5, upper: Infinity }, []).every((v) => v > 5)).toBe(true);
-    expect(candidates({ name: 'q', lower: -Infinity, upper: 0 }, []).every((v) => v < 0)).toBe(true);
+    expect(candidates({ name: 'q', lower: 5, upper: Infinity }, []).every((v: number) => v > 5)).toBe(true);
+    expect(candidates({ name: 'q', lower: -Infinity, upper: 0 }, []).every((v: number) => v < 0)).toBe(true);
     expect(candidates({ name: 'q', lower: -Infinity, upper: Infinity }, [Float64Array.of(0, 50)])).toContain(50);
   });
 });
 
-describe('start guessStart on large data', () => {
+describe('solve/start guessStart on large data', () => {
   it('thins to at most 5000 rows and still finds the rate decade', () => {
     const big = Array.from({ length: 20001 }, (_, i) => i * 0.0005);
     const ys = big.map((x) => 2 * Math.exp(-1.7 * x) + 0.01 * Math.sin(50 * x));
-    const { input } = setup('amp * exp(-k * x)', [free('amp'), free('k')], big, ys);
+    const { input } = setup('amp * exp(-k * x)', [free('amp'), free('k')], big, ys, false);
     const g = guessStart(input);
     expect(Math.abs(Math.log10(g.theta[1] / 1.7))).toBeLessThan(0.5);
     expect(g.theta[0]).toBeGreaterThan(1);

@@ -1,0 +1,72 @@
+/**
+ * The multi-start search through the runner (engine/run/fit.ts): when it
+ * runs, what it reports, the lower-minimum warning, JSON against the result
+ * schema. Invented data: one sinusoid, whose sum of squares in the frequency
+ * has many local minima.
+ */
+import { describe, expect, it } from 'vitest';
+import { runSpec, tempDir, writeCsv } from './helpers';
+import { validateResult } from '../cli/helpers';
+import { resultToJsonValue } from '../../engine/run';
+import { fitTextLines } from '../../engine/views/text';
+
+const rows = Array.from({ length: 101 }, (_, i) => {
+  const x = i * 0.1;
+  return [x, Number((1.7 * Math.sin(3.1 * x) + 0.6 * Math.cos(3.1 * x) + 0.01 * Math.sin(17 * x)).toFixed(6))];
+});
+const spec = (params: string, extra = '') => `data d = "wave.csv"\nfit wave on d {\n  model y = a * sin(w * x) + b * cos(w * x)\n${params}\n${extra}}\n`;
+
+async function run(params: string, extra = '') {
+  const dir = tempDir();
+  writeCsv(dir, 'wave.csv', ['x', 'y'], rows);
+  const { result } = await runSpec(spec(params, extra), dir);
+  return result;
+}
+
+describe('run/fit multi-start search', () => {
+  it('runs by default when a nonlinear parameter has no start, and reports its minima', async () => {
+    const result = await run('  param a\n  param w in [0, 20]\n  param b');
+    const fit = result.fits[0];
+    expect(fit.search?.reason).toBe('no_start');
+    expect(fit.parameters[1].estimate).toBeCloseTo(3.1, 4);
+    expect(fit.search!.minima[0].reported).toBe(true);
+    expect(fit.search!.parameters).toEqual(['a', 'w', 'b']);
+    expect(fit.search!.box.map((b) => b.parameter)).toEqual(['w']);
+    const json = resultToJsonValue(result);
+    const v = validateResult(json);
+    expect(v.ok, v.errors).toBe(true);
+    expect(fitTextLines(fit)[2]).toMatch(/^ {2}Search: \d+ starting points, \d+ refined, \d+ distinct minim/);
+  });
+
+  it('with given starts, searches only when asked, and warns that the start leads to a higher minimum', async () => {
+    const none = await run('  param a = 1\n  param w = 1 in [0, 20]\n  param b = 0');
+    expect(none.fits[0].search).toBeUndefined();
+    expect(Math.abs(none.fits[0].parameters[1].estimate - 3.1)).toBeGreaterThan(0.5);
+
+    const asked = await run('  param a = 1\n  param w = 1 in [0, 20]\n  param b = 0', '  explore 32\n');
+    const fit = asked.fits[0];
+    expect(fit.search?.reason).toBe('asked');
+    expect(fit.search!.lowerElsewhere).toBe(true);
+    expect(fit.parameters[1].estimate).toBeCloseTo(3.1, 4);
+    expect(fit.goodness.ssr).toBeLessThan(0.01 * fit.search!.startSsr);
+    expect(fit.stop.converged).toBe(true);
+    expect(fit.stop.message).toContain('the multi-start search found this minimum below the one reached from the starting values');
+    const w = fit.warnings.find((x) => x.code === 'lower_minimum');
+    expect(w?.message).toMatch(/from the given starting values the fit stops at a local minimum \(SSR [\d.e+-]+\); the search over 34 starting points found a lower one/);
+    expect(fit.search!.minima.find((m) => m.fromStart)?.ssr).toBeCloseTo(fit.search!.startSsr, 8);
+    expect(validateResult(resultToJsonValue(asked)).ok).toBe(true);
+  });
+
+  it('explore 0 switches the search off', async () => {
+    const result = await run('  param a\n  param w in [0, 20]\n  param b', '  explore 0\n');
+    expect(result.fits[0].search).toBeUndefined();
+  });
+
+  it('does not search a model linear in its parameters', async () => {
+    const dir = tempDir();
+    writeCsv(dir, 'wave.csv', ['x', 'y'], rows);
+    const { result } = await runSpec('data d = "wave.csv"\nfit line on d {\n  model y = a + b * x\n  param a\n  param b\n  explore 16\n}\n', dir);
+    expect(result.fits[0].method).toBe('linear');
+    expect(result.fits[0].search).toBeUndefined();
+  });
+});
