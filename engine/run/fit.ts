@@ -143,7 +143,7 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
     if (!s.lowerElsewhere && s.best !== s.fromStart) {
       solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.sameMinimum}` };
     }
-    const lowerUnconverged = s.minima.find((m) => !m.converged && isLower(m.ssr * c2, reportedSsr, 0));
+    const lowerUnconverged = s.minima.find((m) => !m.converged && isLower(m.ssr, 2 * s.best.cost, 0));
     if (lowerUnconverged && solved.outcome.stop.converged) {
       solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.lowerUnconverged(lowerUnconverged.ssr * c2)}` };
       searchWarnings.push({ code: 'lower_minimum', message: searchText.unconvergedLower(lowerUnconverged.ssr * c2, reportedSsr), parameters: free });
@@ -208,6 +208,8 @@ function searchPlan(fit: FitPlan, data: FitData, linearModel: boolean, start: St
 /** The search as reported; `c2` = c², the factor from the scaled problem's sums of squares to the data's. */
 function searchSummary(s: ExploreOutcome, reason: SearchResult['reason'], free: readonly string[], c2: number): SearchResult {
   const reportedSsr = 2 * s.best.cost * c2;
+  // matched in the scaled problem's units: c² may underflow for data near 1e-300
+  const reportedScaled = 2 * s.best.cost;
   let reportedMarked = false;
   return {
     reason,
@@ -218,7 +220,7 @@ function searchSummary(s: ExploreOutcome, reason: SearchResult['reason'], free: 
     refined: s.refined,
     minima: s.minima.map((m) => {
       const ssr = m.ssr * c2;
-      const reported = !reportedMarked && m.converged && Math.abs(ssr - reportedSsr) <= 1e-8 * Math.max(ssr, reportedSsr);
+      const reported = !reportedMarked && m.converged && Math.abs(m.ssr - reportedScaled) <= 1e-8 * Math.max(m.ssr, reportedScaled);
       if (reported) reportedMarked = true;
       return { ssr, estimates: Array.from(m.theta), converged: m.converged, hits: m.hits, fromStart: m.fromStart, reported };
     }),

@@ -33,27 +33,33 @@ export function meansByX(d: XY): XY {
   return out;
 }
 
-/** Ordinary least-squares line y = intercept + slope·x; null with fewer than 2 distinct x. */
+/**
+ * Ordinary least-squares line y = intercept + slope·x; null with fewer than 2
+ * distinct x. Computed on x centred and divided by its largest deviation s
+ * (u = (x − mean)/s, |u| ≤ 1), so x near 1e±300 neither under- nor overflows
+ * in the sums of squares. Distinct x is decided relative to x's own size:
+ * a spread s ≤ 1e-12·|mean x| counts as one x (rounding of a constant column).
+ */
 export function lineFit(x: readonly number[], y: readonly number[]): { intercept: number; slope: number } | null {
   const n = x.length;
   if (n < 2) return null;
   let mx = 0;
   let my = 0;
   for (let i = 0; i < n; i++) {
-    mx += x[i];
-    my += y[i];
+    mx += x[i] / n;
+    my += y[i] / n;
   }
-  mx /= n;
-  my /= n;
-  let sxx = 0;
-  let sxy = 0;
+  let s = 0;
+  for (let i = 0; i < n; i++) s = Math.max(s, Math.abs(x[i] - mx));
+  if (!(s > 1e-12 * Math.abs(mx)) || !(s > 0) || !Number.isFinite(s)) return null;
+  let suu = 0;
+  let suy = 0;
   for (let i = 0; i < n; i++) {
-    sxx += (x[i] - mx) ** 2;
-    sxy += (x[i] - mx) * (y[i] - my);
+    const u = (x[i] - mx) / s;
+    suu += u * u;
+    suy += u * (y[i] - my);
   }
-  // Distinct x decided relative to the spread of x: sxx ≤ 1e-24·n·(1 + mx²) counts as zero.
-  if (!(sxx > 1e-24 * n * (1 + mx * mx))) return null;
-  const slope = sxy / sxx;
+  const slope = suy / suu / s;
   const r = { intercept: my - slope * mx, slope };
   return Number.isFinite(r.intercept) && Number.isFinite(r.slope) ? r : null;
 }

@@ -43,7 +43,7 @@ export interface Built {
   bench: string;
 }
 
-/** Runs `node build.mjs` and copies dist/worker.js, dist/bench.js and the panel bundle (when built) to a fresh temp folder. */
+/** Runs `node build.mjs` and copies dist/worker.js, dist/bench.js, dist/cli.js and the panel bundle (when built) to a fresh temp folder. */
 export async function buildBundles(): Promise<Built> {
   return withLock(() => {
     execFileSync(process.execPath, ['build.mjs'], { cwd: REPO_ROOT, stdio: 'pipe' });
@@ -56,6 +56,7 @@ export async function buildBundles(): Promise<Built> {
     };
     copy('panel.js'); // benchmark 10 serves the page bundle from beside bench.js
     copy('panel.css');
+    copy('cli.js'); // benchmarks 14-17 run the CLI as a whole process (it finds worker.js beside it)
     return { dir, worker: copy('worker.js'), bench: copy('bench.js') };
   });
 }

@@ -28,8 +28,16 @@ import { groupedLogisticCsv, logistic4, LOGISTIC_MODEL } from '../data';
 import { fmt, type BenchRow } from '../report';
 import type { BenchContext } from './context';
 
-const ROOT = path.resolve(__dirname, '..');
-const CLI = path.join(ROOT, 'dist', 'cli.js');
+/** The repository: the first folder up from the bundle (dist/bench.js) that holds the reference script, else the working directory. */
+function repoRoot(): string {
+  for (let dir = __dirname; ; dir = path.dirname(dir)) {
+    if (existsSync(path.join(dir, 'test', 'bench', 'reference', 'script_fit.py'))) return dir;
+    if (path.dirname(dir) === dir) return process.cwd();
+  }
+}
+const ROOT = repoRoot();
+/** Our CLI bundle: beside this bundle when copied with it (the bench test runs a private copy), else dist/cli.js. */
+const CLI = existsSync(path.join(__dirname, 'cli.js')) ? path.join(__dirname, 'cli.js') : path.join(ROOT, 'dist', 'cli.js');
 const SCRIPT = path.join(ROOT, 'test', 'bench', 'reference', 'script_fit.py');
 const PRELOAD = path.join(ROOT, 'test', 'bench', 'reference', 'rusage-preload.cjs');
 
