@@ -48,7 +48,8 @@ export interface ExprUse {
 
 export const newUse = (): ExprUse => ({ columns: [], params: new Set(), broken: false });
 
-const isCondition = (e: ExprAst): boolean => e.kind === 'compare' || e.kind === 'logic' || e.kind === 'not';
+const isLogicChain = (e: ExprAst): boolean => e.kind === 'chain' && (e.ops[0] === 'and' || e.ops[0] === 'or');
+const isCondition = (e: ExprAst): boolean => e.kind === 'compare' || e.kind === 'logic' || e.kind === 'not' || isLogicChain(e);
 
 export function resolveExpr(env: Env, ast: ExprAst, want: 'number' | 'condition', scope: ExprScope, use: ExprUse): Expr {
   if (ast.kind !== 'error') {
@@ -88,6 +89,12 @@ export function resolveExpr(env: Env, ast: ExprAst, want: 'number' | 'condition'
       return { kind: 'logic', op: ast.op, left: cond(ast.left), right: cond(ast.right), range };
     case 'not':
       return { kind: 'not', arg: cond(ast.arg), range };
+    case 'chain': {
+      const each = isLogicChain(ast) ? cond : num;
+      const args: Expr[] = [];
+      for (const a of ast.args) args.push(each(a));
+      return { kind: 'chain', ops: [...ast.ops], args, range };
+    }
   }
 }
 

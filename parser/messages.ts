@@ -9,6 +9,7 @@ import type { Severity } from './plan';
 export const CODES = {
   syntax: 'error',
   internal: 'error',
+  'nested-too-deeply': 'error',
   'undefined-name': 'error',
   'unknown-column': 'error',
   'unknown-data': 'error',
@@ -59,6 +60,8 @@ export const MSG = {
   unterminatedString: 'this text has no closing " on its line',
   unexpectedCharacter: (ch: string) => `unexpected character ${q(ch)}`,
   internal: (detail: string) => `internal parser problem (please report it with the spec): ${detail}`,
+  nestedTooDeeply: (limit: number) =>
+    `expression nested too deeply (limit ${limit} levels of parentheses, function calls and operators)`,
 
   undefinedName: (name: string) => `${q(name)} is not a parameter, constant or column`,
   notAConstant: (name: string) => `${q(name)} is not a constant`,

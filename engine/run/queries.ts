@@ -26,8 +26,8 @@ export function runQueries(queries: readonly Query[], ctx: QueryContext): { resu
   const errors: RunError[] = [];
   for (const q of queries) {
     const out = q.kind === 'compare' ? compare(q, ctx) : q.kind === 'predict' ? predict(q, ctx) : invert(q, ctx);
-    results.push(...out.results);
-    errors.push(...out.errors);
+    for (const r of out.results) results.push(r);
+    for (const e of out.errors) errors.push(e);
   }
   return { results, errors };
 }
@@ -96,8 +96,13 @@ function invert(q: Extract<Query, { kind: 'invert' }>, ctx: QueryContext): Out {
       out.errors.push({ code: 'no_predictor', message: errorText.noPredictor(q.fit, 'invert'), range: q.range, fit: q.fit });
       return out;
     }
-    const lo = Math.min(...xs);
-    const hi = Math.max(...xs);
+    // (a loop, not Math.min(...xs): a call takes at most about 10⁵ arguments, data can be longer)
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const x of xs) {
+      if (x < lo) lo = x;
+      if (x > hi) hi = x;
+    }
     const band = (v: Float64Array) => bandsAt(v, curve.modelAt, curve.cov, curve.p, curve.t, curve.newVar);
     const inversions: InversePrediction[] = q.values.map((v) => {
       const y0 = transform!(v);

@@ -11,7 +11,7 @@ import {
   derivedBlock, derivedLabel, expectationRows, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL,
   PARAMETER_HEADERS, parameterRows, queryBlocks, stopLine, warningLines,
 } from './summary';
-import { markdownTable, mdCell } from './table';
+import { append, markdownTable, mdCell } from './table';
 import {
   DETAIL_ALL_GROUPS, detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock,
   shownFitIndices, worstGroupLines, type FitSection,
@@ -75,11 +75,11 @@ function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: n
   const t = section.table;
   const lines = [`## ${groupHeading(section)}`, '', groupCountLine(t), ''];
   const table = groupTableBlock(t);
-  lines.push(...markdownTable(table.headers, table.rows, table.align), '');
+  append(lines, markdownTable(table.headers, table.rows, table.align), '');
   const summary = groupSummaryBlock(t);
-  lines.push('### Across converged groups', '', ...markdownTable(summary.headers, summary.rows, summary.align), '');
+  append(lines, '### Across converged groups', '', markdownTable(summary.headers, summary.rows, summary.align), '');
   const worst = worstGroupLines(t);
-  if (worst.length) lines.push('### Worst groups', '', ...worst.map((w) => `- ${mdCell(w)}`), '');
+  if (worst.length) append(lines, '### Worst groups', '', worst.map((w) => `- ${mdCell(w)}`), '');
   const note = detailNote(section, shown);
   if (note) lines.push(note, '');
   return lines;
@@ -88,12 +88,12 @@ function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: n
 function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
   const lines = [`## ${fitHeading(fit)}`, '', stopLine(fit) + '.', ''];
   lines.push(`Confidence level ${formatLevel(fit.level)}; intervals use Student's t with ${fit.goodness.dof} degrees of freedom.`, '');
-  lines.push(...markdownTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']), '');
+  append(lines, markdownTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']), '');
   lines.push('### Goodness of fit', '');
-  lines.push(...markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left']), '');
+  append(lines, markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left']), '');
   const warnings = warningLines(fit);
   if (warnings.length) {
-    lines.push('### Warnings', '', ...warnings.map((w) => `- ${mdCell(w)}`), '');
+    append(lines, '### Warnings', '', warnings.map((w) => `- ${mdCell(w)}`), '');
   }
   if (charts.length) {
     lines.push('### Charts', '');
@@ -120,7 +120,7 @@ function provenanceSection(result: RunResult, sections: readonly FitSection[]): 
     const extra = limits.length ? `, ${limits.join(', ')}` : '';
     rows.push([`options of ${label}`, `${METHOD_LABEL[fit.method]}, ${LOSS_LABEL[fit.loss]}, level ${formatLevel(fit.level)}${extra}`]);
   }
-  lines.push(...markdownTable(['item', 'value'], rows, ['left', 'left']), '');
+  append(lines, markdownTable(['item', 'value'], rows, ['left', 'left']), '');
   lines.push('Re-running the same spec on files with the same SHA-256 reproduces these results.', '');
   return lines;
 }
@@ -132,7 +132,7 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
   lines.push(`Produced by ${result.provenance.tool} ${result.provenance.toolVersion} on ${result.provenance.startedAt}.`, '');
   lines.push(`> ${USE_OF_RESULTS}`, '');
   if (opts.about) {
-    lines.push('## About this spec', '', 'From the comment at the top of the spec:', '', '```text', ...opts.about.split('\n'), '```', '');
+    append(lines, '## About this spec', '', 'From the comment at the top of the spec:', '', '```text', opts.about.split('\n'), '```', '');
   }
 
   const sections = fitSections(result);
@@ -146,40 +146,40 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
       const n = s.fits.reduce((k, f) => k + f.goodness.n, 0);
       return [[`${s.name} (${sum.groups} groups)`, sum.converged === sum.groups ? 'yes' : `**${sum.converged} of ${sum.groups}**`, String(n), 'per group', `median ${formatNumber(sum.r2.median, 5)}`, `${sum.flagged} groups flagged`]];
     });
-    lines.push(...markdownTable(['fit', 'converged', 'n', 'RMSE', 'R²', 'warnings'], rows), '');
+    append(lines, markdownTable(['fit', 'converged', 'n', 'RMSE', 'R²', 'warnings'], rows), '');
     lines.push(expectationTally(result), '');
   }
   const review = reviewPoints(result);
   lines.push('## Points to review', '');
-  lines.push(...(review.length ? review.map((r) => `- ${r}`) : ['Nothing stands out: every fit converged with no warnings and every expectation passed. Still look at the residual charts.']), '');
+  append(lines, (review.length ? review.map((r) => `- ${r}`) : ['Nothing stands out: every fit converged with no warnings and every expectation passed. Still look at the residual charts.']), '');
 
   for (const s of sections) {
     if (s.kind === 'single') {
-      lines.push(...fitSection(s.fit, opts.charts?.[s.index] ?? []));
+      append(lines, fitSection(s.fit, opts.charts?.[s.index] ?? []));
       continue;
     }
     const shown = detailIndices(s);
-    lines.push(...groupSection(s, shown.length));
-    for (const i of shown) lines.push(...fitSection(result.fits[i], opts.charts?.[i] ?? []));
+    append(lines, groupSection(s, shown.length));
+    for (const i of shown) append(lines, fitSection(result.fits[i], opts.charts?.[i] ?? []));
   }
 
   const blocks = queryBlocks(result);
   if (blocks.length) {
     lines.push('## Queries', '');
-    for (const b of blocks) lines.push(`### ${b.heading}`, '', ...markdownTable(b.headers, b.rows, b.align), '', ...b.notes, '');
+    for (const b of blocks) append(lines, `### ${b.heading}`, '', markdownTable(b.headers, b.rows, b.align), '', b.notes, '');
   }
   const derived = derivedBlock(result);
   if (derived) {
     const defs = new Map((result.derived ?? []).map((d) => [d.name, `\`${d.name} = ${d.expression}\``]));
-    lines.push(`## ${derived.heading}`, '', `As defined in the spec: ${[...defs.values()].join(', ')}.`, '');
-    lines.push(...markdownTable(derived.headers, derived.rows, derived.align), '');
-    lines.push(...derived.notes.map((n) => `- ${mdCell(n)}`), '');
+    append(lines, `## ${derived.heading}`, '', `As defined in the spec: ${[...defs.values()].join(', ')}.`, '');
+    append(lines, markdownTable(derived.headers, derived.rows, derived.align), '');
+    append(lines, derived.notes.map((n) => `- ${mdCell(n)}`), '');
     lines.push('First-order (delta-method) uncertainties; they assume the listed conditions and do not replace a validated uncertainty evaluation.', '');
   }
   if (result.expectations.length) {
     lines.push('## Expectations', '');
     const rows = expectationRows(result).map((e) => [e.verdict === 'PASS' ? 'PASS' : '**FAIL**', `\`${e.text}\``, e.actual, e.message]);
-    lines.push(...markdownTable(['verdict', 'expectation', 'actual', 'detail'], rows, ['left', 'left', 'right', 'left']), '', expectationTally(result), '');
+    append(lines, markdownTable(['verdict', 'expectation', 'actual', 'detail'], rows, ['left', 'left', 'right', 'left']), '', expectationTally(result), '');
   }
   if (result.errors.length) {
     lines.push('## Errors', '');
@@ -189,6 +189,6 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
     }
     lines.push('');
   }
-  lines.push(...provenanceSection(result, sections));
+  append(lines, provenanceSection(result, sections));
   return lines.join('\n').replace(/\n{3,}/g, '\n\n');
 }

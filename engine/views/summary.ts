@@ -211,18 +211,22 @@ export type ExpectationRow = ReturnType<typeof expectationLine>;
 export function expectationRows(result: RunResult, manyGroups = 5): ExpectationRow[] {
   const key = (e: ExpectationResult) => `${e.expectation.text}@${e.expectation.range.start.line}:${e.expectation.range.start.column}`;
   const byKey = new Map<string, ExpectationResult[]>();
-  for (const e of result.expectations) byKey.set(key(e), [...(byKey.get(key(e)) ?? []), e]);
+  for (const e of result.expectations) {
+    const list = byKey.get(key(e));
+    if (list) list.push(e);
+    else byKey.set(key(e), [e]);
+  }
   const out: ExpectationRow[] = [];
   for (const es of byKey.values()) {
     const grouped = es.filter((e) => e.group !== undefined);
     if (grouped.length <= manyGroups) {
-      out.push(...es.map(expectationLine));
+      for (const e of es) out.push(expectationLine(e));
       continue;
     }
     const failed = es.filter((e) => !e.passed);
     const tag = failed.length === 0 ? `[all ${es.length} groups]` : `[${failed.length} of ${es.length} groups fail]`;
     out.push({ verdict: failed.length === 0 ? 'PASS' : 'FAIL', text: `${es[0].expectation.text} ${tag}`, actual: '', message: '' });
-    out.push(...failed.map(expectationLine));
+    for (const e of failed) out.push(expectationLine(e));
   }
   return out;
 }

@@ -8,6 +8,26 @@ export type Align = 'left' | 'right';
 
 const width = (s: string): number => [...s].length;
 
+/**
+ * Appends items (a line, or a list of lines) to `lines` and returns it.
+ * Unlike `lines.push(...list)`, any length works: a call takes at most about
+ * 10⁵ arguments (a table of 200,000 predictions or groups would overflow).
+ */
+export function append(lines: string[], ...items: (string | readonly string[])[]): string[] {
+  for (const item of items) {
+    if (typeof item === 'string') lines.push(item);
+    else for (const line of item) lines.push(line);
+  }
+  return lines;
+}
+
+/** Largest value of `xs` (-Infinity when empty), for lists of any length. */
+export function maxOf(xs: Iterable<number>): number {
+  let m = -Infinity;
+  for (const x of xs) if (x > m) m = x;
+  return m;
+}
+
 function pad(s: string, w: number, align: Align): string {
   const fill = ' '.repeat(Math.max(0, w - width(s)));
   return align === 'right' ? fill + s : s + fill;
@@ -21,7 +41,7 @@ function pad(s: string, w: number, align: Align): string {
 export function textTable(headers: string[], rows: string[][], align?: Align[], indent = '  '): string[] {
   const cols = headers.length;
   const al = (c: number): Align => align?.[c] ?? (c === 0 ? 'left' : 'right');
-  const w = headers.map((h, c) => Math.max(width(h), ...rows.map((r) => width(r[c] ?? ''))));
+  const w = headers.map((h, c) => Math.max(width(h), maxOf(rows.map((r) => width(r[c] ?? '')))));
   const line = (cells: string[]): string =>
     (indent + cells.map((cell, c) => pad(cell ?? '', w[c], al(c))).join('  ')).replace(/\s+$/, '');
   return [

@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { analyze, check } from '../../parser/index';
 import type { CheckContext } from '../../parser/index';
 import type { SpecAst } from '../../parser/ast';
-import type { Diagnostic } from '../../parser/plan';
+import { PLAN_VERSION, type Diagnostic } from '../../parser/plan';
+import { MAX_NESTING } from '../../parser/limits';
 import { CODES, type DiagnosticCode } from '../../parser/messages';
 import { marked, specs } from './helpers';
 
@@ -51,8 +52,15 @@ describe('parser/check diagnostics', () => {
     const broken = { kind: 'spec', statements: [{ kind: 'fit', name: { name: 'f' }, items: null }], range: analyze('').ast.range } as unknown as SpecAst;
     const { diagnostics, plan } = check(broken);
     expect(diagnostics.map((d) => d.code)).toEqual(['internal']);
-    expect(plan.version).toBe(1);
+    expect(plan.version).toBe(PLAN_VERSION);
     seen.add('internal');
+  });
+
+  it('nested-too-deeply: at the parenthesis or operator one level past the limit', () => {
+    const open = '('.repeat(MAX_NESTING);
+    expectAt(spec({ model: `y = ${open}«(»a * x)${')'.repeat(MAX_NESTING)}` }), 'nested-too-deeply');
+    // a tree's depth counts from its leaves: the outermost of 101 signs is the one too many
+    expectAt(spec({ model: `y = «-»${'-'.repeat(MAX_NESTING)}a * x` }), 'nested-too-deeply');
   });
 
   it('undefined-name with did-you-mean (headers known)', () => {
