@@ -9,7 +9,6 @@ import { isBuiltinConstant, type Env, type FitInfo } from './check-env';
 import { newUse, resolveExpr, resolveValue, type ExprScope, type ExprUse } from './check-expr';
 import { checkOptions } from './check-options';
 import { MSG } from './messages';
-import { suggest } from './suggest';
 import { EMPTY_RANGE } from './source';
 
 export function checkFit(env: Env, fit: FitAst): FitInfo {
@@ -31,7 +30,7 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
     } else if (env.declared.data.has(dataName)) {
       r.report('declared-later', MSG.declaredLater('data', dataName, env.declared.data.get(dataName)!), fit.data.range);
     } else {
-      r.report('unknown-data', MSG.unknownData(dataName), fit.data.range, suggest(dataName, env.data.keys()));
+      r.report('unknown-data', MSG.unknownData(dataName), fit.data.range, env.suggester.suggest(dataName, env.data.keys()));
     }
   }
 

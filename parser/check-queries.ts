@@ -9,7 +9,6 @@ import { STATISTICS, type Bound, type Expectation, type ExpectTarget, type Query
 import type { Env, FitInfo } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
-import { suggest } from './suggest';
 
 /** The fit a statement names, or undefined (reported). */
 export function lookupFit(env: Env, name: NameAst | undefined): FitInfo | undefined {
@@ -18,7 +17,7 @@ export function lookupFit(env: Env, name: NameAst | undefined): FitInfo | undefi
   if (f) return f;
   const later = env.declared.fit.get(name.name);
   if (later !== undefined) env.r.report('declared-later', MSG.declaredLater('fit', name.name, later), name.range);
-  else env.r.report('unknown-fit', MSG.unknownFit(name.name), name.range, suggest(name.name, env.fits.keys()));
+  else env.r.report('unknown-fit', MSG.unknownFit(name.name), name.range, env.suggester.suggest(name.name, env.fits.keys()));
   return undefined;
 }
 
@@ -44,7 +43,7 @@ export function checkQuery(env: Env, q: PredictAst): Query | undefined {
       } else if (cols.length === 0) {
         env.r.report('predictor-mismatch', MSG.predictorNone(fitName), col.range);
       } else if (!cols.includes(col.name)) {
-        env.r.report('predictor-mismatch', MSG.predictorMany(fitName, cols, col.name), col.range, suggest(col.name, cols, cols.length));
+        env.r.report('predictor-mismatch', MSG.predictorMany(fitName, cols, col.name), col.range, env.suggester.suggest(col.name, cols, cols.length));
       }
     } else {
       if (cols.length !== 1) env.r.report('predictor-mismatch', MSG.invertNeedsOne(fitName, cols), q.fit!.range);
@@ -98,7 +97,7 @@ function derivedTarget(env: Env, head: NameAst, path: NameAst[]): ExpectTarget |
   } else if (env.declared.fit.has(head.name)) {
     env.r.report('unknown-target', MSG.fitNeedsMember(head.name), head.range);
   } else {
-    env.r.report('undefined-name', MSG.unknownDerived(head.name), head.range, suggest(head.name, [...env.derived.keys(), ...env.fits.keys()]));
+    env.r.report('undefined-name', MSG.unknownDerived(head.name), head.range, env.suggester.suggest(head.name, [...env.derived.keys(), ...env.fits.keys()]));
   }
   return undefined;
 }
@@ -116,7 +115,7 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
       env.r.report('unknown-target', MSG.pathTooLong, third.range);
     } else if (second) {
       if (fit && !isParam) {
-        env.r.report('unknown-target', MSG.stderrOfNonParam(first.name, fitName), first.range, suggest(first.name, params));
+        env.r.report('unknown-target', MSG.stderrOfNonParam(first.name, fitName), first.range, env.suggester.suggest(first.name, params));
       } else if (second.name !== 'se') {
         env.r.report('unknown-target', MSG.unknownStderrPath(second.name), second.range, ['se']);
       } else {
@@ -127,7 +126,7 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
     } else if (isStatistic(first.name)) {
       target = { kind: 'statistic', fit: fitName, name: first.name };
     } else if (fit) {
-      env.r.report('unknown-target', MSG.unknownTarget(first.name, fitName), first.range, suggest(first.name, [...params, ...STATISTICS]));
+      env.r.report('unknown-target', MSG.unknownTarget(first.name, fitName), first.range, env.suggester.suggest(first.name, [...params, ...STATISTICS]));
     }
   } else if (fit && x.fit && !derived) {
     env.r.report('unknown-target', MSG.fitNeedsMember(fitName), x.fit.range);

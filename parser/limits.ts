@@ -28,3 +28,15 @@
  * nested calls) and the limit itself at 100 and 101 levels.
  */
 export const MAX_NESTING = 100;
+
+/**
+ * Work budget of the "did you mean" lookups of one check, in table cells of
+ * the bounded edit distance (suggest.ts; each candidate looked at also counts
+ * one). Once spent, later unknown names are still reported, without
+ * suggestions. Why 2·10⁷: an ordinary spec spends a few thousand (a typo
+ * against a 100-column header costs about 1,500); the budget lets the first
+ * ~25 unknown names of a spec be compared with a 10,000-column header of
+ * look-alike names (`sensor_0000` …), and costs about 0.1 s when spent
+ * (measured with benchmark 11, `npm run bench -- --only 11`).
+ */
+export const MAX_SUGGEST_CELLS = 20_000_000;

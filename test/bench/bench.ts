@@ -3,7 +3,7 @@
  *
  *   node build.mjs && node dist/bench.js [--quick] [--json] [--markdown FILE] [--only 1,4,7]
  *
- * Prints one row per benchmark (1-10, see the cases/ modules) with the
+ * Prints one row per benchmark (1-11, see the cases/ modules) with the
  * headline figure, its spread over the runs (min-max), the goal and whether
  * it is met, after a line describing the machine and date. Comparisons are
  * measured side by side in one run and given as ratios. `--json` prints the
@@ -27,6 +27,7 @@ import { benchGroups } from './cases/groups';
 import { benchScaling } from './cases/scaling';
 import { benchMemory, isMemoryJob, memoryChild } from './cases/memory';
 import { benchPanelPaint } from './cases/panel-paint';
+import { benchSuggest } from './cases/suggest';
 
 const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<BenchRow> }[] = [
   { id: 1, name: 'LM vs gradient descent', run: benchDescent },
@@ -39,6 +40,7 @@ const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<Ben
   { id: 8, name: 'Scaling in n and p', run: benchScaling },
   { id: 9, name: 'Peak memory', run: benchMemory },
   { id: 10, name: 'Results panel first paint', run: benchPanelPaint },
+  { id: 11, name: 'Did you mean at scale', run: benchSuggest },
 ];
 
 interface Args {
