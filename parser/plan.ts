@@ -14,7 +14,7 @@
  *   dimensional-consistency check.
  */
 
-export const PLAN_VERSION = 2 as const;
+export const PLAN_VERSION = 1 as const;
 
 /** 1-based line and column, as shown to users (`file:line:col`). */
 export interface Position {
@@ -81,7 +81,8 @@ export type Expr =
    * `((args[0] ops[0] args[1]) ops[1] args[2]) …`, exactly the nested
    * `binary` (or `logic`) nodes it stands for, in the same order. Flat so
    * that a long sum keeps the plan shallow: JSON.stringify and structured
-   * cloning recurse. `ops.length === args.length - 1`.
+   * cloning recurse. `ops.length === args.length - 1`. Additive (as the
+   * `result` and `derived` nodes before it): plans keep version 1.
    */
   | { kind: 'chain'; ops: ChainOp[]; args: Expr[]; range?: Range };
 
