@@ -3,6 +3,7 @@
  * touches `process`; everything else is in engine/cli and takes an IO object.
  */
 import { runCli } from './engine/cli/main';
+import { terminalSafe } from './engine/views/escape';
 
 // A reader that stops early (`leastwise fit x.lsq --json - | head`) closes the
 // pipe: end quietly instead of reporting a write error.
@@ -10,9 +11,12 @@ process.stdout.on('error', (e: NodeJS.ErrnoException) => {
   if (e.code === 'EPIPE') process.exit(process.exitCode ?? 0);
 });
 
+// The output boundary: names and cell text from spec and data files reach the
+// terminal with control characters escaped (engine/views/escape.ts), so a data
+// file cannot retitle the window or clear the screen; JSON stays valid.
 runCli(process.argv.slice(2), {
-  stdout: (text) => void process.stdout.write(text),
-  stderr: (text) => void process.stderr.write(text),
+  stdout: (text) => void process.stdout.write(terminalSafe(text)),
+  stderr: (text) => void process.stderr.write(terminalSafe(text)),
   stderrIsTTY: Boolean(process.stderr.isTTY),
   cwd: process.cwd(),
 }).then(

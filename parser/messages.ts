@@ -5,6 +5,7 @@
  * improve. LANGUAGE.md lists the same codes. `CODES` is the single list.
  */
 import type { Severity } from './plan';
+import { inlineText } from '../engine/views/escape';
 
 export const CODES = {
   syntax: 'error',
@@ -56,7 +57,8 @@ export const CODES = {
 
 export type DiagnosticCode = keyof typeof CODES;
 
-const q = (s: string): string => `'${s}'`;
+/** A name in quotes; names from data headers may hold any character, so controls and line breaks are written escaped (`\u000a`). */
+const q = (s: string): string => `'${inlineText(s)}'`;
 const list = (xs: readonly string[]): string => xs.map(q).join(', ');
 
 export const MSG = {

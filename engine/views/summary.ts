@@ -183,7 +183,11 @@ export function derivedBlock(result: RunResult): QueryBlock | null {
     return [derivedLabel(d), d.value === null ? MISSING : f.estimate, d.stderr === null ? MISSING : f.stderr, interval, d.unit ?? ''];
   });
   const byNote = new Map<string, DerivedResult[]>();
-  for (const d of derived) byNote.set(d.note, [...(byNote.get(d.note) ?? []), d]);
+  for (const d of derived) {
+    const list = byNote.get(d.note);
+    if (list) list.push(d);
+    else byNote.set(d.note, [d]);
+  }
   const notes = [...byNote].map(([note, ds]) => `${derivedLabels(ds, derived)}: ${note}`);
   const lv = oneLevel && levels[0] !== undefined && levels[0] !== null ? `${formatLevel(levels[0])} ` : '';
   return {

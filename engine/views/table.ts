@@ -6,6 +6,8 @@
 
 export type Align = 'left' | 'right';
 
+import { inlineText, mdOf, type Markdown } from './escape';
+
 const width = (s: string): number => [...s].length;
 
 /**
@@ -41,6 +43,9 @@ function pad(s: string, w: number, align: Align): string {
 export function textTable(headers: string[], rows: string[][], align?: Align[], indent = '  '): string[] {
   const cols = headers.length;
   const al = (c: number): Align => align?.[c] ?? (c === 0 ? 'left' : 'right');
+  // user text (group labels, names) with control characters escaped before widths are measured (escape.ts)
+  rows = rows.map((r) => r.map((cell) => inlineText(cell ?? '')));
+  headers = headers.map(inlineText);
   const w = headers.map((h, c) => Math.max(width(h), maxOf(rows.map((r) => width(r[c] ?? '')))));
   const line = (cells: string[]): string =>
     (indent + cells.map((cell, c) => pad(cell ?? '', w[c], al(c))).join('  ')).replace(/\s+$/, '');
@@ -51,13 +56,17 @@ export function textTable(headers: string[], rows: string[][], align?: Align[], 
   ];
 }
 
-/** Escape a cell for a Markdown table (pipes and line breaks). */
-export function mdCell(s: string): string {
-  return s.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/\r?\n/g, ' ');
+/** A Markdown table cell: plain text escaped (escape.ts `mdText`, which also escapes `|`), Markdown as it is. */
+export function mdCell(s: string | Markdown): string {
+  return mdOf(s);
 }
 
-/** Lines of a GitHub-flavoured Markdown table; `align` as in textTable. */
-export function markdownTable(headers: string[], rows: string[][], align?: Align[]): string[] {
+/**
+ * Lines of a GitHub-flavoured Markdown table; `align` as in textTable. Plain
+ * string cells and headers are text (escaped); cells made with `md()` are
+ * Markdown and must not contain a bare `|` (escape.ts `mdCode(text, true)`).
+ */
+export function markdownTable(headers: string[], rows: (string | Markdown)[][], align?: Align[]): string[] {
   const al = (c: number): Align => align?.[c] ?? (c === 0 ? 'left' : 'right');
   return [
     `| ${headers.map(mdCell).join(' | ')} |`,

@@ -11,6 +11,7 @@ import {
   parameterRows, queryBlocks, stopLine, warningLines,
 } from './summary';
 import { append, maxOf, textTable } from './table';
+import { inlineText } from './escape';
 import {
   detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock, worstGroupLines, type FitSection,
 } from './groups';
@@ -79,8 +80,25 @@ export function groupTextLines(section: Extract<FitSection, { kind: 'groups' }>,
   return lines;
 }
 
+/**
+ * The run with its group labels (CSV cell text, any characters) in one-line
+ * terminal form (escape.ts `inlineText`): the summary shows them escaped, in
+ * headings, tables and lists alike, and no label can start a line of its own.
+ */
+function withTerminalLabels(result: RunResult): RunResult {
+  const g = <T extends { group?: string }>(x: T): T => (x.group !== undefined ? { ...x, group: inlineText(x.group) } : x);
+  return {
+    ...result,
+    fits: result.fits.map(g),
+    queries: result.queries.map((q) => (q.kind === 'compare' ? q : g(q))),
+    derived: result.derived?.map(g),
+    expectations: result.expectations.map(g),
+  };
+}
+
 /** The whole run summary (fits, queries, derived quantities, expectations) ending with a newline. */
-export function runText(result: RunResult): string {
+export function runText(run: RunResult): string {
+  const result = withTerminalLabels(run);
   const sections: string[][] = [];
   for (const s of fitSections(result)) {
     if (s.kind === 'single') {
