@@ -96,6 +96,7 @@ export const errorText = {
   unknownFit: (name: string) => `no fit named ${name}`,
   fixedWithoutValue: (fit: string, names: string[]) => `fit ${fit}: fixed parameter${names.length > 1 ? 's' : ''} ${names.join(', ')} need${names.length > 1 ? '' : 's'} a value`,
   noPredictor: (fit: string, what: 'predict' | 'invert', columns: readonly string[]) => MSG.needsOnePredictor(what, fit, columns),
+  noPoints: (fit: string, what: 'predict' | 'invert') => `${what} on fit ${fit}, which has no fitted points (see its error)`,
   wrongVariable: (fit: string, given: string, predictor: string) => MSG.predictorOther(fit, predictor, given),
   wrongResponse: (fit: string, given: string, columns: readonly string[]) => MSG.responseMismatch(fit, given, columns),
   comparePerGroup: (fit: string) => MSG.comparePerGroup(fit),

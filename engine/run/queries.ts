@@ -92,9 +92,14 @@ function invert(q: Extract<Query, { kind: 'invert' }>, ctx: QueryContext): Out {
   for (const r of found.results) {
     const curve = curveFromResult(found.plan, r);
     const xs = r.points.x;
-    if (!curve || !xs || xs.length === 0) {
+    if (!curve || !xs) {
       out.errors.push({ code: 'no_predictor', message: errorText.noPredictor(q.fit, 'invert', columnsOf(found.plan.blocks[0].model)), range: q.range, fit: q.fit });
       return out;
+    }
+    if (xs.length === 0) {
+      // the fit has no points (its data had no usable rows): a data problem, reported with the fit
+      out.errors.push({ code: 'no_points', message: errorText.noPoints(r.group !== undefined ? `${q.fit} [${r.group}]` : q.fit, 'invert'), range: q.range, fit: q.fit });
+      continue;
     }
     // (a loop, not Math.min(...xs): a call takes at most about 10⁵ arguments, data can be longer)
     let lo = Infinity;
