@@ -103,7 +103,7 @@ export class Suggester {
 
   /**
    * Up to `limit` candidates closest to `word`, nearest first (ties keep
-   * candidate order, across `sources` in turn); never `word` itself.
+   * candidate order, across `sources` in turn); never `word` itself, never an empty name.
    * Each source is a collection of candidate names.
    */
   suggest(word: string, sources: Iterable<string> | readonly Iterable<string>[], limit = 3): string[] {
@@ -137,7 +137,7 @@ export class Suggester {
     for (const c of src) {
       if (this.exhausted) return null;
       this.spent++;
-      if (c === word) continue;
+      if (c === word || c === '') continue; // (an empty header cell is no name to suggest)
       const lc = c.toLowerCase();
       const k = allowedFor(w.length, lc.length);
       if (Math.abs(w.length - lc.length) > k) continue;

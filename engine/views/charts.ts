@@ -282,20 +282,20 @@ export function chartSpecs(fit: FitResult, opts: ChartOptions = {}): ChartSpec[]
 
 /**
  * Chart file name `<fit>[-<group>]-<chart>.svg`, the same for the same names
- * in every run, and different for different names on any file system. A
- * name made only of lower-case letters, digits, `_`, `.` and `-` (not
- * starting with `.` or `-`, at most 64 characters) is used as it is; any
- * other name is written with other characters as `_`, cut to 64 characters,
- * and followed by `~` and a hash of the exact name. So groups `a b` and `a_b`
- * get `a_b~…` and `a_b`, and `A` and `a` stay apart on case-insensitive
- * file systems (macOS, Windows).
+ * in every run, and different for different names. A name made only of
+ * letters, digits, `_`, `.` and `-` (not starting with `.` or `-`, at most 64
+ * characters) is used as it is; any other name is written with other
+ * characters as `_`, cut to 64 characters, and followed by `~` and a hash of
+ * the exact name. So groups `a b` and `a_b` get `a_b~…` and `a_b`. (Two
+ * names that differ only in letter case, `A` and `a`, share a file on a
+ * case-insensitive file system.)
  */
 export function chartFileName(fit: FitResult, id: ChartId): string {
   const group = fit.group !== undefined ? `-${fileStem(fit.group)}` : '';
   return `${fileStem(fit.name)}${group}-${id}.svg`;
 }
 
-const PLAIN_STEM = /^[a-z0-9_][a-z0-9_.-]{0,63}$/;
+const PLAIN_STEM = /^[A-Za-z0-9_][A-Za-z0-9_.-]{0,63}$/;
 
 /** A file-name piece for `name` (see chartFileName). */
 export function fileStem(name: string): string {

@@ -80,23 +80,31 @@ export function htmlText(text: string): string {
 
 /**
  * Plain text for Markdown running text (headings, paragraphs, list items,
- * table cells, link text), shown as written: `&` and `<` as entities (so a
- * name like `<script>` or `<img onerror=…>` stays text in every renderer);
- * the punctuation that could start emphasis, code, links, images, table
- * cells, strikethrough or a heading's closing run backslash-escaped
- * (CommonMark §2.4 lets any ASCII punctuation be escaped), except `_` between
- * two letters or digits, which never emphasises (`conc_mg_L` stays
- * readable); line breaks as spaces (a table row or list item is one line);
+ * table cells), shown as written: `&` and `<` as entities (so a name like
+ * `<script>` or `<img onerror=…>` stays text in every renderer); the
+ * punctuation that could start emphasis, code, table cells, strikethrough or
+ * a heading's closing run backslash-escaped (CommonMark §2.4 lets any ASCII
+ * punctuation be escaped), except `_` between two letters or digits, which
+ * never emphasises (`conc_mg_L` stays readable); a `(` right after `]`
+ * escaped, so `[x](http://…)` or `![x](…)` never becomes a link or an image
+ * (brackets alone stay: the report defines no link references, so `[S50]`
+ * is text); line breaks as spaces (a table row or list item is one line);
  * other control characters as `escapeControls` writes them (a report read
  * with `cat` must not drive the terminal). Text that starts a line is not
  * expected here (line-start markers such as `-` or `1.` are not escaped).
  */
 export function mdText(text: string): string {
   return escapeControls(text.replace(/\r\n?|\n|\u2028|\u2029/g, ' '))
-    .replace(/[\\`*[\]|~#]/g, (c) => `\\${c}`)
+    .replace(/[\\`*|~#]/g, (c) => `\\${c}`)
+    .replace(/\]\(/g, ']\\(')
     .replace(/_/g, (c, i: number, s: string) => (/[A-Za-z0-9]/.test(s.charAt(i - 1)) && /[A-Za-z0-9]/.test(s.charAt(i + 1)) ? c : '\\_'))
     .replace(/&/g, '&amp;')
     .replace(/</g, '&lt;');
+}
+
+/** Plain text for the text of a link or image (`[…]`): `mdText`, with brackets escaped too. */
+export function mdLinkText(text: string): string {
+  return mdText(text).replace(/[[\]]/g, (c) => `\\${c}`);
 }
 
 /** Text that is already Markdown (our own markup, or user text passed through `mdText`/`mdCode`). */

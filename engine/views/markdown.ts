@@ -19,7 +19,7 @@ import {
   PARAMETER_HEADERS, parameterRows, queryBlocks, stopLine, warningLines,
 } from './summary';
 import { append, markdownTable } from './table';
-import { md, mdCode, mdFence, mdHref, mdText, type Markdown } from './escape';
+import { md, mdCode, mdFence, mdHref, mdLinkText, mdText, type Markdown } from './escape';
 import {
   DETAIL_ALL_GROUPS, detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock,
   shownFitIndices, worstGroupLines, type FitSection,
@@ -105,7 +105,7 @@ function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
   }
   if (charts.length) {
     lines.push('### Charts', '');
-    for (const c of charts) lines.push(`![${mdText(c.title)}](${mdHref(c.href)})`, '');
+    for (const c of charts) lines.push(`![${mdLinkText(c.title)}](${mdHref(c.href)})`, '');
   }
   return lines;
 }

@@ -54,9 +54,9 @@ describe('test/bench/bench (script structure, --quick)', () => {
 
   it('prints a text table with a line per benchmark and writes the Markdown table', () => {
     const text = textReport(report).split('\n');
-    for (let id = 1; id <= 10; id++) expect(text.some((l) => l.startsWith(`${id} `))).toBe(true);
+    for (let id = 1; id <= 11; id++) expect(text.some((l) => l.startsWith(`${id} `))).toBe(true);
     const rows = markdown.split('\n').filter((l) => /^\| \d+ \|/.test(l));
-    expect(rows).toHaveLength(10);
+    expect(rows).toHaveLength(11);
     expect(markdown).toContain(report.machine.cpu);
   });
 

@@ -82,7 +82,15 @@ if (!isMainThread && (workerData as { role?: string })?.role === 'fuzz-worker') 
       rmSync(dir, { recursive: true, force: true });
       process.exit(0);
     }
-    const c = makeCase(job.kind, job.seed, job.index, corpus);
+    let c: SpecCase;
+    try {
+      c = makeCase(job.kind, job.seed, job.index, corpus);
+    } catch (e) {
+      // a fault of the generator, not of the product: reported, the campaign goes on
+      const result: CaseResult = { outcome: 'internal', knownUnlocated: false, notes: [`internal: the fuzz generator failed: ${(e as Error).message}`], elapsed: 0, checkedClean: false };
+      parentPort!.postMessage({ index: job.index, result, shape: 'generator' } satisfies Done);
+      return;
+    }
     const result = await runCase(c, { dir, svg: job.svg, loader: job.kind === 'csv' });
     parentPort!.postMessage({ index: job.index, result, shape: c.shape } satisfies Done);
   });
@@ -171,8 +179,14 @@ async function main(argv: string[]): Promise<number> {
     while (next < indices.length) {
       const index = indices[next++];
       const d = await slot.run({ kind: args.kind, seed: args.seed, index, svg: args.svgEvery > 0 && index % args.svgEvery === 0 });
-      const c = makeCase(args.kind, args.seed, index, corpus);
-      const shape = d.shape === '?' ? c.shape : d.shape;
+      const needCase = d.shape === '?' || (d.result.outcome !== 'ok' && d.result.outcome !== 'located' && !d.result.knownUnlocated);
+      let c: SpecCase | undefined; // regenerated only to save it
+      try {
+        if (needCase) c = makeCase(args.kind, args.seed, index, corpus);
+      } catch {
+        c = { shape: 'generator', spec: '', files: [] };
+      }
+      const shape = c ? c.shape : d.shape;
       byOutcome.set(d.result.outcome, (byOutcome.get(d.result.outcome) ?? 0) + 1);
       const s = byShape.get(shape) ?? new Map<Outcome, number>();
       s.set(d.result.outcome, (s.get(d.result.outcome) ?? 0) + 1);
@@ -182,7 +196,7 @@ async function main(argv: string[]): Promise<number> {
       slowest = Math.max(slowest, d.result.elapsed);
       if (d.result.outcome !== 'ok' && d.result.outcome !== 'located' && !d.result.knownUnlocated) {
         const worst = d.result.notes.find((n) => n.startsWith(d.result.outcome)) ?? d.result.notes[0] ?? '';
-        bad.push({ index, outcome: d.result.outcome, shape, dir: saveCase(args.out, args.kind, args.seed, d, c), note: worst });
+        bad.push({ index, outcome: d.result.outcome, shape, dir: saveCase(args.out, args.kind, args.seed, d, c!), note: worst });
       }
       if (args.only !== null) notesOfOnly.push(...d.result.notes);
       done++;

@@ -18,7 +18,7 @@
  * group, non-finite values, solver failures) are not parity failures: `check`
  * reads only the spec and the data files' header lines.
  */
-import { mkdirSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { checkSpec } from '../../engine/cli/spec';
 import { runPlanSync } from '../../engine/run/run-plan';
@@ -121,17 +121,19 @@ export async function runCase(c: SpecCase, opts: RunCaseOptions): Promise<CaseRe
         }
       }
     }
-    const checked = checkSpec({ path: specPath, display: 's.lsq', dir: opts.dir, text: c.spec });
+    // read back as the CLI reads it (a lone surrogate, say, is written as U+FFFD)
+    const text = readFileSync(specPath, 'utf8');
+    const checked = checkSpec({ path: specPath, display: 's.lsq', dir: opts.dir, text });
     for (const d of checked.diagnostics) {
       const r = d.range;
-      const inside = r && r.start.offset >= 0 && r.start.offset <= r.end.offset && r.end.offset <= c.spec.length;
+      const inside = r && r.start.offset >= 0 && r.start.offset <= r.end.offset && r.end.offset <= text.length;
       if (d.code === 'internal' || INTERNAL_TEXT.test(d.message)) t.add('internal', `check ${d.code}: ${d.message}`);
       else if (!inside) t.add('unlocated', `check ${d.code} with a range outside the text: ${d.message}`);
       else if (d.severity === 'error') t.add('located', d.message);
     }
     checkedClean = checked.errors === 0;
     if (checkedClean) {
-      const result = runPlanSync(checked.plan, { baseDir: opts.dir, specText: c.spec, specPath: 's.lsq' });
+      const result = runPlanSync(checked.plan, { baseDir: opts.dir, specText: text, specPath: 's.lsq' });
       classifyRun(result, t);
       // every view of the result, as `fit --json --report` writes them
       runText(result);

@@ -43,7 +43,7 @@ function referenceSuggest(word: string, candidates: readonly string[], limit = 3
   const seen = new Set<string>();
   let i = 0;
   for (const c of candidates) {
-    if (c === word || seen.has(c)) continue;
+    if (c === word || c === '' || seen.has(c)) continue; // (the bounded search never suggests an empty name either)
     seen.add(c);
     const d = fullDistance(word, c);
     if (d <= Math.max(1, Math.floor(Math.max(word.length, c.length) / 3))) scored.push({ name: c, d, i: i++ });

@@ -131,7 +131,7 @@ describe('views/markdown per-group fits', () => {
     expect(md).toContain('### Across converged groups');
     expect(md).toContain('| cal (9 groups) | **8 of 9** | 108 | per group |');
     // full sections only for the failed group
-    expect(md.match(/^## Fit cal \\\[/gm)).toEqual(['## Fit cal \\[']);
+    expect(md.match(/^## Fit cal \[/gm)).toEqual(['## Fit cal [']);
     expect(md).toContain('options of cal (every group)');
   });
 });
