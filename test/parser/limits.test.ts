@@ -8,6 +8,10 @@ import { lexer, markLineStarts } from '../../parser/tokens';
 import { specs } from './helpers';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import Ajv from 'ajv';
+import schema from '../../parser/plan.schema.json';
+
+const validatePlan = new Ajv().compile(schema);
 
 const N = MAX_NESTING;
 const HEADERS = { headers: () => ['x', 'y'] };
@@ -149,6 +153,7 @@ describe('parser/limits: long flat expressions', () => {
     expect(model.args).toHaveLength(10_000);
     expect(model.ops.every((o) => o === '+')).toBe(true);
     expect(JSON.parse(JSON.stringify(plan)).fits[0].blocks[0].model.args).toHaveLength(10_000);
+    expect(validatePlan(JSON.parse(JSON.stringify(plan)))).toBe(true);
     expect((structuredClone(plan).fits[0].blocks[0].model as typeof model).args).toHaveLength(10_000);
   });
 
@@ -159,6 +164,9 @@ describe('parser/limits: long flat expressions', () => {
     expect(m.ops).toEqual(['-', '+', '-', '+']);
     expect(m.args.map((a) => a.kind)).toEqual(['param', 'column', 'number', 'chain', 'chain']);
     expect((m.args[3] as Extract<Expr, { kind: 'chain' }>).ops).toEqual(['*', '*', '/']);
+    // the published schema knows the chain node; a two-operand run stays a binary node
+    expect(validatePlan(JSON.parse(JSON.stringify(plan))), JSON.stringify(validatePlan.errors)).toBe(true);
+    expect(analyze(wrap('a + x'), HEADERS).plan.fits[0].blocks[0].model.kind).toBe('binary');
   });
 
   it('a condition of 3,000 clauses joined by and checks clean', () => {
