@@ -16,6 +16,8 @@ const node = [
   // the bench drives Chromium for the panel's first paint (case 10): playwright-core stays in node_modules
   { in: 'test/bench/bench.ts', out: 'bench', external: ['playwright-core'] },
   { in: 'test/bench/parse-bench.ts', out: 'parse-bench' },
+  // fuzz campaigns (`npm run fuzz`); runs its cases in worker threads of itself
+  { in: 'test/fuzz/fuzz-cli.ts', out: 'fuzz' },
 ];
 // The results panel page (+ panel.css from its CSS import), minified: it carries vega, vega-lite and vega-embed.
 const browser = [{ in: 'extension/panel/page.ts', out: 'panel', minify: true }];

@@ -4,6 +4,7 @@
  */
 import { runCli } from './engine/cli/main';
 import type { StageHooks } from './engine/io/index';
+import { terminalSafe } from './engine/views/escape';
 
 // A reader that stops early (`leastwise fit x.lsq --json - | head`) closes the
 // pipe: end quietly instead of reporting a write error.
@@ -31,9 +32,12 @@ function writeHooks(): StageHooks | undefined {
   };
 }
 
+// The output boundary: names and cell text from spec and data files reach the
+// terminal with control characters escaped (engine/views/escape.ts), so a data
+// file cannot retitle the window or clear the screen; JSON stays valid.
 runCli(process.argv.slice(2), {
-  stdout: (text) => void process.stdout.write(text),
-  stderr: (text) => void process.stderr.write(text),
+  stdout: (text) => void process.stdout.write(terminalSafe(text)),
+  stderr: (text) => void process.stderr.write(terminalSafe(text)),
   stderrIsTTY: Boolean(process.stderr.isTTY),
   cwd: process.cwd(),
   writeHooks: writeHooks(),

@@ -5,6 +5,7 @@
  * `num()` (6 significant digits).
  */
 import type { WarningCode } from './result';
+import { MSG } from '../parser/messages';
 
 /** At most 10 line numbers, then how many more. */
 export function listLines(lines: ArrayLike<number>): string {
@@ -125,7 +126,12 @@ export const outputText = {
   isInputUri: 'refusing to write over the spec or one of its data files; inputs are never written, so nothing was written',
 } as const;
 
-/** Texts of run errors that are not data-file errors. */
+/**
+ * Texts of run errors that are not data-file errors. The spec-level ones
+ * (a query or option the spec itself rules out) are the checker's messages
+ * (parser/messages.ts): `check` reports them before a run, the engine keeps
+ * them as a guard.
+ */
 export const errorText = {
   unknownData: (fit: string, data: string) => `fit ${fit} uses data "${data}", which is not declared`,
   noRows: (fit: string, file: string) => `fit ${fit} has no usable rows in ${file} after dropping empty cells and applying the filter`,
@@ -137,9 +143,13 @@ export const errorText = {
   badWeight: (fit: string, row: number, value: number) => `fit ${fit}: weight must be non-negative and finite (0 leaves a row out), got ${num(value)} at data line ${row}`,
   unknownFit: (name: string) => `no fit named ${name}`,
   fixedWithoutValue: (fit: string, names: string[]) => `fit ${fit}: fixed parameter${names.length > 1 ? 's' : ''} ${names.join(', ')} need${names.length > 1 ? '' : 's'} a value`,
-  noPredictor: (fit: string, what: string) => `${what} needs a fit with a single predictor column; ${fit} has none`,
-  wrongVariable: (fit: string, given: string, predictor: string) => `${fit} varies with ${predictor}, not ${given}`,
-  wrongResponse: (fit: string, given: string, response: string) => `${fit} fits ${response}, not ${given}`,
+  noPredictor: (fit: string, what: 'predict' | 'invert', columns: readonly string[]) => MSG.needsOnePredictor(what, fit, columns),
+  noPoints: (fit: string, what: 'predict' | 'invert') => `${what} on fit ${fit}, which has no fitted points (see its error)`,
+  wrongVariable: (fit: string, given: string, predictor: string) => MSG.predictorOther(fit, predictor, given),
+  wrongResponse: (fit: string, given: string, columns: readonly string[]) => MSG.responseMismatch(fit, given, columns),
+  comparePerGroup: (fit: string) => MSG.comparePerGroup(fit),
+  compareMismatch: (fits: readonly string[]) => MSG.compareMismatch(fits),
+  methodNotLinear: (fit: string) => MSG.methodNotLinear(fit),
   internal: (fit: string, message: string) => `fit ${fit} could not be completed: ${message}`,
 } as const;
 

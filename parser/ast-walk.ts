@@ -22,6 +22,7 @@ export function walkNames(ast: SpecAst, v: NameVisitor): void {
       case 'dotted': n(e.head); e.members.forEach(n); break;
       case 'unary': case 'not': expr(e.arg); break;
       case 'binary': case 'compare': case 'logic': expr(e.left); expr(e.right); break;
+      case 'chain': e.args.forEach(expr); break;
       default: break;
     }
   };

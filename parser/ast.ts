@@ -6,7 +6,7 @@
  * (expressions, values) or are left `undefined` (optional parts), so the
  * checker can still look at the rest without reporting the same problem twice.
  */
-import type { BinaryOp, CompareOp, LogicOp, Range } from './plan';
+import type { BinaryOp, ChainOp, CompareOp, LogicOp, Range } from './plan';
 
 /** A name as written: identifier, or `"quoted column name"` when `quoted`. */
 export interface NameAst {
@@ -45,6 +45,8 @@ export type ExprAst =
   | { kind: 'compare'; op: CompareOp; left: ExprAst; right: ExprAst; range: Range }
   | { kind: 'logic'; op: LogicOp; left: ExprAst; right: ExprAst; range: Range }
   | { kind: 'not'; arg: ExprAst; range: Range }
+  /** Three or more operands joined left to right by operators of one precedence level (see plan.ts `chain`). */
+  | { kind: 'chain'; ops: ChainOp[]; args: ExprAst[]; range: Range }
   | { kind: 'error'; range: Range };
 
 export type DataOptionAst =

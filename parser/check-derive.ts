@@ -17,7 +17,6 @@ import { BUILTIN_CONSTANTS, isBuiltinConstant, type Env } from './check-env';
 import { newUse, resolveExpr, type DeriveHooks, type ExprScope, type ExprUse } from './check-expr';
 import { lookupFit } from './check-queries';
 import { MSG } from './messages';
-import { suggest } from './suggest';
 
 const isStatistic = (s: string): s is StatisticName => (STATISTICS as readonly string[]).includes(s);
 
@@ -58,7 +57,7 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
         env.r.report('column-in-derive', MSG.columnInDerive(name), range);
       } else {
         const candidates = [...env.consts.keys(), ...env.derived.keys(), ...Object.keys(BUILTIN_CONSTANTS)];
-        env.r.report('undefined-name', MSG.notDeriveName(name), range, suggest(name, candidates));
+        env.r.report('undefined-name', MSG.notDeriveName(name), range, env.suggester.suggest(name, candidates));
       }
       return zero;
     },
@@ -84,7 +83,7 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
       addFit(fits, fit.plan.name);
       if (fit.params.includes(member.name)) return { kind: 'result', fit: fit.plan.name, of: 'estimate', name: member.name, range };
       if (isStatistic(member.name)) return { kind: 'result', fit: fit.plan.name, of: 'statistic', name: member.name, range };
-      env.r.report('unknown-target', MSG.unknownTarget(member.name, fit.plan.name), member.range, suggest(member.name, [...fit.params, ...STATISTICS]));
+      env.r.report('unknown-target', MSG.unknownTarget(member.name, fit.plan.name), member.range, env.suggester.suggest(member.name, [...fit.params, ...STATISTICS]));
       use.broken = true;
       return zero;
     },

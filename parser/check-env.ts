@@ -5,6 +5,7 @@
  */
 import type { DataSource, FitPlan } from './plan';
 import type { Reporter } from './report';
+import type { Suggester } from './suggest';
 
 export interface CheckContext {
   /**
@@ -51,6 +52,8 @@ export interface DerivedInfo {
 
 export interface Env {
   r: Reporter;
+  /** "Did you mean" lookups of this check (one budget, one memo). */
+  suggester: Suggester;
   ctx: CheckContext;
   /** Declarations seen so far (in file order). */
   consts: Map<string, ConstInfo>;
@@ -63,6 +66,8 @@ export interface Env {
 
 /** Built-in constants (folded like `const` values). */
 export const BUILTIN_CONSTANTS: Readonly<Record<string, number>> = { pi: Math.PI, e: Math.E };
+/** The names of `BUILTIN_CONSTANTS` (one list, so suggestion lookups can memoise against it). */
+export const BUILTIN_CONSTANT_NAMES: readonly string[] = Object.freeze(Object.keys(BUILTIN_CONSTANTS));
 export function isBuiltinConstant(name: string): boolean {
   return Object.prototype.hasOwnProperty.call(BUILTIN_CONSTANTS, name);
 }

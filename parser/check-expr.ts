@@ -12,9 +12,8 @@
  */
 import type { ExprAst, NameAst, ValueAst } from './ast';
 import { FUNCTIONS, isFunctionName, type Expr, type Range } from './plan';
-import { BUILTIN_CONSTANTS, isBuiltinConstant, type Env } from './check-env';
+import { BUILTIN_CONSTANT_NAMES, BUILTIN_CONSTANTS, isBuiltinConstant, type Env } from './check-env';
 import { MSG } from './messages';
-import { suggest } from './suggest';
 
 export interface ExprScope {
   /** Parameters of the fit (empty outside fits). */
@@ -48,7 +47,8 @@ export interface ExprUse {
 
 export const newUse = (): ExprUse => ({ columns: [], params: new Set(), broken: false });
 
-const isCondition = (e: ExprAst): boolean => e.kind === 'compare' || e.kind === 'logic' || e.kind === 'not';
+const isLogicChain = (e: ExprAst): boolean => e.kind === 'chain' && (e.ops[0] === 'and' || e.ops[0] === 'or');
+const isCondition = (e: ExprAst): boolean => e.kind === 'compare' || e.kind === 'logic' || e.kind === 'not' || isLogicChain(e);
 
 export function resolveExpr(env: Env, ast: ExprAst, want: 'number' | 'condition', scope: ExprScope, use: ExprUse): Expr {
   if (ast.kind !== 'error') {
@@ -88,6 +88,12 @@ export function resolveExpr(env: Env, ast: ExprAst, want: 'number' | 'condition'
       return { kind: 'logic', op: ast.op, left: cond(ast.left), right: cond(ast.right), range };
     case 'not':
       return { kind: 'not', arg: cond(ast.arg), range };
+    case 'chain': {
+      const each = isLogicChain(ast) ? cond : num;
+      const args: Expr[] = [];
+      for (const a of ast.args) args.push(each(a));
+      return { kind: 'chain', ops: [...ast.ops], args, range };
+    }
   }
 }
 
@@ -113,10 +119,10 @@ function resolveName(env: Env, name: string, quoted: boolean, range: Range, scop
   }
   if (scope.columns && !scope.columns.has(name)) {
     if (quoted) {
-      env.r.report('unknown-column', MSG.unknownColumn(name, scope.dataName), range, suggest(name, scope.columns));
+      env.r.report('unknown-column', MSG.unknownColumn(name, scope.dataName), range, env.suggester.suggest(name, scope.columns));
     } else {
-      const candidates = [...(scope.allowParams ? scope.params : []), ...env.consts.keys(), ...scope.columns, ...Object.keys(BUILTIN_CONSTANTS)];
-      env.r.report('undefined-name', MSG.undefinedName(name), range, suggest(name, candidates));
+      const candidates = [scope.allowParams ? scope.params : [], env.consts.keys(), scope.columns, BUILTIN_CONSTANT_NAMES];
+      env.r.report('undefined-name', MSG.undefinedName(name), range, env.suggester.suggest(name, candidates));
     }
   }
   addColumn(use, name);
@@ -131,7 +137,7 @@ const FUNCTION_HINTS: Readonly<Record<string, string[]>> = {
 function resolveCall(env: Env, ast: Extract<ExprAst, { kind: 'call' }>, scope: ExprScope, use: ExprUse): Expr {
   const { fn, args, range } = ast;
   if (!isFunctionName(fn)) {
-    const hint = Object.prototype.hasOwnProperty.call(FUNCTION_HINTS, fn) ? FUNCTION_HINTS[fn] : suggest(fn, Object.keys(FUNCTIONS));
+    const hint = Object.prototype.hasOwnProperty.call(FUNCTION_HINTS, fn) ? FUNCTION_HINTS[fn] : env.suggester.suggest(fn, Object.keys(FUNCTIONS));
     env.r.report('unknown-function', MSG.unknownFunction(fn), ast.fnRange, hint);
     for (const a of args) resolveExpr(env, a, 'number', scope, use);
     return { kind: 'number', value: 0, range };
@@ -180,7 +186,7 @@ export function resolveValue(env: Env, v: ValueAst, rules: ValueRules): number |
         env.r.report('declared-later', MSG.declaredLater('constant', v.name, later), v.range);
       } else {
         const candidates = [...env.consts.keys(), ...Object.keys(BUILTIN_CONSTANTS), ...(rules.allowInf ? ['inf'] : [])];
-        env.r.report('undefined-name', MSG.notAConstant(v.name), v.range, suggest(v.name, candidates));
+        env.r.report('undefined-name', MSG.notAConstant(v.name), v.range, env.suggester.suggest(v.name, candidates));
       }
       return undefined;
     }

@@ -8,8 +8,9 @@ import type { Expr, FitBlock, FitPlan, ParameterPlan } from './plan';
 import { isBuiltinConstant, type Env, type FitInfo } from './check-env';
 import { newUse, resolveExpr, resolveValue, type ExprScope, type ExprUse } from './check-expr';
 import { checkOptions } from './check-options';
+import { isLinearInParameters } from '../engine/compile/index';
+import { substituteParams } from '../engine/run/expr';
 import { MSG } from './messages';
-import { suggest } from './suggest';
 import { EMPTY_RANGE } from './source';
 
 export function checkFit(env: Env, fit: FitAst): FitInfo {
@@ -31,7 +32,7 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
     } else if (env.declared.data.has(dataName)) {
       r.report('declared-later', MSG.declaredLater('data', dataName, env.declared.data.get(dataName)!), fit.data.range);
     } else {
-      r.report('unknown-data', MSG.unknownData(dataName), fit.data.range, suggest(dataName, env.data.keys()));
+      r.report('unknown-data', MSG.unknownData(dataName), fit.data.range, env.suggester.suggest(dataName, env.data.keys()));
     }
   }
 
@@ -101,6 +102,16 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
   if (sigma) block.sigma = sigma;
   if (weight) block.weight = weight;
   if (modelUse.columns.length === 1) block.predictor = modelUse.columns[0];
+
+  if (options.method === 'linear' && first && !modelUse.broken && params.every((p) => !p.fixed || p.initial !== undefined)) {
+    // The compiler's own symbolic test, as the engine applies it (fixed parameters are numbers there).
+    const fixed = new Map(params.filter((p) => p.fixed).map((p) => [p.name, p.initial!]));
+    const free = params.filter((p) => !p.fixed).map((p) => p.name);
+    if (!isLinearInParameters(substituteParams(model, fixed), free)) {
+      const method = fit.items.find((i): i is Extract<FitItemAst, { kind: 'method' }> => i.kind === 'method');
+      r.report('method-not-linear', MSG.methodNotLinear(name), method?.value?.range ?? method?.range ?? fit.range);
+    }
+  }
 
   const plan: FitPlan = { name, blocks: [block], parameters: params, options, range: fit.range };
   if (groupBy !== undefined) plan.groupBy = groupBy;

@@ -7,7 +7,6 @@ import { LOSSES, MAX_EXPLORE, METHODS, type FitOptions, type LossKind, type Meth
 import type { Env } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
-import { suggest } from './suggest';
 
 type Item<K extends FitItemAst['kind']> = K extends NumericOptionKind ? NumericOptionAst : Extract<FitItemAst, { kind: K }>;
 
@@ -27,14 +26,14 @@ export function checkOptions(env: Env, fit: FitAst, dataName: string, columns: R
   if (method?.value) {
     const v = method.value.name;
     if ((METHODS as readonly string[]).includes(v)) options.method = v as Method;
-    else r.report('unknown-option', MSG.unknownOption('method', v, METHODS), method.value.range, suggest(v, METHODS));
+    else r.report('unknown-option', MSG.unknownOption('method', v, METHODS), method.value.range, env.suggester.suggest(v, METHODS));
   }
 
   const loss = once('loss', 'loss');
   if (loss?.value) {
     const v = loss.value.name;
     if ((LOSSES as readonly string[]).includes(v)) options.loss = v as LossKind;
-    else r.report('unknown-option', MSG.unknownOption('loss', v, LOSSES), loss.value.range, suggest(v, LOSSES));
+    else r.report('unknown-option', MSG.unknownOption('loss', v, LOSSES), loss.value.range, env.suggester.suggest(v, LOSSES));
   }
   if (loss?.scale) {
     const s = resolveValue(env, loss.scale, { allowInf: false });
@@ -89,7 +88,7 @@ export function checkOptions(env: Env, fit: FitAst, dataName: string, columns: R
   if (per?.column) {
     groupBy = per.column.name;
     if (columns && !columns.has(groupBy)) {
-      r.report('unknown-column', MSG.unknownColumn(groupBy, dataName), per.column.range, suggest(groupBy, columns));
+      r.report('unknown-column', MSG.unknownColumn(groupBy, dataName), per.column.range, env.suggester.suggest(groupBy, columns));
     }
   }
   return { options, groupBy };

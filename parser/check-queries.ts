@@ -9,7 +9,7 @@ import { STATISTICS, type Bound, type Expectation, type ExpectTarget, type Query
 import type { Env, FitInfo } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
-import { suggest } from './suggest';
+import { exprText } from '../engine/run/expr';
 
 /** The fit a statement names, or undefined (reported). */
 export function lookupFit(env: Env, name: NameAst | undefined): FitInfo | undefined {
@@ -18,7 +18,7 @@ export function lookupFit(env: Env, name: NameAst | undefined): FitInfo | undefi
   if (f) return f;
   const later = env.declared.fit.get(name.name);
   if (later !== undefined) env.r.report('declared-later', MSG.declaredLater('fit', name.name, later), name.range);
-  else env.r.report('unknown-fit', MSG.unknownFit(name.name), name.range, suggest(name.name, env.fits.keys()));
+  else env.r.report('unknown-fit', MSG.unknownFit(name.name), name.range, env.suggester.suggest(name.name, env.fits.keys()));
   return undefined;
 }
 
@@ -38,18 +38,19 @@ export function checkQuery(env: Env, q: PredictAst): Query | undefined {
   if (fit && col && !fit.incomplete) {
     const cols = fit.modelColumns;
     const fitName = fit.plan.name;
+    // The same rules as the engine's queries (engine/run/queries.ts), which keep them as a guard.
     if (q.kind === 'predict') {
       if (cols.length === 1 && cols[0] !== col.name) {
         env.r.report('predictor-mismatch', MSG.predictorOther(fitName, cols[0], col.name), col.range, [cols[0]]);
-      } else if (cols.length === 0) {
-        env.r.report('predictor-mismatch', MSG.predictorNone(fitName), col.range);
-      } else if (!cols.includes(col.name)) {
-        env.r.report('predictor-mismatch', MSG.predictorMany(fitName, cols, col.name), col.range, suggest(col.name, cols, cols.length));
+      } else if (cols.length !== 1) {
+        env.r.report('predictor-mismatch', MSG.needsOnePredictor('predict', fitName, cols), col.range);
       }
     } else {
-      if (cols.length !== 1) env.r.report('predictor-mismatch', MSG.invertNeedsOne(fitName, cols), q.fit!.range);
+      if (cols.length !== 1) env.r.report('predictor-mismatch', MSG.needsOnePredictor('invert', fitName, cols), q.fit!.range);
       const resp = fit.responseColumns;
-      if (!resp.includes(col.name)) env.r.report('response-mismatch', MSG.responseMismatch(fitName, col.name, resp), col.range, resp.slice(0, 3));
+      if (resp.length !== 1 || resp[0] !== col.name) {
+        env.r.report('response-mismatch', MSG.responseMismatch(fitName, col.name, resp), col.range, resp.includes(col.name) ? undefined : resp.slice(0, 3));
+      }
     }
   }
   if (!q.fit || !col) return undefined;
@@ -58,17 +59,31 @@ export function checkQuery(env: Env, q: PredictAst): Query | undefined {
     : { kind: 'invert', fit: q.fit.name, response: col.name, values: vals, range: q.range };
 }
 
+/**
+ * `compare`: two or more different fits, none per group, all on the same data
+ * and the same response (as the engine requires, engine/run/queries.ts; it
+ * also refuses fits that end up with different rows, which only the data tell).
+ */
 export function checkCompare(env: Env, c: CompareAst): Query {
   const names: string[] = [];
+  const seen = new Set<string>();
+  const found: FitInfo[] = [];
   for (const f of c.fits) {
-    if (names.includes(f.name)) {
+    if (seen.has(f.name)) {
       env.r.report('repeated-fit', MSG.compareRepeated(f.name), f.range);
       continue;
     }
-    lookupFit(env, f);
+    seen.add(f.name);
+    const fit = lookupFit(env, f);
+    if (fit?.plan.groupBy !== undefined) env.r.report('compare-per-group', MSG.comparePerGroup(f.name), f.range);
+    if (fit && !fit.incomplete) found.push(fit);
     names.push(f.name);
   }
   if (names.length < 2 && c.fits.length > 0) env.r.report('compare-too-few', MSG.compareTooFew, c.range);
+  else if (found.length >= 2) {
+    const same = (a: FitInfo, b: FitInfo) => a.plan.blocks[0].data === b.plan.blocks[0].data && exprText(a.plan.blocks[0].response) === exprText(b.plan.blocks[0].response);
+    if (found.some((f) => !same(f, found[0]))) env.r.report('compare-mismatch', MSG.compareMismatch(names), c.range);
+  }
   return { kind: 'compare', fits: names, range: c.range };
 }
 
@@ -98,7 +113,7 @@ function derivedTarget(env: Env, head: NameAst, path: NameAst[]): ExpectTarget |
   } else if (env.declared.fit.has(head.name)) {
     env.r.report('unknown-target', MSG.fitNeedsMember(head.name), head.range);
   } else {
-    env.r.report('undefined-name', MSG.unknownDerived(head.name), head.range, suggest(head.name, [...env.derived.keys(), ...env.fits.keys()]));
+    env.r.report('undefined-name', MSG.unknownDerived(head.name), head.range, env.suggester.suggest(head.name, [...env.derived.keys(), ...env.fits.keys()]));
   }
   return undefined;
 }
@@ -116,7 +131,7 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
       env.r.report('unknown-target', MSG.pathTooLong, third.range);
     } else if (second) {
       if (fit && !isParam) {
-        env.r.report('unknown-target', MSG.stderrOfNonParam(first.name, fitName), first.range, suggest(first.name, params));
+        env.r.report('unknown-target', MSG.stderrOfNonParam(first.name, fitName), first.range, env.suggester.suggest(first.name, params));
       } else if (second.name !== 'se') {
         env.r.report('unknown-target', MSG.unknownStderrPath(second.name), second.range, ['se']);
       } else {
@@ -127,7 +142,7 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
     } else if (isStatistic(first.name)) {
       target = { kind: 'statistic', fit: fitName, name: first.name };
     } else if (fit) {
-      env.r.report('unknown-target', MSG.unknownTarget(first.name, fitName), first.range, suggest(first.name, [...params, ...STATISTICS]));
+      env.r.report('unknown-target', MSG.unknownTarget(first.name, fitName), first.range, env.suggester.suggest(first.name, [...params, ...STATISTICS]));
     }
   } else if (fit && x.fit && !derived) {
     env.r.report('unknown-target', MSG.fitNeedsMember(fitName), x.fit.range);

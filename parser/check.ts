@@ -12,7 +12,7 @@ import { checkDerive } from './check-derive';
 import { checkCompare, checkExpect, checkQuery } from './check-queries';
 import { MSG } from './messages';
 import { Reporter } from './report';
-import { suggest } from './suggest';
+import { Suggester } from './suggest';
 
 export type { CheckContext } from './check-env';
 
@@ -22,7 +22,7 @@ export function checkSpec(ast: SpecAst, ctx: CheckContext = {}): { plan: Plan; d
   plan.derived = derived;
   const r = new Reporter();
   try {
-    const env: Env = { r, ctx, consts: new Map(), data: new Map(), fits: new Map(), derived: new Map(), declared: declarations(ast.statements) };
+    const env: Env = { r, suggester: new Suggester(), ctx, consts: new Map(), data: new Map(), fits: new Map(), derived: new Map(), declared: declarations(ast.statements) };
     for (const s of ast.statements) {
       switch (s.kind) {
         case 'data': {
@@ -121,7 +121,7 @@ function checkData(env: Env, s: DataAst): DataSource | undefined {
     } else if (o.value && o.kind === 'delimiter') {
       const v = o.value.value;
       if (Object.prototype.hasOwnProperty.call(DELIMITERS, v)) source.delimiter = DELIMITERS[v];
-      else r.report('unknown-option', MSG.unknownOption('delimiter', v, [',', ';', 'tab']), o.value.range, suggest(v, ['tab']));
+      else r.report('unknown-option', MSG.unknownOption('delimiter', v, [',', ';', 'tab']), o.value.range, env.suggester.suggest(v, ['tab']));
     } else if (o.value && o.kind === 'decimal') {
       const v = o.value.value;
       if (v === '.' || v === ',') source.decimal = v;

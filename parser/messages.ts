@@ -5,10 +5,12 @@
  * improve. LANGUAGE.md lists the same codes. `CODES` is the single list.
  */
 import type { Severity } from './plan';
+import { inlineText } from '../engine/views/escape';
 
 export const CODES = {
   syntax: 'error',
   internal: 'error',
+  'nested-too-deeply': 'error',
   'undefined-name': 'error',
   'unknown-column': 'error',
   'unknown-data': 'error',
@@ -43,6 +45,9 @@ export const CODES = {
   'predictor-mismatch': 'error',
   'response-mismatch': 'error',
   'compare-too-few': 'error',
+  'compare-per-group': 'error',
+  'compare-mismatch': 'error',
+  'method-not-linear': 'error',
   'reference-not-allowed': 'error',
   'column-in-derive': 'error',
   'unused-parameter': 'warning',
@@ -53,13 +58,16 @@ export const CODES = {
 
 export type DiagnosticCode = keyof typeof CODES;
 
-const q = (s: string): string => `'${s}'`;
+/** A name in quotes; names from data headers may hold any character, so controls and line breaks are written escaped (`\u000a`). */
+const q = (s: string): string => `'${inlineText(s)}'`;
 const list = (xs: readonly string[]): string => xs.map(q).join(', ');
 
 export const MSG = {
   unterminatedString: 'this text has no closing " on its line',
   unexpectedCharacter: (ch: string) => `unexpected character ${q(ch)}`,
   internal: (detail: string) => `internal parser problem (please report it with the spec): ${detail}`,
+  nestedTooDeeply: (limit: number) =>
+    `expression nested too deeply (limit ${limit} levels of parentheses, function calls and operators)`,
 
   undefinedName: (name: string) => `${q(name)} is not a parameter, constant or column`,
   notAConstant: (name: string) => `${q(name)} is not a constant`,
@@ -101,16 +109,24 @@ export const MSG = {
   unknownStderrPath: (name: string) => `after a parameter only .se (standard error) may follow, not ${q(name)}`,
   stderrOfNonParam: (name: string, fit: string) => `${q(name)} is not a parameter of ${q(fit)}, so it has no .se`,
   pathTooLong: 'expected FIT.NAME or FIT.PARAM.se',
-  predictorNone: (fit: string) => `fit ${q(fit)} has no column on the model side to vary`,
-  predictorMany: (fit: string, cols: readonly string[], col: string) =>
-    `fit ${q(fit)} varies with ${list(cols)}; ${q(col)} is not one of them`,
   predictorOther: (fit: string, predictor: string, col: string) =>
     `fit ${q(fit)} varies with ${q(predictor)}, not ${q(col)}`,
-  invertNeedsOne: (fit: string, cols: readonly string[]) =>
-    `invert needs a model with exactly one predictor column; ${q(fit)} has ${cols.length ? list(cols) : 'none'}`,
+  /** Also the engine's message when a query meets such a fit (engine/messages.ts `errorText.noPredictor`). */
+  needsOnePredictor: (what: 'predict' | 'invert', fit: string, cols: readonly string[]) =>
+    `${what} needs a model with exactly one predictor column; ${q(fit)} ${cols.length ? `varies with ${list(cols)}` : 'has none'}`,
+  /** Also the engine's message (engine/messages.ts `errorText.wrongResponse`). */
   responseMismatch: (fit: string, col: string, cols: readonly string[]) =>
-    `${q(col)} is not the response of ${q(fit)} (it reads ${cols.length ? list(cols) : 'no column'})`,
+    cols.length === 1
+      ? `${q(col)} is not the response of ${q(fit)} (it reads ${q(cols[0])})`
+      : `invert needs a response (left of =) that reads exactly one column; ${q(fit)} reads ${cols.length ? list(cols) : 'no column'}`,
   compareTooFew: 'compare needs at least two different fits',
+  /** Also the engine's message (engine/run/queries.ts). */
+  comparePerGroup: (fit: string) => `compare needs fits without "per"; ${q(fit)} runs per group`,
+  /** Also the engine's message (engine/run/queries.ts), which also applies when the fits end up with different rows. */
+  compareMismatch: (fits: readonly string[]) =>
+    `compare: ${list(fits)} do not fit the same rows of the same response; information criteria are not comparable`,
+  /** Also the engine's message (engine/run/fit.ts). */
+  methodNotLinear: (fit: string) => `method linear needs a model linear in its parameters; ${q(fit)} is not (use levenberg_marquardt or auto)`,
   referenceNotAllowed: (text: string) =>
     `${q(text)} reads a fit result after fitting; FIT.NAME is allowed only in derive (use a parameter, constant or column here)`,
   columnInDerive: (name: string) =>

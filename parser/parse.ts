@@ -10,6 +10,7 @@ import { getParser } from './grammar';
 import { FIRST_ON_LINE, lexer, markLineStarts } from './tokens';
 import { LineIndex, EMPTY_RANGE, tokenRange } from './source';
 import { toAst } from './to-ast';
+import { limitNesting } from './nesting';
 import { MSG } from './messages';
 
 export interface ParseResult {
@@ -29,12 +30,16 @@ export function parseSpec(text: string): ParseResult {
       diagnostics.push({ severity: 'error', code: 'syntax', message: MSG.unterminatedString, range: tokenRange(t) });
     }
     markLineStarts(lexed.tokens);
+    const limited = limitNesting(lexed.tokens);
+    for (const d of limited.diagnostics) diagnostics.push(d);
     const parser = getParser();
-    parser.input = lexed.tokens;
+    parser.input = limited.tokens;
     const cst = parser.spec();
-    const lastToken = lexed.tokens[lexed.tokens.length - 1];
+    const lastToken = limited.tokens[limited.tokens.length - 1];
     for (const e of parser.errors) diagnostics.push(parseDiagnostic(e, lastToken, lines));
-    const ast = toAst(cst, source);
+    const built = toAst(cst, source);
+    const ast = built.ast;
+    for (const d of built.diagnostics) diagnostics.push(d);
     diagnostics.sort((a, b) => a.range.start.offset - b.range.start.offset);
     return { ast, diagnostics: dedupe(diagnostics) };
   } catch (err) {

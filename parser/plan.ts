@@ -33,6 +33,8 @@ export interface Range {
 export type BinaryOp = '+' | '-' | '*' | '/' | '^';
 export type CompareOp = '<' | '<=' | '>' | '>=' | '==' | '!=';
 export type LogicOp = 'and' | 'or';
+/** Operators that chain left to right at one precedence level (`chain` expressions). */
+export type ChainOp = '+' | '-' | '*' | '/' | LogicOp;
 
 /** Whitelisted functions; the engine knows exactly these. */
 export const FUNCTIONS = {
@@ -71,7 +73,18 @@ export type Expr =
   | { kind: 'call'; fn: FunctionName; args: Expr[]; range?: Range }
   | { kind: 'compare'; op: CompareOp; left: Expr; right: Expr; range?: Range }
   | { kind: 'logic'; op: LogicOp; left: Expr; right: Expr; range?: Range }
-  | { kind: 'not'; arg: Expr; range?: Range };
+  | { kind: 'not'; arg: Expr; range?: Range }
+  /**
+   * Three or more operands joined left to right by operators of one
+   * precedence level (`+ -`, `* /`, `and` or `or`), as written:
+   * `args[0] ops[0] args[1] ops[1] args[2] …` means
+   * `((args[0] ops[0] args[1]) ops[1] args[2]) …`, exactly the nested
+   * `binary` (or `logic`) nodes it stands for, in the same order. Flat so
+   * that a long sum keeps the plan shallow: JSON.stringify and structured
+   * cloning recurse. `ops.length === args.length - 1`. Additive (as the
+   * `result` and `derived` nodes before it): plans keep version 1.
+   */
+  | { kind: 'chain'; ops: ChainOp[]; args: Expr[]; range?: Range };
 
 export interface DataSource {
   name: string;

@@ -6,9 +6,14 @@
  * expressions and values become `error` nodes placed at the last text read,
  * missing names become `undefined`; the syntax error itself was already
  * reported by the parser.
+ *
+ * The visitor recurses once per level of parentheses and calls, which
+ * parse.ts bounds (`MAX_NESTING`) before the parser runs; everything else
+ * (statements, operator chains, long lists) is read in loops. An expression
+ * nested deeper than `MAX_NESTING` is reported here and becomes an `error` node.
  */
 import type { CstNode, IToken } from 'chevrotain';
-import type { Range } from './plan';
+import type { Diagnostic, Range } from './plan';
 import type {
   BoundsAst, ConstAst, DataAst, DataOptionAst, DeriveAst, ExpectAst, ExpectBoundAst, ExprAst, FitAst, FitItemAst, NameAst,
   NumericOptionKind, ParamAst, PredictAst, CompareAst, SpecAst, StatementAst, StringAst, UnitAst, ValueAst,
@@ -17,13 +22,17 @@ import { getParser } from './grammar';
 import { EMPTY_RANGE, tokenRange } from './source';
 import { cover, isToken, onlyChild, real, type Children } from './cst-util';
 import { climb, type Item, type PrefixOp } from './precedence';
+import { MAX_NESTING } from './limits';
+import { isCutToken } from './nesting';
+import { MSG } from './messages';
 
 export { cover } from './cst-util';
 
-/** What the `operand` rule yields: its prefix operators and its atom. */
+/** What the `operand` rule yields: its prefix operators and its atom (with its nesting depth). */
 interface OperandParts {
   prefixes: IToken[];
   atom: ExprAst;
+  depth: number;
 }
 
 const BaseVisitor = getParser().getBaseCstVisitorConstructor();
@@ -32,18 +41,28 @@ class AstBuilder extends BaseVisitor {
   /** Last real token converted; `error` nodes are placed at its end. */
   private lastToken: IToken | undefined;
   private source = '';
+  /** Problems found while building (expressions nested too deeply). */
+  private problems: Diagnostic[] = [];
+  /** Nesting depth of expression nodes built from parentheses (read by the enclosing expression). */
+  private depths = new WeakMap<ExprAst, number>();
 
   constructor() {
     super();
     this.validateVisitor();
   }
 
-  build(cst: CstNode | undefined, source: string): SpecAst {
+  build(cst: CstNode | undefined, source: string): { ast: SpecAst; diagnostics: Diagnostic[] } {
     this.lastToken = undefined;
     this.source = source;
+    this.problems = [];
+    this.depths = new WeakMap();
     const statements = cst ? (this.visit(cst) as StatementAst[]) : [];
     const range = statements.length ? cover(statements[0].range, statements[statements.length - 1].range) : EMPTY_RANGE;
-    return { kind: 'spec', statements, range };
+    return { ast: { kind: 'spec', statements, range }, diagnostics: this.problems };
+  }
+
+  private tooDeep(range: Range): void {
+    this.problems.push({ severity: 'error', code: 'nested-too-deeply', message: MSG.nestedTooDeeply(MAX_NESTING), range });
   }
 
   // ---- helpers -------------------------------------------------------------
@@ -120,7 +139,7 @@ class AstBuilder extends BaseVisitor {
     const name = this.nameOf(ctx, 'name');
     const path = this.stringOf(this.tok(ctx, 'path'));
     const options = this.nodes(ctx, 'options').map((n) => this.visit(n) as DataOptionAst);
-    return { kind: 'data', name, path, options, range: cover(kw, name?.range, path?.range, ...options.map((o) => o.range)) };
+    return { kind: 'data', name, path, options, range: cover(kw, name?.range, path?.range, ends(options)) };
   }
 
   dataOption(ctx: Children): DataOptionAst {
@@ -154,7 +173,7 @@ class AstBuilder extends BaseVisitor {
     const open = this.tokRange(ctx, 'LBrace');
     const items = this.nodes(ctx, 'items').map((n) => this.visit(n) as FitItemAst | undefined).filter((i): i is FitItemAst => i !== undefined);
     const close = this.tokRange(ctx, 'RBrace');
-    return { kind: 'fit', name, data, items, range: cover(kw, name?.range, data?.range, open, ...items.map((i) => i.range), close) };
+    return { kind: 'fit', name, data, items, range: cover(kw, name?.range, data?.range, open, ends(items), close) };
   }
 
   fitItem(ctx: Children): FitItemAst | undefined {
@@ -200,7 +219,7 @@ class AstBuilder extends BaseVisitor {
         ranges.push(u?.range);
       }
     }
-    p.range = cover(...ranges);
+    p.range = ranges.reduce<Range | undefined>((acc, r) => (r ? cover(acc, r) : acc), undefined) ?? EMPTY_RANGE;
     return p;
   }
 
@@ -276,7 +295,7 @@ class AstBuilder extends BaseVisitor {
     return {
       kind: t?.image === 'invert' ? 'invert' : 'predict',
       fit, column, values,
-      range: cover(t && tokenRange(t), fit?.range, column?.range, ...values.map((v) => v.range)),
+      range: cover(t && tokenRange(t), fit?.range, column?.range, ends(values)),
     };
   }
 
@@ -287,7 +306,7 @@ class AstBuilder extends BaseVisitor {
       const f = this.nameOf(ctx, 'fits', i);
       if (f) fits.push(f);
     }
-    return { kind: 'compare', fits, range: cover(kw, ...fits.map((f) => f.range)) };
+    return { kind: 'compare', fits, range: cover(kw, ends(fits)) };
   }
 
   expectStatement(ctx: Children): ExpectAst {
@@ -314,7 +333,7 @@ class AstBuilder extends BaseVisitor {
       const value = this.val(this.node(ctx, 'below'));
       bound = { kind: 'below', value, range: cover(below, value.range) };
     }
-    const range = cover(kw, fit?.range, ...path.map((p) => p.range), bound?.range);
+    const range = cover(kw, fit?.range, ends(path), bound?.range);
     const from = fit?.range.start.offset ?? kw?.end.offset ?? range.start.offset;
     const text = this.source.slice(from, range.end.offset).replace(/\s+/g, ' ').trim();
     return { kind: 'expect', fit, path, bound, text, range };
@@ -329,6 +348,7 @@ class AstBuilder extends BaseVisitor {
     const body = num ?? inf ?? name;
     if (!body) return this.errorHere();
     const range = cover(sign && tokenRange(sign), tokenRange(body));
+    if (num && isCutToken(num)) return { kind: 'error', range };
     if (num) {
       const v = Number(num.image);
       return { kind: 'number', value: negative ? -v : v, range };
@@ -346,7 +366,7 @@ class AstBuilder extends BaseVisitor {
 
   // ---- expressions -------------------------------------------------------------
 
-  /** Flat operand/operator list -> tree, by precedence climbing (see `BINDING`). */
+  /** Flat operand/operator list -> tree, by operator precedence (precedence.ts `BINDING`). */
   expression(ctx: Children): ExprAst {
     const operands = this.nodes(ctx, 'operands');
     const ops = (ctx.operators ?? []).filter(isToken);
@@ -357,23 +377,27 @@ class AstBuilder extends BaseVisitor {
       if (n) {
         const o = this.visit(n) as OperandParts;
         for (const p of o.prefixes) items.push({ prefix: p.image as PrefixOp, range: tokenRange(p) });
-        items.push({ atom: o.atom });
+        items.push({ atom: o.atom, depth: o.depth });
       } else {
-        items.push({ atom: this.errorHere() });
+        items.push({ atom: this.errorHere(), depth: 0 });
       }
       const op = ops[i];
       if (real(op)) items.push({ op: op.image, range: tokenRange(op) });
     }
-    return climb(items, this.errorHere());
+    const { expr, depth } = climb(items, this.errorHere(), (r) => this.tooDeep(r));
+    if (depth > 0) this.depths.set(expr, depth);
+    return expr;
   }
 
   operand(ctx: Children): OperandParts {
     const prefixes = (ctx.prefix ?? []).filter((t): t is IToken => isToken(t) && real(t));
-    return { prefixes, atom: this.atom(ctx) };
+    const atom = this.atom(ctx);
+    return { prefixes, atom, depth: this.depths.get(atom) ?? 0 };
   }
 
   private atom(ctx: Children): ExprAst {
     const num = this.tok(ctx, 'number');
+    if (num && isCutToken(num)) return { kind: 'error', range: tokenRange(num) };
     if (num) return { kind: 'number', value: Number(num.image), range: tokenRange(num) };
     const q = this.tok(ctx, 'quoted');
     if (q) return { kind: 'name', name: q.image.slice(1, -1), quoted: true, range: tokenRange(q) };
@@ -393,19 +417,36 @@ class AstBuilder extends BaseVisitor {
       if (!ctx.call) return { kind: 'name', name: name.image, quoted: false, range: nameRange };
       const args = this.nodes(ctx, 'args').map((a) => this.expr(a));
       const close = this.tokRange(ctx, 'close');
-      return { kind: 'call', fn: name.image, fnRange: nameRange, args, range: cover(nameRange, args.length ? args[args.length - 1].range : undefined, close) };
+      const range = cover(nameRange, args.length ? args[args.length - 1].range : undefined, close);
+      const depth = 1 + args.reduce((m, a) => Math.max(m, this.depths.get(a) ?? 0), 0);
+      if (depth > MAX_NESTING) {
+        this.tooDeep(nameRange);
+        return { kind: 'error', range };
+      }
+      const call: ExprAst = { kind: 'call', fn: name.image, fnRange: nameRange, args, range };
+      this.depths.set(call, depth);
+      return call;
     }
     const open = this.tokRange(ctx, 'open');
     const inner = this.expr(this.node(ctx, 'inner'));
     const close = this.tokRange(ctx, 'close');
     if (inner.kind === 'error') return inner;
     // Parentheses widen the node's range so messages point at "(...)" as written.
-    return { ...inner, range: cover(open, inner.range, close) };
+    const widened = { ...inner, range: cover(open, inner.range, close) };
+    const depth = this.depths.get(inner);
+    if (depth !== undefined) this.depths.set(widened, depth);
+    return widened;
   }
 }
 
+/** The range from the first to the last node of a list (lists can be long: no spread into `cover`). */
+function ends(xs: readonly { range: Range }[]): Range | undefined {
+  return xs.length ? cover(xs[0].range, xs[xs.length - 1].range) : undefined;
+}
+
 let builder: AstBuilder | undefined;
-export function toAst(cst: CstNode | undefined, source: string): SpecAst {
+/** The syntax tree, and the expressions nested deeper than `MAX_NESTING` (reported, read as `error` nodes). */
+export function toAst(cst: CstNode | undefined, source: string): { ast: SpecAst; diagnostics: Diagnostic[] } {
   builder ??= new AstBuilder();
   return builder.build(cst, source);
 }

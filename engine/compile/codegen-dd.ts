@@ -10,10 +10,12 @@
  * of ill-conditioned fits (NIST StRD Filip), and for residuals in iterative
  * refinement. Generated signature:
  *   (t, c, n, outHi, outLo, jacHi, jacLo); jac*[j·n + i] = ∂f/∂θⱼ at row i.
+ * Very large graphs keep their temporaries in two arrays `H`, `L` (as in
+ * `codegen.ts`, where the reason is given).
  */
 import { Graph } from './graph';
 import { literal, ident, rowKernel, UNARY_MEMBER, BINARY_MEMBER, COMPARE_JS } from './emit';
-import { MATH_HELPERS } from './codegen';
+import { MATH_HELPERS, tempSlots } from './codegen';
 import { DD_OUT, ddAdd, ddSub, ddMul, ddDiv, ddSqrt, ddPowInt } from '../linalg/dd';
 
 /** The strong-zero product of derivative rules (graph.ts `mulz`) in double-double: a = ah + al = 0 exactly when ah = 0. */
@@ -33,36 +35,40 @@ export const DD_HELPERS = Object.freeze({
 /** Largest |k| for which x^k is evaluated by double-double binary powering. */
 const MAX_INT_POWER = 1024;
 
-function hi(g: Graph, id: number): string {
+type Temps = ReadonlyMap<number, number> | null;
+
+function hi(g: Graph, id: number, temps: Temps): string {
   const n = g.nodes[id];
   switch (n.op) {
     case 'const': return literal(n.value);
     case 'param': return ident('t', n.index);
     case 'col': return ident('x', n.index);
-    default: return ident('h', id);
+    default: return temps ? `H[${literal(temps.get(id)!)}]` : ident('h', id);
   }
 }
-function lo(g: Graph, id: number): string {
+function lo(g: Graph, id: number, temps: Temps): string {
   const n = g.nodes[id];
-  return n.op === 'const' || n.op === 'param' || n.op === 'col' ? '0' : ident('l', id);
+  if (n.op === 'const' || n.op === 'param' || n.op === 'col') return '0';
+  return temps ? `L[${literal(temps.get(id)!)}]` : ident('l', id);
 }
 
-/** Statements defining h<id>, l<id>. */
-function define(g: Graph, id: number): string {
+/** Statements defining the high and low parts of interior node `id`. */
+function define(g: Graph, id: number, temps: Temps): string {
   const n = g.nodes[id];
-  const H = ident('h', id);
-  const L = ident('l', id);
-  const viaR = (call: string) => `${call}; const ${H} = M.R[0], ${L} = M.R[1];`;
-  const dbl = (expr: string) => `const ${H} = ${expr}, ${L} = 0;`;
-  const sum = (k: number) => `(${hi(g, k)} + ${lo(g, k)})`;
-  const pair = (k: number) => `${hi(g, k)}, ${lo(g, k)}`;
+  const H = hi(g, id, temps);
+  const L = lo(g, id, temps);
+  const set = (h: string, l: string) => (temps ? `${H} = ${h}; ${L} = ${l};` : `const ${H} = ${h}, ${L} = ${l};`);
+  const viaR = (call: string) => `${call}; ${set('M.R[0]', 'M.R[1]')}`;
+  const dbl = (expr: string) => set(expr, '0');
+  const sum = (k: number) => `(${hi(g, k, temps)} + ${lo(g, k, temps)})`;
+  const pair = (k: number) => `${hi(g, k, temps)}, ${lo(g, k, temps)}`;
   switch (n.op) {
     case 'add': return viaR(`M.add(${pair(n.a)}, ${pair(n.b)})`);
     case 'sub': return viaR(`M.sub(${pair(n.a)}, ${pair(n.b)})`);
     case 'mul': return viaR(`M.mul(${pair(n.a)}, ${pair(n.b)})`);
     case 'mulz': return viaR(`M.mulz(${pair(n.a)}, ${pair(n.b)})`);
     case 'div': return viaR(`M.div(${pair(n.a)}, ${pair(n.b)})`);
-    case 'neg': return `const ${H} = -${hi(g, n.a)}, ${L} = -${lo(g, n.a)};`;
+    case 'neg': return set(`-${hi(g, n.a, temps)}`, `-${lo(g, n.a, temps)}`);
     case 'pow': {
       const e = g.constOf(n.b);
       if (e !== undefined && Number.isInteger(e) && Math.abs(e) <= MAX_INT_POWER) {
@@ -71,10 +77,13 @@ function define(g: Graph, id: number): string {
       if (e === 0.5) return viaR(`M.sqrt2(${pair(n.a)})`);
       return dbl(`M.pow(${sum(n.a)}, ${sum(n.b)})`);
     }
-    case 'fn1':
+    case 'fn1': {
       if (n.fn === 'sqrt') return viaR(`M.sqrt2(${pair(n.a)})`);
-      if (n.fn === 'abs') return `const ${H} = ${hi(g, n.a)} < 0 ? -${hi(g, n.a)} : ${hi(g, n.a)}, ${L} = ${hi(g, n.a)} < 0 ? -${lo(g, n.a)} : ${lo(g, n.a)};`;
+      const ah = hi(g, n.a, temps);
+      const al = lo(g, n.a, temps);
+      if (n.fn === 'abs') return set(`${ah} < 0 ? -${ah} : ${ah}`, `${ah} < 0 ? -${al} : ${al}`);
       return dbl(`M.${UNARY_MEMBER[n.fn]}(${sum(n.a)})`);
+    }
     case 'fn2': return dbl(`M.${BINARY_MEMBER[n.fn]}(${sum(n.a)}, ${sum(n.b)})`);
     case 'cmp': return dbl(`(${sum(n.a)} ${COMPARE_JS[n.cmp]} ${sum(n.b)}) ? 1 : 0`);
     case 'and': return dbl(`(${sum(n.a)} && ${sum(n.b)}) ? 1 : 0`);
@@ -82,7 +91,7 @@ function define(g: Graph, id: number): string {
     case 'not': return dbl(`${sum(n.a)} ? 0 : 1`);
     case 'when': {
       const c = sum(n.c);
-      return `const ${H} = ${c} ? ${hi(g, n.a)} : ${hi(g, n.b)}, ${L} = ${c} ? ${lo(g, n.a)} : ${lo(g, n.b)};`;
+      return set(`${c} ? ${hi(g, n.a, temps)} : ${hi(g, n.b, temps)}`, `${c} ? ${lo(g, n.a, temps)} : ${lo(g, n.b, temps)}`);
     }
     default: throw new Error('not an interior node');
   }
@@ -91,26 +100,28 @@ function define(g: Graph, id: number): string {
 /** Source of the double-double kernel for a value root and derivative roots. */
 export function kernelSourceDD(g: Graph, value: number, derivatives: readonly number[]): string {
   const nodes = g.reachable([value, ...derivatives]);
+  const temps = tempSlots(g, nodes, 2);
   const head: string[] = [];
   const body: string[] = [];
+  if (temps) head.push(`const H = new Float64Array(${literal(temps.size)}), L = new Float64Array(${literal(temps.size)});`);
   for (const id of nodes) {
     const n = g.nodes[id];
-    if (n.op === 'param') head.push(`const ${hi(g, id)} = t[${literal(n.index)}];`);
+    if (n.op === 'param') head.push(`const ${hi(g, id, temps)} = t[${literal(n.index)}];`);
     else if (n.op === 'col') {
       head.push(`const ${ident('c', n.index)} = c[${literal(n.index)}];`);
-      body.push(`const ${hi(g, id)} = ${ident('c', n.index)}[i];`);
+      body.push(`const ${hi(g, id, temps)} = ${ident('c', n.index)}[i];`);
     }
   }
   for (const id of nodes) {
     const op = g.nodes[id].op;
     if (op === 'const' || op === 'param' || op === 'col') continue;
-    (g.row[id] ? body : head).push(define(g, id));
+    (g.row[id] ? body : head).push(define(g, id, temps));
   }
   derivatives.forEach((_, j) => { if (j > 0) head.push(`const ${ident('o', j)} = n * ${literal(j)};`); });
-  body.push(`outHi[i] = ${hi(g, value)};`, `outLo[i] = ${lo(g, value)};`);
+  body.push(`outHi[i] = ${hi(g, value, temps)};`, `outLo[i] = ${lo(g, value, temps)};`);
   derivatives.forEach((d, j) => {
     const at = j === 0 ? 'i' : `${ident('o', j)} + i`;
-    body.push(`jacHi[${at}] = ${hi(g, d)};`, `jacLo[${at}] = ${lo(g, d)};`);
+    body.push(`jacHi[${at}] = ${hi(g, d, temps)};`, `jacLo[${at}] = ${lo(g, d, temps)};`);
   });
   return rowKernel('t, c, n, outHi, outLo, jacHi, jacLo', head, body);
 }

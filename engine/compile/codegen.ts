@@ -5,6 +5,12 @@
  * (column-major). Every interior node becomes one `const` (so shared
  * subexpressions are computed once per row); nodes that do not read a column
  * are hoisted out of the row loop. The loop allocates nothing.
+ *
+ * Very large graphs (more than `MAX_LOCAL_TEMPS` interior nodes, e.g. a sum of
+ * tens of thousands of terms) keep their temporaries in one Float64Array
+ * allocated per call instead: every local constant takes a slot in the
+ * function's stack frame, and a frame of 10⁵ slots overflows Node's default
+ * stack (measured: a 100,000-term sum with its derivative, 2026-12).
  */
 import { Graph, UNARY_IMPL, BINARY_IMPL } from './graph';
 import { literal, ident, rowKernel, UNARY_MEMBER, BINARY_MEMBER, COMPARE_JS } from './emit';
@@ -23,14 +29,24 @@ export interface KernelRoots {
   derivatives?: readonly number[];
 }
 
+/**
+ * Interior nodes above which a kernel keeps its temporaries in an array
+ * (see the module comment). 20,000 locals make a frame of about 160 KiB,
+ * a sixth of Node's default 984 KiB stack.
+ */
+export const MAX_LOCAL_TEMPS = 20_000;
+
+/** How a kernel names its temporaries: local constants `v<id>`, or slots of the array `s`. */
+type Temps = ReadonlyMap<number, number> | null;
+
 /** Source reference to node `id` (a literal, parameter, column or temporary). */
-export function ref(g: Graph, id: number): string {
+export function ref(g: Graph, id: number, temps: Temps = null): string {
   const n = g.nodes[id];
   switch (n.op) {
     case 'const': return literal(n.value);
     case 'param': return ident('t', n.index);
     case 'col': return ident('x', n.index);
-    default: return ident('v', id);
+    default: return temps ? `s[${literal(temps.get(id)!)}]` : ident('v', id);
   }
 }
 
@@ -64,9 +80,9 @@ function sharedPower(g: Graph, id: number, available: ReadonlySet<number>): numb
 }
 
 /** Right-hand side computing interior node `id` from its operands' references. */
-function rhs(g: Graph, id: number, available: ReadonlySet<number> = new Set()): string {
+function rhs(g: Graph, id: number, available: ReadonlySet<number>, temps: Temps): string {
   const n = g.nodes[id];
-  const r = (k: number) => ref(g, k);
+  const r = (k: number) => ref(g, k, temps);
   switch (n.op) {
     case 'add': return `${r(n.a)} + ${r(n.b)}`;
     case 'sub': return `${r(n.a)} - ${r(n.b)}`;
@@ -122,17 +138,27 @@ export function kernelSource(g: Graph, roots: KernelRoots): string {
       body.push(`const ${ref(g, id)} = ${ident('c', n.index)}[i];`);
     }
   }
+  const temps = tempSlots(g, nodes);
+  if (temps) head.push(`const s = new Float64Array(${literal(temps.size)});`);
   const available = new Set<number>();
   for (const id of nodes) {
     if (isLeaf(g, id)) continue;
     // (a hoisted a^e has a hoisted base and exponent, so its a^b is hoisted too: ascending ids suffice)
-    (g.row[id] ? body : head).push(`const ${ref(g, id)} = ${rhs(g, id, available)};`);
+    const target = temps ? ref(g, id, temps) : `const ${ref(g, id)}`;
+    (g.row[id] ? body : head).push(`${target} = ${rhs(g, id, available, temps)};`);
     available.add(id);
   }
   derivs.forEach((_, j) => { if (j > 0) head.push(`const ${ident('o', j)} = n * ${literal(j)};`); });
-  if (roots.value !== undefined) body.push(`out[i] = ${ref(g, roots.value)};`);
-  derivs.forEach((d, j) => body.push(`jac[${j === 0 ? 'i' : `${ident('o', j)} + i`}] = ${ref(g, d)};`));
+  if (roots.value !== undefined) body.push(`out[i] = ${ref(g, roots.value, temps)};`);
+  derivs.forEach((d, j) => body.push(`jac[${j === 0 ? 'i' : `${ident('o', j)} + i`}] = ${ref(g, d, temps)};`));
   return rowKernel('t, c, n, out, jac', head, body);
+}
+
+/** Array slots of the interior nodes among `nodes` when there are more than `MAX_LOCAL_TEMPS`, else null (local constants). */
+export function tempSlots(g: Graph, nodes: readonly number[], perNode = 1): Temps {
+  const interior = nodes.filter((id) => !isLeaf(g, id));
+  if (interior.length * perNode <= MAX_LOCAL_TEMPS) return null;
+  return new Map(interior.map((id, k) => [id, k]));
 }
 
 export type Kernel = (t: Float64Array, c: readonly Float64Array[], n: number, out: Float64Array, jac: Float64Array) => void;

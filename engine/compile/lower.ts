@@ -5,9 +5,16 @@
  * are looked up (with `Map`, never object properties) and replaced by slot
  * numbers; numbers must be finite. Anything else throws a `CompileError`,
  * which the runner turns into a located diagnostic.
+ *
+ * Recursion follows the nesting of the expression (a `chain` is folded in a
+ * loop, so a long sum costs no depth). The checker bounds nesting at
+ * `MAX_NESTING`; expressions built later (derived quantities expanded into
+ * each other) can nest deeper, so lowering stops with a `CompileError` at
+ * `MAX_LOWER_DEPTH` instead of exhausting the call stack.
  */
 import type { Expr, Range } from '../../parser/plan';
 import { FUNCTIONS } from '../../parser/plan';
+import { MAX_NESTING } from '../../parser/limits';
 import { Graph, type UnaryFn, type BinaryFn } from './graph';
 
 export class CompileError extends Error {
@@ -23,6 +30,13 @@ const UNARY: ReadonlySet<string> = new Set<UnaryFn>([
 const BINARY: ReadonlySet<string> = new Set<BinaryFn>(['atan2', 'min', 'max', 'hypot']);
 const BINARY_OPS: ReadonlySet<string> = new Set(['+', '-', '*', '/', '^']);
 const COMPARE_OPS: ReadonlySet<string> = new Set(['<', '<=', '>', '>=', '==', '!=']);
+
+/**
+ * Deepest expression lowered. Four times the spec's own limit
+ * (parser/limits.ts `MAX_NESTING`), so every checked expression lowers, and
+ * far below the stack: lowering costs two frames per level.
+ */
+export const MAX_LOWER_DEPTH = 4 * MAX_NESTING;
 
 export function slotMap(names: readonly string[], what: string): Map<string, number> {
   const m = new Map<string, number>();
@@ -42,9 +56,10 @@ export interface LowerScope {
 }
 
 /** Lower `e` into `g`; returns the root node id. */
-export function lower(g: Graph, e: Expr, scope: LowerScope): number {
-  const rec = (x: Expr): number => lower(g, x, scope);
+export function lower(g: Graph, e: Expr, scope: LowerScope, depth = 0): number {
+  const rec = (x: Expr): number => lower(g, x, scope, depth + 1);
   if (e === null || typeof e !== 'object') throw new CompileError('malformed expression');
+  if (depth > MAX_LOWER_DEPTH) throw new CompileError(`expression nested too deeply (limit ${MAX_LOWER_DEPTH} levels)`, e.range);
   switch (e.kind) {
     case 'number':
       if (typeof e.value !== 'number' || !Number.isFinite(e.value)) throw new CompileError('number is not finite', e.range);
@@ -87,6 +102,26 @@ export function lower(g: Graph, e: Expr, scope: LowerScope): number {
       throw new CompileError('unknown logical operator', e.range);
     case 'not':
       return g.not(rec(e.arg));
+    case 'chain': {
+      // Folded left to right: the same graph as the nested binary operations it stands for.
+      if (!Array.isArray(e.args) || !Array.isArray(e.ops) || e.args.length !== e.ops.length + 1 || e.args.length < 2) {
+        throw new CompileError('malformed operator chain', e.range);
+      }
+      let acc = rec(e.args[0]);
+      for (let i = 0; i < e.ops.length; i++) {
+        const b = rec(e.args[i + 1]);
+        switch (e.ops[i]) {
+          case '+': acc = g.add(acc, b); break;
+          case '-': acc = g.sub(acc, b); break;
+          case '*': acc = g.mul(acc, b); break;
+          case '/': acc = g.div(acc, b); break;
+          case 'and': acc = g.and(acc, b); break;
+          case 'or': acc = g.or(acc, b); break;
+          default: throw new CompileError('unknown operator', e.range);
+        }
+      }
+      return acc;
+    }
     case 'call': {
       const fn: string = e.fn;
       if (!Object.prototype.hasOwnProperty.call(FUNCTIONS, fn)) throw new CompileError('unknown function', e.range);

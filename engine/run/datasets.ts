@@ -34,7 +34,7 @@ export function loadSources(sources: readonly DataSource[], baseDir: string, rea
     if (!loaded.ok) {
       out.failed.add(source.name);
       // file-level errors point at the data statement; cell errors also carry the file line
-      out.errors.push(...loaded.errors.map((e) => dataErrorToRunError(e, source.range)));
+      for (const e of loaded.errors) out.errors.push(dataErrorToRunError(e, source.range));
       continue;
     }
     out.tables.set(source.name, { source, table: loaded.data.table });

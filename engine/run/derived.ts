@@ -84,7 +84,7 @@ function treeSize(e: Expr, memo = new Map<Expr, number>()): number {
   switch (e.kind) {
     case 'negate': case 'not': n += treeSize(e.arg, memo); break;
     case 'binary': case 'compare': case 'logic': n += treeSize(e.left, memo) + treeSize(e.right, memo); break;
-    case 'call': for (const a of e.args) n += treeSize(a, memo); break;
+    case 'call': case 'chain': for (const a of e.args) n += treeSize(a, memo); break;
     default: break;
   }
   memo.set(e, n);
@@ -312,7 +312,7 @@ export function runDerived(plans: readonly DerivedPlan[], results: ReadonlyMap<s
     const { prepared, expanded } = step;
     defs.set(d.name, expanded);
     if (!prepared.fits.every(ran)) continue;
-    out.push(...evaluateAll(prepared, results));
+    for (const d of evaluateAll(prepared, results)) out.push(d);
   }
   return out;
 }

@@ -26,6 +26,9 @@ export function columnsOf(expr: Expr | undefined, into: string[] = []): string[]
     case 'call':
       for (const a of expr.args) columnsOf(a, into);
       break;
+    case 'chain':
+      for (const a of expr.args) columnsOf(a, into);
+      break;
     default:
       break;
   }
@@ -43,6 +46,8 @@ export function mapLeaves(expr: Expr, leaf: (e: Expr) => Expr): Expr {
     case 'logic':
       return { ...expr, left: mapLeaves(expr.left, leaf), right: mapLeaves(expr.right, leaf) } as Expr;
     case 'call':
+      return { ...expr, args: expr.args.map((a) => mapLeaves(a, leaf)) };
+    case 'chain':
       return { ...expr, args: expr.args.map((a) => mapLeaves(a, leaf)) };
     default:
       return leaf(expr);
@@ -106,6 +111,10 @@ export function exprText(expr: Expr): string {
       return `${wrap(expr.left, 4)} ${expr.op} ${wrap(expr.right, 4)}`;
     case 'logic':
       return `${wrap(expr.left, PRECEDENCE[expr.op])} ${expr.op} ${wrap(expr.right, PRECEDENCE[expr.op] + 1)}`;
+    case 'chain': {
+      const p = PRECEDENCE[expr.ops[0]];
+      return expr.ops.reduce((acc, op, i) => `${acc} ${op} ${wrap(expr.args[i + 1], p + 1)}`, wrap(expr.args[0], p));
+    }
   }
 }
 
@@ -120,6 +129,8 @@ function precedence(e: Expr): number {
       return PRECEDENCE.compare;
     case 'logic':
       return PRECEDENCE[e.op];
+    case 'chain':
+      return PRECEDENCE[e.ops[0]];
     default:
       return 10;
   }

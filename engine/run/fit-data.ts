@@ -65,6 +65,7 @@ function columnRange(exprs: (Expr | undefined)[], name: string, fallback: Range)
       case 'logic':
         return find(e.left) ?? find(e.right);
       case 'call':
+      case 'chain':
         for (const a of e.args) {
           const r = find(a);
           if (r) return r;

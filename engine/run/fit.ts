@@ -255,7 +255,7 @@ function solve(
     ...(o.learningRate !== undefined ? { learningRate: o.learningRate } : {}),
   };
   const method = o.method === 'auto' ? (linear ? 'linear' : 'levenberg_marquardt') : o.method;
-  if (method === 'linear' && !linear) return { error: `method linear needs a model linear in its parameters; ${fit.name} is not (use levenberg_marquardt or auto)` };
+  if (method === 'linear' && !linear) return { error: errorText.methodNotLinear(fit.name) };
 
   let outcome: SolveOutcome;
   let used: Exclude<FitPlan['options']['method'], 'auto'> = method;

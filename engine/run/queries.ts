@@ -26,8 +26,8 @@ export function runQueries(queries: readonly Query[], ctx: QueryContext): { resu
   const errors: RunError[] = [];
   for (const q of queries) {
     const out = q.kind === 'compare' ? compare(q, ctx) : q.kind === 'predict' ? predict(q, ctx) : invert(q, ctx);
-    results.push(...out.results);
-    errors.push(...out.errors);
+    for (const r of out.results) results.push(r);
+    for (const e of out.errors) errors.push(e);
   }
   return { results, errors };
 }
@@ -51,7 +51,7 @@ function predict(q: Extract<Query, { kind: 'predict' }>, ctx: QueryContext): Out
   for (const r of found.results) {
     const curve = curveFromResult(found.plan, r);
     if (!curve || r.predictor === null) {
-      out.errors.push({ code: 'no_predictor', message: errorText.noPredictor(q.fit, 'predict'), range: q.range, fit: q.fit });
+      out.errors.push({ code: 'no_predictor', message: errorText.noPredictor(q.fit, 'predict', columnsOf(found.plan.blocks[0].model)), range: q.range, fit: q.fit });
       return out;
     }
     if (q.variable !== r.predictor) {
@@ -86,18 +86,28 @@ function invert(q: Extract<Query, { kind: 'invert' }>, ctx: QueryContext): Out {
     };
   }
   if (!transform) {
-    return { results: [], errors: [{ code: 'wrong_response', message: errorText.wrongResponse(q.fit, q.response, exprText(response)), range: q.range, fit: q.fit }] };
+    return { results: [], errors: [{ code: 'wrong_response', message: errorText.wrongResponse(q.fit, q.response, responseColumns), range: q.range, fit: q.fit }] };
   }
   const out: Out = { results: [], errors: [] };
   for (const r of found.results) {
     const curve = curveFromResult(found.plan, r);
     const xs = r.points.x;
-    if (!curve || !xs || xs.length === 0) {
-      out.errors.push({ code: 'no_predictor', message: errorText.noPredictor(q.fit, 'invert'), range: q.range, fit: q.fit });
+    if (!curve || !xs) {
+      out.errors.push({ code: 'no_predictor', message: errorText.noPredictor(q.fit, 'invert', columnsOf(found.plan.blocks[0].model)), range: q.range, fit: q.fit });
       return out;
     }
-    const lo = Math.min(...xs);
-    const hi = Math.max(...xs);
+    if (xs.length === 0) {
+      // the fit has no points (its data had no usable rows): a data problem, reported with the fit
+      out.errors.push({ code: 'no_points', message: errorText.noPoints(r.group !== undefined ? `${q.fit} [${r.group}]` : q.fit, 'invert'), range: q.range, fit: q.fit });
+      continue;
+    }
+    // (a loop, not Math.min(...xs): a call takes at most about 10⁵ arguments, data can be longer)
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const x of xs) {
+      if (x < lo) lo = x;
+      if (x > hi) hi = x;
+    }
     const band = (v: Float64Array) => bandsAt(v, curve.modelAt, curve.cov, curve.t, curve.newSd);
     const inversions: InversePrediction[] = q.values.map((v) => {
       const y0 = transform!(v);
@@ -116,7 +126,7 @@ function compare(q: Extract<Query, { kind: 'compare' }>, ctx: QueryContext): Out
     const found = lookup(name, q, ctx);
     if (isError(found)) return { results: [], errors: [found] };
     if (found.results.length !== 1 || found.results[0].group !== undefined) {
-      return { results: [], errors: [{ code: 'compare_grouped', message: `compare needs fits without "per"; ${name} runs per group`, range: q.range, fit: name }] };
+      return { results: [], errors: [{ code: 'compare_grouped', message: errorText.comparePerGroup(name), range: q.range, fit: name }] };
     }
     const g = found.results[0].goodness;
     rows.push({ fit: name, n: g.n, p: g.p, ssr: g.ssr, aic: g.aic, aicc: g.aicc, bic: g.bic });
@@ -127,7 +137,7 @@ function compare(q: Extract<Query, { kind: 'compare' }>, ctx: QueryContext): Out
   );
   const errors: RunError[] = [];
   if (!sameData || rows.some((r) => r.n !== rows[0].n)) {
-    errors.push({ code: 'compare_different_data', message: `compare: ${q.fits.join(', ')} do not fit the same rows of the same response; information criteria are not comparable`, range: q.range });
+    errors.push({ code: 'compare_different_data', message: errorText.compareMismatch(q.fits), range: q.range });
   }
   const fTest = rows.length === 2 && sameData ? extraSumOfSquaresF(rows[0], rows[1]) : null;
   return { results: [{ kind: 'compare', fits: [...q.fits], rows: akaikeRows(rows), ...(fTest ? { fTest } : {}) }], errors };

@@ -109,7 +109,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
   const fits = plan.fits.filter((f) => !wanted || wanted.has(f.name));
   const neededSources = new Set(fits.flatMap((f) => f.blocks.map((b) => b.data)));
   const loaded = loadSources(plan.data.filter((d) => neededSources.has(d.name)), opts.baseDir, opts.readFile);
-  errors.push(...loaded.errors);
+  for (const e of loaded.errors) errors.push(e);
 
   const results = new Map<string, FitResult[]>();
   const fitPlans = new Map<string, FitPlan>(fits.map((f) => [f.name, f]));
@@ -138,7 +138,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
       prepared = { ok: false as const, errors: [{ code: 'internal', message: errorText.internal(fit.name, e instanceof Error ? e.message : String(e)), range: fit.range, fit: fit.name }] };
     }
     if (!prepared.ok) {
-      errors.push(...prepared.errors);
+      for (const e of prepared.errors) errors.push(e);
       continue;
     }
     total += prepared.data.length - 1;
@@ -148,7 +148,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
         done += prepared.data.length;
         // Groups the cancellation caught before they started are left out, as in the loop below.
         const started = fitted.filter((r) => !isUnstarted(r));
-        results.get(fit.name)!.push(...started);
+        for (const r of started) results.get(fit.name)!.push(r);
         const missed = fitted.find(isUnstarted);
         if (missed) errors.push({ code: 'cancelled', message: `run cancelled before fit ${fit.name} [${missed.group ?? ''}]`, range: fit.range, fit: fit.name });
         continue;
@@ -178,7 +178,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
   const ran = (name: string) => fitPlans.has(name);
   const queries = plan.queries.filter((q) => (q.kind === 'compare' ? q.fits.every(ran) : ran(q.fit)));
   const q = runQueries(queries, { fitPlans, results });
-  errors.push(...q.errors);
+  for (const e of q.errors) errors.push(e);
   const derived = runDerived(plan.derived ?? [], results, ran);
   const expectations = checkExpectations(plan.expectations.filter((e) => expectationApplies(e, ran, derived)), results, derived);
 

@@ -15,6 +15,15 @@
  * plot or histogram (its standardized residuals are withheld). The x axis
  * (linear or logarithmic) is chosen from the data alone, so a fit and the
  * same fit failed draw the same axes.
+ *
+ * User text (column, fit and group names) appears only as label text: chart
+ * titles and axis titles (`axis.title`, through `chartLabel`), and tooltip
+ * titles, which never reach Vega-Lite's compiler (svg.ts drops tooltips, the
+ * panel formats them itself). Data is addressed by fixed field names (`x`,
+ * `y`, `fitted`, …), and encoding channels carry no `title`: Vega-Lite builds
+ * expression source from those (the ARIA descriptions, tooltip objects), where
+ * a name such as `then`, `constructor` or one ending in a backslash broke the
+ * chart.
  */
 import type { TopLevelSpec } from 'vega-lite';
 import type { FitResult } from '../result';
@@ -23,6 +32,7 @@ import { fitStatus } from './summary';
 import { MAX_MARKS } from './downsample';
 import { formatLevel } from './format';
 import { FONT, PALETTE, type Palette } from './palette';
+import { chartLabel } from './escape';
 
 export type ChartId = 'fit' | 'observed-fitted' | 'residuals-predictor' | 'residuals-fitted' | 'normal-qq' | 'histogram';
 
@@ -66,8 +76,11 @@ function config(pal: Palette): Json {
   };
 }
 
+/** An axis title: user text as a label only. */
+const axisTitle = (text: string): Json => ({ title: chartLabel(text) });
+
 function top(pal: Palette, title: string, subtitle: string[], width: number, height: number, body: Json): TopLevelSpec {
-  const t: Json = { text: title };
+  const t: Json = { text: chartLabel(title) };
   if (subtitle.length) t.subtitle = subtitle;
   return { $schema: SCHEMA, title: t, width, height, config: config(pal), ...body } as unknown as TopLevelSpec;
 }
@@ -109,36 +122,37 @@ function fitChart(fit: FitResult, o: ChartContext): ChartSpec | null {
   const xName = fit.predictor;
   const level = formatLevel(fit.level);
   const xScale = prefersLogX(pts.rows, []) ? { type: 'log' } : { zero: false };
-  const xEnc = { field: 'x', type: 'quantitative', title: xName, scale: xScale };
+  const xEnc = { field: 'x', type: 'quantitative', axis: axisTitle(xName), scale: xScale };
   const yTitle = fit.response;
+  const yAxis = axisTitle(yTitle);
   const layers: Json[] = [];
   if (bands.length) {
     layers.push({
       name: 'prediction_band', data: { values: bands },
       mark: { type: 'area', color: pal.predictionBand, opacity: 0.55 },
-      encoding: { x: xEnc, y: { field: 'predictionLower', type: 'quantitative', title: yTitle, scale: { zero: false } }, y2: { field: 'predictionUpper' } },
+      encoding: { x: xEnc, y: { field: 'predictionLower', type: 'quantitative', axis: yAxis, scale: { zero: false } }, y2: { field: 'predictionUpper' } },
     });
     layers.push({
       name: 'confidence_band', data: { values: bands },
       mark: { type: 'area', color: pal.confidenceBand, opacity: 0.55 },
-      encoding: { x: xEnc, y: { field: 'confidenceLower', type: 'quantitative' }, y2: { field: 'confidenceUpper' } },
+      encoding: { x: xEnc, y: { field: 'confidenceLower', type: 'quantitative', axis: yAxis }, y2: { field: 'confidenceUpper' } },
     });
     layers.push({
       name: 'fitted_curve', data: { values: bands },
       mark: { type: 'line', color: pal.curve, strokeWidth: 2 },
-      encoding: { x: xEnc, y: { field: 'fitted', type: 'quantitative' }, order: { field: 'x', type: 'quantitative' } },
+      encoding: { x: xEnc, y: { field: 'fitted', type: 'quantitative', axis: yAxis }, order: { field: 'x', type: 'quantitative' } },
     });
   } else if (fitted) {
     const curve = [...pts.rows].sort((a, b) => (a.x as number) - (b.x as number));
     layers.push({
       name: 'fitted_curve', data: { values: curve },
       mark: { type: 'line', color: pal.curve, strokeWidth: 2 },
-      encoding: { x: xEnc, y: { field: 'fitted', type: 'quantitative', title: yTitle, scale: { zero: false } }, order: { field: 'x', type: 'quantitative' } },
+      encoding: { x: xEnc, y: { field: 'fitted', type: 'quantitative', axis: yAxis, scale: { zero: false } }, order: { field: 'x', type: 'quantitative' } },
     });
   }
   layers.push({
     data: { values: pts.rows },
-    ...pointLayer('data_points', pal, pts.rows.length, xEnc, { field: 'y', type: 'quantitative', title: yTitle, scale: { zero: false } }, [
+    ...pointLayer('data_points', pal, pts.rows.length, xEnc, { field: 'y', type: 'quantitative', axis: yAxis, scale: { zero: false } }, [
       { field: 'x', type: 'quantitative', title: xName, format: NUM },
       { field: 'y', type: 'quantitative', title: yTitle, format: NUM },
       { field: 'fitted', type: 'quantitative', title: 'fitted', format: NUM },
@@ -179,8 +193,8 @@ function observedFittedChart(fit: FitResult, o: ChartContext): ChartSpec {
     {
       data: { values: pts.rows },
       ...pointLayer('data_points', pal, pts.rows.length,
-        { field: 'fitted', type: 'quantitative', title: 'fitted value', scale: { zero: false } },
-        { field: 'y', type: 'quantitative', title: `observed ${fit.response}`, scale: { zero: false } },
+        { field: 'fitted', type: 'quantitative', axis: axisTitle('fitted value'), scale: { zero: false } },
+        { field: 'y', type: 'quantitative', axis: axisTitle(`observed ${fit.response}`), scale: { zero: false } },
         [{ field: 'y', type: 'quantitative', title: 'observed', format: NUM }, { field: 'fitted', type: 'quantitative', title: 'fitted', format: NUM }]),
     },
   ];
@@ -196,12 +210,12 @@ function residualChart(fit: FitResult, o: ChartContext, against: 'x' | 'fitted')
   const pal = o.palette;
   const pts = o.points(against);
   const xTitle = against === 'x' ? (fit.predictor as string) : 'fitted value';
-  const xEnc = { field: against, type: 'quantitative', title: xTitle, scale: against === 'x' && prefersLogX(pts.rows, []) ? { type: 'log' } : { zero: false } };
+  const xEnc = { field: against, type: 'quantitative', axis: axisTitle(xTitle), scale: against === 'x' && prefersLogX(pts.rows, []) ? { type: 'log' } : { zero: false } };
   const layers: Json[] = [
     zeroRule(pal),
     {
       data: { values: pts.rows },
-      ...pointLayer('data_points', pal, pts.rows.length, xEnc, { field: 'residual', type: 'quantitative', title: 'residual (observed − fitted)' }, [
+      ...pointLayer('data_points', pal, pts.rows.length, xEnc, { field: 'residual', type: 'quantitative', axis: axisTitle('residual (observed − fitted)') }, [
         { field: against, type: 'quantitative', title: xTitle, format: NUM },
         { field: 'residual', type: 'quantitative', title: 'residual', format: NUM },
         { field: 'standardized', type: 'quantitative', title: 'standardized', format: '.3~f' },
@@ -232,8 +246,8 @@ function qqChart(fit: FitResult, o: ChartContext): ChartSpec {
     {
       data: { values: qq.rows },
       ...pointLayer('data_points', pal, qq.rows.length,
-        { field: 'theoretical', type: 'quantitative', title: 'normal quantile' },
-        { field: 'standardized', type: 'quantitative', title: 'standardized residual' },
+        { field: 'theoretical', type: 'quantitative', axis: axisTitle('normal quantile') },
+        { field: 'standardized', type: 'quantitative', axis: axisTitle('standardized residual') },
         [{ field: 'theoretical', type: 'quantitative', title: 'normal quantile', format: '.3~f' }, { field: 'standardized', type: 'quantitative', title: 'standardized residual', format: '.3~f' }]),
     },
   ];
@@ -251,8 +265,8 @@ function histogramChart(fit: FitResult, o: ChartContext): ChartSpec {
       name: 'bars', data: { values: h.bins },
       mark: { type: 'rect', color: pal.bars, opacity: 0.85, stroke: pal.background, strokeWidth: 1 },
       encoding: {
-        x: { field: 'start', type: 'quantitative', title: 'standardized residual' }, x2: { field: 'end' },
-        y: { field: 'count', type: 'quantitative', title: 'number of points' },
+        x: { field: 'start', type: 'quantitative', axis: axisTitle('standardized residual') }, x2: { field: 'end' },
+        y: { field: 'count', type: 'quantitative', axis: axisTitle('number of points') },
         tooltip: [{ field: 'start', type: 'quantitative', title: 'from', format: '.2f' }, { field: 'end', type: 'quantitative', title: 'to', format: '.2f' }, { field: 'count', type: 'quantitative', title: 'points' }],
       },
     },
@@ -290,9 +304,36 @@ export function chartSpecs(fit: FitResult, opts: ChartOptions = {}): ChartSpec[]
   return out.filter((c): c is ChartSpec => c !== null);
 }
 
-/** File-system-safe chart file name: `<fit>[-<group>]-<chart>.svg`. */
+/**
+ * Chart file name `<fit>[-<group>]-<chart>.svg`, the same for the same names
+ * in every run, and different for different names. A name made only of
+ * letters, digits, `_`, `.` and `-` (not starting with `.` or `-`, at most 64
+ * characters) is used as it is; any other name is written with other
+ * characters as `_`, cut to 64 characters, and followed by `~` and a hash of
+ * the exact name. So groups `a b` and `a_b` get `a_b~…` and `a_b`. (Two
+ * names that differ only in letter case, `A` and `a`, share a file on a
+ * case-insensitive file system.)
+ */
 export function chartFileName(fit: FitResult, id: ChartId): string {
-  const safe = (s: string): string => s.replace(/[^A-Za-z0-9_.-]+/g, '_').replace(/^_+|_+$/g, '') || 'x';
-  const group = fit.group !== undefined ? `-${safe(fit.group)}` : '';
-  return `${safe(fit.name)}${group}-${id}.svg`;
+  const group = fit.group !== undefined ? `-${fileStem(fit.group)}` : '';
+  return `${fileStem(fit.name)}${group}-${id}.svg`;
+}
+
+const PLAIN_STEM = /^[A-Za-z0-9_][A-Za-z0-9_.-]{0,63}$/;
+
+/** A file-name piece for `name` (see chartFileName). */
+export function fileStem(name: string): string {
+  if (PLAIN_STEM.test(name)) return name;
+  const cleaned = name.replace(/[^A-Za-z0-9_.-]+/g, '_').replace(/^[.-]+/, '_').slice(0, 64);
+  return `${cleaned || '_'}~${hash32(name)}`;
+}
+
+/** FNV-1a over the UTF-16 code units, 32 bits as 8 hex digits (a file-name tag, not a security measure). */
+function hash32(s: string): string {
+  let h = 0x811c9dc5;
+  for (let i = 0; i < s.length; i++) {
+    h ^= s.charCodeAt(i);
+    h = Math.imul(h, 0x01000193);
+  }
+  return (h >>> 0).toString(16).padStart(8, '0');
 }

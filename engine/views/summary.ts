@@ -272,7 +272,11 @@ export function derivedBlock(result: RunResult): QueryBlock | null {
     return [derivedLabel(d), d.value === null ? MISSING : f.estimate, d.stderr === null ? MISSING : f.stderr, interval, d.unit ?? ''];
   });
   const byNote = new Map<string, DerivedResult[]>();
-  for (const d of derived) byNote.set(d.note, [...(byNote.get(d.note) ?? []), d]);
+  for (const d of derived) {
+    const list = byNote.get(d.note);
+    if (list) list.push(d);
+    else byNote.set(d.note, [d]);
+  }
   const notes = [...byNote].map(([note, ds]) => `${derivedLabels(ds, derived)}: ${note}`);
   const lv = oneLevel && levels[0] !== undefined && levels[0] !== null ? `${formatLevel(levels[0])} ` : '';
   return {
@@ -300,18 +304,22 @@ export type ExpectationRow = ReturnType<typeof expectationLine>;
 export function expectationRows(result: RunResult, manyGroups = 5): ExpectationRow[] {
   const key = (e: ExpectationResult) => `${e.expectation.text}@${e.expectation.range.start.line}:${e.expectation.range.start.column}`;
   const byKey = new Map<string, ExpectationResult[]>();
-  for (const e of result.expectations) byKey.set(key(e), [...(byKey.get(key(e)) ?? []), e]);
+  for (const e of result.expectations) {
+    const list = byKey.get(key(e));
+    if (list) list.push(e);
+    else byKey.set(key(e), [e]);
+  }
   const out: ExpectationRow[] = [];
   for (const es of byKey.values()) {
     const grouped = es.filter((e) => e.group !== undefined);
     if (grouped.length <= manyGroups) {
-      out.push(...es.map(expectationLine));
+      for (const e of es) out.push(expectationLine(e));
       continue;
     }
     const failed = es.filter((e) => !e.passed);
     const tag = failed.length === 0 ? `[all ${es.length} groups]` : `[${failed.length} of ${es.length} groups fail]`;
     out.push({ verdict: failed.length === 0 ? 'PASS' : 'FAIL', text: `${es[0].expectation.text} ${tag}`, actual: '', message: '' });
-    out.push(...failed.map(expectationLine));
+    for (const e of failed) out.push(expectationLine(e));
   }
   return out;
 }

@@ -10,10 +10,29 @@ import { chartSpecs, type ChartId, type ChartOptions } from './charts';
 export { chartFileName } from './charts';
 import { loadVega } from './vega-runtime';
 
-/** Render one Vega-Lite spec to an SVG document string. */
+/**
+ * A copy of `spec` without tooltips: a static SVG shows none, and Vega-Lite
+ * compiles tooltip titles (user names) into expression source, where some
+ * names are illegal (see charts.ts).
+ */
+export function withoutTooltips<T>(spec: T): T {
+  const walk = (node: unknown): unknown => {
+    if (Array.isArray(node)) return node.map(walk);
+    if (typeof node !== 'object' || node === null) return node;
+    const out: Record<string, unknown> = {};
+    for (const [k, v] of Object.entries(node)) {
+      if (k === 'tooltip') continue;
+      out[k] = walk(v);
+    }
+    return out;
+  };
+  return walk(spec) as T;
+}
+
+/** Render one Vega-Lite spec to an SVG document string (tooltips left out, see `withoutTooltips`). */
 export async function renderSvg(spec: TopLevelSpec): Promise<string> {
   const { vega, vegaLite } = await loadVega();
-  const compiled = vegaLite.compile(spec).spec;
+  const compiled = vegaLite.compile(withoutTooltips(spec)).spec;
   const view = new vega.View(vega.parse(compiled), { renderer: 'none', logLevel: vega.Error });
   try {
     const svg = await view.toSVG();

@@ -6,7 +6,29 @@
 
 export type Align = 'left' | 'right';
 
+import { inlineText, mdOf, type Markdown } from './escape';
+
 const width = (s: string): number => [...s].length;
+
+/**
+ * Appends items (a line, or a list of lines) to `lines` and returns it.
+ * Unlike `lines.push(...list)`, any length works: a call takes at most about
+ * 10⁵ arguments (a table of 200,000 predictions or groups would overflow).
+ */
+export function append(lines: string[], ...items: (string | readonly string[])[]): string[] {
+  for (const item of items) {
+    if (typeof item === 'string') lines.push(item);
+    else for (const line of item) lines.push(line);
+  }
+  return lines;
+}
+
+/** Largest value of `xs` (-Infinity when empty), for lists of any length. */
+export function maxOf(xs: Iterable<number>): number {
+  let m = -Infinity;
+  for (const x of xs) if (x > m) m = x;
+  return m;
+}
 
 function pad(s: string, w: number, align: Align): string {
   const fill = ' '.repeat(Math.max(0, w - width(s)));
@@ -21,7 +43,10 @@ function pad(s: string, w: number, align: Align): string {
 export function textTable(headers: string[], rows: string[][], align?: Align[], indent = '  '): string[] {
   const cols = headers.length;
   const al = (c: number): Align => align?.[c] ?? (c === 0 ? 'left' : 'right');
-  const w = headers.map((h, c) => Math.max(width(h), ...rows.map((r) => width(r[c] ?? ''))));
+  // user text (group labels, names) with control characters escaped before widths are measured (escape.ts)
+  rows = rows.map((r) => r.map((cell) => inlineText(cell ?? '')));
+  headers = headers.map(inlineText);
+  const w = headers.map((h, c) => Math.max(width(h), maxOf(rows.map((r) => width(r[c] ?? '')))));
   const line = (cells: string[]): string =>
     (indent + cells.map((cell, c) => pad(cell ?? '', w[c], al(c))).join('  ')).replace(/\s+$/, '');
   return [
@@ -31,13 +56,17 @@ export function textTable(headers: string[], rows: string[][], align?: Align[], 
   ];
 }
 
-/** Escape a cell for a Markdown table (pipes and line breaks). */
-export function mdCell(s: string): string {
-  return s.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/\r?\n/g, ' ');
+/** A Markdown table cell: plain text escaped (escape.ts `mdText`, which also escapes `|`), Markdown as it is. */
+export function mdCell(s: string | Markdown): string {
+  return mdOf(s);
 }
 
-/** Lines of a GitHub-flavoured Markdown table; `align` as in textTable. */
-export function markdownTable(headers: string[], rows: string[][], align?: Align[]): string[] {
+/**
+ * Lines of a GitHub-flavoured Markdown table; `align` as in textTable. Plain
+ * string cells and headers are text (escaped); cells made with `md()` are
+ * Markdown and must not contain a bare `|` (escape.ts `mdCode(text, true)`).
+ */
+export function markdownTable(headers: string[], rows: (string | Markdown)[][], align?: Align[]): string[] {
   const al = (c: number): Align => align?.[c] ?? (c === 0 ? 'left' : 'right');
   return [
     `| ${headers.map(mdCell).join(' | ')} |`,

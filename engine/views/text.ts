@@ -10,7 +10,8 @@ import {
   derivedBlock, expectationRows, expectationTally, fitHeading, goodnessEntries, notFittedNote, PARAMETER_HEADERS,
   parameterRows, queryBlocks, searchLine, stopLine, TRACE_HEADERS, traceHeading, traceRows, warningLines,
 } from './summary';
-import { textTable } from './table';
+import { append, maxOf, textTable } from './table';
+import { inlineText } from './escape';
 import {
   detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock, worstGroupLines, type FitSection,
 } from './groups';
@@ -22,11 +23,11 @@ export function fitTextLines(fit: FitResult): string[] {
   const marked = notFittedNote(fit);
   if (marked) lines.push(`  ! ${marked}`);
   lines.push('');
-  lines.push(...textTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']));
+  append(lines, textTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']));
   lines.push('', '  Goodness of fit');
   const entries = goodnessEntries(fit);
-  const w = Math.max(...entries.map((e) => [...e.label].length));
-  const vw = Math.max(...entries.map((e) => e.value.length));
+  const w = maxOf(entries.map((e) => [...e.label].length));
+  const vw = maxOf(entries.map((e) => e.value.length));
   for (const e of entries) {
     const line = `    ${e.label.padEnd(w)}  ${e.value.padStart(vw)}${e.note ? `   (${e.note})` : ''}`;
     lines.push(line);
@@ -48,7 +49,7 @@ export function queryTextLines(result: RunResult): string[] {
   const lines: string[] = [];
   for (const b of queryBlocks(result)) {
     if (lines.length) lines.push('');
-    lines.push(b.heading, ...textTable(b.headers, b.rows, b.align));
+    append(lines, b.heading, textTable(b.headers, b.rows, b.align));
     for (const n of b.notes) lines.push(`  ${n}`);
   }
   return lines;
@@ -58,14 +59,14 @@ export function queryTextLines(result: RunResult): string[] {
 export function derivedTextLines(result: RunResult): string[] {
   const b = derivedBlock(result);
   if (!b) return [];
-  return [b.heading, ...textTable(b.headers, b.rows, b.align), ...b.notes.map((n) => `  ${n}`)];
+  return append([b.heading], textTable(b.headers, b.rows, b.align), b.notes.map((n) => `  ${n}`));
 }
 
 /** Expectation verdicts, one per line, and the tally. */
 export function expectationTextLines(result: RunResult): string[] {
   if (result.expectations.length === 0) return [];
   const rows = expectationRows(result);
-  const tw = Math.max(...rows.map((r) => r.text.length));
+  const tw = maxOf(rows.map((r) => r.text.length));
   const lines = ['Expectations'];
   for (const r of rows) lines.push(`  ${r.verdict}  ${r.actual ? r.text.padEnd(tw) : r.text}${r.actual ? `  actual ${r.actual}` : ''}${r.verdict === 'FAIL' && r.message ? `  (${r.message})` : ''}`);
   lines.push(`  ${expectationTally(result)}`);
@@ -77,18 +78,35 @@ export function groupTextLines(section: Extract<FitSection, { kind: 'groups' }>,
   const t = section.table;
   const lines = [groupHeading(section), `  ${groupCountLine(t)}`, ''];
   const table = groupTableBlock(t);
-  lines.push(...textTable(table.headers, table.rows, table.align));
+  append(lines, textTable(table.headers, table.rows, table.align));
   const summary = groupSummaryBlock(t);
-  lines.push('', `  Across converged groups`, ...textTable(summary.headers, summary.rows, summary.align, '    '));
+  append(lines, '', `  Across converged groups`, textTable(summary.headers, summary.rows, summary.align, '    '));
   const worst = worstGroupLines(t);
-  if (worst.length) lines.push('', '  Worst groups', ...worst.map((w) => `    ${w}`));
+  if (worst.length) append(lines, '', '  Worst groups', worst.map((w) => `    ${w}`));
   const note = detailNote(section, shown.length);
   if (note) lines.push('', `  ${note}`);
   return lines;
 }
 
+/**
+ * The run with its group labels (CSV cell text, any characters) in one-line
+ * terminal form (escape.ts `inlineText`): the summary shows them escaped, in
+ * headings, tables and lists alike, and no label can start a line of its own.
+ */
+function withTerminalLabels(result: RunResult): RunResult {
+  const g = <T extends { group?: string }>(x: T): T => (x.group !== undefined ? { ...x, group: inlineText(x.group) } : x);
+  return {
+    ...result,
+    fits: result.fits.map(g),
+    queries: result.queries.map((q) => (q.kind === 'compare' ? q : g(q))),
+    derived: result.derived?.map(g),
+    expectations: result.expectations.map(g),
+  };
+}
+
 /** The whole run summary (fits, queries, derived quantities, expectations) ending with a newline. */
-export function runText(result: RunResult): string {
+export function runText(run: RunResult): string {
+  const result = withTerminalLabels(run);
   const sections: string[][] = [];
   for (const s of fitSections(result)) {
     if (s.kind === 'single') {

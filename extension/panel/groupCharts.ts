@@ -8,6 +8,7 @@
 import type { FitResult } from '../../engine/result';
 import type { GroupTable } from '../../engine/group/table';
 import { FONT, PALETTE } from '../../engine/views/palette';
+import { chartLabel } from '../../engine/views/escape';
 import type { PanelChart } from './model';
 
 const SCHEMA = 'https://vega.github.io/schema/vega-lite/v6.json';
@@ -34,10 +35,12 @@ export function groupParameterCharts(fits: readonly FitResult[], table: GroupTab
       };
     }).filter((v) => v.estimate !== null);
     const unit = fits.flatMap((f) => f.parameters).find((p) => p.name === name)?.unit;
-    const x = { field: 'group', type: 'nominal', sort: { field: 'order' }, title: `${table.rows.length} groups`, axis: labelled ? { labelAngle: -40, labelLimit: 90 } : { labels: false, ticks: false } };
+    // user names only as label text (axis and chart titles, see engine/views/charts.ts); groups are data values
+    const x = { field: 'group', type: 'nominal', sort: { field: 'order' }, axis: { title: `${table.rows.length} groups`, ...(labelled ? { labelAngle: -40, labelLimit: 90 } : { labels: false, ticks: false }) } };
+    const yAxis = { title: chartLabel(unit ? `${name} [${unit}]` : name) };
     const spec = {
       $schema: SCHEMA,
-      title: { text: `${table.fit}: ${name} across groups`, subtitle: ['Point: estimate. Bar: ± one standard error. Highlighted: flagged groups.'] },
+      title: { text: chartLabel(`${table.fit}: ${name} across groups`), subtitle: ['Point: estimate. Bar: ± one standard error. Highlighted: flagged groups.'] },
       width,
       height: 180,
       config: {
@@ -49,13 +52,13 @@ export function groupParameterCharts(fits: readonly FitResult[], table: GroupTab
       },
       data: { values },
       layer: [
-        { mark: { type: 'rule', color: pal.reference }, encoding: { x, y: { field: 'low', type: 'quantitative', title: unit ? `${name} [${unit}]` : name, scale: { zero: false } }, y2: { field: 'high' } } },
+        { mark: { type: 'rule', color: pal.reference }, encoding: { x, y: { field: 'low', type: 'quantitative', axis: yAxis, scale: { zero: false } }, y2: { field: 'high' } } },
         {
           name: 'group_points',
           mark: { type: 'point', filled: true, size: 46 },
           encoding: {
             x,
-            y: { field: 'estimate', type: 'quantitative' },
+            y: { field: 'estimate', type: 'quantitative', axis: yAxis },
             color: { field: 'flagged', type: 'nominal', scale: { domain: ['ok', 'flagged'], range: [pal.points, pal.highlight] }, legend: null },
             tooltip: [
               { field: 'group', type: 'nominal', title: 'group' },

@@ -154,7 +154,12 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
 /** Fits run per group, by fit name, in run order. */
 function groupedFits(run: RunResult): Map<string, FitResult[]> {
   const out = new Map<string, FitResult[]>();
-  for (const f of run.fits) if (f.group !== undefined) out.set(f.name, [...(out.get(f.name) ?? []), f]);
+  for (const f of run.fits) {
+    if (f.group === undefined) continue;
+    const list = out.get(f.name);
+    if (list) list.push(f);
+    else out.set(f.name, [f]);
+  }
   return out;
 }
 

@@ -51,6 +51,14 @@ export function interpret(e: Expr, params: Map<string, number>, cols: Map<string
       return (e.op === 'and' ? a && b : a || b) ? 1 : 0;
     }
     case 'not': return ev(e.arg) ? 0 : 1;
+    case 'chain': {
+      let acc = ev(e.args[0]);
+      e.ops.forEach((op, i) => {
+        const b = ev(e.args[i + 1]);
+        acc = op === '+' ? acc + b : op === '-' ? acc - b : op === '*' ? acc * b : op === '/' ? acc / b : (op === 'and' ? acc && b : acc || b) ? 1 : 0;
+      });
+      return acc;
+    }
     case 'call': {
       if (e.fn === 'when') return ev(e.args[0]) ? ev(e.args[1]) : ev(e.args[2]);
       return FN[e.fn](...e.args.map(ev));

@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { analyze, check } from '../../parser/index';
 import type { CheckContext } from '../../parser/index';
 import type { SpecAst } from '../../parser/ast';
-import type { Diagnostic } from '../../parser/plan';
+import { PLAN_VERSION, type Diagnostic } from '../../parser/plan';
+import { MAX_NESTING } from '../../parser/limits';
 import { CODES, type DiagnosticCode } from '../../parser/messages';
 import { marked, specs } from './helpers';
 
@@ -51,8 +52,15 @@ describe('parser/check diagnostics', () => {
     const broken = { kind: 'spec', statements: [{ kind: 'fit', name: { name: 'f' }, items: null }], range: analyze('').ast.range } as unknown as SpecAst;
     const { diagnostics, plan } = check(broken);
     expect(diagnostics.map((d) => d.code)).toEqual(['internal']);
-    expect(plan.version).toBe(1);
+    expect(plan.version).toBe(PLAN_VERSION);
     seen.add('internal');
+  });
+
+  it('nested-too-deeply: at the parenthesis or operator one level past the limit', () => {
+    const open = '('.repeat(MAX_NESTING);
+    expectAt(spec({ model: `y = ${open}«(»a * x)${')'.repeat(MAX_NESTING)}` }), 'nested-too-deeply');
+    // a tree's depth counts from its leaves: the outermost of 101 signs is the one too many
+    expectAt(spec({ model: `y = «-»${'-'.repeat(MAX_NESTING)}a * x` }), 'nested-too-deeply');
   });
 
   it('undefined-name with did-you-mean (headers known)', () => {
@@ -202,12 +210,37 @@ describe('parser/check diagnostics', () => {
   it('predictor-mismatch and response-mismatch', () => {
     expect(expectAt(spec({ after: 'predict f at «z» = 1' }), 'predictor-mismatch').suggestions).toEqual(['x']);
     const two = spec({ model: 'y = a * x + b * z', items: '  param b' });
-    expect(analyze(two + '\npredict f at z = 1').diagnostics).toEqual([]);
+    // a model of two columns has no single predictor to vary: predict is refused at check, as fit refuses it
+    expect(expectAt(two + '\npredict f at «z» = 1', 'predictor-mismatch').message).toBe("predict needs a model with exactly one predictor column; 'f' varies with 'x', 'z'");
     expectAt(two + '\npredict f at «w» = 1', 'predictor-mismatch');
-    expectAt(two + '\ninvert «f» at y = 1', 'predictor-mismatch');
+    expect(expectAt(two + '\ninvert «f» at y = 1', 'predictor-mismatch').message).toBe("invert needs a model with exactly one predictor column; 'f' varies with 'x', 'z'");
+    expect(expectAt(spec({ model: 'y - z = a * x', after: 'invert f at «y» = 1' }), 'response-mismatch').message).toMatch(/reads exactly one column; 'f' reads 'y', 'z'/);
     expectAt(spec({ model: 'y = a', after: 'predict f at «x» = 1' }), 'predictor-mismatch');
     expect(expectAt(spec({ after: 'invert f at «x» = 1' }), 'response-mismatch').suggestions).toEqual(['y']);
     expect(analyze(spec({ model: 'ln(y) = a * x', after: 'invert f at y = 2' })).diagnostics).toEqual([]);
+  });
+
+  it('compare-per-group, compare-mismatch (as the engine refuses them)', () => {
+    const two = (second: string, after: string) => [
+      'data d = "a.csv"', 'data e = "b.csv"',
+      'fit f on d {', '  model y = a * x', '  param a = 1', '}',
+      `fit g on ${second} {`, '  model y = b * x', '  param b = 1', '  per batch', '}', after,
+    ].join('\n');
+    expect(expectAt(two('d', 'compare f, «g»'), 'compare-per-group').message).toBe('compare needs fits without "per"; \'g\' runs per group');
+    const plain = (second: string, response: string, after: string) => [
+      'data d = "a.csv"', 'data e = "b.csv"',
+      'fit f on d {', '  model y = a * x', '  param a = 1', '}',
+      `fit g on ${second} {`, `  model ${response} = b * x`, '  param b = 1', '}', after,
+    ].join('\n');
+    expectAt(plain('e', 'y', '«compare f, g»'), 'compare-mismatch');
+    expectAt(plain('d', 'ln(y)', '«compare f, g»'), 'compare-mismatch');
+    expect(analyze(plain('d', 'y', 'compare f, g'), HEADERS).diagnostics.map((d) => d.code)).toEqual(['unused-data']);
+  });
+
+  it('method-not-linear: the compiler\'s own linearity test, fixed parameters as numbers', () => {
+    expect(expectAt(spec({ model: 'y = a * exp(b * x)', items: '  param b = 1\n  method «linear»' }), 'method-not-linear').message).toMatch(/method linear needs a model linear in its parameters; 'f' is not/);
+    expect(analyze(spec({ model: 'y = a * exp(b * x)', items: '  param b = 1 fixed\n  method linear' }), HEADERS).diagnostics).toEqual([]);
+    expect(analyze(spec({ model: 'y = a * x + b * x^2', items: '  param b\n  method linear' }), HEADERS).diagnostics).toEqual([]);
   });
 
   it('compare-too-few; repeated-fit (a warning)', () => {

@@ -54,5 +54,7 @@ export function show(e: Expr): string {
     case 'not': return `(not ${show(e.arg)})`;
     case 'call': return `${e.fn}(${e.args.map(show).join(', ')})`;
     case 'binary': case 'compare': case 'logic': return `(${show(e.left)} ${e.op} ${show(e.right)})`;
+    // a chain reads as the nested binary operations it stands for
+    case 'chain': return e.ops.reduce((acc, op, i) => `(${acc} ${op} ${show(e.args[i + 1])})`, show(e.args[0]));
   }
 }

@@ -13,6 +13,8 @@ function show(e: ExprAst): string {
     case 'unary': return `(${e.op}${show(e.arg)})`;
     case 'not': return `(not ${show(e.arg)})`;
     case 'binary': case 'compare': case 'logic': return `(${show(e.left)} ${e.op} ${show(e.right)})`;
+    // a chain reads as the nested binary operations it stands for
+    case 'chain': return e.ops.reduce((acc, op, i) => `(${acc} ${op} ${show(e.args[i + 1])})`, show(e.args[0]));
     case 'error': return '?';
   }
 }

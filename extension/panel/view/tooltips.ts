@@ -11,6 +11,13 @@
  * specifiers (through Vega's default locale, as Vega's `format` expression
  * function does for a view without its own locale) and hands it to
  * vega-tooltip, which draws it as before.
+ *
+ * Tooltip titles are user names (columns, parameters): they stay out of
+ * Vega-Lite's compiler (which would write them into expression source, where
+ * names such as `then` or `constructor` are illegal), so any tooltip list
+ * that cannot be deferred is dropped, and the formatted tooltip is an object
+ * without prototype whose keys cannot be vega-tooltip's own `title` or
+ * `image` (which it would show as a heading or an image).
  */
 import { defaultLocale, type TooltipHandler } from 'vega';
 import { Handler, type Options } from 'vega-tooltip';
@@ -54,6 +61,8 @@ export function deferTooltips(spec: unknown): DeferredTips {
       tips.set(`${node.name}_marks`, fields);
       delete enc.tooltip;
       node.mark = { ...(typeof node.mark === 'string' ? { type: node.mark } : node.mark), tooltip: { expr: 'datum' } };
+    } else if (isObject(enc) && 'tooltip' in enc) {
+      delete enc.tooltip; // not deferrable: dropped rather than compiled with user titles
     }
     for (const v of Object.values(node)) walk(v);
   };
@@ -64,12 +73,17 @@ export function deferTooltips(spec: unknown): DeferredTips {
 /** The fields of `datum` as the Vega-Lite tooltip would have shown them: title → formatted value. */
 export function formatTip(fields: readonly TipField[], datum: Record<string, unknown>): Record<string, string> {
   const locale = defaultLocale();
-  const out: Record<string, string> = {};
+  const out = Object.create(null) as Record<string, string>;
   for (const f of fields) {
-    const v = datum[f.field];
-    out[f.title ?? f.field] = typeof v === 'number' ? locale.format(f.format ?? '')(v) : v === null || v === undefined ? '' : String(v);
+    const v = Object.prototype.hasOwnProperty.call(datum, f.field) ? datum[f.field] : undefined;
+    out[tipKey(f.title ?? f.field)] = typeof v === 'number' ? locale.format(f.format ?? '')(v) : v === null || v === undefined ? '' : String(v);
   }
   return out;
+}
+
+/** vega-tooltip shows the keys `title` and `image` specially; a name equal to one gets an invisible U+2060 so it stays a row. */
+function tipKey(name: string): string {
+  return name === 'title' || name === 'image' ? `${name}\u2060` : name;
 }
 
 /** A vega-tooltip handler that formats deferred tooltips on hover. */
