@@ -59,6 +59,16 @@ export function canonical(e: Expr): Canon {
       }
       return { t: 'other' };
     }
+    case 'chain': {
+      // a flat run of one precedence level (parser/plan.ts): + − as one sum, * / as one product
+      if (e.ops[0] === '+' || e.ops[0] === '-') {
+        return makeSum(e.args.map((a, i) => ({ c: i > 0 && e.ops[i - 1] === '-' ? -1 : 1, e: canonical(a) })));
+      }
+      if (e.ops[0] === '*' || e.ops[0] === '/') {
+        return makeProd(e.args.map((a, i) => ({ e: canonical(a), p: i > 0 && e.ops[i - 1] === '/' ? -1 : 1 })));
+      }
+      return { t: 'other' };
+    }
     case 'call': {
       const args = e.args.map(canonical);
       if (e.fn === 'pow' && args.length === 2) return power(args[0], args[1]);
@@ -209,4 +219,17 @@ export function evaluate(c: Canon, col: (name: string) => number): number {
     default:
       return NaN;
   }
+}
+
+/**
+ * The last operator of an expression as a binary node: a `chain`
+ * `a₀ op₀ a₁ … op₋₁ aₖ` is `(a₀ op₀ … aₖ₋₁) op₋₁ aₖ` (parser/plan.ts), so a
+ * model written `vmax * s / (km + s)` splits at its `/` like `(vmax * s) / (km + s)`.
+ */
+export function lastBinary(e: Expr): { op: string; left: Expr; right: Expr } | null {
+  if (e.kind === 'binary') return e;
+  if (e.kind !== 'chain' || e.args.length < 2) return null;
+  const k = e.args.length - 1;
+  const left: Expr = k === 1 ? e.args[0] : { kind: 'chain', ops: e.ops.slice(0, k - 1), args: e.args.slice(0, k) };
+  return { op: e.ops[k - 1], left, right: e.args[k] };
 }

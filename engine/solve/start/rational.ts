@@ -18,6 +18,7 @@ import { compileModel, isLinearInParameters, type CompiledModel } from '../../co
 import type { Expr } from '../../../parser/plan';
 import { PivotedQR } from '../../linalg/qr';
 import { paramsOfExpr } from './roles';
+import { lastBinary } from './canonical';
 import type { StartInput } from './types';
 
 /** Sanathanan–Koerner reweighting steps after the first (Levy) solve. */
@@ -28,12 +29,13 @@ const cache = new Map<string, { num: CompiledModel; den: CompiledModel; a: strin
 const CACHE_SIZE = 32;
 
 function split(expr: Expr, columns: readonly string[]): { num: CompiledModel; den: CompiledModel; a: string[]; b: string[] } | null {
-  if (expr.kind !== 'binary' || expr.op !== '/') return null;
-  const a = [...paramsOfExpr(expr.left)];
-  const b = [...paramsOfExpr(expr.right)];
+  const top = lastBinary(expr);
+  if (!top || top.op !== '/') return null;
+  const a = [...paramsOfExpr(top.left)];
+  const b = [...paramsOfExpr(top.right)];
   if (a.length === 0 || b.length === 0 || a.some((q) => b.includes(q))) return null;
-  if (!isLinearInParameters(expr.left, a) || !isLinearInParameters(expr.right, b)) return null;
-  return { num: compileModel(expr.left, a, columns), den: compileModel(expr.right, b, columns), a, b };
+  if (!isLinearInParameters(top.left, a) || !isLinearInParameters(top.right, b)) return null;
+  return { num: compileModel(top.left, a, columns), den: compileModel(top.right, b, columns), a, b };
 }
 
 export function rationalStart(input: StartInput, unknown: readonly number[]): { theta: Float64Array; how: string } | null {
