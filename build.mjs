@@ -11,7 +11,7 @@ const node = [
   { in: 'engine/worker.ts', out: 'worker' },
   // SVG export for the editor: carries vega itself (no node_modules in the .vsix);
   // vega-canvas's browser build returns no canvas in Node, so text widths are estimated.
-  { in: 'extension/export/svgWorker.ts', out: 'svg-worker' },
+  { in: 'extension/export/svg-worker.ts', out: 'svg-worker' },
   { in: 'test/strd/strd-cli.ts', out: 'strd' },
   // the bench drives Chromium for the panel's first paint (case 10): playwright-core stays in node_modules
   { in: 'test/bench/bench.ts', out: 'bench', external: ['playwright-core'] },
@@ -20,7 +20,7 @@ const node = [
   { in: 'test/fuzz/fuzz-cli.ts', out: 'fuzz' },
 ];
 // The results panel page (+ panel.css from its CSS import), minified: it carries vega, vega-lite and vega-embed.
-const browser = [{ in: 'extension/panel/page.ts', out: 'panel', minify: true }];
+const browser = [{ in: 'extension/panel/view/page.ts', out: 'panel', minify: true }];
 
 // `node build.mjs extension worker panel` builds only those outputs (the editor's
 // packaging and end-to-end test use this); no arguments builds everything.

@@ -1,10 +1,10 @@
 /**
  * The `leastwise` executable: argv in, exit code out. The only module that
- * touches `process`; everything else is in engine/cli and takes an IO object.
+ * touches `process`; everything else is in engine/front/cli and takes an IO object.
  */
-import { runCli } from './engine/cli/main';
+import { runCli } from './engine/front/cli/main';
 import type { StageHooks } from './engine/io/index';
-import { terminalSafe } from './engine/views/escape';
+import { terminalSafe } from './engine/front/views/escape';
 
 // A reader that stops early (`leastwise fit x.lsq --json - | head`) closes the
 // pipe: end quietly instead of reporting a write error.
@@ -13,7 +13,7 @@ process.stdout.on('error', (e: NodeJS.ErrnoException) => {
 });
 
 /**
- * Test hook (test/cli/atomic.test.ts): with LEASTWISE_TEST_PAUSE_WRITE_AFTER=N
+ * Test hook (test/front/cli/atomic.test.ts): with LEASTWISE_TEST_PAUSE_WRITE_AFTER=N
  * the output writer stops for good once a staged file holds N bytes, after
  * saying so on stderr, so a test can kill the process mid-write without
  * guessing at timing.
@@ -33,7 +33,7 @@ function writeHooks(): StageHooks | undefined {
 }
 
 // The output boundary: names and cell text from spec and data files reach the
-// terminal with control characters escaped (engine/views/escape.ts), so a data
+// terminal with control characters escaped (engine/front/views/escape.ts), so a data
 // file cannot retitle the window or clear the screen; JSON stays valid.
 runCli(process.argv.slice(2), {
   stdout: (text) => void process.stdout.write(terminalSafe(text)),

@@ -1,6 +1,6 @@
 /**
  * Entry of the engine's worker thread (bundled to dist/worker.js). Serves the
- * jobs of engine/parallel/protocol.ts:
+ * jobs of engine/groups/protocol.ts:
  * - `fitGroups` (fitGroupsParallel): fits a chunk of groups in order and
  *   answers `groupsDone` with one FitResult per group;
  * - `runPlan` (the editor extension): runs a whole plan, reading its data
@@ -13,10 +13,10 @@
  * does not wait for its own event loop. A job that throws answers `error`; the worker stays up.
  */
 import { parentPort } from 'node:worker_threads';
-import { fitGroupList } from './parallel/group-job';
-import { cancelTokenOf, isWorkerRequest, type WorkerRequest, type WorkerResponse } from './parallel/protocol';
-import { runPlanJob } from './parallel/plan-job';
-import { packNumbers } from './parallel/pack';
+import { fitGroupList } from './groups/group-job';
+import { cancelTokenOf, isWorkerRequest, type WorkerRequest, type WorkerResponse } from './groups/protocol';
+import { runPlanJob } from './runner/plan-job';
+import { packNumbers } from './groups/pack';
 
 /** Minimum interval between progress messages, in ms. */
 const PROGRESS_MS = 50;

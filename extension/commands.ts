@@ -8,11 +8,11 @@ import * as vscode from 'vscode';
 import { isSpec, specDocument, type LwContext } from './context';
 import { exportReport } from './export/report';
 import { fitDocument } from './fit/service';
-import { enclosingFit } from './logic/locate';
-import { newSpecFromCsv } from './newSpec';
+import { enclosingFit } from './logic/declarations';
+import { newSpecFromCsv } from './new-spec';
 import { panelActions } from './panel/actions';
 import { ResultsPanel, VIEW_TYPE } from './panel/panel';
-import { isPageState, EXPORT_FORMATS, type ExportFormat } from './panel/protocol';
+import { isPageState, EXPORT_FORMATS, type ExportFormat } from './logic/panel-protocol';
 import { requireTrust } from './trust';
 
 export type CommandId =

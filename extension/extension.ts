@@ -13,7 +13,7 @@ import { registerHover } from './language/hover';
 import { registerNavigation } from './language/navigation';
 import { registerQuickFixes } from './language/quickfix';
 import { registerSemanticTokens } from './language/semantic';
-import { registerStatusBar } from './statusBar';
+import { registerStatusBar } from './status-bar';
 
 export function activate(context: vscode.ExtensionContext): void {
   const ctx = createContext(context);

@@ -2,7 +2,7 @@
  * Workspace Trust. In Restricted Mode (untrusted folder) the editing support
  * stays on: highlighting, diagnostics (parser checks and CSV header checks,
  * which read only the header of data files inside the workspace folders, see
- * logic/dataFiles.ts), completion, hover, outline, quick fixes. Fitting,
+ * logic/data-files.ts), completion, hover, outline, quick fixes. Fitting,
  * exporting and "New Spec from CSV" are off: a fit reads whole data files and
  * runs evaluator code generated from the spec, an export writes files, and a
  * new spec reads a whole data file and writes a spec, so they need a trusted

@@ -3,7 +3,7 @@
  * the declarations seen so far, all declarations in the file (to say
  * "declared further down" instead of "unknown"), and the reporter.
  */
-import type { DataSource, FitPlan } from './plan';
+import type { DataSource, Expr, FitPlan } from './plan';
 import type { Reporter } from './report';
 import type { Suggester } from './suggest';
 
@@ -16,6 +16,14 @@ export interface CheckContext {
    * as the fit will read the file.
    */
   headers?: (dataName: string, path: string, options: { delimiter?: ',' | ';' | '\t'; decimal?: '.' | ',' }) => string[] | undefined;
+  /**
+   * The engine's symbolic test "is `expr` linear in `params`" (engine/compile
+   * `isLinearInParameters`), passed in by the CLI and the editor so that
+   * `method linear` on a nonlinear model is reported before a run. The parser
+   * does not depend on the engine; without it that check is left to the
+   * engine's guard, which has the same message.
+   */
+  isLinearIn?: (expr: Expr, params: readonly string[]) => boolean;
 }
 
 export interface ConstInfo {

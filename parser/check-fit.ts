@@ -8,8 +8,7 @@ import type { Expr, FitBlock, FitPlan, ParameterPlan } from './plan';
 import { isBuiltinConstant, type Env, type FitInfo } from './check-env';
 import { newUse, resolveExpr, resolveValue, type ExprScope, type ExprUse } from './check-expr';
 import { checkOptions } from './check-options';
-import { isLinearInParameters } from '../engine/compile/index';
-import { substituteParams } from '../engine/run/expr';
+import { substituteParams } from './plan-expr';
 import { MSG } from './messages';
 import { EMPTY_RANGE } from './source';
 
@@ -103,11 +102,12 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
   if (weight) block.weight = weight;
   if (modelUse.columns.length === 1) block.predictor = modelUse.columns[0];
 
-  if (options.method === 'linear' && first && !modelUse.broken && params.every((p) => !p.fixed || p.initial !== undefined)) {
-    // The compiler's own symbolic test, as the engine applies it (fixed parameters are numbers there).
+  const isLinearIn = env.ctx.isLinearIn;
+  if (isLinearIn && options.method === 'linear' && first && !modelUse.broken && params.every((p) => !p.fixed || p.initial !== undefined)) {
+    // The compiler's own symbolic test (passed in by the caller), as the engine applies it (fixed parameters are numbers there).
     const fixed = new Map(params.filter((p) => p.fixed).map((p) => [p.name, p.initial!]));
     const free = params.filter((p) => !p.fixed).map((p) => p.name);
-    if (!isLinearInParameters(substituteParams(model, fixed), free)) {
+    if (!isLinearIn(substituteParams(model, fixed), free)) {
       const method = fit.items.find((i): i is Extract<FitItemAst, { kind: 'method' }> => i.kind === 'method');
       r.report('method-not-linear', MSG.methodNotLinear(name), method?.value?.range ?? method?.range ?? fit.range);
     }

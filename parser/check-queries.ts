@@ -9,7 +9,7 @@ import { STATISTICS, type Bound, type Expectation, type ExpectTarget, type Query
 import type { Env, FitInfo } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
-import { exprText } from '../engine/run/expr';
+import { exprText } from './plan-expr';
 
 /** The fit a statement names, or undefined (reported). */
 export function lookupFit(env: Env, name: NameAst | undefined): FitInfo | undefined {

@@ -5,7 +5,7 @@
  * improve. LANGUAGE.md lists the same codes. `CODES` is the single list.
  */
 import type { Severity } from './plan';
-import { inlineText } from '../engine/views/escape';
+import { inlineText } from './printable';
 
 export const CODES = {
   syntax: 'error',

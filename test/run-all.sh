@@ -10,7 +10,7 @@ cd "$(dirname "$0")/.."
 root=$(pwd)
 export STRD_DIR="${STRD_DIR:-$(cd "$root/.." && pwd)/shared/strd}"
 export VSCODE_WEB_TOOLS="${VSCODE_WEB_TOOLS:-$(cd "$root/.." && pwd)/shared/tools/vscode-web}"
-# long tests (e.g. test/cli/json-stream.test.ts, 5 million rows) run here, not in a plain `npx vitest run`
+# long tests (e.g. test/front/cli/json-stream.test.ts, 5 million rows) run here, not in a plain `npx vitest run`
 export LEASTWISE_LONG_TESTS=1
 
 step() { printf '\n== %s ==\n' "$*"; }

@@ -22,7 +22,7 @@ import { compileColumnExpr, compileModel } from '../compile';
 import type { FitResult } from '../result';
 import type { FactoredCovariance, ModelAt, NewObservationSd } from '../stats/bands';
 import { tCritical } from '../stats/distributions';
-import { columnsOf, substituteParams } from './expr';
+import { columnsOf, substituteParams } from '../../parser/plan-expr';
 
 /** The model with fixed parameters replaced by their values, and the free parameter names. */
 export function freeModel(fit: FitPlan): { expr: Expr; free: string[]; fixed: Map<string, number> } {

@@ -43,7 +43,7 @@ import { derivedText, num } from '../messages';
 import type { DerivedResult, FitResult } from '../result';
 import { normalQuantile, tCritical } from '../stats/distributions';
 import { statisticValue } from './expectations';
-import { exprText, mapLeaves } from './expr';
+import { exprText, mapLeaves } from '../../parser/plan-expr';
 
 /** A gᵀCg with gᵀCg < 0 and |gᵀCg| ≤ this·Σ|gⱼCⱼₖgₖ| is rounding error and taken as 0. */
 export const NEGATIVE_VARIANCE_TOLERANCE = 1e-10;

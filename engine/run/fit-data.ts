@@ -7,7 +7,7 @@ import type { DataSource, Expr, FitPlan, Range } from '../../parser/plan';
 import { cellLine, selectRows, type DataError, type DataTable } from '../data';
 import { dataText, errorText } from '../messages';
 import type { RunError } from '../result';
-import { columnsOf } from './expr';
+import { columnsOf } from '../../parser/plan-expr';
 
 /** Evaluates a parameter-free expression over columns (engine/compile `compileColumnExpr`). */
 export type ColumnCompiler = (expr: Expr, columns: readonly string[]) => (cols: readonly Float64Array[], n: number, out: Float64Array) => void;

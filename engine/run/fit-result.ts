@@ -6,7 +6,7 @@
 import type { FitPlan, LossKind, Method } from '../../parser/plan';
 import type { FitResult, FitWarning, GoodnessOfFit, ParameterResult, StopReason } from '../result';
 import type { FitData } from './fit-data';
-import { exprText } from './expr';
+import { exprText } from '../../parser/plan-expr';
 import { isLinearInParameters } from '../compile';
 import { toNumberArray } from './number-array';
 

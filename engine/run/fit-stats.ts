@@ -34,7 +34,7 @@ import { durbinWatson, orderBy, runsTest } from '../stats/residual-tests';
 import { shapiroWilk } from '../stats/shapiro-wilk';
 import { boundHit, fitWarnings } from '../stats/warnings';
 import { buildCurve } from './curve';
-import { exprText } from './expr';
+import { exprText } from '../../parser/plan-expr';
 import type { FitData } from './fit-data';
 import { emptyGoodness, excludedFields, expandMatrix, parameterRow } from './fit-result';
 import { numberArrayOf, toNumberArray } from './number-array';

@@ -31,7 +31,7 @@ import { explore, guessStart, isLower, linearSet, type ExploreOutcome, type Star
 import { errorText, searchText, warningText } from '../messages';
 import type { FitData } from './fit-data';
 import { failedFit } from './fit-result';
-import { holdParams } from './expr';
+import { holdParams } from '../../parser/plan-expr';
 import { freeModel } from './curve';
 import { defaultSolvers, type Solvers } from './solvers';
 import { fitStatistics } from './fit-stats';
@@ -49,8 +49,8 @@ export interface RunFitOptions {
    * Starting values to use instead of the spec's (free parameters, in
    * declaration order); NaN entries are guessed from the data. `how` says
    * where the others came from (for the guessed-start warning, when the spec
-   * gave no value). Per-group fits (engine/group/starts.ts,
-   * engine/parallel/group-job.ts) use it.
+   * gave no value). Per-group fits (engine/groups/starts.ts,
+   * engine/groups/group-job.ts) use it.
    */
   startOverride?: { theta: Float64Array; how: string };
   /** Search even a group of a per-group fit (when a nonlinear parameter has no start or `explore` asks). Default false for groups. */

@@ -1,5 +1,4 @@
-/** Plan runner: executes a plan into a RunResult. */
-export { runPlan, runPlanSync, type RunIteration, type RunOptions, type RunProgress } from './run-plan';
+/** One fit and what reads its results: data preparation, the fit itself, queries, derived quantities, expectations, JSON. */
 export { runFit, type RunFitOptions } from './fit';
 export { prepareFitData, sortGroupLabels, type FitData, type FitDataResult, type ColumnCompiler } from './fit-data';
 export { runQueries, type QueryContext } from './queries';

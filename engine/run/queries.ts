@@ -13,7 +13,7 @@ import { bandsAt, predictAt } from '../stats/bands';
 import { akaikeRows, extraSumOfSquaresF, type CompareInput } from '../stats/compare';
 import { inversePrediction } from '../stats/inverse';
 import { curveFromResult } from './curve';
-import { columnsOf, exprText } from './expr';
+import { columnsOf, exprText } from '../../parser/plan-expr';
 
 export interface QueryContext {
   fitPlans: ReadonlyMap<string, FitPlan>;

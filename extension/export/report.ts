@@ -1,11 +1,11 @@
 /**
  * "Export Report": the last run of a spec as Markdown (the CLI's report,
- * engine/views/markdown.ts), JSON (the engine's `resultToJson`) or SVG charts
- * (engine/views/charts.ts specs, rendered in the SVG worker with the CLI's
+ * engine/front/views/markdown.ts), JSON (the engine's `resultToJson`) or SVG charts
+ * (engine/front/views/charts.ts specs, rendered in the SVG worker with the CLI's
  * renderer; file names from `chartFileName`). The user picks the output
  * files; the spec and the data are never written: local targets are
  * checked against the spec and every data file it declares (engine/io's
- * output guard, logic/exportGuard.ts) and written all-or-nothing through
+ * output guard, logic/export-guard.ts) and written all-or-nothing through
  * temporary files (engine/io stage.ts).
  */
 import * as path from 'node:path';
@@ -15,12 +15,12 @@ import type { RunResult } from '../../engine/result';
 import { writeAllOrNothing, type StagedContent } from '../../engine/io';
 import { outputText } from '../../engine/messages';
 import { writeJson } from '../../engine/run/json';
-import { chartFileName, chartSpecs } from '../../engine/views/charts';
-import { markdownReport } from '../../engine/views/markdown';
+import { chartFileName, chartSpecs } from '../../engine/front/views/charts';
+import { markdownReport } from '../../engine/front/views/markdown';
 import type { LwContext } from '../context';
-import { exportRefusal, type ExportInputs } from '../logic/exportGuard';
-import type { ExportFormat } from '../panel/protocol';
-import { isSvgResponse, type SvgRequest, type SvgResponse } from './svgProtocol';
+import { exportRefusal, type ExportInputs } from '../logic/export-guard';
+import type { ExportFormat } from '../logic/panel-protocol';
+import { isSvgResponse, type SvgRequest, type SvgResponse } from './svg-protocol';
 
 const FORMAT_PICKS: { label: string; description: string; format: ExportFormat }[] = [
   { label: 'Markdown report', description: 'tables, warnings, expectations, provenance', format: 'markdown' },

@@ -1,7 +1,7 @@
 /**
  * Runs a plan off the extension host's main thread, in the engine's worker
  * (engine/worker.ts bundled to dist/worker.js; protocol in
- * engine/parallel/protocol.ts). One worker per run, ended when the run ends.
+ * engine/groups/protocol.ts). One worker per run, ended when the run ends.
  *
  * Cancellation: the shared cancel flag is set first (the solvers read it once
  * per iteration and stop with `stop.code = 'cancelled'`); if the worker has
@@ -12,8 +12,8 @@
 import { Worker } from 'node:worker_threads';
 import type { Plan } from '../../parser/plan';
 import type { RunResult } from '../../engine/result';
-import type { RunIteration } from '../../engine/run';
-import { createCancelFlag, isWorkerResponse, setCancelled, type RunPlanJobOptions, type WorkerRequest } from '../../engine/parallel/protocol';
+import type { RunIteration } from '../../engine/runner';
+import { createCancelFlag, isWorkerResponse, setCancelled, type RunPlanJobOptions, type WorkerRequest } from '../../engine/groups/protocol';
 
 /** Wait after setting the cancel flag before terminating the worker. */
 export const CANCEL_GRACE_MS = 1500;

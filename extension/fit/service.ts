@@ -11,7 +11,7 @@ import * as vscode from 'vscode';
 import type { LwContext } from '../context';
 import { specDiagnostics } from '../logic/diagnostics';
 import { progressMessage, type FitProgress } from '../logic/progress';
-import { buildPanelModel } from '../panel/model';
+import { buildPanelModel } from '../logic/panel-model';
 import type { StoredRun } from '../state/runs';
 import { runInWorker } from './runner';
 import { requireTrust } from '../trust';

@@ -6,7 +6,7 @@
 import * as vscode from 'vscode';
 import { SELECTOR, type LwContext } from '../context';
 import { definitionAt, documentSymbols, fitLenses, type LsqSymbol, type SymbolKind } from '../logic/symbols';
-import { resolveDataUri } from './headers';
+import { resolveDataUri } from '../state/headers';
 import { lineIndex, toRange } from './convert';
 import type { LineIndex } from '../../parser/source';
 
@@ -39,7 +39,7 @@ export function registerNavigation(ctx: LwContext): void {
         const csv = resolveDataUri(doc.uri, d.path);
         if (!csv) return undefined;
         // the column's position in the header line, read under the editor's rules (inside the
-        // workspace, regular files, capped, asynchronous: logic/dataFiles.ts)
+        // workspace, regular files, capped, asynchronous: logic/data-files.ts)
         const head = await ctx.analyses.headers.headerLine(doc.uri, d.path);
         if (head === undefined) return undefined;
         const col = Math.max(0, head.indexOf(d.column));

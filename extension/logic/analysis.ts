@@ -3,10 +3,11 @@
  * diagnostics plus what is known about each data file (found or not, its
  * header). Built in two steps so file reading stays outside this module:
  *   1. `parse(text)` and `dataRequests(ast)` name the files to look at;
- *   2. the caller reads the headers (see extension/language/headers.ts) and
+ *   2. the caller reads the headers (see extension/state/headers.ts) and
  *      `completeAnalysis` runs the checker with them.
  */
 import { check, parse, type SpecAst } from '../../parser';
+import { isLinearInParameters } from '../../engine/compile';
 import type { Diagnostic, Plan } from '../../parser/plan';
 import { spanOf, type Span } from './text';
 
@@ -20,7 +21,7 @@ export interface DataFileStatus {
    * cannot be read - a folder, a named pipe - or has no header), `unknown`
    * (not read: a non-file document, a path with no folder to resolve
    * against, a file outside the workspace folders or a header wider than
-   * the editor reads; see logic/dataFiles.ts).
+   * the editor reads; see logic/data-files.ts).
    */
   state: 'found' | 'missing' | 'unreadable' | 'unknown';
   headers?: string[];
@@ -75,7 +76,7 @@ export function completeAnalysis(
   data: DataFileStatus[],
 ): EditorAnalysis {
   const headers = (dataName: string): string[] | undefined => data.find((d) => d.name === dataName && d.state === 'found')?.headers;
-  const checked = check(parsed.ast, { headers });
+  const checked = check(parsed.ast, { headers, isLinearIn: isLinearInParameters });
   return { text, ast: parsed.ast, plan: checked.plan, diagnostics: [...parsed.diagnostics, ...checked.diagnostics], data };
 }
 

@@ -7,8 +7,8 @@
  */
 import { FUNCTIONS, LOSSES, METHODS, STATISTICS } from '../../parser/plan';
 import { columnsOf, type EditorAnalysis } from './analysis';
-import { constantDoc, functionDoc, keywordDoc, statisticDoc } from './functionDocs';
-import { dataOfFit, enclosingFit, scanEnclosingFit } from './locate';
+import { constantDoc, functionDoc, keywordDoc, statisticDoc } from './function-docs';
+import { dataOfFit, enclosingFit, scanEnclosingFit } from './declarations';
 import { blankComments, linePrefix } from './text';
 
 export type CompletionKind = 'keyword' | 'function' | 'parameter' | 'column' | 'constant' | 'data' | 'fit' | 'statistic' | 'value' | 'file';

@@ -17,9 +17,9 @@
 import type { Diagnostic, Range, Severity } from '../../parser/plan';
 import type { FitResult, FitWarning, RunResult, WarningCode } from '../../engine/result';
 import type { EditorAnalysis } from './analysis';
-import { findFit, findParam, findExpectation, findData, modelSpan } from './locate';
+import { findFit, findParam, findExpectation, findData, modelSpan } from './declarations';
 import { firstLine, spanOf, type Span } from './text';
-import { dataFileText } from './dataFiles';
+import { dataFileText } from './data-files';
 
 export type LsqSeverity = Severity | 'hint';
 /** Where a diagnostic comes from; the adapter shows it as the diagnostic's source. */

@@ -1,11 +1,11 @@
 /**
- * Number formatting for hovers: the CLI's rules (engine/views/format.ts), so
+ * Number formatting for hovers: the CLI's rules (engine/front/views/format.ts), so
  * the editor, the panel and the reports print the same digits. An estimate,
  * its standard error and interval share one last digit (the standard error's
  * 4th significant digit).
  */
 import type { ParameterResult } from '../../engine/result';
-import { formatEstimate, formatLevel, formatNumber } from '../../engine/views/format';
+import { formatEstimate, formatLevel, formatNumber } from '../../engine/front/views/format';
 
 /** `x` with `digits` significant digits (default 4); `n/a` when missing or not finite. */
 export function fmt(x: number | null | undefined, digits = 4): string {

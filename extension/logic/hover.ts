@@ -7,12 +7,12 @@
  */
 import type { FitResult, RunResult } from '../../engine/result';
 import { FUNCTIONS } from '../../parser/plan';
-import { METHOD_LABEL } from '../../engine/views/summary';
+import { METHOD_LABEL } from '../../engine/front/views/summary';
 import { columnsOf, type EditorAnalysis } from './analysis';
-import { formatEstimate } from '../../engine/views/format';
+import { formatEstimate } from '../../engine/front/views/format';
 import { fmt, fmtEstimate, fmtInterval, fmtLevel, fmtParameter, fmtPercent } from './format';
-import { constantDoc, functionDoc, keywordDoc, statisticDoc } from './functionDocs';
-import { dataOfFit, enclosingFit } from './locate';
+import { constantDoc, functionDoc, keywordDoc, statisticDoc } from './function-docs';
+import { dataOfFit, enclosingFit } from './declarations';
 import { wordAt, type Span } from './text';
 
 export interface LsqHover {

@@ -1,11 +1,11 @@
 /**
  * The text of the fit progress notification: units done (fits, or groups of
  * a per-group fit) when there is more than one, and the latest accepted
- * iteration of the fit being solved (engine/views/progress.ts, the CLI's
+ * iteration of the fit being solved (engine/front/views/progress.ts, the CLI's
  * words), so a long single fit visibly moves.
  */
-import type { RunIteration } from '../../engine/run';
-import { iterationText } from '../../engine/views/progress';
+import type { RunIteration } from '../../engine/runner';
+import { iterationText } from '../../engine/front/views/progress';
 
 export interface FitProgress {
   done: number;

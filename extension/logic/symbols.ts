@@ -5,7 +5,7 @@
  * declaration a name refers to, and the fits that get a code lens.
  */
 import type { EditorAnalysis } from './analysis';
-import { dataOfFit, enclosingFit, findConstName, findDataName, findFitName, findParamName, paramAsts } from './locate';
+import { dataOfFit, enclosingFit, findConstName, findDataName, findFitName, findParamName, paramAsts } from './declarations';
 import { spanOf, wordAt, type Span } from './text';
 
 export type SymbolKind = 'data' | 'constant' | 'fit' | 'parameter' | 'query' | 'expectation';

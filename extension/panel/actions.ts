@@ -5,9 +5,9 @@
 import * as vscode from 'vscode';
 import type { LwContext } from '../context';
 import { exportReport } from '../export/report';
-import { resolveDataUri } from '../language/headers';
+import { resolveDataUri } from '../state/headers';
 import { lineIndex, toRange } from '../language/convert';
-import { findFitName, findParamName } from '../logic/locate';
+import { findFitName, findParamName } from '../logic/declarations';
 import type { PanelActions } from './panel';
 
 export function panelActions(ctx: LwContext, refit: (spec: vscode.Uri) => Promise<void>): PanelActions {

@@ -9,8 +9,8 @@
 import * as vscode from 'vscode';
 import type { LwContext } from '../context';
 import { panelHtml, makeNonce } from './html';
-import { chartsForKey, type PanelModel } from './model';
-import { isFromPage, isPageState, type FromPage, type ToPage } from './protocol';
+import { chartsForKey, type PanelModel } from '../logic/panel-model';
+import { isFromPage, isPageState, type FromPage, type ToPage } from '../logic/panel-protocol';
 
 export const VIEW_TYPE = 'leastwise.results';
 

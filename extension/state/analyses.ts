@@ -8,7 +8,7 @@
 import * as vscode from 'vscode';
 import { parse } from '../../parser';
 import { completeAnalysis, dataRequests, type EditorAnalysis } from '../logic/analysis';
-import { HeaderReader } from '../language/headers';
+import { HeaderReader } from './headers';
 
 /** Quiet time after the last keystroke before re-analysing. */
 export const DEBOUNCE_MS = 250;

@@ -6,7 +6,7 @@
  */
 import * as vscode from 'vscode';
 import type { RunResult } from '../../engine/result';
-import { buildPanelModel, type PanelModel } from '../panel/model';
+import { buildPanelModel, type PanelModel } from '../logic/panel-model';
 
 export interface StoredRun {
   specUri: vscode.Uri;

@@ -4,7 +4,7 @@ import { existsSync, readFileSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import { textReport, type BenchReport } from './report';
-import { buildBundles, REPO_ROOT, removeBuilt, tempDir, type Built } from '../parallel/built';
+import { buildBundles, REPO_ROOT, removeBuilt, tempDir, type Built } from '../fixtures/built';
 
 /** Benchmark 10 drives Chromium; without it that row carries the error (as the panel tests skip). */
 const haveChromium = existsSync(process.env.CHROMIUM ?? '/usr/bin/chromium');

@@ -1,5 +1,5 @@
 /**
- * SVG export worker (extension/export/svgWorker.ts), bundled as build.mjs
+ * SVG export worker (extension/export/svg-worker.ts), bundled as build.mjs
  * bundles it (vega inside, vega-canvas aliased to its browser build): the
  * CLI's chart specs of a saved run come back as SVG documents with marks.
  */
@@ -9,8 +9,8 @@ import { join, resolve } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { RunResult } from '../../engine/result';
-import { chartFileName, chartSpecs } from '../../engine/views/charts';
-import { isSvgResponse, type SvgRequest, type SvgResponse } from '../../extension/export/svgProtocol';
+import { chartFileName, chartSpecs } from '../../engine/front/views/charts';
+import { isSvgResponse, type SvgRequest, type SvgResponse } from '../../extension/export/svg-protocol';
 
 const ROOT = resolve(__dirname, '..', '..');
 const OUT = join(ROOT, 'test', 'artifacts', 'extension', 'svg-worker-build');
@@ -29,11 +29,11 @@ function render(req: SvgRequest): Promise<SvgResponse> {
   });
 }
 
-describe('extension/export/svgWorker', () => {
+describe('extension/export/svg-worker', () => {
   beforeAll(async () => {
     mkdirSync(OUT, { recursive: true });
     await build({
-      entryPoints: { 'svg-worker': join(ROOT, 'extension', 'export', 'svgWorker.ts') }, outdir: OUT, bundle: true, platform: 'node',
+      entryPoints: { 'svg-worker': join(ROOT, 'extension', 'export', 'svg-worker.ts') }, outdir: OUT, bundle: true, platform: 'node',
       target: 'node20', format: 'cjs', mainFields: ['module', 'main'], logLevel: 'warning',
       alias: { 'vega-canvas': join(ROOT, 'node_modules', 'vega-canvas', 'build', 'vega-canvas.browser.js') },
     });

@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import * as vega from 'vega';
 import * as vegaLite from 'vega-lite';
-import { buildPanelModel } from '../../extension/panel/model';
+import { buildPanelModel } from '../../extension/logic/panel-model';
 import { deferTooltips, formatTip } from '../../extension/panel/view/tooltips';
 import { HOSTILE_COLUMNS, HOSTILE_LABELS } from '../fixtures/hostile-names';
 import { fitNamed, runWith } from './helpers';

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { hoverAt } from '../../extension/logic/hover';
-import { formatEstimate, formatNumber } from '../../engine/views/format';
+import { formatEstimate, formatNumber } from '../../engine/front/views/format';
 import { FUNCTION_DOCS } from '../../parser/functions-doc';
 import { analysisOf, COOLING, fitNamed, runWith } from './helpers';
 

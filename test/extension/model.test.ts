@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { buildPanelModel, chartsForKey, fitKey, panelFit } from '../../extension/panel/model';
-import { MAX_MARKS } from '../../engine/views/downsample';
-import { parameterRows } from '../../engine/views/summary';
+import { buildPanelModel, chartsForKey, fitKey, panelFit } from '../../extension/logic/panel-model';
+import { MAX_MARKS } from '../../engine/front/views/downsample';
+import { parameterRows } from '../../engine/front/views/summary';
 import { fitNamed, runWith } from './helpers';
 
 type Json = Record<string, unknown>;
@@ -21,7 +21,7 @@ function dataArrays(spec: Json): unknown[][] {
   return out;
 }
 
-describe('extension/panel/model (downsampling, groups)', () => {
+describe('extension/logic/panel-model (downsampling, groups)', () => {
   it('draws at most MAX_MARKS points per layer for a large fit and keeps the largest residual', () => {
     const fit = fitNamed('big', ['a', 'b'], { n: 3 * MAX_MARKS + 123 });
     // one clear outlier that must stay visible

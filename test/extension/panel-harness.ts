@@ -1,6 +1,6 @@
 /**
  * Harness for the results page in a real headless Chromium: bundles
- * extension/panel/page.ts like build.mjs does; serving it and the theme
+ * extension/panel/view/page.ts like build.mjs does; serving it and the theme
  * stand-ins live in panel-server.ts.
  */
 import { build } from 'esbuild';
@@ -16,7 +16,7 @@ export const ARTIFACTS = join(ROOT, 'test', 'artifacts', 'extension');
 export async function bundlePage(outDir: string): Promise<void> {
   mkdirSync(outDir, { recursive: true });
   await build({
-    entryPoints: { panel: join(ROOT, 'extension', 'panel', 'page.ts') },
+    entryPoints: { panel: join(ROOT, 'extension', 'panel', 'view', 'page.ts') },
     outdir: outDir, bundle: true, platform: 'browser', target: 'es2022', format: 'iife', minify: true, logLevel: 'warning', legalComments: 'none',
   });
 }

@@ -15,7 +15,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { chromium } from 'playwright-core';
 import type { RunResult } from '../../engine/result';
-import { buildPanelModel, type PanelModel } from '../../extension/panel/model';
+import { buildPanelModel, type PanelModel } from '../../extension/logic/panel-model';
 import { ARTIFACTS, bundlePage, CHROMIUM_ARGS, ROOT, servePanel, type PanelServer, type ThemeName } from './panel-harness';
 
 const CHROMIUM = process.env.CHROMIUM ?? '/usr/bin/chromium';

@@ -1,11 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { isFromPage, isPageState, isPanelModel, isToPage } from '../../extension/panel/protocol';
-import { buildPanelModel } from '../../extension/panel/model';
+import { isFromPage, isPageState, isPanelModel, isToPage } from '../../extension/logic/panel-protocol';
+import { buildPanelModel } from '../../extension/logic/panel-model';
 import { fitNamed, runWith } from './helpers';
 
 const model = buildPanelModel(runWith([fitNamed('newton', ['rise', 'tau'])]), { specUri: 'file:///w/cooling.lsq', specName: 'cooling.lsq' });
 
-describe('extension/panel/protocol', () => {
+describe('extension/logic/panel-protocol', () => {
   it('accepts every well-formed page message', () => {
     for (const m of [
       { type: 'ready' }, { type: 'refit' },

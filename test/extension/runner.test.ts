@@ -21,7 +21,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { analyze, hasErrors } from '../../parser';
 import { readHeaderFile } from '../../engine/data';
 import { runInWorker, type CancelSignal } from '../../extension/fit/runner';
-import type { RunIteration } from '../../engine/run';
+import type { RunIteration } from '../../engine/runner';
 import { writeSlowJob } from '../fixtures/slow-job.cjs';
 
 const ROOT = resolve(__dirname, '..', '..');
@@ -107,7 +107,7 @@ describe('extension/fit/runner', () => {
     if (outcome.kind !== 'cancelled' || outcome.how !== 'stopped') return;
     expect(progress[0]).toEqual([1, 200]);
     // Groups fitted before the flag keep their results; the run names where the cancel caught it
-    // (engine/run/run-plan.ts leaves out the groups not started).
+    // (engine/runner/run-plan.ts leaves out the groups not started).
     const fitted = outcome.partial.fits;
     expect(fitted.length).toBeGreaterThan(0);
     expect(fitted.length).toBeLessThan(200);

@@ -8,7 +8,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import type { RunResult } from '../../engine/result';
-import { chartSpecs } from '../../engine/views/charts';
+import { chartSpecs } from '../../engine/front/views/charts';
 import { deferTooltips, formatTip } from '../../extension/panel/view/tooltips';
 
 const run = JSON.parse(readFileSync(join(__dirname, 'fixtures', 'cooling-run.json'), 'utf8')) as RunResult;

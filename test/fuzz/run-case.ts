@@ -20,13 +20,13 @@
  */
 import { mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
-import { checkSpec } from '../../engine/cli/spec';
-import { runPlanSync } from '../../engine/run/run-plan';
+import { checkSpec } from '../../engine/front/cli/spec';
+import { runPlanSync } from '../../engine/runner/run-plan';
 import { resultToJson } from '../../engine/run/json';
-import { runText } from '../../engine/views/text';
-import { markdownReport } from '../../engine/views/markdown';
-import { chartSpecs } from '../../engine/views/charts';
-import { renderSvg } from '../../engine/views/svg';
+import { runText } from '../../engine/front/views/text';
+import { markdownReport } from '../../engine/front/views/markdown';
+import { chartSpecs } from '../../engine/front/views/charts';
+import { renderSvg } from '../../engine/front/views/svg';
 import { loadDataFile } from '../../engine/data/load';
 import { MSG } from '../../parser/messages';
 import type { RunResult } from '../../engine/result';

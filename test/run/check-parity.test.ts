@@ -5,8 +5,9 @@
  */
 import { describe, expect, it } from 'vitest';
 import { analyze } from '../../parser/index';
+import { isLinearInParameters } from '../../engine/compile';
 import { headerLookup } from '../../engine/data/header';
-import { runPlan } from '../../engine/run/run-plan';
+import { runPlan } from '../../engine/runner/run-plan';
 import { tempDir, writeCsv } from './helpers';
 
 const dir = tempDir();
@@ -15,7 +16,7 @@ writeCsv(dir, 'a.csv', ['x', 'y', 'z', 'batch'], rows);
 writeCsv(dir, 'b.csv', ['x', 'y', 'z', 'batch'], rows);
 
 async function both(spec: string, code: string): Promise<{ check: string; fit: string[] }> {
-  const { plan, diagnostics } = analyze(spec, { headers: headerLookup(dir) });
+  const { plan, diagnostics } = analyze(spec, { headers: headerLookup(dir), isLinearIn: isLinearInParameters }) // as the CLI and the editor check;
   const d = diagnostics.find((x) => x.code === code);
   expect(d, JSON.stringify(diagnostics)).toBeDefined();
   const result = await runPlan(plan, { baseDir: dir, specText: spec });

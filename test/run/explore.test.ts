@@ -6,9 +6,9 @@
  */
 import { describe, expect, it } from 'vitest';
 import { runSpec, tempDir, writeCsv } from './helpers';
-import { validateResult } from '../cli/helpers';
+import { validateResult } from '../front/cli/helpers';
 import { resultToJsonValue } from '../../engine/run';
-import { fitTextLines } from '../../engine/views/text';
+import { fitTextLines } from '../../engine/front/views/text';
 
 const rows = Array.from({ length: 101 }, (_, i) => {
   const x = i * 0.1;

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { analyze } from '../../parser/index';
 import { isLinearInParameters } from '../../engine/compile';
-import { columnsOf, exprText, holdParams, paramsOf, substituteParams } from '../../engine/run/expr';
+import { columnsOf, exprText, holdParams, paramsOf, substituteParams } from '../../parser/plan-expr';
 import type { Expr } from '../../parser/plan';
 
 function model(text: string): Expr {

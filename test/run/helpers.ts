@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import { afterAll } from 'vitest';
 import { analyze } from '../../parser/index';
 import { headerLookup } from '../../engine/data/header';
-import { runPlan, type RunOptions } from '../../engine/run/run-plan';
+import { runPlan, type RunOptions } from '../../engine/runner/run-plan';
 import type { RunResult } from '../../engine/result';
 import type { Diagnostic } from '../../parser/plan';
 

@@ -9,7 +9,7 @@ import fc from 'fast-check';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { analyze } from '../../parser';
-import { runPlan } from '../../engine/run/run-plan';
+import { runPlan } from '../../engine/runner/run-plan';
 import { headerLookup } from '../../engine/data';
 import { JSON_CHUNK_CHARS, jsonReplacer, resultToJson, resultToJsonValue, writeJson } from '../../engine/run/json';
 import type { RunResult } from '../../engine/result';

@@ -6,13 +6,13 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rmSync } from 'node:fs';
-import { runPlan, runPlanSync, type RunOptions } from '../../engine/run/run-plan';
-import { AUTO_GROUPS_ALONE, AUTO_MIN_GROUPS, AUTO_MIN_ROWS, groupThreads } from '../../engine/run/group-threads';
-import type { RunMode } from '../../engine/parallel/fit-groups';
+import { runPlan, runPlanSync, type RunOptions } from '../../engine/runner/run-plan';
+import { AUTO_GROUPS_ALONE, AUTO_MIN_GROUPS, AUTO_MIN_ROWS, groupThreads } from '../../engine/groups/threads';
+import type { RunMode } from '../../engine/groups/fit-groups';
 import type { FitResult, RunResult } from '../../engine/result';
 import { defaultSolvers } from '../../engine/run/solvers';
-import { buildBundles, removeBuilt, tempDir, type Built } from '../parallel/built';
-import { writeGroupFixture, type GroupFixture } from '../parallel/groups-fixture';
+import { buildBundles, removeBuilt, tempDir, type Built } from '../fixtures/built';
+import { writeGroupFixture, type GroupFixture } from '../groups/groups-fixture';
 
 /** IEEE-754 bit patterns of every estimate and standard error, in result order. */
 function bits(fits: FitResult[]): string[] {

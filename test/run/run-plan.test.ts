@@ -3,7 +3,7 @@ import { readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { analyze } from '../../parser/index';
-import { runPlan, runPlanSync } from '../../engine/run/run-plan';
+import { runPlan, runPlanSync } from '../../engine/runner/run-plan';
 import type { RunResult } from '../../engine/result';
 import { tempDir, writeCsv } from './helpers';
 

@@ -10,11 +10,11 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import tQuantile from '@stdlib/stats-base-dists-t-quantile';
 import type { RunResult } from '../../engine/result';
-import { chartSvgs } from '../../engine/views/svg';
-import { cleanTemp, cli, SAMPLE_NAMES, SAMPLES, sampleCopy, validateResult } from '../cli/helpers';
-import { markItems, parseXml } from '../views/xml';
+import { chartSvgs } from '../../engine/front/views/svg';
+import { cleanTemp, cli, SAMPLE_NAMES, SAMPLES, sampleCopy, validateResult } from '../front/cli/helpers';
+import { markItems, parseXml } from '../front/views/xml';
 import { generate } from '../../samples/generate.mjs';
-import { buildGroupTable } from '../../engine/group/table';
+import { buildGroupTable } from '../../engine/groups/table';
 
 afterAll(cleanTemp);
 

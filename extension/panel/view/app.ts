@@ -6,8 +6,8 @@
  * changes; `document.body.dataset.rendered` becomes "true" once every chart
  * of a render is drawn (tests wait for it).
  */
-import type { FromPage } from '../protocol';
-import type { PanelModel } from '../model';
+import type { FromPage } from '../../logic/panel-protocol';
+import type { PanelModel } from '../../logic/panel-model';
 import { finalizeCharts } from './charts';
 import { clear, h } from './dom';
 import { checksSection, fitSection, groupSection, type SectionEvents } from './sections';

@@ -9,7 +9,7 @@
  */
 import embed, { type Result } from 'vega-embed';
 import { expressionInterpreter } from 'vega-interpreter';
-import type { PanelChart } from '../model';
+import type { PanelChart } from '../../logic/panel-model';
 import { h } from './dom';
 import { themed, themeFont, themePalette } from './theme';
 import { deferredTooltipHandler, deferTooltips } from './tooltips';

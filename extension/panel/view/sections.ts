@@ -4,7 +4,7 @@
  * a group table with its across-group charts, and the queries/checks
  * section (predictions, inversions, comparisons, expectations, errors).
  */
-import type { PanelChart, PanelFit, PanelGroupTable, PanelModel } from '../model';
+import type { PanelChart, PanelFit, PanelGroupTable, PanelModel } from '../../logic/panel-model';
 import { chartFigure, type ChartEvents } from './charts';
 import { h, table } from './dom';
 

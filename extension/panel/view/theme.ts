@@ -1,12 +1,12 @@
 /**
  * Theme colours for the charts. The chart specs arrive coloured with the
- * default palette (engine/views/palette.ts); each role has a CSS variable
+ * default palette (engine/front/views/palette.ts); each role has a CSS variable
  * `--lw-<role>` (page.css defines them per theme from VS Code's
  * `--vscode-*` variables and our own palette), and `themed` swaps every
  * default colour in a spec for the current theme's colour of the same role.
  * Called again when VS Code changes the theme (body class changes).
  */
-import { cssVariable, FONT, PALETTE, PALETTE_ROLES, type Palette, type PaletteRole } from '../../../engine/views/palette';
+import { cssVariable, FONT, PALETTE, PALETTE_ROLES, type Palette, type PaletteRole } from '../../../engine/front/views/palette';
 
 export type ThemeKind = 'light' | 'dark' | 'high-contrast' | 'high-contrast-light';
 

@@ -8,15 +8,15 @@
  * (11) The same plates with automatic starts (`param bottom`, no values)
  * against the given starts: CPU time of fitting all groups on all cores
  * (process.cpuUsage, user + system of every thread), alternating rounds;
- * goal: automatic ≤ 1.5× given (engine/group/starts.ts). Also counts the
- * groups that were retried from their own data (engine/parallel/group-job.ts).
+ * goal: automatic ≤ 1.5× given (engine/groups/starts.ts). Also counts the
+ * groups that were retried from their own data (engine/groups/group-job.ts).
  */
 import { readFileSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import { analyze } from '../../../parser/index';
 import { performance } from 'node:perf_hooks';
-import { defaultWorkerFile, fitGroupData, fitGroupsParallel } from '../../../engine/parallel/fit-groups';
-import { buildGroupTable } from '../../../engine/group/table';
+import { defaultWorkerFile, fitGroupData, fitGroupsParallel } from '../../../engine/groups/fit-groups';
+import { buildGroupTable } from '../../../engine/groups/table';
 import { compileColumnExpr } from '../../../engine/compile';
 import type { FitResult } from '../../../engine/result';
 import { loadSources } from '../../../engine/run/datasets';

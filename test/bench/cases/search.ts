@@ -19,7 +19,7 @@ import { performance } from 'node:perf_hooks';
 import { Worker } from 'node:worker_threads';
 import os from 'node:os';
 import { runFit } from '../../../engine/run';
-import { defaultWorkerFile } from '../../../engine/parallel/fit-groups';
+import { defaultWorkerFile } from '../../../engine/groups/fit-groups';
 import { measure } from '../harness';
 import { fitData, modelSpec } from '../data';
 import { gaussian, rng } from '../../fixtures/random';

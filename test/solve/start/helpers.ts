@@ -2,7 +2,7 @@
 import { analyze } from '../../../parser/index';
 import { compileModel, isLinearInParameters } from '../../../engine/compile';
 import type { StartInput, StartParameter } from '../../../engine/solve/start';
-import { holdParams } from '../../../engine/run/expr';
+import { holdParams } from '../../../parser/plan-expr';
 
 /** Builds a guessStart input from a model text over column x (with its structure, as the runner passes it). */
 export function setup(modelText: string, params: StartParameter[], xs: number[], ys: number[], structure = true) {

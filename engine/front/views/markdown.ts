@@ -1,0 +1,205 @@
+/**
+ * A Markdown report a colleague can review: summary, points to review, per-fit
+ * tables and linked SVG charts, queries, derived quantities, expectations, errors and provenance,
+ * and always a short "Use of results" caution. A per-group fit gets its group
+ * table, the summary across groups and the worst groups; full per-fit sections
+ * follow only for some of its groups (rule in groups.ts).
+ *
+ * Every text from the shared summary (summary.ts, groups.ts) is plain text
+ * with user names in it: it goes through `mdText` (or `mdCode` for spec text
+ * shown as code, `mdFence` for the spec's comment), and table cells are
+ * escaped by `markdownTable` unless made with `md()`. So names such as
+ * `<script>`, `a|b`, `[x](y)` or a backtick show as written and change
+ * neither the document's structure nor its HTML.
+ */
+import type { FitResult, RunResult } from '../../result';
+import { formatLevel, formatNumber } from './format';
+import {
+  derivedBlock, derivedLabel, expectationRows, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL,
+  notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, searchLine, stopLine, warningLines,
+} from './summary';
+import { append, markdownTable } from './table';
+import { md, mdCode, mdFence, mdHref, mdLinkText, mdText, type Markdown } from './escape';
+import {
+  DETAIL_ALL_GROUPS, detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock,
+  shownFitIndices, worstGroupLines, type FitSection,
+} from './groups';
+
+export interface ChartLink {
+  title: string;
+  /** Path relative to the report file, with forward slashes. */
+  href: string;
+}
+
+export interface MarkdownOptions {
+  /** Report title. Default `Fit report: <spec path>`. */
+  title?: string;
+  /** Chart links per fit, in `result.fits` order. Default none. */
+  charts?: ChartLink[][];
+  /**
+   * What the spec says about itself: its leading comment block, shown under
+   * "About this spec" (it carries the author's context and cautions). Default none.
+   */
+  about?: string;
+}
+
+/** The leading comment block of a spec (lines starting with `#`, markers removed); empty when none. */
+export function leadingComment(specText: string): string {
+  const out: string[] = [];
+  for (const line of specText.replace(/^\uFEFF/, '').split(/\r?\n/)) {
+    const m = /^\s*#\s?(.*)$/.exec(line);
+    if (!m) break;
+    out.push(m[1].replace(/\s+$/, ''));
+  }
+  return out.join('\n').trim();
+}
+
+export const USE_OF_RESULTS =
+  'Use of results: these numbers describe how a model fits the data given. Where a fit feeds safety, medical or ' +
+  'legal decisions (clinical calibration, structural or pressure ratings, compliance), the results must be ' +
+  'validated under the applicable procedures and local regulations and reviewed by qualified people before use.';
+
+/** Items a reviewer should look at first, as Markdown; empty when nothing stands out. A per-group fit with many groups contributes its counts and its groups shown in full. */
+export function reviewPoints(result: RunResult): string[] {
+  const out: string[] = [];
+  const sections = fitSections(result);
+  for (const s of sections) {
+    if (s.kind === 'groups' && s.fits.length > DETAIL_ALL_GROUPS && s.table.summary.flagged > 0) {
+      out.push(mdText(`Fit ${s.name}: ${groupCountLine(s.table)} See its group table.`));
+    }
+  }
+  for (const i of shownFitIndices(sections)) {
+    const fit = result.fits[i];
+    if (!fit.stop.converged) out.push(mdText(`Fit ${fitLabel(fit)} did not converge (${fit.stop.code}: ${fit.stop.message}); its numbers are not a solution.`));
+    for (const w of warningLines(fit)) out.push(mdText(`Fit ${fitLabel(fit)}: ${w}`));
+  }
+  for (const d of result.derived ?? []) if (d.value === null) out.push(mdText(`Derived quantity ${derivedLabel(d)} could not be computed: ${d.note}`));
+  for (const e of result.expectations) if (!e.passed) out.push(`Expectation failed: ${mdCode(e.expectation.text)} (${mdText(e.message)}).`);
+  for (const err of result.errors) out.push(mdText(`Error: ${err.message}`));
+  return out;
+}
+
+function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: number): string[] {
+  const t = section.table;
+  const lines = [`## ${mdText(groupHeading(section))}`, '', mdText(groupCountLine(t)), ''];
+  const table = groupTableBlock(t);
+  append(lines, markdownTable(table.headers, table.rows, table.align), '');
+  const summary = groupSummaryBlock(t);
+  append(lines, '### Across converged groups', '', markdownTable(summary.headers, summary.rows, summary.align), '');
+  const worst = worstGroupLines(t);
+  if (worst.length) append(lines, '### Worst groups', '', worst.map((w) => `- ${mdText(w)}`), '');
+  const note = detailNote(section, shown);
+  if (note) lines.push(mdText(note), '');
+  return lines;
+}
+
+function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
+  const search = searchLine(fit);
+  const lines = [`## ${mdText(fitHeading(fit))}`, '', mdText(stopLine(fit) + '.'), ...(search ? ['', mdText(search + '.')] : []), ''];
+  const marked = notFittedNote(fit);
+  if (marked) lines.push(`> **${mdText(marked)}**`, '');
+  else lines.push(`Confidence level ${formatLevel(fit.level)}; intervals use Student's t with ${fit.goodness.dof} degrees of freedom.`, '');
+  append(lines, markdownTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']), '');
+  lines.push('### Goodness of fit', '');
+  append(lines, markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left']), '');
+  const warnings = warningLines(fit);
+  if (warnings.length) {
+    append(lines, '### Warnings', '', warnings.map((w) => `- ${mdText(w)}`), '');
+  }
+  if (charts.length) {
+    lines.push('### Charts', '');
+    for (const c of charts) lines.push(`![${mdLinkText(c.title)}](${mdHref(c.href)})`, '');
+  }
+  return lines;
+}
+
+function provenanceSection(result: RunResult, sections: readonly FitSection[]): string[] {
+  const p = result.provenance;
+  const lines = ['## Provenance', ''];
+  const rows: (string | Markdown)[][] = [
+    ['tool', `${p.tool} ${p.toolVersion}`],
+    ['run started', p.startedAt],
+  ];
+  if (p.specPath) rows.push(['spec', md(mdCode(p.specPath, true))]);
+  rows.push(['spec SHA-256', md(mdCode(p.specSha256, true))]);
+  for (const d of p.data) rows.push([md(`data ${mdCode(d.name, true)}`), md(`${mdCode(d.path, true)}, ${d.rows} rows, SHA-256 ${mdCode(d.sha256, true)}`)]);
+  // one row per fit; a per-group fit's groups share their options
+  const heads = sections.map((s) => (s.kind === 'single' ? { fit: s.fit, label: fitLabel(s.fit) } : { fit: s.fits[0], label: `${s.name} (every group)` }));
+  for (const { fit, label } of heads) {
+    const o = fit.options;
+    const limits = o ? [o.maxIterations !== undefined ? `iterations ${o.maxIterations}` : '', o.tolerance !== undefined ? `tolerance ${o.tolerance}` : '', o.loss !== 'squared' ? `loss scale ${o.lossScale}` : ''].filter(Boolean) : [];
+    const extra = limits.length ? `, ${limits.join(', ')}` : '';
+    rows.push([`options of ${label}`, `${METHOD_LABEL[fit.method]}, ${LOSS_LABEL[fit.loss]}, level ${formatLevel(fit.level)}${extra}`]);
+  }
+  append(lines, markdownTable(['item', 'value'], rows, ['left', 'left']), '');
+  lines.push('Re-running the same spec on files with the same SHA-256 reproduces these results.', '');
+  return lines;
+}
+
+/** The full report as Markdown text ending with a newline. */
+export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): string {
+  const spec = result.provenance.specPath ?? 'spec';
+  const lines: string[] = [`# ${mdText(opts.title ?? `Fit report: ${spec}`)}`, ''];
+  lines.push(mdText(`Produced by ${result.provenance.tool} ${result.provenance.toolVersion} on ${result.provenance.startedAt}.`), '');
+  lines.push(`> ${USE_OF_RESULTS}`, '');
+  if (opts.about) {
+    append(lines, '## About this spec', '', 'From the comment at the top of the spec:', '', mdFence(opts.about, 'text'), '');
+  }
+
+  const sections = fitSections(result);
+  if (result.fits.length) {
+    lines.push('## Summary', '');
+    const fitRow = (f: FitResult): (string | Markdown)[] => [fitLabel(f), f.stop.converged ? 'yes' : md('**no**'), String(f.goodness.n), formatNumber(f.goodness.rmse, 4), formatNumber(f.goodness.r2, 5), String(warningLines(f).length)];
+    const rows = sections.flatMap((s): (string | Markdown)[][] => {
+      if (s.kind === 'single') return [fitRow(s.fit)];
+      if (s.fits.length <= DETAIL_ALL_GROUPS) return s.fits.map(fitRow);
+      const sum = s.table.summary;
+      const n = s.fits.reduce((k, f) => k + f.goodness.n, 0);
+      return [[`${s.name} (${sum.groups} groups)`, sum.converged === sum.groups ? 'yes' : md(`**${sum.converged} of ${sum.groups}**`), String(n), 'per group', `median ${formatNumber(sum.r2.median, 5)}`, `${sum.flagged} groups flagged`]];
+    });
+    append(lines, markdownTable(['fit', 'converged', 'n', 'RMSE', 'R²', 'warnings'], rows), '');
+    lines.push(mdText(expectationTally(result)), '');
+  }
+  const review = reviewPoints(result);
+  lines.push('## Points to review', '');
+  append(lines, (review.length ? review.map((r) => `- ${r}`) : ['Nothing stands out: every fit converged with no warnings and every expectation passed. Still look at the residual charts.']), '');
+
+  for (const s of sections) {
+    if (s.kind === 'single') {
+      append(lines, fitSection(s.fit, opts.charts?.[s.index] ?? []));
+      continue;
+    }
+    const shown = detailIndices(s);
+    append(lines, groupSection(s, shown.length));
+    for (const i of shown) append(lines, fitSection(result.fits[i], opts.charts?.[i] ?? []));
+  }
+
+  const blocks = queryBlocks(result);
+  if (blocks.length) {
+    lines.push('## Queries', '');
+    for (const b of blocks) append(lines, `### ${mdText(b.heading)}`, '', markdownTable(b.headers, b.rows, b.align), '', b.notes.map(mdText), '');
+  }
+  const derived = derivedBlock(result);
+  if (derived) {
+    const defs = new Map((result.derived ?? []).map((d) => [d.name, mdCode(`${d.name} = ${d.expression}`)]));
+    append(lines, `## ${derived.heading}`, '', `As defined in the spec: ${[...defs.values()].join(', ')}.`, '');
+    append(lines, markdownTable(derived.headers, derived.rows, derived.align), '');
+    append(lines, derived.notes.map((n) => `- ${mdText(n)}`), '');
+    lines.push('First-order (delta-method) uncertainties; they assume the listed conditions and do not replace a validated uncertainty evaluation.', '');
+  }
+  if (result.expectations.length) {
+    lines.push('## Expectations', '');
+    const rows = expectationRows(result).map((e) => [e.verdict === 'PASS' ? 'PASS' : md('**FAIL**'), md(mdCode(e.text, true)), e.actual, e.message]);
+    append(lines, markdownTable(['verdict', 'expectation', 'actual', 'detail'], rows, ['left', 'left', 'right', 'left']), '', mdText(expectationTally(result)), '');
+  }
+  if (result.errors.length) {
+    lines.push('## Errors', '');
+    for (const e of result.errors) {
+      const where = e.file ? ` (${e.file}${e.row !== undefined ? `, row ${e.row}` : ''}${e.column ? `, column ${e.column}` : ''})` : e.range ? ` (line ${e.range.start.line})` : '';
+      lines.push(`- ${mdText(e.message)}${mdText(where)} [${e.code}]`);
+    }
+    lines.push('');
+  }
+  append(lines, provenanceSection(result, sections));
+  return lines.join('\n').replace(/\n{3,}/g, '\n\n');
+}

@@ -1,0 +1,331 @@
+/**
+ * The printable content of a run, as strings, shared by the text and the
+ * Markdown views (they differ only in layout). Digits follow format.ts.
+ */
+import type { DerivedResult, ExpectationResult, FitResult, QueryResult, RunResult } from '../../result';
+import type { Align } from './table';
+import { formatEstimate, formatInteger, formatLevel, formatNumber, formatP, isUsable, MISSING } from './format';
+
+export const METHOD_LABEL: Record<FitResult['method'], string> = {
+  linear: 'linear least squares',
+  levenberg_marquardt: 'Levenberg–Marquardt',
+  gradient_descent: 'gradient descent',
+};
+
+export const LOSS_LABEL: Record<FitResult['loss'], string> = {
+  squared: 'squared loss',
+  huber: 'Huber loss',
+  soft_l1: 'soft-L1 loss',
+  cauchy: 'Cauchy loss',
+};
+
+/**
+ * How far a fit's numbers can be read as a result: `fitted` (the solver
+ * converged), `last_iterate` (it stopped without converging: the values are
+ * where it stopped), `not_fitted` (no step was taken: the values are the
+ * starting values). The engine withholds every statistic of the last two
+ * (engine/run/fit-stats.ts); the views say so wherever they show the fit.
+ */
+export type FitStatus = 'fitted' | 'last_iterate' | 'not_fitted';
+
+export function fitStatus(fit: FitResult): FitStatus {
+  if (fit.stop.converged) return 'fitted';
+  return fit.iterations > 0 ? 'last_iterate' : 'not_fitted';
+}
+
+/** The marking of a fit that is not a result (null for a fitted one), shared by the CLI, the report and the panel. */
+export function notFittedNote(fit: FitResult): string | null {
+  switch (fitStatus(fit)) {
+    case 'fitted': return null;
+    case 'last_iterate':
+      return 'Not a fitted result: the values shown are where the solver stopped (its last iterate), not a least-squares solution. Standard errors, intervals, goodness of fit and residual checks are withheld, and no fitted curve is drawn.';
+    case 'not_fitted':
+      return 'Nothing was fitted: the values shown are the starting values. Standard errors, intervals, goodness of fit and residual checks are withheld, and no fitted curve is drawn.';
+  }
+}
+
+/** `newton` or `newton [batch=B]` for per-group fits. */
+export function fitLabel(fit: FitResult): string {
+  return fit.group !== undefined ? `${fit.name} [${fit.group}]` : fit.name;
+}
+
+/** How the bounds of a Levenberg–Marquardt fit were handled (engine/solve/nonlinear.ts). */
+export const BOUNDS_LABEL: Record<NonNullable<FitResult['boundsMethod']>, string> = {
+  reflective: 'interior reflective bounds',
+  projection: 'projected bounds',
+};
+
+export function fitHeading(fit: FitResult): string {
+  return `Fit ${fitLabel(fit)}: ${fit.response} against ${fit.predictor ?? 'its columns'} (${METHOD_LABEL[fit.method]}, ${LOSS_LABEL[fit.loss]})`;
+}
+
+/** One sentence on how and why the solver stopped. */
+export function stopLine(fit: FitResult): string {
+  const verdict = fit.stop.converged ? 'converged' : 'NOT converged';
+  const bounds = fit.boundsMethod ? `, ${BOUNDS_LABEL[fit.boundsMethod]}` : '';
+  const count = fit.iterations > 0 || fit.method !== 'linear' ? `; ${fit.iterations} iterations, ${fit.evaluations} evaluations${bounds}` : '';
+  return `Stopped: ${verdict} (${fit.stop.code}: ${fit.stop.message}${count})`;
+}
+
+/** Minima listed by `searchLine` (the rest are counted). */
+const SEARCH_MINIMA_SHOWN = 3;
+
+/**
+ * One sentence on the multi-start search, when it ran: points tried, distinct
+ * minima (lowest first, the reported one marked) and where the fit from the
+ * starting values ended. Null when the fit had no search.
+ */
+export function searchLine(fit: FitResult): string | null {
+  const s = fit.search;
+  if (!s) return null;
+  if (s.skipped) return `Search: not run (${s.skipped})`;
+  const shown = s.minima.slice(0, SEARCH_MINIMA_SHOWN).map((m) => `${formatNumber(m.ssr, 6)}${m.reported ? ' reported' : ''}${m.converged ? '' : ' not converged'}`);
+  const more = s.minima.length > SEARCH_MINIMA_SHOWN ? `, ${s.minima.length - SEARCH_MINIMA_SHOWN} more` : '';
+  const start = s.reason === 'asked' ? 'given' : 'computed';
+  const ending = s.lowerElsewhere
+    ? `; the fit from the ${start} starting values stopped higher, at SSR ${formatNumber(s.startSsr, 6)}`
+    : '; the fit from the starting values reached the lowest';
+  return `Search: ${s.points} starting points, ${s.refined} refined, ${s.minima.length} distinct minim${s.minima.length === 1 ? 'um' : 'a'} by SSR (${shown.join(', ')}${more})${ending}`;
+}
+
+export const PARAMETER_HEADERS = (level: number): string[] => ['parameter', 'estimate', 'std. error', `${formatLevel(level)} low`, `${formatLevel(level)} high`, 'unit', 'note'];
+
+/** Rows of the parameter table: name, estimate, SE, interval ends, unit, note. */
+export function parameterRows(fit: FitResult): string[][] {
+  const status = fitStatus(fit);
+  return fit.parameters.map((p) => {
+    const f = formatEstimate(p.estimate, p.fixed ? null : p.stderr, p.fixed ? null : p.lower, p.fixed ? null : p.upper);
+    const notes: string[] = [];
+    if (p.fixed) notes.push('fixed');
+    else if (status === 'last_iterate') notes.push('last iterate, not fitted');
+    else if (status === 'not_fitted') notes.push('starting value, not fitted');
+    if (p.atBound) notes.push(`at ${p.atBound} bound`);
+    if (!p.fixed && isUsable(p.relativeStderr) && p.relativeStderr > 0.5) notes.push(`poorly determined (SE ${formatNumber(p.relativeStderr * 100, 2)}% of estimate)`);
+    return [p.name, f.estimate, p.fixed ? 'fixed' : f.stderr, p.fixed ? '' : f.lower, p.fixed ? '' : f.upper, p.unit ?? '', notes.join('; ')];
+  });
+}
+
+export interface Entry {
+  label: string;
+  value: string;
+  note?: string;
+}
+
+/** Goodness-of-fit entries in reading order; for a fit that is not a result only the counts and the SSR where it stopped. */
+export function goodnessEntries(fit: FitResult): Entry[] {
+  const g = fit.goodness;
+  const status = fitStatus(fit);
+  if (status !== 'fitted') {
+    const out: Entry[] = [
+      { label: 'points (n)', value: formatInteger(g.n), note: fit.rowsDropped > 0 ? `${fit.rowsDropped} rows dropped` : undefined },
+      { label: 'free parameters (p)', value: formatInteger(g.p) },
+      { label: 'degrees of freedom', value: formatInteger(g.dof) },
+    ];
+    if (status === 'last_iterate' && isUsable(g.ssr)) out.push({ label: 'SSR at the last iterate', value: formatNumber(g.ssr, 6), note: 'where the solver stopped, not a minimum' });
+    out.push({ label: 'R², RMSE, AIC and the rest', value: 'withheld', note: status === 'last_iterate' ? 'the fit did not converge' : 'nothing was fitted' });
+    return out;
+  }
+  const e: Entry[] = [
+    { label: 'points (n)', value: formatInteger(g.n), note: fit.rowsDropped > 0 ? `${fit.rowsDropped} rows dropped` : undefined },
+    { label: 'free parameters (p)', value: formatInteger(g.p) },
+    { label: 'degrees of freedom', value: formatInteger(g.dof) },
+    { label: 'sum of squared residuals (SSR)', value: formatNumber(g.ssr, 6), note: fit.sigmaAbsolute ? 'weighted by 1/σ²' : undefined },
+    { label: 'residual standard deviation (RMSE)', value: formatNumber(g.rmse, 6) },
+    { label: 'R²', value: formatNumber(g.r2, 6), note: fit.method === 'linear' ? undefined : 'nonlinear model: R² is descriptive only, not a test of fit' },
+    { label: 'adjusted R²', value: formatNumber(g.adjR2, 6) },
+  ];
+  if (fit.sigmaAbsolute) {
+    e.push({ label: 'χ²', value: formatNumber(g.chi2, 6) });
+    e.push({ label: 'reduced χ² (χ²/dof)', value: formatNumber(g.chi2Reduced, 4), note: 'near 1 when σ matches the scatter' });
+  }
+  e.push({ label: 'AIC', value: formatNumber(g.aic, 6) }, { label: 'AICc', value: formatNumber(g.aicc, 6) }, { label: 'BIC', value: formatNumber(g.bic, 6) });
+  e.push({ label: 'condition number', value: formatNumber(g.condition, 3), note: isUsable(g.condition) && g.condition > 1e8 ? 'large: parameters nearly redundant' : undefined });
+  const r = fit.residuals;
+  if (r.durbinWatson !== null) e.push({ label: 'Durbin–Watson', value: formatNumber(r.durbinWatson, 3), note: 'near 2: no serial correlation' });
+  if (r.runs) e.push({ label: 'runs test p', value: formatP(r.runs.pValue), note: `${r.runs.observed} runs, ${formatNumber(r.runs.expected, 3)} expected` });
+  if (r.shapiroWilk) e.push({ label: 'Shapiro–Wilk p', value: formatP(r.shapiroWilk.pValue), note: `W = ${formatNumber(r.shapiroWilk.w, 4)}` });
+  return e;
+}
+
+/**
+ * Warning texts with their codes. `r2_nonlinear` is left out: the R² entry of
+ * goodnessEntries already carries that note for every nonlinear fit.
+ */
+export function warningLines(fit: FitResult): string[] {
+  return fit.warnings.filter((w) => w.code !== 'r2_nonlinear').map((w) => `${w.message}${w.parameters?.length ? ` (${w.parameters.join(', ')})` : ''} [${w.code}]`);
+}
+
+/** Column labels of the solver trace table (`traceRows`). */
+export const TRACE_HEADERS = ['iteration', 'cost', 'trial cost', 'gradient', 'step', 'radius', 'ratio', 'accepted', 'step kind', 'bounds met'];
+
+/** Rows of the per-iteration trace (fit --trace), or none. */
+export function traceRows(fit: FitResult): string[][] {
+  if (!fit.trace) return [];
+  const n = (v: number | null, sig = 4) => formatNumber(v, sig);
+  return fit.trace.records.map((r) => [
+    formatInteger(r.iteration), n(r.cost, 10), n(r.trialCost, 10), n(r.gradient, 3), n(r.step, 3), n(r.radius, 3), n(r.ratio, 3),
+    r.accepted ? 'yes' : 'no', r.kind ? `${r.kind}${r.stepBack !== null && r.stepBack !== undefined ? ` (step back ${formatNumber(r.stepBack, 6)})` : ''}` : '', (r.bounds ?? []).join(', '),
+  ]);
+}
+
+/** The trace's heading line: solver, records shown and left out. */
+export function traceHeading(fit: FitResult): string | null {
+  const t = fit.trace;
+  if (!t) return null;
+  const solver = { levenberg_marquardt: 'Levenberg–Marquardt', reflective_trust_region: 'interior reflective trust region', gradient_descent: 'gradient descent' }[t.solver];
+  const omitted = t.omitted > 0 ? `; ${t.omitted} in the middle left out` : '';
+  return `Solver trace (${solver}): ${t.records.length} trial steps${omitted}. Cost ½‖r‖²; gradient: the scaled measure of the stop test; step: scaled length; ratio: actual over predicted reduction.`;
+}
+
+export interface QueryBlock {
+  heading: string;
+  headers: string[];
+  rows: string[][];
+  /** Column alignment (numbers right, names and notes left). */
+  align: Align[];
+  notes: string[];
+}
+
+function interval(a: number | null, b: number | null, sig = 6): string {
+  return `[${formatNumber(a, sig)}, ${formatNumber(b, sig)}]`;
+}
+
+/** One table per query, with the fit's level in the headings. */
+export function queryBlocks(result: RunResult): QueryBlock[] {
+  const fitOf = (name: string): FitResult | undefined => result.fits.find((f) => f.name === name);
+  return result.queries.map((q: QueryResult): QueryBlock => {
+    const label = (fit: string, group?: string): string => (group !== undefined ? `${fit} [${group}]` : fit);
+    if (q.kind === 'predict') {
+      const lv = formatLevel(fitOf(q.fit)?.level ?? NaN);
+      return {
+        heading: `Predictions from ${label(q.fit, q.group)} at ${q.variable}`,
+        headers: [q.variable, 'fitted', `${lv} confidence interval`, `${lv} prediction interval`],
+        rows: q.predictions.map((p) => [formatNumber(p.x, 6), formatNumber(p.fitted, 6), interval(...p.confidence), interval(...p.prediction)]),
+        align: ['right', 'right', 'right', 'right'],
+        notes: ['Confidence interval: where the mean response lies; prediction interval: where one new observation lies.'],
+      };
+    }
+    if (q.kind === 'invert') {
+      const fit = fitOf(q.fit);
+      const xName = fit?.predictor ?? 'predictor';
+      const lv = formatLevel(fit?.level ?? NaN);
+      return {
+        heading: `Inverse predictions from ${label(q.fit, q.group)}: ${xName} from ${q.response}`,
+        headers: [q.response, xName, `${lv} interval`, 'note'],
+        rows: q.inversions.map((v) => [formatNumber(v.response, 6), formatNumber(v.x, 6), interval(v.interval[0], v.interval[1]), v.message ?? '']),
+        align: ['right', 'right', 'right', 'left'],
+        notes: ['Interval from inverting the prediction band (one new measurement of the response).'],
+      };
+    }
+    const notes: string[] = [];
+    if (q.fTest) {
+      const t = q.fTest;
+      notes.push(`Extra-sum-of-squares F test, ${t.simpler} inside ${t.richer}: F(${t.df1}, ${t.df2}) = ${formatNumber(t.f, 4)}, p = ${formatP(t.pValue)}.`);
+    }
+    notes.push('Lowest AICc is preferred; the Akaike weight is the relative support among these fits.');
+    return {
+      heading: `Comparison of ${q.fits.join(', ')}`,
+      headers: ['fit', 'n', 'p', 'SSR', 'AICc', 'ΔAICc', 'Akaike weight'],
+      rows: q.rows.map((r) => [r.fit, formatInteger(r.n), formatInteger(r.p), formatNumber(r.ssr, 6), formatNumber(r.aicc, 6), formatNumber(r.deltaAicc, 3), formatNumber(r.akaikeWeight, 3)]),
+      align: ['left', 'right', 'right', 'right', 'right', 'right', 'right'],
+      notes,
+    };
+  });
+}
+
+/** `lod` or `lod [batch 2]` for a derived quantity of a per-group fit. */
+export function derivedLabel(d: DerivedResult): string {
+  return d.group !== undefined ? `${d.name} [${d.group}]` : d.name;
+}
+
+/** Lists at most this many groups of a per-group quantity by name in a note; more are counted. */
+const NOTE_GROUPS = 5;
+
+/** Labels of the quantities a note applies to; a per-group quantity's groups are summarised when there are many. */
+function derivedLabels(ds: readonly DerivedResult[], all: readonly DerivedResult[]): string {
+  const names = [...new Set(ds.map((d) => d.name))];
+  return names.map((name) => {
+    const mine = ds.filter((d) => d.name === name);
+    if (mine[0].group === undefined || mine.length <= NOTE_GROUPS) return mine.map(derivedLabel).join(', ');
+    const groups = all.filter((d) => d.name === name).length;
+    return mine.length === groups ? `${name} (all ${groups} groups)` : `${name} (${mine.length} of ${groups} groups)`;
+  }).join(', ');
+}
+
+/**
+ * The derived quantities as one table (name, value, standard error, interval,
+ * unit), or null when there are none. Value, standard error and interval ends
+ * share one last digit (formatEstimate). The notes say, per distinct note,
+ * which quantities it applies to: how the uncertainty was obtained and under
+ * which assumptions, or why a number is missing.
+ */
+export function derivedBlock(result: RunResult): QueryBlock | null {
+  const derived = result.derived ?? [];
+  if (derived.length === 0) return null;
+  const levels = [...new Set(derived.filter((d) => d.lower !== null && d.upper !== null).map((d) => d.level))];
+  const oneLevel = levels.length <= 1;
+  const rows = derived.map((d) => {
+    const f = formatEstimate(d.value ?? NaN, d.stderr, d.lower, d.upper);
+    const hasInterval = d.lower !== null && d.upper !== null;
+    const kind = d.dof !== null ? `t, ${d.dof} dof` : 'normal';
+    const interval = hasInterval ? `[${f.lower}, ${f.upper}]${oneLevel ? '' : ` (${formatLevel(d.level ?? NaN)}, ${kind})`}` : '';
+    return [derivedLabel(d), d.value === null ? MISSING : f.estimate, d.stderr === null ? MISSING : f.stderr, interval, d.unit ?? ''];
+  });
+  const byNote = new Map<string, DerivedResult[]>();
+  for (const d of derived) {
+    const list = byNote.get(d.note);
+    if (list) list.push(d);
+    else byNote.set(d.note, [d]);
+  }
+  const notes = [...byNote].map(([note, ds]) => `${derivedLabels(ds, derived)}: ${note}`);
+  const lv = oneLevel && levels[0] !== undefined && levels[0] !== null ? `${formatLevel(levels[0])} ` : '';
+  return {
+    heading: 'Derived quantities',
+    headers: ['quantity', 'value', 'std. error', `${lv}interval`, 'unit'],
+    rows,
+    align: ['left', 'right', 'right', 'right', 'left'],
+    notes,
+  };
+}
+
+export function expectationLine(e: ExpectationResult): { verdict: 'PASS' | 'FAIL'; text: string; actual: string; message: string } {
+  const text = e.group !== undefined ? `${e.expectation.text} [${e.group}]` : e.expectation.text;
+  return { verdict: e.passed ? 'PASS' : 'FAIL', text, actual: e.actual === null ? MISSING : formatNumber(e.actual, 6), message: e.message };
+}
+
+export type ExpectationRow = ReturnType<typeof expectationLine>;
+
+/**
+ * Expectation lines for display. An expectation checked on more than
+ * `manyGroups` groups (default 5) becomes one line for all its groups
+ * (`[all 96 groups]`, or `[3 of 96 groups fail]`) followed by the line of
+ * each failing group; others give one line per result.
+ */
+export function expectationRows(result: RunResult, manyGroups = 5): ExpectationRow[] {
+  const key = (e: ExpectationResult) => `${e.expectation.text}@${e.expectation.range.start.line}:${e.expectation.range.start.column}`;
+  const byKey = new Map<string, ExpectationResult[]>();
+  for (const e of result.expectations) {
+    const list = byKey.get(key(e));
+    if (list) list.push(e);
+    else byKey.set(key(e), [e]);
+  }
+  const out: ExpectationRow[] = [];
+  for (const es of byKey.values()) {
+    const grouped = es.filter((e) => e.group !== undefined);
+    if (grouped.length <= manyGroups) {
+      for (const e of es) out.push(expectationLine(e));
+      continue;
+    }
+    const failed = es.filter((e) => !e.passed);
+    const tag = failed.length === 0 ? `[all ${es.length} groups]` : `[${failed.length} of ${es.length} groups fail]`;
+    out.push({ verdict: failed.length === 0 ? 'PASS' : 'FAIL', text: `${es[0].expectation.text} ${tag}`, actual: '', message: '' });
+    for (const e of failed) out.push(expectationLine(e));
+  }
+  return out;
+}
+
+export function expectationTally(result: RunResult): string {
+  const n = result.expectations.length;
+  const passed = result.expectations.filter((e) => e.passed).length;
+  return n === 0 ? 'No expectations.' : `${passed} of ${n} expectations passed.`;
+}

@@ -1,0 +1,56 @@
+/**
+ * Headless SVG rendering of the Vega-Lite chart specs: compile to Vega, run a
+ * view with the `none` renderer and serialise the scenegraph to SVG. No canvas
+ * and no fonts are needed: without a canvas Vega estimates text widths, and
+ * the SVG names a system font stack (palette.ts) that viewers resolve locally.
+ */
+import type { TopLevelSpec } from 'vega-lite';
+import type { FitResult } from '../../result';
+import { chartSpecs, type ChartId, type ChartOptions } from './charts';
+export { chartFileName } from './charts';
+import { loadVega } from './vega-runtime';
+
+/**
+ * A copy of `spec` without tooltips: a static SVG shows none, and Vega-Lite
+ * compiles tooltip titles (user names) into expression source, where some
+ * names are illegal (see charts.ts).
+ */
+export function withoutTooltips<T>(spec: T): T {
+  const walk = (node: unknown): unknown => {
+    if (Array.isArray(node)) return node.map(walk);
+    if (typeof node !== 'object' || node === null) return node;
+    const out: Record<string, unknown> = {};
+    for (const [k, v] of Object.entries(node)) {
+      if (k === 'tooltip') continue;
+      out[k] = walk(v);
+    }
+    return out;
+  };
+  return walk(spec) as T;
+}
+
+/** Render one Vega-Lite spec to an SVG document string (tooltips left out, see `withoutTooltips`). */
+export async function renderSvg(spec: TopLevelSpec): Promise<string> {
+  const { vega, vegaLite } = await loadVega();
+  const compiled = vegaLite.compile(withoutTooltips(spec)).spec;
+  const view = new vega.View(vega.parse(compiled), { renderer: 'none', logLevel: vega.Error });
+  try {
+    const svg = await view.toSVG();
+    return svg.startsWith('<?xml') ? svg : `<?xml version="1.0" encoding="UTF-8"?>\n${svg}\n`;
+  } finally {
+    view.finalize();
+  }
+}
+
+export interface RenderedChart {
+  id: ChartId;
+  title: string;
+  svg: string;
+}
+
+/** Every chart of a fit as SVG, in chartSpecs order. */
+export async function chartSvgs(fit: FitResult, opts?: ChartOptions): Promise<RenderedChart[]> {
+  const out: RenderedChart[] = [];
+  for (const c of chartSpecs(fit, opts)) out.push({ id: c.id, title: c.title, svg: await renderSvg(c.spec) });
+  return out;
+}

@@ -1,0 +1,127 @@
+/**
+ * Plain-text summary of a run for terminals: per fit a parameter table,
+ * goodness of fit, residual checks, warnings and the stopping reason; per
+ * per-group fit the group table, the summary across groups, the worst groups
+ * and full blocks only for some groups (rule in groups.ts); then query
+ * tables, derived quantities and expectation verdicts. Digits follow format.ts.
+ */
+import type { FitResult, RunResult } from '../../result';
+import {
+  derivedBlock, expectationRows, expectationTally, fitHeading, goodnessEntries, notFittedNote, PARAMETER_HEADERS,
+  parameterRows, queryBlocks, searchLine, stopLine, TRACE_HEADERS, traceHeading, traceRows, warningLines,
+} from './summary';
+import { append, maxOf, textTable } from './table';
+import { inlineText } from './escape';
+import {
+  detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock, worstGroupLines, type FitSection,
+} from './groups';
+
+/** The summary of one fit, as lines. */
+export function fitTextLines(fit: FitResult): string[] {
+  const search = searchLine(fit);
+  const lines: string[] = [fitHeading(fit), `  ${stopLine(fit)}`, ...(search ? [`  ${search}`] : [])];
+  const marked = notFittedNote(fit);
+  if (marked) lines.push(`  ! ${marked}`);
+  lines.push('');
+  append(lines, textTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']));
+  lines.push('', '  Goodness of fit');
+  const entries = goodnessEntries(fit);
+  const w = maxOf(entries.map((e) => [...e.label].length));
+  const vw = maxOf(entries.map((e) => e.value.length));
+  for (const e of entries) {
+    const line = `    ${e.label.padEnd(w)}  ${e.value.padStart(vw)}${e.note ? `   (${e.note})` : ''}`;
+    lines.push(line);
+  }
+  const warnings = warningLines(fit);
+  if (warnings.length) {
+    lines.push('', '  Warnings');
+    for (const wline of warnings) lines.push(`    ! ${wline}`);
+  }
+  const trace = traceHeading(fit);
+  if (trace) {
+    lines.push('', `  ${trace}`, ...textTable(TRACE_HEADERS, traceRows(fit), ['right', 'right', 'right', 'right', 'right', 'right', 'right', 'left', 'left', 'left'], '    '));
+  }
+  return lines;
+}
+
+/** Query tables (predictions, inverse predictions, comparisons), as lines. */
+export function queryTextLines(result: RunResult): string[] {
+  const lines: string[] = [];
+  for (const b of queryBlocks(result)) {
+    if (lines.length) lines.push('');
+    append(lines, b.heading, textTable(b.headers, b.rows, b.align));
+    for (const n of b.notes) lines.push(`  ${n}`);
+  }
+  return lines;
+}
+
+/** The derived-quantity table and its notes, as lines (none when the run has no derived quantities). */
+export function derivedTextLines(result: RunResult): string[] {
+  const b = derivedBlock(result);
+  if (!b) return [];
+  return append([b.heading], textTable(b.headers, b.rows, b.align), b.notes.map((n) => `  ${n}`));
+}
+
+/** Expectation verdicts, one per line, and the tally. */
+export function expectationTextLines(result: RunResult): string[] {
+  if (result.expectations.length === 0) return [];
+  const rows = expectationRows(result);
+  const tw = maxOf(rows.map((r) => r.text.length));
+  const lines = ['Expectations'];
+  for (const r of rows) lines.push(`  ${r.verdict}  ${r.actual ? r.text.padEnd(tw) : r.text}${r.actual ? `  actual ${r.actual}` : ''}${r.verdict === 'FAIL' && r.message ? `  (${r.message})` : ''}`);
+  lines.push(`  ${expectationTally(result)}`);
+  return lines;
+}
+
+/** A per-group fit: heading, group table, counts, summary across groups, worst groups, and which groups follow in full. */
+export function groupTextLines(section: Extract<FitSection, { kind: 'groups' }>, shown: readonly number[]): string[] {
+  const t = section.table;
+  const lines = [groupHeading(section), `  ${groupCountLine(t)}`, ''];
+  const table = groupTableBlock(t);
+  append(lines, textTable(table.headers, table.rows, table.align));
+  const summary = groupSummaryBlock(t);
+  append(lines, '', `  Across converged groups`, textTable(summary.headers, summary.rows, summary.align, '    '));
+  const worst = worstGroupLines(t);
+  if (worst.length) append(lines, '', '  Worst groups', worst.map((w) => `    ${w}`));
+  const note = detailNote(section, shown.length);
+  if (note) lines.push('', `  ${note}`);
+  return lines;
+}
+
+/**
+ * The run with its group labels (CSV cell text, any characters) in one-line
+ * terminal form (escape.ts `inlineText`): the summary shows them escaped, in
+ * headings, tables and lists alike, and no label can start a line of its own.
+ */
+function withTerminalLabels(result: RunResult): RunResult {
+  const g = <T extends { group?: string }>(x: T): T => (x.group !== undefined ? { ...x, group: inlineText(x.group) } : x);
+  return {
+    ...result,
+    fits: result.fits.map(g),
+    queries: result.queries.map((q) => (q.kind === 'compare' ? q : g(q))),
+    derived: result.derived?.map(g),
+    expectations: result.expectations.map(g),
+  };
+}
+
+/** The whole run summary (fits, queries, derived quantities, expectations) ending with a newline. */
+export function runText(run: RunResult): string {
+  const result = withTerminalLabels(run);
+  const sections: string[][] = [];
+  for (const s of fitSections(result)) {
+    if (s.kind === 'single') {
+      sections.push(fitTextLines(s.fit));
+      continue;
+    }
+    const shown = detailIndices(s);
+    sections.push(groupTextLines(s, shown));
+    for (const i of shown) sections.push(fitTextLines(result.fits[i]));
+  }
+  const q = queryTextLines(result);
+  if (q.length) sections.push(q);
+  const d = derivedTextLines(result);
+  if (d.length) sections.push(d);
+  const e = expectationTextLines(result);
+  if (e.length) sections.push(e);
+  return sections.map((s) => s.join('\n')).join('\n\n') + '\n';
+}

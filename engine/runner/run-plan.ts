@@ -1,0 +1,251 @@
+/**
+ * Executes a checked plan: loads each data source once, runs every fit (once
+ * per group for `per COLUMN`), then the queries, derived quantities and expectations, and returns
+ * one RunResult. Problems in user input (missing file or column, bad cell,
+ * unusable rows) are RunError values with locations; nothing is thrown for them.
+ *
+ * `runPlan` is asynchronous: it yields to the event loop between fits so a
+ * caller can set `cancel.cancelled` (checked between fits and by the solvers
+ * once per iteration) and receive `onProgress` events. `runPlanSync` does the
+ * same work without yielding. Both produce the same result for the same input
+ * (apart from timings and `startedAt`).
+ *
+ * Per-group fits: `runPlan` may fit the groups of a `per COLUMN` fit on
+ * worker threads (engine/groups `fitGroupData`) when there are enough of
+ * them to be worth it - the policy and its thresholds are in
+ * group-threads.ts; `threads: 1` keeps every group in this thread. Either
+ * way the results come in group order (the order of `prepareFitData`), a
+ * failing group never stops the others, and estimates are bit-identical;
+ * `runPlanSync` always fits in this thread.
+ */
+import { createHash } from 'node:crypto';
+import type { FitPlan, Plan } from '../../parser/plan';
+import { compileColumnExpr } from '../compile';
+import type { FileReader } from '../data';
+import { errorText } from '../messages';
+import { RESULT_VERSION, type FitResult, type RunError, type RunResult } from '../result';
+import type { CancelToken } from '../solve/problem';
+import { loadSources } from '../run/datasets';
+import { runDerived } from '../run/derived';
+import { checkExpectations, expectationApplies } from '../run/expectations';
+import { runFit } from '../run/fit';
+import { prepareFitData, type FitData } from '../run/fit-data';
+import { groupThreads } from '../groups/threads';
+import { defaultWorkerFile, fitGroupData, type RunMode } from '../groups/fit-groups';
+import { CANCELLED_STOP, fitOneGroup } from '../groups/group-job';
+import { sharedStart } from '../groups/starts';
+import { runQueries } from '../run/queries';
+import type { Solvers } from '../run/solvers';
+import { TOOL_NAME, TOOL_VERSION } from '../run/version';
+
+export interface RunProgress {
+  fit: string;
+  group?: string;
+  /** Fit runs finished so far (1 after the first; groups count one each) and the total known so far. */
+  done: number;
+  total: number;
+}
+
+/** An accepted solver iteration of a fit run in this thread (not of groups fitted on worker threads). */
+export interface RunIteration {
+  fit: string;
+  group?: string;
+  /** 1-based, per solver phase (a robust fit restarts the count for its reweighting phase). */
+  iteration: number;
+  /** The solver's objective after the iteration: ½‖r‖² (robust losses: ½Σc²ρ(rᵢ²/c²)). */
+  cost: number;
+}
+
+export interface RunOptions {
+  /** Folder that data paths are relative to (the spec file's folder). */
+  baseDir: string;
+  /** The spec text (hashed into the provenance). */
+  specText: string;
+  specPath?: string;
+  /** File reader (default engine/io `readInputSync`: regular files only); files are only read. */
+  readFile?: FileReader;
+  /** Run only these fits (default all); queries and expectations of other fits are skipped. */
+  fits?: string[];
+  cancel?: CancelToken;
+  onProgress?: (progress: RunProgress) => void;
+  /** Each accepted iteration of a fit solved in this thread (long single fits: the editor shows it). */
+  onIteration?: (iteration: RunIteration) => void;
+  /** Clock for `startedAt` (default `new Date()`). */
+  now?: () => Date;
+  /** Solver implementations (default engine/solve). Runs with injected solvers fit every group in this thread. */
+  solvers?: Solvers;
+  /**
+   * Threads for the groups of a `per COLUMN` fit (`runPlan` only). Default:
+   * automatic (all cores, only for jobs worth it; see group-threads.ts);
+   * 1 fits every group in this thread; N ≥ 2 uses N threads whenever a fit
+   * has two or more groups.
+   */
+  threads?: number;
+  /**
+   * The engine worker bundle for group fits. Default: `worker.js` beside the
+   * running bundle (dist/worker.js); null never starts worker threads.
+   */
+  workerFile?: string | null;
+  /** Told how the groups of each per-group fit are fitted (`runPlan` only): on worker threads, or in this thread and why. */
+  onGroupMode?: (fit: string, mode: RunMode) => void;
+  /** Record each fit's per-iteration solver trace in its result (`FitResult.trace`); the groups of per-group fits are then fitted in this thread. Default false. */
+  trace?: boolean;
+}
+
+/** Asks the driver of `steps` to fit a fit's groups; it answers with their results, or undefined to let `steps` fit them in order. */
+interface GroupBatch {
+  fit: FitPlan;
+  groups: FitData[];
+  /** Fit runs finished before this batch, and the total known so far (for progress). */
+  done: number;
+  total: number;
+}
+
+function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined, RunResult, FitResult[] | undefined> {
+  const startedAt = (opts.now ?? (() => new Date()))().toISOString();
+  const errors: RunError[] = [];
+  const wanted = opts.fits ? new Set(opts.fits) : null;
+  if (wanted) for (const name of wanted) if (!plan.fits.some((f) => f.name === name)) errors.push({ code: 'unknown_fit', message: errorText.unknownFit(name) });
+  const fits = plan.fits.filter((f) => !wanted || wanted.has(f.name));
+  const neededSources = new Set(fits.flatMap((f) => f.blocks.map((b) => b.data)));
+  const loaded = loadSources(plan.data.filter((d) => neededSources.has(d.name)), opts.baseDir, opts.readFile);
+  for (const e of loaded.errors) errors.push(e);
+
+  const results = new Map<string, FitResult[]>();
+  const fitPlans = new Map<string, FitPlan>(fits.map((f) => [f.name, f]));
+  let done = 0;
+  let total = fits.length;
+  for (const fit of fits) {
+    results.set(fit.name, []);
+    if (opts.cancel?.cancelled) {
+      errors.push({ code: 'cancelled', message: `run cancelled before fit ${fit.name}`, range: fit.range, fit: fit.name });
+      continue;
+    }
+    if (fit.blocks.length !== 1) {
+      errors.push({ code: 'not_supported', message: `fit ${fit.name} has ${fit.blocks.length} data blocks; this version fits one`, range: fit.range, fit: fit.name });
+      continue;
+    }
+    const block = fit.blocks[0];
+    const src = loaded.tables.get(block.data);
+    if (!src) {
+      if (!loaded.failed.has(block.data)) errors.push({ code: 'unknown_data', message: errorText.unknownData(fit.name, block.data), range: block.range, fit: fit.name });
+      continue;
+    }
+    let prepared;
+    try {
+      prepared = prepareFitData(fit, src.source, src.table, compileColumnExpr);
+    } catch (e) {
+      prepared = { ok: false as const, errors: [{ code: 'internal', message: errorText.internal(fit.name, e instanceof Error ? e.message : String(e)), range: fit.range, fit: fit.name }] };
+    }
+    if (!prepared.ok) {
+      for (const e of prepared.errors) errors.push(e);
+      continue;
+    }
+    total += prepared.data.length - 1;
+    if (fit.groupBy !== undefined && prepared.data.length > 1) {
+      const fitted = yield { fit, groups: prepared.data, done, total };
+      if (fitted) {
+        done += prepared.data.length;
+        // Groups the cancellation caught before they started are left out, as in the loop below.
+        const started = fitted.filter((r) => !isUnstarted(r));
+        for (const r of started) results.get(fit.name)!.push(r);
+        const missed = fitted.find(isUnstarted);
+        if (missed) errors.push({ code: 'cancelled', message: `run cancelled before fit ${fit.name} [${missed.group ?? ''}]`, range: fit.range, fit: fit.name });
+        continue;
+      }
+    }
+    // groups of a per-group fit share one start and retry from their own data (engine/groups/group-job.ts)
+    const shared = fit.groupBy !== undefined ? sharedStart(fit, prepared.data) : undefined;
+    for (const data of prepared.data) {
+      if (opts.cancel?.cancelled) {
+        errors.push({ code: 'cancelled', message: `run cancelled before fit ${fit.name}${data.group !== undefined ? ` [${data.group}]` : ''}`, range: fit.range, fit: fit.name });
+        break;
+      }
+      const onIteration = opts.onIteration;
+      const watch = onIteration
+        ? { onIteration: (iteration: number, cost: number) => onIteration({ fit: fit.name, ...(data.group !== undefined ? { group: data.group } : {}), iteration, cost }) }
+        : {};
+      const trace = opts.trace ? { trace: true } : {};
+      const one = shared
+        ? fitOneGroup(fit, data, { cancel: opts.cancel, shared, ...(opts.solvers ? { solvers: opts.solvers } : {}), ...watch, ...trace })
+        : runFit(fit, data, { cancel: opts.cancel, solvers: opts.solvers, ...watch, ...trace });
+      results.get(fit.name)!.push(one);
+      opts.onProgress?.({ fit: fit.name, ...(data.group !== undefined ? { group: data.group } : {}), done: ++done, total });
+      yield;
+    }
+  }
+
+  const ran = (name: string) => fitPlans.has(name);
+  const queries = plan.queries.filter((q) => (q.kind === 'compare' ? q.fits.every(ran) : ran(q.fit)));
+  const q = runQueries(queries, { fitPlans, results });
+  for (const e of q.errors) errors.push(e);
+  const derived = runDerived(plan.derived ?? [], results, ran);
+  const expectations = checkExpectations(plan.expectations.filter((e) => expectationApplies(e, ran, derived)), results, derived);
+
+  return {
+    version: RESULT_VERSION,
+    provenance: {
+      tool: TOOL_NAME,
+      toolVersion: TOOL_VERSION,
+      ...(opts.specPath !== undefined ? { specPath: opts.specPath } : {}),
+      specSha256: createHash('sha256').update(opts.specText).digest('hex'),
+      data: loaded.provenance,
+      startedAt,
+    },
+    fits: [...results.values()].flat(),
+    queries: q.results,
+    derived,
+    expectations,
+    errors,
+  };
+}
+
+/** A group result standing for a group the cancellation caught before it started (engine/groups `unfittedGroup`). */
+function isUnstarted(r: FitResult): boolean {
+  return r.stop.code === CANCELLED_STOP.code && r.stop.message === CANCELLED_STOP.message;
+}
+
+/** Runs the plan to completion without yielding (every group in this thread). */
+export function runPlanSync(plan: Plan, opts: RunOptions): RunResult {
+  const it = steps(plan, opts);
+  for (;;) {
+    const next = it.next(undefined);
+    if (next.done) return next.value;
+  }
+}
+
+/** Fits a batch of groups on worker threads when group-threads.ts says so; undefined leaves them to the sequential loop. */
+async function fitBatch(batch: GroupBatch, opts: RunOptions): Promise<FitResult[] | undefined> {
+  const rows = batch.groups.reduce((sum, g) => sum + g.n, 0);
+  const threads = groupThreads(batch.groups.length, rows, { threads: opts.threads, customSolvers: opts.solvers !== undefined });
+  const workerFile = opts.workerFile === undefined ? defaultWorkerFile() : opts.workerFile;
+  const why = threads < 2
+    ? (opts.solvers ? 'injected solvers' : opts.threads !== undefined ? 'one thread asked for' : `small job (${batch.groups.length} groups, ${rows} rows) or one core`)
+    : workerFile === null ? 'no worker bundle beside this program' : null;
+  if (why !== null) {
+    opts.onGroupMode?.(batch.fit.name, { kind: 'in_process', reason: why });
+    return undefined;
+  }
+  return fitGroupData(batch.fit, batch.groups, {
+    threads,
+    workerFile,
+    // the decision is taken above; fitGroupData still fits in this thread when workers cannot start
+    minGroupsForWorkers: 2,
+    ...(opts.cancel ? { cancel: opts.cancel } : {}),
+    onProgress: (d) => opts.onProgress?.({ fit: batch.fit.name, done: batch.done + d, total: batch.total }),
+    onMode: (mode) => opts.onGroupMode?.(batch.fit.name, mode),
+  });
+}
+
+/** Runs the plan, yielding to the event loop between fits (see module comment). */
+export async function runPlan(plan: Plan, opts: RunOptions): Promise<RunResult> {
+  const it = steps(plan, opts);
+  let answer: FitResult[] | undefined;
+  for (;;) {
+    const next = it.next(answer);
+    answer = undefined;
+    if (next.done) return next.value;
+    if (next.value) answer = await fitBatch(next.value, opts);
+    else await new Promise<void>((resolve) => setImmediate(resolve));
+  }
+}

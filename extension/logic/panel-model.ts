@@ -1,0 +1,222 @@
+/**
+ * The results panel's view model: what the page draws, built from a RunResult
+ * with the same view functions as the CLI (engine/front/views/summary.ts for
+ * tables, engine/front/views/charts.ts for the Vega-Lite charts, engine/groups for
+ * group tables), so both show the same digits and the same charts.
+ *
+ * Charts are built with the default palette; the page swaps each palette
+ * colour for the theme colour of the same role (see panel/view/theme.ts).
+ * Per-point data never travels: charts carry their thinned data
+ * (≤ MAX_MARKS marks per layer), so the model stays small enough for the
+ * webview's saved state. Charts of group fits beyond `eagerGroupCharts` are
+ * sent on request (`chartsForKey`).
+ *
+ * Pure: runs in the fit worker, in tests and in the extension host.
+ */
+import type { FitResult, RunResult } from '../../engine/result';
+import { chartSpecs, type ChartSpec } from '../../engine/front/views/charts';
+import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
+import { buildGroupTable, worstGroups } from '../../engine/groups/table';
+import type { GroupFlag } from '../../engine/groups/flags';
+import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
+import { formatNumber } from '../../engine/front/views/format';
+import { groupParameterCharts } from './panel-group-charts';
+
+export const PANEL_MODEL_VERSION = 1 as const;
+
+/** A chart as the page receives it (same shape as engine/front/views/charts.ts ChartSpec). */
+export interface PanelChart {
+  id: string;
+  title: string;
+  spec: Record<string, unknown>;
+}
+
+export interface PanelFit {
+  /** `name`, or `name/group` for a group's fit. */
+  key: string;
+  name: string;
+  group?: string;
+  label: string;
+  heading: string;
+  stop: string;
+  converged: boolean;
+  /** The marking of a fit that is not a result (engine/front/views/summary.ts `notFittedNote`), shown as a banner; null when fitted. */
+  notFitted: string | null;
+  parameterHeaders: string[];
+  /** Formatted rows; column 0 is the parameter name. */
+  parameterRows: string[][];
+  /** Parameter names flagged (at a bound) for highlighting. */
+  flagged: string[];
+  /** A few headline figures shown above the charts (the full list is `goodness`). */
+  keyStats: { label: string; value: string; title: string }[];
+  goodness: Entry[];
+  warnings: string[];
+  /** Pairs of free parameters with |correlation| ≥ 0.95. */
+  correlations: { a: string; b: string; r: string }[];
+  /** Charts, or null when they are sent on request. */
+  charts: PanelChart[] | null;
+}
+
+export interface PanelGroupRow {
+  group: string;
+  key: string;
+  n: number;
+  cells: string[];
+  flags: GroupFlag[];
+  message: string;
+}
+
+export interface PanelGroupTable {
+  fit: string;
+  headers: string[];
+  /** Worst first (engine/groups/table.ts `worstGroups`). */
+  rows: PanelGroupRow[];
+  summary: string[];
+  charts: PanelChart[];
+}
+
+export interface PanelModel {
+  version: typeof PANEL_MODEL_VERSION;
+  specUri: string;
+  specName: string;
+  /** ISO time the run started. */
+  startedAt: string;
+  run: { tool: string; toolVersion: string; data: { name: string; path: string; rows: number }[] };
+  headline: { fits: number; converged: number; warnings: number; expectations: number; failedExpectations: number; errors: number };
+  fits: PanelFit[];
+  groups: PanelGroupTable[];
+  /** Query tables; the derived-quantity table (engine/front/views/summary.ts `derivedBlock`) comes first when there is one. */
+  queries: QueryBlock[];
+  expectations: { verdict: 'PASS' | 'FAIL'; text: string; actual: string; message: string }[];
+  errors: string[];
+}
+
+export interface ModelOptions {
+  specUri: string;
+  specName: string;
+  /** Group fits whose charts are included up front (the worst first). Default 6. */
+  eagerGroupCharts?: number;
+}
+
+/** |r| at or above this is listed as a high correlation in the panel. */
+export const HIGH_CORRELATION = 0.95;
+
+export function fitKey(f: { name: string; group?: string }): string {
+  return f.group === undefined ? f.name : `${f.name}/${f.group}`;
+}
+
+export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel {
+  const eager = new Set<string>();
+  const groups: PanelGroupTable[] = [];
+  for (const [name, fits] of groupedFits(run)) {
+    const table = buildGroupTable(fits);
+    const worst = worstGroups(table, table.rows.length);
+    worst.slice(0, opts.eagerGroupCharts ?? 6).forEach((r) => eager.add(fitKey({ name, group: r.group })));
+    groups.push({
+      fit: name,
+      // the same columns, digits and summary sentences as the CLI and the report (engine/front/views/groups.ts)
+      headers: groupTableHeaders(table),
+      rows: worst.map((r) => ({
+        group: r.group,
+        key: fitKey({ name, group: r.group }),
+        n: r.n,
+        cells: groupRowCells(table, r),
+        flags: r.flags,
+        message: r.message,
+      })),
+      summary: [groupCountLine(table), ...groupSummarySentences(table)],
+      charts: groupParameterCharts(fits, table),
+    });
+  }
+  const fits = run.fits.map((f) => panelFit(f, f.group === undefined || eager.has(fitKey(f))));
+  return {
+    version: PANEL_MODEL_VERSION,
+    specUri: opts.specUri,
+    specName: opts.specName,
+    startedAt: run.provenance.startedAt,
+    run: { tool: run.provenance.tool, toolVersion: run.provenance.toolVersion, data: run.provenance.data.map((d) => ({ name: d.name, path: d.path, rows: d.rows })) },
+    headline: {
+      fits: run.fits.length,
+      converged: run.fits.filter((f) => f.stop.converged).length,
+      warnings: run.fits.reduce((s, f) => s + warningLines(f).length, 0),
+      expectations: run.expectations.length,
+      failedExpectations: run.expectations.filter((e) => !e.passed).length,
+      errors: run.errors.length,
+    },
+    fits,
+    groups,
+    queries: [derivedBlock(run), ...queryBlocks(run)].filter((b): b is QueryBlock => b !== null),
+    expectations: run.expectations.map(expectationLine),
+    errors: run.errors.map((e) => `${e.message}${e.file ? ` (${e.file}${e.row ? `, line ${e.row}` : ''})` : ''}`),
+  };
+}
+
+/** Fits run per group, by fit name, in run order. */
+function groupedFits(run: RunResult): Map<string, FitResult[]> {
+  const out = new Map<string, FitResult[]>();
+  for (const f of run.fits) {
+    if (f.group === undefined) continue;
+    const list = out.get(f.name);
+    if (list) list.push(f);
+    else out.set(f.name, [f]);
+  }
+  return out;
+}
+
+export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
+  return {
+    key: fitKey(f),
+    name: f.name,
+    ...(f.group !== undefined ? { group: f.group } : {}),
+    label: fitLabel(f),
+    heading: fitHeading(f),
+    stop: stopLine(f),
+    converged: f.stop.converged,
+    notFitted: notFittedNote(f),
+    parameterHeaders: PARAMETER_HEADERS(f.level),
+    parameterRows: parameterRows(f),
+    flagged: f.parameters.filter((p) => p.atBound).map((p) => p.name),
+    keyStats: keyStats(f),
+    goodness: goodnessEntries(f),
+    warnings: warningLines(f),
+    correlations: highCorrelations(f),
+    charts: withCharts ? panelCharts(f) : null,
+  };
+}
+
+export function panelCharts(f: FitResult): PanelChart[] {
+  return chartSpecs(f).map((c: ChartSpec) => ({ id: c.id, title: c.title, spec: c.spec as unknown as Record<string, unknown> }));
+}
+
+/** Charts of the fit with key `key`, for a page that asks for them later. */
+export function chartsForKey(run: RunResult, key: string): PanelChart[] | null {
+  const f = run.fits.find((x) => fitKey(x) === key);
+  return f ? panelCharts(f) : null;
+}
+
+function keyStats(f: FitResult): PanelFit['keyStats'] {
+  const g = f.goodness;
+  const counts: PanelFit['keyStats'] = [
+    { label: 'n', value: String(g.n), title: 'points used' },
+    { label: 'dof', value: String(g.dof), title: 'degrees of freedom' },
+  ];
+  // a fit that is not a result shows no goodness-of-fit figures (the engine withholds them)
+  if (fitStatus(f) !== 'fitted') return [...counts, { label: 'fit', value: 'not fitted', title: notFittedNote(f) ?? '' }];
+  const out: PanelFit['keyStats'] = [...counts, { label: 'RMSE', value: formatNumber(g.rmse, 4), title: 'residual standard deviation' }];
+  if (f.sigmaAbsolute) out.push({ label: 'χ²/ν', value: formatNumber(g.chi2Reduced, 4), title: 'reduced chi-square (near 1 when σ matches the scatter)' });
+  out.push({ label: 'R²', value: formatNumber(g.r2, 5), title: f.method === 'linear' ? 'coefficient of determination' : 'coefficient of determination (descriptive only for a nonlinear model)' });
+  out.push({ label: 'AICc', value: formatNumber(g.aicc, 5), title: 'small-sample Akaike information criterion' });
+  return out;
+}
+
+function highCorrelations(f: FitResult): { a: string; b: string; r: string }[] {
+  const out: { a: string; b: string; r: string }[] = [];
+  const ps = f.parameters;
+  for (let i = 0; i < ps.length; i++) {
+    for (let j = i + 1; j < ps.length; j++) {
+      const r = f.correlation[i]?.[j];
+      if (!ps[i].fixed && !ps[j].fixed && typeof r === 'number' && Math.abs(r) >= HIGH_CORRELATION) out.push({ a: ps[i].name, b: ps[j].name, r: formatNumber(r, 4) });
+    }
+  }
+  return out;
+}

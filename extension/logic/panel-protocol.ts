@@ -1,0 +1,99 @@
+/**
+ * Messages between the extension host and the results panel page: one
+ * discriminated union per direction, with guards that check every field
+ * (the page is treated as untrusted input by the host, and vice versa).
+ * Browser-safe: no Node or vscode imports.
+ */
+import type { PanelChart, PanelModel } from './panel-model';
+
+export type ExportFormat = 'markdown' | 'json' | 'svg';
+export const EXPORT_FORMATS: readonly ExportFormat[] = ['markdown', 'json', 'svg'];
+
+/** Host → page. */
+export type ToPage =
+  /** Show a run (replaces what is shown); `focus` is a fit key (`name` or `name/group`). */
+  | { type: 'show'; model: PanelModel; focus?: string }
+  /** A fit is running. */
+  | { type: 'busy'; specName: string; text: string }
+  /** The run could not start or crashed; the last results stay visible. */
+  | { type: 'failed'; specName: string; message: string }
+  /** Charts of one fit, answering `requestCharts` (null: the run is no longer in memory). */
+  | { type: 'charts'; key: string; charts: PanelChart[] | null };
+
+/** Page → host. */
+export type FromPage =
+  | { type: 'ready' }
+  /** Open the fit's data file at a 1-based file line. */
+  | { type: 'openRow'; fit: string; group?: string; row: number }
+  /** Reveal a fit (or one of its parameters) in the spec. */
+  | { type: 'reveal'; fit: string; param?: string }
+  | { type: 'refit' }
+  /** Charts of a fit whose model entry has `charts: null`. */
+  | { type: 'requestCharts'; key: string }
+  | { type: 'export'; format: ExportFormat }
+  /** A page-side problem, for the output channel. */
+  | { type: 'log'; level: 'info' | 'error'; message: string };
+
+/** State the page keeps with `vscode.setState`, restored after a reload. */
+export interface PageState {
+  model?: PanelModel;
+  /** Fit key shown. */
+  selected?: string;
+}
+
+function isObject(x: unknown): x is Record<string, unknown> {
+  return typeof x === 'object' && x !== null && !Array.isArray(x);
+}
+
+const isString = (x: unknown): x is string => typeof x === 'string';
+const isOptString = (x: unknown): boolean => x === undefined || typeof x === 'string';
+
+/** Shallow check of a panel model (the host builds it; the page only needs the shape). */
+export function isPanelModel(x: unknown): x is PanelModel {
+  return isObject(x) && x.version === 1 && isString(x.specUri) && isString(x.specName) && Array.isArray(x.fits) && isObject(x.run);
+}
+
+export function isPanelChart(x: unknown): x is PanelChart {
+  return isObject(x) && isString(x.id) && isString(x.title) && isObject(x.spec);
+}
+
+export function isToPage(x: unknown): x is ToPage {
+  if (!isObject(x)) return false;
+  switch (x.type) {
+    case 'show':
+      return isPanelModel(x.model) && isOptString(x.focus);
+    case 'busy':
+      return isString(x.specName) && isString(x.text);
+    case 'failed':
+      return isString(x.specName) && isString(x.message);
+    case 'charts':
+      return isString(x.key) && (x.charts === null || (Array.isArray(x.charts) && x.charts.every(isPanelChart)));
+    default:
+      return false;
+  }
+}
+
+export function isFromPage(x: unknown): x is FromPage {
+  if (!isObject(x)) return false;
+  switch (x.type) {
+    case 'ready':
+    case 'refit':
+      return true;
+    case 'openRow':
+      return isString(x.fit) && isOptString(x.group) && typeof x.row === 'number' && Number.isInteger(x.row) && x.row >= 1;
+    case 'requestCharts':
+      return isString(x.key);
+    case 'reveal':
+      return isString(x.fit) && isOptString(x.param);
+    case 'export':
+      return (EXPORT_FORMATS as readonly unknown[]).includes(x.format);
+    case 'log':
+      return (x.level === 'info' || x.level === 'error') && isString(x.message);
+    default:
+      return false;
+  }
+}
+
+export function isPageState(x: unknown): x is PageState {
+  return isObject(x) && (x.model === undefined || isPanelModel(x.model)) && isOptString(x.selected);
+}
