@@ -12,6 +12,7 @@
 import { copyFileSync, existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { requireInCi } from '../fixtures/required';
 import type { Browser, Page } from 'playwright-core';
 import { chromium } from 'playwright-core';
 import type { RunResult } from '../../engine/result';
@@ -19,8 +20,7 @@ import { buildPanelModel, type PanelModel } from '../../extension/logic/panel-mo
 import { ARTIFACTS, bundlePage, CHROMIUM_ARGS, ROOT, servePanel, type PanelServer, type ThemeName } from './panel-harness';
 
 const CHROMIUM = process.env.CHROMIUM ?? '/usr/bin/chromium';
-const haveChromium = existsSync(CHROMIUM);
-if (!haveChromium) console.warn(`SKIPPED: panel browser test needs Chromium at ${CHROMIUM} (set CHROMIUM)`);
+const haveChromium = requireInCi('Chromium for the panel page test', existsSync(CHROMIUM), `CHROMIUM=${CHROMIUM}`);
 
 const fixture = (name: string): RunResult => JSON.parse(readFileSync(join(__dirname, 'fixtures', name), 'utf8')) as RunResult;
 const cooling = buildPanelModel(fixture('cooling-run.json'), { specUri: 'file:///work/samples/cooling/cooling.lsq', specName: 'cooling.lsq' });

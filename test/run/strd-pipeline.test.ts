@@ -3,7 +3,8 @@
  * runPlan), with the data written to a temp CSV (never into the repo).
  */
 import { describe, expect, it } from 'vitest';
-import { readLls, STRD_DIR, strdAvailable } from '../stats/strd-lls';
+import { readLinear, strdAvailable, strdDir } from '../strd/read-strd';
+import { requireInCi } from '../fixtures/required';
 import { runSpec, tempDir, writeCsv } from './helpers';
 
 const cases = [
@@ -11,12 +12,12 @@ const cases = [
   { name: 'Pontius', model: 'b0 + b1 * x + b2 * x^2', params: ['b0', 'b1', 'b2'] },
 ];
 
-if (!cases.every((c) => strdAvailable(c.name))) console.warn(`SKIPPED: NIST StRD Norris/Pontius not found under ${STRD_DIR} (set STRD_DIR)`);
+const available = requireInCi('NIST StRD data', strdAvailable(), `STRD_DIR=${strdDir()}`);
 
 for (const c of cases) {
-  describe.skipIf(!strdAvailable(c.name))(`run pipeline on NIST StRD ${c.name}`, () => {
+  describe.runIf(available)(`run pipeline on NIST StRD ${c.name}`, () => {
     it('estimates, standard errors, residual SD and R² match the certified values', async () => {
-      const d = readLls(c.name);
+      const d = readLinear(c.name);
       const dir = tempDir();
       writeCsv(dir, 'data.csv', ['x', 'y'], d.x.map((x, i) => [x, d.y[i]]));
       const spec = `data d = "data.csv"\nfit f on d {\n  model y = ${c.model}\n${c.params.map((p) => `  param ${p}`).join('\n')}\n}\n`;

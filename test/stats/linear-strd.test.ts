@@ -10,14 +10,17 @@ import { tCritical } from '../../engine/stats/distributions';
 import { goodnessOfFit } from '../../engine/stats/goodness';
 import { influence, leverages } from '../../engine/stats/influence';
 import { parameterIntervals, scaleCovariance } from '../../engine/stats/intervals';
-import { readLls, STRD_DIR, strdAvailable } from './strd-lls';
+import { readLinear, strdAvailable, strdDir } from '../strd/read-strd';
+import { requireInCi } from '../fixtures/required';
+
+const available = requireInCi('NIST StRD data', strdAvailable(), `STRD_DIR=${strdDir()}`);
 
 function design(x: number[], degree: number): Matrix {
   return new Matrix(x.map((v) => Array.from({ length: degree + 1 }, (_, k) => v ** k)));
 }
 
 function fitLinear(name: string, degree: number) {
-  const d = readLls(name);
+  const d = readLinear(name);
   const X = design(d.x, degree);
   const Y = Matrix.columnVector(d.y);
   const beta = new QrDecomposition(X).solve(Y).getColumn(0);
@@ -32,7 +35,7 @@ function fitLinear(name: string, degree: number) {
 }
 
 for (const [name, degree] of [['Norris', 1], ['Pontius', 2]] as const) {
-  describe.skipIf(!strdAvailable(name))(`stats on NIST StRD ${name} (linear, degree ${degree})`, () => {
+  describe.runIf(available)(`stats on NIST StRD ${name} (linear, degree ${degree})`, () => {
     it('SSR, residual SD and R² match the certified values', () => {
       const f = fitLinear(name, degree);
       const g = goodnessOfFit({ residuals: f.residuals, y: f.d.y, weights: null, p: f.p, sigmaAbsolute: false, condition: NaN });
@@ -100,8 +103,4 @@ for (const [name, degree] of [['Norris', 1], ['Pontius', 2]] as const) {
       }
     });
   });
-}
-
-if (!strdAvailable('Norris') || !strdAvailable('Pontius')) {
-  console.warn(`SKIPPED: NIST StRD Norris/Pontius not found under ${STRD_DIR} (set STRD_DIR)`);
 }

@@ -1,4 +1,5 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
+import { requireInCi } from '../fixtures/required';
 import { strdDir, strdAvailable, readStrd } from './read-strd';
 import { NLS_ORDER } from './run-strd';
 import { makeWorkDir } from './pipeline';
@@ -6,15 +7,7 @@ import { meetsNoStartTargets, noStartTable, NO_START_TARGETS, runNoStart, type N
 import { applyRelabelling, relabellings } from './relabel';
 
 const dir = strdDir();
-const available = strdAvailable(dir);
-const inCi = process.env.CI === 'true';
-if (!available) console.warn(`\n*** NIST StRD data not found at ${dir}; set STRD_DIR. No-start StRD tests ${inCi ? 'FAIL (CI=true)' : 'SKIPPED'}. ***\n`);
-
-describe.runIf(!available && inCi)('test/strd/no-start: NIST StRD data in CI', () => {
-  it('NIST StRD files are present (CI=true needs STRD_DIR)', () => {
-    expect(available, `NIST StRD data not found at ${dir}`).toBe(true);
-  });
-});
+const available = requireInCi('NIST StRD data', strdAvailable(dir), `STRD_DIR=${dir}`);
 
 let work: ReturnType<typeof makeWorkDir> | null = null;
 const rows: NoStartRow[] = [];

@@ -1,15 +1,12 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
+import { requireInCi } from '../fixtures/required';
 import { strdDir, strdAvailable, readStrd, type StrdDataset } from './read-strd';
 import { NLS_ORDER, LLS_ORDER, TARGETS } from './run-strd';
 import { NONLINEAR_MODELS } from './models';
 import { runViaSpec, makeWorkDir, specText, pipelineTable, type PipelineRow } from './pipeline';
 
 const dir = strdDir();
-const available = strdAvailable(dir);
-if (!available) {
-  // Loud skip: the end-to-end certification cannot run without the data.
-  console.warn(`\n*** NIST StRD data not found at ${dir}; set STRD_DIR. StRD spec-pipeline tests SKIPPED. ***\n`);
-}
+const available = requireInCi('NIST StRD data', strdAvailable(dir), `STRD_DIR=${dir}`);
 
 let work: ReturnType<typeof makeWorkDir> | null = null;
 const rows: PipelineRow[] = [];

@@ -30,6 +30,10 @@ export interface StrdDataset {
   rssDigits: number;
   /** Certified residual standard deviation. */
   residualSd: number;
+  /** Certified R² (linear problems; NaN for nonlinear ones). */
+  rSquared: number;
+  /** Residual degrees of freedom of the certified analysis of variance (linear problems; NaN for nonlinear ones). */
+  residualDof: number;
   /** Column names of the data block, response first. */
   columns: string[];
   /** Data columns, each of length n, in `columns` order. */
@@ -91,6 +95,8 @@ export function parseStrd(text: string, name: string, kind: StrdKind): StrdDatas
   let rss = NaN;
   let rssText = '';
   let residualSd = NaN;
+  let rSquared = NaN;
+  let residualDof = NaN;
   const paramRe = kind === 'nls'
     ? new RegExp(`^\\s*(b\\d+)\\s*=\\s*${NUM}\\s+${NUM}\\s+${NUM}\\s+${NUM}`)
     : new RegExp(`^\\s*(B\\d+)\\s+${NUM}\\s+${NUM}`);
@@ -112,7 +118,9 @@ export function parseStrd(text: string, name: string, kind: StrdKind): StrdDatas
     k = new RegExp(`^\\s*Standard Deviation\\s+${NUM}`).exec(l);
     if (k && /Residual/.test(block[i - 1] ?? '')) { residualSd = Number(k[1]); continue; }
     k = new RegExp(`^Residual\\s+(\\d+)\\s+${NUM}\\s+${NUM}`).exec(l);
-    if (k) { rss = Number(k[2]); rssText = k[2]; continue; }
+    if (k) { residualDof = Number(k[1]); rss = Number(k[2]); rssText = k[2]; continue; }
+    k = new RegExp(`R-Squared\\s+${NUM}`).exec(l);
+    if (k) { rSquared = Number(k[1]); continue; }
   }
   // Column names from the "Data:" header line just before the data rows.
   const header = lines[dataRange[0] - 2] ?? '';
@@ -126,9 +134,37 @@ export function parseStrd(text: string, name: string, kind: StrdKind): StrdDatas
     cells.forEach((v, j) => { data[j][i] = v; });
   });
   if (parameters.length === 0 || !Number.isFinite(rss)) throw new Error(`${name}: certified values not found`);
-  return { name, kind, parameters, rss, rssDigits: significantDigits(rssText), residualSd, columns, data, n };
+  return { name, kind, parameters, rss, rssDigits: significantDigits(rssText), residualSd, rSquared, residualDof, columns, data, n };
 }
 
 export function readStrd(kind: StrdKind, name: string, dir = strdDir()): StrdDataset {
   return parseStrd(readFileSync(join(dir, kind, `${name}.dat`), 'latin1'), name, kind);
+}
+
+/** A linear StRD problem with one predictor (Norris, Pontius, …) in the shape the statistics tests use. */
+export interface LinearStrd {
+  name: string;
+  estimates: number[];
+  stderrs: number[];
+  residualSd: number;
+  rSquared: number;
+  residualSs: number;
+  residualDof: number;
+  y: number[];
+  x: number[];
+}
+
+export function readLinear(name: string, dir = strdDir()): LinearStrd {
+  const d = readStrd('lls', name, dir);
+  return {
+    name,
+    estimates: d.parameters.map((p) => p.certified),
+    stderrs: d.parameters.map((p) => p.certifiedSd),
+    residualSd: d.residualSd,
+    rSquared: d.rSquared,
+    residualSs: d.rss,
+    residualDof: d.residualDof,
+    y: Array.from(d.data[0]),
+    x: Array.from(d.data[1]),
+  };
 }

@@ -4,6 +4,7 @@
  * Levenberg–Marquardt trust region collapse before any step is accepted.
  */
 import { describe, expect, it } from 'vitest';
+import { requireInCi } from '../fixtures/required';
 import { join, resolve } from 'node:path';
 import { writeFileSync } from 'node:fs';
 import { analyze, hasErrors } from '../../parser';
@@ -12,8 +13,7 @@ import { readHeaderFile } from '../../engine/data';
 import { readStrd, strdAvailable } from './read-strd';
 import { csvText, makeWorkDir, specText } from './pipeline';
 
-const available = strdAvailable();
-if (!available) console.warn('*** NIST StRD data not found (STRD_DIR): stalled-start test SKIPPED ***');
+const available = requireInCi('NIST StRD data', strdAvailable(), 'STRD_DIR');
 
 describe.skipIf(!available)('solve/lm stalled start (NIST StRD MGH17)', () => {
   it('reports no convergence when no step is accepted from the starting values', async () => {

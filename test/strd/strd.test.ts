@@ -1,13 +1,10 @@
 import { describe, it, expect } from 'vitest';
+import { requireInCi } from '../fixtures/required';
 import { strdDir, strdAvailable, readStrd } from './read-strd';
 import { fitDataset, NLS_ORDER, LLS_ORDER, TARGETS, STRD_LM_OPTIONS, type StrdRow } from './run-strd';
 
 const dir = strdDir();
-const available = strdAvailable(dir);
-if (!available) {
-  // Loud skip: the certification suite cannot run without the data.
-  console.warn(`\n*** NIST StRD data not found at ${dir}; set STRD_DIR. StRD certification tests SKIPPED. ***\n`);
-}
+const available = requireInCi('NIST StRD data', strdAvailable(dir), `STRD_DIR=${dir}`);
 
 describe.skipIf(!available)('NIST StRD nonlinear regression (Levenberg–Marquardt, both starts)', () => {
   for (const name of NLS_ORDER) {
