@@ -3,6 +3,8 @@ import { describe, expect, it } from 'vitest';
 import schema from '../../engine/result.schema.json';
 import { resultToJson, resultToJsonValue } from '../../engine/run/json';
 import { normals, runSpec, tempDir, writeCsv } from './helpers';
+import { readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
 
 const validate = new Ajv().compile(schema);
 
@@ -68,4 +70,18 @@ describe('run/json resultToJson', () => {
     const text = resultToJson({ a: NaN, b: [1, Infinity, -Infinity], c: Float64Array.of(2, NaN), d: { e: -0.5 } }, 0);
     expect(JSON.parse(text)).toEqual({ a: null, b: [1, null, null], c: [2, null], d: { e: -0.5 } });
   });
+});
+
+describe('test fixtures against engine/result.schema.json', () => {
+  // Hand-kept results the view and panel tests read: they must stay results the engine could write.
+  const root = join(__dirname, '..', '..');
+  const files = ['test/fixtures', 'test/extension/fixtures'].flatMap((dir) => readdirSync(join(root, dir)).filter((f) => f.endsWith('-run.json')).map((f) => `${dir}/${f}`));
+  it('finds the result fixtures', () => expect(files.length).toBeGreaterThanOrEqual(3));
+  for (const file of files) {
+    it(`${file} is a valid result`, () => {
+      const value = JSON.parse(readFileSync(join(root, file), 'utf8'));
+      const ok = validate(value);
+      expect(ok, JSON.stringify(validate.errors?.slice(0, 5))).toBe(true);
+    });
+  }
 });
