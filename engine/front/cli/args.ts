@@ -3,6 +3,7 @@
  * are errors), turning its exceptions into messages.
  */
 import { parseArgs, type ParseArgsConfig } from 'node:util';
+import { suggest } from '../../../parser/suggest';
 import { MSG } from './messages';
 
 export type OptionSpec = NonNullable<ParseArgsConfig['options']>;
@@ -28,28 +29,7 @@ export function parseCommandArgs<V extends object>(cmd: string, argv: string[], 
   }
 }
 
-/** Levenshtein distance, for "did you mean" on commands and templates. */
-export function editDistance(a: string, b: string): number {
-  const d = Array.from({ length: a.length + 1 }, (_, i) => [i, ...new Array<number>(b.length).fill(0)]);
-  for (let j = 1; j <= b.length; j++) d[0][j] = j;
-  for (let i = 1; i <= a.length; i++) {
-    for (let j = 1; j <= b.length; j++) {
-      d[i][j] = Math.min(d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + (a[i - 1] === b[j - 1] ? 0 : 1));
-    }
-  }
-  return d[a.length][b.length];
-}
-
-/** The closest candidate within distance max(2, ⌈len/3⌉), or null. */
+/** The closest candidate by the parser's "did you mean" rule (parser/suggest.ts: one distance, one threshold for specs and the command line), or null. */
 export function closest(word: string, candidates: readonly string[]): string | null {
-  let best: string | null = null;
-  let bestD = Math.max(2, Math.ceil(word.length / 3)) + 1;
-  for (const c of candidates) {
-    const dist = editDistance(word.toLowerCase(), c.toLowerCase());
-    if (dist < bestD) {
-      best = c;
-      bestD = dist;
-    }
-  }
-  return best;
+  return suggest(word, candidates, 1)[0] ?? null;
 }

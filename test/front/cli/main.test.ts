@@ -1,7 +1,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { runCli, COMMANDS, VERSION } from '../../../engine/front/cli/main';
 import { EXIT, type CliIo } from '../../../engine/front/cli/io';
-import { closest, editDistance, parseCommandArgs } from '../../../engine/front/cli/args';
+import { closest, parseCommandArgs } from '../../../engine/front/cli/args';
 import { cleanTemp, cli, hasStackTrace, tempDir } from './helpers';
 import pkg from '../../../package.json';
 
@@ -66,9 +66,8 @@ describe('cli/args', () => {
     expect(bad.ok).toBe(false);
   });
 
-  it('measures edit distance (Levenshtein, from memory: kitten/sitting = 3)', () => {
-    expect(editDistance('kitten', 'sitting')).toBe(3);
-    expect(editDistance('', 'abc')).toBe(3);
+  it('suggests commands and templates by the parser\'s one "did you mean" rule (parser/suggest.ts)', () => {
+    expect(closest('fti', ['check', 'plan', 'fit', 'new'])).toBe('fit'); // a transposition
     expect(closest('chek', ['check', 'plan', 'fit', 'new'])).toBe('check');
     expect(closest('zzzzzz', ['check', 'plan'])).toBeNull();
   });
