@@ -4,7 +4,9 @@
  */
 import { parseArgs, type ParseArgsConfig } from 'node:util';
 import { suggest } from '../../../parser/suggest';
-import { MSG } from './messages';
+import { EXIT, type CliIo, type ExitCode } from './io';
+import { plainError } from './located-lines';
+import { HELP, MSG } from './messages';
 
 export type OptionSpec = NonNullable<ParseArgsConfig['options']>;
 
@@ -32,4 +34,32 @@ export function parseCommandArgs<V extends object>(cmd: string, argv: string[], 
 /** The closest candidate by the parser's "did you mean" rule (parser/suggest.ts: one distance, one threshold for specs and the command line), or null. */
 export function closest(word: string, candidates: readonly string[]): string | null {
   return suggest(word, candidates, 1)[0] ?? null;
+}
+
+/** The commands that take spec files, with the help text each prints for `--help`. */
+type SpecCommand = 'check' | 'plan' | 'fit';
+
+/**
+ * The start every spec command shares: parse `argv`, print the help for
+ * `--help`, and check the number of files (`one` or `many`). Returns the
+ * parsed arguments, or the exit code the command ends with (its message
+ * already written).
+ */
+export function startCommand<V extends object>(
+  cmd: SpecCommand, argv: string[], io: CliIo, options: OptionSpec, files: 'one' | 'many',
+): { ok: true; values: V & { help?: boolean }; positionals: string[] } | { ok: false; code: ExitCode } {
+  const args = parseCommandArgs<V>(cmd, argv, options);
+  const fail = (message: string) => {
+    io.stderr(plainError(message) + '\n');
+    return { ok: false as const, code: EXIT.inputError };
+  };
+  if (!args.ok) return fail(args.message);
+  if (args.values.help) {
+    io.stdout(HELP[cmd]);
+    return { ok: false, code: EXIT.ok };
+  }
+  const n = args.positionals.length;
+  if (n === 0) return fail(MSG.needFiles(cmd));
+  if (files === 'one' && n > 1) return fail(MSG.oneFile(cmd));
+  return args;
 }

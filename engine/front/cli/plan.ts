@@ -1,24 +1,13 @@
 /** `leastwise plan FILE`: the checked plan as JSON on stdout. */
-import { parseCommandArgs } from './args';
+import { startCommand } from './args';
 import { EXIT, type CliIo, type ExitCode } from './io';
 import { plainError } from './located-lines';
-import { HELP, MSG } from './messages';
+import { MSG } from './messages';
 import { checkSpec, diagnosticText, readSpec } from './spec';
 
 export async function planCommand(argv: string[], io: CliIo): Promise<ExitCode> {
-  const args = parseCommandArgs('plan', argv, {});
-  if (!args.ok) {
-    io.stderr(plainError(args.message) + '\n');
-    return EXIT.inputError;
-  }
-  if (args.values.help) {
-    io.stdout(HELP.plan);
-    return EXIT.ok;
-  }
-  if (args.positionals.length !== 1) {
-    io.stderr(plainError(args.positionals.length === 0 ? MSG.needFiles('plan') : MSG.oneFile('plan')) + '\n');
-    return EXIT.inputError;
-  }
+  const args = startCommand('plan', argv, io, {}, 'one');
+  if (!args.ok) return args.code;
   const read = readSpec(args.positionals[0], io);
   if (!read.ok) {
     io.stderr(read.line + '\n');
