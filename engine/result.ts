@@ -220,8 +220,12 @@ export interface SearchMinimum {
 
 /** The multi-start search of a fit (engine/solve/start/explore.ts), when it ran. */
 export interface SearchResult {
-  /** Why it ran: a nonlinear parameter had no start value, or the spec asked for it (`explore N`). */
-  reason: 'no_start' | 'asked';
+  /**
+   * Why it ran: a nonlinear parameter had no start value, the spec asked for it (`explore N`), or the check of a
+   * fit from given starting values (engine/solve/start/check.ts) found a mark of a wrong basin on the minimum they
+   * reached (`mark`).
+   */
+  reason: 'no_start' | 'asked' | 'check';
   /** Free parameters, in the order of `minima[].estimates`. */
   parameters: string[];
   /** Box of the nonlinear parameters the design covered (linear ones are solved exactly for each point). */
@@ -236,6 +240,8 @@ export interface SearchResult {
   startSsr: number;
   /** A lower minimum than the one reached from the starting values was found (and is the one reported). */
   lowerElsewhere: boolean;
+  /** Reason `check`: the mark of the fit from the given starts that made the search run, e.g. `ec ended on its lower bound`. */
+  mark?: string;
   /** Why no design was run, when none was (e.g. a model linear in its parameters). */
   skipped?: string;
   /** Solver iterations and residual evaluations of the whole search (included in the fit's counts). */

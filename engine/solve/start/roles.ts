@@ -17,16 +17,17 @@
  * period or a frequency).
  */
 import type { Expr } from '../../../parser/plan';
-import { canonical, columnsIn, evaluate, paramsIn, type Canon } from './canonical';
+import { canonicalForm, columnsIn, evaluate, paramsIn, type Canon } from './canonical';
 
 /** Parameter names read by a plan expression. */
 export function paramsOfExpr(expr: Expr): Set<string> {
-  return paramsIn(canonical(expr));
+  return paramsIn(canonicalForm(expr));
 }
 
 export type Role =
   | { kind: 'location'; min: number; max: number }
-  | { kind: 'scale' | 'rate'; spread: number; spacing: number; smallest: number; periodic: boolean };
+  /** `inverse`: the predictor sits at a negative power (T in Ea/T), so its spread is not the scale of what the data resolve (check.ts skips it). */
+  | { kind: 'scale' | 'rate'; spread: number; spacing: number; smallest: number; periodic: boolean; inverse: boolean };
 
 /** Spread, smallest positive spacing (the spread when all but one coincide) and smallest non-zero magnitude of a column's finite values. */
 function spreadOf(values: Float64Array, n: number): { spread: number; spacing: number; smallest: number } | null {
@@ -47,15 +48,20 @@ function spreadOf(values: Float64Array, n: number): { spread: number; spacing: n
   return { spread, spacing, smallest: Number.isFinite(smallest) ? smallest : spread };
 }
 
-/** Roles of the parameters of `expr` over the data (see the module comment); the first role found per parameter wins, locations first. */
-export function parameterRoles(expr: Expr, columns: readonly string[], cols: readonly Float64Array[], n: number): Map<string, Role> {
-  const out = new Map<string, Role>();
-  const colOf = (name: string) => cols[columns.indexOf(name)];
-  const spreads = new Map<string, ReturnType<typeof spreadOf>>();
-  const spreadFor = (name: string) => {
-    if (!spreads.has(name)) spreads.set(name, colOf(name) ? spreadOf(colOf(name), n) : null);
-    return spreads.get(name) ?? null;
-  };
+/** Where a role sits in the model's structure, before the data are read (roleSites). */
+type RoleSite =
+  /** `name` with coefficient `c` in a sum whose other terms `rest` read one column. */
+  | { site: 'location'; name: string; rest: Canon; c: number }
+  /** `name` in a product with predictor-like factors: the candidates in order, the first whose column has a spread wins. */
+  | { site: 'product'; name: string; candidates: { column: string; kind: 'scale' | 'rate'; inverse: boolean }[]; periodic: boolean };
+
+const sites = new WeakMap<Canon, RoleSite[]>();
+
+/** The role sites of a canonical form, in visit order; computed once per form (the groups of a per-group fit share it). */
+function roleSites(form: Canon): RoleSite[] {
+  const cached = sites.get(form);
+  if (cached) return cached;
+  const out: RoleSite[] = [];
   /** The single column of a predictor-like factor: a column, or a location sum over one column. */
   const predictorLike = (c: Canon): string | null => {
     if (c.t === 'col') return c.name;
@@ -66,25 +72,13 @@ export function parameterRoles(expr: Expr, columns: readonly string[], cols: rea
     }
     return null;
   };
-  const locations: [string, Extract<Role, { kind: 'location' }>][] = [];
-  const products: [string, Role][] = [];
   const visit = (c: Canon, trig = false): void => {
     switch (c.t) {
       case 'sum': {
         const paramTerms = c.terms.filter((t) => t.e.t === 'par');
         const others = c.terms.filter((t) => t.e.t !== 'par');
         if (paramTerms.length === 1 && others.length > 0 && others.every((t) => paramsIn(t.e).size === 0 && columnsIn(t.e).size === 1)) {
-          const name = (paramTerms[0].e as { name: string }).name;
-          const rest: Canon = { t: 'sum', k: c.k, terms: others };
-          let min = Infinity;
-          let max = -Infinity;
-          for (let i = 0; i < n; i++) {
-            const v = -evaluate(rest, (col) => colOf(col)?.[i] ?? NaN) / paramTerms[0].c;
-            if (!Number.isFinite(v)) continue;
-            if (v < min) min = v;
-            if (v > max) max = v;
-          }
-          if (min <= max) locations.push([name, { kind: 'location', min, max }]);
+          out.push({ site: 'location', name: (paramTerms[0].e as { name: string }).name, rest: { t: 'sum', k: c.k, terms: others }, c: paramTerms[0].c });
         }
         for (const t of c.terms) visit(t.e, trig);
         break;
@@ -92,13 +86,12 @@ export function parameterRoles(expr: Expr, columns: readonly string[], cols: rea
       case 'prod': {
         for (const f of c.fs) {
           if (f.e.t !== 'par') continue;
+          const candidates: { column: string; kind: 'scale' | 'rate'; inverse: boolean }[] = [];
           for (const g of c.fs) {
-            const col = g === f ? null : predictorLike(g.e);
-            const s = col ? spreadFor(col) : null;
-            if (!s) continue;
-            products.push([f.e.name, { kind: f.p * g.p < 0 ? 'scale' : 'rate', ...s, periodic: trig }]);
-            break;
+            const column = g === f ? null : predictorLike(g.e);
+            if (column) candidates.push({ column, kind: f.p * g.p < 0 ? 'scale' : 'rate', inverse: g.p < 0 });
           }
+          if (candidates.length) out.push({ site: 'product', name: f.e.name, candidates, periodic: trig });
         }
         for (const f of c.fs) visit(f.e, trig);
         break;
@@ -114,7 +107,42 @@ export function parameterRoles(expr: Expr, columns: readonly string[], cols: rea
         break;
     }
   };
-  visit(canonical(expr));
+  visit(form);
+  sites.set(form, out);
+  return out;
+}
+
+/** Roles of the parameters of `expr` over the data (see the module comment); the first role found per parameter wins, locations first. */
+export function parameterRoles(expr: Expr, columns: readonly string[], cols: readonly Float64Array[], n: number): Map<string, Role> {
+  const out = new Map<string, Role>();
+  const colOf = (name: string) => cols[columns.indexOf(name)];
+  const spreads = new Map<string, ReturnType<typeof spreadOf>>();
+  const spreadFor = (name: string) => {
+    if (!spreads.has(name)) spreads.set(name, colOf(name) ? spreadOf(colOf(name), n) : null);
+    return spreads.get(name) ?? null;
+  };
+  const locations: [string, Extract<Role, { kind: 'location' }>][] = [];
+  const products: [string, Role][] = [];
+  for (const site of roleSites(canonicalForm(expr))) {
+    if (site.site === 'location') {
+      let min = Infinity;
+      let max = -Infinity;
+      for (let i = 0; i < n; i++) {
+        const v = -evaluate(site.rest, (col) => colOf(col)?.[i] ?? NaN) / site.c;
+        if (!Number.isFinite(v)) continue;
+        if (v < min) min = v;
+        if (v > max) max = v;
+      }
+      if (min <= max) locations.push([site.name, { kind: 'location', min, max }]);
+      continue;
+    }
+    for (const cand of site.candidates) {
+      const s = spreadFor(cand.column);
+      if (!s) continue;
+      products.push([site.name, { kind: cand.kind, ...s, periodic: site.periodic, inverse: cand.inverse }]);
+      break;
+    }
+  }
   for (const [name, role] of locations) {
     const have = out.get(name);
     if (have?.kind === 'location') out.set(name, { kind: 'location', min: Math.min(have.min, role.min), max: Math.max(have.max, role.max) });
