@@ -82,12 +82,18 @@ export const searchText = {
     `the search reached a lower sum of squares (${num(ssr)}) than the reported minimum (${num(reported)}) at a point where the solver did not converge; the reported fit may not be the lowest minimum`,
 } as const;
 
+/** Why a query or an expectation that reads a fit which did not converge gives no numbers (engine/run/queries.ts, expectations.ts). */
+export const withheldText = {
+  query: (fit: string, what: string, stop: string) => `Withheld: fit ${fit} did not converge (${stop}), so its ${what} would come from values that are not estimates.`,
+  expectation: (target: string, fit: string, stop: string) => `${target}: not checked, fit ${fit} did not converge (${stop}); its values are not estimates`,
+} as const;
+
 /** Notes of derived quantities (engine/run/derived.ts): how the uncertainty was obtained, or why a number is missing. */
 export const derivedText = {
   noResult: (fit: string) => `fit ${fit} has no result`,
   noGroup: (fit: string, group: string) => `fit ${fit} has no group ${group}`,
   fitFailed: (fit: string, reason: string) => `fit ${fit} failed (${reason})`,
-  notConverged: (fit: string) => `fit ${fit} did not converge: its estimates are not an optimum`,
+  notConverged: (fit: string) => `withheld: fit ${fit} did not converge, so its values are not estimates`,
   noParameter: (fit: string, name: string) => `fit ${fit} has no parameter ${name}`,
   unknownDerived: (name: string) => `no derived quantity ${name} above this one`,
   dependsOnBroken: (name: string) => `it reads ${name}, which could not be evaluated`,

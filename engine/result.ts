@@ -306,10 +306,15 @@ export interface FitResult {
 
 export type QueryResult =
   /** `group`: the group of a per-group fit (additive, optional). */
-  | { kind: 'predict'; fit: string; group?: string; variable: string; predictions: Prediction[] }
-  | { kind: 'invert'; fit: string; group?: string; response: string; inversions: InversePrediction[] }
+  /**
+   * `withheld`: the fit (or group) did not converge, so no numbers are given - `predictions` and `inversions` list
+   * the values asked for with fitted values, x and intervals null, `rows` of a comparison is empty - and this says why.
+   */
+  | { kind: 'predict'; fit: string; group?: string; variable: string; predictions: Prediction[]; withheld?: string }
+  | { kind: 'invert'; fit: string; group?: string; response: string; inversions: InversePrediction[]; withheld?: string }
   | {
       kind: 'compare';
+      withheld?: string;
       fits: string[];
       rows: { fit: string; n: number; p: number; ssr: number; aic: number; aicc: number; bic: number; deltaAicc: number; akaikeWeight: number }[];
       /** Extra-sum-of-squares F test when two fits are nested by parameter count. */
