@@ -173,14 +173,14 @@ expect life above 0
     });
 
     it('engine: a derived quantity of it has no value; expectations on its values fail, on its counts still hold', () => {
-      const life = bad.derived.find((d) => d.name === 'life')!;
+      const life = bad.derived!.find((d) => d.name === 'life')!;
       expect(life).toMatchObject({ value: null, stderr: null, note: 'withheld: fit decay did not converge, so its values are not estimates.' });
       const [k, n, l] = bad.expectations;
       expect(k).toMatchObject({ passed: false, actual: null, message: 'decay.k: not checked, fit decay did not converge (max_iterations); its values are not estimates' });
       expect(n).toMatchObject({ passed: true, actual: 15 });
       expect(l.passed).toBe(false);
       expect(ok.expectations.every((e) => e.passed)).toBe(true);
-      expect(ok.derived.find((d) => d.name === 'life')!.value).toBeCloseTo(Math.log(2) / ok.fits[0].parameters[1].estimate, 12);
+      expect(ok.derived!.find((d) => d.name === 'life')!.value).toBeCloseTo(Math.log(2) / ok.fits[0].parameters[1].estimate, 12);
     });
 
     it('text, Markdown and panel: "withheld" in place of the numbers, and the reason under the table', () => {
