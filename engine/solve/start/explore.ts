@@ -31,6 +31,18 @@
  *     converged one. `lowerElsewhere` says the search found a lower minimum
  *     than the one reached from the start.
  * Deterministic: the same data and options give the same points and result.
+ *
+ * Threads: the search runs in the fit's own thread. Only step 3 (the partial
+ * solves) could be split over worker threads, and it does not pay here:
+ * measured with benchmark 13 on 2 cores (2026-12-03), an engine worker takes
+ * 51 ms to start and answer (53–91 ms in an earlier run), while step 3 takes
+ * 217 ms of a 298 ms search (two peaks on a baseline, n = 250), 12 of 15 ms
+ * (4-parameter logistic, n = 36) and 212 of 409 ms (the same, n = 1e5); at
+ * best (1 − 1/2) of step 3 minus the start-up is saved, 19 % of the slowest
+ * search (28 % in the earlier run) and nothing on small fits or on the
+ * check's 16-point searches (check.ts, a few ms), and it would need an
+ * asynchronous fit path. Per-group fits already spread their groups, and so
+ * their retries' searches, over threads (engine/parallel).
  */
 import type { LeastSquaresProblem } from '../problem';
 import type { SolveOptions, SolveOutcome } from '../types';
