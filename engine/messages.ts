@@ -74,9 +74,9 @@ export const warningText = {
 export const searchText = {
   sameMinimum: 'solved from a point the multi-start search refined (the starting values lead to the same minimum)',
   lowerElsewhere: (startSsr: number) => `the multi-start search found this minimum below the one reached from the starting values (SSR ${num(startSsr)})`,
-  /** The check of a fit from given starts (engine/solve/start/check.ts) ran the search because of `mark`. */
+  /** The check of a fit without a search (engine/solve/start/check.ts) ran the search because of `mark`. */
   checkLower: (mark: string, startSsr: number) =>
-    `the given starting values lead to SSR ${num(startSsr)}, where ${mark}; the search this ran found this lower minimum`,
+    `the starting values lead to SSR ${num(startSsr)}, where ${mark}; the search this ran found this lower minimum`,
   lowerUnconverged: (ssr: number) => `the multi-start search also reached SSR ${num(ssr)}, lower than this minimum, where the solver did not converge: this may not be the lowest minimum`,
   unconvergedLower: (ssr: number, reported: number) =>
     `the search reached a lower sum of squares (${num(ssr)}) than the reported minimum (${num(reported)}) at a point where the solver did not converge; the reported fit may not be the lowest minimum`,

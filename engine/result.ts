@@ -222,8 +222,8 @@ export interface SearchMinimum {
 export interface SearchResult {
   /**
    * Why it ran: a nonlinear parameter had no start value, the spec asked for it (`explore N`), or the check of a
-   * fit from given starting values (engine/solve/start/check.ts) found a mark of a wrong basin on the minimum they
-   * reached (`mark`).
+   * fit that gets no search (every start given, or a group of a per-group fit; engine/solve/start/check.ts) found a
+   * mark of a wrong basin on the minimum it reached (`mark`).
    */
   reason: 'no_start' | 'asked' | 'check';
   /** Free parameters, in the order of `minima[].estimates`. */

@@ -23,9 +23,9 @@
  * `lower_minimum` warning names both sums of squares. A robust loss then
  * starts from the search's result.
  *
- * The check (engine/solve/start/check.ts): a Levenberg–Marquardt fit whose
- * nonlinear parameters all have starts, without `explore`, single fits and
- * groups alike, runs a small search (CHECK_POINTS design points,
+ * The check (engine/solve/start/check.ts): a Levenberg–Marquardt fit that
+ * gets no search - its nonlinear parameters all have starts, or it is a group
+ * of a per-group fit - and no `explore` runs a small search (CHECK_POINTS design points,
  * CHECK_REFINE refined) after converging when the minimum it reached has a
  * mark of a fit stuck in the wrong basin (a parameter on a bound, or a
  * location, scale or rate outside the range the data resolve). A lower
@@ -243,8 +243,9 @@ function searchPlan(fit: FitPlan, data: FitData, linearModel: boolean, start: St
   const all = start.parameters.map((_, j) => j);
   const linear = linearSet(start, all);
   const missing = all.some((j) => !linear.includes(j) && start.parameters[j].initial === undefined);
-  // a group searches only when asked (retries, engine/parallel/group-job.ts): the search costs many fits
-  if (missing) return data.group !== undefined && !watch.searchGroup ? null : { reason: 'no_start' };
+  // a group searches only when asked (retries, engine/parallel/group-job.ts): the search costs many fits; from its
+  // shared or own start it gets the check, like a fit from given starts
+  if (missing && (data.group === undefined || watch.searchGroup)) return { reason: 'no_start' };
   return { reason: 'check' };
 }
 

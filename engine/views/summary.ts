@@ -81,9 +81,9 @@ export function searchLine(fit: FitResult): string | null {
   if (s.skipped) return `Search: not run (${s.skipped})`;
   const shown = s.minima.slice(0, SEARCH_MINIMA_SHOWN).map((m) => `${formatNumber(m.ssr, 6)}${m.reported ? ' reported' : ''}${m.converged ? '' : ' not converged'}`);
   const more = s.minima.length > SEARCH_MINIMA_SHOWN ? `, ${s.minima.length - SEARCH_MINIMA_SHOWN} more` : '';
-  const start = s.reason === 'no_start' ? 'computed' : 'given';
+  const start = s.reason === 'no_start' ? 'computed ' : s.reason === 'asked' ? 'given ' : '';
   const ending = s.lowerElsewhere
-    ? `; the fit from the ${start} starting values stopped higher, at SSR ${formatNumber(s.startSsr, 6)}`
+    ? `; the fit from the ${start}starting values stopped higher, at SSR ${formatNumber(s.startSsr, 6)}`
     : '; the fit from the starting values reached the lowest';
   const why = s.reason === 'check' && s.mark ? ` (run because ${s.mark})` : '';
   return `Search${why}: ${s.points} starting points, ${s.refined} refined, ${s.minima.length} distinct minim${s.minima.length === 1 ? 'um' : 'a'} by SSR (${shown.join(', ')}${more})${ending}`;
