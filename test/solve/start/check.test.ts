@@ -48,6 +48,18 @@ describe('solve/start/check', () => {
     expect(checkMark(line.input, Float64Array.of(1e12, 1, 50))).toBeNull();
   });
 
+  it('reads a role only where it shapes the curve: inside a function or a power with a parameter, at matched powers', () => {
+    const xs = Array.from({ length: 20 }, (_, i) => 10 + 5 * i);
+    // Chwirut-like: exp(-b1·x)/(b2 + b3·x); b3·x is a term of a plain sum, compared with b2, not with 1
+    const ratio = setup('exp(-b1 * x) / (b2 + b3 * x)', [p('b1'), p('b2'), p('b3')], xs, xs.map((x) => Math.exp(-0.19 * x) / (0.006 + 0.01 * x)));
+    expect(checkMark(ratio.input, Float64Array.of(0.19, 0.006, 1e-3))).toBeNull();
+    // ... while b1 inside exp is a rate of x: far beyond what 5-unit spacing resolves (box to 10/5 = 2)
+    expect(checkMark(ratio.input, Float64Array.of(40, 0.006, 0.01))).toMatch(/^b1 ended outside the range the data resolve/);
+    // a coefficient of x³ in a denominator (rational, Hahn1-like) has units of 1/x³, not a rate of x
+    const rational = setup('(a0 + a1 * x) / (1 + b1 * x + b3 * x^3)', [p('a0'), p('a1'), p('b1'), p('b3')], xs, xs.map((x) => (1 + x) / (1 + 0.01 * x + 1e-9 * x ** 3)));
+    expect(checkMark(rational.input, Float64Array.of(1, 1, 0.01, 1e-9))).toBeNull();
+  });
+
   it('needs the structure for the role test (the bound test works without it)', () => {
     const { input } = setup(LOGISTIC, logisticParams, doses, flatY, false);
     expect(checkMark(input, Float64Array.of(2, 100, 2e-6, 4))).toBeNull();
