@@ -98,7 +98,7 @@ export function runFit(fit: FitPlan, data: FitData, options: RunFitOptions = {})
 
 type Watch = Pick<RunFitOptions, 'cancel' | 'onIteration' | 'trace' | 'startOverride' | 'searchGroup'>;
 
-/** What a fit's model is, independent of the data: computed once per plan object, so the groups of a per-group fit share it. */
+/** What a fit's model is, independent of the data: computed once per plan object (plans are not modified after checking), so the groups of a per-group fit share it. */
 interface PlanModel {
   expr: Expr;
   free: string[];
@@ -180,7 +180,7 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
       const startSsr = 2 * s.fromStart.cost * c2;
       const note = s.mark ? searchText.checkLower(s.mark, startSsr) : searchText.lowerElsewhere(startSsr);
       solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${note}` };
-      searchWarnings.push({ code: 'lower_minimum', message: warningText.lower_minimum(startSsr, reportedSsr, s.points, guess.guessed.length === 0, s.mark), parameters: free });
+      searchWarnings.push({ code: 'lower_minimum', message: warningText.lower_minimum(startSsr, reportedSsr, s.points, guessedNames.length === 0, s.mark), parameters: free });
     }
     if (!s.lowerElsewhere && s.best !== s.fromStart) {
       solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.sameMinimum}` };
