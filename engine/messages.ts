@@ -62,8 +62,8 @@ export const warningText = {
     `the parameters are not all determined by the data (rank ${rank} of ${p})${params.length ? `; check ${params.join(', ')}` : ''}`,
   guessed_start: (params: string[], how: string) =>
     `starting value${params.length === 1 ? '' : 's'} for ${params.join(', ')} guessed (${how}); give "= value" to choose your own`,
-  lower_minimum: (startSsr: number, ssr: number, points: number, given: boolean) =>
-    `from the ${given ? 'given' : 'guessed'} starting values the fit stops at a local minimum (SSR ${num(startSsr)}); the search over ${points} starting points found a lower one (SSR ${num(ssr)}), which is reported here - check that it makes sense for your data`,
+  lower_minimum: (startSsr: number, ssr: number, points: number, given: boolean, mark?: string) =>
+    `from the ${given ? 'given' : 'guessed'} starting values the fit stops at a local minimum (SSR ${num(startSsr)}${mark ? `, where ${mark}` : ''}); the search over ${points} starting points found a lower one (SSR ${num(ssr)}), which is reported here - check that it makes sense for your data`,
   retried_start: (first: string, from: 'own_start' | 'search', recovered: boolean) =>
     recovered
       ? `the fit from the shared starting values did not converge (${first}); this group was fitted again from ${from === 'own_start' ? 'starting values computed from its own data' : 'a multi-start search on its own data'}, which converged`
@@ -74,9 +74,18 @@ export const warningText = {
 export const searchText = {
   sameMinimum: 'solved from a point the multi-start search refined (the starting values lead to the same minimum)',
   lowerElsewhere: (startSsr: number) => `the multi-start search found this minimum below the one reached from the starting values (SSR ${num(startSsr)})`,
+  /** The check of a fit without a search (engine/solve/start/check.ts) ran the search because of `mark`. */
+  checkLower: (mark: string, startSsr: number) =>
+    `the starting values lead to SSR ${num(startSsr)}, where ${mark}; the search this ran found this lower minimum`,
   lowerUnconverged: (ssr: number) => `the multi-start search also reached SSR ${num(ssr)}, lower than this minimum, where the solver did not converge: this may not be the lowest minimum`,
   unconvergedLower: (ssr: number, reported: number) =>
     `the search reached a lower sum of squares (${num(ssr)}) than the reported minimum (${num(reported)}) at a point where the solver did not converge; the reported fit may not be the lowest minimum`,
+} as const;
+
+/** Why a query or an expectation that reads a fit which did not converge gives no numbers (engine/run/queries.ts, expectations.ts). */
+export const withheldText = {
+  query: (fit: string, what: string, stop: string) => `Withheld: fit ${fit} did not converge (${stop}), so its ${what} would come from values that are not estimates.`,
+  expectation: (target: string, fit: string, stop: string) => `${target}: not checked, fit ${fit} did not converge (${stop}); its values are not estimates`,
 } as const;
 
 /** Notes of derived quantities (engine/run/derived.ts): how the uncertainty was obtained, or why a number is missing. */
@@ -84,7 +93,7 @@ export const derivedText = {
   noResult: (fit: string) => `fit ${fit} has no result`,
   noGroup: (fit: string, group: string) => `fit ${fit} has no group ${group}`,
   fitFailed: (fit: string, reason: string) => `fit ${fit} failed (${reason})`,
-  notConverged: (fit: string) => `fit ${fit} did not converge: its estimates are not an optimum`,
+  notConverged: (fit: string) => `withheld: fit ${fit} did not converge, so its values are not estimates`,
   noParameter: (fit: string, name: string) => `fit ${fit} has no parameter ${name}`,
   unknownDerived: (name: string) => `no derived quantity ${name} above this one`,
   dependsOnBroken: (name: string) => `it reads ${name}, which could not be evaluated`,

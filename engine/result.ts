@@ -220,8 +220,12 @@ export interface SearchMinimum {
 
 /** The multi-start search of a fit (engine/solve/start/explore.ts), when it ran. */
 export interface SearchResult {
-  /** Why it ran: a nonlinear parameter had no start value, or the spec asked for it (`explore N`). */
-  reason: 'no_start' | 'asked';
+  /**
+   * Why it ran: a nonlinear parameter had no start value, the spec asked for it (`explore N`), or the check of a
+   * fit that gets no search (every start given, or a group of a per-group fit; engine/solve/start/check.ts) found a
+   * mark of a wrong basin on the minimum it reached (`mark`).
+   */
+  reason: 'no_start' | 'asked' | 'check';
   /** Free parameters, in the order of `minima[].estimates`. */
   parameters: string[];
   /** Box of the nonlinear parameters the design covered (linear ones are solved exactly for each point). */
@@ -236,6 +240,8 @@ export interface SearchResult {
   startSsr: number;
   /** A lower minimum than the one reached from the starting values was found (and is the one reported). */
   lowerElsewhere: boolean;
+  /** Reason `check`: the mark of the fit from the given starts that made the search run, e.g. `ec ended on its lower bound`. */
+  mark?: string;
   /** Why no design was run, when none was (e.g. a model linear in its parameters). */
   skipped?: string;
   /** Solver iterations and residual evaluations of the whole search (included in the fit's counts). */
@@ -300,10 +306,15 @@ export interface FitResult {
 
 export type QueryResult =
   /** `group`: the group of a per-group fit (additive, optional). */
-  | { kind: 'predict'; fit: string; group?: string; variable: string; predictions: Prediction[] }
-  | { kind: 'invert'; fit: string; group?: string; response: string; inversions: InversePrediction[] }
+  /**
+   * `withheld`: the fit (or group) did not converge, so no numbers are given - `predictions` and `inversions` list
+   * the values asked for with fitted values, x and intervals null, `rows` of a comparison is empty - and this says why.
+   */
+  | { kind: 'predict'; fit: string; group?: string; variable: string; predictions: Prediction[]; withheld?: string }
+  | { kind: 'invert'; fit: string; group?: string; response: string; inversions: InversePrediction[]; withheld?: string }
   | {
       kind: 'compare';
+      withheld?: string;
       fits: string[];
       rows: { fit: string; n: number; p: number; ssr: number; aic: number; aicc: number; bic: number; deltaAicc: number; akaikeWeight: number }[];
       /** Extra-sum-of-squares F test when two fits are nested by parameter count. */

@@ -1,6 +1,7 @@
 /**
  * "New Spec from CSV": pick a CSV, then the x column, the y column and a
- * model template (QuickPicks); the spec is written by the shared scaffolder
+ * model template (QuickPicks), and for the polynomial its degree (an input
+ * box, logic/new-spec-degree.ts); the spec is written by the shared scaffolder
  * (engine/templates `scaffoldSpec`, the same as the CLI's `new`) into a NEW
  * file next to the CSV (`<csv name>.lsq`, or `-2`, `-3`… when taken) and
  * opened. Needs a trusted workspace (it reads a whole data file and writes a
@@ -12,7 +13,8 @@ import * as path from 'node:path';
 import * as vscode from 'vscode';
 import { parseCsvText } from '../engine/data';
 import { clashMessage, OutputGuard, readInput, writeAllOrNothing } from '../engine/io';
-import { scaffoldSpec, TEMPLATES } from '../engine/templates';
+import { polynomial, scaffoldSpec, TEMPLATES, type Template } from '../engine/templates';
+import { degreeInputError, degreePrompt, maxDegreeFor, polynomialFor } from './logic/new-spec-degree';
 import type { LwContext } from './context';
 import { requireTrust } from './trust';
 
@@ -55,11 +57,12 @@ export async function newSpecFromCsv(ctx: LwContext, arg?: unknown): Promise<vsc
   if (!x) return undefined;
   const y = await vscode.window.showQuickPick(numeric.filter((c) => c.name !== x.label).map(col), { title: 'New spec (2/3): response column (y)', placeHolder: 'the measured column to model', ignoreFocusOut: true });
   if (!y) return undefined;
-  const t = await vscode.window.showQuickPick(TEMPLATES.map((tp) => ({ label: tp.title, description: tp.formula, id: tp.id })), { title: 'New spec (3/3): model', matchOnDescription: true, ignoreFocusOut: true });
+  const t = await vscode.window.showQuickPick(TEMPLATES.map((tp) => ({ label: tp.id === 'polynomial' ? 'polynomial' : tp.title, description: tp.id === 'polynomial' ? 'c0 + c1·x + … + cn·x^n, degree n chosen next' : tp.formula, id: tp.id })), { title: 'New spec (3/3): model', matchOnDescription: true, ignoreFocusOut: true });
   if (!t) return undefined;
-  const template = TEMPLATES.find((tp) => tp.id === t.id)!;
   const xs = table.columns.find((c) => c.name === x.label)!.values;
   const ys = table.columns.find((c) => c.name === y.label)!.values;
+  const template = t.id === 'polynomial' ? await pickDegree(xs, ys) : TEMPLATES.find((tp) => tp.id === t.id)!;
+  if (!template) return undefined;
   const result = scaffoldSpec({ template, dataPath: path.posix.basename(csv.path), headers: table.headers, x: x.label, y: y.label, xValues: xs, yValues: ys });
   if (!result.ok) {
     void vscode.window.showErrorMessage(`Leastwise: ${result.message}`);
@@ -77,6 +80,15 @@ export async function newSpecFromCsv(ctx: LwContext, arg?: unknown): Promise<vsc
   ctx.log.info(`new spec ${target.fsPath} (${template.id}, ${y.label} against ${x.label})`);
   await vscode.window.showTextDocument(target);
   return target;
+}
+
+/** The polynomial of the degree typed in an input box (logic/new-spec-degree.ts); undefined when cancelled. */
+async function pickDegree(xs: Float64Array, ys: Float64Array): Promise<Template | undefined> {
+  const max = maxDegreeFor(xs, ys);
+  // too few rows even for a line: the scaffolder says how many are needed
+  if (max < 1) return polynomial(1);
+  const text = await vscode.window.showInputBox({ ...degreePrompt(max), ignoreFocusOut: true, validateInput: (v) => degreeInputError(v, max) });
+  return text === undefined ? undefined : polynomialFor(text, max) ?? undefined;
 }
 
 async function pickCsv(arg?: unknown): Promise<vscode.Uri | undefined> {

@@ -25,7 +25,7 @@ export const KEYWORD_DOCS: Readonly<Record<string, string>> = {
   iterations: 'iterations N - iteration limit of iterative solvers.',
   tolerance: 'tolerance T - relative stopping tolerance of iterative solvers (default 1e-10).',
   rate: 'rate R - learning rate for gradient_descent.',
-  explore: 'explore N - search N spread-out starting points (0: no search); by default a search runs when a nonlinear parameter has no start.',
+  explore: 'explore N - search N spread-out starting points (0: no search and no check); by default a search runs when a nonlinear parameter has no start, and a small one when a fit without it ends on a bound or beyond what the data resolve.',
   per: 'per COLUMN - fit separately for each distinct value of the column.',
   derive: 'derive NAME = EXPRESSION [UNIT] - a number computed from fit results (FIT.PARAM, FIT.STAT), with a delta-method standard error and interval.',
   predict: 'predict FIT at COLUMN = v1, v2, ... - model values (with intervals) at these predictor values.',

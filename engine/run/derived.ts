@@ -138,12 +138,11 @@ const levelText = (level: number): string => `${num(level * 100)}%`;
 function evaluate(p: Prepared, pick: ReadonlyMap<string, FitResult>): Numbers {
   if (p.error || !p.model) return missing(p.error ?? derivedText.compileFailed('no evaluator'));
   const notes: string[] = [];
-  /** Said last: fits that did not converge. */
-  const caveats: string[] = [];
   for (const fit of p.fits) {
     const r = pick.get(fit)!;
     if (r.stop.code === 'failed' || r.stop.code === 'cancelled') return missing(derivedText.fitFailed(fit, r.stop.message));
-    if (!r.stop.converged) caveats.push(derivedText.notConverged(fit));
+    // withheld like the fit's own statistics (engine/front/views/summary.ts fitStatus): its values are not estimates
+    if (!r.stop.converged) return missing(derivedText.notConverged(fit));
   }
   const theta = new Float64Array(p.slots.length);
   /** Per slot: index of the parameter in its fit result, or -1 (statistic or fixed parameter). */
@@ -166,13 +165,13 @@ function evaluate(p: Prepared, pick: ReadonlyMap<string, FitResult>): Numbers {
   const g = new Float64Array(p.slots.length);
   p.model.valueAndJacobian(theta, [], 1, out, g);
   const value = out[0];
-  if (!Number.isFinite(value)) return missing([derivedText.notFinite, ...caveats].join('; '));
+  if (!Number.isFinite(value)) return missing(derivedText.notFinite);
 
   const statistics = p.slots.filter((s) => s.of === 'statistic').map((s) => `${s.fit}.${s.name}`);
   if (statistics.length) notes.push(derivedText.fixedStatistics(statistics));
   const paramFits = p.fits.filter((fit) => p.slots.some((s, j) => s.fit === fit && free[j] >= 0));
   const result: Numbers = { value, stderr: null, lower: null, upper: null, level: null, dof: null, note: '' };
-  const finish = (lead: string): Numbers => ({ ...result, note: sentence([lead, ...notes, ...caveats].join('; ')) });
+  const finish = (lead: string): Numbers => ({ ...result, note: sentence([lead, ...notes].join('; ')) });
   if (paramFits.length === 0) return finish(derivedText.noFreeParameter);
 
   // gᵀCg, fit by fit (zero covariance between fits), with C = diag(se)·ρ·diag(se) of each fit and

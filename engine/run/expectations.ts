@@ -2,11 +2,12 @@
  * Checking the spec's `expect` statements against fit results and derived
  * quantities. Bounds: `within LOW .. HIGH` is LOW ≤ actual ≤ HIGH; `above X`
  * is actual > X; `below X` is actual < X. A non-finite or missing actual
- * value fails. Per-group fits (and derived quantities of them) give one
+ * value fails; so does an expectation on a fit that did not converge (its
+ * values are not estimates), except on the counts n, dof and iterations. Per-group fits (and derived quantities of them) give one
  * result per group.
  */
 import type { Bound, Expectation, StatisticName } from '../../parser/plan';
-import { num } from '../messages';
+import { num, withheldText } from '../messages';
 import type { DerivedResult, ExpectationResult, FitResult } from '../result';
 
 /** The number an expectation reads from a fit result (NaN when it cannot be computed). */
@@ -107,6 +108,11 @@ function checkOne(e: Expectation, r: FitResult): ExpectationResult {
   const group = r.group !== undefined ? { group: r.group } : {};
   const t = e.target;
   if (t.kind === 'derived') return { expectation: e, ...group, actual: null, passed: false, message: `${targetText(e)} is not a fit target` };
+  // a fit that did not converge has no estimates to check; the counts of the run (n, dof, iterations) still hold
+  const count = t.kind === 'statistic' && (t.name === 'n' || t.name === 'dof' || t.name === 'iterations');
+  if (!r.stop.converged && !count) {
+    return { expectation: e, ...group, actual: null, passed: false, message: withheldText.expectation(`${targetText(e)}${where}`, t.fit, r.stop.code === 'failed' ? `failed: ${r.stop.message}` : r.stop.code) };
+  }
   let actual: number;
   if (t.kind === 'parameter') {
     const par = r.parameters.find((p) => p.name === t.name);
@@ -115,6 +121,5 @@ function checkOne(e: Expectation, r: FitResult): ExpectationResult {
   } else {
     actual = statisticValue(r, t.name);
   }
-  const failedFit = r.stop.code === 'failed' ? ` (the fit failed: ${r.stop.message})` : '';
-  return { expectation: e, ...group, ...verdict(e, actual, where, failedFit) };
+  return { expectation: e, ...group, ...verdict(e, actual, where, '') };
 }

@@ -22,12 +22,22 @@
  * one reached from the starting values, the stop message says so and a
  * `lower_minimum` warning names both sums of squares. A robust loss then
  * starts from the search's result.
+ *
+ * The check (engine/solve/start/check.ts): a Levenberg–Marquardt fit that
+ * gets no search - its nonlinear parameters all have starts, or it is a group
+ * of a per-group fit - and no `explore` runs a small search (CHECK_POINTS design points,
+ * CHECK_REFINE refined) after converging when the minimum it reached has a
+ * mark of a fit stuck in the wrong basin (a parameter on a bound, or a
+ * location, scale or rate outside the range the data resolve). A lower
+ * minimum found is reported as above, with the mark; the same minimum found
+ * again leaves the fit as it was (the search is still recorded, reason
+ * `check`).
  */
-import type { FitPlan, LossKind } from '../../parser/plan';
+import type { Expr, FitPlan, LossKind } from '../../parser/plan';
 import { compileModel, isLinearInParameters, type CompiledModel } from '../compile';
 import type { FitResult, FitTrace, FitWarning, SearchResult, StopReason } from '../result';
 import { boundsMethodFor, modelProblem, nonFiniteDetail, type CancelToken, type SolveOutcome, type SolverTrace } from '../solve';
-import { explore, guessStart, isLower, linearSet, type ExploreOutcome, type StartInput } from '../solve/start';
+import { CHECK_POINTS, CHECK_REFINE, checkMark, explore, guessStart, isLower, linearSet, type ExploreOutcome, type StartInput } from '../solve/start';
 import { errorText, searchText, warningText } from '../messages';
 import type { FitData } from './fit-data';
 import { failedFit } from './fit-result';
@@ -88,8 +98,38 @@ export function runFit(fit: FitPlan, data: FitData, options: RunFitOptions = {})
 
 type Watch = Pick<RunFitOptions, 'cancel' | 'onIteration' | 'trace' | 'startOverride' | 'searchGroup'>;
 
+/** What a fit's model is, independent of the data: computed once per plan object (plans are not modified after checking), so the groups of a per-group fit share it. */
+interface PlanModel {
+  expr: Expr;
+  free: string[];
+  /** Linearity tests already answered (key: the parameter names joined by NUL). */
+  linearIn: Map<string, boolean>;
+}
+const planModels = new WeakMap<FitPlan, PlanModel>();
+
+function planModel(fit: FitPlan): PlanModel {
+  let m = planModels.get(fit);
+  if (!m) {
+    const { expr, free } = freeModel(fit);
+    m = { expr, free, linearIn: new Map() };
+    planModels.set(fit, m);
+  }
+  return m;
+}
+
+function isLinearIn(m: PlanModel, names: readonly string[]): boolean {
+  const key = names.join('\u0000');
+  let v = m.linearIn.get(key);
+  if (v === undefined) {
+    v = isLinearInParameters(holdParams(m.expr, new Set(m.free.filter((f) => !names.includes(f)))), names);
+    m.linearIn.set(key, v);
+  }
+  return v;
+}
+
 function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, groupWarnings: FitWarning[], elapsed: () => number): FitResult {
-  const { expr, free } = freeModel(fit);
+  const pm = planModel(fit);
+  const { expr, free } = pm;
   const freePlans = fit.parameters.filter((p) => !p.fixed);
   const n = data.n;
   const model: CompiledModel = compileModel(expr, free, data.modelColumns);
@@ -113,7 +153,7 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
       const initial = override ? (Number.isFinite(override.theta[j]) ? override.theta[j] : undefined) : q.initial;
       return { name: q.name, ...(initial !== undefined ? { initial } : {}), lower: lower[j], upper: upper[j] };
     }),
-    isLinearIn: (names) => isLinearInParameters(holdParams(expr, new Set(free.filter((f) => !names.includes(f)))), names),
+    isLinearIn: (names) => isLinearIn(pm, names),
     structure: { expr, columns: data.modelColumns },
   };
   const guess = guessStart(startInput);
@@ -137,8 +177,10 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
     searchResult = searchSummary(s, search.reason, free, c2);
     const reportedSsr = 2 * s.best.cost * c2;
     if (s.lowerElsewhere) {
-      solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.lowerElsewhere(2 * s.fromStart.cost * c2)}` };
-      searchWarnings.push({ code: 'lower_minimum', message: warningText.lower_minimum(2 * s.fromStart.cost * c2, reportedSsr, s.points, guess.guessed.length === 0), parameters: free });
+      const startSsr = 2 * s.fromStart.cost * c2;
+      const note = s.mark ? searchText.checkLower(s.mark, startSsr) : searchText.lowerElsewhere(startSsr);
+      solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${note}` };
+      searchWarnings.push({ code: 'lower_minimum', message: warningText.lower_minimum(startSsr, reportedSsr, s.points, guessedNames.length === 0, s.mark), parameters: free });
     }
     if (!s.lowerElsewhere && s.best !== s.fromStart) {
       solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.sameMinimum}` };
@@ -198,11 +240,13 @@ function searchPlan(fit: FitPlan, data: FitData, linearModel: boolean, start: St
   if (asked === 0 || linearModel) return null;
   if (fit.options.method === 'linear' || fit.options.method === 'gradient_descent') return null;
   if (asked !== undefined) return { reason: 'asked', points: asked };
-  if (data.group !== undefined && !watch.searchGroup) return null;
   const all = start.parameters.map((_, j) => j);
   const linear = linearSet(start, all);
   const missing = all.some((j) => !linear.includes(j) && start.parameters[j].initial === undefined);
-  return missing ? { reason: 'no_start' } : null;
+  // a group searches only when asked (retries, engine/groups/group-job.ts): the search costs many fits; from its
+  // shared or own start it gets the check, like a fit from given starts
+  if (missing && (data.group === undefined || watch.searchGroup)) return { reason: 'no_start' };
+  return { reason: 'check' };
 }
 
 /** The search as reported; `c2` = c², the factor from the scaled problem's sums of squares to the data's. */
@@ -226,6 +270,7 @@ function searchSummary(s: ExploreOutcome, reason: SearchResult['reason'], free: 
     }),
     startSsr: 2 * s.fromStart.cost * c2,
     lowerElsewhere: s.lowerElsewhere,
+    ...(s.mark ? { mark: s.mark } : {}),
     ...(s.skipped ? { skipped: s.skipped } : {}),
     iterations: s.iterations,
     evaluations: s.evaluations,
@@ -277,6 +322,18 @@ function solve(
   } else if (method === 'gradient_descent') {
     if (!solvers.gradientDescent) return { error: 'the gradient descent solver is not available in this build' };
     outcome = add(solvers.gradientDescent(problem, theta0, iterative));
+  } else if (search?.reason === 'check') {
+    const first = solvers.levenbergMarquardt(problem, theta0, iterative);
+    const mark = first.stop.converged ? checkMark(search.start, first.theta) : null;
+    if (mark) {
+      searched = explore({ start: search.start, theta0, problem, fromStart: first, points: CHECK_POINTS, refine: CHECK_REFINE, solve: (pr, t, opts) => solvers.levenbergMarquardt(pr, t, { ...iterative, ...opts }), options: iterative });
+      searched.iterations += first.iterations;
+      searched.evaluations += first.evaluations;
+      searched.mark = mark;
+      // the same minimum found again keeps the fit from the given starts as it was
+      if (!searched.lowerElsewhere) searched.best = first;
+    }
+    outcome = add(searched ? searched.best : first);
   } else if (search) {
     searched = explore({
       start: search.start,

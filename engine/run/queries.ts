@@ -4,10 +4,13 @@
  * response, engine/stats/inverse.ts) and compare (AICc, ΔAICc, Akaike weights
  * and, for two fits of the same data and response with different parameter
  * counts, the extra-sum-of-squares F test). Per-group fits answer once per group.
+ * A fit (or group) that did not converge answers with its numbers withheld,
+ * the way its own statistics are (engine/front/views/summary.ts `fitStatus`): the
+ * values asked for are listed with null results and `withheld` says why.
  */
 import type { FitPlan, Query } from '../../parser/plan';
 import { compileColumnExpr } from '../compile';
-import { errorText } from '../messages';
+import { errorText, withheldText } from '../messages';
 import type { FitResult, InversePrediction, QueryResult, RunError } from '../result';
 import { bandsAt, predictAt } from '../stats/bands';
 import { akaikeRows, extraSumOfSquaresF, type CompareInput } from '../stats/compare';
@@ -42,6 +45,9 @@ function lookup(name: string, q: Query, ctx: QueryContext): { plan: FitPlan; res
   return { plan, results };
 }
 
+/** `fit` or `fit [group]`. */
+const label = (fit: string, r: FitResult): string => (r.group !== undefined ? `${fit} [${r.group}]` : fit);
+
 const isError = (x: unknown): x is RunError => typeof x === 'object' && x !== null && 'code' in x && 'message' in x;
 
 function predict(q: Extract<Query, { kind: 'predict' }>, ctx: QueryContext): Out {
@@ -57,6 +63,14 @@ function predict(q: Extract<Query, { kind: 'predict' }>, ctx: QueryContext): Out
     if (q.variable !== r.predictor) {
       out.errors.push({ code: 'wrong_variable', message: errorText.wrongVariable(q.fit, q.variable, r.predictor), range: q.range, fit: q.fit });
       return out;
+    }
+    if (!r.stop.converged) {
+      out.results.push({
+        kind: 'predict', fit: q.fit, ...(r.group !== undefined ? { group: r.group } : {}), variable: q.variable,
+        predictions: q.values.map((x) => ({ x, fitted: NaN, confidence: [NaN, NaN], prediction: [NaN, NaN] })),
+        withheld: withheldText.query(label(q.fit, r), 'predictions', r.stop.code),
+      });
+      continue;
     }
     out.results.push({
       kind: 'predict',
@@ -96,6 +110,14 @@ function invert(q: Extract<Query, { kind: 'invert' }>, ctx: QueryContext): Out {
       out.errors.push({ code: 'no_predictor', message: errorText.noPredictor(q.fit, 'invert', columnsOf(found.plan.blocks[0].model)), range: q.range, fit: q.fit });
       return out;
     }
+    if (!r.stop.converged) {
+      out.results.push({
+        kind: 'invert', fit: q.fit, ...(r.group !== undefined ? { group: r.group } : {}), response: q.response,
+        inversions: q.values.map((v) => ({ response: v, x: null, interval: [null, null] })),
+        withheld: withheldText.query(label(q.fit, r), 'inverse predictions', r.stop.code),
+      });
+      continue;
+    }
     if (xs.length === 0) {
       // the fit has no points (its data had no usable rows): a data problem, reported with the fit
       out.errors.push({ code: 'no_points', message: errorText.noPoints(r.group !== undefined ? `${q.fit} [${r.group}]` : q.fit, 'invert'), range: q.range, fit: q.fit });
@@ -128,7 +150,9 @@ function compare(q: Extract<Query, { kind: 'compare' }>, ctx: QueryContext): Out
     if (found.results.length !== 1 || found.results[0].group !== undefined) {
       return { results: [], errors: [{ code: 'compare_grouped', message: errorText.comparePerGroup(name), range: q.range, fit: name }] };
     }
-    const g = found.results[0].goodness;
+    const r = found.results[0];
+    if (!r.stop.converged) return { results: [{ kind: 'compare', fits: [...q.fits], rows: [], withheld: withheldText.query(name, 'sums of squares and information criteria', r.stop.code) }], errors: [] };
+    const g = r.goodness;
     rows.push({ fit: name, n: g.n, p: g.p, ssr: g.ssr, aic: g.aic, aicc: g.aicc, bic: g.bic });
     plans.push(found.plan);
   }

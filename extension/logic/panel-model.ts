@@ -15,7 +15,7 @@
  */
 import type { FitResult, RunResult } from '../../engine/result';
 import { chartSpecs, type ChartSpec } from '../../engine/front/views/charts';
-import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
+import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, searchLine, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { GroupFlag } from '../../engine/groups/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
@@ -39,6 +39,8 @@ export interface PanelFit {
   label: string;
   heading: string;
   stop: string;
+  /** The multi-start search's sentence (engine/front/views/summary.ts `searchLine`), when one ran. */
+  search: string | null;
   converged: boolean;
   /** The marking of a fit that is not a result (engine/front/views/summary.ts `notFittedNote`), shown as a banner; null when fitted. */
   notFitted: string | null;
@@ -171,6 +173,7 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     label: fitLabel(f),
     heading: fitHeading(f),
     stop: stopLine(f),
+    search: searchLine(f),
     converged: f.stop.converged,
     notFitted: notFittedNote(f),
     parameterHeaders: PARAMETER_HEADERS(f.level),

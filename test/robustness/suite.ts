@@ -8,7 +8,16 @@
  *   wrong minimum  it converged with an SSR above the reference by more than
  *                  WRONG_MINIMUM_MARGIN (relative);
  *   below          it converged below the reference by more than the margin
- *                  (the reference missed a lower minimum; counted, not a fault).
+ *                  (the reference missed a lower minimum; counted, not a fault);
+ *   checked        the check of a fit from given starts (engine/solve/start/
+ *                  check.ts) ran its search;
+ *   corrected      that search found a lower minimum than the one reached from
+ *                  the given starts, reported with a `lower_minimum` warning.
+ * A wrong minimum is a reported SSR above the reference, with or without a
+ * note: a warning that a lower minimum exists does not make a higher one the
+ * right answer (the run reports the lowest minimum it found, so a note
+ * without the lower minimum reported does not occur; `noted` counts wrong
+ * minima that carry a `lower_minimum` warning all the same).
  */
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
@@ -63,6 +72,10 @@ export interface FamilyCount {
   failed: number;
   wrong: number;
   below: number;
+  checked: number;
+  corrected: number;
+  /** Wrong minima that carry a `lower_minimum` warning. */
+  noted: number;
   /** Milliseconds fitting (runFit only, plans prepared outside). */
   ms: number;
 }
@@ -82,7 +95,7 @@ export function runSuite(bounds: BoundsMethod, reference: Reference, perFamily: 
     if (!ref) throw new Error(`no reference minima for ${family.id}: run test/robustness/reference.py`);
     const curves = curvesOf(family, Math.min(perFamily(family), family.count));
     const plans = curves.map((c) => fitPlanFor(family, c));
-    const count: FamilyCount = { family: family.id, curves: curves.length, failed: 0, wrong: 0, below: 0, ms: 0 };
+    const count: FamilyCount = { family: family.id, curves: curves.length, failed: 0, wrong: 0, below: 0, checked: 0, corrected: 0, noted: 0, ms: 0 };
     curves.forEach((curve, i) => {
       const refSsr = ref.ssr[curve.index];
       if (refSsr === null || refSsr === undefined) throw new Error(`reference for ${family.id} #${curve.index} missing`);
@@ -91,9 +104,12 @@ export function runSuite(bounds: BoundsMethod, reference: Reference, perFamily: 
       count.ms += performance.now() - t0;
       const o = classify(result, refSsr);
       if (o.belowReference) count.below++;
+      if (result.search?.reason === 'check') count.checked++;
+      if (result.search?.reason === 'check' && result.search.lowerElsewhere) count.corrected++;
       if (o.verdict === 'ok') return;
       if (o.verdict === 'failed') count.failed++;
       else count.wrong++;
+      if (o.verdict === 'wrong_minimum' && result.warnings.some((w) => w.code === 'lower_minimum')) count.noted++;
       failures.push({ family: family.id, index: curve.index, verdict: o.verdict, stop: `${result.stop.code}: ${result.stop.message}`, ssr: o.ssr, reference: refSsr, estimates: result.parameters.map((p) => p.estimate) });
     });
     counts.push(count);
@@ -101,6 +117,14 @@ export function runSuite(bounds: BoundsMethod, reference: Reference, perFamily: 
   return { bounds, families: counts, failures };
 }
 
-export function totals(run: SuiteRun): { curves: number; failed: number; wrong: number; below: number; ms: number } {
-  return run.families.reduce((t, f) => ({ curves: t.curves + f.curves, failed: t.failed + f.failed, wrong: t.wrong + f.wrong, below: t.below + f.below, ms: t.ms + f.ms }), { curves: 0, failed: 0, wrong: 0, below: 0, ms: 0 });
+export type SuiteTotals = Omit<FamilyCount, 'family'>;
+
+export function totals(run: SuiteRun): SuiteTotals {
+  const zero: SuiteTotals = { curves: 0, failed: 0, wrong: 0, below: 0, checked: 0, corrected: 0, noted: 0, ms: 0 };
+  return run.families.reduce((t, f) => {
+    const { family: _, ...counts } = f;
+    const out = { ...t };
+    for (const k of Object.keys(counts) as (keyof SuiteTotals)[]) out[k] += counts[k];
+    return out;
+  }, zero);
 }

@@ -9,6 +9,7 @@ import { runSpec, tempDir, writeCsv } from './helpers';
 import { validateResult } from '../front/cli/helpers';
 import { resultToJsonValue } from '../../engine/run';
 import { fitTextLines } from '../../engine/front/views/text';
+import { FAMILIES, curvesOf } from '../robustness/scenarios';
 
 const rows = Array.from({ length: 101 }, (_, i) => {
   const x = i * 0.1;
@@ -68,5 +69,30 @@ describe('run/fit multi-start search', () => {
     const { result } = await runSpec('data d = "wave.csv"\nfit line on d {\n  model y = a + b * x\n  param a\n  param b\n  explore 16\n}\n', dir);
     expect(result.fits[0].method).toBe('linear');
     expect(result.fits[0].search).toBeUndefined();
+  });
+
+  it('checks a fit from given starts: a potency on its bound runs the search, per group too; the same minimum leaves the fit as it was', async () => {
+    const dir = tempDir();
+    // well A: curve 12 of the robustness suite's rising zero-dose family (test/robustness/scenarios.ts), whose
+    // potency lies below the lowest dose; well B: curve 0 of the plain rising family, potency inside the doses
+    const zero = curvesOf(FAMILIES.find((f) => f.id === 'logistic4-rising-zero')!, 13)[12];
+    const plain = curvesOf(FAMILIES.find((f) => f.id === 'logistic4-rising-plain')!, 1)[0];
+    const rowsOf = (well: string, c: { x: number[]; y: number[] }) => c.x.map((d, i) => [well, d, c.y[i]]);
+    writeCsv(dir, 'plate.csv', ['well', 'dose', 'signal'], [...rowsOf('A', zero), ...rowsOf('B', plain)]);
+    const body = (per: string, extra = '') => `data p = "plate.csv"\nfit hill on p {\n  model signal = bot + (top - bot) / (1 + (dose / ec)^h)\n  param bot = 100\n  param top = 0\n  param ec = 1 in [0, inf]\n  param h = 1 in [0.1, 10]\n${per}${extra}}\n`;
+    const { result } = await runSpec(body('  per well\n'), dir);
+    const [a, b] = result.fits;
+    expect(a.group).toBe('A');
+    expect(a.search).toMatchObject({ reason: 'check', mark: 'ec ended on its lower bound', lowerElsewhere: true });
+    expect(a.goodness.ssr).toBeLessThan(a.search!.startSsr);
+    expect(a.warnings.map((w) => w.code)).toContain('lower_minimum');
+    expect(fitTextLines(a).join('\n')).toMatch(/Search \(run because ec ended on its lower bound\): \d+ starting points/);
+    expect(b.search).toBeUndefined();
+    expect(b.stop.converged).toBe(true);
+    expect(validateResult(resultToJsonValue(result)).ok).toBe(true);
+    // explore 0: no check, the fit stays where the start leads
+    const { result: off } = await runSpec(body('  per well\n', '  explore 0\n'), dir);
+    expect(off.fits[0].search).toBeUndefined();
+    expect(off.fits[0].goodness.ssr).toBeCloseTo(a.search!.startSsr, 6);
   });
 });

@@ -19,7 +19,7 @@ import { runPlan, readHeaderFile, type FitResult } from '../../engine/index';
 import type { StrdDataset } from './read-strd';
 import { csvText, FIT_NAME, scoreFit, specText } from './pipeline';
 import { lre, RSS_FLOOR_RELATIVE } from './run-strd';
-import { applyRelabelling, relabellings } from './relabel';
+import { applyRelabelling, bestRelabelling } from './relabel';
 
 export const NO_START_TARGETS = { rss: 7, params: 9, se: 9 } as const;
 
@@ -60,14 +60,10 @@ export async function runNoStart(ds: StrdDataset, dir: string): Promise<NoStartR
   const est = Object.fromEntries(fit.parameters.map((q) => [q.name, q.estimate]));
   const se = Object.fromEntries(fit.parameters.map((q) => [q.name, q.stderr ?? NaN]));
   const s = fit.goodness.rmse;
-  let best = { params: -1, se: 0, index: 0 };
-  relabellings(ds.name, ds.parameters.map((q) => q.name)).forEach((m, index) => {
-    const e = applyRelabelling(m, est);
-    const sd = applyRelabelling(m, se);
-    const params = Math.min(...ds.parameters.map((q) => lre(e[q.name], q.certified, q.digits)));
-    const ses = Math.min(...ds.parameters.map((q) => (raw.floor ? lre(Math.abs(sd[q.name]) / s, q.certifiedSd / ds.residualSd, q.digits) : lre(Math.abs(sd[q.name]), q.certifiedSd, q.digits))));
-    if (params > best.params) best = { params, se: ses, index };
-  });
+  const chosen = bestRelabelling(ds.name, est, (e) => Math.min(...ds.parameters.map((q) => lre(e[q.name], q.certified, q.digits))));
+  const sd = applyRelabelling(chosen.map, se);
+  const ses = Math.min(...ds.parameters.map((q) => (raw.floor ? lre(Math.abs(sd[q.name]) / s, q.certifiedSd / ds.residualSd, q.digits) : lre(Math.abs(sd[q.name]), q.certifiedSd, q.digits))));
+  const best = { params: chosen.score, se: ses, index: chosen.index };
   return {
     dataset: ds.name,
     fit,

@@ -11,10 +11,12 @@
  *               of −b4 with −b6 gives the same curve (cos even, sin odd), likewise b7 with b9;
  *   Eckerle4    (b1, b2) → (−b1, −b2) leaves b1/b2 and ((x − b3)/b2)² unchanged.
  * `relabellings(name)` lists every equivalent form (the identity first) as a
- * map from each parameter to the source parameter and sign.
+ * map from each parameter to the source parameter and sign; `bestRelabelling`
+ * picks the one that scores highest (used by run-strd.ts for the solver-level
+ * table and by no-start.ts for the fits without start values).
  */
 
-type Map = Record<string, { from: string; sign: 1 | -1 }>;
+export type Map = Record<string, { from: string; sign: 1 | -1 }>;
 
 const identity = (names: readonly string[]): Map => Object.fromEntries(names.map((n) => [n, { from: n, sign: 1 as const }]));
 
@@ -89,4 +91,14 @@ export function relabellings(dataset: string, names: readonly string[]): Map[] {
 /** The estimates relabelled by `m` (by parameter name). */
 export function applyRelabelling(m: Map, values: Readonly<Record<string, number>>): Record<string, number> {
   return Object.fromEntries(Object.entries(m).map(([n, { from, sign }]) => [n, sign * values[from]]));
+}
+
+/** The relabelling of `values` (by parameter name) that `score` rates highest; index 0 is the identity. */
+export function bestRelabelling(dataset: string, values: Readonly<Record<string, number>>, score: (relabelled: Record<string, number>) => number): { index: number; map: Map; score: number } {
+  let best = { index: 0, map: identity(Object.keys(values)), score: -Infinity };
+  relabellings(dataset, Object.keys(values)).forEach((m, index) => {
+    const v = score(applyRelabelling(m, values));
+    if (v > best.score) best = { index, map: m, score: v };
+  });
+  return best;
 }

@@ -34,6 +34,7 @@
  */
 import { readStrd, type StrdDataset, type StrdKind } from './read-strd';
 import { NONLINEAR_MODELS, LINEAR_MODELS, modelExpr } from './models';
+import { bestRelabelling } from './relabel';
 import { compileModel, compileColumnExpr } from '../../engine/compile/index';
 import { modelProblem } from '../../engine/solve/model-problem';
 import { levenbergMarquardt } from '../../engine/solve/lm';
@@ -50,40 +51,10 @@ export const RSS_FLOOR_RELATIVE = 1e-20;
 
 export const TARGETS = { nls: { params: 7, se: 6, rss: 6 }, lls: { params: 9, se: 6, rss: 6 } } as const;
 
-/**
- * Interchangeable terms (parameter indices per term): a fit that lands on the
- * certified minimum with the terms swapped has the same residual sum of
- * squares and the same curve (two exponentials or two Gaussian peaks
- * exchanged). `minLreRelabelled` scores the best assignment.
- */
-export const INTERCHANGEABLE: Record<string, number[][]> = {
-  Lanczos1: [[0, 1], [2, 3], [4, 5]],
-  Lanczos2: [[0, 1], [2, 3], [4, 5]],
-  Lanczos3: [[0, 1], [2, 3], [4, 5]],
-  MGH17: [[1, 3], [2, 4]],
-  Gauss1: [[2, 3, 4], [5, 6, 7]],
-  Gauss2: [[2, 3, 4], [5, 6, 7]],
-  Gauss3: [[2, 3, 4], [5, 6, 7]],
-};
-
-function permutations<T>(xs: T[]): T[][] {
-  if (xs.length <= 1) return [xs];
-  return xs.flatMap((x, i) => permutations([...xs.slice(0, i), ...xs.slice(i + 1)]).map((rest) => [x, ...rest]));
-}
-
-/** Min LRE over the parameters under the best relabelling of interchangeable terms. */
+/** Min LRE over the parameters under the best relabelling of interchangeable terms and invisible signs (relabel.ts). */
 export function relabelledLre(ds: StrdDataset, theta: ArrayLike<number>): number {
-  const score = (est: number[]) => Math.min(...ds.parameters.map((q, j) => lre(est[j], q.certified, q.digits)));
-  const base = Array.from(theta);
-  const groups = INTERCHANGEABLE[ds.name];
-  if (!groups) return score(base);
-  let best = -Infinity;
-  for (const order of permutations(groups.map((_, k) => k))) {
-    const est = base.slice();
-    groups.forEach((g, k) => g.forEach((j, m) => { est[j] = base[groups[order[k]][m]]; }));
-    best = Math.max(best, score(est));
-  }
-  return best;
+  const values = Object.fromEntries(ds.parameters.map((q, j) => [q.name, theta[j]]));
+  return bestRelabelling(ds.name, values, (v) => Math.min(...ds.parameters.map((q) => lre(v[q.name], q.certified, q.digits)))).score;
 }
 
 export interface StrdRow {
@@ -92,7 +63,7 @@ export interface StrdRow {
   /** NIST start 1 or 2 (nonlinear), null for linear datasets. */
   start: 1 | 2 | null;
   minLreParams: number;
-  /** As `minLreParams`, under the best relabelling of interchangeable terms (INTERCHANGEABLE). */
+  /** As `minLreParams`, under the best relabelling of interchangeable terms (relabel.ts). */
   minLreRelabelled: number;
   minLreSE: number;
   lreRSS: number;

@@ -23,7 +23,7 @@ describe.skipIf(!available)('NIST StRD nonlinear regression (Levenberg–Marquar
 describe.skipIf(!available)('NIST StRD nonlinear regression with sign bounds (interior reflective trust region, both starts)', () => {
   // Sign bounds: [0, inf] where the certified value and both starts are positive, [-inf, 0] where all are
   // negative (run-strd.ts signBounds). A converged fit must be at the certified minimum (parameters scored
-  // under the relabelling of interchangeable terms, INTERCHANGEABLE); the rest must say they did not converge.
+  // under the best relabelling of interchangeable terms, relabel.ts); the rest must say they did not converge.
   const rows: StrdRow[] = [];
   for (const name of NLS_ORDER) {
     for (const start of [1, 2] as const) {

@@ -81,11 +81,12 @@ export function searchLine(fit: FitResult): string | null {
   if (s.skipped) return `Search: not run (${s.skipped})`;
   const shown = s.minima.slice(0, SEARCH_MINIMA_SHOWN).map((m) => `${formatNumber(m.ssr, 6)}${m.reported ? ' reported' : ''}${m.converged ? '' : ' not converged'}`);
   const more = s.minima.length > SEARCH_MINIMA_SHOWN ? `, ${s.minima.length - SEARCH_MINIMA_SHOWN} more` : '';
-  const start = s.reason === 'asked' ? 'given' : 'computed';
+  const start = s.reason === 'no_start' ? 'computed ' : s.reason === 'asked' ? 'given ' : '';
   const ending = s.lowerElsewhere
-    ? `; the fit from the ${start} starting values stopped higher, at SSR ${formatNumber(s.startSsr, 6)}`
+    ? `; the fit from the ${start}starting values stopped higher, at SSR ${formatNumber(s.startSsr, 6)}`
     : '; the fit from the starting values reached the lowest';
-  return `Search: ${s.points} starting points, ${s.refined} refined, ${s.minima.length} distinct minim${s.minima.length === 1 ? 'um' : 'a'} by SSR (${shown.join(', ')}${more})${ending}`;
+  const why = s.reason === 'check' && s.mark ? ` (run because ${s.mark})` : '';
+  return `Search${why}: ${s.points} starting points, ${s.refined} refined, ${s.minima.length} distinct minim${s.minima.length === 1 ? 'um' : 'a'} by SSR (${shown.join(', ')}${more})${ending}`;
 }
 
 export const PARAMETER_HEADERS = (level: number): string[] => ['parameter', 'estimate', 'std. error', `${formatLevel(level)} low`, `${formatLevel(level)} high`, 'unit', 'note'];
@@ -191,6 +192,9 @@ function interval(a: number | null, b: number | null, sig = 6): string {
 }
 
 /** One table per query, with the fit's level in the headings. */
+/** The cell of a query's number that is withheld because its fit did not converge. */
+const WITHHELD = 'withheld';
+
 export function queryBlocks(result: RunResult): QueryBlock[] {
   const fitOf = (name: string): FitResult | undefined => result.fits.find((f) => f.name === name);
   return result.queries.map((q: QueryResult): QueryBlock => {
@@ -200,9 +204,11 @@ export function queryBlocks(result: RunResult): QueryBlock[] {
       return {
         heading: `Predictions from ${label(q.fit, q.group)} at ${q.variable}`,
         headers: [q.variable, 'fitted', `${lv} confidence interval`, `${lv} prediction interval`],
-        rows: q.predictions.map((p) => [formatNumber(p.x, 6), formatNumber(p.fitted, 6), interval(...p.confidence), interval(...p.prediction)]),
+        rows: q.predictions.map((p) => q.withheld
+          ? [formatNumber(p.x, 6), WITHHELD, '', '']
+          : [formatNumber(p.x, 6), formatNumber(p.fitted, 6), interval(...p.confidence), interval(...p.prediction)]),
         align: ['right', 'right', 'right', 'right'],
-        notes: ['Confidence interval: where the mean response lies; prediction interval: where one new observation lies.'],
+        notes: [q.withheld ? q.withheld : 'Confidence interval: where the mean response lies; prediction interval: where one new observation lies.'],
       };
     }
     if (q.kind === 'invert') {
@@ -212,17 +218,20 @@ export function queryBlocks(result: RunResult): QueryBlock[] {
       return {
         heading: `Inverse predictions from ${label(q.fit, q.group)}: ${xName} from ${q.response}`,
         headers: [q.response, xName, `${lv} interval`, 'note'],
-        rows: q.inversions.map((v) => [formatNumber(v.response, 6), formatNumber(v.x, 6), interval(v.interval[0], v.interval[1]), v.message ?? '']),
+        rows: q.inversions.map((v) => q.withheld
+          ? [formatNumber(v.response, 6), WITHHELD, '', '']
+          : [formatNumber(v.response, 6), formatNumber(v.x, 6), interval(v.interval[0], v.interval[1]), v.message ?? '']),
         align: ['right', 'right', 'right', 'left'],
-        notes: ['Interval from inverting the prediction band (one new measurement of the response).'],
+        notes: [q.withheld ? q.withheld : 'Interval from inverting the prediction band (one new measurement of the response).'],
       };
     }
     const notes: string[] = [];
-    if (q.fTest) {
+    if (q.withheld) notes.push(q.withheld);
+    else if (q.fTest) {
       const t = q.fTest;
       notes.push(`Extra-sum-of-squares F test, ${t.simpler} inside ${t.richer}: F(${t.df1}, ${t.df2}) = ${formatNumber(t.f, 4)}, p = ${formatP(t.pValue)}.`);
     }
-    notes.push('Lowest AICc is preferred; the Akaike weight is the relative support among these fits.');
+    if (!q.withheld) notes.push('Lowest AICc is preferred; the Akaike weight is the relative support among these fits.');
     return {
       heading: `Comparison of ${q.fits.join(', ')}`,
       headers: ['fit', 'n', 'p', 'SSR', 'AICc', 'ΔAICc', 'Akaike weight'],

@@ -32,6 +32,22 @@ export function key(c: Canon): string {
   return JSON.stringify(c);
 }
 
+const forms = new WeakMap<Expr, Canon>();
+
+/**
+ * The canonical form of a whole model expression, computed once per expression object: the groups of a per-group
+ * fit share their plan's model (engine/run/fit.ts), so recognition, roles and the check read one form. Forms are
+ * never modified after they are built.
+ */
+export function canonicalForm(e: Expr): Canon {
+  let c = forms.get(e);
+  if (!c) {
+    c = canonical(e);
+    forms.set(e, c);
+  }
+  return c;
+}
+
 export function canonical(e: Expr): Canon {
   switch (e.kind) {
     case 'number':

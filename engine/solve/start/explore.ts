@@ -31,6 +31,18 @@
  *     converged one. `lowerElsewhere` says the search found a lower minimum
  *     than the one reached from the start.
  * Deterministic: the same data and options give the same points and result.
+ *
+ * Threads: the search runs in the fit's own thread. Only step 3 (the partial
+ * solves) could be split over worker threads, and it does not pay here:
+ * measured with benchmark 13 on 2 cores (2026-12-03), an engine worker takes
+ * 51 ms to start and answer (53–91 ms in an earlier run), while step 3 takes
+ * 217 ms of a 298 ms search (two peaks on a baseline, n = 250), 12 of 15 ms
+ * (4-parameter logistic, n = 36) and 212 of 409 ms (the same, n = 1e5); at
+ * best (1 − 1/2) of step 3 minus the start-up is saved, 19 % of the slowest
+ * search (28 % in the earlier run) and nothing on small fits or on the
+ * check's 16-point searches (check.ts, a few ms), and it would need an
+ * asynchronous fit path. Per-group fits already spread their groups, and so
+ * their retries' searches, over threads (engine/parallel).
  */
 import type { LeastSquaresProblem } from '../problem';
 import type { SolveOptions, SolveOutcome } from '../types';
@@ -41,7 +53,7 @@ import { MAX_START_ROWS, thinned } from './guess';
 import { parameterRoles } from './roles';
 import { boxValue, searchBox, type BoxSide } from './box';
 import { sobolPoints, SOBOL_MAX_DIMENSION } from './sobol';
-import { reducedProblem } from './reduced';
+import { reducedProblem, type ReducedProblem } from './reduced';
 import { addMinimum, isLower, responseScale, type Minimum } from './minima';
 
 /** LM iterations of a partial solve. */
@@ -72,6 +84,8 @@ export interface ExploreInput {
   /** Design points; undefined: `defaultPoints`. */
   points?: number;
   refine?: number;
+  /** The fit from the start when it has run already (the check, check.ts); step 1 then reuses it. */
+  fromStart?: SolveOutcome;
   /** Solver for the fit from the start and the full refinements (default Levenberg–Marquardt). */
   solve?: (problem: LeastSquaresProblem, theta0: Float64Array, options: SolveOptions) => SolveOutcome;
   options?: SolveOptions;
@@ -96,9 +110,11 @@ export interface ExploreOutcome {
   /** Solver work of the whole phase. */
   iterations: number;
   evaluations: number;
+  /** Set by the run when the check of a fit from given starts (check.ts) ran the search: why. */
+  mark?: string;
 }
 
-const ssrOf = (o: SolveOutcome) => (Number.isFinite(o.cost) ? 2 * o.cost : Infinity);
+export const ssrOf = (o: SolveOutcome) => (Number.isFinite(o.cost) ? 2 * o.cost : Infinity);
 
 export function explore(input: ExploreInput): ExploreOutcome {
   const solve = input.solve ?? solveNonlinear;
@@ -115,7 +131,7 @@ export function explore(input: ExploreInput): ExploreOutcome {
     return o;
   };
 
-  const fromStart = count(solve(input.problem, input.theta0, options));
+  const fromStart = input.fromStart ?? count(solve(input.problem, input.theta0, options));
   const minima: Minimum[] = [];
   addMinimum(minima, { ssr: ssrOf(fromStart), theta: fromStart.theta, converged: fromStart.stop.converged, fromStart: true }, scale);
   const finish = (best: SolveOutcome, extra: Partial<ExploreOutcome>): ExploreOutcome => ({
@@ -138,44 +154,91 @@ export function explore(input: ExploreInput): ExploreOutcome {
   if (nonlinear.length === 0) return finish(fromStart, { skipped: 'the model is linear in its parameters' });
   if (nonlinear.length > SOBOL_MAX_DIMENSION) return finish(fromStart, { skipped: `more than ${SOBOL_MAX_DIMENSION} nonlinear parameters` });
 
-  const sample = thinned(fullInput, MAX_START_ROWS);
-  const roles = fullInput.structure ? parameterRoles(fullInput.structure.expr, fullInput.structure.columns, sample.cols, sample.n) : new Map();
-  const box = nonlinear.map((j) => searchBox(parameters[j], input.theta0[j], roles.get(parameters[j].name)));
-  const count0 = input.points ?? defaultPoints(nonlinear.length);
-  const design = sobolPoints(nonlinear.length, count0).map((u) => Float64Array.from(u, (v, k) => boxValue(box[k], shifted(v, k))));
-  const reduced = reducedProblem(sample, input.theta0, linear, nonlinear);
-  const partialSample = thinned(fullInput, MAX_PARTIAL_ROWS);
-  const partialReduced = partialSample === sample ? reduced : reducedProblem(partialSample, input.theta0, linear, nonlinear);
+  const d = searchDesign(input, linear, nonlinear, input.points ?? defaultPoints(nonlinear.length));
   const alpha0 = Float64Array.from(nonlinear, (j) => input.theta0[j]);
-  const candidates = [alpha0, Float64Array.from(nonlinear, (j) => fromStart.theta[j]), ...design];
+  const candidates = [alpha0, Float64Array.from(nonlinear, (j) => fromStart.theta[j]), ...d.design];
 
   // 3. partial solves
   const partial: { ssr: number; alpha: Float64Array }[] = [];
   const partialOptions: SolveOptions = { maxIterations: PARTIAL_ITERATIONS, maxEvaluations: PARTIAL_EVALUATIONS, polish: false, cancel };
   for (const a of candidates) {
     if (cancel?.cancelled) break;
-    const o = count(solveNonlinear(partialReduced, a, partialOptions));
+    const o = count(solveNonlinear(d.partialReduced, a, partialOptions));
     const s = ssrOf(o);
     if (Number.isFinite(s) && o.theta.every(Number.isFinite)) partial.push({ ssr: s, alpha: Float64Array.from(o.theta) });
   }
   partial.sort((a, b) => a.ssr - b.ssr);
 
   // 4. the best few in distinct basins, refined
+  const chosen = distinctBasins(partial, input.refine ?? DEFAULT_REFINE);
+  const { best, refined } = refineCandidates(input, d, chosen, fromStart, minima, count);
+  return finish(best, { box: d.box, points: candidates.length, partial: partial.length, refined });
+}
+
+/** The design of a search or check: box, Sobol' points, and the reduced problems on the sampled rows (module comment, step 2). */
+export interface SearchDesign {
+  box: BoxSide[];
+  design: Float64Array[];
+  /** Rows of the refinement's reduced problem (at most MAX_START_ROWS) and the problem on them. */
+  sample: StartInput;
+  reduced: ReducedProblem;
+  /** At most MAX_PARTIAL_ROWS rows (partial solves, the check's screening) and the reduced problem on them. */
+  partialSample: StartInput;
+  partialReduced: ReducedProblem;
+  linear: readonly number[];
+  nonlinear: readonly number[];
+}
+
+export function searchDesign(input: ExploreInput, linear: readonly number[], nonlinear: readonly number[], points: number): SearchDesign {
+  const fullInput = input.start;
+  const sample = thinned(fullInput, MAX_START_ROWS);
+  const roles = fullInput.structure ? parameterRoles(fullInput.structure.expr, fullInput.structure.columns, sample.cols, sample.n) : new Map();
+  const box = nonlinear.map((j) => searchBox(fullInput.parameters[j], input.theta0[j], roles.get(fullInput.parameters[j].name)));
+  const design = sobolPoints(nonlinear.length, points).map((u) => Float64Array.from(u, (v, k) => boxValue(box[k], shifted(v, k))));
+  const reduced = reducedProblem(sample, input.theta0, linear, nonlinear);
+  const partialSample = thinned(fullInput, MAX_PARTIAL_ROWS);
+  const partialReduced = partialSample === sample ? reduced : reducedProblem(partialSample, input.theta0, linear, nonlinear);
+  return { box, design, sample, reduced, partialSample, partialReduced, linear, nonlinear };
+}
+
+/** Up to `count` points of `ranked` (lowest SSR first) in distinct basins (BASIN_RTOL). */
+export function distinctBasins(ranked: readonly { alpha: Float64Array }[], count: number): Float64Array[] {
   const chosen: Float64Array[] = [];
-  const refineCount = input.refine ?? DEFAULT_REFINE;
-  for (const c of partial) {
-    if (chosen.length >= refineCount) break;
+  for (const c of ranked) {
+    if (chosen.length >= count) break;
     if (chosen.some((a) => sameBasin(a, c.alpha))) continue;
     chosen.push(c.alpha);
   }
+  return chosen;
+}
+
+/**
+ * Steps 4 and 5 for the chosen points: the reduced problem solved to convergence, then the full problem from the
+ * point reached (with more rows than the sample: only the best by full SSR, and only when lower than the fit from
+ * the start); each end point is merged into `minima`. Returns the lowest converged end point (the fit from the start
+ * when none is lower) and the number of full refinements.
+ */
+export function refineCandidates(
+  input: ExploreInput,
+  d: SearchDesign,
+  chosen: readonly Float64Array[],
+  fromStart: SolveOutcome,
+  minima: Minimum[],
+  count: (o: SolveOutcome) => SolveOutcome,
+): { best: SolveOutcome; refined: number } {
+  const solve = input.solve ?? solveNonlinear;
+  const options = input.options ?? {};
+  const cancel = options.cancel;
+  const { parameters } = input.start;
+  const scale = responseScale(input.start.y, input.start.sqrtW);
   let best = fromStart;
   let refined = 0;
-  const sampled = sample.n < fullInput.n;
+  const sampled = d.sample.n < input.start.n;
   const starts: { r: SolveOutcome; theta: Float64Array; ssr: number }[] = [];
   for (const a of chosen) {
     if (cancel?.cancelled) break;
-    const r = count(solveNonlinear(reduced, a, { cancel }));
-    const theta = reduced.fullTheta(r.theta.every(Number.isFinite) ? r.theta : a);
+    const r = count(solveNonlinear(d.reduced, a, { cancel }));
+    const theta = d.reduced.fullTheta(r.theta.every(Number.isFinite) ? r.theta : a);
     for (let j = 0; j < theta.length; j++) theta[j] = Math.min(parameters[j].upper, Math.max(parameters[j].lower, theta[j]));
     starts.push({ r, theta, ssr: sampled ? fullSsr(input.problem, theta) : 0 });
   }
@@ -196,7 +259,7 @@ export function explore(input: ExploreInput): ExploreOutcome {
     // the lowest converged end point is reported (among ends at one minimum, the most accurate one)
     if (o.stop.converged && (!best.stop.converged || ssrOf(o) < ssrOf(best))) best = o;
   }
-  return finish(best, { box, points: candidates.length, partial: partial.length, refined });
+  return { best, refined };
 }
 
 /**

@@ -12,3 +12,4 @@ export { explore, defaultPoints, type ExploreInput, type ExploreOutcome } from '
 export { sobolPoints, SOBOL_MAX_DIMENSION } from './sobol';
 export { searchBox, boxValue, BOX_FACTOR, type BoxSide } from './box';
 export { sameMinimum, isLower, SAME_SSR_RTOL, LOWER_RTOL, SSR_FLOOR, type Minimum } from './minima';
+export { checkMark, CHECK_POINTS, CHECK_REFINE } from './check';

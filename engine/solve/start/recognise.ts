@@ -17,7 +17,7 @@
  * are then re-solved exactly for the recognised nonlinear ones
  * (separable.ts) when that lowers the SSR.
  */
-import { canonical, evaluate } from './canonical';
+import { canonicalForm, evaluate } from './canonical';
 import { call, K, matchPattern, P, pow, prod, sum, X, type Binding, type Pat } from './match';
 import { linearSet, SeparableSolver } from './separable';
 import type { StartInput } from './types';
@@ -160,7 +160,7 @@ export interface Recognised {
 /** The family a model has the structure of, with its bindings (null when none). */
 export function recogniseShape(input: Pick<StartInput, 'structure'>): { shape: Shape; binding: Binding } | null {
   if (!input.structure) return null;
-  const form = canonical(input.structure.expr);
+  const form = canonicalForm(input.structure.expr);
   for (const shape of SHAPES) {
     const binding = matchPattern(shape.pattern, form);
     if (binding && binding.x) return { shape, binding };

@@ -11,7 +11,7 @@ import { describe, expect, it } from 'vitest';
 import schema from '../../../engine/result.schema.json';
 import type { FitResult, RunResult } from '../../../engine/result';
 import { resultToJsonValue } from '../../../engine/run/json';
-import { fitTextLines } from '../../../engine/front/views/text';
+import { fitTextLines, runText } from '../../../engine/front/views/text';
 import { markdownReport } from '../../../engine/front/views/markdown';
 import { chartSpecs } from '../../../engine/front/views/charts';
 import { fitStatus, goodnessEntries } from '../../../engine/front/views/summary';
@@ -137,5 +137,70 @@ describe('views: fits that are not a result', async () => {
     const ok = buildPanelModel(good.run, { specUri: 'file:///x.lsq', specName: 'x.lsq' }).fits[0];
     expect(ok.notFitted).toBeNull();
     expect(ok.keyStats.map((k) => k.label)).toEqual(['n', 'dof', 'RMSE', 'R²', 'AICc']);
+  });
+
+  describe('queries, derived quantities and expectations that read it', async () => {
+    const queries = `predict decay at t = 100, 300
+invert decay at y = 20
+compare decay, other
+derive life = ln(2) / decay.k
+expect decay.k within 0 .. 1
+expect decay.n above 3
+expect life above 0
+`;
+    const other = 'fit other on d {\n  model y = a * exp(-k * t)\n  param a = 40\n  param k = 0.004 in [0, inf]\n}\n';
+    const bad = (await runSpec(spec('iterations 2') + other + queries, dir)).result;
+    const ok = (await runSpec(spec('') + other + queries, dir)).result;
+
+    it('engine: predictions and inverse predictions are withheld, listed with null numbers; the comparison too; JSON validates', () => {
+      const [pr, inv, cmp] = bad.queries;
+      expect(pr).toMatchObject({ kind: 'predict', withheld: expect.stringMatching(/^Withheld: fit decay did not converge \(max_iterations\)/) });
+      if (pr.kind !== 'predict' || inv.kind !== 'invert' || cmp.kind !== 'compare') throw new Error('query kinds');
+      expect(pr.predictions.map((p) => p.x)).toEqual([100, 300]);
+      for (const p of pr.predictions) expect([p.fitted, ...p.confidence, ...p.prediction].every(Number.isNaN)).toBe(true);
+      expect(inv.withheld).toMatch(/inverse predictions/);
+      expect(inv.inversions).toEqual([{ response: 20, x: null, interval: [null, null] }]);
+      expect(cmp.rows).toEqual([]);
+      expect(cmp.withheld).toMatch(/^Withheld: fit decay did not converge/);
+      expect(validate(resultToJsonValue(bad)), JSON.stringify(validate.errors)).toBe(true);
+      // the converged fit answers as before
+      const [p2, i2, c2] = ok.queries;
+      if (p2.kind !== 'predict' || i2.kind !== 'invert' || c2.kind !== 'compare') throw new Error('query kinds');
+      expect(p2.withheld).toBeUndefined();
+      expect(p2.predictions.every((p) => Number.isFinite(p.fitted) && p.confidence.every(Number.isFinite))).toBe(true);
+      expect(i2.inversions[0].x).not.toBeNull();
+      expect(c2.rows).toHaveLength(2);
+    });
+
+    it('engine: a derived quantity of it has no value; expectations on its values fail, on its counts still hold', () => {
+      const life = bad.derived!.find((d) => d.name === 'life')!;
+      expect(life).toMatchObject({ value: null, stderr: null, note: 'withheld: fit decay did not converge, so its values are not estimates.' });
+      const [k, n, l] = bad.expectations;
+      expect(k).toMatchObject({ passed: false, actual: null, message: 'decay.k: not checked, fit decay did not converge (max_iterations); its values are not estimates' });
+      expect(n).toMatchObject({ passed: true, actual: 15 });
+      expect(l.passed).toBe(false);
+      expect(ok.expectations.every((e) => e.passed)).toBe(true);
+      expect(ok.derived!.find((d) => d.name === 'life')!.value).toBeCloseTo(Math.log(2) / ok.fits[0].parameters[1].estimate, 12);
+    });
+
+    it('text, Markdown and panel: "withheld" in place of the numbers, and the reason under the table', () => {
+      const text = runText(bad);
+      expect(text).toMatch(/^\s+100\s+withheld\s*$/m);
+      expect(text).toMatch(/^\s+20\s+withheld\s*$/m);
+      expect(text).toContain('Withheld: fit decay did not converge (max_iterations), so its predictions would come from values that are not estimates.');
+      expect(text).toContain('Withheld: fit decay did not converge (max_iterations), so its sums of squares and information criteria would come from values that are not estimates.');
+      expect(text).not.toContain('Lowest AICc is preferred');
+      const md = markdownReport(bad);
+      expect(md).toContain('| 100 | withheld |  |  |');
+      expect(md).toContain('Withheld: fit decay did not converge (max_iterations), so its inverse predictions');
+      const m = buildPanelModel(bad, { specUri: 'file:///x.lsq', specName: 'x.lsq' });
+      const blocks = m.queries.filter((b) => b.heading.startsWith('Predictions') || b.heading.startsWith('Inverse'));
+      expect(blocks).toHaveLength(2);
+      for (const b of blocks) {
+        expect(b.rows.every((r) => r[1] === 'withheld')).toBe(true);
+        expect(b.notes[0]).toMatch(/^Withheld: fit decay did not converge/);
+      }
+      expect(runText(ok)).not.toContain('withheld');
+    });
   });
 });

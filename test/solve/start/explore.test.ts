@@ -91,18 +91,18 @@ describe('solve/start/box', () => {
   it('spans the bounds, a location over the data, and two decades around an open guess', () => {
     expect(searchBox(open('k', { lower: 0.01, upper: 100 }), 1, undefined)).toMatchObject({ lower: 0.01, upper: 100, scale: 'log' });
     expect(searchBox(open('m', { lower: -1, upper: 1 }), 0, undefined)).toMatchObject({ lower: -1, upper: 1, scale: 'linear' });
-    expect(searchBox(open('c'), 5, { kind: 'location', min: 10, max: 90 })).toMatchObject({ lower: 10, upper: 90, scale: 'linear' });
+    expect(searchBox(open('c'), 5, { kind: 'location', min: 10, max: 90, transformed: true })).toMatchObject({ lower: 10, upper: 90, scale: 'linear' });
     const g = searchBox(open('q'), -3, undefined);
     expect(g).toMatchObject({ lower: -3 * BOX_FACTOR, upper: -3 / BOX_FACTOR, scale: 'log' });
     const b = searchBox(open('tau', { lower: 2 }), 12, undefined);
     expect(boxValue(b, 0)).toBeCloseTo(2 + 10 / BOX_FACTOR, 12);
     expect(boxValue(b, 0.5)).toBeCloseTo(2 + 10, 10);
-    const decay = { kind: 'scale' as const, spread: 60, spacing: 2, smallest: 2, periodic: false };
+    const decay = { kind: 'scale' as const, spread: 60, spacing: 2, smallest: 2, periodic: false, inverse: false, unit: true, transformed: true };
     expect(searchBox(open('tau', { lower: 0 }), 1, decay)).toMatchObject({ lower: 0.2, upper: 600, scale: 'log' });
     // a period: not below twice the spacing (shorter ones are aliases)
     expect(searchBox(open('p'), 30, { ...decay, periodic: true })).toMatchObject({ lower: 4, upper: 600, scale: 'log' });
     // a potency bounded in [0, 1000] on doses from 0.001: searched by decades down to a tenth of the lowest dose
-    expect(searchBox(open('ec', { lower: 0, upper: 1000 }), 1, { kind: 'scale', spread: 20, spacing: 0.001, smallest: 0.001, periodic: false })).toMatchObject({ lower: 1e-4, upper: 200, scale: 'log' });
+    expect(searchBox(open('ec', { lower: 0, upper: 1000 }), 1, { kind: 'scale', spread: 20, spacing: 0.001, smallest: 0.001, periodic: false, inverse: false, unit: true, transformed: true })).toMatchObject({ lower: 1e-4, upper: 200, scale: 'log' });
   });
 
   it('reads roles from the model structure: location, scale, rate, periodic', () => {
