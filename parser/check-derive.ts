@@ -4,7 +4,7 @@
  *
  * The expression has the grammar of a model but reads numbers that exist
  * after fitting: `FIT.PARAM` (an estimate) and `FIT.STAT` (a statistic, see
- * plan.ts STATISTICS), constants, `pi`/`e`, and derived quantities declared
+ * registry/statistics.ts), constants, `pi`/`e`, and derived quantities declared
  * above. Columns and bare parameters are not allowed. Like every name in a
  * spec, a fit or derived quantity must be declared above the line that uses it.
  * The name of a derived quantity must differ from every constant, data, fit
@@ -12,13 +12,13 @@
  * derive expressions, where those names also appear).
  */
 import type { DeriveAst, NameAst } from './ast';
-import { STATISTICS, type DerivedPlan, type Expr, type Range, type StatisticName } from './plan';
+import type { DerivedPlan, Expr, Range } from './plan';
+import { STATISTICS, isStatisticName as isStatistic } from './registry/statistics';
 import { BUILTIN_CONSTANTS, isBuiltinConstant, type Env } from './check-env';
 import { newUse, resolveExpr, type DeriveHooks, type ExprScope, type ExprUse } from './check-expr';
 import { lookupFit } from './check-queries';
 import { MSG } from './messages';
 
-const isStatistic = (s: string): s is StatisticName => (STATISTICS as readonly string[]).includes(s);
 
 function addFit(fits: string[], name: string): void {
   if (!fits.includes(name)) fits.push(name);

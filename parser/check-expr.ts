@@ -11,7 +11,8 @@
  * first argument of `when`; everywhere else expressions are numbers.
  */
 import type { ExprAst, NameAst, ValueAst } from './ast';
-import { FUNCTIONS, isFunctionName, type Expr, type Range } from './plan';
+import type { Expr, Range } from './plan';
+import { FUNCTIONS, FUNCTION_HINTS, FUNCTION_NAMES, isFunctionName } from './registry/functions';
 import { BUILTIN_CONSTANT_NAMES, BUILTIN_CONSTANTS, isBuiltinConstant, type Env } from './check-env';
 import { MSG } from './messages';
 
@@ -129,15 +130,11 @@ function resolveName(env: Env, name: string, quoted: boolean, range: Range, scop
   return { kind: 'column', name, range };
 }
 
-/** Common spellings from other notations whose edit distance is too large for `suggest`. */
-const FUNCTION_HINTS: Readonly<Record<string, string[]>> = {
-  log: ['ln', 'log10'], if: ['when'], arcsin: ['asin'], arccos: ['acos'], arctan: ['atan'], power: ['pow'],
-};
-
 function resolveCall(env: Env, ast: Extract<ExprAst, { kind: 'call' }>, scope: ExprScope, use: ExprUse): Expr {
   const { fn, args, range } = ast;
   if (!isFunctionName(fn)) {
-    const hint = Object.prototype.hasOwnProperty.call(FUNCTION_HINTS, fn) ? FUNCTION_HINTS[fn] : env.suggester.suggest(fn, Object.keys(FUNCTIONS));
+    // common spellings of other notations (registry `hints`) whose edit distance is too large for `suggest`
+    const hint = FUNCTION_HINTS.get(fn) ?? env.suggester.suggest(fn, FUNCTION_NAMES);
     env.r.report('unknown-function', MSG.unknownFunction(fn), ast.fnRange, hint);
     for (const a of args) resolveExpr(env, a, 'number', scope, use);
     return { kind: 'number', value: 0, range };

@@ -3,7 +3,8 @@
  * value checks and the defaults documented on `FitOptions` in plan.ts.
  */
 import type { FitAst, FitItemAst, NumericOptionAst, NumericOptionKind } from './ast';
-import { LOSSES, MAX_EXPLORE, METHODS, type FitOptions, type LossKind, type Method } from './plan';
+import type { FitOptions } from './plan';
+import { LOSSES, MAX_EXPLORE, METHODS, RENAMED_LOSSES, isLoss, isMethod } from './registry';
 import type { Env } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
@@ -25,14 +26,16 @@ export function checkOptions(env: Env, fit: FitAst, dataName: string, columns: R
   const method = once('method', 'method');
   if (method?.value) {
     const v = method.value.name;
-    if ((METHODS as readonly string[]).includes(v)) options.method = v as Method;
+    if (isMethod(v)) options.method = v;
     else r.report('unknown-option', MSG.unknownOption('method', v, METHODS), method.value.range, env.suggester.suggest(v, METHODS));
   }
 
   const loss = once('loss', 'loss');
   if (loss?.value) {
     const v = loss.value.name;
-    if ((LOSSES as readonly string[]).includes(v)) options.loss = v as LossKind;
+    const renamed = Object.prototype.hasOwnProperty.call(RENAMED_LOSSES, v) ? RENAMED_LOSSES[v] : undefined;
+    if (isLoss(v)) options.loss = v;
+    else if (renamed) r.report('unknown-option', MSG.renamedOption('loss', v, renamed), loss.value.range, [renamed]);
     else r.report('unknown-option', MSG.unknownOption('loss', v, LOSSES), loss.value.range, env.suggester.suggest(v, LOSSES));
   }
   if (loss?.scale) {
@@ -69,7 +72,7 @@ export function checkOptions(env: Env, fit: FitAst, dataName: string, columns: R
     const v = resolveValue(env, rate.value, { allowInf: false });
     if (v !== undefined && !(v > 0)) r.report('not-positive', MSG.notPositive('rate', v), rate.value.range);
     else if (v !== undefined) options.learningRate = v;
-    const methodUnreadable = method?.value !== undefined && !(METHODS as readonly string[]).includes(method.value.name);
+    const methodUnreadable = method?.value !== undefined && !isMethod(method.value.name);
     if (options.method !== 'gradient_descent' && !methodUnreadable) {
       r.report('option-ignored', MSG.rateIgnored, rate.range);
     }

@@ -5,7 +5,8 @@
  * lod below 0.1`, `expect lod.se below 0.01`).
  */
 import type { CompareAst, ExpectAst, NameAst, PredictAst, ValueAst } from './ast';
-import { STATISTICS, type Bound, type Expectation, type ExpectTarget, type Query, type StatisticName } from './plan';
+import type { Bound, Expectation, ExpectTarget, Query } from './plan';
+import { STATISTICS, isStatisticName as isStatistic } from './registry/statistics';
 import type { Env, FitInfo } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
@@ -87,7 +88,6 @@ export function checkCompare(env: Env, c: CompareAst): Query {
   return { kind: 'compare', fits: names, range: c.range };
 }
 
-const isStatistic = (s: string): s is StatisticName => (STATISTICS as readonly string[]).includes(s);
 
 /** True when the first name of `expect` is (meant as) a derived quantity rather than a fit. */
 function namesDerived(env: Env, x: ExpectAst): boolean {

@@ -6,6 +6,7 @@
  */
 import type { Severity } from './plan';
 import { inlineText } from './printable';
+import { LOSSES } from './registry/losses';
 
 export const CODES = {
   syntax: 'error',
@@ -98,6 +99,7 @@ export const MSG = {
   fixedWithoutValue: (name: string) => `fixed parameter ${q(name)} needs a value: param ${name} = VALUE fixed`,
   unknownOption: (what: string, value: string, allowed: readonly string[]) =>
     `unknown ${what} ${q(value)}; choose one of ${list(allowed)}`,
+  renamedOption: (what: string, value: string, now: string) => `${what} ${q(value)} is now called ${q(now)}`,
   levelRange: (v: number) => `confidence level ${v} must lie strictly between 0 and 1 (e.g. 0.95)`,
   notPositive: (what: string, v: number) => `${what} must be greater than 0, not ${v}`,
   notInteger: (what: string, v: number) => `${what} must be a whole number, not ${v}`,
@@ -144,7 +146,7 @@ export const MSG = {
   compareRepeated: (name: string) => `fit ${q(name)} is listed twice`,
   unusedParameter: (name: string) => `parameter ${q(name)} is declared but the model does not use it`,
   unusedData: (name: string) => `data ${q(name)} is not used by any fit`,
-  scaleIgnored: 'scale only matters for a robust loss (huber, soft_l1, cauchy); it is ignored with squared',
+  scaleIgnored: `scale only matters for a robust loss (${LOSSES.filter((l) => l !== 'squared').join(', ')}); it is ignored with squared`,
   rateIgnored: 'rate only matters for method gradient_descent; it is ignored here',
   exploreRange: (v: number, max: number) => `explore must be a whole number from 0 (no search) to ${max}, not ${v}`,
   exploreIgnored: 'explore only matters for the Levenberg–Marquardt solver (method auto or levenberg_marquardt); it is ignored here',
