@@ -4,12 +4,24 @@
  */
 import type { FitAst, FitItemAst, NumericOptionAst, NumericOptionKind } from './ast';
 import type { FitOptions } from './plan';
-import { LOSSES, MAX_EXPLORE, METHODS, RENAMED_LOSSES, isLoss, isMethod } from './registry';
+import { LOSSES, MAX_EXPLORE, METHODS, RENAMED_LOSSES, isLoss, isMethod, type KeywordName } from './registry';
 import type { Env } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
 
 type Item<K extends FitItemAst['kind']> = K extends NumericOptionKind ? NumericOptionAst : Extract<FitItemAst, { kind: K }>;
+
+/** The keyword that sets each field of `FitOptions` (`lossScale` is the `scale` part of `loss`): a field without its keyword does not compile. */
+export const OPTION_KEYWORD: Readonly<Record<keyof FitOptions, KeywordName>> = {
+  method: 'method',
+  loss: 'loss',
+  lossScale: 'scale',
+  level: 'level',
+  maxIterations: 'iterations',
+  tolerance: 'tolerance',
+  learningRate: 'rate',
+  explore: 'explore',
+};
 
 /** Default options (plan.ts FitOptions docs). */
 export const DEFAULT_OPTIONS: Readonly<FitOptions> = { method: 'auto', loss: 'squared', lossScale: 1, level: 0.95 };

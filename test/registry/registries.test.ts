@@ -7,11 +7,11 @@
 import { describe, expect, it } from 'vitest';
 import type { TokenType } from 'chevrotain';
 import {
-  FIT_OPTION_SPECS, KEYWORD_NAMES, KEYWORD_SPECS, LINE_START_ROLES, OPTION_KEYWORD, RESERVED_ROLES, RENAMED_LOSSES,
+  FIT_OPTION_SPECS, KEYWORD_NAMES, KEYWORD_SPECS, LINE_START_ROLES, RESERVED_ROLES, RENAMED_LOSSES,
   LOSSES, METHODS, FUNCTION_NAMES, FUNCTION_HINTS, STATISTICS, keywordsWithRole, isKeyword,
 } from '../../parser/registry';
 import { KEYWORD_TOKENS, KEYWORDS, LINE_START_KEYWORDS, Name, RESERVED_WORDS, keywordOf } from '../../parser/tokens';
-import { DEFAULT_OPTIONS } from '../../parser/check-options';
+import { DEFAULT_OPTIONS, OPTION_KEYWORD } from '../../parser/check-options';
 import { FIT_BODY_KEYWORDS, STATEMENT_KEYWORDS } from '../../extension/logic/completion';
 import { keywordDoc, statisticDoc, functionDoc } from '../../extension/logic/function-docs';
 
@@ -56,6 +56,11 @@ describe('parser/registry: fit options and names of other notations', () => {
   it('every fit option is a fit-item keyword, every plan option field has its keyword, and the defaults name registry values', () => {
     for (const k of Object.keys(FIT_OPTION_SPECS)) expect(isKeyword(k) && KEYWORD_SPECS[k].role, k).toBe('fit_item');
     for (const k of Object.values(OPTION_KEYWORD)) expect(isKeyword(k), k).toBe(true);
+    // each option's plan field is a field of FitOptions (and then set by that keyword), of a fit block, or the fit's groupBy
+    for (const [k, o] of Object.entries(FIT_OPTION_SPECS)) {
+      if (o.field in OPTION_KEYWORD) expect(OPTION_KEYWORD[o.field as keyof typeof OPTION_KEYWORD], k).toBe(k);
+      else expect(['sigma', 'weight', 'groupBy'], k).toContain(o.field);
+    }
     expect(METHODS).toContain(DEFAULT_OPTIONS.method);
     expect(LOSSES).toContain(DEFAULT_OPTIONS.loss);
     // every fit item but model and param is an option of the table
