@@ -23,6 +23,12 @@ export type StopCode =
   | 'cancelled'
   | 'failed';          // could not start (e.g. n < p, no rows, an invalid option)
 
+/** Every stop code, for checks over all of them (a code added to `StopCode` without its entry here does not compile). */
+export const STOP_CODES: readonly StopCode[] = Object.freeze(Object.keys({
+  exact: 1, small_reduction: 1, small_step: 1, small_gradient: 1, max_iterations: 1, max_evaluations: 1,
+  stagnated: 1, non_finite: 1, cancelled: 1, failed: 1,
+} satisfies Record<StopCode, 1>) as StopCode[]);
+
 export interface StopReason {
   code: StopCode;
   message: string;
@@ -92,6 +98,13 @@ export type WarningCode =
   | 'lower_minimum'
   /** A group of a per-group fit failed from the shared start and was fitted again from its own start. */
   | 'retried_start';
+
+/** Every warning code (a code added to `WarningCode` without its entry here does not compile). */
+export const WARNING_CODES: readonly WarningCode[] = Object.freeze(Object.keys({
+  at_bound: 1, high_correlation: 1, ill_conditioned: 1, few_dof: 1, no_convergence: 1, residual_pattern: 1,
+  non_normal_residuals: 1, r2_nonlinear: 1, rows_dropped: 1, rank_deficient: 1, guessed_start: 1, lower_minimum: 1,
+  retried_start: 1,
+} satisfies Record<WarningCode, 1>) as WarningCode[]);
 
 export interface FitWarning {
   code: WarningCode;

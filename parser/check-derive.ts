@@ -4,7 +4,7 @@
  *
  * The expression has the grammar of a model but reads numbers that exist
  * after fitting: `FIT.PARAM` (an estimate) and `FIT.STAT` (a statistic, see
- * plan.ts STATISTICS), constants, `pi`/`e`, and derived quantities declared
+ * registry/statistics.ts), constants, `pi`/`e`, and derived quantities declared
  * above. Columns and bare parameters are not allowed. Like every name in a
  * spec, a fit or derived quantity must be declared above the line that uses it.
  * The name of a derived quantity must differ from every constant, data, fit
@@ -12,13 +12,13 @@
  * derive expressions, where those names also appear).
  */
 import type { DeriveAst, NameAst } from './ast';
-import { STATISTICS, type DerivedPlan, type Expr, type Range, type StatisticName } from './plan';
+import type { DerivedPlan, Expr, Range } from './plan';
+import { STATISTICS, isStatisticName as isStatistic } from './registry/statistics';
 import { BUILTIN_CONSTANTS, isBuiltinConstant, type Env } from './check-env';
 import { newUse, resolveExpr, type DeriveHooks, type ExprScope, type ExprUse } from './check-expr';
 import { lookupFit } from './check-queries';
 import { MSG } from './messages';
 
-const isStatistic = (s: string): s is StatisticName => (STATISTICS as readonly string[]).includes(s);
 
 function addFit(fits: string[], name: string): void {
   if (!fits.includes(name)) fits.push(name);
@@ -31,7 +31,7 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
     name(name: string, quoted: boolean, range: Range, use: ExprUse): Expr {
       const zero: Expr = { kind: 'number', value: 0, range };
       if (quoted) {
-        env.r.report('column-in-derive', MSG.columnInDerive(name), range);
+        env.r.report('column_in_derive', MSG.columnInDerive(name), range);
         use.broken = true;
         return zero;
       }
@@ -45,19 +45,19 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
       }
       use.broken = true;
       if (name === self) {
-        env.r.report('undefined-name', MSG.selfReference(name), range);
+        env.r.report('undefined_name', MSG.selfReference(name), range);
         return zero;
       }
       const later = env.declared.derive.get(name) ?? env.declared.const.get(name);
       if (later !== undefined && later > range.start.line) {
-        env.r.report('declared-later', MSG.declaredLater(env.declared.derive.has(name) ? 'derived quantity' : 'constant', name, later), range);
+        env.r.report('declared_later', MSG.declaredLater(env.declared.derive.has(name) ? 'derived quantity' : 'constant', name, later), range);
       } else if (env.fits.has(name) || env.declared.fit.has(name)) {
-        env.r.report('unknown-target', MSG.fitNeedsMember(name), range);
+        env.r.report('unknown_target', MSG.fitNeedsMember(name), range);
       } else if (isColumn(name)) {
-        env.r.report('column-in-derive', MSG.columnInDerive(name), range);
+        env.r.report('column_in_derive', MSG.columnInDerive(name), range);
       } else {
         const candidates = [...env.consts.keys(), ...env.derived.keys(), ...Object.keys(BUILTIN_CONSTANTS)];
-        env.r.report('undefined-name', MSG.notDeriveName(name), range, env.suggester.suggest(name, candidates));
+        env.r.report('undefined_name', MSG.notDeriveName(name), range, env.suggester.suggest(name, candidates));
       }
       return zero;
     },
@@ -65,14 +65,14 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
     dotted(head: NameAst, members: NameAst[], range: Range, use: ExprUse): Expr {
       const zero: Expr = { kind: 'number', value: 0, range };
       if (env.derived.has(head.name) || (!env.fits.has(head.name) && env.declared.derive.has(head.name) && !env.declared.fit.has(head.name))) {
-        env.r.report('unknown-target', MSG.derivedNotFit(head.name), head.range);
+        env.r.report('unknown_target', MSG.derivedNotFit(head.name), head.range);
         use.broken = true;
         return zero;
       }
       const fit = lookupFit(env, head);
       const [member, extra] = members;
       if (extra) {
-        env.r.report('unknown-target', extra.name === 'se' ? MSG.seInDerive : MSG.derivePathTooLong, extra.range);
+        env.r.report('unknown_target', extra.name === 'se' ? MSG.seInDerive : MSG.derivePathTooLong, extra.range);
         use.broken = true;
         return zero;
       }
@@ -83,7 +83,7 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
       addFit(fits, fit.plan.name);
       if (fit.params.includes(member.name)) return { kind: 'result', fit: fit.plan.name, of: 'estimate', name: member.name, range };
       if (isStatistic(member.name)) return { kind: 'result', fit: fit.plan.name, of: 'statistic', name: member.name, range };
-      env.r.report('unknown-target', MSG.unknownTarget(member.name, fit.plan.name), member.range, env.suggester.suggest(member.name, [...fit.params, ...STATISTICS]));
+      env.r.report('unknown_target', MSG.unknownTarget(member.name, fit.plan.name), member.range, env.suggester.suggest(member.name, [...fit.params, ...STATISTICS]));
       use.broken = true;
       return zero;
     },
@@ -94,19 +94,19 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
 function checkName(env: Env, name: NameAst): boolean {
   const { r } = env;
   if (isBuiltinConstant(name.name)) {
-    r.report('reserved-name', MSG.reservedName(name.name), name.range);
+    r.report('reserved_name', MSG.reservedName(name.name), name.range);
     return false;
   }
   const prev = env.derived.get(name.name);
   if (prev) {
-    r.report('duplicate-name', MSG.duplicate('derived quantity', name.name, prev.line), name.range);
+    r.report('duplicate_name', MSG.duplicate('derived quantity', name.name, prev.line), name.range);
     return false;
   }
   const kinds = [['const', 'constant'], ['data', 'data table'], ['fit', 'fit']] as const;
   for (const [kind, what] of kinds) {
     const line = env.declared[kind].get(name.name);
     if (line !== undefined) {
-      r.report('duplicate-name', MSG.deriveClash(name.name, what, line), name.range);
+      r.report('duplicate_name', MSG.deriveClash(name.name, what, line), name.range);
       return false;
     }
   }

@@ -6,6 +6,7 @@
 import type { DataSource, Expr, FitPlan } from './plan';
 import type { Reporter } from './report';
 import type { Suggester } from './suggest';
+import { CONSTANT_SPECS, EXPRESSION_CONSTANTS } from './registry/constants';
 
 export interface CheckContext {
   /**
@@ -72,8 +73,10 @@ export interface Env {
   declared: { const: Map<string, number>; data: Map<string, number>; fit: Map<string, number>; derive: Map<string, number> };
 }
 
-/** Built-in constants (folded like `const` values). */
-export const BUILTIN_CONSTANTS: Readonly<Record<string, number>> = { pi: Math.PI, e: Math.E };
+/** Built-in constants usable in expressions and values (folded like `const` values): those of registry/constants.ts that are not bounds-only. */
+export const BUILTIN_CONSTANTS: Readonly<Record<string, number>> = Object.freeze(Object.fromEntries(
+  EXPRESSION_CONSTANTS.map((c) => [c, CONSTANT_SPECS[c].value]),
+));
 /** The names of `BUILTIN_CONSTANTS` (one list, so suggestion lookups can memoise against it). */
 export const BUILTIN_CONSTANT_NAMES: readonly string[] = Object.freeze(Object.keys(BUILTIN_CONSTANTS));
 export function isBuiltinConstant(name: string): boolean {

@@ -3,7 +3,7 @@
  *
  * An identifier in an expression resolves, in this order, to: a parameter of
  * the fit, a constant declared above, `pi`/`e`, a column. With headers known
- * a name that is none of these is an error ('undefined-name' with
+ * a name that is none of these is an error ('undefined_name' with
  * suggestions); with headers unknown it is taken as a column. Quoted names
  * are always columns. Constants fold into number nodes.
  *
@@ -11,7 +11,8 @@
  * first argument of `when`; everywhere else expressions are numbers.
  */
 import type { ExprAst, NameAst, ValueAst } from './ast';
-import { FUNCTIONS, isFunctionName, type Expr, type Range } from './plan';
+import type { Expr, Range } from './plan';
+import { FUNCTIONS, FUNCTION_HINTS, FUNCTION_NAMES, isFunctionName } from './registry/functions';
 import { BUILTIN_CONSTANT_NAMES, BUILTIN_CONSTANTS, isBuiltinConstant, type Env } from './check-env';
 import { MSG } from './messages';
 
@@ -20,7 +21,7 @@ export interface ExprScope {
   params: ReadonlySet<string>;
   /** Parameters may appear here (model side only). */
   allowParams: boolean;
-  /** Where we are, for 'param-not-allowed' messages ("response", "sigma"...). */
+  /** Where we are, for 'param_not_allowed' messages ("response", "sigma"...). */
   place: string;
   /** Data source whose columns are read. */
   dataName: string;
@@ -52,8 +53,8 @@ const isCondition = (e: ExprAst): boolean => e.kind === 'compare' || e.kind === 
 
 export function resolveExpr(env: Env, ast: ExprAst, want: 'number' | 'condition', scope: ExprScope, use: ExprUse): Expr {
   if (ast.kind !== 'error') {
-    if (want === 'number' && isCondition(ast)) env.r.report('number-expected', MSG.numberExpected, ast.range);
-    if (want === 'condition' && !isCondition(ast)) env.r.report('condition-expected', MSG.conditionExpected, ast.range);
+    if (want === 'number' && isCondition(ast)) env.r.report('number_expected', MSG.numberExpected, ast.range);
+    if (want === 'condition' && !isCondition(ast)) env.r.report('condition_expected', MSG.conditionExpected, ast.range);
   }
   const num = (e: ExprAst) => resolveExpr(env, e, 'number', scope, use);
   const cond = (e: ExprAst) => resolveExpr(env, e, 'condition', scope, use);
@@ -63,13 +64,13 @@ export function resolveExpr(env: Env, ast: ExprAst, want: 'number' | 'condition'
       use.broken = true;
       return { kind: 'number', value: 0, range };
     case 'number':
-      if (!Number.isFinite(ast.value)) env.r.report('number-range', MSG.numberRange(String(ast.value)), range);
+      if (!Number.isFinite(ast.value)) env.r.report('number_range', MSG.numberRange(String(ast.value)), range);
       return { kind: 'number', value: Number.isFinite(ast.value) ? ast.value : 0, range };
     case 'name':
       return scope.derive ? scope.derive.name(ast.name, ast.quoted, range, use) : resolveName(env, ast.name, ast.quoted, range, scope, use);
     case 'dotted':
       if (scope.derive) return scope.derive.dotted(ast.head, ast.members, range, use);
-      env.r.report('reference-not-allowed', MSG.referenceNotAllowed([ast.head, ...ast.members].map((m) => m.name).join('.')), range);
+      env.r.report('reference_not_allowed', MSG.referenceNotAllowed([ast.head, ...ast.members].map((m) => m.name).join('.')), range);
       use.broken = true;
       return { kind: 'number', value: 0, range };
     case 'call':
@@ -104,7 +105,7 @@ function addColumn(use: ExprUse, name: string): void {
 function resolveName(env: Env, name: string, quoted: boolean, range: Range, scope: ExprScope, use: ExprUse): Expr {
   if (!quoted) {
     if (scope.params.has(name)) {
-      if (!scope.allowParams) env.r.report('param-not-allowed', MSG.paramNotAllowed(name, scope.place), range);
+      if (!scope.allowParams) env.r.report('param_not_allowed', MSG.paramNotAllowed(name, scope.place), range);
       use.params.add(name);
       return { kind: 'param', name, range };
     }
@@ -113,32 +114,28 @@ function resolveName(env: Env, name: string, quoted: boolean, range: Range, scop
     if (isBuiltinConstant(name)) return { kind: 'number', value: BUILTIN_CONSTANTS[name], range };
     const later = env.declared.const.get(name);
     if (later !== undefined && later > range.start.line && !(scope.columns?.has(name) ?? false)) {
-      env.r.report('declared-later', MSG.declaredLater('constant', name, later), range);
+      env.r.report('declared_later', MSG.declaredLater('constant', name, later), range);
       return { kind: 'number', value: 0, range };
     }
   }
   if (scope.columns && !scope.columns.has(name)) {
     if (quoted) {
-      env.r.report('unknown-column', MSG.unknownColumn(name, scope.dataName), range, env.suggester.suggest(name, scope.columns));
+      env.r.report('unknown_column', MSG.unknownColumn(name, scope.dataName), range, env.suggester.suggest(name, scope.columns));
     } else {
       const candidates = [scope.allowParams ? scope.params : [], env.consts.keys(), scope.columns, BUILTIN_CONSTANT_NAMES];
-      env.r.report('undefined-name', MSG.undefinedName(name), range, env.suggester.suggest(name, candidates));
+      env.r.report('undefined_name', MSG.undefinedName(name), range, env.suggester.suggest(name, candidates));
     }
   }
   addColumn(use, name);
   return { kind: 'column', name, range };
 }
 
-/** Common spellings from other notations whose edit distance is too large for `suggest`. */
-const FUNCTION_HINTS: Readonly<Record<string, string[]>> = {
-  log: ['ln', 'log10'], if: ['when'], arcsin: ['asin'], arccos: ['acos'], arctan: ['atan'], power: ['pow'],
-};
-
 function resolveCall(env: Env, ast: Extract<ExprAst, { kind: 'call' }>, scope: ExprScope, use: ExprUse): Expr {
   const { fn, args, range } = ast;
   if (!isFunctionName(fn)) {
-    const hint = Object.prototype.hasOwnProperty.call(FUNCTION_HINTS, fn) ? FUNCTION_HINTS[fn] : env.suggester.suggest(fn, Object.keys(FUNCTIONS));
-    env.r.report('unknown-function', MSG.unknownFunction(fn), ast.fnRange, hint);
+    // common spellings of other notations (registry `hints`) whose edit distance is too large for `suggest`
+    const hint = FUNCTION_HINTS.get(fn) ?? env.suggester.suggest(fn, FUNCTION_NAMES);
+    env.r.report('unknown_function', MSG.unknownFunction(fn), ast.fnRange, hint);
     for (const a of args) resolveExpr(env, a, 'number', scope, use);
     return { kind: 'number', value: 0, range };
   }
@@ -166,13 +163,13 @@ export function resolveValue(env: Env, v: ValueAst, rules: ValueRules): number |
       return undefined;
     case 'number':
       if (!Number.isFinite(v.value)) {
-        env.r.report('number-range', MSG.numberRange(String(Math.abs(v.value))), v.range);
+        env.r.report('number_range', MSG.numberRange(String(Math.abs(v.value))), v.range);
         return undefined;
       }
       return v.value;
     case 'inf':
       if (!rules.allowInf) {
-        env.r.report('inf-not-allowed', MSG.infNotAllowed, v.range);
+        env.r.report('inf_not_allowed', MSG.infNotAllowed, v.range);
         return undefined;
       }
       return v.negative ? -Infinity : Infinity;
@@ -183,10 +180,10 @@ export function resolveValue(env: Env, v: ValueAst, rules: ValueRules): number |
       if (isBuiltinConstant(v.name)) return sign * BUILTIN_CONSTANTS[v.name];
       const later = env.declared.const.get(v.name);
       if (later !== undefined && later > v.range.start.line) {
-        env.r.report('declared-later', MSG.declaredLater('constant', v.name, later), v.range);
+        env.r.report('declared_later', MSG.declaredLater('constant', v.name, later), v.range);
       } else {
         const candidates = [...env.consts.keys(), ...Object.keys(BUILTIN_CONSTANTS), ...(rules.allowInf ? ['inf'] : [])];
-        env.r.report('undefined-name', MSG.notAConstant(v.name), v.range, env.suggester.suggest(v.name, candidates));
+        env.r.report('undefined_name', MSG.notAConstant(v.name), v.range, env.suggester.suggest(v.name, candidates));
       }
       return undefined;
     }

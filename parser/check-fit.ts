@@ -17,7 +17,7 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
   const name = fit.name?.name ?? '';
   if (fit.name) {
     const prev = env.fits.get(name);
-    if (prev) r.report('duplicate-name', MSG.duplicate('fit', name, prev.line), fit.name.range);
+    if (prev) r.report('duplicate_name', MSG.duplicate('fit', name, prev.line), fit.name.range);
   }
 
   // Data source and its columns.
@@ -29,9 +29,9 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
       d.used = true;
       columns = d.headers;
     } else if (env.declared.data.has(dataName)) {
-      r.report('declared-later', MSG.declaredLater('data', dataName, env.declared.data.get(dataName)!), fit.data.range);
+      r.report('declared_later', MSG.declaredLater('data', dataName, env.declared.data.get(dataName)!), fit.data.range);
     } else {
-      r.report('unknown-data', MSG.unknownData(dataName), fit.data.range, env.suggester.suggest(dataName, env.data.keys()));
+      r.report('unknown_data', MSG.unknownData(dataName), fit.data.range, env.suggester.suggest(dataName, env.data.keys()));
     }
   }
 
@@ -44,13 +44,13 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
     const pname = p.name.name;
     const before = paramAsts.get(pname);
     if (before) {
-      r.report('duplicate-name', MSG.duplicate('parameter', pname, before.name.range.start.line), p.name.range);
+      r.report('duplicate_name', MSG.duplicate('parameter', pname, before.name.range.start.line), p.name.range);
       continue;
     }
-    if (isBuiltinConstant(pname)) r.report('reserved-name', MSG.reservedName(pname), p.name.range);
+    if (isBuiltinConstant(pname)) r.report('reserved_name', MSG.reservedName(pname), p.name.range);
     const c = env.consts.get(pname);
-    if (c) r.report('duplicate-name', MSG.paramIsConst(pname, c.line), p.name.range);
-    if (columns?.has(pname)) r.report('param-column-clash', MSG.paramColumnClash(pname, dataName), p.name.range);
+    if (c) r.report('duplicate_name', MSG.paramIsConst(pname, c.line), p.name.range);
+    if (columns?.has(pname)) r.report('param_column_clash', MSG.paramColumnClash(pname, dataName), p.name.range);
     paramAsts.set(pname, p);
     params.push(checkParam(env, p));
   }
@@ -59,7 +59,7 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
   // Model, sigma, weight.
   const scope = (place: string, allowParams: boolean): ExprScope => ({ params: paramNames, allowParams, place, dataName, columns });
   const models = fit.items.filter((i): i is Extract<FitItemAst, { kind: 'model' }> => i.kind === 'model');
-  for (const extra of models.slice(1)) r.report('duplicate-option', MSG.duplicateOption('model'), extra.range);
+  for (const extra of models.slice(1)) r.report('duplicate_option', MSG.duplicateOption('model'), extra.range);
   const responseUse = newUse();
   const modelUse = newUse();
   const otherUse = newUse();
@@ -67,16 +67,16 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
   let model: Expr = { kind: 'number', value: 0 };
   const first = models[0];
   if (!first) {
-    r.report('missing-model', MSG.missingModel(name || 'this fit'), fit.name?.range ?? fit.range);
+    r.report('missing_model', MSG.missingModel(name || 'this fit'), fit.name?.range ?? fit.range);
   } else {
     response = resolveExpr(env, first.response, 'number', scope('response', false), responseUse);
     model = resolveExpr(env, first.model, 'number', scope('model', true), modelUse);
-    if (!responseUse.broken && responseUse.columns.length === 0) r.report('response-no-column', MSG.responseNoColumn, first.response.range);
-    if (!modelUse.broken && modelUse.params.size === 0) r.report('no-parameter', MSG.noParameter, first.model.range);
+    if (!responseUse.broken && responseUse.columns.length === 0) r.report('response_no_column', MSG.responseNoColumn, first.response.range);
+    if (!modelUse.broken && modelUse.params.size === 0) r.report('no_parameter', MSG.noParameter, first.model.range);
   }
   const single = (kind: 'sigma' | 'weight'): Expr | undefined => {
     const items = fit.items.filter((i): i is Extract<FitItemAst, { kind: 'sigma' | 'weight' }> => i.kind === kind);
-    for (const extra of items.slice(1)) r.report('duplicate-option', MSG.duplicateOption(kind), extra.range);
+    for (const extra of items.slice(1)) r.report('duplicate_option', MSG.duplicateOption(kind), extra.range);
     return items[0] ? resolveExpr(env, items[0].expr, 'number', scope(kind, false), otherUse) : undefined;
   };
   const sigma = single('sigma');
@@ -85,7 +85,7 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
   // Unused parameters (skipped when the model could not be read).
   if (first && !modelUse.broken) {
     for (const [pname, p] of paramAsts) {
-      if (!modelUse.params.has(pname)) r.report('unused-parameter', MSG.unusedParameter(pname), p.name.range);
+      if (!modelUse.params.has(pname)) r.report('unused_parameter', MSG.unusedParameter(pname), p.name.range);
     }
   }
 
@@ -109,7 +109,7 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
     const free = params.filter((p) => !p.fixed).map((p) => p.name);
     if (!isLinearIn(substituteParams(model, fixed), free)) {
       const method = fit.items.find((i): i is Extract<FitItemAst, { kind: 'method' }> => i.kind === 'method');
-      r.report('method-not-linear', MSG.methodNotLinear(name), method?.value?.range ?? method?.range ?? fit.range);
+      r.report('method_not_linear', MSG.methodNotLinear(name), method?.value?.range ?? method?.range ?? fit.range);
     }
   }
 
@@ -133,7 +133,7 @@ function mergeColumns(...uses: ExprUse[]): string[] {
 
 function checkParam(env: Env, p: ParamAst & { name: NameAst }): ParameterPlan {
   const { r } = env;
-  for (const rep of p.repeated) r.report('duplicate-option', MSG.duplicateOption(`a part of parameter '${p.name.name}'`), rep);
+  for (const rep of p.repeated) r.report('duplicate_option', MSG.duplicateOption(`a part of parameter '${p.name.name}'`), rep);
   const initial = p.initial ? resolveValue(env, p.initial, { allowInf: false }) : undefined;
   let lower: number | undefined;
   let upper: number | undefined;
@@ -141,18 +141,18 @@ function checkParam(env: Env, p: ParamAst & { name: NameAst }): ParameterPlan {
     const lo = resolveValue(env, p.bounds.low, { allowInf: true });
     const hi = resolveValue(env, p.bounds.high, { allowInf: true });
     if (lo !== undefined && hi !== undefined && lo >= hi) {
-      r.report('bounds-order', MSG.boundsOrder(showBound(lo), showBound(hi)), p.bounds.range);
+      r.report('bounds_order', MSG.boundsOrder(showBound(lo), showBound(hi)), p.bounds.range);
     } else {
       lower = lo;
       upper = hi;
     }
     const ordered = !(lo !== undefined && hi !== undefined && lo >= hi);
     if (ordered && initial !== undefined && ((lo !== undefined && initial < lo) || (hi !== undefined && initial > hi))) {
-      r.report('initial-outside-bounds', MSG.initialOutside(initial, showBound(lo), showBound(hi)), p.initial!.range);
+      r.report('initial_outside_bounds', MSG.initialOutside(initial, showBound(lo), showBound(hi)), p.initial!.range);
     }
   }
   if (p.fixed && !p.initial) {
-    r.report('fixed-without-value', MSG.fixedWithoutValue(p.name.name), p.fixed);
+    r.report('fixed_without_value', MSG.fixedWithoutValue(p.name.name), p.fixed);
   }
   const plan: ParameterPlan = { name: p.name.name, fixed: p.fixed !== undefined, scope: 'shared', range: p.range ?? EMPTY_RANGE };
   if (initial !== undefined) plan.initial = initial;

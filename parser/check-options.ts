@@ -3,12 +3,25 @@
  * value checks and the defaults documented on `FitOptions` in plan.ts.
  */
 import type { FitAst, FitItemAst, NumericOptionAst, NumericOptionKind } from './ast';
-import { LOSSES, MAX_EXPLORE, METHODS, type FitOptions, type LossKind, type Method } from './plan';
+import type { FitOptions } from './plan';
+import { LOSSES, MAX_EXPLORE, METHODS, RENAMED_LOSSES, isLoss, isMethod, type KeywordName } from './registry';
 import type { Env } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
 
 type Item<K extends FitItemAst['kind']> = K extends NumericOptionKind ? NumericOptionAst : Extract<FitItemAst, { kind: K }>;
+
+/** The keyword that sets each field of `FitOptions` (`lossScale` is the `scale` part of `loss`): a field without its keyword does not compile. */
+export const OPTION_KEYWORD: Readonly<Record<keyof FitOptions, KeywordName>> = {
+  method: 'method',
+  loss: 'loss',
+  lossScale: 'scale',
+  level: 'level',
+  maxIterations: 'iterations',
+  tolerance: 'tolerance',
+  learningRate: 'rate',
+  explore: 'explore',
+};
 
 /** Default options (plan.ts FitOptions docs). */
 export const DEFAULT_OPTIONS: Readonly<FitOptions> = { method: 'auto', loss: 'squared', lossScale: 1, level: 0.95 };
@@ -18,69 +31,71 @@ export function checkOptions(env: Env, fit: FitAst, dataName: string, columns: R
   const options: FitOptions = { ...DEFAULT_OPTIONS };
   const once = <K extends FitItemAst['kind']>(kind: K, label: string): Item<K> | undefined => {
     const items = fit.items.filter((i) => i.kind === kind) as Item<K>[];
-    for (const extra of items.slice(1)) r.report('duplicate-option', MSG.duplicateOption(label), extra.range);
+    for (const extra of items.slice(1)) r.report('duplicate_option', MSG.duplicateOption(label), extra.range);
     return items[0];
   };
 
   const method = once('method', 'method');
   if (method?.value) {
     const v = method.value.name;
-    if ((METHODS as readonly string[]).includes(v)) options.method = v as Method;
-    else r.report('unknown-option', MSG.unknownOption('method', v, METHODS), method.value.range, env.suggester.suggest(v, METHODS));
+    if (isMethod(v)) options.method = v;
+    else r.report('unknown_option', MSG.unknownOption('method', v, METHODS), method.value.range, env.suggester.suggest(v, METHODS));
   }
 
   const loss = once('loss', 'loss');
   if (loss?.value) {
     const v = loss.value.name;
-    if ((LOSSES as readonly string[]).includes(v)) options.loss = v as LossKind;
-    else r.report('unknown-option', MSG.unknownOption('loss', v, LOSSES), loss.value.range, env.suggester.suggest(v, LOSSES));
+    const renamed = Object.prototype.hasOwnProperty.call(RENAMED_LOSSES, v) ? RENAMED_LOSSES[v] : undefined;
+    if (isLoss(v)) options.loss = v;
+    else if (renamed) r.report('unknown_option', MSG.renamedOption('loss', v, renamed), loss.value.range, [renamed]);
+    else r.report('unknown_option', MSG.unknownOption('loss', v, LOSSES), loss.value.range, env.suggester.suggest(v, LOSSES));
   }
   if (loss?.scale) {
     const s = resolveValue(env, loss.scale, { allowInf: false });
-    if (s !== undefined && !(s > 0)) r.report('not-positive', MSG.notPositive('scale', s), loss.scale.range);
+    if (s !== undefined && !(s > 0)) r.report('not_positive', MSG.notPositive('scale', s), loss.scale.range);
     else if (s !== undefined) options.lossScale = s;
-    if (loss.value?.name === 'squared') r.report('option-ignored', MSG.scaleIgnored, loss.scale.range);
+    if (loss.value?.name === 'squared') r.report('option_ignored', MSG.scaleIgnored, loss.scale.range);
   }
 
   const level = once('level', 'level');
   if (level) {
     const v = resolveValue(env, level.value, { allowInf: false });
-    if (v !== undefined && !(v > 0 && v < 1)) r.report('level-range', MSG.levelRange(v), level.value.range);
+    if (v !== undefined && !(v > 0 && v < 1)) r.report('level_range', MSG.levelRange(v), level.value.range);
     else if (v !== undefined) options.level = v;
   }
 
   const iterations = once('iterations', 'iterations');
   if (iterations) {
     const v = resolveValue(env, iterations.value, { allowInf: false });
-    if (v !== undefined && !(v > 0)) r.report('not-positive', MSG.notPositive('iterations', v), iterations.value.range);
-    else if (v !== undefined && !Number.isInteger(v)) r.report('not-integer', MSG.notInteger('iterations', v), iterations.value.range);
+    if (v !== undefined && !(v > 0)) r.report('not_positive', MSG.notPositive('iterations', v), iterations.value.range);
+    else if (v !== undefined && !Number.isInteger(v)) r.report('not_integer', MSG.notInteger('iterations', v), iterations.value.range);
     else if (v !== undefined) options.maxIterations = v;
   }
 
   const tolerance = once('tolerance', 'tolerance');
   if (tolerance) {
     const v = resolveValue(env, tolerance.value, { allowInf: false });
-    if (v !== undefined && !(v > 0)) r.report('not-positive', MSG.notPositive('tolerance', v), tolerance.value.range);
+    if (v !== undefined && !(v > 0)) r.report('not_positive', MSG.notPositive('tolerance', v), tolerance.value.range);
     else if (v !== undefined) options.tolerance = v;
   }
 
   const rate = once('rate', 'rate');
   if (rate) {
     const v = resolveValue(env, rate.value, { allowInf: false });
-    if (v !== undefined && !(v > 0)) r.report('not-positive', MSG.notPositive('rate', v), rate.value.range);
+    if (v !== undefined && !(v > 0)) r.report('not_positive', MSG.notPositive('rate', v), rate.value.range);
     else if (v !== undefined) options.learningRate = v;
-    const methodUnreadable = method?.value !== undefined && !(METHODS as readonly string[]).includes(method.value.name);
+    const methodUnreadable = method?.value !== undefined && !isMethod(method.value.name);
     if (options.method !== 'gradient_descent' && !methodUnreadable) {
-      r.report('option-ignored', MSG.rateIgnored, rate.range);
+      r.report('option_ignored', MSG.rateIgnored, rate.range);
     }
   }
 
   const explore = once('explore', 'explore');
   if (explore) {
     const v = resolveValue(env, explore.value, { allowInf: false });
-    if (v !== undefined && !(Number.isInteger(v) && v >= 0 && v <= MAX_EXPLORE)) r.report('explore-range', MSG.exploreRange(v, MAX_EXPLORE), explore.value.range);
+    if (v !== undefined && !(Number.isInteger(v) && v >= 0 && v <= MAX_EXPLORE)) r.report('explore_range', MSG.exploreRange(v, MAX_EXPLORE), explore.value.range);
     else if (v !== undefined) options.explore = v;
-    if (v !== undefined && (options.method === 'linear' || options.method === 'gradient_descent')) r.report('option-ignored', MSG.exploreIgnored, explore.range);
+    if (v !== undefined && (options.method === 'linear' || options.method === 'gradient_descent')) r.report('option_ignored', MSG.exploreIgnored, explore.range);
   }
 
   let groupBy: string | undefined;
@@ -88,7 +103,7 @@ export function checkOptions(env: Env, fit: FitAst, dataName: string, columns: R
   if (per?.column) {
     groupBy = per.column.name;
     if (columns && !columns.has(groupBy)) {
-      r.report('unknown-column', MSG.unknownColumn(groupBy, dataName), per.column.range, env.suggester.suggest(groupBy, columns));
+      r.report('unknown_column', MSG.unknownColumn(groupBy, dataName), per.column.range, env.suggester.suggest(groupBy, columns));
     }
   }
   return { options, groupBy };

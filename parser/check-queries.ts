@@ -5,7 +5,8 @@
  * lod below 0.1`, `expect lod.se below 0.01`).
  */
 import type { CompareAst, ExpectAst, NameAst, PredictAst, ValueAst } from './ast';
-import { STATISTICS, type Bound, type Expectation, type ExpectTarget, type Query, type StatisticName } from './plan';
+import type { Bound, Expectation, ExpectTarget, Query } from './plan';
+import { STATISTICS, isStatisticName as isStatistic } from './registry/statistics';
 import type { Env, FitInfo } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
@@ -17,8 +18,8 @@ export function lookupFit(env: Env, name: NameAst | undefined): FitInfo | undefi
   const f = env.fits.get(name.name);
   if (f) return f;
   const later = env.declared.fit.get(name.name);
-  if (later !== undefined) env.r.report('declared-later', MSG.declaredLater('fit', name.name, later), name.range);
-  else env.r.report('unknown-fit', MSG.unknownFit(name.name), name.range, env.suggester.suggest(name.name, env.fits.keys()));
+  if (later !== undefined) env.r.report('declared_later', MSG.declaredLater('fit', name.name, later), name.range);
+  else env.r.report('unknown_fit', MSG.unknownFit(name.name), name.range, env.suggester.suggest(name.name, env.fits.keys()));
   return undefined;
 }
 
@@ -41,15 +42,15 @@ export function checkQuery(env: Env, q: PredictAst): Query | undefined {
     // The same rules as the engine's queries (engine/run/queries.ts), which keep them as a guard.
     if (q.kind === 'predict') {
       if (cols.length === 1 && cols[0] !== col.name) {
-        env.r.report('predictor-mismatch', MSG.predictorOther(fitName, cols[0], col.name), col.range, [cols[0]]);
+        env.r.report('predictor_mismatch', MSG.predictorOther(fitName, cols[0], col.name), col.range, [cols[0]]);
       } else if (cols.length !== 1) {
-        env.r.report('predictor-mismatch', MSG.needsOnePredictor('predict', fitName, cols), col.range);
+        env.r.report('predictor_mismatch', MSG.needsOnePredictor('predict', fitName, cols), col.range);
       }
     } else {
-      if (cols.length !== 1) env.r.report('predictor-mismatch', MSG.needsOnePredictor('invert', fitName, cols), q.fit!.range);
+      if (cols.length !== 1) env.r.report('predictor_mismatch', MSG.needsOnePredictor('invert', fitName, cols), q.fit!.range);
       const resp = fit.responseColumns;
       if (resp.length !== 1 || resp[0] !== col.name) {
-        env.r.report('response-mismatch', MSG.responseMismatch(fitName, col.name, resp), col.range, resp.includes(col.name) ? undefined : resp.slice(0, 3));
+        env.r.report('response_mismatch', MSG.responseMismatch(fitName, col.name, resp), col.range, resp.includes(col.name) ? undefined : resp.slice(0, 3));
       }
     }
   }
@@ -70,24 +71,23 @@ export function checkCompare(env: Env, c: CompareAst): Query {
   const found: FitInfo[] = [];
   for (const f of c.fits) {
     if (seen.has(f.name)) {
-      env.r.report('repeated-fit', MSG.compareRepeated(f.name), f.range);
+      env.r.report('repeated_fit', MSG.compareRepeated(f.name), f.range);
       continue;
     }
     seen.add(f.name);
     const fit = lookupFit(env, f);
-    if (fit?.plan.groupBy !== undefined) env.r.report('compare-per-group', MSG.comparePerGroup(f.name), f.range);
+    if (fit?.plan.groupBy !== undefined) env.r.report('compare_per_group', MSG.comparePerGroup(f.name), f.range);
     if (fit && !fit.incomplete) found.push(fit);
     names.push(f.name);
   }
-  if (names.length < 2 && c.fits.length > 0) env.r.report('compare-too-few', MSG.compareTooFew, c.range);
+  if (names.length < 2 && c.fits.length > 0) env.r.report('compare_too_few', MSG.compareTooFew, c.range);
   else if (found.length >= 2) {
     const same = (a: FitInfo, b: FitInfo) => a.plan.blocks[0].data === b.plan.blocks[0].data && exprText(a.plan.blocks[0].response) === exprText(b.plan.blocks[0].response);
-    if (found.some((f) => !same(f, found[0]))) env.r.report('compare-mismatch', MSG.compareMismatch(names), c.range);
+    if (found.some((f) => !same(f, found[0]))) env.r.report('compare_mismatch', MSG.compareMismatch(names), c.range);
   }
   return { kind: 'compare', fits: names, range: c.range };
 }
 
-const isStatistic = (s: string): s is StatisticName => (STATISTICS as readonly string[]).includes(s);
 
 /** True when the first name of `expect` is (meant as) a derived quantity rather than a fit. */
 function namesDerived(env: Env, x: ExpectAst): boolean {
@@ -104,16 +104,16 @@ function derivedTarget(env: Env, head: NameAst, path: NameAst[]): ExpectTarget |
     if (!first) return { kind: 'derived', name: head.name, of: 'estimate' };
     if (first.name === 'se' && !second) return { kind: 'derived', name: head.name, of: 'stderr' };
     const bad = first.name === 'se' ? second : first;
-    env.r.report('unknown-target', MSG.unknownDerivedPath(bad.name), bad.range, ['se']);
+    env.r.report('unknown_target', MSG.unknownDerivedPath(bad.name), bad.range, ['se']);
     return undefined;
   }
   const later = env.declared.derive.get(head.name);
   if (later !== undefined) {
-    env.r.report('declared-later', MSG.declaredLater('derived quantity', head.name, later), head.range);
+    env.r.report('declared_later', MSG.declaredLater('derived quantity', head.name, later), head.range);
   } else if (env.declared.fit.has(head.name)) {
-    env.r.report('unknown-target', MSG.fitNeedsMember(head.name), head.range);
+    env.r.report('unknown_target', MSG.fitNeedsMember(head.name), head.range);
   } else {
-    env.r.report('undefined-name', MSG.unknownDerived(head.name), head.range, env.suggester.suggest(head.name, [...env.derived.keys(), ...env.fits.keys()]));
+    env.r.report('undefined_name', MSG.unknownDerived(head.name), head.range, env.suggester.suggest(head.name, [...env.derived.keys(), ...env.fits.keys()]));
   }
   return undefined;
 }
@@ -128,12 +128,12 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
     const params = fit?.params ?? [];
     const isParam = params.includes(first.name);
     if (third) {
-      env.r.report('unknown-target', MSG.pathTooLong, third.range);
+      env.r.report('unknown_target', MSG.pathTooLong, third.range);
     } else if (second) {
       if (fit && !isParam) {
-        env.r.report('unknown-target', MSG.stderrOfNonParam(first.name, fitName), first.range, env.suggester.suggest(first.name, params));
+        env.r.report('unknown_target', MSG.stderrOfNonParam(first.name, fitName), first.range, env.suggester.suggest(first.name, params));
       } else if (second.name !== 'se') {
-        env.r.report('unknown-target', MSG.unknownStderrPath(second.name), second.range, ['se']);
+        env.r.report('unknown_target', MSG.unknownStderrPath(second.name), second.range, ['se']);
       } else {
         target = { kind: 'parameter', fit: fitName, name: first.name, of: 'stderr' };
       }
@@ -142,10 +142,10 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
     } else if (isStatistic(first.name)) {
       target = { kind: 'statistic', fit: fitName, name: first.name };
     } else if (fit) {
-      env.r.report('unknown-target', MSG.unknownTarget(first.name, fitName), first.range, env.suggester.suggest(first.name, [...params, ...STATISTICS]));
+      env.r.report('unknown_target', MSG.unknownTarget(first.name, fitName), first.range, env.suggester.suggest(first.name, [...params, ...STATISTICS]));
     }
   } else if (fit && x.fit && !derived) {
-    env.r.report('unknown-target', MSG.fitNeedsMember(fitName), x.fit.range);
+    env.r.report('unknown_target', MSG.fitNeedsMember(fitName), x.fit.range);
   }
 
   let bound: Bound | undefined;
@@ -154,7 +154,7 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
     const low = resolveValue(env, b.low, { allowInf: false });
     const high = resolveValue(env, b.high, { allowInf: false });
     if (low !== undefined && high !== undefined) {
-      if (low > high) env.r.report('bounds-order', MSG.boundsOrder(String(low), String(high)), b.range);
+      if (low > high) env.r.report('bounds_order', MSG.boundsOrder(String(low), String(high)), b.range);
       else bound = { kind: 'within', low, high };
     }
   } else if (b) {

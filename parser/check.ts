@@ -96,8 +96,8 @@ function checkData(env: Env, s: DataAst): DataSource | undefined {
   if (!s.name || !s.path) return undefined;
   const name = s.name.name;
   const prev = env.data.get(name);
-  if (prev) r.report('duplicate-name', MSG.duplicate('data', name, prev.line), s.name.range);
-  if (s.path.value.trim() === '') r.report('empty-path', MSG.emptyPath, s.path.range);
+  if (prev) r.report('duplicate_name', MSG.duplicate('data', name, prev.line), s.name.range);
+  if (s.path.value.trim() === '') r.report('empty_path', MSG.emptyPath, s.path.range);
   // the header is read with the statement's delimiter and decimal options (checked below)
   const readOptions: Pick<DataSource, 'delimiter' | 'decimal'> = {};
   for (const o of s.options) {
@@ -111,7 +111,7 @@ function checkData(env: Env, s: DataAst): DataSource | undefined {
   const seen = new Set<string>();
   for (const o of s.options) {
     if (seen.has(o.kind)) {
-      r.report('duplicate-option', MSG.duplicateOption(o.kind), o.range);
+      r.report('duplicate_option', MSG.duplicateOption(o.kind), o.range);
       continue;
     }
     seen.add(o.kind);
@@ -121,16 +121,16 @@ function checkData(env: Env, s: DataAst): DataSource | undefined {
     } else if (o.value && o.kind === 'delimiter') {
       const v = o.value.value;
       if (Object.prototype.hasOwnProperty.call(DELIMITERS, v)) source.delimiter = DELIMITERS[v];
-      else r.report('unknown-option', MSG.unknownOption('delimiter', v, [',', ';', 'tab']), o.value.range, env.suggester.suggest(v, ['tab']));
+      else r.report('unknown_option', MSG.unknownOption('delimiter', v, [',', ';', 'tab']), o.value.range, env.suggester.suggest(v, ['tab']));
     } else if (o.value && o.kind === 'decimal') {
       const v = o.value.value;
       if (v === '.' || v === ',') source.decimal = v;
-      else r.report('unknown-option', MSG.unknownOption('decimal mark', v, ['.', ',']), o.value.range);
+      else r.report('unknown_option', MSG.unknownOption('decimal mark', v, ['.', ',']), o.value.range);
     }
   }
   if (source.decimal === ',' && source.delimiter === ',') {
     const o = s.options.find((x) => x.kind === 'decimal');
-    r.report('delimiter-clash', MSG.delimiterClash, o?.range ?? s.range);
+    r.report('delimiter_clash', MSG.delimiterClash, o?.range ?? s.range);
   }
   if (!prev) env.data.set(name, { plan: source, headers, line: s.name.range.start.line, used: false });
   return prev ? undefined : source;
@@ -141,12 +141,12 @@ function checkConst(env: Env, s: ConstAst): Plan['constants'][number] | undefine
   if (!s.name) return undefined;
   const name = s.name.name;
   if (isBuiltinConstant(name)) {
-    r.report('reserved-name', MSG.reservedName(name), s.name.range);
+    r.report('reserved_name', MSG.reservedName(name), s.name.range);
     return undefined;
   }
   const prev = env.consts.get(name);
   if (prev) {
-    r.report('duplicate-name', MSG.duplicate('constant', name, prev.line), s.name.range);
+    r.report('duplicate_name', MSG.duplicate('constant', name, prev.line), s.name.range);
     return undefined;
   }
   const value = resolveValue(env, s.value, { allowInf: false });
@@ -163,12 +163,12 @@ function finish(env: Env, statements: StatementAst[]): void {
   for (const s of statements) {
     if (s.kind !== 'const' || !s.name) continue;
     for (const d of env.data.values()) {
-      if (d.headers?.has(s.name.name)) env.r.report('const-column-clash', MSG.constColumnClash(s.name.name, d.plan.name), s.name.range);
+      if (d.headers?.has(s.name.name)) env.r.report('const_column_clash', MSG.constColumnClash(s.name.name, d.plan.name), s.name.range);
     }
   }
   for (const s of statements) {
     if (s.kind !== 'data' || !s.name) continue;
     const d = env.data.get(s.name.name);
-    if (d && !d.used && d.plan.range === s.range) env.r.report('unused-data', MSG.unusedData(s.name.name), s.name.range);
+    if (d && !d.used && d.plan.range === s.range) env.r.report('unused_data', MSG.unusedData(s.name.name), s.name.range);
   }
 }

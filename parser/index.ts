@@ -19,8 +19,7 @@ export type { SpecAst } from './ast';
 export type { CheckContext } from './check';
 export type { LexToken, LexTokenKind } from './lex-tokens';
 export type { Diagnostic, Plan } from './plan';
-export { FUNCTION_DOCS, CONSTANT_DOCS } from './functions-doc';
-export { KEYWORD_DOCS, STATISTIC_DOCS, STDERR_DOC } from './keyword-doc';
+export * from './registry';
 export { KEYWORDS, RESERVED_WORDS } from './tokens';
 export { CODES, type DiagnosticCode } from './messages';
 

@@ -39,7 +39,7 @@ export function limitNesting(tokens: readonly IToken[]): { tokens: IToken[]; dia
     if (t.tokenType === LParen && depth === MAX_NESTING) {
       // a call is cut with its function name, so the name is not read as a lone column
       const fn = out.length > 0 && tokenMatcher(out[out.length - 1], Name) ? out.pop() : undefined;
-      diagnostics.push({ severity: 'error', code: 'nested-too-deeply', message: MSG.nestedTooDeeply(MAX_NESTING), range: tokenRange(fn ?? t) });
+      diagnostics.push({ severity: 'error', code: 'nested_too_deeply', message: MSG.nestedTooDeeply(MAX_NESTING), range: tokenRange(fn ?? t) });
       let level = 0;
       let j = i;
       let last = i;

@@ -14,6 +14,11 @@
  *   dimensional-consistency check.
  */
 
+import type { FunctionName } from './registry/functions';
+import type { Method } from './registry/methods';
+import type { LossKind } from './registry/losses';
+import type { StatisticName } from './registry/statistics';
+
 export const PLAN_VERSION = 1 as const;
 
 /** 1-based line and column, as shown to users (`file:line:col`). */
@@ -36,19 +41,8 @@ export type LogicOp = 'and' | 'or';
 /** Operators that chain left to right at one precedence level (`chain` expressions). */
 export type ChainOp = '+' | '-' | '*' | '/' | LogicOp;
 
-/** Whitelisted functions; the engine knows exactly these. */
-export const FUNCTIONS = {
-  exp: 1, ln: 1, log10: 1, sqrt: 1, abs: 1,
-  sin: 1, cos: 1, tan: 1, asin: 1, acos: 1, atan: 1, atan2: 2,
-  sinh: 1, cosh: 1, tanh: 1, erf: 1, erfc: 1,
-  min: 2, max: 2, pow: 2, hypot: 2,
-  /** when(condition, valueIfTrue, valueIfFalse) */
-  when: 3,
-} as const;
-export type FunctionName = keyof typeof FUNCTIONS;
-export function isFunctionName(name: string): name is FunctionName {
-  return Object.prototype.hasOwnProperty.call(FUNCTIONS, name);
-}
+/** Whitelisted functions (registry/functions.ts); the engine knows exactly these. */
+export { FUNCTIONS, isFunctionName, type FunctionName } from './registry/functions';
 
 /**
  * Expression tree. Names are already resolved: a `column` reads a data
@@ -126,13 +120,10 @@ export interface ParameterPlan {
   range: Range;
 }
 
-export type Method = 'auto' | 'linear' | 'levenberg_marquardt' | 'gradient_descent';
-export const METHODS: readonly Method[] = ['auto', 'linear', 'levenberg_marquardt', 'gradient_descent'];
-export type LossKind = 'squared' | 'huber' | 'soft_l1' | 'cauchy';
-export const LOSSES: readonly LossKind[] = ['squared', 'huber', 'soft_l1', 'cauchy'];
-
-/** Largest `explore N` (design points of the multi-start search). */
-export const MAX_EXPLORE = 4096;
+export { METHODS, type Method } from './registry/methods';
+export { LOSSES, type LossKind } from './registry/losses';
+export { MAX_EXPLORE } from './registry/options';
+export { STATISTICS, type StatisticName } from './registry/statistics';
 
 export interface FitOptions {
   /** Solver choice. Default `auto`: linear QR when the model is linear in its parameters, else Levenberg–Marquardt. */
@@ -189,10 +180,6 @@ export type Query =
   | { kind: 'predict'; fit: string; variable: string; values: number[]; range: Range }
   | { kind: 'invert'; fit: string; response: string; values: number[]; range: Range }
   | { kind: 'compare'; fits: string[]; range: Range };
-
-/** Statistics an expectation may name after the fit's name (`fit.r2`). */
-export const STATISTICS = ['r2', 'adj_r2', 'rmse', 'ssr', 'chi2', 'chi2_reduced', 'aic', 'aicc', 'bic', 'n', 'dof', 'iterations'] as const;
-export type StatisticName = (typeof STATISTICS)[number];
 
 export type ExpectTarget =
   | { kind: 'parameter'; fit: string; name: string; of: 'estimate' | 'stderr' }

@@ -10,7 +10,7 @@ export class Reporter {
   readonly diagnostics: Diagnostic[] = [];
 
   report(code: DiagnosticCode, message: string, range: Range, suggestions?: readonly string[]): void {
-    const d: Diagnostic = { severity: CODES[code], code, message: message + MSG.didYouMean(suggestions ?? []), range };
+    const d: Diagnostic = { severity: CODES[code].severity, code, message: message + MSG.didYouMean(suggestions ?? []), range };
     if (suggestions && suggestions.length) d.suggestions = [...suggestions];
     this.diagnostics.push(d);
   }

@@ -62,7 +62,7 @@ class AstBuilder extends BaseVisitor {
   }
 
   private tooDeep(range: Range): void {
-    this.problems.push({ severity: 'error', code: 'nested-too-deeply', message: MSG.nestedTooDeeply(MAX_NESTING), range });
+    this.problems.push({ severity: 'error', code: 'nested_too_deeply', message: MSG.nestedTooDeeply(MAX_NESTING), range });
   }
 
   // ---- helpers -------------------------------------------------------------

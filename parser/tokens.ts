@@ -19,6 +19,7 @@
  * `not`, `inf`.
  */
 import { createToken, Lexer, type IToken, type TokenType } from 'chevrotain';
+import { KEYWORD_SPECS, LINE_START_ROLES, RESERVED_ROLES, keywordsWithRole, type KeywordName } from './registry/keywords';
 
 /** Category matched wherever a name is expected (identifiers and soft keywords). */
 export const Name = createToken({ name: 'Name', pattern: Lexer.NA, label: 'a name' });
@@ -50,7 +51,8 @@ export const BinaryOperator = createToken({ name: 'BinaryOperator', pattern: Lex
 /** Prefix operators (category): `-`, `+`, `not`. */
 export const PrefixOperator = createToken({ name: 'PrefixOperator', pattern: Lexer.NA, label: "'-', '+' or 'not'" });
 
-function keyword(word: string, categories: TokenType[] = [Name]): TokenType {
+/** The token of a keyword of registry/keywords.ts (a word not in the registry does not compile). */
+function keyword(word: KeywordName, categories: TokenType[] = [Name]): TokenType {
   return createToken({
     name: word.charAt(0).toUpperCase() + word.slice(1),
     pattern: new RegExp(word),
@@ -108,10 +110,15 @@ export const KEYWORD_TOKENS: readonly TokenType[] = [
   And, Or, Not, Inf,
 ].sort((a, b) => String(b.PATTERN).length - String(a.PATTERN).length);
 
-/** Keyword spellings, for the language reference and the editor. */
-export const KEYWORDS: readonly string[] = KEYWORD_TOKENS.map((t) => (t.PATTERN as RegExp).source).sort();
-/** Keywords that can never be used as names. */
-export const RESERVED_WORDS: readonly string[] = ['and', 'or', 'not', 'inf'];
+/** The word a keyword token matches. */
+export function keywordOf(t: TokenType): KeywordName {
+  return (t.PATTERN as RegExp).source as KeywordName;
+}
+
+/** Keyword spellings, for the language reference and the editor (the same words as registry/keywords.ts; a test holds them together). */
+export const KEYWORDS: readonly string[] = KEYWORD_TOKENS.map(keywordOf).sort();
+/** Keywords that can never be used as names (registry roles `operator` and `constant`). */
+export const RESERVED_WORDS: readonly string[] = keywordsWithRole(...RESERVED_ROLES);
 
 // Operators and punctuation (two-character forms first)
 export const LessEq = createToken({ name: 'LessEq', pattern: /<=/, categories: [BinaryOperator], label: "'<='" });
@@ -157,10 +164,9 @@ export const ALL_TOKENS: readonly TokenType[] = [
  * as the missing operand. (Inside a line they remain usable as names, e.g.
  * `ln(rate)`; a name that must start a line can be written in quotes.)
  */
-export const LINE_START_KEYWORDS: ReadonlySet<TokenType> = new Set([
-  Data, Const, Fit, Derive, Predict, Invert, Compare, Expect, Where, Delimiter, Decimal,
-  Model, Param, Sigma, Weight, Method, Loss, Level, Iterations, Tolerance, Rate, Explore, Per,
-]);
+export const LINE_START_KEYWORDS: ReadonlySet<TokenType> = new Set(
+  KEYWORD_TOKENS.filter((t) => LINE_START_ROLES.includes(KEYWORD_SPECS[keywordOf(t)].role)),
+);
 
 /** Payload set on a token that is the first token on its line. */
 export const FIRST_ON_LINE = 'first-on-line';

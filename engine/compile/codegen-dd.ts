@@ -16,6 +16,7 @@
 import { Graph } from './graph';
 import { literal, ident, rowKernel, UNARY_MEMBER, BINARY_MEMBER, COMPARE_JS } from './emit';
 import { MATH_HELPERS, tempSlots } from './codegen';
+import { UNARY_RULES } from './functions';
 import { DD_OUT, ddAdd, ddSub, ddMul, ddDiv, ddSqrt, ddPowInt } from '../linalg/dd';
 
 /** The strong-zero product of derivative rules (graph.ts `mulz`) in double-double: a = ah + al = 0 exactly when ah = 0. */
@@ -78,10 +79,12 @@ function define(g: Graph, id: number, temps: Temps): string {
       return dbl(`M.pow(${sum(n.a)}, ${sum(n.b)})`);
     }
     case 'fn1': {
-      if (n.fn === 'sqrt') return viaR(`M.sqrt2(${pair(n.a)})`);
+      // how each function is evaluated here: functions.ts `dd`
+      const mode = UNARY_RULES[n.fn].dd;
+      if (mode === 'dd_sqrt') return viaR(`M.sqrt2(${pair(n.a)})`);
       const ah = hi(g, n.a, temps);
       const al = lo(g, n.a, temps);
-      if (n.fn === 'abs') return set(`${ah} < 0 ? -${ah} : ${ah}`, `${ah} < 0 ? -${al} : ${al}`);
+      if (mode === 'dd_abs') return set(`${ah} < 0 ? -${ah} : ${ah}`, `${ah} < 0 ? -${al} : ${al}`);
       return dbl(`M.${UNARY_MEMBER[n.fn]}(${sum(n.a)})`);
     }
     case 'fn2': return dbl(`M.${BINARY_MEMBER[n.fn]}(${sum(n.a)}, ${sum(n.b)})`);

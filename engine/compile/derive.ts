@@ -46,8 +46,7 @@
  * shrink the trust region.
  */
 import { Graph } from './graph';
-
-const TWO_OVER_SQRT_PI = 1.1283791670955126;
+import { BINARY_RULES, UNARY_RULES } from './functions';
 
 export class Differentiator {
   private readonly memo = new Map<number, number>();
@@ -97,21 +96,12 @@ export class Differentiator {
         return g.div(g.sub(da, g.mulz(db, id)), n.b);
       }
       case 'pow': return this.power(id, n.a, n.b);
-      case 'fn1': return g.mulz(this.d(n.a), this.unary(id, n.fn, n.a));
+      // f(a)′ = a′·f′(a), the inner derivative first (mulz); f′ from the function table (functions.ts)
+      case 'fn1': return g.mulz(this.d(n.a), UNARY_RULES[n.fn].derivative(g, id, n.a));
       case 'fn2': {
         const da = this.d(n.a);
         const db = this.d(n.b);
-        switch (n.fn) {
-          case 'min': return g.when(g.compare('<=', n.a, n.b), da, db);
-          case 'max': return g.when(g.compare('>=', n.a, n.b), da, db);
-          case 'hypot': return g.div(g.add(g.mulz(da, n.a), g.mulz(db, n.b)), id);
-          case 'atan2': {
-            // atan2(y, x): (x·y′ − y·x′)/(x² + y²)
-            const den = g.add(g.mul(n.a, n.a), g.mul(n.b, n.b));
-            return g.div(g.sub(g.mulz(da, n.b), g.mulz(db, n.a)), den);
-          }
-        }
-        break;
+        return BINARY_RULES[n.fn].derivative(g, id, n.a, n.b, da, db);
       }
       case 'when': return g.when(n.c, this.d(n.a), this.d(n.b));
       case 'cmp': case 'and': case 'or': case 'not': return zero;
@@ -130,31 +120,5 @@ export class Differentiator {
     // b′·(a^b·ln a): zero when a^b = 0 (a = 0, b > 0: the limit of u·ln u)
     const expTerm = g.mulz(db, g.mulz(id, g.fn1('ln', a)));
     return g.add(baseTerm, expTerm);
-  }
-
-  /** f′(a) for f = fn, where `self` is the node f(a). */
-  private unary(self: number, fn: string, a: number): number {
-    const g = this.g;
-    const one = g.constant(1);
-    switch (fn) {
-      case 'exp': return self;
-      case 'ln': return g.div(one, a);
-      case 'log10': return g.div(one, g.mul(g.constant(Math.LN10), a));
-      case 'sqrt': return g.div(g.constant(0.5), self);
-      case 'abs': return g.fn1('sign', a);
-      case 'sign': return g.constant(0);
-      case 'sin': return g.fn1('cos', a);
-      case 'cos': return g.neg(g.fn1('sin', a));
-      case 'tan': return g.add(one, g.mul(self, self));
-      case 'asin': return g.div(one, g.fn1('sqrt', g.sub(one, g.mul(a, a))));
-      case 'acos': return g.neg(g.div(one, g.fn1('sqrt', g.sub(one, g.mul(a, a)))));
-      case 'atan': return g.div(one, g.add(one, g.mul(a, a)));
-      case 'sinh': return g.fn1('cosh', a);
-      case 'cosh': return g.fn1('sinh', a);
-      case 'tanh': return g.sub(one, g.mul(self, self));
-      case 'erf': return g.mul(g.constant(TWO_OVER_SQRT_PI), g.fn1('exp', g.neg(g.mul(a, a))));
-      case 'erfc': return g.mul(g.constant(-TWO_OVER_SQRT_PI), g.fn1('exp', g.neg(g.mul(a, a))));
-    }
-    throw new Error(`no derivative rule for ${fn}`);
   }
 }

@@ -6,7 +6,7 @@
  * `literal`, which accepts only finite numbers and re-checks the text it
  * emits. No user-supplied string ever reaches generated source.
  */
-import type { UnaryFn, BinaryFn } from './graph';
+import { BINARY_RULES, UNARY_RULES, type BinaryFn, type UnaryFn } from './functions';
 
 const LITERAL = /^-?(?:\d+(?:\.\d*)?|\.\d+)(?:e[+-]?\d+)?$/;
 
@@ -42,15 +42,22 @@ export function ident(prefix: 't' | 'x' | 'v' | 'h' | 'l' | 'o' | 'c', k: number
   return `${prefix}${k}`;
 }
 
-/** Member of the injected helper object `M` (see `codegen.ts` MATH_HELPERS) for each function: a fixed table. */
-export const UNARY_MEMBER: Readonly<Record<UnaryFn, string>> = Object.freeze({
-  exp: 'exp', ln: 'ln', log10: 'log10', sqrt: 'sqrt', abs: 'abs', sin: 'sin', cos: 'cos', tan: 'tan',
-  asin: 'asin', acos: 'acos', atan: 'atan', sinh: 'sinh', cosh: 'cosh', tanh: 'tanh',
-  erf: 'erf', erfc: 'erfc', sign: 'sign',
-});
-export const BINARY_MEMBER: Readonly<Record<BinaryFn, string>> = Object.freeze({
-  atan2: 'atan2', min: 'min', max: 'max', hypot: 'hypot',
-});
+/** A member name of the helper object: a fixed identifier from the compiler's own function table. */
+const MEMBER = /^[a-z][a-z0-9]*$/;
+function members<K extends string>(names: readonly K[]): Readonly<Record<K, string>> {
+  for (const n of names) if (!MEMBER.test(n)) throw new Error(`function table name ${JSON.stringify(n)} is not a plain identifier`);
+  const out = {} as Record<K, string>;
+  for (const n of names) out[n] = n;
+  return Object.freeze(out);
+}
+
+/**
+ * Member of the injected helper object `M` (see `codegen.ts` MATH_HELPERS) for
+ * each function: its name in the compiler's fixed table (functions.ts), never
+ * text from a spec (lowering accepts only names of that table).
+ */
+export const UNARY_MEMBER: Readonly<Record<UnaryFn, string>> = members(Object.keys(UNARY_RULES) as UnaryFn[]);
+export const BINARY_MEMBER: Readonly<Record<BinaryFn, string>> = members(Object.keys(BINARY_RULES) as BinaryFn[]);
 
 /** Compare operators as JavaScript (strict equality for == and !=). */
 export const COMPARE_JS: Readonly<Record<string, string>> = Object.freeze({

@@ -22,12 +22,9 @@
  * differentiation; a non-finite value still shows in the model value itself.
  */
 import type { CompareOp } from '../../parser/plan';
-import { erf, erfc } from './special';
+import { BINARY_RULES, UNARY_RULES, type BinaryFn, type UnaryFn } from './functions';
 
-export type UnaryFn =
-  | 'exp' | 'ln' | 'log10' | 'sqrt' | 'abs' | 'sin' | 'cos' | 'tan' | 'asin' | 'acos' | 'atan'
-  | 'sinh' | 'cosh' | 'tanh' | 'erf' | 'erfc' | 'sign';
-export type BinaryFn = 'atan2' | 'min' | 'max' | 'hypot';
+export type { BinaryFn, UnaryFn } from './functions';
 
 export type Node =
   | { op: 'const'; value: number }
@@ -40,15 +37,13 @@ export type Node =
   | { op: 'cmp'; cmp: CompareOp; a: number; b: number }
   | { op: 'when'; c: number; a: number; b: number };
 
-/** Double-precision implementations shared by constant folding and generated code. */
-export const UNARY_IMPL: Readonly<Record<UnaryFn, (x: number) => number>> = Object.freeze({
-  exp: Math.exp, ln: Math.log, log10: Math.log10, sqrt: Math.sqrt, abs: Math.abs,
-  sin: Math.sin, cos: Math.cos, tan: Math.tan, asin: Math.asin, acos: Math.acos, atan: Math.atan,
-  sinh: Math.sinh, cosh: Math.cosh, tanh: Math.tanh, erf, erfc, sign: Math.sign,
-});
-export const BINARY_IMPL: Readonly<Record<BinaryFn, (x: number, y: number) => number>> = Object.freeze({
-  atan2: Math.atan2, min: Math.min, max: Math.max, hypot: Math.hypot,
-});
+/** Double-precision implementations shared by constant folding and generated code (from functions.ts). */
+export const UNARY_IMPL: Readonly<Record<UnaryFn, (x: number) => number>> = Object.freeze(
+  Object.fromEntries(Object.entries(UNARY_RULES).map(([f, r]) => [f, r.value])) as Record<UnaryFn, (x: number) => number>,
+);
+export const BINARY_IMPL: Readonly<Record<BinaryFn, (x: number, y: number) => number>> = Object.freeze(
+  Object.fromEntries(Object.entries(BINARY_RULES).map(([f, r]) => [f, r.value])) as Record<BinaryFn, (x: number, y: number) => number>,
+);
 
 export function compareValues(op: CompareOp, x: number, y: number): boolean {
   switch (op) {

@@ -13,9 +13,10 @@
  * `MAX_LOWER_DEPTH` instead of exhausting the call stack.
  */
 import type { Expr, Range } from '../../parser/plan';
-import { FUNCTIONS } from '../../parser/plan';
+import { FUNCTIONS, isFunctionName } from '../../parser/registry/functions';
 import { MAX_NESTING } from '../../parser/limits';
 import { Graph, type UnaryFn, type BinaryFn } from './graph';
+import { FUNCTION_RULES } from './functions';
 
 export class CompileError extends Error {
   constructor(message: string, readonly range?: Range) {
@@ -24,10 +25,6 @@ export class CompileError extends Error {
   }
 }
 
-const UNARY: ReadonlySet<string> = new Set<UnaryFn>([
-  'exp', 'ln', 'log10', 'sqrt', 'abs', 'sin', 'cos', 'tan', 'asin', 'acos', 'atan', 'sinh', 'cosh', 'tanh', 'erf', 'erfc',
-]);
-const BINARY: ReadonlySet<string> = new Set<BinaryFn>(['atan2', 'min', 'max', 'hypot']);
 const BINARY_OPS: ReadonlySet<string> = new Set(['+', '-', '*', '/', '^']);
 const COMPARE_OPS: ReadonlySet<string> = new Set(['<', '<=', '>', '>=', '==', '!=']);
 
@@ -124,14 +121,16 @@ export function lower(g: Graph, e: Expr, scope: LowerScope, depth = 0): number {
     }
     case 'call': {
       const fn: string = e.fn;
-      if (!Object.prototype.hasOwnProperty.call(FUNCTIONS, fn)) throw new CompileError('unknown function', e.range);
-      const arity = FUNCTIONS[e.fn];
+      if (!isFunctionName(fn)) throw new CompileError('unknown function', e.range);
+      const arity = FUNCTIONS[fn];
       if (!Array.isArray(e.args) || e.args.length !== arity) throw new CompileError(`${fn} takes ${arity} argument(s)`, e.range);
       const args = e.args.map(rec);
-      if (fn === 'pow') return g.pow(args[0], args[1]);
-      if (fn === 'when') return g.when(args[0], args[1], args[2]);
-      if (UNARY.has(fn)) return g.fn1(fn as UnaryFn, args[0]);
-      if (BINARY.has(fn)) return g.fn2(fn as BinaryFn, args[0], args[1]);
+      switch (FUNCTION_RULES[fn].kind) {
+        case 'power': return g.pow(args[0], args[1]);
+        case 'when': return g.when(args[0], args[1], args[2]);
+        case 'unary': return g.fn1(fn as UnaryFn, args[0]);
+        case 'binary': return g.fn2(fn as BinaryFn, args[0], args[1]);
+      }
       throw new CompileError('unknown function', e.range);
     }
   }

@@ -9,25 +9,10 @@
 import type { Bound, Expectation, StatisticName } from '../../parser/plan';
 import { num, withheldText } from '../messages';
 import type { DerivedResult, ExpectationResult, FitResult } from '../result';
+import { statisticValue } from './statistics';
 
-/** The number an expectation reads from a fit result (NaN when it cannot be computed). */
-export function statisticValue(result: FitResult, name: StatisticName): number {
-  const g = result.goodness;
-  switch (name) {
-    case 'r2': return g.r2;
-    case 'adj_r2': return g.adjR2;
-    case 'rmse': return g.rmse;
-    case 'ssr': return g.ssr;
-    case 'chi2': return g.chi2 ?? NaN;
-    case 'chi2_reduced': return g.chi2Reduced ?? NaN;
-    case 'aic': return g.aic;
-    case 'aicc': return g.aicc;
-    case 'bic': return g.bic;
-    case 'n': return g.n;
-    case 'dof': return g.dof;
-    case 'iterations': return result.iterations;
-  }
-}
+/** Statistics are read through the one table of getters (statistics.ts); re-exported for the derived quantities. */
+export { statisticValue };
 
 export function boundHolds(actual: number, bound: Bound): boolean {
   if (!Number.isFinite(actual)) return false;

@@ -2,7 +2,9 @@
  * Robust losses for least squares, minimising ½·Σ c²·ρ(rᵢ²/c²) with scale c:
  *   huber:   ρ(z) = z for z ≤ 1, 2√z − 1 otherwise   (Huber, Ann. Math.
  *            Statist. 35 (1964) 73-101, in the squared-argument form);
- *   soft_l1: ρ(z) = 2(√(1+z) − 1)                    (smooth L1, pseudo-Huber);
+ *   pseudo_huber: ρ(z) = 2(√(1+z) − 1), so ½c²ρ = c²(√(1+(r/c)²) − 1), the
+ *            pseudo-Huber loss (Hartley & Zisserman, "Multiple View Geometry
+ *            in Computer Vision", 2nd ed. 2004, appendix A6.8);
  *   cauchy:  ρ(z) = ln(1 + z)                        (Cauchy/Lorentzian);
  * the ρ(z) convention of Triggs, McLauchlan, Hartley & Fitzgibbon, "Bundle
  * adjustment — a modern synthesis" (2000), §4.3.
@@ -41,7 +43,7 @@ export function rho(loss: LossKind, z: number): number {
   switch (loss) {
     case 'squared': return z;
     case 'huber': return z <= 1 ? z : 2 * Math.sqrt(z) - 1;
-    case 'soft_l1': return 2 * (Math.sqrt(1 + z) - 1);
+    case 'pseudo_huber': return 2 * (Math.sqrt(1 + z) - 1);
     case 'cauchy': return Math.log1p(z);
   }
 }
@@ -51,7 +53,7 @@ export function rhoPrime(loss: LossKind, z: number): number {
   switch (loss) {
     case 'squared': return 1;
     case 'huber': return z <= 1 ? 1 : 1 / Math.sqrt(z);
-    case 'soft_l1': return 1 / Math.sqrt(1 + z);
+    case 'pseudo_huber': return 1 / Math.sqrt(1 + z);
     case 'cauchy': return 1 / (1 + z);
   }
 }

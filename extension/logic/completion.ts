@@ -5,9 +5,11 @@
  * a CSV path, or an expression (functions, the fit's parameters, its data's
  * columns, constants; in `derive`: fits, constants and derived quantities). extension/language/completion.ts maps them to vscode items.
  */
-import { FUNCTIONS, LOSSES, METHODS, STATISTICS } from '../../parser/plan';
+import {
+  CONSTANT_NAMES, EXPRESSION_CONSTANTS, FUNCTION_NAMES, FUNCTION_SPECS, LOSSES, LOSS_SPECS, METHODS, METHOD_SPECS, RESERVED_ROLES, STATISTICS, keywordsWithRole,
+} from '../../parser/registry';
 import { columnsOf, type EditorAnalysis } from './analysis';
-import { constantDoc, functionDoc, keywordDoc, statisticDoc } from './function-docs';
+import { constantDoc, keywordDoc, statisticDoc } from './function-docs';
 import { dataOfFit, enclosingFit, scanEnclosingFit } from './declarations';
 import { blankComments, linePrefix } from './text';
 
@@ -30,8 +32,10 @@ export interface CompletionEnv {
   csvFiles?: string[];
 }
 
-export const STATEMENT_KEYWORDS = ['data', 'const', 'fit', 'derive', 'predict', 'invert', 'compare', 'expect'] as const;
-export const FIT_BODY_KEYWORDS = ['model', 'param', 'sigma', 'weight', 'method', 'loss', 'level', 'iterations', 'tolerance', 'rate', 'per'] as const;
+/** Keywords offered at the start of a line outside and inside a fit body (registry roles). */
+export const STATEMENT_KEYWORDS: readonly string[] = keywordsWithRole('declaration', 'query');
+export const FIT_BODY_KEYWORDS: readonly string[] = keywordsWithRole('fit_item');
+const STATEMENT_START = new RegExp(`^\\s*(${STATEMENT_KEYWORDS.join('|')})\\b`);
 const IDENT = /^[A-Za-z_][A-Za-z0-9_]*$/;
 
 /** Completions at `offset` of the analysed text. */
@@ -40,15 +44,15 @@ export function completionsAt(a: EditorAnalysis, offset: number, env: Completion
   const prefix = blankComments(raw);
   if (prefix.length < raw.length || /#/.test(raw.replace(/"[^"]*"/g, ''))) return []; // in a comment
   const fitName = enclosingFit(a, offset) ?? scanEnclosingFit(a.text, offset)?.name;
-  const inFit = fitName !== undefined && !/^\s*(data|const|fit|derive|predict|invert|compare|expect)\b/.test(prefix);
+  const inFit = fitName !== undefined && !STATEMENT_START.test(prefix);
   let m: RegExpExecArray | null;
 
   if ((m = /^\s*data\s+\w+\s*=\s*"([^"]*)$/.exec(prefix))) return (env.csvFiles ?? []).map((f) => ({ label: f, kind: 'file' as const }));
   if (/"[^"]*$/.test(prefix.replace(/"[^"]*"/g, ''))) return quotedColumns(a, fitName, prefix);
   if (/^\s*[A-Za-z_]*$/.test(prefix)) return inFit ? keywords(FIT_BODY_KEYWORDS) : keywords(STATEMENT_KEYWORDS);
-  if (/\bmethod\s+\w*$/.test(prefix)) return METHODS.map((x) => ({ label: x, kind: 'value' as const, detail: 'method' }));
+  if (/\bmethod\s+\w*$/.test(prefix)) return METHODS.map((x) => ({ label: x, kind: 'value' as const, detail: 'method', documentation: METHOD_SPECS[x].doc }));
   if (/\bloss\s+\w+\s+\w*$/.test(prefix)) return keywords(['scale']);
-  if (/\bloss\s+\w*$/.test(prefix)) return LOSSES.map((x) => ({ label: x, kind: 'value' as const, detail: 'loss' }));
+  if (/\bloss\s+\w*$/.test(prefix)) return LOSSES.map((x) => ({ label: x, kind: 'value' as const, detail: 'loss', documentation: `ρ(z) = ${LOSS_SPECS[x].rho}: ${LOSS_SPECS[x].doc}` }));
   if (/^\s*fit\s+\w+\s+\w*$/.test(prefix) && !/\bon\s+\w*$/.test(prefix)) return keywords(['on']);
   if (/^\s*fit\s+\w+\s+on\s+\w*$/.test(prefix)) return dataNames(a);
   if (/^\s*(predict|invert)\s+\w*$/.test(prefix) || /^\s*compare\s+[\w\s,]*$/.test(prefix)) return fitNames(a);
@@ -82,10 +86,10 @@ function keywords(words: readonly string[]): LsqCompletion[] {
 }
 
 export function functions(): LsqCompletion[] {
-  return Object.entries(FUNCTIONS).map(([name, arity]) => {
-    const doc = functionDoc(name);
-    const args = Array.from({ length: arity }, (_, i) => `\${${i + 1}}`).join(', ');
-    return { label: name, kind: 'function' as const, detail: doc?.signature ?? `${name}(${arity} argument${arity > 1 ? 's' : ''})`, documentation: doc?.summary, snippet: `${name}(${args})` };
+  return FUNCTION_NAMES.map((name) => {
+    const f = FUNCTION_SPECS[name];
+    const args = Array.from({ length: f.arity }, (_, i) => `\${${i + 1}}`).join(', ');
+    return { label: name, kind: 'function' as const, detail: f.signature, documentation: f.doc, snippet: `${name}(${args})` };
   });
 }
 
@@ -148,7 +152,8 @@ function params(a: EditorAnalysis, fit: string): LsqCompletion[] {
 
 function constants(a: EditorAnalysis): LsqCompletion[] {
   const named = a.plan.constants.map((c) => ({ label: c.name, kind: 'constant' as const, detail: `const = ${c.value}${c.unit ? ` [${c.unit}]` : ''}` }));
-  return [...named, { label: 'pi', kind: 'constant', detail: constantDoc('pi') }, { label: 'e', kind: 'constant', detail: constantDoc('e') }];
+  const builtin = EXPRESSION_CONSTANTS.map((c) => ({ label: c, kind: 'constant' as const, detail: constantDoc(c) }));
+  return [...named, ...builtin];
 }
 
 function expression(a: EditorAnalysis, fit: string): LsqCompletion[] {
@@ -164,9 +169,9 @@ function undeclaredNames(a: EditorAnalysis, fit: string): LsqCompletion[] {
   const known = new Set<string>([
     ...(columnsOf(a, data) ?? []),
     ...a.plan.constants.map((c) => c.name),
-    ...Object.keys(FUNCTIONS),
+    ...FUNCTION_NAMES,
     ...(a.plan.fits.find((f) => f.name === fit)?.parameters.map((p) => p.name) ?? []),
-    'pi', 'e', 'and', 'or', 'not', 'inf', 'model', 'sigma', 'weight',
+    ...CONSTANT_NAMES, ...keywordsWithRole(...RESERVED_ROLES), 'model', 'sigma', 'weight',
   ]);
   const f = a.ast.statements.find((s) => s.kind === 'fit' && s.name?.name === fit);
   const body = f ? a.text.slice(f.range.start.offset, f.range.end.offset) : '';

@@ -1,11 +1,11 @@
 /**
- * Documentation lookups for hover and completion, from the parser's docs
- * modules (parser/functions-doc.ts, parser/keyword-doc.ts), so the editor
- * and LANGUAGE.md say the same thing.
+ * Documentation lookups for hover and completion, from the registries of
+ * names (parser/registry/), so the editor and LANGUAGE.md say the same thing.
  */
-import { CONSTANT_DOCS, FUNCTION_DOCS } from '../../parser/functions-doc';
-import { KEYWORD_DOCS, STATISTIC_DOCS, STDERR_DOC } from '../../parser/keyword-doc';
-import { isFunctionName } from '../../parser/plan';
+import {
+  CONSTANT_SPECS, KEYWORD_SPECS, STATISTIC_SPECS, STATISTIC_UNIT_TEXT, STDERR_DOC, STDERR_MEMBER,
+  functionSpec, isConstantName, isKeyword, isStatisticName,
+} from '../../parser/registry';
 
 export interface FunctionDoc {
   signature: string;
@@ -14,20 +14,22 @@ export interface FunctionDoc {
 
 /** Documentation of a whitelisted function, or undefined. */
 export function functionDoc(name: string): FunctionDoc | undefined {
-  if (!isFunctionName(name)) return undefined;
-  const d = FUNCTION_DOCS[name];
-  return { signature: d.signature, summary: d.doc };
+  const d = functionSpec(name);
+  return d ? { signature: d.signature, summary: d.doc } : undefined;
 }
 
 export function keywordDoc(word: string): string | undefined {
-  return Object.prototype.hasOwnProperty.call(KEYWORD_DOCS, word) ? KEYWORD_DOCS[word] : undefined;
+  return isKeyword(word) ? KEYWORD_SPECS[word].doc : undefined;
 }
 
+/** A statistic's doc line and its unit (`se` after a parameter: its standard error). */
 export function statisticDoc(name: string): string | undefined {
-  if (name === 'se') return STDERR_DOC;
-  return Object.prototype.hasOwnProperty.call(STATISTIC_DOCS, name) ? STATISTIC_DOCS[name as keyof typeof STATISTIC_DOCS] : undefined;
+  if (name === STDERR_MEMBER) return STDERR_DOC;
+  if (!isStatisticName(name)) return undefined;
+  const s = STATISTIC_SPECS[name];
+  return `${s.doc} (${STATISTIC_UNIT_TEXT[s.unit]})`;
 }
 
 export function constantDoc(name: string): string | undefined {
-  return name === 'pi' || name === 'e' || name === 'inf' ? CONSTANT_DOCS[name] : undefined;
+  return isConstantName(name) ? CONSTANT_SPECS[name].doc : undefined;
 }

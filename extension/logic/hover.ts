@@ -6,7 +6,8 @@
  * quantities with their value after a fit.
  */
 import type { FitResult, RunResult } from '../../engine/result';
-import { FUNCTIONS } from '../../parser/plan';
+import { isFunctionName, isStatisticName } from '../../parser/registry';
+import { STATISTIC_GETTERS } from '../../engine/run/statistics';
 import { METHOD_LABEL } from '../../engine/front/views/summary';
 import { columnsOf, type EditorAnalysis } from './analysis';
 import { formatEstimate } from '../../engine/front/views/format';
@@ -31,7 +32,7 @@ export function hoverAt(a: EditorAnalysis, offset: number, run?: RunResult): Lsq
   const before = a.text.slice(Math.max(0, w.span.start - 200), w.span.start);
   const md = (text: string | null): LsqHover | null => (text ? { markdown: text, span: w.span } : null);
 
-  if (!w.quoted && after && Object.prototype.hasOwnProperty.call(FUNCTIONS, name)) {
+  if (!w.quoted && after && isFunctionName(name)) {
     const doc = functionDoc(name);
     return md(doc ? `\`${doc.signature}\`\n\n${doc.summary}` : `\`${name}(…)\``);
   }
@@ -117,14 +118,9 @@ function statisticHover(fit: string, stat: string, run?: RunResult): string | nu
   return `**${stat}** of \`${fit}\` = ${value === undefined ? '—' : fmt(value)}${about}`;
 }
 
-/** The value an `expect FIT.STAT` names, from a fit result. */
+/** The value an `expect FIT.STAT` names, from a fit result (the engine's getter); undefined for a name that is no statistic. */
 export function statisticValue(f: FitResult, stat: string): number | null | undefined {
-  const g = f.goodness;
-  const table: Record<string, number | null> = {
-    r2: g.r2, adj_r2: g.adjR2, rmse: g.rmse, ssr: g.ssr, chi2: g.chi2, chi2_reduced: g.chi2Reduced,
-    aic: g.aic, aicc: g.aicc, bic: g.bic, n: g.n, dof: g.dof, iterations: f.iterations,
-  };
-  return Object.prototype.hasOwnProperty.call(table, stat) ? table[stat] : undefined;
+  return isStatisticName(stat) ? STATISTIC_GETTERS[stat](f) : undefined;
 }
 
 /** Definition of a derived quantity and, after a fit, its value ± standard error and interval (per group when grouped). */

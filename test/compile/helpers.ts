@@ -13,7 +13,8 @@ export const call = (fn: FunctionName, ...args: Expr[]): Expr => ({ kind: 'call'
 export const neg = (arg: Expr): Expr => ({ kind: 'negate', arg });
 export const cmp = (op: CompareOp, left: Expr, right: Expr): Expr => ({ kind: 'compare', op, left, right });
 
-const FN: Record<string, (...a: number[]) => number> = {
+/** The oracle's own implementations (Math and special.ts), one per registry function but `when`: a function missing here does not compile. */
+const FN: Record<Exclude<FunctionName, 'when'>, (...a: number[]) => number> = {
   exp: Math.exp, ln: Math.log, log10: Math.log10, sqrt: Math.sqrt, abs: Math.abs,
   sin: Math.sin, cos: Math.cos, tan: Math.tan, asin: Math.asin, acos: Math.acos, atan: Math.atan, atan2: Math.atan2,
   sinh: Math.sinh, cosh: Math.cosh, tanh: Math.tanh, erf, erfc, min: Math.min, max: Math.max, pow: Math.pow, hypot: Math.hypot,

@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { completionsAt } from '../../extension/logic/completion';
-import { FUNCTIONS, LOSSES, METHODS, STATISTICS } from '../../parser/plan';
-import { KEYWORD_DOCS } from '../../parser/keyword-doc';
+import { FUNCTION_NAMES, KEYWORD_SPECS, LOSSES, METHODS, STATISTICS } from '../../parser/registry';
 import { analysisOf, COOLING, COOLING_HEADERS } from './helpers';
 
 /** Completions with the cursor where `marker` is written (the marker is removed). */
@@ -17,12 +16,12 @@ describe('extension/logic/completion', () => {
     const items = at(`${COOLING}\n|`);
     expect(labels(items)).toEqual(expect.arrayContaining(['data', 'const', 'fit', 'predict', 'invert', 'compare', 'expect']));
     expect(labels(items)).not.toContain('model');
-    expect(items.find((i) => i.label === 'fit')?.documentation).toBe(KEYWORD_DOCS.fit);
+    expect(items.find((i) => i.label === 'fit')?.documentation).toBe(KEYWORD_SPECS.fit.doc);
   });
 
   it('offers fit-body keywords inside a fit block', () => {
     const text = COOLING.replace('  sigma temp_sd\n', '  sigma temp_sd\n  |\n');
-    expect(labels(at(text))).toEqual(expect.arrayContaining(['model', 'param', 'sigma', 'weight', 'method', 'loss', 'level', 'per']));
+    expect(labels(at(text))).toEqual(expect.arrayContaining(['model', 'param', 'sigma', 'weight', 'method', 'loss', 'level', 'explore', 'per']));
     expect(labels(at(text))).not.toContain('predict');
   });
 
@@ -34,7 +33,7 @@ describe('extension/logic/completion', () => {
   it('offers parameters, header columns, constants and functions in a model expression', () => {
     const items = at(COOLING.replace('exp(-time_min / tau)', 'exp(-time_min / |tau)'));
     const l = labels(items);
-    expect(l).toEqual(expect.arrayContaining(['rise', 'tau', ...COOLING_HEADERS, 'ambient', 'pi', 'e', ...Object.keys(FUNCTIONS)]));
+    expect(l).toEqual(expect.arrayContaining(['rise', 'tau', ...COOLING_HEADERS, 'ambient', 'pi', 'e', ...FUNCTION_NAMES]));
     expect(items.find((i) => i.label === 'tau')?.kind).toBe('parameter');
     expect(items.find((i) => i.label === 'batch')?.kind).toBe('column');
     expect(items.find((i) => i.label === 'atan2')?.snippet).toBe('atan2(${1}, ${2})');
@@ -79,7 +78,7 @@ describe('extension/logic/completion', () => {
 
   it('derive: offers the keyword, then fits, constants, derived quantities and functions, then FIT members', () => {
     const start = at(`${COOLING}\nder|`);
-    expect(start.find((i) => i.label === 'derive')?.documentation).toBe(KEYWORD_DOCS.derive);
+    expect(start.find((i) => i.label === 'derive')?.documentation).toBe(KEYWORD_SPECS.derive.doc);
     const spec = `${COOLING}derive half_life = ln(2) * newton.tau [min]\n`;
     const expr = labels(at(`${spec}derive q = 2 * |`));
     expect(expr).toEqual(expect.arrayContaining(['newton', 'half_life', 'ambient', 'pi', 'ln']));

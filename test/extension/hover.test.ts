@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { hoverAt } from '../../extension/logic/hover';
 import { formatEstimate, formatNumber } from '../../engine/front/views/format';
-import { FUNCTION_DOCS } from '../../parser/functions-doc';
+import { FUNCTION_SPECS, STATISTICS } from '../../parser/registry';
 import { analysisOf, COOLING, fitNamed, runWith } from './helpers';
 
 const offsetOf = (needle: string, from = 0) => COOLING.indexOf(needle, from) + 1;
@@ -9,8 +9,8 @@ const offsetOf = (needle: string, from = 0) => COOLING.indexOf(needle, from) + 1
 describe('extension/logic/hover', () => {
   it('documents a function from the parser docs', () => {
     const h = hoverAt(analysisOf(COOLING), offsetOf('exp('));
-    expect(h?.markdown).toContain(FUNCTION_DOCS.exp.signature);
-    expect(h?.markdown).toContain(FUNCTION_DOCS.exp.doc);
+    expect(h?.markdown).toContain(FUNCTION_SPECS.exp.signature);
+    expect(h?.markdown).toContain(FUNCTION_SPECS.exp.doc);
     expect(COOLING.slice(h!.span.start, h!.span.end)).toBe('exp');
   });
 
@@ -63,6 +63,23 @@ describe('extension/logic/hover', () => {
     const h = hoverAt(analysisOf(COOLING), COOLING.indexOf('newton.r2') + 'newton.'.length + 1, runWith([fit]));
     expect(h?.markdown).toContain('**r2** of `newton`');
     expect(h?.markdown).toContain(`= ${formatNumber(fit.goodness.r2, 4)}`);
+  });
+
+  it('gives the value of every statistic the registry names, each from its own field', () => {
+    // distinct values per field, so a getter reading the wrong field shows the wrong number
+    const fit = fitNamed('newton', ['rise', 'tau']);
+    Object.assign(fit.goodness, { r2: 0.101, adjR2: 0.202, rmse: 0.303, ssr: 0.404, chi2: 0.505, chi2Reduced: 0.606, aic: 0.707, aicc: 0.808, bic: 0.909, n: 17, dof: 15 });
+    fit.iterations = 13;
+    const expected: Record<string, string> = {
+      r2: '0.101', adj_r2: '0.202', rmse: '0.303', ssr: '0.404', chi2: '0.505', chi2_reduced: '0.606',
+      aic: '0.707', aicc: '0.808', bic: '0.909', n: '17', dof: '15', iterations: '13',
+    };
+    expect(Object.keys(expected).sort()).toEqual([...STATISTICS].sort());
+    for (const stat of STATISTICS) {
+      const spec = `${COOLING}expect newton.${stat} above 0\n`;
+      const h = hoverAt(analysisOf(spec), spec.lastIndexOf(`newton.${stat}`) + 'newton.'.length + 1, runWith([fit]));
+      expect(h?.markdown, stat).toContain(`**${stat}** of \`newton\` = ${expected[stat]}`);
+    }
   });
 
   it('returns null on blanks and numbers', () => {

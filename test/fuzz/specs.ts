@@ -10,6 +10,7 @@ import { readdirSync, readFileSync, existsSync } from 'node:fs';
 import { basename, join } from 'node:path';
 import { analyze } from '../../parser/index';
 import { FUNCTIONS } from '../../parser/plan';
+import { LOSSES } from '../../parser/registry/losses';
 import { MAX_NESTING } from '../../parser/limits';
 import { Rand } from './random';
 import { csvField } from '../fixtures/hostile-names';
@@ -212,7 +213,7 @@ export function grammarSpec(r: Rand): string {
     const method = r.chance(0.4) ? either(['auto', 'linear', 'levenberg_marquardt', 'levenberg_marquardt', 'gradient_descent'], ['newton', 'linear']) : undefined;
     if (method) lines.push(`  method ${method}`);
     if (method === 'gradient_descent' && r.chance(0.7)) lines.push(`  rate ${either(['0.01', '0.1', '1e-4', '0.5'], ['0', '-1'])}`);
-    if (r.chance(0.15)) lines.push(`  loss ${either(['huber', 'soft_l1', 'cauchy', 'squared'], ['l2', 'abs'])}${r.chance(0.5) ? ` scale ${either(['0.5', '1', '2', 'k'], ['0', '-1'])}` : ''}`);
+    if (r.chance(0.15)) lines.push(`  loss ${either([...LOSSES], ['l2', 'abs'])}${r.chance(0.5) ? ` scale ${either(['0.5', '1', '2', 'k'], ['0', '-1'])}` : ''}`);
     if (r.chance(0.1)) lines.push(`  level ${either(['0.9', '0.99', '0.5', '0.68'], ['1.5', '0', '1'])}`);
     // iteration limits stay small: a campaign case must finish within its time budget
     if (method === 'gradient_descent' || r.chance(0.1)) lines.push(`  iterations ${either(['1', '50', '200', '2000', '5000'], ['2.5', '0', '-3'])}`);

@@ -44,14 +44,14 @@ fit f on d {
   param a = 2 in [0, inf] [mg/L]
   param b = -1 in [-inf, 5] fixed
   method gradient_descent
-  loss soft_l1 scale 0.3
+  loss pseudo_huber scale 0.3
   level 0.99
   iterations 1000
   tolerance 1e-6
   rate 0.05
   per "batch no"
 }`);
-    expect(f.options).toEqual({ method: 'gradient_descent', loss: 'soft_l1', lossScale: 0.3, level: 0.99, maxIterations: 1000, tolerance: 1e-6, learningRate: 0.05 });
+    expect(f.options).toEqual({ method: 'gradient_descent', loss: 'pseudo_huber', lossScale: 0.3, level: 0.99, maxIterations: 1000, tolerance: 1e-6, learningRate: 0.05 });
     expect(f.groupBy).toBe('batch no');
     const [a, b] = f.parameters;
     expect(a).toMatchObject({ name: 'a', initial: 2, lower: 0, fixed: false, unit: 'mg/L', scope: 'shared' });

@@ -93,7 +93,7 @@ describe('parser: derive statement (plan)', () => {
 
   it('leaves a derived quantity with errors out of the plan, but reports its later uses only once', () => {
     const { plan, diagnostics } = analyze(FITS + 'derive bad = cal.nope\nderive good = bad * 2\nexpect bad below 1');
-    expect(diagnostics.map((d) => d.code)).toEqual(['unknown-target']);
+    expect(diagnostics.map((d) => d.code)).toEqual(['unknown_target']);
     expect(plan.derived?.map((d) => d.name)).toEqual(['good']);
   });
 

@@ -19,7 +19,7 @@ function expectAt(withMarks: string, code: DiagnosticCode, ctx?: CheckContext): 
   expect(hit, `${code} at ${m.start.line}:${m.start.column}; got ${JSON.stringify(diagnostics.map((d) => [d.code, d.range.start.line, d.range.start.column, d.message]))}`).toBeDefined();
   expect(hit!.range.start).toEqual(m.start);
   expect(hit!.range.end).toEqual(m.end);
-  expect(hit!.severity).toBe(CODES[code]);
+  expect(hit!.severity).toBe(CODES[code].severity);
   expect(hit!.message.length).toBeGreaterThan(0);
   seen.add(code);
   return hit!;
@@ -57,25 +57,25 @@ describe('parser/check diagnostics', () => {
     seen.add('internal');
   });
 
-  it('nested-too-deeply: at the parenthesis or operator one level past the limit', () => {
+  it('nested_too_deeply: at the parenthesis or operator one level past the limit', () => {
     const open = '('.repeat(MAX_NESTING);
-    expectAt(spec({ model: `y = ${open}«(»a * x)${')'.repeat(MAX_NESTING)}` }), 'nested-too-deeply');
+    expectAt(spec({ model: `y = ${open}«(»a * x)${')'.repeat(MAX_NESTING)}` }), 'nested_too_deeply');
     // a tree's depth counts from its leaves: the outermost of 101 signs is the one too many
-    expectAt(spec({ model: `y = «-»${'-'.repeat(MAX_NESTING)}a * x` }), 'nested-too-deeply');
+    expectAt(spec({ model: `y = «-»${'-'.repeat(MAX_NESTING)}a * x` }), 'nested_too_deeply');
   });
 
-  it('undefined-name with did-you-mean (headers known)', () => {
-    const d = expectAt(spec({ model: 'y = a * «xx»' }), 'undefined-name', HEADERS);
+  it('undefined_name with did-you-mean (headers known)', () => {
+    const d = expectAt(spec({ model: 'y = a * «xx»' }), 'undefined_name', HEADERS);
     expect(d.suggestions).toContain('x');
     expect(d.message).toMatch(/did you mean 'x'/);
-    const d2 = expectAt(spec({ model: 'y = «ab» * x' }), 'undefined-name', HEADERS);
+    const d2 = expectAt(spec({ model: 'y = «ab» * x' }), 'undefined_name', HEADERS);
     expect(d2.suggestions?.[0]).toBe('a');
   });
 
-  it('undefined-name for a value that is not a constant', () => {
-    const d = expectAt('const ambient = 20\nconst k = «ambeint»', 'undefined-name');
+  it('undefined_name for a value that is not a constant', () => {
+    const d = expectAt('const ambient = 20\nconst k = «ambeint»', 'undefined_name');
     expect(d.suggestions).toEqual(['ambient']);
-    expectAt('const k = «k»', 'undefined-name');
+    expectAt('const k = «k»', 'undefined_name');
   });
 
   it('unresolved identifiers are columns when headers are unknown', () => {
@@ -84,107 +84,115 @@ describe('parser/check diagnostics', () => {
     expect(plan.fits[0].blocks[0].columns).toEqual(['y', 'xx']);
   });
 
-  it('unknown-column for quoted names and per', () => {
-    expect(expectAt(spec({ model: '«"temp (K)"» = a * x' }), 'unknown-column', HEADERS).suggestions).toEqual(['temp (C)']);
-    expect(expectAt(spec({ items: '  per «batc»' }), 'unknown-column', HEADERS).suggestions).toEqual(['batch']);
+  it('unknown_column for quoted names and per', () => {
+    expect(expectAt(spec({ model: '«"temp (K)"» = a * x' }), 'unknown_column', HEADERS).suggestions).toEqual(['temp (C)']);
+    expect(expectAt(spec({ items: '  per «batc»' }), 'unknown_column', HEADERS).suggestions).toEqual(['batch']);
   });
 
-  it('unknown-data with did-you-mean', () => {
-    const d = expectAt('data bench = "a.csv"\nfit f on «bench2» {\n  model y = a * x\n  param a\n}', 'unknown-data');
+  it('unknown_data with did-you-mean', () => {
+    const d = expectAt('data bench = "a.csv"\nfit f on «bench2» {\n  model y = a * x\n  param a\n}', 'unknown_data');
     expect(d.suggestions).toEqual(['bench']);
   });
 
-  it('unknown-fit with did-you-mean', () => {
-    expect(expectAt(spec({ after: 'predict «g» at x = 1' }), 'unknown-fit').suggestions).toEqual(['f']);
-    expectAt(spec({ after: 'expect «newton».r2 above 0.9' }), 'unknown-fit');
-    expectAt(spec({ after: 'compare f, «h»' }), 'unknown-fit');
+  it('unknown_fit with did-you-mean', () => {
+    expect(expectAt(spec({ after: 'predict «g» at x = 1' }), 'unknown_fit').suggestions).toEqual(['f']);
+    expectAt(spec({ after: 'expect «newton».r2 above 0.9' }), 'unknown_fit');
+    expectAt(spec({ after: 'compare f, «h»' }), 'unknown_fit');
   });
 
-  it('declared-later: names must be declared above their use', () => {
-    expectAt('fit f on «d» {\n  model y = a * x\n  param a\n}\ndata d = "a.csv"', 'declared-later');
-    expectAt(spec({ model: 'y = a * x + «k»', after: 'const k = 2' }), 'declared-later');
-    expectAt('expect «f».r2 above 0.5\n' + spec({}), 'declared-later');
+  it('declared_later: names must be declared above their use', () => {
+    expectAt('fit f on «d» {\n  model y = a * x\n  param a\n}\ndata d = "a.csv"', 'declared_later');
+    expectAt(spec({ model: 'y = a * x + «k»', after: 'const k = 2' }), 'declared_later');
+    expectAt('expect «f».r2 above 0.5\n' + spec({}), 'declared_later');
   });
 
-  it('duplicate-name for data, const, fit and param', () => {
-    expectAt('data d = "a.csv"\ndata «d» = "b.csv"\nfit f on d {\n  model y = a * x\n  param a\n}', 'duplicate-name');
-    expectAt('const k = 1\nconst «k» = 2', 'duplicate-name');
-    expectAt(spec({ after: 'fit «f» on d {\n  model y = a * x\n  param a\n}' }), 'duplicate-name');
-    expectAt(spec({ items: '  param «a» = 2' }), 'duplicate-name');
-    expectAt(spec({ before: 'const a = 1', items: '' }).replace('param a = 1', 'param «a» = 1'), 'duplicate-name');
+  it('duplicate_name for data, const, fit and param', () => {
+    expectAt('data d = "a.csv"\ndata «d» = "b.csv"\nfit f on d {\n  model y = a * x\n  param a\n}', 'duplicate_name');
+    expectAt('const k = 1\nconst «k» = 2', 'duplicate_name');
+    expectAt(spec({ after: 'fit «f» on d {\n  model y = a * x\n  param a\n}' }), 'duplicate_name');
+    expectAt(spec({ items: '  param «a» = 2' }), 'duplicate_name');
+    expectAt(spec({ before: 'const a = 1', items: '' }).replace('param a = 1', 'param «a» = 1'), 'duplicate_name');
   });
 
-  it('duplicate-option', () => {
-    expectAt(spec({ items: '  level 0.9\n  «level 0.8»' }), 'duplicate-option');
-    expectAt(spec({ items: '  param b = 1 «= 2»' }), 'duplicate-option');
-    expectAt('data d = "a.csv" where x > 0 «where x < 9»\nfit f on d {\n  model y = a * x\n  param a\n}', 'duplicate-option');
+  it('duplicate_option', () => {
+    expectAt(spec({ items: '  level 0.9\n  «level 0.8»' }), 'duplicate_option');
+    expectAt(spec({ items: '  param b = 1 «= 2»' }), 'duplicate_option');
+    expectAt('data d = "a.csv" where x > 0 «where x < 9»\nfit f on d {\n  model y = a * x\n  param a\n}', 'duplicate_option');
   });
 
-  it('reserved-name', () => {
-    expectAt('const «pi» = 3', 'reserved-name');
-    expectAt(spec({ model: 'y = a * x + e', items: '  param «e» = 1' }), 'reserved-name');
+  it('reserved_name', () => {
+    expectAt('const «pi» = 3', 'reserved_name');
+    expectAt(spec({ model: 'y = a * x + e', items: '  param «e» = 1' }), 'reserved_name');
   });
 
-  it('param-column-clash and const-column-clash (headers known)', () => {
-    expectAt(spec({ model: 'y = a * x + z', items: '  param «z» = 1' }), 'param-column-clash', HEADERS);
-    expectAt(spec({ before: 'const «sd» = 2' }), 'const-column-clash', HEADERS);
+  it('param_column_clash and const_column_clash (headers known)', () => {
+    expectAt(spec({ model: 'y = a * x + z', items: '  param «z» = 1' }), 'param_column_clash', HEADERS);
+    expectAt(spec({ before: 'const «sd» = 2' }), 'const_column_clash', HEADERS);
   });
 
-  it('unknown-function with did-you-mean, arity', () => {
-    expect(expectAt(spec({ model: 'y = a * «sqr»(x)' }), 'unknown-function').suggestions).toEqual(['sqrt']);
-    expect(expectAt(spec({ model: 'y = a * «log»(x)' }), 'unknown-function').suggestions).toEqual(['ln', 'log10']);
+  it('unknown_function with did-you-mean, arity', () => {
+    expect(expectAt(spec({ model: 'y = a * «sqr»(x)' }), 'unknown_function').suggestions).toEqual(['sqrt']);
+    expect(expectAt(spec({ model: 'y = a * «log»(x)' }), 'unknown_function').suggestions).toEqual(['ln', 'log10']);
     expectAt(spec({ model: 'y = a * «atan2(x)»' }), 'arity');
     expectAt(spec({ model: 'y = «when(x > 1, a)»' }), 'arity');
   });
 
-  it('condition-expected and number-expected', () => {
-    expectAt('data d = "a.csv" where «x + 1»\n' + spec({}).replace('data d = "a.csv"', ''), 'condition-expected');
-    expectAt(spec({ model: 'y = when(«x», a, 0)' }), 'condition-expected');
-    expectAt(spec({ model: 'y = a * «(x > 1)»' }), 'number-expected');
+  it('condition_expected and number_expected', () => {
+    expectAt('data d = "a.csv" where «x + 1»\n' + spec({}).replace('data d = "a.csv"', ''), 'condition_expected');
+    expectAt(spec({ model: 'y = when(«x», a, 0)' }), 'condition_expected');
+    expectAt(spec({ model: 'y = a * «(x > 1)»' }), 'number_expected');
     // Comparisons do not chain: the left comparison becomes an operand.
-    expectAt('data d = "a.csv" where «0 < x» < 5\nfit f on d {\n  model y = a * x\n  param a\n}', 'number-expected');
+    expectAt('data d = "a.csv" where «0 < x» < 5\nfit f on d {\n  model y = a * x\n  param a\n}', 'number_expected');
   });
 
-  it('param-not-allowed outside the model side', () => {
-    expectAt(spec({ model: 'y - «a» = a * x' }), 'param-not-allowed');
-    expectAt(spec({ items: '  sigma «a» * x' }), 'param-not-allowed');
+  it('param_not_allowed outside the model side', () => {
+    expectAt(spec({ model: 'y - «a» = a * x' }), 'param_not_allowed');
+    expectAt(spec({ items: '  sigma «a» * x' }), 'param_not_allowed');
   });
 
-  it('response-no-column, missing-model, no-parameter', () => {
-    expectAt(spec({ model: '«2 * pi» = a * x' }), 'response-no-column');
-    expectAt('data d = "a.csv"\nfit «f» on d {\n  param a\n}', 'missing-model');
-    expectAt(spec({ model: 'y = «2 * x»' }), 'no-parameter');
+  it('response_no_column, missing_model, no_parameter', () => {
+    expectAt(spec({ model: '«2 * pi» = a * x' }), 'response_no_column');
+    expectAt('data d = "a.csv"\nfit «f» on d {\n  param a\n}', 'missing_model');
+    expectAt(spec({ model: 'y = «2 * x»' }), 'no_parameter');
   });
 
-  it('bounds-order, initial-outside-bounds, fixed-without-value', () => {
-    expectAt(spec({ items: '  param b = 1 «in [5, 2]»' }), 'bounds-order');
-    expectAt(spec({ items: '  param b «in [inf, 5]»' }), 'bounds-order');
-    expectAt(spec({ items: '  param b = «9» in [0, 5]' }), 'initial-outside-bounds');
-    expectAt(spec({ items: '  param b = «-1» in [0, inf]' }), 'initial-outside-bounds');
-    expectAt(spec({ items: '  param b «fixed»' }), 'fixed-without-value');
-    expectAt(spec({ after: 'expect f.a «within 2 .. 1»' }), 'bounds-order');
+  it('bounds_order, initial_outside_bounds, fixed_without_value', () => {
+    expectAt(spec({ items: '  param b = 1 «in [5, 2]»' }), 'bounds_order');
+    expectAt(spec({ items: '  param b «in [inf, 5]»' }), 'bounds_order');
+    expectAt(spec({ items: '  param b = «9» in [0, 5]' }), 'initial_outside_bounds');
+    expectAt(spec({ items: '  param b = «-1» in [0, inf]' }), 'initial_outside_bounds');
+    expectAt(spec({ items: '  param b «fixed»' }), 'fixed_without_value');
+    expectAt(spec({ after: 'expect f.a «within 2 .. 1»' }), 'bounds_order');
   });
 
-  it('unknown-option with did-you-mean for method, loss, delimiter and decimal', () => {
-    expect(expectAt(spec({ items: '  method «lienar»' }), 'unknown-option').suggestions).toEqual(['linear']);
-    expect(expectAt(spec({ items: '  loss «hubr»' }), 'unknown-option').suggestions).toEqual(['huber']);
-    expectAt('data d = "a.csv" delimiter «"|"»', 'unknown-option');
-    expectAt('data d = "a.csv" decimal «"·"»', 'unknown-option');
+  it('unknown_option with did-you-mean for method, loss, delimiter and decimal', () => {
+    expect(expectAt(spec({ items: '  method «lienar»' }), 'unknown_option').suggestions).toEqual(['linear']);
+    expect(expectAt(spec({ items: '  loss «hubr»' }), 'unknown_option').suggestions).toEqual(['huber']);
+    expectAt('data d = "a.csv" delimiter «"|"»', 'unknown_option');
+    expectAt('data d = "a.csv" decimal «"·"»', 'unknown_option');
   });
 
-  it('level-range, not-positive, not-integer', () => {
-    expectAt(spec({ items: '  level «1.5»' }), 'level-range');
-    expectAt(spec({ items: '  level «0»' }), 'level-range');
-    expectAt(spec({ items: '  iterations «0»' }), 'not-positive');
-    expectAt(spec({ items: '  tolerance «-1e-3»' }), 'not-positive');
-    expectAt(spec({ items: '  loss huber scale «0»' }), 'not-positive');
-    expectAt(spec({ items: '  iterations «2.5»' }), 'not-integer');
+  it('unknown_option for a former loss name, located, with the new name as its only suggestion', () => {
+    const d = expectAt(spec({ items: '  loss «soft_l1» scale 0.5' }), 'unknown_option');
+    expect(d.suggestions).toEqual(['pseudo_huber']);
+    expect(d.message).toContain("'soft_l1' is now called 'pseudo_huber'");
+    const { plan } = analyze(spec({ items: '  loss pseudo_huber scale 0.5' }).replace(/[«»]/g, ''), HEADERS);
+    expect(plan.fits[0].options.loss).toBe('pseudo_huber');
   });
 
-  it('explore-range: a whole number from 0 to MAX_EXPLORE', () => {
-    expectAt(spec({ items: '  explore «-1»' }), 'explore-range');
-    expectAt(spec({ items: '  explore «2.5»' }), 'explore-range');
-    expectAt(spec({ items: '  explore «5000»' }), 'explore-range');
+  it('level_range, not_positive, not_integer', () => {
+    expectAt(spec({ items: '  level «1.5»' }), 'level_range');
+    expectAt(spec({ items: '  level «0»' }), 'level_range');
+    expectAt(spec({ items: '  iterations «0»' }), 'not_positive');
+    expectAt(spec({ items: '  tolerance «-1e-3»' }), 'not_positive');
+    expectAt(spec({ items: '  loss huber scale «0»' }), 'not_positive');
+    expectAt(spec({ items: '  iterations «2.5»' }), 'not_integer');
+  });
+
+  it('explore_range: a whole number from 0 to MAX_EXPLORE', () => {
+    expectAt(spec({ items: '  explore «-1»' }), 'explore_range');
+    expectAt(spec({ items: '  explore «2.5»' }), 'explore_range');
+    expectAt(spec({ items: '  explore «5000»' }), 'explore_range');
     const ok = analyze(spec({ items: '  explore 0' }));
     expect(ok.diagnostics).toEqual([]);
     expect(ok.plan.fits[0].options.explore).toBe(0);
@@ -192,115 +200,115 @@ describe('parser/check diagnostics', () => {
     expect(analyze(spec({})).plan.fits[0].options.explore).toBeUndefined();
   });
 
-  it('inf-not-allowed, number-range, empty-path, delimiter-clash', () => {
-    expectAt(spec({ items: '  param b = «inf»' }), 'inf-not-allowed');
-    expectAt(spec({ after: 'predict f at x = 1, «-inf»' }), 'inf-not-allowed');
-    expectAt('const k = «1e400»', 'number-range');
-    expectAt(spec({ model: 'y = a * x + «1e999»' }), 'number-range');
-    expectAt('data d = «""»', 'empty-path');
-    expectAt('data d = "a.csv" delimiter "," «decimal ","»', 'delimiter-clash');
+  it('inf_not_allowed, number_range, empty_path, delimiter_clash', () => {
+    expectAt(spec({ items: '  param b = «inf»' }), 'inf_not_allowed');
+    expectAt(spec({ after: 'predict f at x = 1, «-inf»' }), 'inf_not_allowed');
+    expectAt('const k = «1e400»', 'number_range');
+    expectAt(spec({ model: 'y = a * x + «1e999»' }), 'number_range');
+    expectAt('data d = «""»', 'empty_path');
+    expectAt('data d = "a.csv" delimiter "," «decimal ","»', 'delimiter_clash');
   });
 
-  it('unknown-target for expectations', () => {
-    expect(expectAt(spec({ after: 'expect f.«r3» above 0.5' }), 'unknown-target').suggestions).toContain('r2');
-    expect(expectAt(spec({ after: 'expect f.a.«sd» below 1' }), 'unknown-target').suggestions).toEqual(['se']);
-    expect(expectAt(spec({ after: 'expect f.«b».se below 1' }), 'unknown-target').suggestions).toEqual(['a']);
-    expectAt(spec({ after: 'expect f.a.se.«x» below 1' }), 'unknown-target');
+  it('unknown_target for expectations', () => {
+    expect(expectAt(spec({ after: 'expect f.«r3» above 0.5' }), 'unknown_target').suggestions).toContain('r2');
+    expect(expectAt(spec({ after: 'expect f.a.«sd» below 1' }), 'unknown_target').suggestions).toEqual(['se']);
+    expect(expectAt(spec({ after: 'expect f.«b».se below 1' }), 'unknown_target').suggestions).toEqual(['a']);
+    expectAt(spec({ after: 'expect f.a.se.«x» below 1' }), 'unknown_target');
   });
 
-  it('predictor-mismatch and response-mismatch', () => {
-    expect(expectAt(spec({ after: 'predict f at «z» = 1' }), 'predictor-mismatch').suggestions).toEqual(['x']);
+  it('predictor_mismatch and response_mismatch', () => {
+    expect(expectAt(spec({ after: 'predict f at «z» = 1' }), 'predictor_mismatch').suggestions).toEqual(['x']);
     const two = spec({ model: 'y = a * x + b * z', items: '  param b' });
     // a model of two columns has no single predictor to vary: predict is refused at check, as fit refuses it
-    expect(expectAt(two + '\npredict f at «z» = 1', 'predictor-mismatch').message).toBe("predict needs a model with exactly one predictor column; 'f' varies with 'x', 'z'");
-    expectAt(two + '\npredict f at «w» = 1', 'predictor-mismatch');
-    expect(expectAt(two + '\ninvert «f» at y = 1', 'predictor-mismatch').message).toBe("invert needs a model with exactly one predictor column; 'f' varies with 'x', 'z'");
-    expect(expectAt(spec({ model: 'y - z = a * x', after: 'invert f at «y» = 1' }), 'response-mismatch').message).toMatch(/reads exactly one column; 'f' reads 'y', 'z'/);
-    expectAt(spec({ model: 'y = a', after: 'predict f at «x» = 1' }), 'predictor-mismatch');
-    expect(expectAt(spec({ after: 'invert f at «x» = 1' }), 'response-mismatch').suggestions).toEqual(['y']);
+    expect(expectAt(two + '\npredict f at «z» = 1', 'predictor_mismatch').message).toBe("predict needs a model with exactly one predictor column; 'f' varies with 'x', 'z'");
+    expectAt(two + '\npredict f at «w» = 1', 'predictor_mismatch');
+    expect(expectAt(two + '\ninvert «f» at y = 1', 'predictor_mismatch').message).toBe("invert needs a model with exactly one predictor column; 'f' varies with 'x', 'z'");
+    expect(expectAt(spec({ model: 'y - z = a * x', after: 'invert f at «y» = 1' }), 'response_mismatch').message).toMatch(/reads exactly one column; 'f' reads 'y', 'z'/);
+    expectAt(spec({ model: 'y = a', after: 'predict f at «x» = 1' }), 'predictor_mismatch');
+    expect(expectAt(spec({ after: 'invert f at «x» = 1' }), 'response_mismatch').suggestions).toEqual(['y']);
     expect(analyze(spec({ model: 'ln(y) = a * x', after: 'invert f at y = 2' })).diagnostics).toEqual([]);
   });
 
-  it('compare-per-group, compare-mismatch (as the engine refuses them)', () => {
+  it('compare_per_group, compare_mismatch (as the engine refuses them)', () => {
     const two = (second: string, after: string) => [
       'data d = "a.csv"', 'data e = "b.csv"',
       'fit f on d {', '  model y = a * x', '  param a = 1', '}',
       `fit g on ${second} {`, '  model y = b * x', '  param b = 1', '  per batch', '}', after,
     ].join('\n');
-    expect(expectAt(two('d', 'compare f, «g»'), 'compare-per-group').message).toBe('compare needs fits without "per"; \'g\' runs per group');
+    expect(expectAt(two('d', 'compare f, «g»'), 'compare_per_group').message).toBe('compare needs fits without "per"; \'g\' runs per group');
     const plain = (second: string, response: string, after: string) => [
       'data d = "a.csv"', 'data e = "b.csv"',
       'fit f on d {', '  model y = a * x', '  param a = 1', '}',
       `fit g on ${second} {`, `  model ${response} = b * x`, '  param b = 1', '}', after,
     ].join('\n');
-    expectAt(plain('e', 'y', '«compare f, g»'), 'compare-mismatch');
-    expectAt(plain('d', 'ln(y)', '«compare f, g»'), 'compare-mismatch');
-    expect(analyze(plain('d', 'y', 'compare f, g'), HEADERS).diagnostics.map((d) => d.code)).toEqual(['unused-data']);
+    expectAt(plain('e', 'y', '«compare f, g»'), 'compare_mismatch');
+    expectAt(plain('d', 'ln(y)', '«compare f, g»'), 'compare_mismatch');
+    expect(analyze(plain('d', 'y', 'compare f, g'), HEADERS).diagnostics.map((d) => d.code)).toEqual(['unused_data']);
   });
 
-  it('method-not-linear: the compiler\'s own linearity test, fixed parameters as numbers', () => {
+  it('method_not_linear: the compiler\'s own linearity test, fixed parameters as numbers', () => {
     // the linearity test is the engine's, passed in as the CLI and the editor do (parser/check-env.ts)
-    expect(expectAt(spec({ model: 'y = a * exp(b * x)', items: '  param b = 1\n  method «linear»' }), 'method-not-linear', { isLinearIn: isLinearInParameters }).message).toMatch(/method linear needs a model linear in its parameters; 'f' is not/);
+    expect(expectAt(spec({ model: 'y = a * exp(b * x)', items: '  param b = 1\n  method «linear»' }), 'method_not_linear', { isLinearIn: isLinearInParameters }).message).toMatch(/method linear needs a model linear in its parameters; 'f' is not/);
     expect(analyze(spec({ model: 'y = a * exp(b * x)', items: '  param b = 1 fixed\n  method linear' }), { ...HEADERS, isLinearIn: isLinearInParameters }).diagnostics).toEqual([]);
     expect(analyze(spec({ model: 'y = a * x + b * x^2', items: '  param b\n  method linear' }), { ...HEADERS, isLinearIn: isLinearInParameters }).diagnostics).toEqual([]);
   });
 
-  it('compare-too-few; repeated-fit (a warning)', () => {
-    expectAt(spec({ after: '«compare f»' }), 'compare-too-few');
-    expectAt(spec({ after: 'compare f, «f»' }), 'repeated-fit');
+  it('compare_too_few; repeated_fit (a warning)', () => {
+    expectAt(spec({ after: '«compare f»' }), 'compare_too_few');
+    expectAt(spec({ after: 'compare f, «f»' }), 'repeated_fit');
   });
 
-  it('warnings: unused-parameter, unused-data, option-ignored', () => {
-    expectAt(spec({ items: '  param «b» = 1' }), 'unused-parameter');
-    expectAt('data «e» = "b.csv"\n' + spec({}), 'unused-data');
-    expectAt(spec({ items: '  loss squared scale «2»' }), 'option-ignored');
-    expectAt(spec({ items: '  «rate 0.1»' }), 'option-ignored');
-    expectAt(spec({ items: '  method gradient_descent\n  «explore 16»' }), 'option-ignored');
+  it('warnings: unused_parameter, unused_data, option_ignored', () => {
+    expectAt(spec({ items: '  param «b» = 1' }), 'unused_parameter');
+    expectAt('data «e» = "b.csv"\n' + spec({}), 'unused_data');
+    expectAt(spec({ items: '  loss squared scale «2»' }), 'option_ignored');
+    expectAt(spec({ items: '  «rate 0.1»' }), 'option_ignored');
+    expectAt(spec({ items: '  method gradient_descent\n  «explore 16»' }), 'option_ignored');
     expect(analyze(spec({ items: '  method gradient_descent\n  rate 0.1' })).diagnostics).toEqual([]);
   });
 
-  it('reference-not-allowed: FIT.NAME outside derive', () => {
-    expectAt(spec({ model: 'y = a * «f.a»' }), 'reference-not-allowed');
-    expectAt('data d = "a.csv" where «g.r2» > 0', 'reference-not-allowed');
-    expectAt(spec({ items: '  weight 1 / «f.rmse»' }), 'reference-not-allowed');
+  it('reference_not_allowed: FIT.NAME outside derive', () => {
+    expectAt(spec({ model: 'y = a * «f.a»' }), 'reference_not_allowed');
+    expectAt('data d = "a.csv" where «g.r2» > 0', 'reference_not_allowed');
+    expectAt(spec({ items: '  weight 1 / «f.rmse»' }), 'reference_not_allowed');
   });
 
-  it('column-in-derive: a plain (headers known) or quoted column in a derive', () => {
-    expectAt(spec({ after: 'derive k = 2 * «x»' }), 'column-in-derive', HEADERS);
-    expectAt(spec({ after: 'derive k = f.a + «"temp (C)"»' }), 'column-in-derive');
+  it('column_in_derive: a plain (headers known) or quoted column in a derive', () => {
+    expectAt(spec({ after: 'derive k = 2 * «x»' }), 'column_in_derive', HEADERS);
+    expectAt(spec({ after: 'derive k = f.a + «"temp (C)"»' }), 'column_in_derive');
   });
 
   it('derive: unknown or later fit, unknown parameter or statistic (did you mean)', () => {
-    expect(expectAt(spec({ after: 'derive k = «g».a' }), 'unknown-fit').suggestions).toEqual(['f']);
-    expectAt(spec({ after: 'derive k = «g».b\nfit g on d {\n  model y = b * x\n  param b\n}' }), 'declared-later');
-    expect(expectAt(spec({ after: 'derive k = 3 * f.«aa»' }), 'unknown-target').suggestions).toEqual(['a']);
-    expect(expectAt(spec({ after: 'derive k = f.«rmes» / f.a' }), 'unknown-target').suggestions).toContain('rmse');
-    expectAt(spec({ after: 'derive k = f.a.«se»' }), 'unknown-target');
-    expectAt(spec({ after: 'derive k = 2 * «f»' }), 'unknown-target');
-    expectAt(spec({ after: 'derive k = f.a\nderive m = «k».a' }), 'unknown-target');
+    expect(expectAt(spec({ after: 'derive k = «g».a' }), 'unknown_fit').suggestions).toEqual(['f']);
+    expectAt(spec({ after: 'derive k = «g».b\nfit g on d {\n  model y = b * x\n  param b\n}' }), 'declared_later');
+    expect(expectAt(spec({ after: 'derive k = 3 * f.«aa»' }), 'unknown_target').suggestions).toEqual(['a']);
+    expect(expectAt(spec({ after: 'derive k = f.«rmes» / f.a' }), 'unknown_target').suggestions).toContain('rmse');
+    expectAt(spec({ after: 'derive k = f.a.«se»' }), 'unknown_target');
+    expectAt(spec({ after: 'derive k = 2 * «f»' }), 'unknown_target');
+    expectAt(spec({ after: 'derive k = f.a\nderive m = «k».a' }), 'unknown_target');
   });
 
   it('derive: names that are not constants or derived quantities above', () => {
-    expect(expectAt(spec({ after: 'derive lod = f.a\nderive m = «lodd» * 2' }), 'undefined-name').suggestions).toEqual(['lod']);
-    expectAt(spec({ after: 'derive k = «k» + f.a' }), 'undefined-name');
-    expectAt(spec({ after: 'derive m = «k» * 2\nderive k = f.a' }), 'declared-later');
-    expectAt(spec({ after: 'derive m = «c» * f.a\nconst c = 2' }), 'declared-later');
+    expect(expectAt(spec({ after: 'derive lod = f.a\nderive m = «lodd» * 2' }), 'undefined_name').suggestions).toEqual(['lod']);
+    expectAt(spec({ after: 'derive k = «k» + f.a' }), 'undefined_name');
+    expectAt(spec({ after: 'derive m = «k» * 2\nderive k = f.a' }), 'declared_later');
+    expectAt(spec({ after: 'derive m = «c» * f.a\nconst c = 2' }), 'declared_later');
   });
 
   it('derive: duplicate and reserved names', () => {
-    expectAt(spec({ after: 'derive k = f.a\nderive «k» = f.a' }), 'duplicate-name');
-    expectAt(spec({ after: 'derive «f» = f.a' }), 'duplicate-name');
-    expectAt(spec({ after: 'derive «d» = f.a' }), 'duplicate-name');
-    expectAt(spec({ before: 'const c = 1', after: 'derive «c» = f.a' }), 'duplicate-name');
-    expectAt(spec({ after: 'derive «c» = f.a\nconst c = 1' }), 'duplicate-name');
-    expectAt(spec({ after: 'derive «pi» = f.a' }), 'reserved-name');
+    expectAt(spec({ after: 'derive k = f.a\nderive «k» = f.a' }), 'duplicate_name');
+    expectAt(spec({ after: 'derive «f» = f.a' }), 'duplicate_name');
+    expectAt(spec({ after: 'derive «d» = f.a' }), 'duplicate_name');
+    expectAt(spec({ before: 'const c = 1', after: 'derive «c» = f.a' }), 'duplicate_name');
+    expectAt(spec({ after: 'derive «c» = f.a\nconst c = 1' }), 'duplicate_name');
+    expectAt(spec({ after: 'derive «pi» = f.a' }), 'reserved_name');
   });
 
   it('expect on derived quantities', () => {
-    expect(expectAt(spec({ after: 'derive lod = f.a\nexpect «lodd» below 1' }), 'undefined-name').suggestions).toEqual(['lod']);
-    expectAt(spec({ after: 'expect «f» below 1' }), 'unknown-target');
-    expectAt(spec({ after: 'expect «k» below 1\nderive k = f.a' }), 'declared-later');
-    expect(expectAt(spec({ after: 'derive k = f.a\nexpect k.«sd» below 1' }), 'unknown-target').suggestions).toEqual(['se']);
+    expect(expectAt(spec({ after: 'derive lod = f.a\nexpect «lodd» below 1' }), 'undefined_name').suggestions).toEqual(['lod']);
+    expectAt(spec({ after: 'expect «f» below 1' }), 'unknown_target');
+    expectAt(spec({ after: 'expect «k» below 1\nderive k = f.a' }), 'declared_later');
+    expect(expectAt(spec({ after: 'derive k = f.a\nexpect k.«sd» below 1' }), 'unknown_target').suggestions).toEqual(['se']);
     expect(analyze(spec({ after: 'derive k = f.a\nexpect k below 1\nexpect k.se below 1' })).diagnostics).toEqual([]);
   });
 

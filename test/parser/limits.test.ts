@@ -17,7 +17,7 @@ const N = MAX_NESTING;
 const HEADERS = { headers: () => ['x', 'y'] };
 const wrap = (model: string): string => `data d = "a.csv"\nfit f on d {\n  model y = ${model}\n  param a = 1\n}\n`;
 const errorsOf = (ds: Diagnostic[]) => ds.filter((d) => d.severity === 'error');
-const deep = (ds: Diagnostic[]) => ds.filter((d) => d.code === 'nested-too-deeply');
+const deep = (ds: Diagnostic[]) => ds.filter((d) => d.code === 'nested_too_deeply');
 
 /** Nesting depth as the limit counts it: leaves 0; a chain counts once; parentheses add nothing of their own. */
 function depth(e: ExprAst): number {
@@ -47,7 +47,7 @@ const SHAPES: Record<string, (n: number) => string> = {
 
 describe('parser/limits: nesting', () => {
   for (const [name, make] of Object.entries(SHAPES)) {
-    it(`${name}: ${N} levels check clean, ${N + 1} levels give one located nested-too-deeply`, () => {
+    it(`${name}: ${N} levels check clean, ${N + 1} levels give one located nested_too_deeply`, () => {
       const ok = analyze(wrap(make(N)), HEADERS);
       expect(errorsOf(ok.diagnostics)).toEqual([]);
       const fit = parse(wrap(make(N))).ast.statements[1];
@@ -55,7 +55,7 @@ describe('parser/limits: nesting', () => {
       expect(depth(fit.items[0].model)).toBe(N);
       const text = wrap(make(N + 1));
       const bad = analyze(text, HEADERS).diagnostics;
-      expect(errorsOf(bad).map((d) => d.code)).toEqual(['nested-too-deeply']);
+      expect(errorsOf(bad).map((d) => d.code)).toEqual(['nested_too_deeply']);
       const d = deep(bad)[0];
       expect(d.message).toContain(`limit ${N}`);
       expect(d.range.start.line).toBe(3);
@@ -67,7 +67,7 @@ describe('parser/limits: nesting', () => {
     expect(analyze(wrap(`${'('.repeat(N)}a * x${')'.repeat(N)}`), HEADERS).diagnostics).toEqual([]);
     const text = wrap(`${'('.repeat(N + 1)}a * x${')'.repeat(N + 1)}`);
     const ds = analyze(text, HEADERS).diagnostics;
-    expect(ds.map((d) => d.code)).toEqual(['nested-too-deeply']);
+    expect(ds.map((d) => d.code)).toEqual(['nested_too_deeply']);
     expect(ds[0].range.start.offset).toBe(text.indexOf('(') + N);
     expect(text.slice(ds[0].range.start.offset, ds[0].range.end.offset)).toBe('(');
   });
@@ -75,7 +75,7 @@ describe('parser/limits: nesting', () => {
   it('a call one level too deep is reported at its function name, and the rest of the spec still checks', () => {
     const text = `${wrap(`${'exp('.repeat(N)}sqrt(a * x)${')'.repeat(N)}`)}predict g at x = 1\n`;
     const ds = analyze(text, HEADERS).diagnostics;
-    expect(ds.map((d) => d.code)).toEqual(['nested-too-deeply', 'unknown-fit']);
+    expect(ds.map((d) => d.code)).toEqual(['nested_too_deeply', 'unknown_fit']);
     expect(text.slice(ds[0].range.start.offset, ds[0].range.end.offset)).toBe('sqrt');
   });
 
@@ -106,9 +106,9 @@ describe('parser/limits: nesting', () => {
 
   it('a data condition and a derive expression are limited the same way', () => {
     const where = `data d = "a.csv" where ${'not '.repeat(N + 1)}x > 0\nfit f on d {\n  model y = a * x\n  param a = 1\n}\n`;
-    expect(errorsOf(analyze(where, HEADERS).diagnostics).map((d) => d.code)).toEqual(['nested-too-deeply']);
+    expect(errorsOf(analyze(where, HEADERS).diagnostics).map((d) => d.code)).toEqual(['nested_too_deeply']);
     const derive = `${wrap('a * x')}derive k = ${'-'.repeat(N + 1)}f.a\n`;
-    expect(errorsOf(analyze(derive, HEADERS).diagnostics).map((d) => d.code)).toEqual(['nested-too-deeply']);
+    expect(errorsOf(analyze(derive, HEADERS).diagnostics).map((d) => d.code)).toEqual(['nested_too_deeply']);
   });
 
   it('the margin: the parser alone reads 250 nested calls (2.5 times the limit) in this process', () => {
@@ -184,6 +184,6 @@ describe('parser/limits: long flat expressions', () => {
     const names = Array.from({ length: 200_000 }, () => 'f').join(', ');
     const c = analyze(`${wrap('a * x')}compare ${names}\n`, HEADERS).diagnostics;
     expect(c.some((d) => d.code === 'internal')).toBe(false);
-    expect(c.some((d) => d.code === 'repeated-fit')).toBe(true);
+    expect(c.some((d) => d.code === 'repeated_fit')).toBe(true);
   });
 });

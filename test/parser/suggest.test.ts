@@ -99,7 +99,7 @@ describe('parser/suggest bounded cost', () => {
   it('a spec with 1,000 unknown names over a 10,000-column header reports all of them; the first ones with suggestions', () => {
     const text = unknownNamesSpec(1000);
     const { diagnostics } = analyze(text, { headers: () => HEADER_10K });
-    const unknown = diagnostics.filter((d) => d.code === 'undefined-name');
+    const unknown = diagnostics.filter((d) => d.code === 'undefined_name');
     expect(unknown).toHaveLength(1000);
     const first = unknown[0];
     const name = text.slice(first.range.start.offset, first.range.end.offset);

@@ -30,29 +30,29 @@ const line = (name: string, data = 'd', response = 'y', extra = '') => `fit ${na
 describe('check and fit refuse the same specs, with the same message', () => {
   it('predict on a model of two columns', async () => {
     const spec = `${head}fit f on d {\n  model y = a * x + b * z\n  param a\n  param b\n}\npredict f at z = 1\n`;
-    const r = await both(spec, 'predictor-mismatch');
+    const r = await both(spec, 'predictor_mismatch');
     expect(r.check).toBe("predict needs a model with exactly one predictor column; 'f' varies with 'x', 'z'");
     expect(r.fit).toContain(r.check);
   });
 
   it('invert on a response of two columns', async () => {
-    const r = await both(`${head}${line('f', 'd', 'y - z')}invert f at y = 3\n`, 'response-mismatch');
+    const r = await both(`${head}${line('f', 'd', 'y - z')}invert f at y = 3\n`, 'response_mismatch');
     expect(r.fit).toContain(r.check);
   });
 
   it('compare with a per-group fit', async () => {
-    const r = await both(`${head}${line('f')}${line('g', 'd', 'y', '  per batch\n')}compare f, g\n`, 'compare-per-group');
+    const r = await both(`${head}${line('f')}${line('g', 'd', 'y', '  per batch\n')}compare f, g\n`, 'compare_per_group');
     expect(r.fit).toContain(r.check);
   });
 
   it('compare of fits on different data', async () => {
-    const r = await both(`${head}${line('f')}${line('g', 'e')}compare f, g\n`, 'compare-mismatch');
+    const r = await both(`${head}${line('f')}${line('g', 'e')}compare f, g\n`, 'compare_mismatch');
     expect(r.fit).toContain(r.check);
   });
 
   it('method linear on a nonlinear model', async () => {
     const spec = `${head}fit f on d {\n  model y = a * exp(b * x)\n  param a = 1\n  param b = 0.1\n  method linear\n}\n`;
-    const r = await both(spec, 'method-not-linear');
+    const r = await both(spec, 'method_not_linear');
     expect(r.fit).toContain(r.check);
   });
 });

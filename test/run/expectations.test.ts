@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { boundHolds, checkExpectations, statisticValue } from '../../engine/run/expectations';
+import { STATISTICS } from '../../parser/registry/statistics';
 import { failedFit } from '../../engine/run/fit-result';
 import type { Expectation, FitPlan, Range } from '../../parser/plan';
 import type { FitResult } from '../../engine/result';
@@ -34,6 +35,7 @@ describe('run/expectations', () => {
       x.iterations = 7;
     });
     const names = ['r2', 'adj_r2', 'rmse', 'ssr', 'chi2', 'chi2_reduced', 'aic', 'aicc', 'bic', 'n', 'dof', 'iterations'] as const;
+    expect([...names].sort()).toEqual([...STATISTICS].sort());
     expect(names.map((n) => statisticValue(r, n))).toEqual([0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9, 10, 9, 7]);
   });
 

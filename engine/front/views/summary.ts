@@ -4,20 +4,20 @@
  */
 import type { DerivedResult, ExpectationResult, FitResult, QueryResult, RunResult } from '../../result';
 import type { Align } from './table';
+import { LOSSES, LOSS_SPECS } from '../../../parser/registry/losses';
+import { METHOD_SPECS } from '../../../parser/registry/methods';
 import { formatEstimate, formatInteger, formatLevel, formatNumber, formatP, isUsable, MISSING } from './format';
 
-export const METHOD_LABEL: Record<FitResult['method'], string> = {
-  linear: 'linear least squares',
-  levenberg_marquardt: 'Levenberg–Marquardt',
-  gradient_descent: 'gradient descent',
+/** How the views name the solver and the loss of a fit (labels from parser/registry). */
+export const METHOD_LABEL: Readonly<Record<FitResult['method'], string>> = {
+  linear: METHOD_SPECS.linear.label,
+  levenberg_marquardt: METHOD_SPECS.levenberg_marquardt.label,
+  gradient_descent: METHOD_SPECS.gradient_descent.label,
 };
 
-export const LOSS_LABEL: Record<FitResult['loss'], string> = {
-  squared: 'squared loss',
-  huber: 'Huber loss',
-  soft_l1: 'soft-L1 loss',
-  cauchy: 'Cauchy loss',
-};
+export const LOSS_LABEL: Readonly<Record<FitResult['loss'], string>> = Object.fromEntries(
+  LOSSES.map((l) => [l, LOSS_SPECS[l].label]),
+) as Record<FitResult['loss'], string>;
 
 /**
  * How far a fit's numbers can be read as a result: `fitted` (the solver

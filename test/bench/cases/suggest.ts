@@ -30,8 +30,8 @@ export async function benchSuggest(ctx: BenchContext): Promise<BenchRow> {
   const sizes = ctx.quick ? [100, 300] : [1000, 3000];
   const texts = sizes.map(unknownNamesSpec);
   const first = analyze(texts[0], headers);
-  const unknown = first.diagnostics.filter((d) => d.code === 'undefined-name').length;
-  const withSuggestions = first.diagnostics.filter((d) => d.code === 'undefined-name' && d.suggestions?.length).length;
+  const unknown = first.diagnostics.filter((d) => d.code === 'undefined_name').length;
+  const withSuggestions = first.diagnostics.filter((d) => d.code === 'undefined_name' && d.suggestions?.length).length;
   if (unknown !== sizes[0]) throw new Error(`expected ${sizes[0]} unknown names, got ${unknown}`);
   const runs = ctx.quick ? 1 : 7;
   const t = await measure(() => analyze(texts[0], headers), runs, ctx.quick ? 0 : 1);

@@ -43,7 +43,7 @@ async function run() {
     const errors = await until(vscode.languages.onDidChangeDiagnostics, () => {
       const d = vscode.languages.getDiagnostics(uri).filter((x) => x.severity === vscode.DiagnosticSeverity.Error);
       return d.length ? d : null;
-    }, 'the unknown-column error');
+    }, 'the unknown_column error');
     check('unknown column reported', errors[0].message.includes('temp_sdx'), errors[0].message);
     const actions = await vscode.commands.executeCommand('vscode.executeCodeActionProvider', uri, errors[0].range, vscode.CodeActionKind.QuickFix.value);
     const fix = (actions || []).find((a) => a.title === "Change to 'temp_sd'");

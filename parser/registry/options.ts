@@ -1,0 +1,54 @@
+/**
+ * The options of a fit body (every fit item but `model` and `param`): how
+ * each is written, what it means, its default, and the plan field it sets.
+ * LANGUAGE.md's options table is generated from this list
+ * (test/registry/generated.test.ts). parser/check-options.ts `OPTION_KEYWORD`
+ * maps every field of the plan's `FitOptions` to the keyword that sets it, so
+ * a field added to `FitOptions` without its keyword does not compile (kept
+ * there: the registries do not import the plan, which imports them).
+ */
+import type { KeywordName } from './keywords';
+import { METHODS } from './methods';
+import { LOSSES } from './losses';
+
+/** Largest `explore N` (design points of the multi-start search). */
+export const MAX_EXPLORE = 4096;
+
+export interface FitOptionSpec {
+  /** The item as written (Markdown-free; `|` separates alternatives). */
+  readonly syntax: string;
+  readonly meaning: string;
+  readonly default: string;
+  /** Where the plan keeps it: a field of `FitOptions`, of a fit block (`sigma`, `weight`), or of the fit (`groupBy`); test/registry/registries.test.ts checks each. */
+  readonly field: string;
+}
+
+export type FitOptionKeyword = Extract<KeywordName, 'sigma' | 'weight' | 'method' | 'loss' | 'level' | 'iterations' | 'tolerance' | 'rate' | 'explore' | 'per'>;
+
+export const FIT_OPTION_SPECS: Readonly<Record<FitOptionKeyword, FitOptionSpec>> = {
+  sigma: { syntax: 'sigma EXPR', meaning: 'absolute standard deviation of each point; weights are 1/σ² and chi-square statistics are reported', default: 'unweighted', field: 'sigma' },
+  weight: { syntax: 'weight EXPR', meaning: 'relative weight of each point (the residual variance is still estimated)', default: '1', field: 'weight' },
+  method: {
+    syntax: `method ${METHODS.join(' | ')}`,
+    meaning: 'solver',
+    default: '`auto`: linear least squares when the model is linear in its parameters, else Levenberg–Marquardt; `linear` only for such a model',
+    field: 'method',
+  },
+  loss: {
+    syntax: `loss ${LOSSES.join(' | ')} [scale C]`,
+    meaning: 'how residuals are penalised (see Losses below); `scale` is where a robust loss starts to down-weight (C > 0)',
+    default: '`squared`, scale 1',
+    field: 'loss',
+  },
+  level: { syntax: 'level P', meaning: 'confidence level of intervals and bands, 0 < P < 1', default: '0.95', field: 'level' },
+  iterations: { syntax: 'iterations N', meaning: 'iteration limit of iterative solvers (whole number > 0)', default: '1000 (Levenberg–Marquardt), 100000 (gradient descent)', field: 'maxIterations' },
+  tolerance: { syntax: 'tolerance T', meaning: 'relative stopping tolerance (> 0, and below 1: a larger value stops the fit with a message)', default: '1e-10', field: 'tolerance' },
+  rate: { syntax: 'rate R', meaning: 'learning rate, gradient_descent only (> 0)', default: 'chosen by the solver', field: 'learningRate' },
+  explore: {
+    syntax: 'explore N',
+    meaning: `multi-start search: N spread-out starting points (Sobol' design) over the nonlinear parameters, the best few refined; the lowest minimum is reported (whole number 0–${MAX_EXPLORE}, 0: no search)`,
+    default: 'a search of 32 points per nonlinear parameter (32–256) when a nonlinear parameter has no start value; none when every start is given, and none per group of a `per` fit',
+    field: 'explore',
+  },
+  per: { syntax: 'per COLUMN', meaning: 'one separate fit per distinct value of the column', default: 'one fit', field: 'groupBy' },
+};

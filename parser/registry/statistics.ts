@@ -1,0 +1,61 @@
+/**
+ * The statistics of a fit that a spec may name after the fit's name
+ * (`expect cal.r2 above 0.99`, `derive lod = 3.3 * cal.rmse / cal.slope`):
+ * the one list of their names, with each one's documentation and unit.
+ *
+ * Derived from here: the plan's `StatisticName` type, the checker's lists,
+ * hover and completion texts, the statistics table of LANGUAGE.md
+ * (generated). Checked against it: the plan and result schemas' statistic
+ * enums (test/registry/schema-parity.test.ts). The engine reads each
+ * statistic from a fit result with the getter of the same name in
+ * engine/run/statistics.ts, a `Record<StatisticName, …>`: a statistic added
+ * here without its getter does not compile.
+ */
+
+/**
+ * What a statistic's number is measured in: `none` (a pure number),
+ * `response` (units of the (weighted) response), `response²`, `count`
+ * (a whole number).
+ */
+export type StatisticUnit = 'none' | 'response' | 'response²' | 'count';
+
+export interface StatisticSpec {
+  readonly doc: string;
+  readonly unit: StatisticUnit;
+}
+
+export const STATISTIC_SPECS = {
+  r2: { doc: 'Coefficient of determination R².', unit: 'none' },
+  adj_r2: { doc: 'R² adjusted for the number of free parameters.', unit: 'none' },
+  rmse: { doc: 'Root mean square of the (weighted) residuals.', unit: 'response' },
+  ssr: { doc: 'Sum of squared (weighted) residuals.', unit: 'response²' },
+  chi2: { doc: 'Chi-square: sum of squared residuals over sigma² (needs sigma).', unit: 'none' },
+  chi2_reduced: { doc: 'Chi-square divided by the degrees of freedom.', unit: 'none' },
+  aic: { doc: 'Akaike information criterion.', unit: 'none' },
+  aicc: { doc: 'AIC with the small-sample correction.', unit: 'none' },
+  bic: { doc: 'Bayesian (Schwarz) information criterion.', unit: 'none' },
+  n: { doc: 'Number of data points used.', unit: 'count' },
+  dof: { doc: 'Degrees of freedom: points minus free parameters.', unit: 'count' },
+  iterations: { doc: 'Iterations the solver took.', unit: 'count' },
+} as const satisfies Record<string, StatisticSpec>;
+
+export type StatisticName = keyof typeof STATISTIC_SPECS;
+
+/** Every statistic name, in registry order (the order of LANGUAGE.md and completion). */
+export const STATISTICS: readonly StatisticName[] = Object.freeze(Object.keys(STATISTIC_SPECS) as StatisticName[]);
+
+export function isStatisticName(name: string): name is StatisticName {
+  return Object.prototype.hasOwnProperty.call(STATISTIC_SPECS, name);
+}
+
+/** How each unit reads in docs and hovers. */
+export const STATISTIC_UNIT_TEXT: Readonly<Record<StatisticUnit, string>> = {
+  none: 'no unit',
+  response: 'unit of the response',
+  'response²': 'square of the response unit',
+  count: 'a count',
+};
+
+/** The member after a parameter or derived quantity: its standard error (`expect cal.slope.se below 0.01`). */
+export const STDERR_MEMBER = 'se';
+export const STDERR_DOC = 'se - standard error of the parameter estimate (or of a derived quantity).';
