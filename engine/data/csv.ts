@@ -98,7 +98,8 @@ export function readCsv(source: ByteSource, options: CsvOptions & { onBytes?: (b
   if (scanner.errors.length > 0) return { ok: false, errors: scanner.errors, bytes: run.bytes };
   const scanned = scanner.table();
   if (scanned === null) {
-    const error: DataError = { code: 'empty_file', file, message: scanner.onlyDelimiters ? dataText.noHeader(file) : dataText.emptyFile(file) };
+    // line 1 is where the header was expected
+    const error: DataError = { code: 'empty_file', file, row: 1, message: scanner.onlyDelimiters ? dataText.noHeader(file) : dataText.emptyFile(file) };
     return { ok: false, errors: [error], bytes: run.bytes };
   }
   const table: DataTable = { ...scanned, decimal };

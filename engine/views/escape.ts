@@ -73,6 +73,16 @@ export function inlineText(text: string): string {
   return escapeControls(text).replace(/[\n\t]/g, hex4);
 }
 
+/**
+ * User text (a cell, a column name) quoted inside a one-line message:
+ * `inlineText` between double quotes, so a line break inside a quoted CSV
+ * cell cannot split a message in the terminal, the editor's problem list,
+ * JSON or a report.
+ */
+export function quoted(text: string): string {
+  return `"${inlineText(text)}"`;
+}
+
 /** Text for HTML element content and attribute values: & < > " ' as entities. */
 export function htmlText(text: string): string {
   return text.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
