@@ -176,6 +176,7 @@ export const dataText = {
   column: (name: string | undefined, field: number) => (name === undefined ? `field ${field}` : `${quoted(name)} (field ${field})`),
   headerTooLong: (file: string, cap: number) =>
     `the header of ${file} does not end within its first ${cap / 1048576} MiB; its columns are not checked (a header longer than that is taken as a broken file)`,
+  headTooLong: (file: string, cap: number) => `the header of ${file} does not end within its first ${cap / 1048576} MiB, so no spec can be started from it`,
   noDataRows: (fit: string, file: string) => `fit ${fit}: ${file} has a header but no data rows`,
   allRowsMissing: (fit: string, file: string, rows: number, columns: string[]) =>
     `fit ${fit}: every one of the ${rows} data row${rows === 1 ? '' : 's'} of ${file} has an empty or NA cell in a column the fit uses (${columns.join(', ')}), so no row is left (the first such cell is here)`,
