@@ -121,27 +121,33 @@ function prepare(plan: DerivedPlan, defs: ReadonlyMap<string, Prepared | null>):
   const directKeys: string[] = [];
   const direct: number[] = [];
   const deps: { name: string; map: Int32Array }[] = [];
+  const seen = new Set<string>();
   const withParams = mapLeaves(plan.expr, (e) => {
     if (e.kind === 'derived') {
       const d = defs.get(e.name);
       if (d === undefined) unknown.push(e.name);
       else if (d === null) broken.push(e.name);
-      else if (!deps.some((x) => x.name === e.name)) deps.push({ name: e.name, map: Int32Array.from(d.slots, addSlot) });
+      else if (!seen.has(derivedKey(e.name))) {
+        seen.add(derivedKey(e.name));
+        deps.push({ name: e.name, map: Int32Array.from(d.slots, addSlot) });
+      }
       return { kind: 'param', name: derivedKey(e.name), range: e.range };
     }
     if (e.kind !== 'result') return e;
     const slot: Slot = { fit: e.fit, name: e.name, of: e.of };
     const key = slotKey(slot);
     const k = addSlot(slot);
-    if (!directKeys.includes(key)) {
+    if (!seen.has(key)) {
+      seen.add(key);
       directKeys.push(key);
       direct.push(k);
     }
     return { kind: 'param', name: key, range: e.range };
   });
   const base: Prepared = { plan, fits, slots, direct, deps, model: null };
-  if (unknown.length) return { ...base, error: derivedText.unknownDerived(unknown[0]) };
-  if (broken.length) return { ...base, error: derivedText.dependsOnBroken(broken[0]) };
+  const none: Prepared = { plan, fits: [], slots: [], direct: [], deps: [], model: null };
+  if (unknown.length) return { ...none, error: derivedText.unknownDerived(unknown[0]) };
+  if (broken.length) return { ...none, error: derivedText.dependsOnBroken(broken[0]) };
   try {
     return { ...base, model: compileModel(withParams, [...directKeys, ...deps.map((d) => derivedKey(d.name))], []) };
   } catch (err) {
