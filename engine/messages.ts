@@ -6,6 +6,7 @@
  */
 import type { WarningCode } from './result';
 import { MSG } from '../parser/messages';
+import { quoted } from '../parser/printable';
 
 /** At most 10 line numbers, then how many more. */
 export function listLines(lines: ArrayLike<number>): string {
@@ -181,14 +182,23 @@ export const dataText = {
   textAfterQuote: (place: string, column: string) =>
     `${place}: text after the closing quote of a quoted cell in ${column}; a quote inside a quoted cell must be doubled ("")`,
   /** A column in messages: `"name" (field k)`, or `field k` past the header. */
-  column: (name: string | undefined, field: number) => (name === undefined ? `field ${field}` : `"${name}" (field ${field})`),
+  column: (name: string | undefined, field: number) => (name === undefined ? `field ${field}` : `${quoted(name)} (field ${field})`),
   headerTooLong: (file: string, cap: number) =>
     `the header of ${file} does not end within its first ${cap / 1048576} MiB; its columns are not checked (a header longer than that is taken as a broken file)`,
+  headTooLong: (file: string, cap: number) => `the header of ${file} does not end within its first ${cap / 1048576} MiB, so no spec can be started from it`,
   noDataRows: (fit: string, file: string) => `fit ${fit}: ${file} has a header but no data rows`,
   allRowsMissing: (fit: string, file: string, rows: number, columns: string[]) =>
     `fit ${fit}: every one of the ${rows} data row${rows === 1 ? '' : 's'} of ${file} has an empty or NA cell in a column the fit uses (${columns.join(', ')}), so no row is left (the first such cell is here)`,
   allRowsFiltered: (fit: string, file: string, rows: number) =>
     `fit ${fit}: the where condition of the data statement leaves none of the ${rows} usable row${rows === 1 ? '' : 's'} of ${file}`,
+  tooFewRows: (fit: string, file: string, n: number, p: number, left: { dropped: number; filtered: number; excluded: number }) => {
+    const why = [
+      left.dropped > 0 ? `${left.dropped} dropped for an empty or NA cell` : '',
+      left.filtered > 0 ? `${left.filtered} left out by the where condition` : '',
+      left.excluded > 0 ? `${left.excluded} left out by a weight of 0` : '',
+    ].filter(Boolean).join(', ');
+    return `fit ${fit}: ${file} leaves ${n} usable row${n === 1 ? '' : 's'}${why ? ` (${why})` : ''} for ${p} free parameter${p === 1 ? '' : 's'}: at least ${p} are needed, more to estimate the scatter`;
+  },
   allRowsExcluded: (fit: string, file: string, rows: number, what: string) =>
     `fit ${fit}: every one of the ${rows} usable row${rows === 1 ? '' : 's'} of ${file} has ${what}, which leaves it out of the fit, so no row is left`,
 } as const;

@@ -4,44 +4,54 @@
  * box, logic/new-spec-degree.ts); the spec is written by the shared scaffolder
  * (engine/templates `scaffoldSpec`, the same as the CLI's `new`) into a NEW
  * file next to the CSV (`<csv name>.lsq`, or `-2`, `-3`… when taken) and
- * opened. Needs a trusted workspace (it reads a whole data file and writes a
- * file). The CSV is only read, and only when it is a regular file; a local
- * spec is written through engine/io (checked against the CSV by file
- * identity, staged, linked into place only while the name is free).
+ * opened. Needs a trusted workspace (it reads a data file and writes a
+ * file). The CSV is only read, and only when it is a regular file, and only
+ * its start: the header and the first rows (engine/data `sampleFromBytes`,
+ * the same sample as the CLI's `new`), read asynchronously, so a CSV of any
+ * size works. A local spec is written through engine/io (checked against the
+ * CSV by file identity, staged, linked into place only while the name is free).
  */
 import * as path from 'node:path';
 import * as vscode from 'vscode';
-import { parseCsvText } from '../engine/data';
-import { clashMessage, OutputGuard, readInput, writeAllOrNothing } from '../engine/io';
+import { sampleFromBytes, SAMPLE_MAX_BYTES, SAMPLE_ROWS } from '../engine/data';
+import { clashMessage, OutputGuard, readInputHead, writeAllOrNothing } from '../engine/io';
 import { polynomial, scaffoldSpec, TEMPLATES, type Template } from '../engine/templates';
 import { degreeInputError, degreePrompt, maxDegreeFor, polynomialFor } from './logic/new-spec-degree';
 import type { LwContext } from './context';
 import { requireTrust } from './trust';
 
-/** Largest CSV read for scaffolding (starting values need the data). */
-const MAX_CSV_BYTES = 200 * 1024 * 1024;
+/** Largest CSV read whole from a file system other than the local one (vscode.workspace.fs reads only whole files). */
+const MAX_REMOTE_CSV_BYTES = 200 * 1024 * 1024;
 
-/** The CSV's text: local files through engine/io (regular files only, asynchronous), others through vscode.workspace.fs. */
-async function readCsv(csv: vscode.Uri): Promise<string> {
-  if (csv.scheme === 'file') return (await readInput(csv.fsPath, MAX_CSV_BYTES)).toString('utf8');
+/**
+ * The first bytes of the CSV (at most SAMPLE_MAX_BYTES) and whether the file
+ * goes on after them: local files through engine/io (regular files only,
+ * asynchronous), others through vscode.workspace.fs.
+ */
+async function readCsvStart(csv: vscode.Uri): Promise<{ bytes: Uint8Array; more: boolean }> {
+  if (csv.scheme === 'file') {
+    const head = await readInputHead(csv.fsPath, { maxBytes: SAMPLE_MAX_BYTES, chunkBytes: 1 << 20 });
+    return { bytes: head.bytes, more: head.capped };
+  }
   const stat = await vscode.workspace.fs.stat(csv);
   if (!(stat.type & vscode.FileType.File)) throw new Error('it is not a regular file (only regular files are read)');
-  if (stat.size > MAX_CSV_BYTES) throw new Error(`it is larger than ${MAX_CSV_BYTES / 1024 / 1024} MB; write the spec by hand`);
-  return Buffer.from(await vscode.workspace.fs.readFile(csv)).toString('utf8');
+  if (stat.size > MAX_REMOTE_CSV_BYTES) throw new Error(`it is larger than ${MAX_REMOTE_CSV_BYTES / 1024 / 1024} MB; write the spec by hand`);
+  const all = await vscode.workspace.fs.readFile(csv);
+  return { bytes: all.subarray(0, SAMPLE_MAX_BYTES), more: all.length > SAMPLE_MAX_BYTES };
 }
 
 export async function newSpecFromCsv(ctx: LwContext, arg?: unknown): Promise<vscode.Uri | undefined> {
   if (!(await requireTrust('newSpec'))) return undefined;
   const csv = await pickCsv(arg);
   if (!csv) return undefined;
-  let text: string;
+  let start: { bytes: Uint8Array; more: boolean };
   try {
-    text = await readCsv(csv);
+    start = await readCsvStart(csv);
   } catch (e) {
     void vscode.window.showErrorMessage(`Leastwise: cannot read ${path.posix.basename(csv.path)}: ${e instanceof Error ? e.message : String(e)}`);
     return undefined;
   }
-  const parsed = parseCsvText(text, { file: path.posix.basename(csv.path) });
+  const parsed = sampleFromBytes(start.bytes, start.more, { file: path.posix.basename(csv.path) });
   if (!parsed.ok) {
     void vscode.window.showErrorMessage(`Leastwise: cannot read ${path.posix.basename(csv.path)}: ${parsed.errors[0]?.message ?? 'unknown error'}`);
     return undefined;
@@ -77,7 +87,7 @@ export async function newSpecFromCsv(ctx: LwContext, arg?: unknown): Promise<vsc
     }
     writeAllOrNothing([{ path: target.fsPath, content: result.text, exclusive: true }]);
   } else await vscode.workspace.fs.writeFile(target, Buffer.from(result.text, 'utf8'));
-  ctx.log.info(`new spec ${target.fsPath} (${template.id}, ${y.label} against ${x.label})`);
+  ctx.log.info(`new spec ${target.fsPath} (${template.id}, ${y.label} against ${x.label}; starting values from ${parsed.complete ? 'every row' : `the first ${SAMPLE_ROWS} rows`})`);
   await vscode.window.showTextDocument(target);
   return target;
 }

@@ -36,3 +36,13 @@ export function inlineText(text: string): string {
   return escapeControls(text).replace(/[\n\t]/g, hex4);
 }
 
+
+/**
+ * User text (a cell, a column name) quoted inside a one-line message:
+ * `inlineText` between double quotes, so a line break inside a quoted CSV
+ * cell cannot split a message in the terminal, the editor's problem list,
+ * JSON or a report.
+ */
+export function quoted(text: string): string {
+  return `"${inlineText(text)}"`;
+}

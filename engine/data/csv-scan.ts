@@ -81,6 +81,8 @@ export interface ScannerOptions {
   headerOnly?: boolean;
   /** Total bytes of the input when known (a file's size): columns are then reserved for the rows it likely holds. */
   sizeHint?: number;
+  /** Stop after this many data rows (a sample of the file's start: `readCsvHead`). */
+  maxRows?: number;
 }
 
 export interface ScannedTable {
@@ -127,6 +129,8 @@ export class CsvScanner {
   /** A blank record with delimiters was skipped before any header. */
   private skippedDelimiters = false;
   readonly errors: DataError[] = [];
+  /** The scan stopped at `maxRows` (rows may follow). */
+  rowLimitReached = false;
   /** Nothing more to read: the header of a header-only scan, or too many errors. */
   done = false;
   /** Decoded content of the last quoted cell and the line breaks inside it (set by `quoted`). */
@@ -552,6 +556,10 @@ export class CsvScanner {
       if (multi) this.cellLines.set(this.rowCount, this.fieldLines.slice(0, width));
       this.lines.push(recordLine);
       this.rowCount++;
+      if (this.rowCount === this.options.maxRows) {
+        this.done = true;
+        this.rowLimitReached = true;
+      }
     }
     this.line = line;
     return this.done ? n : pos;

@@ -98,11 +98,37 @@ export function readCsv(source: ByteSource, options: CsvOptions & { onBytes?: (b
   if (scanner.errors.length > 0) return { ok: false, errors: scanner.errors, bytes: run.bytes };
   const scanned = scanner.table();
   if (scanned === null) {
-    const error: DataError = { code: 'empty_file', file, message: scanner.onlyDelimiters ? dataText.noHeader(file) : dataText.emptyFile(file) };
+    // line 1 is where the header was expected
+    const error: DataError = { code: 'empty_file', file, row: 1, message: scanner.onlyDelimiters ? dataText.noHeader(file) : dataText.emptyFile(file) };
     return { ok: false, errors: [error], bytes: run.bytes };
   }
   const table: DataTable = { ...scanned, decimal };
   return { ok: true, table, bytes: run.bytes };
+}
+
+/**
+ * The header and at most `maxRows` data rows from the start of `source`,
+ * reading at most `maxBytes` (`new` and the editor's "New Spec from CSV",
+ * which need the columns and a sample of rows for starting values, never the
+ * whole file). A record cut by `maxBytes` is not read (it is not the end of
+ * the input), so a source holding only the first `maxBytes` bytes of a longer
+ * file gives the same rows as the file. `complete` is true when the input
+ * ended within the sample with fewer than `maxRows` rows (every row was read;
+ * a file of exactly `maxRows` rows counts as sampled).
+ */
+export function readCsvHead(source: ByteSource, options: CsvOptions & { maxRows: number; maxBytes: number }): CsvResult & { complete: boolean } {
+  const file = options.file ?? '<text>';
+  const decimal = options.decimal ?? '.';
+  if (options.delimiter === ',' && decimal === ',') return { ok: false, errors: [{ code: 'delimiter_conflict', file, message: dataText.delimiterConflict }], complete: false };
+  const scanner = new CsvScanner({ delimiter: options.delimiter, decimal, file, maxErrors: options.maxErrors ?? 20, maxRows: options.maxRows });
+  const run = runScanner(scanner, source, { chunkSize: Math.min(options.chunkSize ?? DEFAULT_CHUNK_SIZE, options.maxBytes), maxBytes: options.maxBytes });
+  if (scanner.errors.length > 0) return { ok: false, errors: scanner.errors, complete: false };
+  const scanned = scanner.table();
+  if (scanned === null) {
+    const message = run.capped ? dataText.headTooLong(file, options.maxBytes) : scanner.onlyDelimiters ? dataText.noHeader(file) : dataText.emptyFile(file);
+    return { ok: false, errors: [{ code: 'empty_file', file, row: 1, message }], complete: false };
+  }
+  return { ok: true, table: { ...scanned, decimal }, complete: !run.capped && !scanner.rowLimitReached };
 }
 
 /** CSV from bytes (UTF-8, optional byte-order mark). */

@@ -9,7 +9,7 @@
 import { createHash } from 'node:crypto';
 import { closeSync, fstatSync, readSync } from 'node:fs';
 import { openInputSync } from '../io/input';
-import { bytesSource, readCsv, type ByteSource } from './csv';
+import { bytesSource, readCsv, readCsvHead, type ByteSource } from './csv';
 import type { CsvOptions, DataError, DataTable } from './types';
 
 /** Reads a file's bytes (or text) in one piece. Injected by tests and the editor; without it the file is streamed. */
@@ -81,4 +81,43 @@ export function loadDataFile(
   }
   if (!parsed.ok) return { ok: false, errors: parsed.errors };
   return { ok: true, data: { table: parsed.table, sha256: hash.digest('hex'), bytes: parsed.bytes } };
+}
+
+/**
+ * A sample of a CSV file for starting a spec (`new`, the editor's "New Spec
+ * from CSV"): the header and the first SAMPLE_ROWS data rows, reading at most
+ * SAMPLE_MAX_BYTES. Starting values need a few thousand rows, not the file;
+ * a 1 GiB file costs the same as a small one.
+ */
+export const SAMPLE_ROWS = 10_000;
+/** Most bytes read for a sample: room for a header as long as `check` reads (header.ts HEADER_MAX_BYTES) and then rows. */
+export const SAMPLE_MAX_BYTES = 16 * 1024 * 1024;
+
+export type SampleResult = { ok: true; table: DataTable; complete: boolean } | { ok: false; errors: DataError[] };
+
+/** The start of a CSV file as a table (synchronous, streamed: reading stops at the last row sampled). Never throws. */
+export function sampleDataFile(path: string, options: Omit<CsvOptions, 'file'> & { displayPath?: string; maxRows?: number; maxBytes?: number } = {}): SampleResult {
+  const file = options.displayPath ?? path;
+  const { displayPath: _display, maxRows, maxBytes, ...csv } = options;
+  let fd: number | null = null;
+  try {
+    fd = openForReading(path);
+    const r = readCsvHead(fdSource(fd), { ...csv, file, maxRows: maxRows ?? SAMPLE_ROWS, maxBytes: maxBytes ?? SAMPLE_MAX_BYTES });
+    return r.ok ? { ok: true, table: r.table, complete: r.complete } : { ok: false, errors: r.errors };
+  } catch (e) {
+    return { ok: false, errors: [fileError(e, file)] };
+  } finally {
+    if (fd !== null) closeSync(fd);
+  }
+}
+
+/**
+ * The same sample from the first bytes of a file read elsewhere (the editor
+ * reads them asynchronously with engine/io `readInputHead`): `more` says the
+ * file goes on after them, so a record they cut off is not taken as a row.
+ */
+export function sampleFromBytes(bytes: Uint8Array, more: boolean, options: CsvOptions & { maxRows?: number } = {}): SampleResult {
+  const { maxRows, ...csv } = options;
+  const r = readCsvHead(bytesSource(bytes), { ...csv, maxRows: maxRows ?? SAMPLE_ROWS, maxBytes: more ? bytes.length : Infinity });
+  return r.ok ? { ok: true, table: r.table, complete: r.complete } : { ok: false, errors: r.errors };
 }

@@ -28,8 +28,12 @@
  * common level of the fits, or 0.95 when their levels differ.
  *
  * Per-group fits give one value per group; a fit without groups is shared by
- * every group. Derived quantities named in the expression are expanded into
- * their own expressions first, so the gradient reaches the fit parameters.
+ * every group. A derived quantity named in the expression is read as a number
+ * with its own value and gradient (computed once per group, when it was
+ * evaluated above): the gradient with respect to the fit numbers is
+ * ∂f/∂θ + Σᵢ ∂f/∂dᵢ · ∇dᵢ (the chain rule; a zero factor gives 0 even when the
+ * other is not finite, as in engine/compile), so a chain of N derived
+ * quantities costs O(N), not the O(N²) of expanding each into the others.
  *
  * Guards: a failed or missing fit, a missing parameter, a non-finite statistic
  * or value give `value: null` with the reason; a non-finite derivative or
@@ -48,9 +52,6 @@ import { exprText, mapLeaves } from '../../parser/plan-expr';
 /** A gᵀCg with gᵀCg < 0 and |gᵀCg| ≤ this·Σ|gⱼCⱼₖgₖ| is rounding error and taken as 0. */
 export const NEGATIVE_VARIANCE_TOLERANCE = 1e-10;
 
-/** Node limit of an expression after expanding derived quantities (each expansion may double it; guards untrusted specs). */
-export const MAX_EXPANDED_NODES = 100_000;
-
 /** Confidence level used for a normal interval over fits with different levels. */
 const FALLBACK_LEVEL = 0.95;
 
@@ -64,8 +65,14 @@ interface Slot {
 
 interface Prepared {
   plan: DerivedPlan;
+  /** The fits read, directly or through derived quantities, in reading order. */
   fits: string[];
+  /** The fit numbers read, directly or through derived quantities, in reading order (the gradient's order). */
   slots: Slot[];
+  /** Index in `slots` of each number the expression reads itself (the compiled model's first parameters). */
+  direct: number[];
+  /** The derived quantities the expression reads (the model's remaining parameters), each with the index in `slots` of its own slots. */
+  deps: { name: string; map: Int32Array }[];
   model: CompiledModel | null;
   /** Why the expression cannot be evaluated at all. */
   error?: string;
@@ -73,69 +80,130 @@ interface Prepared {
 
 type Numbers = Pick<DerivedResult, 'value' | 'stderr' | 'lower' | 'upper' | 'level' | 'dof' | 'note'>;
 
+/** Value and gradient (over its `slots`) of a derived quantity for one group (or none), kept for the quantities that read it. */
+interface Raw {
+  value: number;
+  grad: Float64Array;
+}
+
+/** Per derived quantity: its raw numbers by group label ('' for a quantity that reads no per-group fit). */
+type Memo = Map<string, Map<string, Raw>>;
+
 const sentence = (s: string): string => (s.endsWith('.') ? s : `${s}.`);
 const missing = (note: string): Numbers => ({ value: null, stderr: null, lower: null, upper: null, level: null, dof: null, note: sentence(note) });
 
-/** Tree size of `e`, counting shared subtrees once per use (memoized by object identity). */
-function treeSize(e: Expr, memo = new Map<Expr, number>()): number {
-  const hit = memo.get(e);
-  if (hit !== undefined) return hit;
-  let n = 1;
-  switch (e.kind) {
-    case 'negate': case 'not': n += treeSize(e.arg, memo); break;
-    case 'binary': case 'compare': case 'logic': n += treeSize(e.left, memo) + treeSize(e.right, memo); break;
-    case 'call': case 'chain': for (const a of e.args) n += treeSize(a, memo); break;
-    default: break;
-  }
-  memo.set(e, n);
-  return n;
-}
-
 const slotKey = (s: Slot): string => `${s.of}\u0000${s.fit}\u0000${s.name}`;
+/** Parameter name of a derived quantity read by another (a NUL cannot occur in a name of the spec). */
+const derivedKey = (name: string): string => `derived\u0000${name}`;
 
 /**
- * Expands derived names (from `defs`: already expanded, or null when that
- * quantity could not be expanded), collects the fits and numbers read, compiles.
+ * Collects the fits and numbers read (through the derived quantities in `defs`:
+ * prepared, or null when that quantity could not be prepared) and compiles
+ * the expression with each number and each derived quantity as a parameter.
  */
-function prepare(plan: DerivedPlan, defs: ReadonlyMap<string, Expr | null>): { prepared: Prepared; expanded: Expr | null } {
+function prepare(plan: DerivedPlan, defs: ReadonlyMap<string, Prepared | null>): Prepared {
   const unknown: string[] = [];
   const broken: string[] = [];
-  const expanded = mapLeaves(plan.expr, (e) => {
-    if (e.kind !== 'derived') return e;
-    const d = defs.get(e.name);
-    if (d === undefined) unknown.push(e.name);
-    if (d === null) broken.push(e.name);
-    return d ?? { kind: 'number', value: 0 };
-  });
-  const base: Prepared = { plan, fits: [], slots: [], model: null };
-  if (unknown.length) return { prepared: { ...base, error: derivedText.unknownDerived(unknown[0]) }, expanded: null };
-  if (broken.length) return { prepared: { ...base, error: derivedText.dependsOnBroken(broken[0]) }, expanded: null };
-  if (treeSize(expanded) > MAX_EXPANDED_NODES) {
-    return { prepared: { ...base, error: derivedText.compileFailed(`more than ${MAX_EXPANDED_NODES} terms after expanding derived quantities`) }, expanded: null };
-  }
-  const slots = new Map<string, Slot>();
+  const slots: Slot[] = [];
+  const slotIndex = new Map<string, number>();
   const fits: string[] = [];
-  const withSlots = mapLeaves(expanded, (e) => {
+  const addSlot = (slot: Slot): number => {
+    const key = slotKey(slot);
+    let k = slotIndex.get(key);
+    if (k === undefined) {
+      k = slots.length;
+      slotIndex.set(key, k);
+      slots.push(slot);
+      if (!fits.includes(slot.fit)) fits.push(slot.fit);
+    }
+    return k;
+  };
+  const directKeys: string[] = [];
+  const direct: number[] = [];
+  const deps: { name: string; map: Int32Array }[] = [];
+  const seen = new Set<string>();
+  const withParams = mapLeaves(plan.expr, (e) => {
+    if (e.kind === 'derived') {
+      const d = defs.get(e.name);
+      if (d === undefined) unknown.push(e.name);
+      else if (d === null) broken.push(e.name);
+      else if (!seen.has(derivedKey(e.name))) {
+        seen.add(derivedKey(e.name));
+        deps.push({ name: e.name, map: Int32Array.from(d.slots, addSlot) });
+      }
+      return { kind: 'param', name: derivedKey(e.name), range: e.range };
+    }
     if (e.kind !== 'result') return e;
     const slot: Slot = { fit: e.fit, name: e.name, of: e.of };
     const key = slotKey(slot);
-    if (!slots.has(key)) slots.set(key, slot);
-    if (!fits.includes(e.fit)) fits.push(e.fit);
+    const k = addSlot(slot);
+    if (!seen.has(key)) {
+      seen.add(key);
+      directKeys.push(key);
+      direct.push(k);
+    }
     return { kind: 'param', name: key, range: e.range };
   });
-  const list = [...slots.values()];
+  const base: Prepared = { plan, fits, slots, direct, deps, model: null };
+  const none: Prepared = { plan, fits: [], slots: [], direct: [], deps: [], model: null };
+  if (unknown.length) return { ...none, error: derivedText.unknownDerived(unknown[0]) };
+  if (broken.length) return { ...none, error: derivedText.dependsOnBroken(broken[0]) };
   try {
-    const model = compileModel(withSlots, list.map(slotKey), []);
-    return { prepared: { plan, fits, slots: list, model }, expanded };
+    return { ...base, model: compileModel(withParams, [...directKeys, ...deps.map((d) => derivedKey(d.name))], []) };
   } catch (err) {
-    return { prepared: { plan, fits, slots: list, model: null, error: derivedText.compileFailed(err instanceof Error ? err.message : String(err)) }, expanded };
+    return { ...base, error: derivedText.compileFailed(err instanceof Error ? err.message : String(err)) };
   }
+}
+
+/**
+ * The value and gradient of `p` at the numbers `theta` (over `p.slots`), with
+ * the derived quantities it reads taken from `memo` (computed here when
+ * missing, from the same numbers).
+ */
+function rawNumbers(p: Prepared, theta: Float64Array, group: string, memo: Memo, defs: ReadonlyMap<string, Prepared | null>, grouped: (fit: string) => boolean): Raw {
+  const nd = p.direct.length;
+  const args = new Float64Array(nd + p.deps.length);
+  for (let i = 0; i < nd; i++) args[i] = theta[p.direct[i]];
+  const depRaw: Raw[] = [];
+  for (let k = 0; k < p.deps.length; k++) {
+    const dep = p.deps[k];
+    const prepared = defs.get(dep.name)!;
+    const key = prepared.fits.some(grouped) ? group : '';
+    let r = memo.get(dep.name)?.get(key);
+    if (!r) r = rawNumbers(prepared, Float64Array.from(dep.map, (j) => theta[j]), key, memo, defs, grouped);
+    depRaw.push(r);
+    args[nd + k] = r.value;
+  }
+  const out = new Float64Array(1);
+  const jac = new Float64Array(args.length);
+  p.model!.valueAndJacobian(args, [], 1, out, jac);
+  const grad = new Float64Array(p.slots.length);
+  for (let i = 0; i < nd; i++) grad[p.direct[i]] += jac[i];
+  for (let k = 0; k < p.deps.length; k++) {
+    const outer = jac[nd + k];
+    if (outer === 0) continue;
+    const { map } = p.deps[k];
+    const inner = depRaw[k].grad;
+    for (let i = 0; i < map.length; i++) if (inner[i] !== 0) grad[map[i]] += outer * inner[i];
+  }
+  const raw: Raw = { value: out[0], grad };
+  let byGroup = memo.get(p.plan.name);
+  if (!byGroup) memo.set(p.plan.name, (byGroup = new Map()));
+  byGroup.set(group, raw);
+  return raw;
 }
 
 const levelText = (level: number): string => `${num(level * 100)}%`;
 
-/** Value, standard error and interval with the fit result chosen for each fit read. */
-function evaluate(p: Prepared, pick: ReadonlyMap<string, FitResult>): Numbers {
+/** What `evaluate` needs of the quantities above: their preparation and raw numbers, and which fits are per group. */
+interface Context {
+  defs: ReadonlyMap<string, Prepared | null>;
+  memo: Memo;
+  grouped: (fit: string) => boolean;
+}
+
+/** Value, standard error and interval with the fit result chosen for each fit read (`group`: the group label, '' for none). */
+function evaluate(p: Prepared, pick: ReadonlyMap<string, FitResult>, group: string, ctx: Context): Numbers {
   if (p.error || !p.model) return missing(p.error ?? derivedText.compileFailed('no evaluator'));
   const notes: string[] = [];
   for (const fit of p.fits) {
@@ -161,10 +229,7 @@ function evaluate(p: Prepared, pick: ReadonlyMap<string, FitResult>): Numbers {
     }
     if (!Number.isFinite(theta[j])) return missing(derivedText.notComputable(`${s.fit}.${s.name}`));
   }
-  const out = new Float64Array(1);
-  const g = new Float64Array(p.slots.length);
-  p.model.valueAndJacobian(theta, [], 1, out, g);
-  const value = out[0];
+  const { value, grad: g } = rawNumbers(p, theta, group, ctx.memo, ctx.defs, ctx.grouped);
   if (!Number.isFinite(value)) return missing(derivedText.notFinite);
 
   const statistics = p.slots.filter((s) => s.of === 'statistic').map((s) => `${s.fit}.${s.name}`);
@@ -250,7 +315,7 @@ function evaluate(p: Prepared, pick: ReadonlyMap<string, FitResult>): Numbers {
 }
 
 /** One result per group of the per-group fits read (a single result when none is per group). */
-function evaluateAll(p: Prepared, results: ReadonlyMap<string, FitResult[]>): DerivedResult[] {
+function evaluateAll(p: Prepared, results: ReadonlyMap<string, FitResult[]>, ctx: Context): DerivedResult[] {
   const d = p.plan;
   const expression = typeof d.text === 'string' && d.text ? d.text : exprText(d.expr);
   /** The result in reading order: name, group, expression, numbers, unit, fits, note, range. */
@@ -273,10 +338,10 @@ function evaluateAll(p: Prepared, results: ReadonlyMap<string, FitResult[]>): De
   for (const fit of p.fits) {
     if ((results.get(fit) ?? []).length === 0) return [row(undefined, missing(derivedText.noResult(fit)))];
   }
-  const grouped = p.fits.filter((fit) => results.get(fit)!.some((r) => r.group !== undefined));
+  const grouped = p.fits.filter(ctx.grouped);
   if (grouped.length === 0) {
     const pick = new Map(p.fits.map((fit) => [fit, results.get(fit)![0]] as const));
-    return [row(undefined, evaluate(p, pick))];
+    return [row(undefined, evaluate(p, pick, '', ctx))];
   }
   const groups: string[] = [];
   for (const fit of grouped) for (const r of results.get(fit)!) if (r.group !== undefined && !groups.includes(r.group)) groups.push(r.group);
@@ -288,7 +353,7 @@ function evaluateAll(p: Prepared, results: ReadonlyMap<string, FitResult[]>): De
       if (!r) return row(group, missing(derivedText.noGroup(fit, group)));
       pick.set(fit, r);
     }
-    return row(group, evaluate(p, pick));
+    return row(group, evaluate(p, pick, group, ctx));
   });
 }
 
@@ -298,20 +363,20 @@ function evaluateAll(p: Prepared, results: ReadonlyMap<string, FitResult[]>): De
  * `--fit` chose others) is left out, like the queries of such fits.
  */
 export function runDerived(plans: readonly DerivedPlan[], results: ReadonlyMap<string, FitResult[]>, ran: (fit: string) => boolean = () => true): DerivedResult[] {
-  const defs = new Map<string, Expr | null>();
+  const defs = new Map<string, Prepared | null>();
+  const ctx: Context = { defs, memo: new Map(), grouped: (fit) => (results.get(fit) ?? []).some((r) => r.group !== undefined) };
   const out: DerivedResult[] = [];
   for (const d of plans) {
-    let step: ReturnType<typeof prepare>;
+    let prepared: Prepared;
     try {
-      step = prepare(d, defs);
+      prepared = prepare(d, defs);
     } catch (err) {
-      // e.g. a RangeError from recursion over an extremely deep expansion (untrusted spec): reported, not thrown.
-      step = { prepared: { plan: d, fits: [], slots: [], model: null, error: derivedText.compileFailed(err instanceof Error ? err.message : String(err)) }, expanded: null };
+      // e.g. a compiler limit on an untrusted spec: reported, not thrown
+      prepared = { plan: d, fits: [], slots: [], direct: [], deps: [], model: null, error: derivedText.compileFailed(err instanceof Error ? err.message : String(err)) };
     }
-    const { prepared, expanded } = step;
-    defs.set(d.name, expanded);
+    defs.set(d.name, prepared.error ? null : prepared);
     if (!prepared.fits.every(ran)) continue;
-    for (const d of evaluateAll(prepared, results)) out.push(d);
+    for (const r of evaluateAll(prepared, results, ctx)) out.push(r);
   }
   return out;
 }

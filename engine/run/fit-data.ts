@@ -180,7 +180,15 @@ export function prepareFitData(fit: FitPlan, source: DataSource, table: DataTabl
     if (labels) labels = labels.filter((_, i) => keep[i] === 1);
     base = excludeRows(base, keep);
   }
-  if (!fit.groupBy || !labels) return { ok: true, data: [base] };
+  if (!fit.groupBy || !labels) {
+    // a single fit with fewer rows than free parameters is a data error at the fit (groups are failed one by one instead)
+    const p = fit.parameters.filter((q) => !q.fixed).length;
+    if (base.n < p) {
+      const excluded = base.excluded?.lines.length ?? 0;
+      return fail([{ code: 'too_few_rows', message: dataText.tooFewRows(fit.name, source.path, base.n, p, { dropped: s.dropped, filtered: s.filteredOut, excluded }), file: source.path, range: fit.range, fit: fit.name }]);
+    }
+    return { ok: true, data: [base] };
+  }
   return { ok: true, data: splitGroups(base, labels, s.droppedLabels ?? [], excludedLabels ?? []) };
 }
 

@@ -36,8 +36,10 @@
  *                   (`stagnation.ts`; e.g. a learning rate that makes the
  *                   iterates cycle with a constant cost); the best point is
  *                   returned, not converged;
- *  failed:          divergence, cost > 10·initial cost (lower the rate), or
- *                   an invalid option (`options.ts`);
+ *  failed:          divergence, cost > 10·initial cost (lower the rate),
+ *                   an invalid option (`options.ts`), or a stop that would be
+ *                   converged but whose ½‖r‖² is beyond the doubles (terms that
+ *                   cancel at a scale the data cannot resolve);
  *  max_iterations [100000], max_evaluations [2·maxIterations + 600],
  *  non_finite (residuals or Jacobian not finite at an iterate; a fixed-rate
  *  method has no trust region to shrink), cancelled.
@@ -68,20 +70,30 @@ const TRIAL_ITERATIONS = 50;
 /** Divergence: cost above this multiple of the initial cost. */
 const DIVERGENCE = 10;
 
-/** 1/λ_max of J_sᵀJ_s for J_s = J·diag(1/d). */
+/**
+ * 1/λ_max of J_sᵀJ_s for J_s = J·diag(1/d). The products are formed from the
+ * scaled entries Jᵢⱼ/dⱼ (each at most 1 in size when dⱼ is the column norm),
+ * so columns near 1e±300 do not overflow; a matrix that still has a
+ * non-finite entry (a column norm that overflowed) falls back to the bound
+ * λ_max ≤ trace(J_sᵀJ_s) = Σⱼ‖J_s,ⱼ‖² (≤ p for unit columns), taken as p.
+ */
 export function defaultLearningRate(jac: Float64Array, n: number, p: number, d: Float64Array): number {
   const rows: number[][] = [];
+  let finite = true;
   for (let a = 0; a < p; a++) {
     const row: number[] = [];
     for (let b = 0; b < p; b++) {
       let s = 0;
-      for (let i = 0; i < n; i++) s += jac[a * n + i] * jac[b * n + i];
-      row.push(s / (d[a] * d[b]));
+      for (let i = 0; i < n; i++) s += (jac[a * n + i] / d[a]) * (jac[b * n + i] / d[b]);
+      if (!Number.isFinite(s)) finite = false;
+      row.push(s);
     }
     rows.push(row);
   }
+  if (!finite) return 1 / p;
   const ev = new EigenvalueDecomposition(new Matrix(rows), { assumeSymmetric: true }).realEigenvalues;
-  const lmax = Math.max(...ev);
+  let lmax = -Infinity;
+  for (const v of ev) lmax = Math.max(lmax, v);
   return lmax > 0 && Number.isFinite(lmax) ? 1 / lmax : 1;
 }
 
@@ -111,7 +123,8 @@ interface Stop { code: StopCode; message: string }
 /** Runs the iteration from the state (r, J current at x); returns the stop (the state may be moved to the best point seen). */
 function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: DescentOptions, recorder: TraceRecorder | null): Stop {
   const { n, p, lower, upper } = problem;
-  const g = new Float64Array(p);
+  const gu = new Float64Array(p);
+  const cnorm = new Float64Array(p);
   const step = new Float64Array(p);
   const phi = new Float64Array(p);
   const evaluate = (): boolean => {
@@ -123,8 +136,13 @@ function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: D
     else return true;
     return false;
   };
-  const initial = 0.5 * norm2(s.r) ** 2;
-  let cost = initial;
+  // Costs are compared in units of the starting residual norm (½‖r/‖r₀‖‖²), so that residuals
+  // beyond 1e154 (whose squares overflow) still compare; `unit²` turns them back for display.
+  const r0 = norm2(s.r);
+  const unit = r0 > 0 && Number.isFinite(r0) ? r0 : 1;
+  const display = (c: number): number => c * unit * unit;
+  const initial = 0.5;
+  let cost = 0.5 * (r0 / unit) ** 2;
   const watch = o.monotone ? null : new StagnationWatch(p, DESCENT_STAGNATION, o.d.map((dj) => 1 / dj));
   /** Moves the state to the best point the stagnation watch saw (one more pass over the data). */
   const toBest = (): void => {
@@ -140,13 +158,15 @@ function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: D
     const rn = norm2(s.r);
     let gnorm = 0;
     for (let j = 0; j < p; j++) {
+      // Jⱼᵀr from the unit column Jⱼ/‖Jⱼ‖ (gu), so that columns and residuals near 1e±300 do not overflow
+      const cn = norm2(s.jac, j * n, n);
       let sum = 0;
-      for (let i = 0; i < n; i++) sum += s.jac[j * n + i] * s.r[i];
-      g[j] = sum;
+      if (cn > 0 && Number.isFinite(cn)) for (let i = 0; i < n; i++) sum += (s.jac[j * n + i] / cn) * s.r[i];
+      gu[j] = sum;
+      cnorm[j] = cn;
       // projected gradient: a parameter held at its bound by the gradient does not count
       if ((lower && s.x[j] <= lower[j] && sum > 0) || (upper && s.x[j] >= upper[j] && sum < 0)) continue;
-      const cn = norm2(s.jac, j * n, n);
-      if (cn > 0 && rn > 0) gnorm = Math.max(gnorm, Math.abs(sum) / (cn * rn));
+      if (cn > 0 && rn > 0) gnorm = Math.max(gnorm, Math.abs(sum) / rn);
     }
     if (gnorm <= o.gtol) return { code: 'small_gradient', message: stopText.smallGradient(gnorm, o.gtol) };
     if (k >= o.maxIter) {
@@ -156,7 +176,8 @@ function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: D
     if (s.nfev >= o.maxFev) return { code: 'max_evaluations', message: stopText.maxEvaluations(o.maxFev) };
     for (let j = 0; j < p; j++) {
       step[j] = s.x[j];
-      s.x[j] -= (o.rate * g[j]) / (o.d[j] * o.d[j]);
+      // η·Jⱼᵀr/dⱼ² = η·guⱼ·(‖Jⱼ‖/dⱼ)/dⱼ, in this order so that nothing squared overflows
+      s.x[j] -= (o.rate * gu[j] * (cnorm[j] / o.d[j])) / o.d[j];
     }
     project(s.x, lower, upper);
     for (let j = 0; j < p; j++) {
@@ -166,16 +187,16 @@ function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: D
     s.it++;
     const sn = norm2(step);
     if (!evaluate()) {
-      recorder?.add({ iteration: s.it - 1, cost, trialCost: null, gradient: gnorm, step: sn, radius: null, ratio: null, accepted: false });
+      recorder?.add({ iteration: s.it - 1, cost: display(cost), trialCost: null, gradient: gnorm, step: sn, radius: null, ratio: null, accepted: false });
       return { code: 'non_finite', message: `the residuals or the Jacobian are not finite at iteration ${s.it}` };
     }
-    const next = 0.5 * norm2(s.r) ** 2;
-    recorder?.add({ iteration: s.it - 1, cost, trialCost: next, gradient: gnorm, step: sn, radius: null, ratio: null, accepted: true });
-    if (!o.monotone) options.onIteration?.(s.it, next);
+    const next = 0.5 * (norm2(s.r) / unit) ** 2;
+    recorder?.add({ iteration: s.it - 1, cost: display(cost), trialCost: display(next), gradient: gnorm, step: sn, radius: null, ratio: null, accepted: true });
+    if (!o.monotone) options.onIteration?.(s.it, display(next));
     const reduction = cost - next;
     cost = next;
     if (next > DIVERGENCE * initial || (o.monotone && reduction < 0)) {
-      return { code: 'failed', message: `diverged: cost rose from ${fmt(initial)} to ${fmt(next)} at iteration ${s.it}; use a smaller learning rate` };
+      return { code: 'failed', message: `diverged: cost rose from ${fmt(display(initial))} to ${fmt(display(next))} at iteration ${s.it}; use a smaller learning rate` };
     }
     const limit = o.xtol * (norm2(phi) + o.xtol);
     if (sn <= limit) return { code: 'small_step', message: stopText.smallScaledStep(sn, limit) };
@@ -203,6 +224,12 @@ export function gradientDescent(problem: LeastSquaresProblem, theta0: Float64Arr
   const s: State = { x: Float64Array.from(x0), r: new Float64Array(n), jac: new Float64Array(n * p), nfev: 0, it: 0, nonFinite: null };
   const recorder = options.trace ? new TraceRecorder('gradient_descent') : null;
   const done = (code: StopCode, message: string): SolveOutcome => {
+    // a converged stop needs a cost that is a number: with ‖r‖² beyond the doubles nothing was fitted
+    const rnorm = norm2(s.r);
+    if (stopReason(code, '').converged && !Number.isFinite(0.5 * rnorm ** 2)) {
+      message = `${stopText.costOverflow(rnorm)} (stopped by ${code}: ${message})`;
+      code = 'failed';
+    }
     const note = Number.isFinite(settings.rate) ? ` (learning rate ${fmt(settings.rate)})` : '';
     return {
       theta: s.x, residuals: s.r, jacobian: s.jac, cost: 0.5 * norm2(s.r) ** 2, stop: stopReason(code, message + note),

@@ -33,6 +33,8 @@ export const stopText = {
   noFiniteStep: (what: NonFiniteReport['what'], radius: number) =>
     `no finite step: every trial near the last point gave non-finite ${what === 'residuals' ? 'residuals' : 'derivatives'} until the trust region shrank to ${fmt(radius)}`,
   invalidOption: (message: string) => `invalid solver option: ${message}`,
+  costOverflow: (rnorm: number) =>
+    `the residual norm at the stop, ${fmt(rnorm)}, squares beyond the range of double precision: terms of the model cancel at a scale the data cannot resolve (rescale the model or its parameters)`,
 } as const;
 
 /**

@@ -3,7 +3,7 @@
  *
  *   node build.mjs && node dist/bench.js [--quick] [--json] [--markdown FILE] [--only 1,4,7]
  *
- * Prints one row per benchmark (1-18, see the cases/ modules) with the
+ * Prints one row per benchmark (1-19, see the cases/ modules) with the
  * headline figure, its spread over the runs (min-max), the goal and whether
  * it is met, after a line describing the machine and date. Comparisons are
  * measured side by side in one run and given as ratios. `--json` prints the
@@ -31,6 +31,7 @@ import { benchPanelPaint } from './cases/panel-paint';
 import { benchJsonOutput, benchVersusCubic, benchVersusGroups, benchVersusLogistic } from './cases/versus-script';
 import { benchRobustness } from './cases/robustness';
 import { benchSuggest } from './cases/suggest';
+import { benchDerivedChain } from './cases/derived-chain';
 
 const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<BenchRow> }[] = [
   { id: 1, name: 'LM vs gradient descent', run: benchDescent },
@@ -51,6 +52,7 @@ const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<Ben
   { id: 16, name: '--json cost and peak memory', run: benchJsonOutput },
   { id: 17, name: 'Per-group fits vs general-purpose loop', run: benchVersusGroups },
   { id: 18, name: 'Did you mean at scale', run: benchSuggest },
+  { id: 19, name: 'Chained derive statements', run: benchDerivedChain },
 ];
 
 interface Args {

@@ -129,6 +129,7 @@ describe('data/csv parseCsvText errors', () => {
   it('rejects an empty file and a comma used as both delimiter and decimal mark', () => {
     const e1 = parseCsvText('\uFEFF \n');
     expect(!e1.ok && e1.errors[0].code).toBe('empty_file');
+    expect(!e1.ok && e1.errors[0].row).toBe(1);
     const e2 = parseCsvText('x\n1\n', { delimiter: ',', decimal: ',' });
     expect(!e2.ok && e2.errors[0].code).toBe('delimiter_conflict');
   });

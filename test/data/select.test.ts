@@ -59,6 +59,14 @@ describe('data/select selectRows', () => {
     expect(r.errors.map((e) => e.row)).toEqual([2, 3, 4, 6]);
   });
 
+  it('quotes cell text and column names on one line: a line break or a control inside a quoted cell is escaped', () => {
+    const r = selectRows(table('x,"y\nnew"\n1,"two\nlines\u001b[2J"\n'), { numeric: ['y\nnew'], file: 'd.csv' });
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.errors[0].value).toBe('two\nlines\u001b[2J'); // the exact text stays in the error's value
+    expect(r.errors[0].message).toBe('d.csv:3:2: column "y\\u000anew" holds "two\\u000alines\\u001b[2J", not a number');
+  });
+
   it('hints at a decimal comma', () => {
     const r = selectRows(table('x;y\n1;2,5\n'), { numeric: ['y'], file: 'd.csv' });
     expect(!r.ok && r.errors[0].message).toContain('decimal ","');

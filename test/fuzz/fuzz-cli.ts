@@ -9,7 +9,7 @@
  * (test/fuzz/run-case.ts), in W worker threads (default 2). A case that runs
  * longer than its budget (default 20,000 ms) is a hang: its worker is
  * stopped and replaced. Every case that is not ok or located (internal,
- * unlocated but not known, parity, hang) is saved to DIR/<kind>-<seed>-<index>/ (default
+ * unlocated, parity, hang) is saved to DIR/<kind>-<seed>-<index>/ (default
  * ./fuzz-cases) with its spec, its data files and what happened, and listed
  * at the end; `--only I` reruns case I alone. Prints a tally by outcome and
  * by case shape; exit code 0 when no case was internal, unlocated, parity or
@@ -87,7 +87,7 @@ if (!isMainThread && (workerData as { role?: string })?.role === 'fuzz-worker') 
       c = makeCase(job.kind, job.seed, job.index, corpus);
     } catch (e) {
       // a fault of the generator, not of the product: reported, the campaign goes on
-      const result: CaseResult = { outcome: 'internal', knownUnlocated: false, notes: [`internal: the fuzz generator failed: ${(e as Error).message}`], elapsed: 0, checkedClean: false };
+      const result: CaseResult = { outcome: 'internal', notes: [`internal: the fuzz generator failed: ${(e as Error).message}`], elapsed: 0, checkedClean: false };
       parentPort!.postMessage({ index: job.index, result, shape: 'generator' } satisfies Done);
       return;
     }
@@ -120,7 +120,7 @@ class Slot {
       if (!p) return;
       clearTimeout(p.timer);
       this.pending = null;
-      p.resolve({ index: p.job.index, shape: '?', result: { outcome: 'internal', knownUnlocated: false, notes: [`worker crashed: ${e.stack ?? e.message}`], elapsed: 0, checkedClean: false } });
+      p.resolve({ index: p.job.index, shape: '?', result: { outcome: 'internal', notes: [`worker crashed: ${e.stack ?? e.message}`], elapsed: 0, checkedClean: false } });
       this.spawn();
     });
   }
@@ -131,7 +131,7 @@ class Slot {
         this.pending = null;
         void this.worker.terminate();
         this.spawn();
-        resolve({ index: job.index, shape: '?', result: { outcome: 'hang', knownUnlocated: false, notes: [`hang: over the ${this.budget} ms budget`], elapsed: this.budget, checkedClean: false } });
+        resolve({ index: job.index, shape: '?', result: { outcome: 'hang', notes: [`hang: over the ${this.budget} ms budget`], elapsed: this.budget, checkedClean: false } });
       }, this.budget);
       this.pending = { job, resolve, timer };
       this.worker.postMessage(job);
@@ -167,7 +167,6 @@ async function main(argv: string[]): Promise<number> {
   const bad: { index: number; outcome: Outcome; shape: string; dir: string; note: string }[] = [];
   const notesOfOnly: string[] = [];
   let clean = 0;
-  let known = 0;
   let next = 0;
   let done = 0;
   let slowest = 0;
@@ -179,7 +178,7 @@ async function main(argv: string[]): Promise<number> {
     while (next < indices.length) {
       const index = indices[next++];
       const d = await slot.run({ kind: args.kind, seed: args.seed, index, svg: args.svgEvery > 0 && index % args.svgEvery === 0 });
-      const needCase = d.shape === '?' || (d.result.outcome !== 'ok' && d.result.outcome !== 'located' && !d.result.knownUnlocated);
+      const needCase = d.shape === '?' || (d.result.outcome !== 'ok' && d.result.outcome !== 'located');
       let c: SpecCase | undefined; // regenerated only to save it
       try {
         if (needCase) c = makeCase(args.kind, args.seed, index, corpus);
@@ -192,9 +191,8 @@ async function main(argv: string[]): Promise<number> {
       s.set(d.result.outcome, (s.get(d.result.outcome) ?? 0) + 1);
       byShape.set(shape, s);
       if (d.result.checkedClean) clean++;
-      if (d.result.knownUnlocated) known++;
       slowest = Math.max(slowest, d.result.elapsed);
-      if (d.result.outcome !== 'ok' && d.result.outcome !== 'located' && !d.result.knownUnlocated) {
+      if (d.result.outcome !== 'ok' && d.result.outcome !== 'located') {
         const worst = d.result.notes.find((n) => n.startsWith(d.result.outcome)) ?? d.result.notes[0] ?? '';
         bad.push({ index, outcome: d.result.outcome, shape, dir: saveCase(args.out, args.kind, args.seed, d, c!), note: worst });
       }
@@ -207,7 +205,7 @@ async function main(argv: string[]): Promise<number> {
   if (process.stderr.isTTY) process.stderr.write('\n');
   const seconds = (Date.now() - t0) / 1000;
   const report = {
-    kind: args.kind, seed: args.seed, cases: indices.length, seconds, checkedClean: clean, slowestMs: slowest, knownUnlocated: known,
+    kind: args.kind, seed: args.seed, cases: indices.length, seconds, checkedClean: clean, slowestMs: slowest,
     outcomes: Object.fromEntries(byOutcome),
     shapes: Object.fromEntries([...byShape].map(([k, v]) => [k, Object.fromEntries(v)])),
     failures: bad,
@@ -220,7 +218,7 @@ async function main(argv: string[]): Promise<number> {
   else {
     const lines = [
       `fuzz ${args.kind}: ${indices.length} cases, seed ${args.seed}, ${seconds.toFixed(0)} s (${clean} checked clean and were fitted; slowest case ${slowest} ms)`,
-      `  ${OUTCOMES.map((o) => `${o} ${byOutcome.get(o)}`).join(', ')}${known ? ` (${known} of the unlocated are known: a single fit refused for no or too few usable rows, see run-case.ts KNOWN_UNLOCATED)` : ''}`,
+      `  ${OUTCOMES.map((o) => `${o} ${byOutcome.get(o)}`).join(', ')}`,
       ...[...byShape].sort().map(([k, v]) => `  ${k}: ${[...v].map(([o, n]) => `${o} ${n}`).join(', ')}`),
       ...bad.slice(0, 40).map((b) => `  ${b.outcome} #${b.index} (${b.shape}) ${b.dir}\n      ${b.note.split('\n')[0]}`),
       bad.length > 40 ? `  … ${bad.length - 40} more in ${path.resolve(args.out)}` : '',

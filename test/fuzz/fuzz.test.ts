@@ -2,8 +2,7 @@
  * The fuzzer in the suite: a fixed, bounded slice of what `npm run fuzz`
  * runs in campaigns (test/fuzz/fuzz-cli.ts), in this process, with small
  * sizes. Every case must end ok or with located errors: no internal error,
- * no unlocated error (except the known kind the data reading work fixes, see
- * run-case.ts KNOWN_UNLOCATED), no check/fit difference. A failure names the
+ * no unlocated error, no check/fit difference. A failure names the
  * case; `npm run fuzz -- --kind K --seed S --only I` reruns it.
  */
 import { afterAll, describe, expect, it } from 'vitest';
@@ -21,7 +20,7 @@ const dir = mkdtempSync(path.join(os.tmpdir(), 'leastwise-fuzz-suite-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 function acceptable(r: CaseResult): boolean {
-  return r.outcome === 'ok' || r.outcome === 'located' || (r.outcome === 'unlocated' && r.knownUnlocated);
+  return r.outcome === 'ok' || r.outcome === 'located';
 }
 
 describe('test/fuzz (seeded, bounded)', () => {

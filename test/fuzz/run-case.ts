@@ -5,8 +5,9 @@
  *   ok        no error;
  *   located   every error has a place: a spec range, or a data file and line;
  *   unlocated an error with no place (a run error with neither range nor file,
- *             or a single fit refused before fitting, which the CLI prints as a
- *             bare `error:` line);
+ *             a data-file error without a line, or a single fit refused as a
+ *             failed fit for want of rows, which must be a located data error
+ *             before fitting);
  *   parity    `check` reported no error but the run reported a spec error
  *             (see SPEC_ERRORS: the errors the spec alone decides);
  *   internal  an exception, an `internal` diagnostic or error, or JavaScript
@@ -39,12 +40,6 @@ export const OUTCOMES: readonly Outcome[] = ['hang', 'internal', 'unlocated', 'p
 
 export interface CaseResult {
   outcome: Outcome;
-  /**
-   * For an unlocated case: true when every unlocated error is one known to be
-   * handled in the data reading work (a single fit refused for having no or
-   * too few usable rows, reported without a place; see KNOWN_UNLOCATED).
-   */
-  knownUnlocated: boolean;
   /** What happened, first few errors (worst outcome first after sorting by the caller, if it cares). */
   notes: string[];
   /** Milliseconds. */
@@ -68,24 +63,18 @@ export interface RunCaseOptions {
 }
 
 /**
- * Unlocated errors that are not this module's to fix: a single fit whose data
- * have no (or too few) usable rows is refused as a failed fit with no place
- * (exit 3); issue 10 turns it into a located data error in the data reading
- * work. Counted apart so that a campaign still shows them.
+ * A single fit refused as a failed fit (no place but the fit's name) for want
+ * of rows: the run must report these as located data errors before fitting
+ * (engine/run/fit-data.ts), so one reaching the fit is unlocated.
  */
-export const KNOWN_UNLOCATED: readonly RegExp[] = [/has no usable rows/, /usable rows? for \d+ free parameter/];
+const REFUSED_FOR_ROWS: readonly RegExp[] = [/has no usable rows/, /usable rows? for \d+ free parameter/];
 
 class Tally {
   outcome: Outcome = 'ok';
   readonly notes: string[] = [];
-  private unknownUnlocated = false;
-  add(o: Outcome, note: string, known = false): void {
+  add(o: Outcome, note: string): void {
     if (OUTCOMES.indexOf(o) < OUTCOMES.indexOf(this.outcome)) this.outcome = o;
-    if (o === 'unlocated' && !known) this.unknownUnlocated = true;
-    if (this.notes.length < 6) this.notes.push(`${o}${known ? ' (known)' : ''}: ${note.slice(0, 300)}`);
-  }
-  get knownUnlocated(): boolean {
-    return this.outcome === 'unlocated' && !this.unknownUnlocated;
+    if (this.notes.length < 6) this.notes.push(`${o}: ${note.slice(0, 300)}`);
   }
 }
 
@@ -148,7 +137,7 @@ export async function runCase(c: SpecCase, opts: RunCaseOptions): Promise<CaseRe
     const err = e as Error;
     t.add('internal', `exception: ${err?.stack ?? String(e)}`);
   }
-  return { outcome: t.outcome, knownUnlocated: t.knownUnlocated, notes: t.notes, elapsed: Date.now() - t0, checkedClean };
+  return { outcome: t.outcome, notes: t.notes, elapsed: Date.now() - t0, checkedClean };
 }
 
 function classifyRun(result: RunResult, t: Tally): void {
@@ -163,6 +152,6 @@ function classifyRun(result: RunResult, t: Tally): void {
     const m = f.stop.message;
     if (INTERNAL_TEXT.test(m)) t.add('internal', `fit ${f.name}: ${m}`);
     else if (m === MSG.methodNotLinear(f.name)) t.add('parity', `fit ${f.name} after a clean check: ${m}`);
-    else if (f.group === undefined && KNOWN_UNLOCATED.some((re) => re.test(m))) t.add('unlocated', `fit ${f.name} refused with no place: ${m}`, true);
+    else if (f.group === undefined && REFUSED_FOR_ROWS.some((re) => re.test(m))) t.add('unlocated', `fit ${f.name} refused with no place: ${m}`);
   }
 }

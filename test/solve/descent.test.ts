@@ -43,6 +43,30 @@ describe('engine/solve/descent gradientDescent', () => {
     expect(defaultLearningRate(Float64Array.from([1, 0, 1, 0]), 2, 2, Float64Array.from([1, 1]))).toBeCloseTo(0.5, 14);
   });
 
+  it('a Jacobian column near 1e300 neither overflows the default rate nor the step (found by the fuzzer)', () => {
+    // a·1 + b·(1e300 − x) + c·x²: the b column is ~1e300, its square overflows a double; the bounds of the
+    // fuzz case keep a and b where a + b·1e300 stays a constant the data resolve.
+    const y = xs.map((x, i) => 4 + 0.3 * x * x + 0.1 * noise(i));
+    const bounds = { lower: [-10, -5, -100], upper: [Infinity, 5, 10] };
+    const p = fitProblem('a + b*(1e300 - x) + c*x^2', ['a', 'b', 'c'], xs, y, bounds);
+    const gd = gradientDescent(p, Float64Array.from([0.5, 2, 1]), { maxIterations: 5000 });
+    expect(Number.isFinite(Number(/learning rate ([0-9.e+-]+)/.exec(gd.stop.message)![1]))).toBe(true);
+    expect(gd.stop.converged).toBe(true);
+    // a and b·1e300 are one constant together: c is determined, and matches the linear solve of a + c·x²
+    const lin = solveLinear(fitProblem('a + c*x^2', ['a', 'c'], xs, y));
+    expect(gd.theta[2]).toBeCloseTo(lin.theta[1], 4);
+    expect(gd.cost).toBeCloseTo(lin.cost, 3);
+  });
+
+  it('a stop whose ½‖r‖² is beyond the doubles is not converged', () => {
+    // unbounded, the first steps move a to −1e300 against b·1e300: the residuals keep only rounding noise of 1e300
+    const y = xs.map((x, i) => 4 + 0.3 * x * x + 0.1 * noise(i));
+    const gd = gradientDescent(fitProblem('a + b*(1e300 - x) + c*x^2', ['a', 'b', 'c'], xs, y), Float64Array.from([0.5, 2, 1]), { maxIterations: 5000 });
+    expect(gd.stop.converged).toBe(false);
+    expect(gd.stop.code).toBe('failed');
+    expect(gd.stop.message).toMatch(/beyond the range of double precision/);
+  });
+
   it('a learning rate far too large diverges and is reported', () => {
     const y = xs.map((x) => 1 + x);
     const out = gradientDescent(fitProblem('a + b*x', ['a', 'b'], xs, y), Float64Array.from([0, 0]), { learningRate: 50, maxIterations: 5000 });

@@ -56,7 +56,14 @@ function problemLines(result: RunResult, spec: CheckedSpec, io: CliIo): string {
     return i >= 0 ? i + 1 : undefined;
   };
   const lines = result.errors.map((e) => runErrorLine(e, { display: spec.display, dir: spec.dir }, io.cwd, columnIndex));
-  for (const f of result.fits) if (!f.stop.converged) lines.push(plainError(MSG.notConverged(fitLabel(f), `${f.stop.code}: ${f.stop.message}`)));
+  // a fit (or group) that did not converge is reported at its `fit` statement
+  const fitRange = new Map(spec.plan.fits.map((f) => [f.name, f.range]));
+  for (const f of result.fits) {
+    if (f.stop.converged) continue;
+    const message = MSG.notConverged(fitLabel(f), `${f.stop.code}: ${f.stop.message}`);
+    const r = fitRange.get(f.name);
+    lines.push(r ? located(spec.display, r.start.line, r.start.column, 'error', message) : plainError(message));
+  }
   // Expectations on a fit that produced no result only repeat the errors above.
   const quiet = (e: RunResult['expectations'][number]): boolean => result.errors.length > 0 && e.actual === null;
   for (const e of result.expectations) if (!e.passed && !quiet(e)) lines.push(`${spec.display}:${e.expectation.range.start.line}:${e.expectation.range.start.column}: error: ${MSG.expectationFailed(e.expectation.text, e.message)}`);

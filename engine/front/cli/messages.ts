@@ -126,6 +126,7 @@ export const MSG = {
   unknownTemplate: (id: string, suggestion: string | null) => `unknown model template '${id}'${suggestion ? ` - did you mean '${suggestion}'?` : ''} (templates: ${templateIds().join(', ')})`,
   scaffolded: (spec: string, title: string, y: string, x: string) =>
     `wrote ${spec}: ${title} of ${y} against ${x}. Next: leastwise check ${spec}, then leastwise fit ${spec}`,
+  sampled: (rows: number) => `(The starting values come from the first ${rows.toLocaleString('en-US')} rows of the data; the fit uses every row.)`,
   internal: (detail: string) => `internal error: ${detail} (please report this with the spec and data)`,
   progress: (fit: string, done: number, total: number) => `fitted ${fit} (${done} of ${total})`,
   iterating: (what: string) => `fitting ${what}`,

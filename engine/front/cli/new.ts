@@ -6,8 +6,8 @@
  * when the name is free (existing files are never overwritten).
  */
 import { basename, dirname, extname, join, relative, resolve, sep } from 'node:path';
-import { parseCsvText, type DataTable } from '../../data/index';
-import { clashMessage, OutputError, OutputGuard, readInputSync, TargetExistsError, writeAllOrNothing, type InputError } from '../../io/index';
+import { sampleDataFile, SAMPLE_ROWS, type DataTable } from '../../data/index';
+import { clashMessage, inputStatus, OutputError, OutputGuard, TargetExistsError, writeAllOrNothing } from '../../io/index';
 import { findTemplate, MAX_POLY_DEGREE, scaffoldSpec, templateIds } from '../../templates/index';
 import { closest, parseCommandArgs } from './args';
 import { EXIT, type CliIo, type ExitCode } from './io';
@@ -51,13 +51,10 @@ export async function newCommand(argv: string[], io: CliIo): Promise<ExitCode> {
 
   const csvPath = resolve(io.cwd, args.positionals[0]);
   const csvDisplay = displayPath(csvPath, io.cwd);
-  let text: string;
-  try {
-    text = readInputSync(csvPath).toString('utf8'); // regular files only (engine/io)
-  } catch (e) {
-    return fail(located(csvDisplay, undefined, undefined, 'error', MSG.cannotRead((e as InputError).message)));
-  }
-  const parsed = parseCsvText(text, { file: csvDisplay });
+  const status = inputStatus(csvPath); // regular files only (engine/io; the reader below checks again on the open file)
+  if (!status.ok) return fail(located(csvDisplay, undefined, undefined, 'error', MSG.cannotRead(status.error.message)));
+  // the header and the first rows only, streamed: a file of any size costs the same
+  const parsed = sampleDataFile(csvPath, { displayPath: csvDisplay });
   if (!parsed.ok) {
     for (const e of parsed.errors) io.stderr(located(csvDisplay, e.row, undefined, 'error', e.message) + '\n');
     return EXIT.inputError;
@@ -101,6 +98,6 @@ export async function newCommand(argv: string[], io: CliIo): Promise<ExitCode> {
     if (e instanceof TargetExistsError) return fail(plainError(MSG.exists(outDisplay)));
     return fail(plainError(MSG.cannotWrite(outDisplay, e instanceof OutputError ? e.code : String(e))));
   }
-  io.stdout(MSG.scaffolded(outDisplay, template.title, y, x) + '\n');
+  io.stdout(MSG.scaffolded(outDisplay, template.title, y, x) + (parsed.complete ? '' : ` ${MSG.sampled(SAMPLE_ROWS)}`) + '\n');
   return EXIT.ok;
 }

@@ -8,7 +8,7 @@
 import { escapeControls } from '../../../parser/printable';
 
 // The terminal primitives live with the parser (its messages quote user names with them); re-exported here for the views.
-export { escapeControls, inlineText } from '../../../parser/printable';
+export { escapeControls, inlineText, quoted } from '../../../parser/printable';
 
 /** The progress line's own control sequence (engine/front/cli/progress.ts): carriage return, erase the line. */
 export const CLEAR_LINE = '\r\x1b[2K';

@@ -99,6 +99,19 @@ describe('data errors: empty data', () => {
     expect(r.stderr).toContain('d.csv:2:2: error: fit f: every one of the 3 data rows of d.csv has an empty or NA cell in a column the fit uses (x, y), so no row is left (the first such cell is here)');
   });
 
+  it('fewer usable rows than free parameters is a data error at the fit statement, with what was left out', async () => {
+    const r = await fitWith('x,y\n1,2\n2,NA\n3,4\n', LINE_SPEC.replace('param b\n', 'param b\n  param c\n').replace('b * x', 'b * x + c * x^2'));
+    expect(r.code).toBe(EXIT.inputError);
+    expect(r.stderr).toMatch(/^s\.lsq:2:1: error: fit f: d\.csv leaves 2 usable rows \(1 dropped for an empty or NA cell\) for 3 free parameters: at least 3 are needed/m);
+    expect(r.stderr).not.toMatch(/^error:/m);
+    const w = await fitWith('x,y,w\n1,2,1\n2,3,0\n', LINE_SPEC.replace('param b\n', 'param b\n  weight w\n'));
+    expect(w.code).toBe(EXIT.inputError);
+    expect(w.stderr).toMatch(/^s\.lsq:2:1: error: fit f: d\.csv leaves 1 usable row \(1 left out by a weight of 0\) for 2 free parameters/m);
+    const json = await fitWith('x,y\n1,2\n', LINE_SPEC, '--json', '-');
+    const e = (JSON.parse(json.stdout) as { errors: { code: string; file?: string; range?: { start: { line: number } } }[] }).errors;
+    expect(e.map((x) => [x.code, x.file, x.range?.start.line])).toEqual([['too_few_rows', 'd.csv', 2]]);
+  });
+
   it('a where condition that keeps no row is located at the condition in the spec', async () => {
     const r = await fitWith('x,y\n1,2\n2,3\n3,5\n', LINE_SPEC.replace('"d.csv"', '"d.csv" where x > 10'));
     expect(r.code).toBe(EXIT.inputError);
@@ -106,8 +119,9 @@ describe('data errors: empty data', () => {
   });
 
   it('a blank file and one of only delimiters say so', async () => {
-    expect((await fitWith('')).stderr).toContain('d.csv is empty: expected a header line naming the columns');
-    expect((await fitWith(',,\r\n;\r\n')).stderr).toContain('d.csv has no header line: it holds only blank lines and delimiters');
+    // at line 1, where the header was expected
+    expect((await fitWith('')).stderr).toMatch(/^d\.csv:1: error: d\.csv is empty: expected a header line naming the columns$/m);
+    expect((await fitWith(',,\r\n;\r\n')).stderr).toMatch(/^d\.csv:1: error: d\.csv has no header line: it holds only blank lines and delimiters$/m);
   });
 });
 

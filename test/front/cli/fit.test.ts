@@ -80,7 +80,11 @@ describe('cli/fit', () => {
     const r = await cli(dir, 'fit', 'cooling.lsq');
     expect(r.code).toBe(EXIT.notConverged);
     expect(r.stdout).toContain('Stopped: NOT converged (max_iterations');
-    expect(r.stderr).toMatch(/^error: fit newton did not converge: max_iterations/m);
+    // at the fit statement, like every other error
+    const line = readFileSync(join(dir, 'cooling.lsq'), 'utf8').split('\n').findIndex((l) => l.startsWith('fit newton')) + 1;
+    expect(line).toBeGreaterThan(0);
+    expect(r.stderr).toMatch(new RegExp(`^cooling\\.lsq:${line}:1: error: fit newton did not converge: max_iterations`, 'm'));
+    expect(r.stderr).not.toMatch(/^error:/m);
   });
 
   it('exits 2 with located messages for a broken spec and fits nothing', async () => {

@@ -73,7 +73,7 @@ describe('cli/fit per-group fits', () => {
   it('exits 3 when a group fails, still reporting every other group', async () => {
     const r = await cli(rig(LONELY), 'fit', 'rig.lsq', '--json', '-');
     expect(r.code).toBe(EXIT.notConverged);
-    expect(r.stderr).toMatch(/^error: fit stiffness \[S99\] did not converge: failed: /m);
+    expect(r.stderr).toMatch(/^rig\.lsq:\d+:1: error: fit stiffness \[S99\] did not converge: failed: /m);
     const result = JSON.parse(r.stdout) as RunResult;
     expect(result.errors).toEqual([]);
     expect(result.fits).toHaveLength(13);

@@ -1,5 +1,5 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { copyFileSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { copyFileSync, readdirSync, readFileSync, truncateSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { EXIT } from '../../../engine/front/cli/io';
 import { inlineText } from '../../../parser/printable';
@@ -143,6 +143,30 @@ describe('cli/new', () => {
     expect(r.code).toBe(EXIT.ok);
     expect(r.stdout).toContain('model reading = intercept + slope * hours');
     expect(r.stdout).toContain('data log = "log.csv"');
+  });
+
+  it('reads only the start of a large CSV: a 1 GiB file works, rows past the sample are not read', async () => {
+    const dir = tempDir();
+    // 20,000 rows of a calibration line, then a ragged row the sample never reaches, then the file is
+    // extended to 1 GiB (sparse: NUL bytes, no disk space); reading it whole would fail
+    const rows = Array.from({ length: 20_000 }, (_, i) => `${i * 0.01},${(0.05 + 2.5 * i * 0.01).toFixed(4)}`);
+    const path = join(dir, 'big.csv');
+    writeFileSync(path, `conc,signal\n${rows.join('\n')}\n1,2,3\n`);
+    truncateSync(path, 1 << 30);
+    const r = await cli(dir, 'new', 'big.csv', '--out', 'big.lsq');
+    expect(r.code, r.stderr).toBe(EXIT.ok);
+    expect(r.stdout).toMatch(/^wrote big\.lsq: .*\(The starting values come from the first 10,000 rows of the data; the fit uses every row\.\)\n$/);
+    const spec = readFileSync(join(dir, 'big.lsq'), 'utf8');
+    expect(spec).toContain('model signal = intercept + slope * conc');
+    // the line through the first 10,000 rows: slope 2.5, intercept 0.05 (the rows are exact to 4 decimals)
+    expect(Number(/param slope += ([-0-9.e]+)/.exec(spec)![1])).toBeCloseTo(2.5, 3);
+    expect(Number(/param intercept += ([-0-9.e]+)/.exec(spec)![1])).toBeCloseTo(0.05, 3);
+    // a small file is read whole and says nothing about a sample
+    writeFileSync(join(dir, 'small.csv'), `conc,signal\n${rows.slice(0, 50).join('\n')}\n`);
+    const small = await cli(dir, 'new', 'small.csv', '--out', '-');
+    expect(small.code).toBe(EXIT.ok);
+    const whole = await cli(dir, 'new', 'small.csv', '--out', 'small.lsq');
+    expect(whole.stdout).not.toContain('first 10,000 rows');
   });
 
   it('explains unknown columns, templates and unsuitable data', async () => {

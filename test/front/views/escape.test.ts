@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import MarkdownIt from 'markdown-it';
-import { chartLabel, CLEAR_LINE, escapeControls, inlineText, mdCode, mdFence, mdHref, mdText, terminalSafe } from '../../../engine/front/views/escape';
+import { chartLabel, CLEAR_LINE, escapeControls, inlineText, mdCode, mdFence, mdHref, mdText, quoted, terminalSafe } from '../../../engine/front/views/escape';
 import { TERMINAL_UNSAFE } from '../../fixtures/hostile-names';
 
 const markdown = new MarkdownIt({ html: true, linkify: false });
@@ -19,6 +19,7 @@ describe('views/escape terminal text', () => {
     expect(escapeControls('\u009b31m del\u007f')).toBe('\\u009b31m del\\u007f');
     expect(escapeControls('tab\tnew\nline é μ')).toBe('tab\tnew\nline é μ');
     expect(inlineText('two\nlines\tcol')).toBe('two\\u000alines\\u0009col');
+    expect(quoted('two\nlines \u001b[2J')).toBe('"two\\u000alines \\u001b[2J"');
   });
 
   it('leaves no unsafe character in any text, and leaves JSON valid and equal', () => {
