@@ -46,11 +46,11 @@ function numberLeaves(s: Schema, root: Schema, hand: boolean, at = '$', out = ne
   const alts: Schema[] | undefined = r.oneOf ?? r.anyOf;
   if (alts) {
     for (const a of alts) numberLeaves(a, root, hand, at, out, depth + 1);
-    const types = alts.flatMap((a) => [].concat(resolveRef(a, root)?.type ?? []));
+    const types: string[] = alts.flatMap((a) => ([] as string[]).concat(resolveRef(a, root)?.type ?? []));
     if (!out.has(at) && types.some((t) => t === 'number' || t === 'integer') && types.includes('null')) out.set(at, 'nullable');
     return out;
   }
-  const types: string[] = [].concat(r.type ?? []);
+  const types: string[] = ([] as string[]).concat(r.type ?? []);
   if (!out.has(at) && types.some((t) => t === 'number' || t === 'integer')) out.set(at, types.includes('null') ? 'nullable' : 'number');
   for (const [k, v] of Object.entries<Schema>(r.properties ?? {})) numberLeaves(v, root, hand, `${at}.${k}`, out, depth + 1);
   if (Array.isArray(r.items)) r.items.forEach((v: Schema, i: number) => numberLeaves(v, root, hand, `${at}[${i}]`, out, depth + 1));
