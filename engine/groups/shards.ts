@@ -27,8 +27,8 @@ export interface Shard {
   count: number;
 }
 
-/** Where the shard of a run was taken from, said on stderr. */
-export type ShardSource = { kind: 'option' } | { kind: 'slurm'; variables: string } | { kind: 'kubernetes'; variables: string };
+/** Which scheduler's environment gave the shard, and its variables (said on stderr). */
+export type ShardSource = { kind: 'slurm'; variables: string } | { kind: 'kubernetes'; variables: string };
 
 /** The most shards a run may be cut into (a Slurm array is at most MaxArraySize, 1001 by default; far beyond any useful count). */
 export const MAX_SHARDS = 1_000_000;
