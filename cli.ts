@@ -40,6 +40,7 @@ runCli(process.argv.slice(2), {
   stderr: (text) => void process.stderr.write(terminalSafe(text)),
   stderrIsTTY: Boolean(process.stderr.isTTY),
   cwd: process.cwd(),
+  env: process.env,
   writeHooks: writeHooks(),
 }).then(
   (code) => {

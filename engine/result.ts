@@ -401,6 +401,32 @@ export interface Provenance {
   specSha256: string;
   data: { name: string; path: string; sha256: string; rows: number }[];
   startedAt: string;
+  /**
+   * The run fitted one shard of the work (`fit --shard I/N`; additive,
+   * optional; engine/groups/shards.ts): of each per-group fit the groups in
+   * `fits`, and fits without groups only when `index` is 1.
+   */
+  shard?: ShardInfo;
+}
+
+/** What a shard of a run fitted (`Provenance.shard`). */
+export interface ShardInfo {
+  /** 1…count. */
+  index: number;
+  count: number;
+  /** The fits the run was limited to (`--fit`), when it was. */
+  only?: string[];
+  /** Per per-group fit: its groups in the whole data and the range [from, to) of them (group order) this shard fitted. */
+  fits: ShardFit[];
+  /** How many of `errors` came from loading and fitting (the rest from queries, derived quantities and expectations, which gathering computes anew). */
+  fitErrors: number;
+}
+
+export interface ShardFit {
+  fit: string;
+  groups: number;
+  from: number;
+  to: number;
 }
 
 export interface RunResult {

@@ -4,7 +4,8 @@
 #      web (code-server + playwright-core, via the shared recipe) for the
 #      end-to-end editor test;
 #   2. build; 3. vitest (unit, property, NIST StRD, CLI, panel page in Chromium);
-#   4. the NIST StRD table; 5. the end-to-end test in a real VS Code.
+#   4. sharded per-group fits on a one-node Slurm cluster (test/slurm/run.sh);
+#   5. the NIST StRD table; 6. the end-to-end test in a real VS Code.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 root=$(pwd)
@@ -39,6 +40,10 @@ step "vitest"
 mkdir -p test/artifacts
 npx vitest run --reporter=default --reporter=json --outputFile.json=test/artifacts/vitest.json
 
+step "sharded fits on a real Slurm scheduler (../shared/tools/slurm-local)"
+export SLURM_LOCAL_TOOLS="${SLURM_LOCAL_TOOLS:-$(cd "$root/.." && pwd)/shared/tools/slurm-local}"
+bash test/slurm/run.sh | tee test/artifacts/slurm.log
+
 step "NIST StRD table"
 node dist/strd.js
 
@@ -51,7 +56,8 @@ const fs = require("fs");
 const v = JSON.parse(fs.readFileSync("test/artifacts/vitest.json", "utf8"));
 const m = /(\d+) passed, (\d+) failed/.exec(fs.readFileSync("test/artifacts/e2e.log", "utf8").trim().split("\n").pop() || "");
 const e2e = m ? [Number(m[1]), Number(m[2])] : [0, 1];
-const passed = v.numPassedTests + e2e[0], failed = v.numFailedTests + e2e[1], skipped = v.numPendingTests + v.numTodoTests;
+const slurm = /\[slurm\] PASS/.test(fs.readFileSync("test/artifacts/slurm.log", "utf8")) ? [1, 0] : [0, 1];
+const passed = v.numPassedTests + e2e[0] + slurm[0], failed = v.numFailedTests + e2e[1] + slurm[1], skipped = v.numPendingTests + v.numTodoTests;
 console.log(`\ntotal: ${passed} passed, ${failed} failed, ${skipped} skipped`);
 process.exit(failed ? 1 : 0);
 '

@@ -31,7 +31,7 @@ import type { FitResult } from '../result';
 import type { CancelToken } from '../solve/problem';
 import { prepareFitData, type FitData } from '../run/fit-data';
 import { fitOneGroup, unfittedGroup } from './group-job';
-import { sharedStart } from './starts';
+import { sharedStart, type SharedStart } from './starts';
 import { runChunksInWorkers } from './pool';
 import { createCancelFlag, setCancelled } from './protocol';
 
@@ -40,6 +40,8 @@ export interface GroupRunOptions {
   threads?: number;
   /** Checked between groups and, through a shared flag, once per solver iteration. */
   cancel?: CancelToken;
+  /** The start the groups share (default computed from `groups`, engine/groups/starts.ts); a shard passes the one of all groups. */
+  shared?: SharedStart;
   /** Called with the number of groups finished (non-decreasing) and the total. */
   onProgress?: (done: number, total: number) => void;
   /**
@@ -103,7 +105,7 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
   let done = 0;
   const report = () => options.onProgress?.(done, total);
   // one shared start for every way of fitting the groups (engine/groups/starts.ts)
-  const shared = sharedStart(fit, groups);
+  const shared = options.shared ?? sharedStart(fit, groups);
 
   const inProcess = async (indices: Iterable<number>) => {
     let last = Date.now();

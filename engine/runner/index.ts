@@ -3,4 +3,5 @@
  * fit — single or per group — then queries, derived quantities and
  * expectations), in this thread or as a worker job.
  */
-export { runPlan, runPlanSync, type RunIteration, type RunOptions, type RunProgress } from './run-plan';
+export { finishRun, runPlan, runPlanSync, type FittedRun, type RunIteration, type RunOptions, type RunProgress } from './run-plan';
+export { gatherShards, type GatherOutcome, type ShardFile } from './gather';

@@ -23,7 +23,7 @@ import type { FitPlan, Plan } from '../../parser/plan';
 import { compileColumnExpr } from '../compile';
 import type { FileReader } from '../data';
 import { errorText } from '../messages';
-import { RESULT_VERSION, type FitResult, type RunError, type RunResult } from '../result';
+import { RESULT_VERSION, type FitResult, type Provenance, type RunError, type RunResult, type ShardFit } from '../result';
 import type { CancelToken } from '../solve/problem';
 import { loadSources } from '../run/datasets';
 import { runDerived } from '../run/derived';
@@ -37,6 +37,8 @@ import { sharedStart } from '../groups/starts';
 import { runQueries } from '../run/queries';
 import type { Solvers } from '../run/solvers';
 import { TOOL_NAME, TOOL_VERSION } from '../run/version';
+import { shardRanges, type Shard } from '../groups/shards';
+import type { SharedStart } from '../groups/starts';
 
 export interface RunProgress {
   fit: string;
@@ -90,6 +92,14 @@ export interface RunOptions {
   onGroupMode?: (fit: string, mode: RunMode) => void;
   /** Record each fit's per-iteration solver trace in its result (`FitResult.trace`); the groups of per-group fits are then fitted in this thread. Default false. */
   trace?: boolean;
+  /**
+   * Run one shard of the work (engine/groups/shards.ts): of each per-group
+   * fit only the groups of this shard (their shared start still computed
+   * from every group, so each group's result is the one an unsharded run
+   * gives), and fits without groups only in shard 1. The result says which
+   * in `provenance.shard`; `leastwise gather` joins the shards.
+   */
+  shard?: Shard;
 }
 
 /** Asks the driver of `steps` to fit a fit's groups; it answers with their results, or undefined to let `steps` fit them in order. */
@@ -99,6 +109,8 @@ interface GroupBatch {
   /** Fit runs finished before this batch, and the total known so far (for progress). */
   done: number;
   total: number;
+  /** The start every group of the fit shares, computed from all of its groups (also those of other shards). */
+  shared: SharedStart;
 }
 
 function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined, RunResult, FitResult[] | undefined> {
@@ -106,7 +118,10 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
   const errors: RunError[] = [];
   const wanted = opts.fits ? new Set(opts.fits) : null;
   if (wanted) for (const name of wanted) if (!plan.fits.some((f) => f.name === name)) errors.push({ code: 'unknown_fit', message: errorText.unknownFit(name) });
-  const fits = plan.fits.filter((f) => !wanted || wanted.has(f.name));
+  const shard = opts.shard;
+  // a shard after the first leaves the fits without groups to shard 1
+  const fits = plan.fits.filter((f) => (!wanted || wanted.has(f.name)) && !(shard && shard.index > 1 && f.groupBy === undefined));
+  const shardFits: ShardFit[] = [];
   const neededSources = new Set(fits.flatMap((f) => f.blocks.map((b) => b.data)));
   const loaded = loadSources(plan.data.filter((d) => neededSources.has(d.name)), opts.baseDir, opts.readFile);
   for (const e of loaded.errors) errors.push(e);
@@ -141,11 +156,20 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
       for (const e of prepared.errors) errors.push(e);
       continue;
     }
-    total += prepared.data.length - 1;
-    if (fit.groupBy !== undefined && prepared.data.length > 1) {
-      const fitted = yield { fit, groups: prepared.data, done, total };
+    // groups of a per-group fit share one start and retry from their own data (engine/groups/group-job.ts);
+    // the start is computed from every group, also in a shard
+    const shared = fit.groupBy !== undefined ? sharedStart(fit, prepared.data) : undefined;
+    let groups = prepared.data;
+    if (shard && fit.groupBy !== undefined) {
+      const [from, to] = shardRanges(groups.map((g) => g.n), shard.count)[shard.index - 1];
+      shardFits.push({ fit: fit.name, groups: groups.length, from, to });
+      groups = groups.slice(from, to);
+    }
+    total += groups.length - 1;
+    if (shared && groups.length > 1) {
+      const fitted = yield { fit, groups, done, total, shared };
       if (fitted) {
-        done += prepared.data.length;
+        done += groups.length;
         // Groups the cancellation caught before they started are left out, as in the loop below.
         const started = fitted.filter((r) => !isUnstarted(r));
         for (const r of started) results.get(fit.name)!.push(r);
@@ -154,9 +178,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
         continue;
       }
     }
-    // groups of a per-group fit share one start and retry from their own data (engine/groups/group-job.ts)
-    const shared = fit.groupBy !== undefined ? sharedStart(fit, prepared.data) : undefined;
-    for (const data of prepared.data) {
+    for (const data of groups) {
       if (opts.cancel?.cancelled) {
         errors.push({ code: 'cancelled', message: `run cancelled before fit ${fit.name}${data.group !== undefined ? ` [${data.group}]` : ''}`, range: fit.range, fit: fit.name });
         break;
@@ -175,23 +197,46 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
     }
   }
 
+  const provenance: Provenance = {
+    tool: TOOL_NAME,
+    toolVersion: TOOL_VERSION,
+    ...(opts.specPath !== undefined ? { specPath: opts.specPath } : {}),
+    specSha256: createHash('sha256').update(opts.specText).digest('hex'),
+    data: loaded.provenance,
+    startedAt,
+    ...(shard ? { shard: { index: shard.index, count: shard.count, ...(opts.fits ? { only: [...opts.fits] } : {}), fits: shardFits, fitErrors: errors.length } } : {}),
+  };
+  return finishRun(plan, { fitPlans, results, errors, provenance });
+}
+
+/** What the fitting of a run produced, before its queries, derived quantities and expectations. */
+export interface FittedRun {
+  /** The fits that ran, by name (a fit not here counts as not run: its queries and expectations are skipped). */
+  fitPlans: ReadonlyMap<string, FitPlan>;
+  /** Each fit's results in plan order (one per group for per-group fits, in group order). */
+  results: Map<string, FitResult[]>;
+  /** Errors of loading and fitting, in order; the later stages append theirs. */
+  errors: RunError[];
+  provenance: Provenance;
+}
+
+/**
+ * The stages after fitting: queries, derived quantities and expectations of
+ * the fits that ran, and the result. Shared by the plan runner and by
+ * `leastwise gather`, which joins the fits of a run's shards and finishes
+ * them here, so a gathered result is computed as one run's is.
+ */
+export function finishRun(plan: Plan, run: FittedRun): RunResult {
+  const { fitPlans, results, errors } = run;
   const ran = (name: string) => fitPlans.has(name);
   const queries = plan.queries.filter((q) => (q.kind === 'compare' ? q.fits.every(ran) : ran(q.fit)));
-  const q = runQueries(queries, { fitPlans, results });
+  const q = runQueries(queries, { fitPlans: fitPlans as Map<string, FitPlan>, results });
   for (const e of q.errors) errors.push(e);
   const derived = runDerived(plan.derived ?? [], results, ran);
   const expectations = checkExpectations(plan.expectations.filter((e) => expectationApplies(e, ran, derived)), results, derived);
-
   return {
     version: RESULT_VERSION,
-    provenance: {
-      tool: TOOL_NAME,
-      toolVersion: TOOL_VERSION,
-      ...(opts.specPath !== undefined ? { specPath: opts.specPath } : {}),
-      specSha256: createHash('sha256').update(opts.specText).digest('hex'),
-      data: loaded.provenance,
-      startedAt,
-    },
+    provenance: run.provenance,
     fits: [...results.values()].flat(),
     queries: q.results,
     derived,
@@ -228,6 +273,7 @@ async function fitBatch(batch: GroupBatch, opts: RunOptions): Promise<FitResult[
   }
   return fitGroupData(batch.fit, batch.groups, {
     threads,
+    shared: batch.shared,
     workerFile,
     // the decision is taken above; fitGroupData still fits in this thread when workers cannot start
     minGroupsForWorkers: 2,

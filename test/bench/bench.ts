@@ -32,6 +32,7 @@ import { benchJsonOutput, benchVersusCubic, benchVersusGroups, benchVersusLogist
 import { benchRobustness } from './cases/robustness';
 import { benchSuggest } from './cases/suggest';
 import { benchDerivedChain } from './cases/derived-chain';
+import { benchShards } from './cases/shards';
 
 const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<BenchRow> }[] = [
   { id: 1, name: 'LM vs gradient descent', run: benchDescent },
@@ -53,6 +54,7 @@ const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<Ben
   { id: 17, name: 'Per-group fits vs general-purpose loop', run: benchVersusGroups },
   { id: 18, name: 'Did you mean at scale', run: benchSuggest },
   { id: 19, name: 'Chained derive statements', run: benchDerivedChain },
+  { id: 20, name: 'Shards side by side', run: benchShards },
 ];
 
 interface Args {

@@ -37,7 +37,7 @@ export function closest(word: string, candidates: readonly string[]): string | n
 }
 
 /** The commands that take spec files, with the help text each prints for `--help`. */
-type SpecCommand = 'check' | 'plan' | 'fit';
+type SpecCommand = 'check' | 'plan' | 'fit' | 'gather';
 
 /**
  * The start every spec command shares: parse `argv`, print the help for

@@ -15,6 +15,8 @@ export interface CliIo {
   cwd: string;
   /** Clock in milliseconds for progress throttling. Default `Date.now`. */
   now?: () => number;
+  /** Environment variables (cli.ts: `process.env`): `fit` reads the shard of a Slurm array task or Kubernetes indexed job from them. Default none. */
+  env?: Readonly<Record<string, string | undefined>>;
   /** Test hooks of the output writer (engine/io/stage.ts); cli.ts sets them from the environment. */
   writeHooks?: StageHooks;
 }

@@ -6,18 +6,20 @@ import pkg from '../../../package.json';
 import { closest } from './args';
 import { checkCommand } from './check';
 import { fitCommand } from './fit';
+import { gatherCommand } from './gather';
 import { EXIT, type CliIo, type ExitCode } from './io';
 import { plainError } from './located-lines';
 import { HELP, MSG, TOOL } from './messages';
 import { newCommand } from './new';
 import { planCommand } from './plan';
 
-export type CommandName = 'check' | 'plan' | 'fit' | 'new';
+export type CommandName = 'check' | 'plan' | 'fit' | 'gather' | 'new';
 
 export const COMMANDS: Record<CommandName, (argv: string[], io: CliIo) => Promise<ExitCode>> = {
   check: checkCommand,
   plan: planCommand,
   fit: fitCommand,
+  gather: gatherCommand,
   new: newCommand,
 };
 

@@ -17,6 +17,8 @@ Commands:
   check FILE...    check specs (syntax, names, data columns) and list problems
   plan FILE        print the checked fitting plan as JSON
   fit FILE         run the fits of a spec and print, save or chart the results
+  gather FILE SHARD.json...
+                   join the results of the shards of a per-group run
   new DATA.csv     write a starter spec for a CSV file from a model template
 
 Options:
@@ -65,6 +67,14 @@ Options:
   --trace          record each solver's per-iteration trace (cost, gradient,
                    step, trust radius, reduction ratio) in the summary and
                    the JSON; per-group fits then run in this thread
+  --shard I/N      fit shard I of N of the groups of each per-group fit
+                   (contiguous runs of groups balanced by rows; fits without
+                   groups in shard 1 only); join them with leastwise gather.
+                   Inside a Slurm array task the shard is taken from
+                   SLURM_ARRAY_TASK_ID/_MIN/_MAX (say --shard 1/1 to fit
+                   everything)
+  --shards N       the number of shards of a Kubernetes indexed job, whose
+                   JOB_COMPLETION_INDEX gives the shard
   -h, --help       show this help
 
 A per-group fit prints its group table, the median and IQR of each parameter
@@ -74,6 +84,29 @@ results only for flagged groups (at most 10; every group is in --json).
 Exit codes: 0 success, 1 an expectation failed, 2 spec or data error,
 3 a fit, or a group of a per-group fit, failed or did not converge (3 wins
 over 1; the other groups are still fitted and reported).
+`,
+  gather: `Usage: leastwise gather FILE.lsq SHARD.json... [options]
+
+Join the result JSON of every shard of a run (leastwise fit FILE.lsq
+--shard I/N --json SHARD.json) into the result of one run: the same summary,
+JSON, report and group tables, values and order, as if the spec had been
+fitted in one go. Checks first that every shard is there once and that all
+were fitted from this spec text, the same data and this version; a missing
+shard is named with the command that reruns it.
+
+Options:
+  --json PATH|-    write the joined result as JSON; "-" writes only JSON to
+                   stdout
+  --report PATH.md write a Markdown report (charts in PATH-charts/, or
+                   --charts DIR)
+  --charts DIR     write SVG charts for every fit into DIR
+  --groups PATH.csv
+                   write the group table of each per-group fit as CSV
+  --quiet          print no summary
+  -h, --help       show this help
+
+Exit codes as for leastwise fit; 2 also when the shards do not belong
+together.
 `,
   new: (): string => `Usage: leastwise new DATA.csv [options]
 
@@ -130,4 +163,20 @@ export const MSG = {
   internal: (detail: string) => `internal error: ${detail} (please report this with the spec and data)`,
   progress: (fit: string, done: number, total: number) => `fitted ${fit} (${done} of ${total})`,
   iterating: (what: string) => `fitting ${what}`,
+  badShards: (value: string) => `--shards needs a whole number of at least 1, not '${value}' (see leastwise fit --help)`,
+  shardAndShards: () => '--shard I/N already says how many shards there are; leave out --shards',
+  shardsWithoutIndex: () => '--shards N goes with a Kubernetes indexed job (JOB_COMPLETION_INDEX); elsewhere pass --shard I/N',
+  nothingToShard: () => 'no fit of this run is fitted per group (per COLUMN), so there is nothing to share out among shards',
+  shardIgnored: (where: string) => `note: this is ${where}, but no fit of this run is fitted per group: fitting the whole spec, not a shard`,
+  shardFromEnvironment: (shard: { index: number; count: number }, where: string, variables: string) =>
+    `fitting shard ${shard.index} of ${shard.count} (from ${where}: ${variables}; pass --shard 1/1 to fit everything)`,
+  shardWithoutJson: () => 'note: leastwise gather joins shards from their result JSON; this shard writes none (add --json PATH)',
+  shardGroups: (shard: { index: number; count: number }, f: { fit: string; groups: number; from: number; to: number }) =>
+    f.to > f.from
+      ? `shard ${shard.index} of ${shard.count}: groups ${f.from + 1}–${f.to} of ${f.groups} of fit ${f.fit}`
+      : `shard ${shard.index} of ${shard.count}: no groups of fit ${f.fit} (${f.groups} groups for ${shard.count} shards)`,
+  shardUnreadable: (file: string, detail: string) => `cannot read shard result ${file}: ${detail}`,
+  shardNotJson: (file: string, detail: string) => `shard result ${file} is not valid JSON: ${detail}`,
+  rerunShard: (spec: string, index: number, count: number) => `rerun it with leastwise fit ${spec} --shard ${index}/${count} --json …`,
+  needShards: () => 'gather needs the spec and the result JSON of every shard (see leastwise gather --help)',
 };

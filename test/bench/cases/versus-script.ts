@@ -35,11 +35,11 @@ function repoRoot(): string {
     if (path.dirname(dir) === dir) return process.cwd();
   }
 }
-const ROOT = repoRoot();
+export const ROOT = repoRoot();
 /** Our CLI bundle: beside this bundle when copied with it (the bench test runs a private copy), else dist/cli.js. */
-const CLI = existsSync(path.join(__dirname, 'cli.js')) ? path.join(__dirname, 'cli.js') : path.join(ROOT, 'dist', 'cli.js');
+export const CLI = existsSync(path.join(__dirname, 'cli.js')) ? path.join(__dirname, 'cli.js') : path.join(ROOT, 'dist', 'cli.js');
 const SCRIPT = path.join(ROOT, 'test', 'bench', 'reference', 'script_fit.py');
-const PRELOAD = path.join(ROOT, 'test', 'bench', 'reference', 'rusage-preload.cjs');
+export const PRELOAD = path.join(ROOT, 'test', 'bench', 'reference', 'rusage-preload.cjs');
 
 export interface ProcessRun {
   wallMs: number;
