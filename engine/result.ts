@@ -311,10 +311,26 @@ export interface FitResult {
   warnings: FitWarning[];
   /** The multi-start search, when it ran (additive, optional). */
   search?: SearchResult;
+  /** A robust loss: the scale used and each point's final weight (additive, optional; absent for squared loss or a fit that did not converge). */
+  robust?: RobustSummary;
   /** Per-group fits: the group failed from the shared start and was fitted again (additive, optional). */
   retry?: RetryRecord;
   /** Milliseconds spent fitting (not deterministic; views may omit it). */
   elapsedMs: number;
+}
+
+/** What a robust loss did (engine/solve/loss.ts). */
+export interface RobustSummary {
+  /** The loss scale c, in units of the (weighted) residual. */
+  scale: number;
+  /** `given`: the spec's `scale`; `spread`: `tuning` × 1.4826·MAD of the residuals. */
+  scaleFrom: 'given' | 'spread';
+  /** The loss's tuning constant k (parser/registry/losses.ts). */
+  tuning: number;
+  /** Each point's final weight ρ′((r/c)²), in `points` order: 1 inside the scale, less beyond it. */
+  weights: number[];
+  /** Points with a weight below 1 (residual beyond the scale). */
+  downweighted: number;
 }
 
 export type QueryResult =

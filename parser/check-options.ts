@@ -24,7 +24,7 @@ export const OPTION_KEYWORD: Readonly<Record<keyof FitOptions, KeywordName>> = {
 };
 
 /** Default options (plan.ts FitOptions docs). */
-export const DEFAULT_OPTIONS: Readonly<FitOptions> = { method: 'auto', loss: 'squared', lossScale: 1, level: 0.95 };
+export const DEFAULT_OPTIONS: Readonly<FitOptions> = { method: 'auto', loss: 'squared', level: 0.95 };
 
 export function checkOptions(env: Env, fit: FitAst, dataName: string, columns: ReadonlySet<string> | undefined): { options: FitOptions; groupBy?: string } {
   const { r } = env;

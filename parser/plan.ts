@@ -130,8 +130,13 @@ export interface FitOptions {
   method: Method;
   /** Loss applied to the (weighted) residuals. Default `squared`. */
   loss: LossKind;
-  /** Loss scale c (residual size where a robust loss starts to down-weight). Default 1. */
-  lossScale: number;
+  /**
+   * Loss scale c (residual size where a robust loss starts to down-weight), in
+   * units of the (weighted) residual, as the spec gives it. Absent: from the
+   * data, the loss's tuning constant times the robust spread of the residuals
+   * (engine/solve/loss.ts), reported in the result's `robust.scale`.
+   */
+  lossScale?: number;
   /** Confidence level of intervals and bands, in (0, 1). Default 0.95. */
   level: number;
   /** Iteration limit of iterative solvers. Default 1000 (LM), 100000 (gradient descent). */

@@ -33,6 +33,7 @@
  * again leaves the fit as it was (the search is still recorded, reason
  * `check`).
  */
+import { LOSS_SPECS } from '../../parser/registry/losses';
 import type { Expr, FitPlan, LossKind } from '../../parser/plan';
 import { compileModel, isLinearInParameters, type CompiledModel } from '../compile';
 import type { FitResult, FitTrace, FitWarning, SearchResult, StopReason } from '../result';
@@ -222,7 +223,25 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
     ...stats.fields,
     warnings: [...searchWarnings, ...stats.warnings, ...groupWarnings],
     ...(searchResult ? { search: searchResult } : {}),
+    ...robustFields(fit, solved.outcome, c),
     elapsedMs: elapsed(),
+  };
+}
+
+/** The robust loss's scale (back in the data's units: the problem's residuals are divided by `c`) and each point's weight. */
+function robustFields(fit: FitPlan, outcome: SolveOutcome, c: number): Pick<FitResult, 'robust'> {
+  const w = outcome.robustWeights;
+  if (fit.options.loss === 'squared' || !w || outcome.robustScale === undefined || !outcome.stop.converged) return {};
+  let downweighted = 0;
+  for (let i = 0; i < w.length; i++) if (w[i] < 1) downweighted++;
+  return {
+    robust: {
+      scale: fit.options.lossScale ?? outcome.robustScale * c,
+      scaleFrom: fit.options.lossScale !== undefined ? 'given' : 'spread',
+      tuning: LOSS_SPECS[fit.options.loss].tuning,
+      weights: Array.from(w),
+      downweighted,
+    },
   };
 }
 
@@ -352,8 +371,9 @@ function solve(
   if (loss !== 'squared' && outcome.stop.code !== 'cancelled') {
     if (!solvers.robust) return { error: `the robust solver (loss ${loss}) is not available in this build` };
     const from = outcome.theta.every(Number.isFinite) ? outcome.theta : theta0;
-    // the loss scale is in units of the weighted residual; the problem's residuals are divided by c
-    outcome = add(solvers.robust(problem, from, loss, o.lossScale / scale, iterative));
+    // the loss scale is in units of the weighted residual; the problem's residuals are divided by c.
+    // Without one in the spec it comes from the residuals' robust spread (engine/solve/loss.ts), which needs no unit.
+    outcome = add(solvers.robust(problem, from, loss, o.lossScale !== undefined ? o.lossScale / scale : 'spread', iterative));
     if (used === 'linear') used = 'levenberg_marquardt';
   }
   return { outcome, method: used, iterations, evaluations, ...(searched ? { search: searched } : {}) };

@@ -19,7 +19,7 @@ export interface Solvers {
   /** Optional so that test fakes may leave it out; the fit then fails with a clear stop message. */
   gradientDescent?(problem: LeastSquaresProblem, theta0: Float64Array, options: IterativeOptions): SolveOutcome;
   /** Optional as above. */
-  robust?(problem: LeastSquaresProblem, theta0: Float64Array, loss: Exclude<LossKind, 'squared'>, scale: number, options: IterativeOptions): SolveOutcome;
+  robust?(problem: LeastSquaresProblem, theta0: Float64Array, loss: Exclude<LossKind, 'squared'>, scale: number | 'spread', options: IterativeOptions): SolveOutcome;
 }
 
 export const defaultSolvers: Solvers = {

@@ -25,10 +25,29 @@
  * |Δθⱼ|/(|θⱼ| + 1e-10) is ≤ √τ;
  * a non-converged inner LM stop ends the iteration with that stop.
  * The outcome's residuals and Jacobian are the unweighted ones at the final
- * θ, `robustWeights` the final wᵢ and `cost` the robust cost; with a trace
- * asked for, `trace` is that of the last reweighted solve.
+ * θ, `robustWeights` the final wᵢ, `robustScale` the scale c used and `cost`
+ * the robust cost; with a trace asked for, `trace` is that of the last
+ * reweighted solve.
+ *
+ * The scale from the data (`scale` 'spread', the default when a spec gives
+ * no `scale`): c = k·σ̂, with σ̂ = 1.4826·MAD the normal-consistent median
+ * absolute deviation of the residuals about their median (Hampel, J. Amer.
+ * Statist. Assoc. 69 (1974) 383-393; 1.4826 = 1/Φ⁻¹(3/4), common practice)
+ * and k the loss's tuning constant (parser/registry/losses.ts: 1.345 for
+ * Huber, 2.385 for Cauchy, the constants giving 95 % efficiency at the
+ * normal distribution, Holland & Welsch 1977). It is estimated from the
+ * residuals before each reweighting (the first from the squared-loss fit the
+ * robust fit starts from), as iteratively rescaled IRLS does (Huber, Robust
+ * Statistics, 1981, §7.8), until it settles - a relative change of at most
+ * SCALE_SETTLED (1e-3) - or for at most MAX_SCALE_UPDATES (20) reweightings;
+ * then it is held, so the iteration ends as the fixed-scale MM algorithm
+ * above does. When more than half of the residuals equal their median (MAD
+ * 0), σ̂ is 1.2533 times the mean absolute deviation about the median
+ * (√(π/2), normal-consistent; common practice); when that is 0 too, every
+ * residual is equal and any scale gives weights 1: c = 1.
  */
 import type { LossKind } from '../../parser/plan';
+import { LOSS_SPECS } from '../../parser/registry/losses';
 import type { LeastSquaresProblem } from './problem';
 import { type SolveOptions, type SolveOutcome, DEFAULT_TOLERANCE, stopReason, fmt } from './types';
 import { solveNonlinear } from './nonlinear';
@@ -93,13 +112,47 @@ function weighted(problem: LeastSquaresProblem, sqrtW: Float64Array): LeastSquar
   return w;
 }
 
-export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, loss: LossKind, scale: number, options: RobustOptions = {}): SolveOutcome {
+/** σ̂ = 1.4826·MAD changes by at most this (relative) between reweightings: it is held from then on. */
+export const SCALE_SETTLED = 1e-3;
+/** The scale from the data is re-estimated before at most this many reweightings, then held. */
+export const MAX_SCALE_UPDATES = 20;
+
+/** Median of `v` (a copy is sorted). */
+function median(v: ArrayLike<number>): number {
+  const s = Float64Array.from(v).sort();
+  const m = s.length >> 1;
+  return s.length === 0 ? NaN : s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+/** The normal-consistent robust spread σ̂ of residuals (see the module comment): 1.4826·MAD, or 1.2533·mean absolute deviation when MAD is 0; 0 when all are equal. */
+export function robustSpread(r: ArrayLike<number>): number {
+  const med = median(r);
+  const dev = Float64Array.from(r, (x) => Math.abs(x - med));
+  const mad = median(dev);
+  if (mad > 0) return 1.4826 * mad;
+  let sum = 0;
+  for (let i = 0; i < dev.length; i++) sum += dev[i];
+  return dev.length ? (1.2533 * sum) / dev.length : 0;
+}
+
+/** c = k·σ̂ for a robust loss from residuals `r` (1 when they are all equal). */
+export function scaleFromSpread(loss: LossKind, r: ArrayLike<number>): number {
+  const spread = robustSpread(r);
+  return spread > 0 && Number.isFinite(spread) ? LOSS_SPECS[loss].tuning * spread : 1;
+}
+
+export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, loss: LossKind, scaleGiven: number | 'spread', options: RobustOptions = {}): SolveOutcome {
   if (loss === 'squared') return solveNonlinear(problem, theta0, options);
-  if (!(scale > 0) || !Number.isFinite(scale)) throw new RangeError('loss scale must be a positive finite number');
+  if (scaleGiven !== 'spread' && (!(scaleGiven > 0) || !Number.isFinite(scaleGiven))) throw new RangeError('loss scale must be a positive finite number');
   const { n, p } = problem;
   const ftol = options.reductionTolerance ?? DEFAULT_TOLERANCE;
   const maxRe = options.maxReweightings ?? 100;
-  const c2 = scale * scale;
+  const rStart = new Float64Array(n);
+  problem.residuals(theta0, rStart);
+  let scale = scaleGiven === 'spread' ? scaleFromSpread(loss, rStart) : scaleGiven;
+  let scaleHeld = scaleGiven !== 'spread';
+  let scaleUpdates = 0;
+  let c2 = scale * scale;
   // The inner solves report nothing themselves: progress is the robust cost per reweighting.
   const inner: SolveOptions = { ...options, onIteration: undefined };
   const r = new Float64Array(n);
@@ -117,6 +170,16 @@ export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, lo
   let code: SolveOutcome['stop']['code'] = 'max_iterations';
   for (let k = 1; k <= maxRe; k++) {
     if (!Number.isFinite(cost)) { code = 'non_finite'; message = 'residuals are not finite'; break; }
+    if (!scaleHeld && k > 1) {
+      // the scale from the current residuals, until it settles (module comment)
+      const next = scaleFromSpread(loss, r);
+      scaleUpdates++;
+      const settled = Math.abs(next - scale) <= SCALE_SETTLED * scale;
+      scale = next;
+      c2 = scale * scale;
+      cost = robustCost(loss, scale, r);
+      if (settled || scaleUpdates >= MAX_SCALE_UPDATES) scaleHeld = true;
+    }
     for (let i = 0; i < n; i++) {
       weights[i] = rhoPrime(loss, (r[i] * r[i]) / c2);
       sqrtW[i] = Math.sqrt(weights[i]);
@@ -133,7 +196,7 @@ export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, lo
     const next = robustCost(loss, scale, r);
     const reduction = (cost - next) / Math.max(cost, Number.MIN_VALUE);
     cost = next;
-    if (reduction <= ftol && change <= Math.sqrt(ftol)) {
+    if (scaleHeld && reduction <= ftol && change <= Math.sqrt(ftol)) {
       code = 'small_reduction';
       message = `IRLS: relative robust-cost change ${fmt(Math.abs(reduction))} below the reduction tolerance ${fmt(ftol)} and parameter change ${fmt(change)} below its square root after ${k} reweighting(s)`;
       break;
@@ -148,7 +211,7 @@ export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, lo
   for (let i = 0; i < n; i++) weights[i] = rhoPrime(loss, (r[i] * r[i]) / c2);
   return {
     theta, residuals: r, jacobian: jac, cost: robustCost(loss, scale, r),
-    stop: stopReason(code, message), iterations, evaluations, jacobianEvaluations, robustWeights: weights,
+    stop: stopReason(code, message), iterations, evaluations, jacobianEvaluations, robustWeights: weights, robustScale: scale,
     ...(last?.trace ? { trace: last.trace } : {}),
     ...(code === 'non_finite' && nonFinite ? { nonFinite } : {}),
   };

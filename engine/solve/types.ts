@@ -63,6 +63,8 @@ export interface SolveOutcome {
   rank?: number;
   /** Robust fits: final IRLS weights ρ′(rᵢ²/c²) per residual. */
   robustWeights?: Float64Array;
+  /** Robust fits: the loss scale c the weights were computed with (given, or from the residuals' spread; engine/solve/loss.ts). */
+  robustScale?: number;
   /** Per-iteration trace, when `options.trace` was set. */
   trace?: SolverTrace;
   /** With a `non_finite` stop: where the residuals or the Jacobian were not finite. */

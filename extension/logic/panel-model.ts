@@ -15,7 +15,7 @@
  */
 import type { FitResult, RunResult } from '../../engine/result';
 import { chartSpecs, type ChartSpec } from '../../engine/front/views/charts';
-import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, searchLine, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
+import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, robustLine, searchLine, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { GroupFlag } from '../../engine/groups/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
@@ -41,6 +41,8 @@ export interface PanelFit {
   stop: string;
   /** The multi-start search's sentence (engine/front/views/summary.ts `searchLine`), when one ran. */
   search: string | null;
+  /** A robust loss's sentence (scale and down-weighted points, engine/front/views/summary.ts `robustLine`). */
+  robust: string | null;
   converged: boolean;
   /** The marking of a fit that is not a result (engine/front/views/summary.ts `notFittedNote`), shown as a banner; null when fitted. */
   notFitted: string | null;
@@ -174,6 +176,7 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     heading: fitHeading(f),
     stop: stopLine(f),
     search: searchLine(f),
+    robust: robustLine(f),
     converged: f.stop.converged,
     notFitted: notFittedNote(f),
     parameterHeaders: PARAMETER_HEADERS(f.level),

@@ -12,13 +12,22 @@ export interface LossSpec {
   readonly rho: string;
   readonly doc: string;
   readonly label: string;
+  /**
+   * Tuning constant k: without a `scale`, the scale is k times the robust
+   * spread of the residuals (engine/solve/loss.ts). Huber 1.345 and Cauchy
+   * 2.385 give 95 % asymptotic efficiency at the normal distribution
+   * (Holland & Welsch, Comm. Statist. Theory Methods 6 (1977) 813-827;
+   * values from memory, common practice); pseudo-Huber takes Huber's, whose
+   * loss it smooths; squared loss has none (1, unused).
+   */
+  readonly tuning: number;
 }
 
 export const LOSS_SPECS = {
-  squared: { rho: 'z', doc: 'ordinary least squares', label: 'squared loss' },
-  huber: { rho: 'z for z ≤ 1, else 2√z − 1', doc: 'quadratic near zero, linear in |r| beyond the scale (Huber 1964)', label: 'Huber loss' },
-  pseudo_huber: { rho: '2(√(1 + z) − 1)', doc: 'a smooth Huber loss: quadratic near zero, growing like |r| far out', label: 'pseudo-Huber loss' },
-  cauchy: { rho: 'ln(1 + z)', doc: 'Cauchy (Lorentzian): large residuals count only logarithmically', label: 'Cauchy loss' },
+  squared: { rho: 'z', doc: 'ordinary least squares', label: 'squared loss', tuning: 1 },
+  huber: { rho: 'z for z ≤ 1, else 2√z − 1', doc: 'quadratic near zero, linear in |r| beyond the scale (Huber 1964)', label: 'Huber loss', tuning: 1.345 },
+  pseudo_huber: { rho: '2(√(1 + z) − 1)', doc: 'a smooth Huber loss: quadratic near zero, growing like |r| far out', label: 'pseudo-Huber loss', tuning: 1.345 },
+  cauchy: { rho: 'ln(1 + z)', doc: 'Cauchy (Lorentzian): large residuals count only logarithmically', label: 'Cauchy loss', tuning: 2.385 },
 } as const satisfies Record<string, LossSpec>;
 
 export type LossKind = keyof typeof LOSS_SPECS;

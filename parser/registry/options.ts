@@ -37,7 +37,7 @@ export const FIT_OPTION_SPECS: Readonly<Record<FitOptionKeyword, FitOptionSpec>>
   loss: {
     syntax: `loss ${LOSSES.join(' | ')} [scale C]`,
     meaning: 'how residuals are penalised (see Losses below); `scale` is where a robust loss starts to down-weight (C > 0)',
-    default: '`squared`, scale 1',
+    default: '`squared`; a robust loss without `scale` takes its tuning constant k times the robust spread of the residuals (1.4826·MAD): k = 1.345 for `huber` and `pseudo_huber`, 2.385 for `cauchy`',
     field: 'loss',
   },
   level: { syntax: 'level P', meaning: 'confidence level of intervals and bands, 0 < P < 1', default: '0.95', field: 'level' },

@@ -32,7 +32,7 @@ describe('parser/check plan', () => {
 
   it('applies the documented option defaults', () => {
     const f = fitOf('data d = "a.csv"\nfit f on d {\n  model y = a * x\n  param a\n}');
-    expect(f.options).toEqual({ method: 'auto', loss: 'squared', lossScale: 1, level: 0.95 });
+    expect(f.options).toEqual({ method: 'auto', loss: 'squared', level: 0.95 });
     expect(f.options).toEqual(DEFAULT_OPTIONS);
     expect(f.groupBy).toBeUndefined();
   });

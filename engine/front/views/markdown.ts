@@ -16,7 +16,7 @@ import type { FitResult, RunResult } from '../../result';
 import { formatLevel, formatNumber } from './format';
 import {
   derivedBlock, derivedLabel, expectationRows, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL,
-  notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, searchLine, stopLine, warningLines,
+  notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, robustLine, searchLine, stopLine, warningLines,
 } from './summary';
 import { append, markdownTable } from './table';
 import { md, mdCode, mdFence, mdHref, mdLinkText, mdText, type Markdown } from './escape';
@@ -95,7 +95,8 @@ function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: n
 
 function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
   const search = searchLine(fit);
-  const lines = [`## ${mdText(fitHeading(fit))}`, '', mdText(stopLine(fit) + '.'), ...(search ? ['', mdText(search + '.')] : []), ''];
+  const robust = robustLine(fit);
+  const lines = [`## ${mdText(fitHeading(fit))}`, '', mdText(stopLine(fit) + '.'), ...(search ? ['', mdText(search + '.')] : []), ...(robust ? ['', mdText(robust + '.')] : []), ''];
   const marked = notFittedNote(fit);
   if (marked) lines.push(`> **${mdText(marked)}**`, '');
   else lines.push(`Confidence level ${formatLevel(fit.level)}; intervals use Student's t with ${fit.goodness.dof} degrees of freedom.`, '');
@@ -127,7 +128,7 @@ function provenanceSection(result: RunResult, sections: readonly FitSection[]): 
   const heads = sections.map((s) => (s.kind === 'single' ? { fit: s.fit, label: fitLabel(s.fit) } : { fit: s.fits[0], label: `${s.name} (every group)` }));
   for (const { fit, label } of heads) {
     const o = fit.options;
-    const limits = o ? [o.maxIterations !== undefined ? `iterations ${o.maxIterations}` : '', o.tolerance !== undefined ? `tolerance ${o.tolerance}` : '', o.loss !== 'squared' ? `loss scale ${o.lossScale}` : ''].filter(Boolean) : [];
+    const limits = o ? [o.maxIterations !== undefined ? `iterations ${o.maxIterations}` : '', o.tolerance !== undefined ? `tolerance ${o.tolerance}` : '', o.loss !== 'squared' ? (o.lossScale !== undefined ? `loss scale ${o.lossScale}` : 'loss scale from the residuals\' spread') : ''].filter(Boolean) : [];
     const extra = limits.length ? `, ${limits.join(', ')}` : '';
     rows.push([`options of ${label}`, `${METHOD_LABEL[fit.method]}, ${LOSS_LABEL[fit.loss]}, level ${formatLevel(fit.level)}${extra}`]);
   }

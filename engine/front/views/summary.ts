@@ -89,6 +89,21 @@ export function searchLine(fit: FitResult): string | null {
   return `Search${why}: ${s.points} starting points, ${s.refined} refined, ${s.minima.length} distinct minim${s.minima.length === 1 ? 'um' : 'a'} by SSR (${shown.join(', ')}${more})${ending}`;
 }
 
+/**
+ * One sentence on a robust loss: its scale, where the scale came from, and
+ * how many points it down-weighted. Null for squared loss.
+ */
+export function robustLine(fit: FitResult): string | null {
+  const r = fit.robust;
+  if (!r) return null;
+  const from = r.scaleFrom === 'given' ? 'as given' : `${formatNumber(r.tuning, 4)} × the residuals' robust spread (1.4826·MAD)`;
+  const low = r.weights.reduce((m, w) => Math.min(m, w), 1);
+  const down = r.downweighted === 0
+    ? 'no point down-weighted'
+    : `${r.downweighted} of ${r.weights.length} points down-weighted (smallest weight ${formatNumber(low, 2)}; weights in the JSON)`;
+  return `Robust ${LOSS_LABEL[fit.loss]}: scale ${formatNumber(r.scale, 4)} (${from}); ${down}`;
+}
+
 export const PARAMETER_HEADERS = (level: number): string[] => ['parameter', 'estimate', 'std. error', `${formatLevel(level)} low`, `${formatLevel(level)} high`, 'unit', 'note'];
 
 /** Rows of the parameter table: name, estimate, SE, interval ends, unit, note. */

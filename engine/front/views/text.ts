@@ -8,7 +8,7 @@
 import type { FitResult, RunResult } from '../../result';
 import {
   derivedBlock, expectationRows, expectationTally, fitHeading, goodnessEntries, notFittedNote, PARAMETER_HEADERS,
-  parameterRows, queryBlocks, searchLine, stopLine, TRACE_HEADERS, traceHeading, traceRows, warningLines,
+  parameterRows, queryBlocks, robustLine, searchLine, stopLine, TRACE_HEADERS, traceHeading, traceRows, warningLines,
 } from './summary';
 import { append, maxOf, textTable } from './table';
 import { inlineText } from './escape';
@@ -19,7 +19,8 @@ import {
 /** The summary of one fit, as lines. */
 export function fitTextLines(fit: FitResult): string[] {
   const search = searchLine(fit);
-  const lines: string[] = [fitHeading(fit), `  ${stopLine(fit)}`, ...(search ? [`  ${search}`] : [])];
+  const robust = robustLine(fit);
+  const lines: string[] = [fitHeading(fit), `  ${stopLine(fit)}`, ...(search ? [`  ${search}`] : []), ...(robust ? [`  ${robust}`] : [])];
   const marked = notFittedNote(fit);
   if (marked) lines.push(`  ! ${marked}`);
   lines.push('');

@@ -52,6 +52,7 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
       h('p', { class: 'lw-muted' }, fit.heading),
       h('p', { class: fit.converged ? 'lw-stop' : 'lw-stop lw-bad' }, fit.stop),
       fit.search ? h('p', { class: 'lw-stop' }, fit.search) : null,
+      fit.robust ? h('p', { class: 'lw-stop' }, fit.robust) : null,
       fit.notFitted ? h('p', { class: 'lw-notfitted lw-bad', role: 'alert' }, fit.notFitted) : null,
     ),
     h('div', { class: 'lw-two' }, params, notes),
