@@ -5,14 +5,17 @@
  */
 
 /**
- * Work bound of the default: a single nonlinear fit gets its profile intervals
- * without being asked when n·p ≤ PROFILE_WORK_BOUND (n rows, p free
- * parameters). A profile costs about 10–25 reduced refits per end, each like a
- * fit from a good start (O(n·p²) per iteration). Measured on this machine
- * (2 shared cores): a 4-parameter logistic with n = 10,000 (n·p = 40,000)
- * profiles in about 0.3 s; beyond the bound `profile always` asks for it.
+ * Work bound of the default (declared with the option, parser/registry/options.ts):
+ * a single nonlinear fit gets its profile intervals without being asked when
+ * n·p ≤ PROFILE_WORK_BOUND (n rows, p free parameters). A profile costs a few
+ * reduced refits per end (4–6 with the warm start), each like a fit from a good
+ * start, O(n·p²) per iteration. Measured with the CLI on this machine (2 shared
+ * cores, noisy): a 4-parameter logistic with n = 10,000 (n·p = 40,000) takes
+ * 36 reduced fits and about 2 s more than without profiles (3.3 s against
+ * 1.2–1.7 s); n = 2,500 (n·p = 10,000) about 0.3–0.7 s more. 10,000 keeps the
+ * default cost under about half a second; beyond it `profile always` asks.
  */
-export const PROFILE_WORK_BOUND = 40_000;
+export { PROFILE_WORK_BOUND } from '../../parser/registry/options';
 
 /**
  * A profile end differs "materially" from the Wald end when

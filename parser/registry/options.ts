@@ -14,6 +14,9 @@ import { LOSSES } from './losses';
 /** Largest `explore N` (design points of the multi-start search). */
 export const MAX_EXPLORE = 4096;
 
+/** Work bound of the default `profile auto`: n·p at most this (engine/run/profile-limits.ts gives the measurement). */
+export const PROFILE_WORK_BOUND = 10_000;
+
 /** Values of `profile MODE` (profile-likelihood intervals, engine/run/profile-fit.ts). */
 export const PROFILE_MODES = ['auto', 'always', 'never'] as const;
 export type ProfileMode = (typeof PROFILE_MODES)[number];
@@ -60,7 +63,7 @@ export const FIT_OPTION_SPECS: Readonly<Record<FitOptionKeyword, FitOptionSpec>>
   profile: {
     syntax: `profile ${PROFILE_MODES.join(' | ')}`,
     meaning: 'profile-likelihood intervals of the parameters beside the symmetric ones (Bates & Watts 1988, §6.1): `always` also for the groups of a `per` fit, large fits and linear models, `never` not at all',
-    default: '`auto`: for a single fit of a nonlinear model with the squared loss when n·p ≤ 40000; a linear model\'s profile interval is its symmetric one',
+    default: `\`auto\`: for a single fit of a nonlinear model with the squared loss when n·p ≤ ${PROFILE_WORK_BOUND}; a linear model's profile interval is its symmetric one`,
     field: 'profile',
   },
   per: { syntax: 'per COLUMN', meaning: 'one separate fit per distinct value of the column', default: 'one fit', field: 'groupBy' },

@@ -32,7 +32,7 @@ function endCell(p: ParameterResult, e: ProfileEnd, side: 'lower' | 'upper'): st
     case 'reached':
       return isUsable(e.value) ? digits(e.value) : 'n/a';
     case 'bound':
-      return isUsable(e.value) ? `open at bound ${digits(e.value)}` : 'open at bound';
+      return isUsable(e.value) ? `open at bound ${formatNumber(e.value, 6)}` : 'open at bound';
     case 'not_reached':
       return 'open (not reached)';
     case 'failed':
