@@ -60,7 +60,7 @@ export interface ProfileEnd {
 export interface ParameterProfile {
   lower: ProfileEnd;
   upper: ProfileEnd;
-  /** Reduced fits solved for this parameter. */
+  /** Reduced fits solved for this parameter (with one free parameter: evaluations of S). */
   refits: number;
 }
 
@@ -146,12 +146,13 @@ function profileOne(input: ProfileInput, j: number, sHat: number): ParameterProf
     for (const pt of points) if (Math.abs(pt.v - v) < Math.abs(near.v - v)) near = pt;
     let s: number;
     let rest: Float64Array;
+    refits++;
     if (reduced.p === 0) {
+      // one free parameter: nothing left to fit, S̃(v) = S(v)
       reduced.residuals(rest0, buf);
       s = sumSquares(buf);
       rest = rest0;
     } else {
-      refits++;
       const out = input.solve(reduced, new Float64Array(near.rest), input.options);
       if (!out.stop.converged) return { failed: out.stop.message };
       s = sumSquares(out.residuals);

@@ -72,6 +72,18 @@ describe('engine/run/profile: profile-likelihood intervals against scipy', () =>
     expect(w[0].message).toContain('curvature of the model makes the symmetric interval misleading for k');
   });
 
+  it('one free parameter: the profile is S itself, no refit (scipy 1.17.1: least_squares and brentq on S(k))', async () => {
+    const f = await fitOf('data d = "wash.csv"\nfit one on d {\n  model y = 9.7 * exp(-k * t)\n  param k = 0.3\n}\n');
+    expectEnds(param(f, 'k'), 0.2722657352125265, 0.3139813653692438);
+    expect(param(f, 'k').profile!.refits).toBeGreaterThan(2);
+  });
+
+  it('a fit by gradient descent is profiled with the same reduced fits (ends as for Levenberg–Marquardt)', async () => {
+    const f = await fitOf('data d = "wash.csv"\nfit wash on d {\n  model y = a * exp(-k * t)\n  param a = 9\n  param k = 0.3\n  method gradient_descent\n}\n');
+    expect(f.profile?.status).toBe('computed');
+    expectEnds(param(f, 'k'), 0.2577735387354287, 0.3291971080501105, 1e-5);
+  });
+
   it('4-parameter logistic: all four parameters (scipy 1.17.1 reference)', async () => {
     const f = await fitOf(
       'data d = "dose.csv"\nfit dr on d {\n  model y = bottom + (top - bottom) / (1 + (c / ec) ^ hill)\n  param top = 100\n  param bottom = 4\n  param ec = 2\n  param hill = 1\n}\n',
