@@ -15,6 +15,7 @@ export const profileText = {
   overBound: (np: number, bound: number) => `not computed: n·p = ${np} is over the work bound ${bound} (several refits per parameter); \`profile always\` asks for it`,
   robust: 'not computed for a robust loss: the profile t statistic is defined for the squared loss',
   noDof: 'not computed: no degrees of freedom left for the residual variance',
+  exact: 'not computed: the residuals are at rounding level (the model passes through the data), so the sum of squares has no profile to measure',
   rankDeficient: 'not computed: some parameters have no standard error (the fit is rank-deficient)',
 };
 

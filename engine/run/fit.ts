@@ -219,6 +219,8 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
     upper,
     responseScale: c,
     sigmaAbsolute: data.sigmaAbsolute,
+    response: data.y,
+    weights: data.weights,
     parameters: stats.fields.parameters,
     dof: stats.fields.goodness.dof,
     solve: (pr, t, opts) => solvers.levenbergMarquardt(pr, t, opts),

@@ -17,7 +17,7 @@ import type { FitResult, FitWarning, ParameterResult, ProfileEnd, ProfileSummary
 import type { LeastSquaresProblem, SolveOptions, SolveOutcome } from '../solve';
 import { tCritical } from '../stats/distributions';
 import { profileIntervals, type ProfileSolve } from './profile';
-import { PROFILE_MATERIAL, PROFILE_WORK_BOUND } from './profile-limits';
+import { PROFILE_MATERIAL, PROFILE_ROUNDING, PROFILE_WORK_BOUND } from './profile-limits';
 import { profileIntervalText, profileText } from '../profile-messages';
 import { num, warningText } from '../messages';
 
@@ -34,6 +34,9 @@ export interface ProfileFitInput {
   /** Response scale c of the problem (engine/linalg/scale.ts). */
   responseScale: number;
   sigmaAbsolute: boolean;
+  /** The response and the weights wᵢ (data units; null: unweighted), for the exact-fit test. */
+  response: Float64Array;
+  weights: Float64Array | null;
   /** Parameter rows and degrees of freedom of the fit (engine/run/fit-stats.ts). */
   parameters: ParameterResult[];
   dof: number;
@@ -67,6 +70,7 @@ export function profileForFit(input: ProfileFitInput): ProfileFitOutput {
   const critical = tCritical(fit.options.level, input.dof);
   let ss = 0;
   for (let i = 0; i < n; i++) ss += outcome.residuals[i] * outcome.residuals[i];
+  if (atRoundingLevel(ss, input)) return skipped(profileText.exact);
   // s in the problem's residual units: residuals of the scaled problem are those of the data divided by c
   const scale = input.sigmaAbsolute ? 1 / input.responseScale : Math.sqrt(ss / input.dof);
   const profiles = profileIntervals({
@@ -101,6 +105,17 @@ export function profileForFit(input: ProfileFitInput): ProfileFitOutput {
     return { ...row, profile: { lower: pr.lower, upper: pr.upper, differs, refits: pr.refits } };
   });
   return { summary: { status: 'computed', note: profileText.computed(fit.options.level, critical), critical, refits }, parameters: rows, warnings };
+}
+
+/**
+ * An exact fit: √(S/n) ≤ PROFILE_ROUNDING·max|√wᵢ·yᵢ| (S of the scaled problem, times c²). Its sum of squares is
+ * rounding noise, so the reduced fits have nothing to measure (NIST StRD Lanczos1: they stop without progress).
+ */
+function atRoundingLevel(ssScaled: number, input: ProfileFitInput): boolean {
+  const { response: y, weights: w } = input;
+  let ymax = 0;
+  for (let i = 0; i < y.length; i++) ymax = Math.max(ymax, Math.abs(y[i]) * (w ? Math.sqrt(w[i]) : 1));
+  return Math.sqrt(ssScaled / Math.max(1, y.length)) * input.responseScale <= PROFILE_ROUNDING * ymax;
 }
 
 /**

@@ -54,3 +54,10 @@ export const PROFILE_XTOL = 1e-9;
  * the stopping tolerances of the two solves) are rounding and count as τ = 0.
  */
 export const PROFILE_LOWER_SSR = 1e-9;
+
+/**
+ * Residuals at rounding level: no profile when √(SSR/n) ≤ PROFILE_ROUNDING·max|√wᵢ·yᵢ|, the same relative level
+ * at which the fit's residual tests are withheld (engine/run/fit-stats.ts ROUNDING_LEVEL, 1e-12): S is then noise
+ * of the arithmetic and the profile t statistic measures nothing.
+ */
+export const PROFILE_ROUNDING = 1e-12;

@@ -146,6 +146,16 @@ describe.skipIf(!haveStrd)('engine/run/profile: NIST StRD problems against scipy
     });
   }
 
+  it('NIST StRD Lanczos1 (residuals at rounding level, certified SSR 1.4e-25): no profile, and the reason', async () => {
+    const ds = readStrd('nls', 'Lanczos1', strd);
+    const [y, x] = ds.data;
+    writeCsv(dir, 'Lanczos1.csv', ['x', 'y'], Array.from(x, (v, i) => [v, y[i]]));
+    const starts = ds.parameters.map((q) => `  param ${q.name} = ${q.starts![1]}\n`).join('');
+    const f = await fitOf(`data d = "Lanczos1.csv"\nfit s on d {\n  model y = b1*exp(-b2*x) + b3*exp(-b4*x) + b5*exp(-b6*x)\n${starts}}\n`);
+    expect(f.stop.converged).toBe(true);
+    expect(f.profile).toMatchObject({ status: 'skipped', note: expect.stringContaining('rounding level') });
+  });
+
   it('NIST StRD BoxBOD: the curvature warning names both parameters (profile far from the symmetric interval)', async () => {
     const f = await fitOf('data d = "BoxBOD.csv"\nfit s on d {\n  model y = b1 * (1 - exp(-b2 * x))\n  param b1 = 100\n  param b2 = 0.75\n}\n');
     expect(f.warnings.filter((w) => w.code === 'profile_differs').flatMap((w) => w.parameters)).toEqual(['b1', 'b2']);
@@ -168,6 +178,22 @@ describe('engine/run/profile-fit: when profiles are computed', () => {
       expect(p.profile?.differs).toBe(false);
     }
     expect(forced.warnings.some((w) => w.code === 'profile_differs')).toBe(false);
+    // the same with relative weights and with absolute σ (s = 1): the profile keeps the Wald interval's scale
+    for (const extra of ['  weight 1 / (1 + x)\n', '  sigma 0.002 + 0.001 * x\n']) {
+      const w = await fitOf(`${base}  profile always\n${extra}}\n`);
+      for (const p of w.parameters) {
+        const half = (p.upper! - p.lower!) / 2;
+        expect(Math.abs(p.profile!.lower.value! - p.lower!)).toBeLessThan(1e-7 * half);
+        expect(Math.abs(p.profile!.upper.value! - p.upper!)).toBeLessThan(1e-7 * half);
+      }
+    }
+  });
+
+  it('a fixed parameter is not profiled; the free ones keep their order', async () => {
+    const f = await fitOf('data d = "wash.csv"\nfit wash on d {\n  model y = a * exp(-k * t) + c\n  param a = 9\n  param c = 0 fixed\n  param k = 0.3\n}\n');
+    expect(param(f, 'c').profile).toBeUndefined();
+    expectEnds(param(f, 'a'), 9.051330440243698, 10.34955059784337);
+    expectEnds(param(f, 'k'), 0.2577735387354287, 0.3291971080501105);
   });
 
   it('profile never, a robust loss, and groups of a per-group fit unless asked: skipped with the reason', async () => {
