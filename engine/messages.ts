@@ -69,6 +69,8 @@ export const warningText = {
     recovered
       ? `the fit from the shared starting values did not converge (${first}); this group was fitted again from ${from === 'own_start' ? 'starting values computed from its own data' : 'a multi-start search on its own data'}, which converged`
       : `the fit from the shared starting values did not converge (${first}), nor did fits from starting values computed from its own data and a multi-start search on it; the first attempt is reported`,
+  profile_differs: (param: string, profile: string, wald: string) =>
+    `the curvature of the model makes the symmetric interval misleading for ${param}: the profile interval is ${profile}, the symmetric one ${wald}; use the profile interval`,
 } satisfies Record<WarningCode, (...args: never[]) => string> & Record<string, (...args: never[]) => string>;
 
 /** Notes added to a fit's stop message by the multi-start search (engine/run/fit.ts). */

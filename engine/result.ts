@@ -97,13 +97,15 @@ export type WarningCode =
   /** The multi-start search found a lower sum of squares than the fit from the starting values reached. */
   | 'lower_minimum'
   /** A group of a per-group fit failed from the shared start and was fitted again from its own start. */
-  | 'retried_start';
+  | 'retried_start'
+  /** A parameter whose profile-likelihood interval differs materially from its symmetric (Wald) interval (engine/run/profile-fit.ts). */
+  | 'profile_differs';
 
 /** Every warning code (a code added to `WarningCode` without its entry here does not compile). */
 export const WARNING_CODES: readonly WarningCode[] = Object.freeze(Object.keys({
   at_bound: 1, high_correlation: 1, ill_conditioned: 1, few_dof: 1, no_convergence: 1, residual_pattern: 1,
   non_normal_residuals: 1, r2_nonlinear: 1, rows_dropped: 1, rank_deficient: 1, guessed_start: 1, lower_minimum: 1,
-  retried_start: 1,
+  retried_start: 1, profile_differs: 1,
 } satisfies Record<WarningCode, 1>) as WarningCode[]);
 
 export interface FitWarning {
@@ -129,6 +131,46 @@ export interface ParameterResult {
   /** How the starting value was chosen. */
   start: 'given' | 'guessed';
   unit?: string;
+  /** Profile-likelihood interval at `level`, when it was computed (see `FitResult.profile`; additive, optional). */
+  profile?: ProfileInterval;
+}
+
+/**
+ * One end of a profile-likelihood interval (engine/run/profile.ts):
+ * `reached` — the profile t statistic reaches the t level at `value`;
+ * `bound` — it stays below the t level up to the parameter's bound `value`: the interval is open there (the data do not close it before the bound);
+ * `not_reached` — it stays below the t level as far as the search went (`value`, about 1000 Wald half-widths): open, unbounded on this side;
+ * `failed` — a reduced fit failed (`value`: the last value profiled, or null), `reason` says why.
+ */
+export interface ProfileEnd {
+  kind: 'reached' | 'bound' | 'not_reached' | 'failed';
+  value: number | null;
+  reason?: string;
+}
+
+/** Profile-likelihood interval of one free parameter (Bates & Watts 1988, §6.1). */
+export interface ProfileInterval {
+  lower: ProfileEnd;
+  upper: ProfileEnd;
+  /** Either end differs materially from the Wald end (more than 10 % of the Wald half-width, or open; engine/run/profile-limits.ts). */
+  differs: boolean;
+  /** Reduced fits solved for this parameter. */
+  refits: number;
+}
+
+/**
+ * Whether profile intervals were computed for a fit, and why not when not:
+ * `computed` — every free parameter has `profile`;
+ * `linear` — the model is linear in its parameters: the profile interval is the Wald interval, nothing computed;
+ * `skipped` — not computed (`note` says why: switched off, a per-group fit not asked, over the work bound, a robust loss, no degrees of freedom).
+ */
+export interface ProfileSummary {
+  status: 'computed' | 'linear' | 'skipped';
+  note: string;
+  /** The t level: the interval is where |τ| ≤ critical; null when not computed. */
+  critical: number | null;
+  /** Reduced fits solved over all parameters. */
+  refits: number;
 }
 
 export interface GoodnessOfFit {
@@ -315,6 +357,8 @@ export interface FitResult {
   robust?: RobustSummary;
   /** Per-group fits: the group failed from the shared start and was fitted again (additive, optional). */
   retry?: RetryRecord;
+  /** Profile-likelihood intervals: computed, equal to Wald (linear model), or why skipped; absent for a fit that did not converge (additive, optional). */
+  profile?: ProfileSummary;
   /** Milliseconds spent fitting (not deterministic; views may omit it). */
   elapsedMs: number;
 }

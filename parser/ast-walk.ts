@@ -40,7 +40,7 @@ export function walkNames(ast: SpecAst, v: NameVisitor): void {
             case 'model': expr(i.response); expr(i.model); break;
             case 'param': n(i.name); val(i.initial); val(i.bounds?.low); val(i.bounds?.high); break;
             case 'sigma': case 'weight': expr(i.expr); break;
-            case 'method': n(i.value); break;
+            case 'method': case 'profile': n(i.value); break;
             case 'loss': n(i.value); val(i.scale); break;
             case 'per': n(i.column); break;
             default: val(i.value); break;

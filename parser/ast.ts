@@ -102,6 +102,7 @@ export type FitItemAst =
   | ParamAst
   | { kind: 'sigma' | 'weight'; expr: ExprAst; range: Range }
   | { kind: 'method'; value: NameAst | undefined; range: Range }
+  | { kind: 'profile'; value: NameAst | undefined; range: Range }
   | { kind: 'loss'; value: NameAst | undefined; scale?: ValueAst; range: Range }
   | NumericOptionAst
   | { kind: 'per'; column: NameAst | undefined; range: Range };

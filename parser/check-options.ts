@@ -1,10 +1,10 @@
 /**
- * Fit options (method, loss, level, iterations, tolerance, rate, explore, per):
+ * Fit options (method, loss, level, iterations, tolerance, rate, explore, profile, per):
  * value checks and the defaults documented on `FitOptions` in plan.ts.
  */
 import type { FitAst, FitItemAst, NumericOptionAst, NumericOptionKind } from './ast';
 import type { FitOptions } from './plan';
-import { LOSSES, MAX_EXPLORE, METHODS, RENAMED_LOSSES, isLoss, isMethod, type KeywordName } from './registry';
+import { LOSSES, MAX_EXPLORE, METHODS, PROFILE_MODES, RENAMED_LOSSES, isLoss, isMethod, isProfileMode, type KeywordName } from './registry';
 import type { Env } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
@@ -21,6 +21,7 @@ export const OPTION_KEYWORD: Readonly<Record<keyof FitOptions, KeywordName>> = {
   tolerance: 'tolerance',
   learningRate: 'rate',
   explore: 'explore',
+  profile: 'profile',
 };
 
 /** Default options (plan.ts FitOptions docs). */
@@ -96,6 +97,14 @@ export function checkOptions(env: Env, fit: FitAst, dataName: string, columns: R
     if (v !== undefined && !(Number.isInteger(v) && v >= 0 && v <= MAX_EXPLORE)) r.report('explore_range', MSG.exploreRange(v, MAX_EXPLORE), explore.value.range);
     else if (v !== undefined) options.explore = v;
     if (v !== undefined && (options.method === 'linear' || options.method === 'gradient_descent')) r.report('option_ignored', MSG.exploreIgnored, explore.range);
+  }
+
+  const profile = once('profile', 'profile');
+  if (profile?.value) {
+    const v = profile.value.name;
+    if (isProfileMode(v)) {
+      if (v !== 'auto') options.profile = v;
+    } else r.report('unknown_option', MSG.unknownOption('profile', v, PROFILE_MODES), profile.value.range, env.suggester.suggest(v, PROFILE_MODES));
   }
 
   let groupBy: string | undefined;

@@ -8,7 +8,7 @@
  *   fit        := 'fit' Name 'on' Name '{' fitItem* '}'
  *   fitItem    := 'model' expr '=' expr
  *               | 'param' Name ( '=' value | 'in' '[' value ',' value ']' | 'fixed' | Unit )*
- *               | ('sigma' | 'weight') expr | 'method' Name | 'loss' Name ('scale' value)?
+ *               | ('sigma' | 'weight') expr | ('method' | 'profile') Name | 'loss' Name ('scale' value)?
  *               | ('level' | 'iterations' | 'tolerance' | 'rate' | 'explore') value | 'per' column
  *   derive     := 'derive' Name '=' expr Unit?
  *   predict    := ('predict' | 'invert') Name 'at' column '=' value (',' value)*
@@ -133,7 +133,7 @@ export class LsqParser extends CstParser {
         { ALT: () => this.SUBRULE(this.numberOption) },
         { ALT: () => this.SUBRULE(this.perOption) },
       ],
-      ERR_MSG: 'model, param, sigma, weight, method, loss, level, iterations, tolerance, rate, explore, per or }',
+      ERR_MSG: 'model, param, sigma, weight, method, loss, level, iterations, tolerance, rate, explore, profile, per or }',
     });
   });
 
@@ -174,7 +174,7 @@ export class LsqParser extends CstParser {
   });
 
   private nameOption = this.RULE('nameOption', () => {
-    this.CONSUME(T.Method, { LABEL: 'keyword' });
+    this.OR([{ ALT: () => this.CONSUME(T.Method, { LABEL: 'keyword' }) }, { ALT: () => this.CONSUME(T.Profile, { LABEL: 'keyword' }) }]);
     this.SUBRULE(this.word);
   });
 

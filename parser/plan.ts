@@ -18,6 +18,7 @@ import type { FunctionName } from './registry/functions';
 import type { Method } from './registry/methods';
 import type { LossKind } from './registry/losses';
 import type { StatisticName } from './registry/statistics';
+import type { ProfileMode } from './registry/options';
 
 export const PLAN_VERSION = 1 as const;
 
@@ -122,7 +123,7 @@ export interface ParameterPlan {
 
 export { METHODS, type Method } from './registry/methods';
 export { LOSSES, type LossKind } from './registry/losses';
-export { MAX_EXPLORE } from './registry/options';
+export { MAX_EXPLORE, PROFILE_MODES, type ProfileMode } from './registry/options';
 export { STATISTICS, type StatisticName } from './registry/statistics';
 
 export interface FitOptions {
@@ -153,6 +154,12 @@ export interface FitOptions {
    * and the fit is not per group; none otherwise.
    */
   explore?: number;
+  /**
+   * Profile-likelihood intervals of the parameters (`profile auto | always | never`; engine/run/profile-fit.ts).
+   * Default (absent) `auto`: for a single nonlinear fit with the squared loss and n·p within the work bound;
+   * `always`: also per group, beyond the bound and for linear models; `never`: not computed.
+   */
+  profile?: ProfileMode;
 }
 
 /** One dataset's share of a fit: `response = model` over the rows of `data`. */

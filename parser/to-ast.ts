@@ -247,8 +247,9 @@ class AstBuilder extends BaseVisitor {
 
   nameOption(ctx: Children): FitItemAst {
     const kw = this.tokRange(ctx, 'keyword');
+    const kind = this.tok(ctx, 'keyword')?.image === 'profile' ? 'profile' : 'method';
     const value = this.wordOf(ctx);
-    return { kind: 'method', value, range: cover(kw, value?.range) };
+    return { kind, value, range: cover(kw, value?.range) };
   }
 
   lossOption(ctx: Children): FitItemAst {

@@ -47,6 +47,7 @@ import { freeModel } from './curve';
 import { defaultSolvers, type Solvers } from './solvers';
 import { fitStatistics } from './fit-stats';
 import { responseScale } from '../linalg/scale';
+import { profileForFit } from './profile-fit';
 
 export interface RunFitOptions {
   cancel?: CancelToken;
@@ -208,6 +209,24 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
     // A direct linear solve does not use starting values, so a guess is not worth a warning there.
     guessed: { names: solved.method === 'linear' ? [] : guessedNames, how: guessedHow },
   });
+  // profile-likelihood intervals (engine/run/profile-fit.ts): reduced fits by the same solver and stopping rules
+  const prof = profileForFit({
+    fit,
+    ...(data.group !== undefined ? { group: data.group } : {}),
+    problem,
+    outcome: solved.outcome,
+    linear: model.linear,
+    lower,
+    upper,
+    responseScale: c,
+    sigmaAbsolute: data.sigmaAbsolute,
+    response: data.y,
+    weights: data.weights,
+    parameters: stats.fields.parameters,
+    dof: stats.fields.goodness.dof,
+    solve: (pr, t, opts) => solvers.levenbergMarquardt(pr, t, opts),
+    options: profileSolveOptions(fit, watch),
+  });
   return {
     name: fit.name,
     ...(data.group !== undefined ? { group: data.group } : {}),
@@ -221,9 +240,11 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
     ...(boundsMethod ? { boundsMethod } : {}),
     ...(solved.outcome.trace ? { trace: namedTrace(solved.outcome.trace, names) } : {}),
     ...stats.fields,
-    warnings: [...searchWarnings, ...stats.warnings, ...groupWarnings],
+    parameters: prof.parameters,
+    warnings: [...searchWarnings, ...stats.warnings, ...prof.warnings, ...groupWarnings],
     ...(searchResult ? { search: searchResult } : {}),
     ...robustFields(fit, solved.outcome, c),
+    ...(prof.summary ? { profile: prof.summary } : {}),
     elapsedMs: elapsed(),
   };
 }
@@ -242,6 +263,16 @@ function robustFields(fit: FitPlan, outcome: SolveOutcome, c: number): Pick<FitR
       weights: Array.from(w),
       downweighted,
     },
+  };
+}
+
+/** The reduced fits of a profile stop by the fit's own rules (iteration limit, tolerance, cancellation); no trace, no progress reports. */
+function profileSolveOptions(fit: FitPlan, watch: Watch) {
+  const o = fit.options;
+  return {
+    ...(watch.cancel ? { cancel: watch.cancel } : {}),
+    ...(o.maxIterations !== undefined ? { maxIterations: o.maxIterations } : {}),
+    ...(o.tolerance !== undefined ? { reductionTolerance: o.tolerance, stepTolerance: o.tolerance, gradientTolerance: o.tolerance } : {}),
   };
 }
 

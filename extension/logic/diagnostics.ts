@@ -50,6 +50,7 @@ const WARNING_SEVERITY: Record<WarningCode, LsqSeverity> = {
   guessed_start: 'hint',
   lower_minimum: 'warning',
   retried_start: 'info',
+  profile_differs: 'warning',
 };
 
 const PARAM_WARNINGS: readonly WarningCode[] = ['at_bound', 'high_correlation', 'guessed_start'];

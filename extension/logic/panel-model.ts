@@ -15,6 +15,7 @@
  */
 import type { FitResult, RunResult } from '../../engine/result';
 import { chartSpecs, type ChartSpec } from '../../engine/front/views/charts';
+import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from '../../engine/front/views/profile';
 import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, robustLine, searchLine, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { GroupFlag } from '../../engine/groups/flags';
@@ -57,6 +58,8 @@ export interface PanelFit {
   warnings: string[];
   /** Pairs of free parameters with |correlation| ≥ 0.95. */
   correlations: { a: string; b: string; r: string }[];
+  /** Profile-likelihood intervals (engine/front/views/profile.ts): the line saying what was done, and the table when computed; null when the fit has none (additive). */
+  profile?: { line: string; headers: string[]; rows: string[][] } | null;
   /** Charts, or null when they are sent on request. */
   charts: PanelChart[] | null;
 }
@@ -186,8 +189,15 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     goodness: goodnessEntries(f),
     warnings: warningLines(f),
     correlations: highCorrelations(f),
+    profile: panelProfile(f),
     charts: withCharts ? panelCharts(f) : null,
   };
+}
+
+function panelProfile(f: FitResult): PanelFit['profile'] {
+  const line = profileLine(f);
+  if (!line) return null;
+  return { line, headers: hasProfileTable(f) ? PROFILE_HEADERS(f.level) : [], rows: hasProfileTable(f) ? profileRows(f) : [] };
 }
 
 export function panelCharts(f: FitResult): PanelChart[] {

@@ -52,6 +52,7 @@ export const KEYWORD_SPECS = {
   tolerance: { role: 'fit_item', doc: 'tolerance T - relative stopping tolerance of iterative solvers (default 1e-10).' },
   rate: { role: 'fit_item', doc: 'rate R - learning rate for gradient_descent.' },
   explore: { role: 'fit_item', doc: 'explore N - search N spread-out starting points (0: no search and no check); by default a search runs when a nonlinear parameter has no start, and a small one when a fit without it ends on a bound or beyond what the data resolve.' },
+  profile: { role: 'fit_item', doc: 'profile auto | always | never - profile-likelihood intervals of the parameters beside the symmetric ones (default auto: single nonlinear fits of moderate size).' },
   per: { role: 'fit_item', doc: 'per COLUMN - fit separately for each distinct value of the column.' },
   // parts of statements and items
   on: { role: 'part', doc: 'fit NAME on DATA - the data table the fit reads.' },

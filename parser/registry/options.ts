@@ -14,6 +14,16 @@ import { LOSSES } from './losses';
 /** Largest `explore N` (design points of the multi-start search). */
 export const MAX_EXPLORE = 4096;
 
+/** Work bound of the default `profile auto`: n·p at most this (engine/run/profile-limits.ts gives the measurement). */
+export const PROFILE_WORK_BOUND = 10_000;
+
+/** Values of `profile MODE` (profile-likelihood intervals, engine/run/profile-fit.ts). */
+export const PROFILE_MODES = ['auto', 'always', 'never'] as const;
+export type ProfileMode = (typeof PROFILE_MODES)[number];
+export function isProfileMode(s: string): s is ProfileMode {
+  return (PROFILE_MODES as readonly string[]).includes(s);
+}
+
 export interface FitOptionSpec {
   /** The item as written (Markdown-free; `|` separates alternatives). */
   readonly syntax: string;
@@ -23,7 +33,7 @@ export interface FitOptionSpec {
   readonly field: string;
 }
 
-export type FitOptionKeyword = Extract<KeywordName, 'sigma' | 'weight' | 'method' | 'loss' | 'level' | 'iterations' | 'tolerance' | 'rate' | 'explore' | 'per'>;
+export type FitOptionKeyword = Extract<KeywordName, 'sigma' | 'weight' | 'method' | 'loss' | 'level' | 'iterations' | 'tolerance' | 'rate' | 'explore' | 'profile' | 'per'>;
 
 export const FIT_OPTION_SPECS: Readonly<Record<FitOptionKeyword, FitOptionSpec>> = {
   sigma: { syntax: 'sigma EXPR', meaning: 'absolute standard deviation of each point; weights are 1/σ² and chi-square statistics are reported', default: 'unweighted', field: 'sigma' },
@@ -49,6 +59,12 @@ export const FIT_OPTION_SPECS: Readonly<Record<FitOptionKeyword, FitOptionSpec>>
     meaning: `multi-start search: N spread-out starting points (Sobol' design) over the nonlinear parameters, the best few refined; the lowest minimum is reported (whole number 0–${MAX_EXPLORE}, 0: no search)`,
     default: 'a search of 32 points per nonlinear parameter (32–256) when a nonlinear parameter has no start value; none when every start is given, and none per group of a `per` fit',
     field: 'explore',
+  },
+  profile: {
+    syntax: `profile ${PROFILE_MODES.join(' | ')}`,
+    meaning: 'profile-likelihood intervals of the parameters beside the symmetric ones (Bates & Watts 1988, §6.1): `always` also for the groups of a `per` fit, large fits and linear models, `never` not at all',
+    default: `\`auto\`: for a single fit of a nonlinear model with the squared loss when n·p ≤ ${PROFILE_WORK_BOUND}; a linear model's profile interval is its symmetric one`,
+    field: 'profile',
   },
   per: { syntax: 'per COLUMN', meaning: 'one separate fit per distinct value of the column', default: 'one fit', field: 'groupBy' },
 };

@@ -16,7 +16,8 @@ import type { Curve, Family } from './scenarios';
 export const WRONG_MINIMUM_MARGIN = 1e-6;
 
 export function fitPlanFor(family: Family, curve: Curve): FitPlan {
-  const text = ['data d = "d.csv"', 'fit f on d {', `  model y = ${family.model}`, ...family.paramLines(curve).map((p) => `  param ${p}`), '}', ''].join('\n');
+  // `profile never`: the suite measures the fit itself (failures, wrong minima, time); profile intervals are tested in test/run/profile.test.ts
+  const text = ['data d = "d.csv"', 'fit f on d {', `  model y = ${family.model}`, ...family.paramLines(curve).map((p) => `  param ${p}`), '  profile never', '}', ''].join('\n');
   const a = analyze(text);
   const errors = a.diagnostics.filter((d) => d.severity === 'error');
   if (errors.length > 0) throw new Error(`robustness spec for ${family.id} does not check: ${errors.map((e) => e.message).join('; ')}`);

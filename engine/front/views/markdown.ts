@@ -19,6 +19,7 @@ import {
   notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, robustLine, searchLine, stopLine, warningLines,
 } from './summary';
 import { append, markdownTable } from './table';
+import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from './profile';
 import { md, mdCode, mdFence, mdHref, mdLinkText, mdText, type Markdown } from './escape';
 import {
   DETAIL_ALL_GROUPS, detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock,
@@ -101,6 +102,9 @@ function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
   if (marked) lines.push(`> **${mdText(marked)}**`, '');
   else lines.push(`Confidence level ${formatLevel(fit.level)}; intervals use Student's t with ${fit.goodness.dof} degrees of freedom.`, '');
   append(lines, markdownTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']), '');
+  const profile = profileLine(fit);
+  if (profile) lines.push(mdText(profile + '.'), '');
+  if (hasProfileTable(fit)) append(lines, markdownTable(PROFILE_HEADERS(fit.level), profileRows(fit), ['left', 'right', 'right', 'left']), '');
   lines.push('### Goodness of fit', '');
   append(lines, markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left']), '');
   const warnings = warningLines(fit);

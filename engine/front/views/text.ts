@@ -15,6 +15,16 @@ import { inlineText } from './escape';
 import {
   detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock, worstGroupLines, type FitSection,
 } from './groups';
+import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from './profile';
+
+/** The profile-interval section of a fit (engine/front/views/profile.ts): a table, or the line saying why there is none. */
+function profileTextLines(fit: FitResult): string[] {
+  const line = profileLine(fit);
+  if (!line) return [];
+  const lines = ['', `  ${line}`];
+  if (hasProfileTable(fit)) append(lines, textTable(PROFILE_HEADERS(fit.level), profileRows(fit), ['left', 'right', 'right', 'left']));
+  return lines;
+}
 
 /** The summary of one fit, as lines. */
 export function fitTextLines(fit: FitResult): string[] {
@@ -25,6 +35,7 @@ export function fitTextLines(fit: FitResult): string[] {
   if (marked) lines.push(`  ! ${marked}`);
   lines.push('');
   append(lines, textTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']));
+  append(lines, profileTextLines(fit));
   lines.push('', '  Goodness of fit');
   const entries = goodnessEntries(fit);
   const w = maxOf(entries.map((e) => [...e.label].length));

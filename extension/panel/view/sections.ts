@@ -56,6 +56,13 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
       fit.notFitted ? h('p', { class: 'lw-notfitted lw-bad', role: 'alert' }, fit.notFitted) : null,
     ),
     h('div', { class: 'lw-two' }, params, notes),
+    fit.profile
+      ? h('div', { class: 'lw-profile' },
+          h('p', { class: 'lw-muted' }, fit.profile.line),
+          fit.profile.rows.length
+            ? table('lw-profile-table', fit.profile.headers, fit.profile.rows, { numeric: (j) => j === 1 || j === 2, caption: 'Profile-likelihood intervals' })
+            : null)
+      : null,
     stats,
     charts,
     h('details', { class: 'lw-details' }, h('summary', null, 'All statistics and residual tests'), goodness),
