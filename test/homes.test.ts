@@ -4,25 +4,11 @@
  * engine/stats/distributions.ts, and upper tails never as `1 − cdf`.
  */
 import { describe, expect, it } from 'vitest';
-import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { ROOT, tsFilesUnder } from './source-files';
 
-const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
-
-/** Every .ts file (repo-relative, forward slashes) under the product's folders. */
-export function productFiles(tops = ['parser', 'engine', 'extension']): string[] {
-  const out: string[] = [];
-  const walk = (dir: string) => {
-    for (const name of readdirSync(path.join(ROOT, dir))) {
-      const rel = `${dir}/${name}`;
-      if (statSync(path.join(ROOT, rel)).isDirectory()) walk(rel);
-      else if (name.endsWith('.ts')) out.push(rel);
-    }
-  };
-  for (const top of tops) walk(top);
-  return out;
-}
+const productFiles = (tops = ['parser', 'engine', 'extension']): string[] => tsFilesUnder(tops);
 
 const read = (rel: string) => readFileSync(path.join(ROOT, rel), 'utf8');
 

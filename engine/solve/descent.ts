@@ -121,21 +121,25 @@ interface Settings {
 interface Stop { code: StopCode; message: string }
 
 /** Runs the iteration from the state (r, J current at x); returns the stop (the state may be moved to the best point seen). */
+/** Residuals and Jacobian at `s.x` (one evaluation); false, with the place in `s.nonFinite`, when either is not finite. */
+function evaluateAt(problem: LeastSquaresProblem, s: State): boolean {
+  const { n, p } = problem;
+  problem.residuals(s.x, s.r);
+  problem.jacobian(s.x, s.jac);
+  s.nfev++;
+  if (!allFinite(s.r)) s.nonFinite = nonFiniteReport('residuals', s.r, n, 1, s.x);
+  else if (!allFinite(s.jac)) s.nonFinite = nonFiniteReport('jacobian', s.jac, n, p, s.x);
+  else return true;
+  return false;
+}
+
 function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: DescentOptions, recorder: TraceRecorder | null): Stop {
   const { n, p, lower, upper } = problem;
   const gu = new Float64Array(p);
   const cnorm = new Float64Array(p);
   const step = new Float64Array(p);
   const phi = new Float64Array(p);
-  const evaluate = (): boolean => {
-    problem.residuals(s.x, s.r);
-    problem.jacobian(s.x, s.jac);
-    s.nfev++;
-    if (!allFinite(s.r)) s.nonFinite = nonFiniteReport('residuals', s.r, n, 1, s.x);
-    else if (!allFinite(s.jac)) s.nonFinite = nonFiniteReport('jacobian', s.jac, n, p, s.x);
-    else return true;
-    return false;
-  };
+  const evaluate = (): boolean => evaluateAt(problem, s);
   // Costs are compared in units of the starting residual norm (½‖r/‖r₀‖‖²), so that residuals
   // beyond 1e154 (whose squares overflow) still compare; `unit²` turns them back for display.
   const r0 = norm2(s.r);
@@ -244,13 +248,7 @@ export function gradientDescent(problem: LeastSquaresProblem, theta0: Float64Arr
   const start = (): boolean => {
     s.x.set(x0);
     s.it = 0;
-    problem.residuals(s.x, s.r);
-    problem.jacobian(s.x, s.jac);
-    s.nfev++;
-    if (!allFinite(s.r)) s.nonFinite = nonFiniteReport('residuals', s.r, n, 1, s.x);
-    else if (!allFinite(s.jac)) s.nonFinite = nonFiniteReport('jacobian', s.jac, n, p, s.x);
-    else return true;
-    return false;
+    return evaluateAt(problem, s);
   };
   if (!start()) return done('non_finite', stopText.startNotFinite(s.nonFinite?.what ?? 'residuals'));
   if (p === 0) return done('small_gradient', stopText.noFreeParameters);
