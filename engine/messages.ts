@@ -295,3 +295,21 @@ export const scaffoldText = {
   twoPositiveX: (title: string, x: string) => `${title} needs at least two different positive ${x} values`,
   positiveY: (title: string, y: string) => `${title} needs every ${y} value to be positive`,
 } as const;
+
+/** Refusals and sources of a shard of a per-group run (engine/groups/shards.ts: `--shard I/N`, a Slurm array task, a Kubernetes indexed job). */
+export const shardText = {
+  notIOfN: (text: string) => `--shard takes I/N (shard I of N, 1 ≤ I ≤ N), not "${text}"`,
+  countRange: (text: string, max: number) => `--shard ${text}: the number of shards must be 1 to ${max}`,
+  indexRange: (text: string, count: number) => `--shard ${text}: the shard must be 1 to ${count}`,
+  slurmVariables: (id: string, min: string | undefined, max: string | undefined, count: string | undefined) =>
+    `SLURM_ARRAY_TASK_ID=${id}, SLURM_ARRAY_TASK_MIN=${min ?? ''}, SLURM_ARRAY_TASK_MAX=${max ?? ''}, SLURM_ARRAY_TASK_COUNT=${count ?? ''}`,
+  slurmNoShard: (shown: string) => `this is a Slurm array task, but its variables do not give a shard (${shown}); pass --shard I/N`,
+  slurmNotConsecutive: (shown: string, step: number | undefined, span: number) =>
+    `the Slurm array is not one run of consecutive task ids (${shown}${step !== undefined ? `, SLURM_ARRAY_TASK_STEP=${step}` : ''}), so its tasks would not cover every group; submit --array=0-${span - 1} or pass --shard I/N`,
+  slurmDisagrees: (shards: number, span: number, shown: string) => `--shards ${shards} disagrees with the Slurm array of ${span} tasks (${shown})`,
+  slurmSource: (id: string, min: string | undefined, max: string | undefined) => `SLURM_ARRAY_TASK_ID=${id} of ${min}–${max}`,
+  k8sNotWhole: (index: string) => `JOB_COMPLETION_INDEX=${index} is not a whole number; pass --shard I/N`,
+  k8sNeedsShards: (index: string) => `this is a Kubernetes indexed job (JOB_COMPLETION_INDEX=${index}); pass --shards N with the job's completions, or --shard I/N`,
+  k8sTooLarge: (index: string, shards: number) => `JOB_COMPLETION_INDEX=${index} is not below --shards ${shards}`,
+  k8sSource: (index: string) => `JOB_COMPLETION_INDEX=${index}`,
+} as const;
