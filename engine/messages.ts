@@ -5,6 +5,7 @@
  * `num()` (6 significant digits).
  */
 import type { WarningCode } from './result';
+import type { Bound } from '../parser/plan';
 import { MSG } from '../parser/messages';
 import { quoted } from '../parser/printable';
 
@@ -203,4 +204,114 @@ export const dataText = {
   },
   allRowsExcluded: (fit: string, file: string, rows: number, what: string) =>
     `fit ${fit}: every one of the ${rows} usable row${rows === 1 ? '' : 's'} of ${file} has ${what}, which leaves it out of the fit, so no row is left`,
+} as const;
+
+/** Data-file errors of row selection and file opening (engine/data/select.ts, load.ts); each starts with its place. */
+export const columnText = {
+  missing: (file: string, name: string, headers: readonly string[]) =>
+    `${file}: no column ${quoted(name)}; the header has ${headers.filter((h) => h !== '').map(quoted).join(', ')}`,
+  duplicate: (file: string, name: string, times: number) => `${file}: the header names ${quoted(name)} ${times} times`,
+  nonNumeric: (place: string, column: string, value: string, decimalComma: boolean) =>
+    `${place}: column ${quoted(column)} holds ${quoted(value)}, not a number${decimalComma ? ' (decimal comma? add decimal "," to the data statement)' : ''}`,
+  fileNotFound: (file: string) => `data file not found: ${file}`,
+  fileUnreadable: (file: string, reason: string) => `cannot read data file ${file}: ${reason}`,
+  isFolder: 'it is a folder',
+} as const;
+
+/**
+ * Texts of the run layer (engine/run, engine/runner, engine/groups, the
+ * worker): errors of fits and queries, and how a stop message takes a note.
+ */
+export const runText = {
+  /** A note appended to a solver's stop message (e.g. one of `searchText`). */
+  withNote: (message: string, note: string) => `${message}; ${note}`,
+  /** A stop message with its located detail (solve/messages.ts `nonFiniteDetail`). */
+  located: (message: string, detail: string) => `${message}: ${detail}`,
+  /** `fit` or `fit [group]`. */
+  fitLabel: (fit: string, group?: string) => (group !== undefined ? `${fit} [${group}]` : fit),
+  gradientDescentMissing: 'the gradient descent solver is not available in this build',
+  robustMissing: (loss: string) => `the robust solver (loss ${loss}) is not available in this build`,
+  fitNotRun: (fit: string) => `fit ${fit} has no result (see the errors above)`,
+  notDefinedAt: (expr: string, response: string, value: number) => `${expr} is not defined at ${response} = ${value}`,
+  /** `label` from `fitLabel`. */
+  cancelledBefore: (label: string) => `run cancelled before fit ${label}`,
+  oneBlock: (fit: string, blocks: number) => `fit ${fit} has ${blocks} data blocks; this version fits one`,
+  noGroupResult: (group: string) => `no result came back for group ${group}`,
+  noDataSource: (fit: string) => `fit ${fit} has no data source`,
+  groupCancelled: 'cancelled before this group was fitted',
+  groupFailed: (group: string, fit: string, reason: string) => `group ${group} of ${fit} could not be fitted: ${reason}`,
+  workerConfused: 'the engine worker received a message it does not understand',
+  /** Why per-group fits run on this thread (the `reason` of an `in_process` mode: engine/groups/fit-groups.ts, engine/runner/run-plan.ts). */
+  inProcess: {
+    noWorkerFile: 'no worker file',
+    noWorkerFileHere: 'no worker file (running from sources or asked for)',
+    noWorkerFileAt: (file: string) => `no worker file at ${file}`,
+    noWorkerBundle: 'no worker bundle beside this program',
+    oneThread: 'one thread asked for',
+    injectedSolvers: 'injected solvers',
+    smallJob: (groups: number, rows: number, orOneCore: boolean) => `small job (${groups} groups, ${rows} rows)${orOneCore ? ' or one core' : ''}`,
+  },
+  /** The `how` of a start shared by a fit's groups (engine/groups/starts.ts). */
+  pooledStart: (how: string, groups: number) => `${how}, on the rows of all ${groups} groups pooled`,
+} as const;
+
+/** Texts of inverse prediction (engine/stats/inverse.ts). */
+export const inverseText = {
+  noCrossing: (lo: number, hi: number, y0: number, fmin: number, fmax: number) =>
+    `no predictor value in the data range [${lo}, ${hi}] gives ${y0}; the fitted curve there spans [${fmin}, ${fmax}]`,
+  openAtEdge: 'the prediction band contains the response up to the edge of the data range, so the interval is open there',
+} as const;
+
+/** Texts of expectation checks (engine/run/expectations.ts); `target` is the expectation's target as written. */
+export const expectationText = {
+  noDerived: (target: string, name: string) => `${target}: no derived quantity ${name} was computed`,
+  noResult: (target: string, fit: string) => `${target}: fit ${fit} has no result`,
+  notFitTarget: (target: string) => `${target} is not a fit target`,
+  noParameter: (target: string, name: string) => `${target}: no parameter ${name}`,
+  notComputed: (target: string, why: string) => `${target} could not be computed${why}`,
+  verdict: (target: string, actual: number, passed: boolean, bound: string) => `${target} = ${num(actual)} is ${passed ? '' : 'not '}${bound}`,
+  bound: (bound: Bound): string => {
+    switch (bound.kind) {
+      case 'within': return `within ${num(bound.low)} .. ${num(bound.high)}`;
+      case 'above': return `above ${num(bound.value)}`;
+      case 'below': return `below ${num(bound.value)}`;
+    }
+  },
+} as const;
+
+/** Details of the `residual_pattern` warning (engine/stats/warnings.ts). */
+export const patternText = {
+  runs: (observed: number, expected: number, p: number) => `runs test: ${observed} runs where ${num(expected)} are expected, p = ${num(p)}`,
+  durbinWatson: (d: number) => `Durbin–Watson d = ${num(d)}, far from 2`,
+} as const;
+
+/** Refusals of `new` and the editor's "New Spec from CSV" (engine/templates/scaffold.ts); `title` is the template's. */
+export const scaffoldText = {
+  unwritableColumn: (name: string) => `column name ${JSON.stringify(name)} cannot be written in a spec (it contains a double quote, a line break or a control character)`,
+  unwritablePath: (path: string) =>
+    `the data path ${JSON.stringify(path)} cannot be written in a spec (it contains a double quote, a line break or a control character, and spec text has no escapes); rename the file`,
+  tooFewRows: (title: string, parameters: number, need: number, x: string, y: string, found: number) =>
+    `${title} has ${parameters} parameters and needs at least ${need} rows with numbers in both ${x} and ${y}; found ${found}`,
+  positiveX: (title: string, x: string) => `${title} needs every ${x} value to be positive`,
+  nonnegativeX: (title: string, x: string) => `${title} needs every ${x} value to be zero or positive`,
+  twoPositiveX: (title: string, x: string) => `${title} needs at least two different positive ${x} values`,
+  positiveY: (title: string, y: string) => `${title} needs every ${y} value to be positive`,
+} as const;
+
+/** Refusals and sources of a shard of a per-group run (engine/groups/shards.ts: `--shard I/N`, a Slurm array task, a Kubernetes indexed job). */
+export const shardText = {
+  notIOfN: (text: string) => `--shard takes I/N (shard I of N, 1 ≤ I ≤ N), not "${text}"`,
+  countRange: (text: string, max: number) => `--shard ${text}: the number of shards must be 1 to ${max}`,
+  indexRange: (text: string, count: number) => `--shard ${text}: the shard must be 1 to ${count}`,
+  slurmVariables: (id: string, min: string | undefined, max: string | undefined, count: string | undefined) =>
+    `SLURM_ARRAY_TASK_ID=${id}, SLURM_ARRAY_TASK_MIN=${min ?? ''}, SLURM_ARRAY_TASK_MAX=${max ?? ''}, SLURM_ARRAY_TASK_COUNT=${count ?? ''}`,
+  slurmNoShard: (shown: string) => `this is a Slurm array task, but its variables do not give a shard (${shown}); pass --shard I/N`,
+  slurmNotConsecutive: (shown: string, step: number | undefined, span: number) =>
+    `the Slurm array is not one run of consecutive task ids (${shown}${step !== undefined ? `, SLURM_ARRAY_TASK_STEP=${step}` : ''}), so its tasks would not cover every group; submit --array=0-${span - 1} or pass --shard I/N`,
+  slurmDisagrees: (shards: number, span: number, shown: string) => `--shards ${shards} disagrees with the Slurm array of ${span} tasks (${shown})`,
+  slurmSource: (id: string, min: string | undefined, max: string | undefined) => `SLURM_ARRAY_TASK_ID=${id} of ${min}–${max}`,
+  k8sNotWhole: (index: string) => `JOB_COMPLETION_INDEX=${index} is not a whole number; pass --shard I/N`,
+  k8sNeedsShards: (index: string) => `this is a Kubernetes indexed job (JOB_COMPLETION_INDEX=${index}); pass --shards N with the job's completions, or --shard I/N`,
+  k8sTooLarge: (index: string, shards: number) => `JOB_COMPLETION_INDEX=${index} is not below --shards ${shards}`,
+  k8sSource: (index: string) => `JOB_COMPLETION_INDEX=${index}`,
 } as const;

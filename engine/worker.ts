@@ -17,6 +17,7 @@ import { fitGroupList } from './groups/group-job';
 import { cancelTokenOf, isWorkerRequest, type WorkerRequest, type WorkerResponse } from './groups/protocol';
 import { runPlanJob } from './runner/plan-job';
 import { packNumbers } from './groups/pack';
+import { runText } from './messages';
 
 /** Minimum interval between progress messages, in ms. */
 const PROGRESS_MS = 50;
@@ -61,7 +62,7 @@ if (port) {
   port.on('message', (msg: unknown) => {
     if (!isWorkerRequest(msg)) {
       const id = typeof (msg as { id?: unknown })?.id === 'number' ? (msg as { id: number }).id : -1;
-      send({ kind: 'error', id, message: 'the engine worker received a message it does not understand' });
+      send({ kind: 'error', id, message: runText.workerConfused });
       return;
     }
     handle(msg, send).catch((e: unknown) => {

@@ -6,25 +6,14 @@
  * a new import that breaks them turns this red with the offending edges.
  */
 import { describe, expect, it } from 'vitest';
-import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { readFileSync, statSync } from 'node:fs';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
-
-const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+import { ROOT, tsFilesUnder } from './source-files';
 const SOURCE_TOPS = ['parser', 'engine', 'extension'];
 
 /** Every .ts source file (repo-relative, forward slashes) under the product's folders, plus cli.ts. */
 function sourceFiles(): string[] {
-  const out = ['cli.ts'];
-  const walk = (dir: string) => {
-    for (const name of readdirSync(path.join(ROOT, dir))) {
-      const rel = `${dir}/${name}`;
-      if (statSync(path.join(ROOT, rel)).isDirectory()) walk(rel);
-      else if (name.endsWith('.ts')) out.push(rel);
-    }
-  };
-  for (const top of SOURCE_TOPS) walk(top);
-  return out;
+  return ['cli.ts', ...tsFilesUnder(SOURCE_TOPS)];
 }
 
 /** Module specifiers of static imports, re-exports, dynamic imports and require calls. */

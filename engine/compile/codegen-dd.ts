@@ -15,7 +15,7 @@
  */
 import { Graph } from './graph';
 import { literal, ident, rowKernel, UNARY_MEMBER, BINARY_MEMBER, COMPARE_JS } from './emit';
-import { MATH_HELPERS, tempSlots } from './codegen';
+import { isLeaf, jacobianIndex, kernelFrame, leafRef, MATH_HELPERS, placeInterior } from './codegen';
 import { UNARY_RULES } from './functions';
 import { DD_OUT, ddAdd, ddSub, ddMul, ddDiv, ddSqrt, ddPowInt } from '../linalg/dd';
 
@@ -38,18 +38,13 @@ const MAX_INT_POWER = 1024;
 
 type Temps = ReadonlyMap<number, number> | null;
 
+/** High part of node `id`: a leaf is its own high part (codegen.ts `leafRef`). */
 function hi(g: Graph, id: number, temps: Temps): string {
-  const n = g.nodes[id];
-  switch (n.op) {
-    case 'const': return literal(n.value);
-    case 'param': return ident('t', n.index);
-    case 'col': return ident('x', n.index);
-    default: return temps ? `H[${literal(temps.get(id)!)}]` : ident('h', id);
-  }
+  return leafRef(g, id) ?? (temps ? `H[${literal(temps.get(id)!)}]` : ident('h', id));
 }
+/** Low part of node `id`: 0 for a leaf (a double). */
 function lo(g: Graph, id: number, temps: Temps): string {
-  const n = g.nodes[id];
-  if (n.op === 'const' || n.op === 'param' || n.op === 'col') return '0';
+  if (isLeaf(g, id)) return '0';
   return temps ? `L[${literal(temps.get(id)!)}]` : ident('l', id);
 }
 
@@ -102,30 +97,13 @@ function define(g: Graph, id: number, temps: Temps): string {
 
 /** Source of the double-double kernel for a value root and derivative roots. */
 export function kernelSourceDD(g: Graph, value: number, derivatives: readonly number[]): string {
-  const nodes = g.reachable([value, ...derivatives]);
-  const temps = tempSlots(g, nodes, 2);
-  const head: string[] = [];
-  const body: string[] = [];
+  const frame = kernelFrame(g, [value, ...derivatives], 2);
+  const { temps, head, body } = frame;
   if (temps) head.push(`const H = new Float64Array(${literal(temps.size)}), L = new Float64Array(${literal(temps.size)});`);
-  for (const id of nodes) {
-    const n = g.nodes[id];
-    if (n.op === 'param') head.push(`const ${hi(g, id, temps)} = t[${literal(n.index)}];`);
-    else if (n.op === 'col') {
-      head.push(`const ${ident('c', n.index)} = c[${literal(n.index)}];`);
-      body.push(`const ${hi(g, id, temps)} = ${ident('c', n.index)}[i];`);
-    }
-  }
-  for (const id of nodes) {
-    const op = g.nodes[id].op;
-    if (op === 'const' || op === 'param' || op === 'col') continue;
-    (g.row[id] ? body : head).push(define(g, id, temps));
-  }
-  derivatives.forEach((_, j) => { if (j > 0) head.push(`const ${ident('o', j)} = n * ${literal(j)};`); });
+  placeInterior(g, frame, (id) => define(g, id, temps));
+  const at = jacobianIndex(frame, derivatives.length);
   body.push(`outHi[i] = ${hi(g, value, temps)};`, `outLo[i] = ${lo(g, value, temps)};`);
-  derivatives.forEach((d, j) => {
-    const at = j === 0 ? 'i' : `${ident('o', j)} + i`;
-    body.push(`jacHi[${at}] = ${hi(g, d, temps)};`, `jacLo[${at}] = ${lo(g, d, temps)};`);
-  });
+  derivatives.forEach((d, j) => body.push(`jacHi[${at(j)}] = ${hi(g, d, temps)};`, `jacLo[${at(j)}] = ${lo(g, d, temps)};`));
   return rowKernel('t, c, n, outHi, outLo, jacHi, jacLo', head, body);
 }
 

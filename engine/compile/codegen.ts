@@ -39,15 +39,20 @@ export const MAX_LOCAL_TEMPS = 20_000;
 /** How a kernel names its temporaries: local constants `v<id>`, or slots of the array `s`. */
 type Temps = ReadonlyMap<number, number> | null;
 
-/** Source reference to node `id` (a literal, parameter, column or temporary). */
-export function ref(g: Graph, id: number, temps: Temps = null): string {
+/** Source reference to a leaf (a literal, parameter `t<k>` or the row's column value `x<k>`), or null for an interior node; both generators name leaves so. */
+export function leafRef(g: Graph, id: number): string | null {
   const n = g.nodes[id];
   switch (n.op) {
     case 'const': return literal(n.value);
     case 'param': return ident('t', n.index);
     case 'col': return ident('x', n.index);
-    default: return temps ? `s[${literal(temps.get(id)!)}]` : ident('v', id);
+    default: return null;
   }
+}
+
+/** Source reference to node `id` (a leaf or a temporary). */
+export function ref(g: Graph, id: number, temps: Temps = null): string {
+  return leafRef(g, id) ?? (temps ? `s[${literal(temps.get(id)!)}]` : ident('v', id));
 }
 
 /** Smallest positive normal and largest finite double (bounds of the shared-power guard below). */
@@ -115,9 +120,54 @@ function rhs(g: Graph, id: number, available: ReadonlySet<number>, temps: Temps)
   }
 }
 
-function isLeaf(g: Graph, id: number): boolean {
+export function isLeaf(g: Graph, id: number): boolean {
   const op = g.nodes[id].op;
   return op === 'const' || op === 'param' || op === 'col';
+}
+
+/**
+ * What the double and the double-double generator share: the nodes the roots
+ * reach, how temporaries are kept (`tempSlots`, `perNode` slots each), and the
+ * kernel's statements so far — parameters and column arrays read once before
+ * the row loop (`head`), each column's value read per row (`body`).
+ */
+export interface KernelFrame {
+  nodes: number[];
+  temps: Temps;
+  head: string[];
+  body: string[];
+}
+
+export function kernelFrame(g: Graph, roots: readonly number[], perNode = 1): KernelFrame {
+  const nodes = g.reachable(roots);
+  const head: string[] = [];
+  const body: string[] = [];
+  for (const id of nodes) {
+    const n = g.nodes[id];
+    if (n.op === 'param') head.push(`const ${leafRef(g, id)} = t[${literal(n.index)}];`);
+    else if (n.op === 'col') {
+      head.push(`const ${ident('c', n.index)} = c[${literal(n.index)}];`);
+      body.push(`const ${leafRef(g, id)} = ${ident('c', n.index)}[i];`);
+    }
+  }
+  return { nodes, temps: tempSlots(g, nodes, perNode), head, body };
+}
+
+/**
+ * Places the statement of each interior node, in id order (operands first):
+ * in the row loop when it reads a column (`g.row`), else hoisted before it.
+ */
+export function placeInterior(g: Graph, frame: KernelFrame, statement: (id: number) => string): void {
+  for (const id of frame.nodes) if (!isLeaf(g, id)) (g.row[id] ? frame.body : frame.head).push(statement(id));
+}
+
+/**
+ * Where row i of derivative column j sits in a column-major Jacobian: `i` for
+ * j = 0, else `o<j> + i` with the offset `o<j> = n·j` declared once in `head`.
+ */
+export function jacobianIndex(frame: KernelFrame, count: number): (j: number) => string {
+  for (let j = 1; j < count; j++) frame.head.push(`const ${ident('o', j)} = n * ${literal(j)};`);
+  return (j) => (j === 0 ? 'i' : `${ident('o', j)} + i`);
 }
 
 /**
@@ -126,31 +176,20 @@ function isLeaf(g: Graph, id: number): boolean {
  */
 export function kernelSource(g: Graph, roots: KernelRoots): string {
   const derivs = roots.derivatives ?? [];
-  const all = [...(roots.value !== undefined ? [roots.value] : []), ...derivs];
-  const nodes = g.reachable(all);
-  const head: string[] = [];
-  const body: string[] = [];
-  for (const id of nodes) {
-    const n = g.nodes[id];
-    if (n.op === 'param') head.push(`const ${ref(g, id)} = t[${literal(n.index)}];`);
-    else if (n.op === 'col') {
-      head.push(`const ${ident('c', n.index)} = c[${literal(n.index)}];`);
-      body.push(`const ${ref(g, id)} = ${ident('c', n.index)}[i];`);
-    }
-  }
-  const temps = tempSlots(g, nodes);
+  const frame = kernelFrame(g, [...(roots.value !== undefined ? [roots.value] : []), ...derivs]);
+  const { temps, head, body } = frame;
   if (temps) head.push(`const s = new Float64Array(${literal(temps.size)});`);
   const available = new Set<number>();
-  for (const id of nodes) {
-    if (isLeaf(g, id)) continue;
+  placeInterior(g, frame, (id) => {
     // (a hoisted a^e has a hoisted base and exponent, so its a^b is hoisted too: ascending ids suffice)
     const target = temps ? ref(g, id, temps) : `const ${ref(g, id)}`;
-    (g.row[id] ? body : head).push(`${target} = ${rhs(g, id, available, temps)};`);
+    const statement = `${target} = ${rhs(g, id, available, temps)};`;
     available.add(id);
-  }
-  derivs.forEach((_, j) => { if (j > 0) head.push(`const ${ident('o', j)} = n * ${literal(j)};`); });
+    return statement;
+  });
+  const at = jacobianIndex(frame, derivs.length);
   if (roots.value !== undefined) body.push(`out[i] = ${ref(g, roots.value, temps)};`);
-  derivs.forEach((d, j) => body.push(`jac[${j === 0 ? 'i' : `${ident('o', j)} + i`}] = ${ref(g, d, temps)};`));
+  derivs.forEach((d, j) => body.push(`jac[${at(j)}] = ${ref(g, d, temps)};`));
   return rowKernel('t, c, n, out, jac', head, body);
 }
 

@@ -11,6 +11,7 @@ import { closeSync, fstatSync, readSync } from 'node:fs';
 import { openInputSync } from '../io/input';
 import { bytesSource, readCsv, readCsvHead, type ByteSource } from './csv';
 import type { CsvOptions, DataError, DataTable } from './types';
+import { columnText } from '../messages';
 
 /** Reads a file's bytes (or text) in one piece. Injected by tests and the editor; without it the file is streamed. */
 export type FileReader = (path: string) => Buffer | string;
@@ -31,9 +32,9 @@ export function sha256Hex(content: Buffer | string): string {
 /** Why a file could not be opened or read, as a located error (never thrown). */
 export function fileError(e: unknown, file: string): DataError {
   const code = (e as { code?: unknown }).code;
-  if (code === 'ENOENT') return { code: 'file_not_found', file, message: `data file not found: ${file}` };
-  const reason = code === 'EISDIR' ? 'it is a folder' : e instanceof Error ? e.message : String(e);
-  return { code: 'file_unreadable', file, message: `cannot read data file ${file}: ${reason}` };
+  if (code === 'ENOENT') return { code: 'file_not_found', file, message: columnText.fileNotFound(file) };
+  const reason = code === 'EISDIR' ? columnText.isFolder : e instanceof Error ? e.message : String(e);
+  return { code: 'file_unreadable', file, message: columnText.fileUnreadable(file, reason) };
 }
 
 /** Opens `path` for reading: only a regular file is opened (engine/io: a named pipe, device or folder is refused before any byte is read). */

@@ -6,7 +6,7 @@
  */
 import { isMissingCell } from './cells';
 import { cellLine, type DataColumn, type DataError, type DataTable } from './types';
-import { quoted } from '../../parser/printable';
+import { columnText, dataPlace } from '../messages';
 
 /** A compiled filter over the selected numeric columns: writes 1 (keep) or 0 per row. */
 export type RowFilter = (cols: readonly Float64Array[], n: number, out: Float64Array) => void;
@@ -124,10 +124,10 @@ function findColumn(table: DataTable, name: string, file: string, errors: DataEr
       file,
       row: table.headerLine,
       column: name,
-      message: `${file}: no column ${quoted(name)}; the header has ${table.headers.filter((h) => h !== '').map(quoted).join(', ')}`,
+      message: columnText.missing(file, name, table.headers),
     });
   } else {
-    errors.push({ code: 'duplicate_column', file, row: table.headerLine, field: table.headers.indexOf(name, table.headers.indexOf(name) + 1) + 1, column: name, message: `${file}: the header names ${quoted(name)} ${matches.length} times` });
+    errors.push({ code: 'duplicate_column', file, row: table.headerLine, field: table.headers.indexOf(name, table.headers.indexOf(name) + 1) + 1, column: name, message: columnText.duplicate(file, name, matches.length) });
   }
   return undefined;
 }
@@ -139,7 +139,7 @@ function collectNonNumeric(table: DataTable, col: DataColumn, file: string, erro
     if (Number.isNaN(col.values[i]) && !isMissingCell(col.text[i])) {
       const row = cellLine(table, i, index);
       const value = col.text[i];
-      const hint = table.decimal === '.' && /^[+-]?\d+,\d+$/.test(value) ? ' (decimal comma? add decimal "," to the data statement)' : '';
+      const decimalComma = table.decimal === '.' && /^[+-]?\d+,\d+$/.test(value);
       errors.push({
         code: 'non_numeric_cell',
         file,
@@ -147,7 +147,7 @@ function collectNonNumeric(table: DataTable, col: DataColumn, file: string, erro
         field: index + 1,
         column: col.name,
         value,
-        message: `${file}:${row}:${index + 1}: column ${quoted(col.name)} holds ${quoted(value)}, not a number${hint}`,
+        message: columnText.nonNumeric(dataPlace(file, row, index + 1), col.name, value, decimalComma),
       });
     }
   }

@@ -34,6 +34,7 @@ import { fitOneGroup, unfittedGroup } from './group-job';
 import { sharedStart, type SharedStart } from './starts';
 import { runChunksInWorkers } from './pool';
 import { createCancelFlag, setCancelled } from './protocol';
+import { runText } from '../messages';
 
 export interface GroupRunOptions {
   /** Worker threads. Default `os.availableParallelism()`; 1 fits in this thread. */
@@ -123,13 +124,13 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
   const rows = groups.reduce((sum, g) => sum + g.n, 0);
   const bigEnough = total >= (options.minGroupsForWorkers ?? 64) || rows >= MIN_ROWS_FOR_WORKERS;
   const why =
-    workerFile === null ? 'no worker file (running from sources or asked for)'
-    : !existsSync(workerFile) ? `no worker file at ${workerFile}`
-    : threads < 2 ? 'one thread asked for'
-    : total < 2 || !bigEnough ? `small job (${total} groups, ${rows} rows)`
+    workerFile === null ? runText.inProcess.noWorkerFileHere
+    : !existsSync(workerFile) ? runText.inProcess.noWorkerFileAt(workerFile)
+    : threads < 2 ? runText.inProcess.oneThread
+    : total < 2 || !bigEnough ? runText.inProcess.smallJob(total, rows, false)
     : null;
   if (why !== null || workerFile === null) {
-    options.onMode?.({ kind: 'in_process', reason: why ?? 'no worker file' });
+    options.onMode?.({ kind: 'in_process', reason: why ?? runText.inProcess.noWorkerFile });
     await inProcess(groups.keys());
     return results as FitResult[];
   }
@@ -180,7 +181,7 @@ export async function fitGroupData(fit: FitPlan, groups: readonly FitData[], opt
     onChunkDone(c, chunkResults) {
       finishChunk(c, (data, k) => {
         const r = chunkResults[k];
-        return r && r.group === data.group ? r : unfittedGroup(fit, data, { message: `no result came back for group ${data.group ?? ''}` });
+        return r && r.group === data.group ? r : unfittedGroup(fit, data, { message: runText.noGroupResult(data.group ?? '') });
       });
     },
     onChunkFailed(c, message) {
@@ -227,7 +228,7 @@ export async function fitGroupsParallel(plan: Plan, fitName: string, options: Fi
   if (!fit) throw new Error(`no fit named ${fitName} in the plan (fits: ${plan.fits.map((f) => f.name).join(', ')})`);
   const block = fit.blocks[0];
   const source = block ? plan.data.find((d) => d.name === block.data) : undefined;
-  if (!block || !source) return [unfittedGroup(fit, null, { message: `fit ${fit.name} has no data source` })];
+  if (!block || !source) return [unfittedGroup(fit, null, { message: runText.noDataSource(fit.name) })];
   const sources = loadSources([source], options.baseDir, options.readFile);
   const loaded = sources.tables.get(source.name);
   if (!loaded) return [unfittedGroup(fit, null, { message: sources.errors.map((e) => e.message).join('; ') })];

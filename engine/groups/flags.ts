@@ -23,7 +23,7 @@
  *     screen, most useful when groups share one model shape;
  *   - skipped (not flagged) when ν ≤ 0 or the statistic is not finite.
  */
-import chisquareCdf from '@stdlib/stats-base-dists-chisquare-cdf';
+import { chiSquareCdf, chiSquareUpper } from '../stats/distributions';
 import { WARNING_THRESHOLDS } from '../messages';
 import type { FitResult } from '../result';
 
@@ -65,8 +65,7 @@ export function isPoorFit(fit: FitResult, options: FlagOptions = {}): boolean {
   if (fit.sigmaAbsolute && g.chi2 !== null) {
     const alpha = options.chi2TailProbability ?? DEFAULT_CHI2_TAIL;
     if (!(g.dof > 0) || !Number.isFinite(g.chi2)) return false;
-    const lower = chisquareCdf(g.chi2, g.dof);
-    return lower < alpha || 1 - lower < alpha;
+    return chiSquareCdf(g.chi2, g.dof) < alpha || chiSquareUpper(g.chi2, g.dof) < alpha;
   }
   const minR2 = options.minR2 ?? DEFAULT_MIN_R2;
   return Number.isFinite(g.r2) && g.r2 < minR2;

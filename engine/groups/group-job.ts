@@ -32,9 +32,9 @@ import type { FitData } from '../run/fit-data';
 import { failedFit } from '../run/fit-result';
 import { runFit, type RunFitOptions } from '../run/fit';
 import type { SharedStart } from './starts';
-import { warningText } from '../messages';
+import { runText, warningText } from '../messages';
 
-export const CANCELLED_STOP: StopReason = { code: 'cancelled', message: 'cancelled before this group was fitted', converged: false };
+export const CANCELLED_STOP: StopReason = { code: 'cancelled', message: runText.groupCancelled, converged: false };
 
 /** A FitResult for a group that did not run: `failed` with `message`, or `cancelled`. */
 export function unfittedGroup(fit: FitPlan, data: FitData | null, why: { cancelled: true } | { message: string }): FitResult {
@@ -59,7 +59,7 @@ function attempt(fit: FitPlan, data: FitData, options: RunFitOptions): FitResult
   } catch (e) {
     const reason = e instanceof Error ? e.message : String(e);
     const group = data.group;
-    const why = { message: `group ${group ?? ''} of ${fit.name} could not be fitted: ${reason}` };
+    const why = { message: runText.groupFailed(group ?? '', fit.name, reason) };
     try {
       return unfittedGroup(fit, data, why);
     } catch {

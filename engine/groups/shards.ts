@@ -20,6 +20,7 @@
  *
  * Fits without groups are fitted by shard 1 only (the others skip them).
  */
+import { shardText } from '../messages';
 
 /** A shard: `index` 1…`count`. */
 export interface Shard {
@@ -58,11 +59,11 @@ export function shardRanges(rows: readonly number[], count: number): Array<[numb
 /** `I/N` with 1 ≤ I ≤ N ≤ MAX_SHARDS, or a message saying what is wrong. */
 export function parseShard(text: string): { ok: true; shard: Shard } | { ok: false; message: string } {
   const m = /^\s*(\d+)\s*\/\s*(\d+)\s*$/.exec(text);
-  if (!m) return { ok: false, message: `--shard takes I/N (shard I of N, 1 ≤ I ≤ N), not "${text}"` };
+  if (!m) return { ok: false, message: shardText.notIOfN(text) };
   const index = Number(m[1]);
   const count = Number(m[2]);
-  if (count < 1 || count > MAX_SHARDS) return { ok: false, message: `--shard ${text}: the number of shards must be 1 to ${MAX_SHARDS}` };
-  if (index < 1 || index > count) return { ok: false, message: `--shard ${text}: the shard must be 1 to ${count}` };
+  if (count < 1 || count > MAX_SHARDS) return { ok: false, message: shardText.countRange(text, MAX_SHARDS) };
+  if (index < 1 || index > count) return { ok: false, message: shardText.indexRange(text, count) };
   return { ok: true, shard: { index, count } };
 }
 
@@ -90,26 +91,26 @@ export function shardFromEnvironment(env: Env, shardsOption?: number): { ok: tru
     const max = wholeNumber(env.SLURM_ARRAY_TASK_MAX);
     const count = wholeNumber(env.SLURM_ARRAY_TASK_COUNT);
     const step = wholeNumber(env.SLURM_ARRAY_TASK_STEP);
-    const shown = `SLURM_ARRAY_TASK_ID=${id}, SLURM_ARRAY_TASK_MIN=${env.SLURM_ARRAY_TASK_MIN ?? ''}, SLURM_ARRAY_TASK_MAX=${env.SLURM_ARRAY_TASK_MAX ?? ''}, SLURM_ARRAY_TASK_COUNT=${env.SLURM_ARRAY_TASK_COUNT ?? ''}`;
+    const shown = shardText.slurmVariables(id, env.SLURM_ARRAY_TASK_MIN, env.SLURM_ARRAY_TASK_MAX, env.SLURM_ARRAY_TASK_COUNT);
     if (task === undefined || min === undefined || max === undefined || max < min || task < min || task > max) {
-      return { ok: false, message: `this is a Slurm array task, but its variables do not give a shard (${shown}); pass --shard I/N` };
+      return { ok: false, message: shardText.slurmNoShard(shown) };
     }
     const span = max - min + 1;
     if ((step !== undefined && step !== 1) || (count !== undefined && count !== span)) {
-      return { ok: false, message: `the Slurm array is not one run of consecutive task ids (${shown}${step !== undefined ? `, SLURM_ARRAY_TASK_STEP=${step}` : ''}), so its tasks would not cover every group; submit --array=0-${span - 1} or pass --shard I/N` };
+      return { ok: false, message: shardText.slurmNotConsecutive(shown, step, span) };
     }
     if (shardsOption !== undefined && shardsOption !== span) {
-      return { ok: false, message: `--shards ${shardsOption} disagrees with the Slurm array of ${span} tasks (${shown})` };
+      return { ok: false, message: shardText.slurmDisagrees(shardsOption, span, shown) };
     }
-    return { ok: true, shard: { index: task - min + 1, count: span }, source: { kind: 'slurm', variables: `SLURM_ARRAY_TASK_ID=${id} of ${env.SLURM_ARRAY_TASK_MIN}–${env.SLURM_ARRAY_TASK_MAX}` } };
+    return { ok: true, shard: { index: task - min + 1, count: span }, source: { kind: 'slurm', variables: shardText.slurmSource(id, env.SLURM_ARRAY_TASK_MIN, env.SLURM_ARRAY_TASK_MAX) } };
   }
   const k8s = env.JOB_COMPLETION_INDEX;
   if (k8s !== undefined && k8s !== '') {
     const index = wholeNumber(k8s);
-    if (index === undefined) return { ok: false, message: `JOB_COMPLETION_INDEX=${k8s} is not a whole number; pass --shard I/N` };
-    if (shardsOption === undefined) return { ok: false, message: `this is a Kubernetes indexed job (JOB_COMPLETION_INDEX=${k8s}); pass --shards N with the job's completions, or --shard I/N` };
-    if (index >= shardsOption) return { ok: false, message: `JOB_COMPLETION_INDEX=${k8s} is not below --shards ${shardsOption}` };
-    return { ok: true, shard: { index: index + 1, count: shardsOption }, source: { kind: 'kubernetes', variables: `JOB_COMPLETION_INDEX=${k8s}` } };
+    if (index === undefined) return { ok: false, message: shardText.k8sNotWhole(k8s) };
+    if (shardsOption === undefined) return { ok: false, message: shardText.k8sNeedsShards(k8s) };
+    if (index >= shardsOption) return { ok: false, message: shardText.k8sTooLarge(k8s, shardsOption) };
+    return { ok: true, shard: { index: index + 1, count: shardsOption }, source: { kind: 'kubernetes', variables: shardText.k8sSource(k8s) } };
   }
   return undefined;
 }

@@ -20,6 +20,7 @@ import { freeModel } from '../run/curve';
 import { holdParams } from '../../parser/plan-expr';
 import type { FitData } from '../run/fit-data';
 import { guessStart, MAX_START_ROWS, recogniseShape, type StartInput } from '../solve/start';
+import { runText } from '../messages';
 
 export type SharedStart =
   | { kind: 'given' }
@@ -74,5 +75,5 @@ export function sharedStart(fit: FitPlan, groups: readonly FitData[]): SharedSta
   };
   const guess = guessStart(input);
   const theta = Array.from(guess.theta, (v, j) => Math.min(input.parameters[j].upper, Math.max(input.parameters[j].lower, v)));
-  return { kind: 'pooled', theta, how: `${guess.how}, on the rows of all ${groups.length} groups pooled` };
+  return { kind: 'pooled', theta, how: runText.pooledStart(guess.how, groups.length) };
 }

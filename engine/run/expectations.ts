@@ -7,7 +7,7 @@
  * result per group.
  */
 import type { Bound, Expectation, StatisticName } from '../../parser/plan';
-import { num, withheldText } from '../messages';
+import { expectationText, withheldText } from '../messages';
 import type { DerivedResult, ExpectationResult, FitResult } from '../result';
 import { statisticValue } from './statistics';
 
@@ -23,13 +23,6 @@ export function boundHolds(actual: number, bound: Bound): boolean {
   }
 }
 
-function boundText(bound: Bound): string {
-  switch (bound.kind) {
-    case 'within': return `within ${num(bound.low)} .. ${num(bound.high)}`;
-    case 'above': return `above ${num(bound.value)}`;
-    case 'below': return `below ${num(bound.value)}`;
-  }
-}
 
 function targetText(e: Expectation): string {
   const t = e.target;
@@ -59,13 +52,13 @@ export function checkExpectations(
     const t = e.target;
     if (t.kind === 'derived') {
       const rows = derived.filter((d) => d.name === t.name);
-      if (rows.length === 0) out.push({ expectation: e, actual: null, passed: false, message: `${targetText(e)}: no derived quantity ${t.name} was computed` });
+      if (rows.length === 0) out.push({ expectation: e, actual: null, passed: false, message: expectationText.noDerived(targetText(e), t.name) });
       for (const d of rows) out.push(checkDerived(e, d));
       continue;
     }
     const fits = results.get(t.fit) ?? [];
     if (fits.length === 0) {
-      out.push({ expectation: e, actual: null, passed: false, message: `${targetText(e)}: fit ${t.fit} has no result` });
+      out.push({ expectation: e, actual: null, passed: false, message: expectationText.noResult(targetText(e), t.fit) });
       continue;
     }
     for (const r of fits) out.push(checkOne(e, r));
@@ -76,8 +69,8 @@ export function checkExpectations(
 function verdict(e: Expectation, actual: number, where: string, why: string): { actual: number | null; passed: boolean; message: string } {
   const passed = boundHolds(actual, e.bound);
   const message = !Number.isFinite(actual)
-    ? `${targetText(e)}${where} could not be computed${why}`
-    : `${targetText(e)}${where} = ${num(actual)} is ${passed ? '' : 'not '}${boundText(e.bound)}`;
+    ? expectationText.notComputed(`${targetText(e)}${where}`, why)
+    : expectationText.verdict(`${targetText(e)}${where}`, actual, passed, expectationText.bound(e.bound));
   return { actual: Number.isFinite(actual) ? actual : null, passed, message };
 }
 
@@ -92,7 +85,7 @@ function checkOne(e: Expectation, r: FitResult): ExpectationResult {
   const where = r.group !== undefined ? ` [${r.group}]` : '';
   const group = r.group !== undefined ? { group: r.group } : {};
   const t = e.target;
-  if (t.kind === 'derived') return { expectation: e, ...group, actual: null, passed: false, message: `${targetText(e)} is not a fit target` };
+  if (t.kind === 'derived') return { expectation: e, ...group, actual: null, passed: false, message: expectationText.notFitTarget(targetText(e)) };
   // a fit that did not converge has no estimates to check; the counts of the run (n, dof, iterations) still hold
   const count = t.kind === 'statistic' && (t.name === 'n' || t.name === 'dof' || t.name === 'iterations');
   if (!r.stop.converged && !count) {
@@ -101,7 +94,7 @@ function checkOne(e: Expectation, r: FitResult): ExpectationResult {
   let actual: number;
   if (t.kind === 'parameter') {
     const par = r.parameters.find((p) => p.name === t.name);
-    if (!par) return { expectation: e, ...group, actual: null, passed: false, message: `${targetText(e)}${where}: no parameter ${t.name}` };
+    if (!par) return { expectation: e, ...group, actual: null, passed: false, message: expectationText.noParameter(`${targetText(e)}${where}`, t.name) };
     actual = t.of === 'estimate' ? par.estimate : par.stderr ?? NaN;
   } else {
     actual = statisticValue(r, t.name);

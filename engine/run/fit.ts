@@ -39,7 +39,7 @@ import { compileModel, isLinearInParameters, type CompiledModel } from '../compi
 import type { FitResult, FitTrace, FitWarning, SearchResult, StopReason } from '../result';
 import { boundsMethodFor, modelProblem, nonFiniteDetail, type CancelToken, type SolveOutcome, type SolverTrace } from '../solve';
 import { CHECK_POINTS, CHECK_REFINE, checkMark, explore, guessStart, isLower, linearSet, type ExploreOutcome, type StartInput } from '../solve/start';
-import { errorText, searchText, warningText } from '../messages';
+import { errorText, runText, searchText, warningText } from '../messages';
 import type { FitData } from './fit-data';
 import { failedFit } from './fit-result';
 import { holdParams } from '../../parser/plan-expr';
@@ -181,15 +181,15 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
     if (s.lowerElsewhere) {
       const startSsr = 2 * s.fromStart.cost * c2;
       const note = s.mark ? searchText.checkLower(s.mark, startSsr) : searchText.lowerElsewhere(startSsr);
-      solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${note}` };
+      solved.outcome.stop = { ...solved.outcome.stop, message: runText.withNote(solved.outcome.stop.message, note) };
       searchWarnings.push({ code: 'lower_minimum', message: warningText.lower_minimum(startSsr, reportedSsr, s.points, guessedNames.length === 0, s.mark), parameters: free });
     }
     if (!s.lowerElsewhere && s.best !== s.fromStart) {
-      solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.sameMinimum}` };
+      solved.outcome.stop = { ...solved.outcome.stop, message: runText.withNote(solved.outcome.stop.message, searchText.sameMinimum) };
     }
     const lowerUnconverged = s.minima.find((m) => !m.converged && isLower(m.ssr, 2 * s.best.cost, 0));
     if (lowerUnconverged && solved.outcome.stop.converged) {
-      solved.outcome.stop = { ...solved.outcome.stop, message: `${solved.outcome.stop.message}; ${searchText.lowerUnconverged(lowerUnconverged.ssr * c2)}` };
+      solved.outcome.stop = { ...solved.outcome.stop, message: runText.withNote(solved.outcome.stop.message, searchText.lowerUnconverged(lowerUnconverged.ssr * c2)) };
       searchWarnings.push({ code: 'lower_minimum', message: searchText.unconvergedLower(lowerUnconverged.ssr * c2, reportedSsr), parameters: free });
     }
   }
@@ -370,7 +370,7 @@ function solve(
       used = 'levenberg_marquardt';
     }
   } else if (method === 'gradient_descent') {
-    if (!solvers.gradientDescent) return { error: 'the gradient descent solver is not available in this build' };
+    if (!solvers.gradientDescent) return { error: runText.gradientDescentMissing };
     outcome = add(solvers.gradientDescent(problem, theta0, iterative));
   } else if (search?.reason === 'check') {
     const first = solvers.levenbergMarquardt(problem, theta0, iterative);
@@ -400,7 +400,7 @@ function solve(
   }
   const loss: LossKind = o.loss;
   if (loss !== 'squared' && outcome.stop.code !== 'cancelled') {
-    if (!solvers.robust) return { error: `the robust solver (loss ${loss}) is not available in this build` };
+    if (!solvers.robust) return { error: runText.robustMissing(loss) };
     const from = outcome.theta.every(Number.isFinite) ? outcome.theta : theta0;
     // the loss scale is in units of the weighted residual; the problem's residuals are divided by c.
     // Without one in the spec it comes from the residuals' robust spread (engine/solve/loss.ts), which needs no unit.
@@ -418,7 +418,7 @@ function locateStop(outcome: SolveOutcome, names: readonly string[], lines: Int3
   names.forEach((name, j) => { at[name] = nf.theta[j]; });
   return {
     ...outcome.stop,
-    message: `${outcome.stop.message}: ${nonFiniteDetail(nf, names, lines)}`,
+    message: runText.located(outcome.stop.message, nonFiniteDetail(nf, names, lines)),
     nonFinite: { what: nf.what, lines: nf.rows.map((i) => lines[i]), rows: nf.count, parameters: nf.parameters.map((j) => names[j]), at },
   };
 }

@@ -10,7 +10,7 @@
  */
 import type { FitPlan, Query } from '../../parser/plan';
 import { compileColumnExpr } from '../compile';
-import { errorText, withheldText } from '../messages';
+import { errorText, runText, withheldText } from '../messages';
 import type { FitResult, InversePrediction, QueryResult, RunError } from '../result';
 import { bandsAt, predictAt } from '../stats/bands';
 import { akaikeRows, extraSumOfSquaresF, type CompareInput } from '../stats/compare';
@@ -41,12 +41,12 @@ function lookup(name: string, q: Query, ctx: QueryContext): { plan: FitPlan; res
   const plan = ctx.fitPlans.get(name);
   if (!plan) return { code: 'unknown_fit', message: errorText.unknownFit(name), range: q.range };
   const results = ctx.results.get(name) ?? [];
-  if (results.length === 0) return { code: 'fit_not_run', message: `fit ${name} has no result (see the errors above)`, range: q.range, fit: name };
+  if (results.length === 0) return { code: 'fit_not_run', message: runText.fitNotRun(name), range: q.range, fit: name };
   return { plan, results };
 }
 
 /** `fit` or `fit [group]`. */
-const label = (fit: string, r: FitResult): string => (r.group !== undefined ? `${fit} [${r.group}]` : fit);
+const label = (fit: string, r: FitResult): string => runText.fitLabel(fit, r.group);
 
 const isError = (x: unknown): x is RunError => typeof x === 'object' && x !== null && 'code' in x && 'message' in x;
 
@@ -120,7 +120,7 @@ function invert(q: Extract<Query, { kind: 'invert' }>, ctx: QueryContext): Out {
     }
     if (xs.length === 0) {
       // the fit has no points (its data had no usable rows): a data problem, reported with the fit
-      out.errors.push({ code: 'no_points', message: errorText.noPoints(r.group !== undefined ? `${q.fit} [${r.group}]` : q.fit, 'invert'), range: q.range, fit: q.fit });
+      out.errors.push({ code: 'no_points', message: errorText.noPoints(label(q.fit, r), 'invert'), range: q.range, fit: q.fit });
       continue;
     }
     // (a loop, not Math.min(...xs): a call takes at most about 10⁵ arguments, data can be longer)
@@ -133,7 +133,7 @@ function invert(q: Extract<Query, { kind: 'invert' }>, ctx: QueryContext): Out {
     const band = (v: Float64Array) => bandsAt(v, curve.modelAt, curve.cov, curve.t, curve.newSd);
     const inversions: InversePrediction[] = q.values.map((v) => {
       const y0 = transform!(v);
-      if (!Number.isFinite(y0)) return { response: v, x: null, interval: [null, null], message: `${exprText(response)} is not defined at ${q.response} = ${v}` };
+      if (!Number.isFinite(y0)) return { response: v, x: null, interval: [null, null], message: runText.notDefinedAt(exprText(response), q.response, v) };
       return { ...inversePrediction(y0, lo, hi, band), response: v };
     });
     out.results.push({ kind: 'invert', fit: q.fit, ...(r.group !== undefined ? { group: r.group } : {}), response: q.response, inversions });

@@ -22,7 +22,7 @@ import { createHash } from 'node:crypto';
 import type { FitPlan, Plan } from '../../parser/plan';
 import { compileColumnExpr } from '../compile';
 import type { FileReader } from '../data';
-import { errorText } from '../messages';
+import { errorText, runText } from '../messages';
 import { RESULT_VERSION, type FitResult, type Provenance, type RunError, type RunResult, type ShardFit } from '../result';
 import type { CancelToken } from '../solve/problem';
 import { loadSources } from '../run/datasets';
@@ -133,11 +133,11 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
   for (const fit of fits) {
     results.set(fit.name, []);
     if (opts.cancel?.cancelled) {
-      errors.push({ code: 'cancelled', message: `run cancelled before fit ${fit.name}`, range: fit.range, fit: fit.name });
+      errors.push({ code: 'cancelled', message: runText.cancelledBefore(fit.name), range: fit.range, fit: fit.name });
       continue;
     }
     if (fit.blocks.length !== 1) {
-      errors.push({ code: 'not_supported', message: `fit ${fit.name} has ${fit.blocks.length} data blocks; this version fits one`, range: fit.range, fit: fit.name });
+      errors.push({ code: 'not_supported', message: runText.oneBlock(fit.name, fit.blocks.length), range: fit.range, fit: fit.name });
       continue;
     }
     const block = fit.blocks[0];
@@ -174,13 +174,13 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
         const started = fitted.filter((r) => !isUnstarted(r));
         for (const r of started) results.get(fit.name)!.push(r);
         const missed = fitted.find(isUnstarted);
-        if (missed) errors.push({ code: 'cancelled', message: `run cancelled before fit ${fit.name} [${missed.group ?? ''}]`, range: fit.range, fit: fit.name });
+        if (missed) errors.push({ code: 'cancelled', message: runText.cancelledBefore(runText.fitLabel(fit.name, missed.group ?? '')), range: fit.range, fit: fit.name });
         continue;
       }
     }
     for (const data of groups) {
       if (opts.cancel?.cancelled) {
-        errors.push({ code: 'cancelled', message: `run cancelled before fit ${fit.name}${data.group !== undefined ? ` [${data.group}]` : ''}`, range: fit.range, fit: fit.name });
+        errors.push({ code: 'cancelled', message: runText.cancelledBefore(runText.fitLabel(fit.name, data.group)), range: fit.range, fit: fit.name });
         break;
       }
       const onIteration = opts.onIteration;
@@ -265,8 +265,8 @@ async function fitBatch(batch: GroupBatch, opts: RunOptions): Promise<FitResult[
   const threads = groupThreads(batch.groups.length, rows, { threads: opts.threads, customSolvers: opts.solvers !== undefined });
   const workerFile = opts.workerFile === undefined ? defaultWorkerFile() : opts.workerFile;
   const why = threads < 2
-    ? (opts.solvers ? 'injected solvers' : opts.threads !== undefined ? 'one thread asked for' : `small job (${batch.groups.length} groups, ${rows} rows) or one core`)
-    : workerFile === null ? 'no worker bundle beside this program' : null;
+    ? (opts.solvers ? runText.inProcess.injectedSolvers : opts.threads !== undefined ? runText.inProcess.oneThread : runText.inProcess.smallJob(batch.groups.length, rows, true))
+    : workerFile === null ? runText.inProcess.noWorkerBundle : null;
   if (why !== null) {
     opts.onGroupMode?.(batch.fit.name, { kind: 'in_process', reason: why });
     return undefined;

@@ -48,7 +48,7 @@
  */
 import { Matrix, EigenvalueDecomposition } from 'ml-matrix';
 import type { LeastSquaresProblem } from './problem';
-import { type SolveOptions, type SolveOutcome, type NonFiniteReport, DEFAULT_TOLERANCE, stopReason, fmt, allFinite, nonFiniteReport } from './types';
+import { type SolveOptions, type SolveOutcome, type NonFiniteReport, DEFAULT_TOLERANCE, stopReason, allFinite, nonFiniteReport } from './types';
 import type { StopCode } from '../result';
 import { norm2 } from '../linalg/norm';
 import { project } from './bounds';
@@ -121,21 +121,25 @@ interface Settings {
 interface Stop { code: StopCode; message: string }
 
 /** Runs the iteration from the state (r, J current at x); returns the stop (the state may be moved to the best point seen). */
+/** Residuals and Jacobian at `s.x` (one evaluation); false, with the place in `s.nonFinite`, when either is not finite. */
+function evaluateAt(problem: LeastSquaresProblem, s: State): boolean {
+  const { n, p } = problem;
+  problem.residuals(s.x, s.r);
+  problem.jacobian(s.x, s.jac);
+  s.nfev++;
+  if (!allFinite(s.r)) s.nonFinite = nonFiniteReport('residuals', s.r, n, 1, s.x);
+  else if (!allFinite(s.jac)) s.nonFinite = nonFiniteReport('jacobian', s.jac, n, p, s.x);
+  else return true;
+  return false;
+}
+
 function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: DescentOptions, recorder: TraceRecorder | null): Stop {
   const { n, p, lower, upper } = problem;
   const gu = new Float64Array(p);
   const cnorm = new Float64Array(p);
   const step = new Float64Array(p);
   const phi = new Float64Array(p);
-  const evaluate = (): boolean => {
-    problem.residuals(s.x, s.r);
-    problem.jacobian(s.x, s.jac);
-    s.nfev++;
-    if (!allFinite(s.r)) s.nonFinite = nonFiniteReport('residuals', s.r, n, 1, s.x);
-    else if (!allFinite(s.jac)) s.nonFinite = nonFiniteReport('jacobian', s.jac, n, p, s.x);
-    else return true;
-    return false;
-  };
+  const evaluate = (): boolean => evaluateAt(problem, s);
   // Costs are compared in units of the starting residual norm (½‖r/‖r₀‖‖²), so that residuals
   // beyond 1e154 (whose squares overflow) still compare; `unit²` turns them back for display.
   const r0 = norm2(s.r);
@@ -171,7 +175,7 @@ function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: D
     if (gnorm <= o.gtol) return { code: 'small_gradient', message: stopText.smallGradient(gnorm, o.gtol) };
     if (k >= o.maxIter) {
       toBest();
-      return { code: 'max_iterations', message: `${stopText.maxIterations(o.maxIter)} (scaled gradient ${fmt(gnorm)})` };
+      return { code: 'max_iterations', message: stopText.maxIterations(o.maxIter) + stopText.withGradient(gnorm) };
     }
     if (s.nfev >= o.maxFev) return { code: 'max_evaluations', message: stopText.maxEvaluations(o.maxFev) };
     for (let j = 0; j < p; j++) {
@@ -188,7 +192,7 @@ function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: D
     const sn = norm2(step);
     if (!evaluate()) {
       recorder?.add({ iteration: s.it - 1, cost: display(cost), trialCost: null, gradient: gnorm, step: sn, radius: null, ratio: null, accepted: false });
-      return { code: 'non_finite', message: `the residuals or the Jacobian are not finite at iteration ${s.it}` };
+      return { code: 'non_finite', message: stopText.notFiniteAtIteration(s.it) };
     }
     const next = 0.5 * (norm2(s.r) / unit) ** 2;
     recorder?.add({ iteration: s.it - 1, cost: display(cost), trialCost: display(next), gradient: gnorm, step: sn, radius: null, ratio: null, accepted: true });
@@ -196,13 +200,13 @@ function iterate(problem: LeastSquaresProblem, s: State, o: Settings, options: D
     const reduction = cost - next;
     cost = next;
     if (next > DIVERGENCE * initial || (o.monotone && reduction < 0)) {
-      return { code: 'failed', message: `diverged: cost rose from ${fmt(display(initial))} to ${fmt(display(next))} at iteration ${s.it}; use a smaller learning rate` };
+      return { code: 'failed', message: stopText.diverged(display(initial), display(next), s.it) };
     }
     const limit = o.xtol * (norm2(phi) + o.xtol);
     if (sn <= limit) return { code: 'small_step', message: stopText.smallScaledStep(sn, limit) };
     // a tiny reduction with a large gradient is a cycle or a crawl, not a minimum (stagnation.ts DEAD_GRADIENT): left to the window test
     if (reduction >= 0 && reduction <= o.ftol * (cost + reduction) && gnorm <= DEAD_GRADIENT) {
-      return { code: 'small_reduction', message: `relative reduction ${fmt(reduction / (cost + reduction))} below its tolerance ${fmt(o.ftol)}` };
+      return { code: 'small_reduction', message: stopText.smallReductionDescent(reduction / (cost + reduction), o.ftol) };
     }
     const stalled = watch?.record(next, s.x);
     if (stalled) {
@@ -227,10 +231,10 @@ export function gradientDescent(problem: LeastSquaresProblem, theta0: Float64Arr
     // a converged stop needs a cost that is a number: with ‖r‖² beyond the doubles nothing was fitted
     const rnorm = norm2(s.r);
     if (stopReason(code, '').converged && !Number.isFinite(0.5 * rnorm ** 2)) {
-      message = `${stopText.costOverflow(rnorm)} (stopped by ${code}: ${message})`;
+      message = stopText.overflowedStop(stopText.costOverflow(rnorm), code, message);
       code = 'failed';
     }
-    const note = Number.isFinite(settings.rate) ? ` (learning rate ${fmt(settings.rate)})` : '';
+    const note = Number.isFinite(settings.rate) ? stopText.withLearningRate(settings.rate) : '';
     return {
       theta: s.x, residuals: s.r, jacobian: s.jac, cost: 0.5 * norm2(s.r) ** 2, stop: stopReason(code, message + note),
       iterations: s.it, evaluations: s.nfev, jacobianEvaluations: s.nfev,
@@ -244,13 +248,7 @@ export function gradientDescent(problem: LeastSquaresProblem, theta0: Float64Arr
   const start = (): boolean => {
     s.x.set(x0);
     s.it = 0;
-    problem.residuals(s.x, s.r);
-    problem.jacobian(s.x, s.jac);
-    s.nfev++;
-    if (!allFinite(s.r)) s.nonFinite = nonFiniteReport('residuals', s.r, n, 1, s.x);
-    else if (!allFinite(s.jac)) s.nonFinite = nonFiniteReport('jacobian', s.jac, n, p, s.x);
-    else return true;
-    return false;
+    return evaluateAt(problem, s);
   };
   if (!start()) return done('non_finite', stopText.startNotFinite(s.nonFinite?.what ?? 'residuals'));
   if (p === 0) return done('small_gradient', stopText.noFreeParameters);

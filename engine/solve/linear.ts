@@ -23,6 +23,7 @@ import type { LeastSquaresProblem, CancelToken } from './problem';
 import { type SolveOutcome, stopReason, allFinite, halfSumSquares } from './types';
 import { PivotedQR } from '../linalg/qr';
 import { refineLeastSquares } from './refine';
+import { stopText } from './messages';
 
 export interface LinearOptions {
   /** Expansion point θ₀ (default 0); the result does not depend on it for a linear model. */
@@ -48,15 +49,15 @@ function failed(problem: LeastSquaresProblem, theta: Float64Array, code: 'failed
 export function solveLinear(problem: LeastSquaresProblem, options: LinearOptions = {}): SolveOutcome {
   const { n, p } = problem;
   const theta0 = options.theta0 ? Float64Array.from(options.theta0) : new Float64Array(p);
-  if (n === 0) return failed(problem, theta0, 'failed', 'no data rows to fit', 0);
-  if (options.cancel?.cancelled) return failed(problem, theta0, 'cancelled', 'cancelled before the solve', 0);
+  if (n === 0) return failed(problem, theta0, 'failed', stopText.noRows, 0);
+  if (options.cancel?.cancelled) return failed(problem, theta0, 'cancelled', stopText.cancelledBeforeSolve, 0);
 
   const r0 = new Float64Array(n);
   const jac = new Float64Array(n * p);
   problem.residuals(theta0, r0);
   problem.jacobian(theta0, jac);
   if (!allFinite(r0) || !allFinite(jac)) {
-    return failed(problem, theta0, 'non_finite', 'residuals or Jacobian at the expansion point are not finite', 1);
+    return failed(problem, theta0, 'non_finite', stopText.linearNotFinite, 1);
   }
 
   const qr = new PivotedQR(n, p).factor(jac, n, p, { pivot: true, scale: true, rankTolerance: options.rankTolerance });
@@ -105,15 +106,13 @@ export function solveLinear(problem: LeastSquaresProblem, options: LinearOptions
     problem.residualsExtended(theta, hi, lo);
     if (allFinite(hi)) for (let i = 0; i < n; i++) residuals[i] = hi[i] + lo[i];
   }
-  const rankNote = qr.rank < p
-    ? `; rank ${qr.rank} < ${p} (|R_kk| ≤ ${qr.tolerance.toExponential(1)}·|R_00|), the ${p - qr.rank} dependent parameter(s) set to their expansion value`
-    : '';
+  const rankNote = qr.rank < p ? stopText.linearRankNote(qr.rank, p, qr.tolerance) : '';
   return {
     theta,
     residuals,
     jacobian: jac,
     cost: halfSumSquares(residuals),
-    stop: stopReason('exact', `direct solve by pivoted Householder QR with ${refinements} refinement step(s)${rankNote}`),
+    stop: stopReason('exact', stopText.linearSolved(refinements, rankNote)),
     iterations: 0,
     evaluations: 2,
     jacobianEvaluations: 1,

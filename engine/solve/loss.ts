@@ -49,8 +49,9 @@
 import type { LossKind } from '../../parser/plan';
 import { LOSS_SPECS } from '../../parser/registry/losses';
 import type { LeastSquaresProblem } from './problem';
-import { type SolveOptions, type SolveOutcome, DEFAULT_TOLERANCE, stopReason, fmt } from './types';
+import { type SolveOptions, type SolveOutcome, DEFAULT_TOLERANCE, stopReason } from './types';
 import { solveNonlinear } from './nonlinear';
+import { stopText } from './messages';
 
 export interface RobustOptions extends SolveOptions {
   /** Reweighting limit. Default 100. */
@@ -169,7 +170,7 @@ export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, lo
   let message = '';
   let code: SolveOutcome['stop']['code'] = 'max_iterations';
   for (let k = 1; k <= maxRe; k++) {
-    if (!Number.isFinite(cost)) { code = 'non_finite'; message = 'residuals are not finite'; break; }
+    if (!Number.isFinite(cost)) { code = 'non_finite'; message = stopText.irlsNotFinite; break; }
     if (!scaleHeld && k > 1) {
       // the scale from the current residuals, until it settles (module comment)
       const next = scaleFromSpread(loss, r);
@@ -188,7 +189,7 @@ export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, lo
     iterations += last.iterations;
     evaluations += last.evaluations + 1;
     jacobianEvaluations += last.jacobianEvaluations;
-    if (!last.stop.converged) { code = last.stop.code; message = `reweighting ${k}: ${last.stop.message}`; theta = last.theta; nonFinite = last.nonFinite; break; }
+    if (!last.stop.converged) { code = last.stop.code; message = stopText.irlsInnerStop(k, last.stop.message); theta = last.theta; nonFinite = last.nonFinite; break; }
     let change = 0;
     for (let j = 0; j < p; j++) change = Math.max(change, Math.abs(last.theta[j] - theta[j]) / (Math.abs(theta[j]) + DEFAULT_TOLERANCE));
     theta = Float64Array.from(last.theta);
@@ -198,10 +199,10 @@ export function robustFit(problem: LeastSquaresProblem, theta0: Float64Array, lo
     cost = next;
     if (scaleHeld && reduction <= ftol && change <= Math.sqrt(ftol)) {
       code = 'small_reduction';
-      message = `IRLS: relative robust-cost change ${fmt(Math.abs(reduction))} below the reduction tolerance ${fmt(ftol)} and parameter change ${fmt(change)} below its square root after ${k} reweighting(s)`;
+      message = stopText.irlsConverged(Math.abs(reduction), ftol, change, k);
       break;
     }
-    if (k === maxRe) message = `IRLS: reached ${maxRe} reweightings (last relative change ${fmt(reduction)})`;
+    if (k === maxRe) message = stopText.irlsLimit(maxRe, reduction);
     options.onIteration?.(iterations, cost);
   }
   problem.residuals(theta, r);

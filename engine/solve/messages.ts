@@ -35,6 +35,39 @@ export const stopText = {
   invalidOption: (message: string) => `invalid solver option: ${message}`,
   costOverflow: (rnorm: number) =>
     `the residual norm at the stop, ${fmt(rnorm)}, squares beyond the range of double precision: terms of the model cancel at a scale the data cannot resolve (rescale the model or its parameters)`,
+  /** A converged stop whose cost is not a number: `costOverflow` followed by the stop it replaces. */
+  overflowedStop: (overflow: string, code: string, message: string) => `${overflow} (stopped by ${code}: ${message})`,
+  // gradient descent (descent.ts)
+  withGradient: (g: number) => ` (scaled gradient ${fmt(g)})`,
+  withLearningRate: (rate: number) => ` (learning rate ${fmt(rate)})`,
+  notFiniteAtIteration: (iteration: number) => `the residuals or the Jacobian are not finite at iteration ${iteration}`,
+  diverged: (from: number, to: number, iteration: number) => `diverged: cost rose from ${fmt(from)} to ${fmt(to)} at iteration ${iteration}; use a smaller learning rate`,
+  smallReductionDescent: (actual: number, tol: number) => `relative reduction ${fmt(actual)} below its tolerance ${fmt(tol)}`,
+  // the linear QR solver (linear.ts)
+  cancelledBeforeSolve: 'cancelled before the solve',
+  linearNotFinite: 'residuals or Jacobian at the expansion point are not finite',
+  linearSolved: (refinements: number, rankNote: string) => `direct solve by pivoted Householder QR with ${refinements} refinement step(s)${rankNote}`,
+  linearRankNote: (rank: number, p: number, tolerance: number) =>
+    `; rank ${rank} < ${p} (|R_kk| ≤ ${tolerance.toExponential(1)}·|R_00|), the ${p - rank} dependent parameter(s) set to their expansion value`,
+  // iteratively reweighted least squares for robust losses (loss.ts)
+  irlsNotFinite: 'residuals are not finite',
+  irlsInnerStop: (k: number, message: string) => `reweighting ${k}: ${message}`,
+  irlsConverged: (reduction: number, tol: number, change: number, k: number) =>
+    `IRLS: relative robust-cost change ${fmt(reduction)} below the reduction tolerance ${fmt(tol)} and parameter change ${fmt(change)} below its square root after ${k} reweighting(s)`,
+  irlsLimit: (reweightings: number, reduction: number) => `IRLS: reached ${reweightings} reweightings (last relative change ${fmt(reduction)})`,
+  // the multi-start search (start/explore.ts)
+  separableConfirmed: (message: string) => `no step of the full problem improves on the converged separable solution (${message})`,
+} as const;
+
+/** How starting values were found (engine/solve/start): the `how` of a guess, shown in the `guessed_start` warning. */
+export const startText = {
+  linear: (names: string) => `linear least squares for ${names}`,
+  grid: (names: string, candidates: number) => `grid search over ${names} (${candidates} candidates)`,
+  rational: (names: readonly string[], reweightings: number) =>
+    `linearised rational least squares for ${names.join(', ')} (numerator and denominator multiplied out, ${reweightings} reweightings)`,
+  /** Why the multi-start search did not run (`SearchResult.skipped`). */
+  skippedLinear: 'the model is linear in its parameters',
+  skippedDimension: (limit: number) => `more than ${limit} nonlinear parameters`,
 } as const;
 
 /**

@@ -10,7 +10,7 @@
  *   Nesting is taken from the parameter counts only: the spec author must make
  *   sure the simpler model is a special case of the richer one.
  */
-import { fCdf } from './distributions';
+import { fUpper } from './distributions';
 
 export interface CompareInput {
   fit: string;
@@ -53,6 +53,6 @@ export function extraSumOfSquaresF(a: CompareInput, b: CompareInput): FTestResul
   const df2 = rich.n - rich.p;
   if (df2 <= 0 || !(rich.ssr > 0)) return null;
   const f = (simple.ssr - rich.ssr) / df1 / (rich.ssr / df2);
-  const pValue = f > 0 ? 1 - fCdf(f, df1, df2) : 1;
+  const pValue = f > 0 ? fUpper(f, df1, df2) : 1;
   return { f, df1, df2, pValue, simpler: simple.fit, richer: rich.fit };
 }

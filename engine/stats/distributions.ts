@@ -1,6 +1,16 @@
 /**
- * The probability distributions the statistics need, all from
- * @stdlib/stats-base-dists-* (no hand-written special functions here).
+ * The probability distributions the statistics need, all from @stdlib (no
+ * hand-written special functions here): the `@stdlib/stats-base-dists-*`
+ * distribution functions, and for upper tails the regularized incomplete
+ * beta and gamma functions with their `upper` flag
+ * (`@stdlib/math-base-special-betainc`, `-gammainc`). Every t, F, χ² and
+ * normal tail probability and quantile of the engine and its views goes
+ * through this module.
+ *
+ * Upper tails are never `1 − cdf`: when the upper tail is below about 1e-16
+ * the cdf rounds to 1 and `1 − cdf` gives 0 (or a few ulps of noise), losing
+ * every digit. The `…Upper` functions compute the small tail directly.
+ *
  * Each wrapper returns NaN for invalid arguments (e.g. non-positive degrees of freedom).
  */
 import tCdfStd from '@stdlib/stats-base-dists-t-cdf';
@@ -9,10 +19,27 @@ import fCdfStd from '@stdlib/stats-base-dists-f-cdf';
 import chisqCdfStd from '@stdlib/stats-base-dists-chisquare-cdf';
 import normalCdfStd from '@stdlib/stats-base-dists-normal-cdf';
 import normalQuantileStd from '@stdlib/stats-base-dists-normal-quantile';
+import betainc from '@stdlib/math-base-special-betainc';
+import gammainc from '@stdlib/math-base-special-gammainc';
 
 /** Student t cumulative distribution P(T ≤ x) with `dof` degrees of freedom. */
 export function tCdf(x: number, dof: number): number {
   return tCdfStd(x, dof);
+}
+
+/**
+ * Student t upper tail P(T > x). By symmetry P(T > x) = P(T ≤ −x); for a
+ * negative argument @stdlib's t cdf returns its incomplete-beta value
+ * I_{ν/(ν+x²)}(ν/2, ½)/2 (or the x²/(ν+x²) form) without a subtraction, so
+ * the small tail keeps its digits.
+ */
+export function tUpper(x: number, dof: number): number {
+  return tCdfStd(-x, dof);
+}
+
+/** Two-sided t probability P(|T| ≥ |x|) = 2·P(T > |x|), at most 1. */
+export function tTwoSided(x: number, dof: number): number {
+  return Math.min(1, 2 * tUpper(Math.abs(x), dof));
 }
 
 /** Student t quantile: the x with P(T ≤ x) = p. */
@@ -34,17 +61,45 @@ export function fCdf(x: number, d1: number, d2: number): number {
   return fCdfStd(x, d1, d2);
 }
 
+/**
+ * F upper tail P(F > x) with (d1, d2) degrees of freedom:
+ * 1 − I_z(d1/2, d2/2) with z = d1·x/(d1·x + d2) (Abramowitz & Stegun 26.6.2),
+ * taken as the upper regularized incomplete beta, or as I_{1−z}(d2/2, d1/2)
+ * when z is above ½ (1 − z = d2/(d1·x + d2) is then formed without
+ * cancellation, the same split @stdlib's F cdf makes).
+ */
+export function fUpper(x: number, d1: number, d2: number): number {
+  if (Number.isNaN(x) || !(d1 > 0) || !(d2 > 0)) return NaN;
+  if (x <= 0) return 1;
+  if (x === Infinity) return 0;
+  const d1x = d1 * x;
+  return d1x > d2 ? betainc(d2 / (d2 + d1x), d2 / 2, d1 / 2, true, false) : betainc(d1x / (d2 + d1x), d1 / 2, d2 / 2, true, true);
+}
+
 /** χ² cumulative distribution P(X ≤ x) with k degrees of freedom. */
 export function chiSquareCdf(x: number, k: number): number {
   return chisqCdfStd(x, k);
 }
 
-/** Standard normal cumulative distribution Φ(x). */
+/** χ² upper tail P(X > x) = Q(k/2, x/2), the upper regularized incomplete gamma function (A&S 26.4.19). */
+export function chiSquareUpper(x: number, k: number): number {
+  if (Number.isNaN(x) || !(k > 0)) return NaN;
+  if (x <= 0) return 1;
+  return gammainc(x / 2, k / 2, true, true);
+}
+
+/** Normal cumulative distribution Φ((x − mean)/sd). */
 export function normalCdf(x: number, mean = 0, sd = 1): number {
   return normalCdfStd(x, mean, sd);
 }
 
-/** Standard normal quantile Φ⁻¹(p). */
+/** Normal upper tail P(X > x) = Φ(−z) with z = (x − mean)/sd, which @stdlib computes as ½·erfc(z/√2) without a subtraction. */
+export function normalUpper(x: number, mean = 0, sd = 1): number {
+  if (!(sd > 0)) return NaN;
+  return normalCdfStd(-(x - mean) / sd, 0, 1);
+}
+
+/** Normal quantile: the x with Φ((x − mean)/sd) = p. */
 export function normalQuantile(p: number, mean = 0, sd = 1): number {
   return normalQuantileStd(p, mean, sd);
 }

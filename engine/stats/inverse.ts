@@ -17,6 +17,7 @@ import type { InversePrediction } from '../result';
 import type { BandPoints } from './bands';
 import { grid } from './bands';
 import { brentRoot } from './root';
+import { inverseText } from '../messages';
 
 /** Band values at predictor values (fitted and prediction half-widths are used). */
 export type Curve = (xs: Float64Array) => BandPoints;
@@ -56,7 +57,7 @@ export function inversePrediction(y0: number, lo: number, hi: number, curve: Cur
       response: y0,
       x: null,
       interval: [null, null],
-      message: `no predictor value in the data range [${lo}, ${hi}] gives ${y0}; the fitted curve there spans [${fmin}, ${fmax}]`,
+      message: inverseText.noCrossing(lo, hi, y0, fmin, fmax),
     };
   }
   const x = roots[0];
@@ -77,6 +78,6 @@ export function inversePrediction(y0: number, lo: number, hi: number, curve: Cur
   }
   const notes: string[] = [];
   if (roots.length > 1) notes.push(`${roots.length} solutions in the data range (${roots.map((r) => r.toPrecision(6)).join(', ')}); the smallest is reported`);
-  if (lower === null || upper === null) notes.push('the prediction band contains the response up to the edge of the data range, so the interval is open there');
+  if (lower === null || upper === null) notes.push(inverseText.openAtEdge);
   return { response: y0, x, interval: [lower, upper], ...(notes.length ? { message: notes.join('; ') } : {}) };
 }

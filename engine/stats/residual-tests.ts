@@ -11,7 +11,7 @@
  *   as in the NIST/SEMATECH e-Handbook of Statistical Methods, §1.3.5.13 "Runs test").
  *   Residuals exactly 0 carry no sign and are left out.
  */
-import { normalCdf } from './distributions';
+import { normalUpper } from './distributions';
 
 /**
  * Indices that put `x` in ascending order; ties keep their original (row) order.
@@ -71,5 +71,5 @@ export function runsTest(residuals: ArrayLike<number>, order?: readonly number[]
   const variance = (prod * (prod - total)) / (total * total * (total - 1));
   if (!(variance > 0)) return { observed: runs, expected, pValue: 1 };
   const z = (runs - expected) / Math.sqrt(variance);
-  return { observed: runs, expected, pValue: Math.min(1, 2 * normalCdf(-Math.abs(z))) };
+  return { observed: runs, expected, pValue: Math.min(1, 2 * normalUpper(Math.abs(z))) };
 }

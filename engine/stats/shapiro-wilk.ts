@@ -12,7 +12,7 @@
  * the W-test for normality", Applied Statistics 44(4):547–551.
  * Valid for 3 ≤ n ≤ 5000; null outside, or when the data have zero range.
  */
-import { normalCdf, normalQuantile } from './distributions';
+import { normalQuantile, normalUpper } from './distributions';
 
 /** Coefficients of Royston (1995, AS R94), constant term first. */
 const C1 = [0, 0.221157, -0.147981, -2.07119, 4.434685, -2.706056];
@@ -116,5 +116,5 @@ export function shapiroWilkPValue(w: number, n: number): number {
     mean = poly(C5, ln);
     sd = Math.exp(poly(C6, ln));
   }
-  return 1 - normalCdf(y, mean, sd);
+  return normalUpper(y, mean, sd);
 }

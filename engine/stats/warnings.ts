@@ -8,7 +8,7 @@
  * patterns and normality, the R² caveat) describe a fitted result and are
  * withheld (engine/run/fit-stats.ts).
  */
-import { WARNING_THRESHOLDS as T, num, warningText } from '../messages';
+import { WARNING_THRESHOLDS as T, patternText, warningText } from '../messages';
 import type { FitWarning, ResidualDiagnostics, StopReason } from '../result';
 
 export interface WarningInput {
@@ -71,9 +71,9 @@ export function fitWarnings(input: WarningInput): FitWarning[] {
   }
   const patterns: string[] = [];
   const runs = input.residuals.runs;
-  if (runs && runs.pValue < T.pValue) patterns.push(`runs test: ${runs.observed} runs where ${num(runs.expected)} are expected, p = ${num(runs.pValue)}`);
+  if (runs && runs.pValue < T.pValue) patterns.push(patternText.runs(runs.observed, runs.expected, runs.pValue));
   const dw = input.residuals.durbinWatson;
-  if (dw !== null && Math.abs(dw - 2) > T.durbinWatsonDistance) patterns.push(`Durbin–Watson d = ${num(dw)}, far from 2`);
+  if (dw !== null && Math.abs(dw - 2) > T.durbinWatsonDistance) patterns.push(patternText.durbinWatson(dw));
   if (patterns.length) out.push({ code: 'residual_pattern', message: warningText.residual_pattern(patterns.join('; ')) });
   const sw = input.residuals.shapiroWilk;
   if (sw && sw.pValue < T.pValue) out.push({ code: 'non_normal_residuals', message: warningText.non_normal_residuals(sw.w, sw.pValue) });

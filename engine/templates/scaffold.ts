@@ -6,6 +6,7 @@ import { FUNCTIONS } from '../../parser/plan';
 import { StringLiteral } from '../../parser/tokens';
 import { cleanPairs, round4 } from './heuristics';
 import type { Template } from './types';
+import { scaffoldText } from '../messages';
 
 export interface ScaffoldInput {
   template: Template;
@@ -83,16 +84,16 @@ export function scaffoldSpec(input: ScaffoldInput): ScaffoldResult {
   const t = input.template;
   const xRef = columnRef(input.x);
   const yRef = columnRef(input.y);
-  if (xRef === null || yRef === null) return { ok: false, message: `column name ${JSON.stringify(xRef === null ? input.x : input.y)} cannot be written in a spec (it contains a double quote, a line break or a control character)` };
+  if (xRef === null || yRef === null) return { ok: false, message: scaffoldText.unwritableColumn(xRef === null ? input.x : input.y) };
   const dataRef = specString(input.dataPath);
   if (dataRef === null) {
-    return { ok: false, message: `the data path ${JSON.stringify(input.dataPath)} cannot be written in a spec (it contains a double quote, a line break or a control character, and spec text has no escapes); rename the file` };
+    return { ok: false, message: scaffoldText.unwritablePath(input.dataPath) };
   }
 
   const original = cleanPairs(input.xValues, input.yValues);
   let d = original;
   const need = t.parameters.length + 1;
-  if (d.x.length < need) return { ok: false, message: `${t.title} has ${t.parameters.length} parameters and needs at least ${need} rows with numbers in both ${input.x} and ${input.y}; found ${d.x.length}` };
+  if (d.x.length < need) return { ok: false, message: scaffoldText.tooFewRows(t.title, t.parameters.length, need, input.x, input.y, d.x.length) };
   let predictor = xRef;
   const header: string[] = [];
   if (t.prepare) {
@@ -101,10 +102,10 @@ export function scaffoldSpec(input: ScaffoldInput): ScaffoldResult {
     predictor = p.x;
     if (p.note) header.push(p.note);
   }
-  if (t.requires.includes('positive_x') && d.x.some((v) => !(v > 0))) return { ok: false, message: `${t.title} needs every ${input.x} value to be positive` };
-  if (t.requires.includes('nonnegative_x') && d.x.some((v) => !(v >= 0))) return { ok: false, message: `${t.title} needs every ${input.x} value to be zero or positive` };
-  if (t.requires.includes('two_positive_x') && new Set(d.x.filter((v) => v > 0)).size < 2) return { ok: false, message: `${t.title} needs at least two different positive ${input.x} values` };
-  if (t.requires.includes('positive_y') && d.y.some((v) => !(v > 0))) return { ok: false, message: `${t.title} needs every ${input.y} value to be positive` };
+  if (t.requires.includes('positive_x') && d.x.some((v) => !(v > 0))) return { ok: false, message: scaffoldText.positiveX(t.title, input.x) };
+  if (t.requires.includes('nonnegative_x') && d.x.some((v) => !(v >= 0))) return { ok: false, message: scaffoldText.nonnegativeX(t.title, input.x) };
+  if (t.requires.includes('two_positive_x') && new Set(d.x.filter((v) => v > 0)).size < 2) return { ok: false, message: scaffoldText.twoPositiveX(t.title, input.x) };
+  if (t.requires.includes('positive_y') && d.y.some((v) => !(v > 0))) return { ok: false, message: scaffoldText.positiveY(t.title, input.y) };
 
   // Parameter names must not clash with column names or constants.
   const taken = new Set([...input.headers, ...(t.constants ?? []).map((c) => c.name)]);

@@ -29,6 +29,13 @@ describe('stats/compare', () => {
     expect(r.pValue).toBeCloseTo(1 - fCdf(16 / 3, 2, 16), 14);
     expect(extraSumOfSquaresF({ ...base, fit: 'x', p: 2, ssr: 1, aicc: 0 }, { ...base, fit: 'y', p: 2, ssr: 2, aicc: 0 })).toBeNull();
   });
+
+  it('keeps the digits of a tiny p (upper tail, not 1 − cdf)', () => {
+    // n = 24: F = ((10 − 0.1)/3) / (0.1/20) = 660 with (3, 20) dof; scipy 1.17.1 f.sf(660, 3, 20) = 3.683280560496163e-20
+    const r = extraSumOfSquaresF({ ...base, n: 24, fit: 'simple', p: 1, ssr: 10, aicc: 0 }, { ...base, n: 24, fit: 'rich', p: 4, ssr: 0.1, aicc: 0 })!;
+    expect(r.f).toBeCloseTo(660, 9);
+    expect(Math.abs(r.pValue - 3.683280560496163e-20) / 3.683280560496163e-20).toBeLessThan(1e-9);
+  });
 });
 
 describe('stats/intervals', () => {

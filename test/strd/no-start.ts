@@ -20,6 +20,7 @@ import type { StrdDataset } from './read-strd';
 import { csvText, FIT_NAME, scoreFit, specText } from './pipeline';
 import { lre, RSS_FLOOR_RELATIVE } from './run-strd';
 import { applyRelabelling, bestRelabelling } from './relabel';
+import { LRE_HEADERS, lreCells, plainTable } from './lre-table';
 
 export const NO_START_TARGETS = { rss: 7, params: 9, se: 9 } as const;
 
@@ -80,21 +81,17 @@ export async function runNoStart(ds: StrdDataset, dir: string): Promise<NoStartR
 
 /** Plain-text table of no-start rows. */
 export function noStartTable(rows: readonly NoStartRow[]): string {
-  const head = ['dataset', 'LRE params', 'LRE SE', 'LRE RSS', 'relabelled', 'starts', 'minima', 'stop', 'target'];
+  const head = ['dataset', ...LRE_HEADERS, 'relabelled', 'starts', 'minima', 'stop', 'target'];
   const body = rows.map((r) => [
     r.dataset,
-    r.minLreParams.toFixed(1),
-    r.minLreSE.toFixed(1),
-    r.lreRSS.toFixed(1) + (r.floor ? '*' : ''),
+    ...lreCells(r),
     r.relabelled ? 'yes' : '',
     String(r.fit?.search?.points ?? '-'),
     String(r.fit?.search?.minima.length ?? '-'),
     r.fit?.stop.code ?? 'no fit',
     meetsNoStartTargets(r) ? 'ok' : 'BELOW',
   ]);
-  const widths = head.map((h, k) => Math.max(h.length, ...body.map((b) => b[k].length)));
-  const line = (cells: string[]) => cells.map((c, k) => (k >= 1 && k <= 3 ? c.padStart(widths[k]) : c.padEnd(widths[k]))).join('  ');
-  return [line(head), line(widths.map((w) => '-'.repeat(w))), ...body.map(line)].join('\n');
+  return plainTable(head, body, (k) => k >= 1 && k <= 3);
 }
 
 export { RSS_FLOOR_RELATIVE };

@@ -26,6 +26,7 @@ import { runPlan, readHeaderFile, type FitResult, type RunResult } from '../../e
 import type { StrdDataset } from './read-strd';
 import { NONLINEAR_MODELS, LINEAR_MODELS } from './models';
 import { lre, RSS_FLOOR_RELATIVE } from './run-strd';
+import { LRE_HEADERS, lreCells, plainTable } from './lre-table';
 
 /**
  * Non-default fit options per dataset, each with why it is needed. Empty: every
@@ -128,17 +129,13 @@ export async function runViaSpec(ds: StrdDataset, start: 1 | 2 | null, dir: stri
 
 /** Plain-text table of pipeline rows (printed by the test when STRD_TABLE is set). */
 export function pipelineTable(rows: readonly PipelineRow[]): string {
-  const head = ['dataset', 'start', 'LRE params', 'LRE SE', 'LRE RSS', 'iter', 'stop'];
+  const head = ['dataset', 'start', ...LRE_HEADERS, 'iter', 'stop'];
   const body = rows.map((r) => [
     r.dataset,
     r.start === null ? 'linear' : String(r.start),
-    r.minLreParams.toFixed(1),
-    r.minLreSE.toFixed(1),
-    r.lreRSS.toFixed(1) + (r.floor ? '*' : ''),
+    ...lreCells(r),
     String(r.fit?.iterations ?? '-'),
     r.fit?.stop.code ?? 'no fit',
   ]);
-  const widths = head.map((h, k) => Math.max(h.length, ...body.map((b) => b[k].length)));
-  const line = (cells: string[]) => cells.map((c, k) => (k >= 2 && k <= 5 ? c.padStart(widths[k]) : c.padEnd(widths[k]))).join('  ');
-  return [line(head), line(widths.map((w) => '-'.repeat(w))), ...body.map(line)].join('\n');
+  return plainTable(head, body, (k) => k >= 2 && k <= 5);
 }

@@ -16,22 +16,19 @@ import { strdDir, strdAvailable, listDatasets, readStrd } from './read-strd';
 import { runAll, meetsTargets, NLS_ORDER, LLS_ORDER, TARGETS, type StrdRow, type StrdVariant } from './run-strd';
 import { makeWorkDir } from './pipeline';
 import { meetsNoStartTargets, noStartTable, NO_START_TARGETS, runNoStart, type NoStartRow } from './no-start';
+import { LRE_HEADERS, lreCells, plainTable } from './lre-table';
 
 function table(rows: StrdRow[]): string {
-  const head = ['dataset', 'start', 'LRE params', 'LRE SE', 'LRE RSS', 'iter', 'stop', 'target'];
+  const head = ['dataset', 'start', ...LRE_HEADERS, 'iter', 'stop', 'target'];
   const body = rows.map((r) => [
     r.dataset,
     r.start === null ? 'linear' : String(r.start),
-    r.minLreParams.toFixed(1),
-    r.minLreSE.toFixed(1),
-    r.lreRSS.toFixed(1) + (r.floor ? '*' : ''),
+    ...lreCells(r),
     String(r.iterations),
     r.stop,
     meetsTargets(r) ? 'ok' : 'BELOW',
   ]);
-  const widths = head.map((h, k) => Math.max(h.length, ...body.map((b) => b[k].length)));
-  const line = (cells: string[]) => cells.map((c, k) => (k >= 2 && k <= 5 ? c.padStart(widths[k]) : c.padEnd(widths[k]))).join('  ');
-  return [line(head), line(widths.map((w) => '-'.repeat(w))), ...body.map(line)].join('\n');
+  return plainTable(head, body, (k) => k >= 2 && k <= 5);
 }
 
 async function main(argv: string[]): Promise<number> {

@@ -2,7 +2,7 @@
  * Data tables behind the charts, derived from a FitResult. Only what is drawn
  * is thinned (see downsample.ts); nothing here feeds back into statistics.
  */
-import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
+import { normalQuantile } from '../../stats/distributions';
 import type { FitResult } from '../../result';
 import { keepExtremes, keepTails, MAX_MARKS } from './downsample';
 

@@ -182,7 +182,11 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
   const blocks = queryBlocks(result);
   if (blocks.length) {
     lines.push('## Queries', '');
-    for (const b of blocks) append(lines, `### ${mdText(b.heading)}`, '', markdownTable(b.headers, b.rows, b.align), '', b.notes.map(mdText), '');
+    for (const b of blocks) {
+      const lead = (b.lead ?? []).flatMap((l) => [mdText(l), '']);
+      const table = b.rows.length ? [...markdownTable(b.headers, b.rows, b.align), ''] : [];
+      append(lines, `### ${mdText(b.heading)}`, '', lead, table, b.notes.map(mdText), '');
+    }
   }
   const derived = derivedBlock(result);
   if (derived) {

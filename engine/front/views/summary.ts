@@ -7,6 +7,7 @@ import type { Align } from './table';
 import { LOSSES, LOSS_SPECS } from '../../../parser/registry/losses';
 import { METHOD_SPECS } from '../../../parser/registry/methods';
 import { formatEstimate, formatInteger, formatLevel, formatNumber, formatP, isUsable, MISSING } from './format';
+import { comparisonBlock } from './comparison';
 
 /** How the views name the solver and the loss of a fit (labels from parser/registry). */
 export const METHOD_LABEL: Readonly<Record<FitResult['method'], string>> = {
@@ -195,6 +196,8 @@ export function traceHeading(fit: FitResult): string | null {
 
 export interface QueryBlock {
   heading: string;
+  /** Sentences shown between the heading and the table: a comparison's decision first (comparison.ts). */
+  lead?: string[];
   headers: string[];
   rows: string[][];
   /** Column alignment (numbers right, names and notes left). */
@@ -240,20 +243,7 @@ export function queryBlocks(result: RunResult): QueryBlock[] {
         notes: [q.withheld ? q.withheld : 'Interval from inverting the prediction band (one new measurement of the response).'],
       };
     }
-    const notes: string[] = [];
-    if (q.withheld) notes.push(q.withheld);
-    else if (q.fTest) {
-      const t = q.fTest;
-      notes.push(`Extra-sum-of-squares F test, ${t.simpler} inside ${t.richer}: F(${t.df1}, ${t.df2}) = ${formatNumber(t.f, 4)}, p = ${formatP(t.pValue)}.`);
-    }
-    if (!q.withheld) notes.push('Lowest AICc is preferred; the Akaike weight is the relative support among these fits.');
-    return {
-      heading: `Comparison of ${q.fits.join(', ')}`,
-      headers: ['fit', 'n', 'p', 'SSR', 'AICc', 'ΔAICc', 'Akaike weight'],
-      rows: q.rows.map((r) => [r.fit, formatInteger(r.n), formatInteger(r.p), formatNumber(r.ssr, 6), formatNumber(r.aicc, 6), formatNumber(r.deltaAicc, 3), formatNumber(r.akaikeWeight, 3)]),
-      align: ['left', 'right', 'right', 'right', 'right', 'right', 'right'],
-      notes,
-    };
+    return comparisonBlock(q);
   });
 }
 

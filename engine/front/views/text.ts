@@ -61,7 +61,7 @@ export function queryTextLines(result: RunResult): string[] {
   const lines: string[] = [];
   for (const b of queryBlocks(result)) {
     if (lines.length) lines.push('');
-    append(lines, b.heading, textTable(b.headers, b.rows, b.align));
+    append(lines, b.heading, (b.lead ?? []).map((l) => `  ${l}`), b.rows.length ? textTable(b.headers, b.rows, b.align) : []);
     for (const n of b.notes) lines.push(`  ${n}`);
   }
   return lines;

@@ -47,6 +47,7 @@
 import type { LeastSquaresProblem } from '../problem';
 import type { SolveOptions, SolveOutcome } from '../types';
 import { solveNonlinear } from '../nonlinear';
+import { startText, stopText } from '../messages';
 import type { StartInput } from './types';
 import { linearSet } from './separable';
 import { MAX_START_ROWS, thinned } from './guess';
@@ -151,8 +152,8 @@ export function explore(input: ExploreInput): ExploreOutcome {
   const all = parameters.map((_, j) => j);
   const linear = linearSet(fullInput, all);
   const nonlinear = all.filter((j) => !linear.includes(j));
-  if (nonlinear.length === 0) return finish(fromStart, { skipped: 'the model is linear in its parameters' });
-  if (nonlinear.length > SOBOL_MAX_DIMENSION) return finish(fromStart, { skipped: `more than ${SOBOL_MAX_DIMENSION} nonlinear parameters` });
+  if (nonlinear.length === 0) return finish(fromStart, { skipped: startText.skippedLinear });
+  if (nonlinear.length > SOBOL_MAX_DIMENSION) return finish(fromStart, { skipped: startText.skippedDimension(SOBOL_MAX_DIMENSION) });
 
   const d = searchDesign(input, linear, nonlinear, input.points ?? defaultPoints(nonlinear.length));
   const alpha0 = Float64Array.from(nonlinear, (j) => input.theta0[j]);
@@ -253,7 +254,7 @@ export function refineCandidates(
     if (r.stop.converged && !o.stop.converged && o.stop.code === 'small_step' && o.iterations === 0 && ssrOf(o) <= ssrOf(r) * (1 + 1e-12) + 1e-300) {
       // A minimum of the reduced problem is a minimum of the full one (Golub & Pereyra 1973, Thm. 2.1); the full
       // solver finding no descent step from it confirms it (at residuals near the rounding level no step can).
-      o.stop = { code: 'small_step', converged: true, message: `no step of the full problem improves on the converged separable solution (${r.stop.message})` };
+      o.stop = { code: 'small_step', converged: true, message: stopText.separableConfirmed(r.stop.message) };
     }
     addMinimum(minima, { ssr: ssrOf(o), theta: o.theta, converged: o.stop.converged, fromStart: false }, scale);
     // the lowest converged end point is reported (among ends at one minimum, the most accurate one)

@@ -26,6 +26,7 @@ import { gridSearch } from './grid';
 import { recogniseStart } from './recognise';
 import { rationalStart } from './rational';
 import { parameterRoles } from './roles';
+import { startText } from '../messages';
 
 /** Rows used for guessing: at most this many, every ⌈n/MAX_START_ROWS⌉-th row (deterministic thinning). */
 export const MAX_START_ROWS = 5000;
@@ -77,8 +78,8 @@ export function guessStart(full: StartInput): StartGuess {
     evaluated = gridSearch(theta, nonlinear, parameters, input.cols, n, sep, roles);
   }
   const parts: string[] = [];
-  if (linear.length) parts.push(`linear least squares for ${names(linear)}`);
-  if (nonlinear.length) parts.push(`grid search over ${names(nonlinear)} (${evaluated} candidates)`);
+  if (linear.length) parts.push(startText.linear(names(linear)));
+  if (nonlinear.length) parts.push(startText.grid(names(nonlinear), evaluated));
   return { theta, guessed, how: parts.join(', ') };
 }
 

@@ -18,6 +18,7 @@ import { compileModel, isLinearInParameters, type CompiledModel } from '../../co
 import type { Expr } from '../../../parser/plan';
 import { PivotedQR } from '../../linalg/qr';
 import { paramsOfExpr } from './roles';
+import { startText } from '../messages';
 import { lastBinary } from './canonical';
 import type { StartInput } from './types';
 
@@ -105,5 +106,5 @@ export function rationalStart(input: StartInput, unknown: readonly number[]): { 
   parameters.forEach((p, j) => (theta[j] = p.initial ?? 0));
   ia.forEach((j, k) => (theta[j] = good[k]));
   ib.forEach((j, k) => (theta[j] = good[na + k]));
-  return { theta, how: `linearised rational least squares for ${[...parts.a, ...parts.b].join(', ')} (numerator and denominator multiplied out, ${SK_ITERATIONS} reweightings)` };
+  return { theta, how: startText.rational([...parts.a, ...parts.b], SK_ITERATIONS) };
 }

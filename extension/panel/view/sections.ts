@@ -109,7 +109,12 @@ export function checksSection(m: PanelModel): HTMLElement | null {
         h('span', { class: 'lw-verdict' }, e.verdict === 'PASS' ? 'passed' : 'failed'), ' ', h('code', null, e.text), ` — actual ${e.actual}`, e.verdict === 'FAIL' ? `: ${e.message}` : '')))));
   }
   for (const q of m.queries) {
-    parts.push(h('div', { class: 'lw-query' }, table('lw-qtable', q.headers, q.rows, { numeric: () => true, caption: q.heading }), ...q.notes.map((n) => h('p', { class: 'lw-muted' }, n))));
+    // a comparison leads with its decision: heading, sentences, then the evidence table (engine/front/views/comparison.ts)
+    const lead = (q.lead ?? []).map((l) => h('p', { class: 'lw-lead' }, l));
+    const body = lead.length || q.headers.length === 0
+      ? [h('h3', null, q.heading), ...lead, ...(q.rows.length ? [table('lw-qtable', q.headers, q.rows, { numeric: () => true })] : [])]
+      : [table('lw-qtable', q.headers, q.rows, { numeric: () => true, caption: q.heading })];
+    parts.push(h('div', { class: 'lw-query' }, ...body, ...q.notes.map((n) => h('p', { class: 'lw-muted' }, n))));
   }
   return h('section', { class: 'lw-checks', id: 'checks' }, h('h2', null, 'Queries and checks'), ...parts);
 }

@@ -51,7 +51,15 @@ describe('views/text', () => {
     expect(text).toContain('Predictions from cal at conc_mgL');
     expect(text).toContain('Inverse predictions from cal: conc_mgL from absorbance');
     expect(text).toContain('no solution inside the data range');
-    expect(text).toContain('Extra-sum-of-squares F test, cal inside cal_quad: F(1, 15)');
+    // the comparison leads with its decision, then the nested test, then the evidence table (views/comparison)
+    const at = (s: string) => text.indexOf(s);
+    expect(at('Which model the data support: cal, cal_quad')).toBeGreaterThan(0);
+    expect(text).toContain('  The data favour cal over cal_quad: its AICc is lower by 2.53.');
+    expect(text).toContain('  Nested test: cal_quad has 1 more parameter than cal; F(1, 15) = 0.46, p = 0.508,');
+    expect(text).toMatch(/ {2}AICc above the lowest +0 +2\.53\n/);
+    expect(text).toMatch(/ {2}Akaike weight +0\.78 +0\.22\n/);
+    expect(at('The data favour cal')).toBeLessThan(at('Nested test'));
+    expect(at('Nested test')).toBeLessThan(at('  evidence '));
     expect(text).toMatch(/PASS {2}cal\.slope within 0\.11 \.\. 0\.13/);
     expect(text).toMatch(/FAIL {2}cal\.r2 above 0\.99999/);
     expect(text).toContain('1 of 2 expectations passed.');

@@ -1,0 +1,64 @@
+import { describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { comparisonBlock, decisionSentence, nestedTestSentence, AICC_CLEAR, AICC_TIE } from '../../../engine/front/views/comparison';
+import { markdownReport } from '../../../engine/front/views/markdown';
+import { queryTextLines } from '../../../engine/front/views/text';
+import type { QueryResult, RunResult } from '../../../engine/result';
+
+type Comparison = Extract<QueryResult, { kind: 'compare' }>;
+const row = (fit: string, p: number, aicc: number, deltaAicc: number, akaikeWeight: number) => ({ fit, n: 12, p, ssr: 1 / p, aic: aicc - 1, aicc, bic: aicc + 1, deltaAicc, akaikeWeight });
+
+describe('views/comparison', () => {
+  it('reads ΔAICc on the Burnham & Anderson (2002, §2.6) scale: within 2, above 10, between', () => {
+    expect([AICC_TIE, AICC_CLEAR]).toEqual([2, 10]); // Burnham & Anderson 2002, §2.6
+    const best = row('line', 2, 10, 0, 0.7);
+    expect(decisionSentence(best, row('curve', 3, 11.5, 1.5, 0.3))).toBe('The data do not tell line and curve apart: their AICc differ by 1.5, within 2.');
+    expect(decisionSentence(best, row('curve', 3, 12, 2, 0.3))).toContain('do not tell'); // 2 itself is a tie
+    expect(decisionSentence(best, row('curve', 3, 15, 5, 0.1))).toBe('The data favour line over curve: its AICc is lower by 5.');
+    expect(decisionSentence(best, row('curve', 3, 20, 10, 0.01))).toBe('The data favour line over curve: its AICc is lower by 10.');
+    expect(decisionSentence(best, row('curve', 3, 20.5, 10.5, 0.005))).toBe('The data clearly favour line over curve: its AICc is lower by 10.5, more than 10.');
+    expect(decisionSentence(best, row('curve', 11, NaN, NaN, NaN))).toBe('No verdict between line and curve: curve has no AICc (too few points for its parameters).');
+  });
+
+  it('states the nested test with its degrees of freedom and p, and a tiny p as a bound', () => {
+    const t = { f: 660, df1: 3, df2: 20, pValue: 3.7e-20, simpler: 'one', richer: 'four' };
+    expect(nestedTestSentence(t)).toBe('Nested test: four has 3 more parameters than one; F(3, 20) = 660, p < 1e-4, the chance that scatter alone would lower the residual sum of squares this much.');
+    expect(nestedTestSentence({ ...t, df1: 1, f: 0.46, pValue: 0.508 })).toContain('has 1 more parameter than one; F(1, 20) = 0.46, p = 0.508,');
+  });
+
+  it('puts the decision first, one sentence per pair against the lowest AICc, then one column per fit', () => {
+    const q: Comparison = { kind: 'compare', fits: ['a', 'b', 'c'], rows: [row('a', 2, 14, 4, 0.11), row('b', 3, 10, 0, 0.87), row('c', 4, 22, 12, 0.02)] };
+    const b = comparisonBlock(q);
+    expect(b.heading).toBe('Which model the data support: a, b, c');
+    expect(b.lead).toEqual(['The data favour b over a: its AICc is lower by 4.', 'The data clearly favour b over c: its AICc is lower by 12, more than 10.']);
+    expect(b.headers).toEqual(['evidence', 'a', 'b', 'c']);
+    expect(b.rows.map((r) => r[0])).toEqual(['points', 'free parameters', 'residual sum of squares', 'AICc', 'AICc above the lowest', 'Akaike weight']);
+    expect(b.rows[1]).toEqual(['free parameters', '2', '3', '4']);
+    expect(b.notes).toHaveLength(1); // no nested test, no note about nesting
+  });
+
+  it('a withheld comparison shows only why, in text and Markdown', () => {
+    const q: Comparison = { kind: 'compare', fits: ['a', 'b'], rows: [], withheld: 'Withheld: fit a did not converge.' };
+    expect(comparisonBlock(q)).toMatchObject({ lead: [], rows: [], notes: ['Withheld: fit a did not converge.'] });
+    const run = { queries: [q], fits: [], errors: [], expectations: [] } as unknown as RunResult;
+    expect(queryTextLines(run)).toEqual(['Which model the data support: a, b', '  Withheld: fit a did not converge.']);
+  });
+
+  it('the Markdown report shares the block: the heading, each sentence its own paragraph, then the table', () => {
+    const run = JSON.parse(readFileSync(join(__dirname, '../../fixtures/calibration-run.json'), 'utf8')) as RunResult;
+    const md = markdownReport(run);
+    const start = md.indexOf('### Which model the data support: cal, cal_quad');
+    expect(start).toBeGreaterThan(0);
+    const lines = md.slice(start).split('\n');
+    expect(lines.slice(0, 6)).toEqual([
+      '### Which model the data support: cal, cal_quad',
+      '',
+      'The data favour cal over cal_quad: its AICc is lower by 2.53.',
+      '',
+      'Nested test: cal_quad has 1 more parameter than cal; F(1, 15) = 0.46, p = 0.508, the chance that scatter alone would lower the residual sum of squares this much.',
+      '',
+    ]);
+    expect(lines[6]).toBe('| evidence | cal | cal_quad |');
+  });
+});
