@@ -48,3 +48,21 @@ export function normalCdf(x: number, mean = 0, sd = 1): number {
 export function normalQuantile(p: number, mean = 0, sd = 1): number {
   return normalQuantileStd(p, mean, sd);
 }
+
+/**
+ * Upper tail P(T > x) of Student t, as the lower tail at −x (t is symmetric), so a small tail is not lost to
+ * the subtraction 1 − P(T ≤ x).
+ */
+export function tUpper(x: number, dof: number): number {
+  return tCdfStd(-x, dof);
+}
+
+/**
+ * Upper tail P(F > x) of F(d1, d2), as the lower tail of F(d2, d1) at 1/x (1/F has that distribution), so a small
+ * tail is not lost to the subtraction 1 − P(F ≤ x).
+ */
+export function fUpper(x: number, d1: number, d2: number): number {
+  if (Number.isNaN(x)) return NaN;
+  if (x <= 0) return d1 > 0 && d2 > 0 ? 1 : NaN;
+  return fCdfStd(1 / x, d2, d1);
+}

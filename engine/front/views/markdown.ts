@@ -19,6 +19,7 @@ import {
   notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, searchLine, stopLine, warningLines,
 } from './summary';
 import { append, markdownTable } from './table';
+import { flaggedPointRows, flaggedPointsNote } from './influence';
 import { md, mdCode, mdFence, mdHref, mdLinkText, mdText, type Markdown } from './escape';
 import {
   DETAIL_ALL_GROUPS, detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock,
@@ -102,6 +103,13 @@ function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
   append(lines, markdownTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']), '');
   lines.push('### Goodness of fit', '');
   append(lines, markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left']), '');
+  const flagged = flaggedPointRows(fit);
+  const flaggedNote = flaggedPointsNote(fit);
+  if (flagged.rows.length || flaggedNote) {
+    lines.push('### Rows to check', '');
+    if (flagged.rows.length) append(lines, markdownTable(flagged.headers, flagged.rows, flagged.align), '');
+    if (flaggedNote) lines.push(mdText(flaggedNote), '');
+  }
   const warnings = warningLines(fit);
   if (warnings.length) {
     append(lines, '### Warnings', '', warnings.map((w) => `- ${mdText(w)}`), '');
