@@ -43,7 +43,8 @@ export function curvatureTest(qr: PivotedQR, r: ArrayLike<number>, fitted: Array
   for (let i = 0; i < n; i++) d = Math.max(d, Math.abs(fitted[i] - mean));
   if (!(d > 0) || !Number.isFinite(d)) return null;
   const z = new Float64Array(n);
-  const qr_ = Float64Array.from({ length: n }, (_, i) => r[i]);
+  const rq = new Float64Array(n);
+  for (let i = 0; i < n; i++) rq[i] = r[i];
   let zNorm2 = 0;
   for (let i = 0; i < n; i++) {
     const u = (fitted[i] - mean) / d;
@@ -51,14 +52,14 @@ export function curvatureTest(qr: PivotedQR, r: ArrayLike<number>, fitted: Array
     zNorm2 += z[i] * z[i];
   }
   qr.applyQt(z);
-  qr.applyQt(qr_);
+  qr.applyQt(rq);
   let zz = 0;
   let zr = 0;
   let rr = 0;
   for (let j = k; j < n; j++) {
     zz += z[j] * z[j];
-    zr += z[j] * qr_[j];
-    rr += qr_[j] * qr_[j];
+    zr += z[j] * rq[j];
+    rr += rq[j] * rq[j];
   }
   if (!(zz > SPAN_RELATIVE * SPAN_RELATIVE * zNorm2)) return null;
   const ssr = rr - (zr * zr) / zz;

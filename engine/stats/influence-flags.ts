@@ -25,6 +25,9 @@ import type { Influence } from './influence';
 import { INFLUENCE_THRESHOLDS as T } from './influence-thresholds';
 import { tQuantile, tUpper } from './distributions';
 
+/** Rows whose value a warning text can quote (engine/messages.ts shows at most 5). */
+const QUOTED_ROWS = 10;
+
 export interface FlagInput {
   inf: Influence;
   /** Data row (file line) of each point. */
@@ -44,6 +47,7 @@ export function influenceReport(input: FlagInput): InfluenceReport {
   const cooksNotice = T.cooksNoticeNumerator / n;
   const dofDeleted = nu - 1;
   const outlierCritical = dofDeleted >= 1 && n > 0 ? tQuantile(1 - T.outlierLevel / (2 * n), dofDeleted) : null;
+  const critical = outlierCritical !== null && Number.isFinite(outlierCritical) ? outlierCritical : null;
   const exact = inf.exact.map((i) => rows[i]);
   const exactSet = new Set(inf.exact);
   const highLeverage: number[] = [];
@@ -58,14 +62,16 @@ export function influenceReport(input: FlagInput): InfluenceReport {
     if (d > T.cooksWarning) influential.push(rows[i]);
     if (d > cooksNotice) notable.push(rows[i]);
     const t = inf.deletedStudentized[i];
-    if (dofDeleted >= 1 && Number.isFinite(t)) {
+    // |t| ≤ the critical value means an adjusted p ≥ the level: the tail (a beta function) is evaluated only beyond it,
+    // with a margin of 1e-9 relative so a p at the level is decided by the tail itself
+    if (dofDeleted >= 1 && Number.isFinite(t) && !(Math.abs(t) <= (critical ?? Infinity) * (1 - 1e-9))) {
       const adjusted = Math.min(1, n * 2 * tUpper(Math.abs(t), dofDeleted));
       if (adjusted < T.outlierLevel) outliers.push({ row: rows[i], t, pValue: adjusted });
     }
   }
   return {
     linearised: !input.linear, leverageCutoff, cooksCutoff: T.cooksWarning, cooksNotice, outlierLevel: T.outlierLevel,
-    outlierCritical: outlierCritical !== null && Number.isFinite(outlierCritical) ? outlierCritical : null,
+    outlierCritical: critical,
     exact, highLeverage, influential, notable, outliers,
   };
 }
@@ -73,17 +79,19 @@ export function influenceReport(input: FlagInput): InfluenceReport {
 /** The warnings of the report and of the two residual tests, in the order exact, leverage, influence, outliers, lack of fit, curvature. */
 export function influenceWarnings(report: InfluenceReport, inf: Influence, rows: ArrayLike<number>, lackOfFit: LackOfFitTest | undefined, curvature: CurvatureTest | null | undefined, dofDeleted: number): FitWarning[] {
   const out: FitWarning[] = [];
+  // the index of each row a text quotes a value of (only the first few of each list: no map over every row)
+  const quoted = new Set([...report.highLeverage.slice(0, QUOTED_ROWS), ...report.influential.slice(0, QUOTED_ROWS)]);
   const indexOf = new Map<number, number>();
-  for (let i = 0; i < rows.length; i++) if (!indexOf.has(rows[i])) indexOf.set(rows[i], i);
+  if (quoted.size) for (let i = 0; i < rows.length; i++) if (quoted.has(rows[i]) && !indexOf.has(rows[i])) indexOf.set(rows[i], i);
   const at = (row: number) => indexOf.get(row) ?? -1;
   const lin = report.linearised;
   if (report.exact.length) out.push({ code: 'exact_point', message: warningText.exact_point(report.exact), rows: report.exact });
   if (report.highLeverage.length) {
-    const values = report.highLeverage.map((r) => inf.leverage[at(r)]);
+    const values = report.highLeverage.slice(0, QUOTED_ROWS).map((r) => inf.leverage[at(r)]);
     out.push({ code: 'high_leverage', message: warningText.high_leverage(report.highLeverage, values, report.leverageCutoff, lin), rows: report.highLeverage });
   }
   if (report.influential.length) {
-    const values = report.influential.map((r) => inf.cooksDistance[at(r)]);
+    const values = report.influential.slice(0, QUOTED_ROWS).map((r) => inf.cooksDistance[at(r)]);
     out.push({ code: 'influential_point', message: warningText.influential_point(report.influential, values, report.cooksCutoff, lin), rows: report.influential });
   }
   if (report.outliers.length) {

@@ -16,7 +16,10 @@
  * No test (f and p null, with the reason) when no setting repeats, when m ≤ k (the
  * model can pass through every setting's mean) or when the pure error is zero
  * (SS_PE ≤ 1e-24·SSR, `PURE_ERROR_ROUNDING`).
- * Cost O(n·c) for c predictor columns (one hash map of the settings).
+ * Settings are found by sorting the rows on their predictor values (skipped when the
+ * data are already in order): O(n·log n·c) time for c predictor columns, two n-long
+ * integer arrays, no per-row strings or hash map (a million distinct settings cost
+ * 8 MB, not the hundreds a map of keys would).
  */
 import type { LackOfFitTest } from '../result';
 import { fUpper } from './distributions';
@@ -40,19 +43,7 @@ export const lackOfFitNotes = {
  */
 export function lackOfFit(columns: readonly ArrayLike<number>[], r: ArrayLike<number>, weights: ArrayLike<number> | null, rank: number, c = 1): LackOfFitTest {
   const n = r.length;
-  const groupOf = new Int32Array(n);
-  const index = new Map<string, number>();
-  for (let i = 0; i < n; i++) {
-    let key = '';
-    for (const col of columns) key += `${col[i]};`;
-    let g = index.get(key);
-    if (g === undefined) {
-      g = index.size;
-      index.set(key, g);
-    }
-    groupOf[i] = g;
-  }
-  const m = index.size;
+  const { groupOf, m } = settings(columns, n);
   const count = new Int32Array(m);
   const wSum = new Float64Array(m);
   const weSum = new Float64Array(m);
@@ -83,4 +74,27 @@ export function lackOfFit(columns: readonly ArrayLike<number>[], r: ArrayLike<nu
   if (!(pe > PURE_ERROR_ROUNDING * (pe + lof))) return none(lackOfFitNotes.noPureError);
   const f = (lof / dfLackOfFit) / (pe / dfPureError);
   return { levels: m, replicatedRows, ssLackOfFit: c * c * lof, ssPureError: c * c * pe, dfLackOfFit, dfPureError, f, pValue: fUpper(f, dfLackOfFit, dfPureError), note: null };
+}
+
+/** The setting of each row (0…m − 1) and the number m of distinct settings: rows equal in every column share one. */
+export function settings(columns: readonly ArrayLike<number>[], n: number): { groupOf: Int32Array; m: number } {
+  const compare = (a: number, b: number): number => {
+    for (const col of columns) {
+      const d = col[a] - col[b];
+      if (d !== 0) return d < 0 ? -1 : 1;
+    }
+    return 0;
+  };
+  const order = new Int32Array(n);
+  for (let i = 0; i < n; i++) order[i] = i;
+  let sorted = true;
+  for (let i = 1; i < n && sorted; i++) sorted = compare(i - 1, i) <= 0;
+  if (!sorted) order.sort(compare);
+  const groupOf = new Int32Array(n);
+  let m = 0;
+  for (let k = 0; k < n; k++) {
+    if (k > 0 && compare(order[k - 1], order[k]) !== 0) m++;
+    groupOf[order[k]] = m;
+  }
+  return { groupOf, m: n > 0 ? m + 1 : 0 };
 }

@@ -100,9 +100,11 @@ export function flaggedPointRows(fit: FitResult): { headers: string[]; align: Al
   for (const r of inf.outliers) add(r.row, `outlier (adjusted p ${formatP(r.pValue)})`);
   for (const r of inf.influential) add(r, `influential (D > ${formatNumber(inf.cooksCutoff, 3)})`);
   for (const r of inf.highLeverage) add(r, `high leverage (h > ${formatNumber(inf.leverageCutoff, 3)})`);
-  const indexOf = new Map<number, number>();
-  fit.points.row.forEach((r, i) => { if (!indexOf.has(r)) indexOf.set(r, i); });
   const ordered = [...flags.keys()].sort((a, b) => a - b);
+  const shown = new Set(ordered.slice(0, FLAGGED_ROWS_SHOWN));
+  // indices of the shown rows only (one pass, no map over every row of a large fit)
+  const indexOf = new Map<number, number>();
+  fit.points.row.forEach((r, i) => { if (shown.has(r) && !indexOf.has(r)) indexOf.set(r, i); });
   const p = fit.points;
   const cell = (v: number | null | undefined) => (isUsable(v) ? formatNumber(v, 4) : 'n/a');
   const rows = ordered.slice(0, FLAGGED_ROWS_SHOWN).map((r) => {
@@ -124,7 +126,8 @@ export function flaggedPointsNote(fit: FitResult): string | null {
   const parts = [
     `Rules: leverage above 2p/n and Cook's distance above 1 (rules of thumb, common practice); outliers by the Bonferroni-adjusted test on the studentized deleted residuals (Weisberg, Applied Linear Regression, §9.1.3)${inf.linearised ? '; for this nonlinear model all figures are those of its linearisation at the estimate' : ''}.`,
   ];
-  const notice = inf.notable.filter((r) => !inf.influential.includes(r));
+  const influential = new Set(inf.influential);
+  const notice = inf.notable.filter((r) => !influential.has(r));
   if (notice.length) parts.push(`Cook's distance above 4/n = ${formatNumber(inf.cooksNotice, 3)} (worth a look, common practice): row${notice.length === 1 ? '' : 's'} ${notice.slice(0, 10).join(', ')}${notice.length > 10 ? ` and ${notice.length - 10} more` : ''}.`);
   if (more > 0) parts.push(`${more} more flagged row${more === 1 ? '' : 's'} in the JSON output.`);
   return parts.join(' ');
