@@ -39,8 +39,9 @@ export const INFLUENCE_THRESHOLDS = {
    */
   curvatureLevel: 0.01,
   /**
-   * Durbin–Watson hints: d within durbinWatsonNear of 2 reads as "no sign of serial correlation", below
-   * 2 − durbinWatsonNear as positive, above 2 + durbinWatsonNear as negative serial correlation. The 1.5…2.5 band is a
+   * Durbin–Watson hints: d within durbinWatsonNear of 2 reads as "no sign of serial correlation", beyond it as a
+   * hint of positive (below 2) or negative (above 2) serial correlation, and beyond the warning's distance
+   * (WARNING_THRESHOLDS.durbinWatsonDistance, 1) as serial correlation. The 1.5…2.5 band is a
    * rule of thumb (common practice); the exact bounds depend on n and p (Durbin & Watson 1951, Biometrika 38:159–178),
    * which a hint does not try to reproduce.
    */

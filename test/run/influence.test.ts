@@ -147,7 +147,7 @@ describe('influence and outliers in a run', () => {
     const f = await fitLine(x, x.map((v) => 1 + 0.2 * v + Math.sin(v / 4)));
     expect(f.residuals.durbinWatson!).toBeLessThan(0.5);
     const text = runText({ ...emptyRun(), fits: [f] });
-    expect(text).toMatch(/Durbin–Watson\s+[0-9.]+\s+\(in order of x; well below 2: neighbouring residuals are alike/);
+    expect(text).toMatch(/Durbin–Watson\s+[0-9.]+\s+\(in order of x; far below 2: neighbouring residuals alike/);
     expect(text).not.toContain('near 2');
   });
 });

@@ -10,6 +10,7 @@ import type { FitResult } from '../../result';
 import type { Align } from './table';
 import type { Entry } from './summary';
 import { INFLUENCE_THRESHOLDS as T } from '../../stats/influence-thresholds';
+import { WARNING_THRESHOLDS } from '../../messages';
 import { formatInteger, formatNumber, formatP, isUsable } from './format';
 
 /** What the residuals' order is: along the predictor (single-predictor fits) or the rows as read. */
@@ -17,12 +18,21 @@ function orderText(fit: FitResult): string {
   return fit.predictor ? `in order of ${fit.predictor}` : 'in row order';
 }
 
-/** The hint beside a Durbin–Watson d: its reading follows the value (band ±durbinWatsonNear around 2, common practice). */
+/**
+ * The hint beside a Durbin–Watson d: its reading follows the value. Within durbinWatsonNear of 2 (common practice):
+ * no sign of serial correlation; up to the warning's distance (WARNING_THRESHOLDS.durbinWatsonDistance): a hint only;
+ * beyond it: the reading of the warning.
+ */
 export function durbinWatsonHint(d: number, fit: FitResult): string {
   const order = orderText(fit);
-  if (Math.abs(d - 2) <= T.durbinWatsonNear) return `${order}; near 2: no sign of serial correlation`;
-  if (d < 2) return `${order}; well below 2: neighbouring residuals are alike (positive serial correlation, or a trend or bend the model misses)`;
-  return `${order}; well above 2: neighbouring residuals alternate in sign (negative serial correlation)`;
+  const off = Math.abs(d - 2);
+  if (off <= T.durbinWatsonNear) return `${order}; near 2: no sign of serial correlation`;
+  const side = d < 2
+    ? 'neighbouring residuals alike (positive serial correlation, or a trend or bend the model misses)'
+    : 'neighbouring residuals alternating in sign (negative serial correlation)';
+  return off <= WARNING_THRESHOLDS.durbinWatsonDistance
+    ? `${order}; ${d < 2 ? 'below' : 'above'} 2: a hint of ${side}, not conclusive`
+    : `${order}; far ${d < 2 ? 'below' : 'above'} 2: ${side}`;
 }
 
 /** The hint beside the runs test: counts, and what too few or too many runs mean when p < runsHintLevel. */
