@@ -16,7 +16,15 @@
  * bands are withheld (NaN / null), and so are the warnings computed from
  * them (engine/stats/warnings.ts); fitted values and residuals at the last
  * iterate are kept, for the views to show as such.
- * Residual diagnostics (Durbin–Watson, runs, Shapiro–Wilk) are null when
+ * Per-point influence (engine/stats/influence.ts: leverage from the QR factor
+ * of the covariance Jacobian, Cook's distance, studentized deleted residuals)
+ * uses s estimated from the residuals also when σ is absolute (a σ known up to
+ * a factor gives the same figures); robust fits: leverage of the reweighted
+ * Jacobian with the plain residuals, as before, and the curvature test on the
+ * reweighted step's residuals (orthogonal to that Jacobian's span). The rows
+ * flagged and their warnings: engine/stats/influence-flags.ts; lack of fit
+ * (engine/stats/lack-of-fit.ts) over the model columns' settings.
+ * Residual diagnostics (Durbin–Watson, runs, Shapiro–Wilk, curvature) are null when
  * dof ≤ 0 or when the residuals are at rounding level:
  * √(SSR/n) ≤ ROUNDING_LEVEL·max|√wᵢyᵢ| (an exact fit; their signs and
  * distribution are then noise of the arithmetic, not of the data).

@@ -131,6 +131,40 @@ describe('influence and outliers in a run', () => {
     expect(markdownReport(result)).toContain('all figures are those of its linearisation at the estimate');
   });
 
+  it('a weighted fit (sigma column): leverage, Cook distance and deleted residuals of the whole run equal numpy/scipy', async () => {
+    // invented sensor data with σ growing with x; reference: numpy 2.4.6 (QR of the weighted design, textbook formulas,
+    // checked there by leave-one-out refits), the values of test/stats/influence.test.ts
+    const x = [0.0, 5.0, 10.0, 15.0, 20.0, 25.0, 30.0, 35.0, 40.0, 45.0, 50.0, 60.0];
+    const y = [1.02, 1.49, 2.11, 2.48, 3.19, 3.61, 4.28, 4.71, 5.52, 5.86, 6.73, 8.62];
+    const sigma = [0.02, 0.04, 0.06, 0.08, 0.1, 0.12000000000000001, 0.13999999999999999, 0.16, 0.18, 0.19999999999999998, 0.22, 0.26];
+    const ref = { h: [0.9067219378936939, 0.2190590711456254, 0.2115981595361278, 0.1968491711854629, 0.16606513077544918, 0.13421246751360436, 0.11208465211667998, 0.10651537341467844, 0.12186881052416997, 0.16101892931005224, 0.22592129072517256, 0.43808500585928367], cooks: [0.4199243504870074, 0.022038711071430874, 0.26028371635850794, 0.055232429878596355, 0.0720297943802121, 0.009051529965401326, 0.002120435098385702, 0.03521455465288603, 0.0012409192826159938, 0.13865709295780226, 0.017553120014677383, 0.9676718722364516], deleted: [-0.34187881555900695, -0.4638404668010763, 1.954866424167973, -0.8060643787605417, 1.047290157922695, -0.398494834873267, 0.21224078439389207, -0.9347408651416849, 0.15464565474158037, -1.5930199076542153, -0.4045507436898185, 2.376054727455834] };
+    const dir = tempDir();
+    writeCsv(dir, 's.csv', ['x', 'y', 's'], x.map((v, i) => [v, y[i], sigma[i]]));
+    const { result } = await runSpec('data d = "s.csv"\nfit q on d {\n  model y = a + b * x + c * x^2\n  sigma s\n  param a\n  param b\n  param c\n}\n', dir);
+    const f = result.fits[0];
+    expect(f.sigmaAbsolute).toBe(true);
+    for (let i = 0; i < x.length; i++) {
+      expect(Math.abs(f.points.leverage[i] - ref.h[i])).toBeLessThan(1e-10);
+      expect(f.points.cooksDistance[i] / ref.cooks[i]).toBeCloseTo(1, 8);
+      expect(f.points.deletedStudentized![i] / ref.deleted[i]).toBeCloseTo(1, 8);
+    }
+  });
+
+  it('a robust fit (huber) gets its figures, a report and the curvature test without error', async () => {
+    const z = normals(3, 20);
+    const x = Array.from({ length: 20 }, (_, i) => i);
+    const y = x.map((v, i) => 1 + 0.5 * v + 0.2 * z[i]);
+    y[10] += 5;
+    const dir = tempDir();
+    writeCsv(dir, 'r.csv', ['x', 'y'], x.map((v, i) => [v, y[i]]));
+    const { result } = await runSpec('data d = "r.csv"\nfit line on d {\n  model y = a + b * x\n  param a = 1\n  param b = 1\n  loss huber\n}\n', dir);
+    const f = result.fits[0];
+    expect(f.stop.converged).toBe(true);
+    expect(f.influence).toBeDefined();
+    expect(f.residuals.curvature).not.toBeNull();
+    expect(f.points.deletedStudentized!.every((v) => Number.isFinite(v))).toBe(true);
+  });
+
   it('a fit that did not converge has no influence report and no influence warnings', async () => {
     const dir = tempDir();
     writeCsv(dir, 'c.csv', ['t', 'y'], [[0, 5], [1, 3], [2, 2], [3, 1.4], [4, 1.1]]);
