@@ -165,6 +165,21 @@ describe('influence and outliers in a run', () => {
     expect(f.points.deletedStudentized!.every((v) => Number.isFinite(v))).toBe(true);
   });
 
+  it('a logistic curve: no curvature test (its tangent space holds the squared fitted value), and the summary says so', async () => {
+    // ŷ = low + (high − low)·g with ∂ŷ/∂ic50 ∝ g(1 − g): g² lies in the span of the Jacobian, so Tukey's column adds nothing
+    const dose = [0.01, 0.03, 0.1, 0.3, 1, 3, 10, 30, 100];
+    const z = normals(21, 18);
+    const rows = dose.flatMap((d, k) => [0, 1].map((j) => [d, 5 + 90 / (1 + (d / 1.5) ** 1.1) + 1.5 * z[2 * k + j]]));
+    const dir = tempDir();
+    writeCsv(dir, 'l.csv', ['dose', 'y'], rows);
+    const { result } = await runSpec('data d = "l.csv"\nfit curve on d {\n  model y = low + (high - low) / (1 + (dose / ic50)^hill)\n  param high = 100\n  param low = 0\n  param ic50 = 1\n  param hill = 1\n}\n', dir);
+    const f = result.fits[0];
+    expect(f.stop.converged).toBe(true);
+    expect(f.residuals.curvature).toBeNull();
+    expect(runText(result)).toMatch(/curvature test\s+not run\s+\(the model's own shape already contains the squared fitted value/);
+    expect(f.residuals.lackOfFit?.f).not.toBeNull(); // duplicates at 9 doses: the lack-of-fit test still runs
+  });
+
   it('a fit that did not converge has no influence report and no influence warnings', async () => {
     const dir = tempDir();
     writeCsv(dir, 'c.csv', ['t', 'y'], [[0, 5], [1, 3], [2, 2], [3, 1.4], [4, 1.1]]);

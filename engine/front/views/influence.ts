@@ -60,6 +60,15 @@ export function influenceEntries(fit: FitResult): Entry[] {
     }
   }
   const cv = fit.residuals.curvature;
+  if (cv === null && fit.stop.converged) {
+    out.push({
+      label: 'curvature test',
+      value: 'not run',
+      note: fit.residuals.shapiroWilk === null && fit.residuals.runs === null && fit.residuals.durbinWatson === null
+        ? 'residuals at rounding level or no degrees of freedom'
+        : "the model's own shape already contains the squared fitted value (as a logistic curve's does), the fitted values are constant, or too few degrees of freedom",
+    });
+  }
   if (cv) {
     out.push({
       label: 'curvature test p',
