@@ -15,6 +15,21 @@ export function listLines(lines: ArrayLike<number>): string {
   return lines.length > 10 ? `${shown} and ${lines.length - 10} more` : shown;
 }
 
+/** Rows named in a warning's text (its `rows` field has all of them). */
+const ROWS_IN_TEXT = 5;
+
+/** The first ROWS_IN_TEXT row numbers, then how many more. */
+export function rowList(rows: readonly number[]): string {
+  const shown = rows.slice(0, ROWS_IN_TEXT).join(', ');
+  return rows.length > ROWS_IN_TEXT ? `${shown} and ${rows.length - ROWS_IN_TEXT} more` : shown;
+}
+
+/** `7 (D = 1.39), 9 (D = 1.2)`: the first ROWS_IN_TEXT rows with a value each, then how many more. */
+function rowValues(rows: readonly number[], values: readonly number[], label: string): string {
+  const shown = rows.slice(0, ROWS_IN_TEXT).map((r, i) => `${r} (${label} = ${num(values[i])})`).join(', ');
+  return rows.length > ROWS_IN_TEXT ? `${shown} and ${rows.length - ROWS_IN_TEXT} more` : shown;
+}
+
 export function num(x: number): string {
   if (!Number.isFinite(x)) return String(x);
   return Number(x.toPrecision(6)).toString();
@@ -72,6 +87,20 @@ export const warningText = {
       : `the fit from the shared starting values did not converge (${first}), nor did fits from starting values computed from its own data and a multi-start search on it; the first attempt is reported`,
   profile_differs: (param: string, profile: string, wald: string) =>
     `the curvature of the model makes the symmetric interval misleading for ${param}: the profile interval is ${profile}, the symmetric one ${wald}; use the profile interval`,
+  exact_point: (rows: readonly number[]) =>
+    rows.length === 1
+      ? `the fit passes through row ${rows[0]} (leverage 1): its residual carries no information, so the data cannot check the model there and it has no studentized residual or Cook's distance`
+      : `the fit passes through rows ${rowList(rows)} (leverage 1): their residuals carry no information, so the data cannot check the model there and they have no studentized residuals or Cook's distances`,
+  high_leverage: (rows: readonly number[], h: readonly number[], cutoff: number, linearised: boolean) =>
+    `${rows.length === 1 ? 'row' : 'rows'} ${rowValues(rows, h, 'h')} ha${rows.length === 1 ? 's' : 've'} high leverage (above 2p/n = ${num(cutoff)}, a rule of thumb of common practice${linearised ? '; leverage of the linearised model' : ''}): the fit leans on ${rows.length === 1 ? 'it' : 'them'}, so check ${rows.length === 1 ? 'its value' : 'their values'}`,
+  influential_point: (rows: readonly number[], d: readonly number[], cutoff: number, linearised: boolean) =>
+    `${rows.length === 1 ? 'row' : 'rows'} ${rowValues(rows, d, 'D')} ${rows.length === 1 ? 'is' : 'are'} influential (Cook's distance above ${num(cutoff)}, a rule of thumb of common practice${linearised ? '; from the linearised model' : ''}): leaving ${rows.length === 1 ? 'it' : 'one'} out moves the estimates markedly`,
+  outlier: (outliers: readonly { row: number; t: number; pValue: number }[], level: number, n: number, dof: number, linearised: boolean) =>
+    `${outliers.length === 1 ? 'row' : 'rows'} ${rowValues(outliers.map((o) => o.row), outliers.map((o) => o.t), 't')} ${outliers.length === 1 ? 'is an outlier' : 'are outliers'} (studentized deleted residual, Bonferroni-adjusted p ${outliers.length === 1 ? `= ${num(outliers[0].pValue)}` : `≤ ${num(Math.max(...outliers.slice(0, 100).map((o) => o.pValue)))}`} < ${num(level)}: each row tested at ${num(level)}/${n} with t on ${dof} degrees of freedom${linearised ? ', linearised model' : ''}); check ${outliers.length === 1 ? 'it' : 'them'} for a recording or measurement error`,
+  lack_of_fit: (f: number, df1: number, df2: number, p: number, level: number) =>
+    `the model misses the means of the replicates (lack-of-fit F(${df1}, ${df2}) = ${num(f)}, p = ${num(p)} < ${num(level)}): the scatter between replicates is smaller than the model's misfit - the model may be the wrong shape`,
+  curvature: (t: number, dof: number, p: number, level: number, linearised: boolean) =>
+    `curvature: the residuals bend with the fitted value (t = ${num(t)} on ${dof} degrees of freedom for an added squared fitted value, p = ${num(p)} < ${num(level)}${linearised ? ', linearised model' : ''}); the model may miss a bend in the data - consider another shape or a curved term`,
 } satisfies Record<WarningCode, (...args: never[]) => string> & Record<string, (...args: never[]) => string>;
 
 /** Notes added to a fit's stop message by the multi-start search (engine/run/fit.ts). */

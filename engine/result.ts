@@ -99,13 +99,25 @@ export type WarningCode =
   /** A group of a per-group fit failed from the shared start and was fitted again from its own start. */
   | 'retried_start'
   /** A parameter whose profile-likelihood interval differs materially from its symmetric (Wald) interval (engine/run/profile-fit.ts). */
-  | 'profile_differs';
+  | 'profile_differs'
+  /** The fit passes through a point (leverage 1): its residual carries no information (engine/stats/influence.ts). */
+  | 'exact_point'
+  /** Leverage above 2p/n (common practice). */
+  | 'high_leverage'
+  /** Cook distance above 1 (common practice). */
+  | 'influential_point'
+  /** Bonferroni-adjusted outlier test on the studentized deleted residuals. */
+  | 'outlier'
+  /** Lack-of-fit F test against pure error from replicated predictor values. */
+  | 'lack_of_fit'
+  /** The residuals bend systematically with the fitted value (engine/stats/curvature.ts). */
+  | 'curvature';
 
 /** Every warning code (a code added to `WarningCode` without its entry here does not compile). */
 export const WARNING_CODES: readonly WarningCode[] = Object.freeze(Object.keys({
   at_bound: 1, high_correlation: 1, ill_conditioned: 1, few_dof: 1, no_convergence: 1, residual_pattern: 1,
   non_normal_residuals: 1, r2_nonlinear: 1, rows_dropped: 1, rank_deficient: 1, guessed_start: 1, lower_minimum: 1,
-  retried_start: 1, profile_differs: 1,
+  retried_start: 1, profile_differs: 1, exact_point: 1, high_leverage: 1, influential_point: 1, outlier: 1, lack_of_fit: 1, curvature: 1,
 } satisfies Record<WarningCode, 1>) as WarningCode[]);
 
 export interface FitWarning {
@@ -113,6 +125,8 @@ export interface FitWarning {
   message: string;
   /** Parameter(s) the warning is about, so editors can place it on a declaration. */
   parameters?: string[];
+  /** Data rows the warning names, all of them (`PointTable.row` numbers; the message lists the first few; additive, optional). */
+  rows?: number[];
 }
 
 export interface ParameterResult {
@@ -202,6 +216,62 @@ export interface ResidualDiagnostics {
   runs: { observed: number; expected: number; pValue: number } | null;
   /** Shapiro–Wilk W and p (Royston 1995, AS R94), for 3 ≤ n ≤ 5000. */
   shapiroWilk: { w: number; pValue: number } | null;
+  /**
+   * Lack-of-fit F test against pure error (engine/stats/lack-of-fit.ts; additive, optional: absent for a fit that
+   * did not converge). `f` and `pValue` are null when there is no test, and `note` says why (no replicates, …).
+   */
+  lackOfFit?: LackOfFitTest;
+  /** Curvature test of the residuals against the squared fitted value (engine/stats/curvature.ts); null when it cannot be computed (additive, optional). */
+  curvature?: CurvatureTest | null;
+}
+
+/** Lack-of-fit F test: SS_LOF/(m − p) over SS_PE/(n − m), m the number of distinct predictor settings. */
+export interface LackOfFitTest {
+  /** Distinct settings of the predictor columns (m). */
+  levels: number;
+  /** Rows whose setting occurs more than once. */
+  replicatedRows: number;
+  /** Lack-of-fit and pure-error sums of squares (weighted, in response units squared); null without a test. */
+  ssLackOfFit: number | null;
+  ssPureError: number | null;
+  /** Degrees of freedom m − rank and n − m. */
+  dfLackOfFit: number;
+  dfPureError: number;
+  f: number | null;
+  pValue: number | null;
+  /** Why there is no test (null when there is one). */
+  note: string | null;
+}
+
+/** t test of the coefficient of the centred squared fitted value added to the (linearised) model. */
+export interface CurvatureTest {
+  t: number;
+  dof: number;
+  /** Two-sided p. */
+  pValue: number;
+}
+
+/** Rows flagged by the influence and outlier rules (engine/stats/influence-flags.ts), with the thresholds applied. */
+export interface InfluenceReport {
+  /** Nonlinear model: the figures are those of the tangent-plane linearisation at the estimate. */
+  linearised: boolean;
+  /** Leverage above which a row is flagged: 2p/n (common practice). */
+  leverageCutoff: number;
+  /** Cook's distance above which a row is flagged as influential: 1 (common practice). */
+  cooksCutoff: number;
+  /** Cook's distance above which a row is listed as worth a look: 4/n (common practice; no warning). */
+  cooksNotice: number;
+  /** Family-wise level of the Bonferroni outlier test (each row tested at outlierLevel/n). */
+  outlierLevel: number;
+  /** |studentized deleted residual| above which a row is an outlier: t quantile 1 − level/(2n) with n − p − 1 dof; null when dof ≤ 0. */
+  outlierCritical: number | null;
+  /** Rows with leverage 1 (within the tolerance of engine/stats/influence.ts): the fit passes through them. */
+  exact: number[];
+  highLeverage: number[];
+  influential: number[];
+  notable: number[];
+  /** Outliers: row, studentized deleted residual, Bonferroni-adjusted p = min(1, n·p). */
+  outliers: { row: number; t: number; pValue: number }[];
 }
 
 /** Per-point arrays, all of length n, in data row order after filtering. */
@@ -217,6 +287,11 @@ export interface PointTable {
   standardized: number[];
   /** Internally studentized residual r / (s·sqrt(1 − h)). */
   studentized: number[];
+  /**
+   * Studentized deleted (externally studentized) residual r / (s₍ᵢ₎·sqrt(1 − h)), s₍ᵢ₎ without the row
+   * (engine/stats/influence.ts; additive, optional: absent in results written before it existed).
+   */
+  deletedStudentized?: number[];
   leverage: number[];
   cooksDistance: number[];
   weight: number[] | null;
@@ -351,6 +426,8 @@ export interface FitResult {
    */
   excluded?: ExcludedPoints;
   warnings: FitWarning[];
+  /** Rows flagged by leverage, Cook's distance and the outlier test, with the thresholds (additive, optional: absent for a fit that did not converge). */
+  influence?: InfluenceReport;
   /** The multi-start search, when it ran (additive, optional). */
   search?: SearchResult;
   /** A robust loss: the scale used and each point's final weight (additive, optional; absent for squared loss or a fit that did not converge). */

@@ -16,7 +16,15 @@
  * bands are withheld (NaN / null), and so are the warnings computed from
  * them (engine/stats/warnings.ts); fitted values and residuals at the last
  * iterate are kept, for the views to show as such.
- * Residual diagnostics (Durbin–Watson, runs, Shapiro–Wilk) are null when
+ * Per-point influence (engine/stats/influence.ts: leverage from the QR factor
+ * of the covariance Jacobian, Cook's distance, studentized deleted residuals)
+ * uses s estimated from the residuals also when σ is absolute (a σ known up to
+ * a factor gives the same figures); robust fits: leverage of the reweighted
+ * Jacobian with the plain residuals, as before, and the curvature test on the
+ * reweighted step's residuals (orthogonal to that Jacobian's span). The rows
+ * flagged and their warnings: engine/stats/influence-flags.ts; lack of fit
+ * (engine/stats/lack-of-fit.ts) over the model columns' settings.
+ * Residual diagnostics (Durbin–Watson, runs, Shapiro–Wilk, curvature) are null when
  * dof ≤ 0 or when the residuals are at rounding level:
  * √(SSR/n) ≤ ROUNDING_LEVEL·max|√wᵢyᵢ| (an exact fit; their signs and
  * distribution are then noise of the arithmetic, not of the data).
@@ -28,7 +36,10 @@ import type { LeastSquaresProblem } from '../solve/problem';
 import type { SolveOutcome } from '../solve/types';
 import { bandsOver } from '../stats/bands';
 import { goodnessOfFit } from '../stats/goodness';
-import { influence, leverages } from '../stats/influence';
+import { hatDiagonal, influence } from '../stats/influence';
+import { influenceReport, influenceWarnings } from '../stats/influence-flags';
+import { lackOfFit } from '../stats/lack-of-fit';
+import { curvatureTest } from '../stats/curvature';
 import { parameterIntervalsFromSe } from '../stats/intervals';
 import { durbinWatson, orderBy, runsTest } from '../stats/residual-tests';
 import { shapiroWilk } from '../stats/shapiro-wilk';
@@ -57,7 +68,7 @@ export interface FitStatisticsInput {
 
 type StatFields = Pick<
   FitResult,
-  'parameters' | 'covariance' | 'correlation' | 'goodness' | 'residuals' | 'points' | 'bands' | 'predictor' | 'response' | 'sigmaAbsolute' | 'rowsDropped' | 'excluded'
+  'parameters' | 'covariance' | 'correlation' | 'goodness' | 'residuals' | 'points' | 'bands' | 'predictor' | 'response' | 'sigmaAbsolute' | 'rowsDropped' | 'excluded' | 'influence'
 >;
 
 export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; warnings: FitWarning[] } {
@@ -98,19 +109,26 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
   const intervals = parameterIntervalsFromSe(theta, estimated.se, fit.options.level, goodness.dof);
   const correlation = rowsOf(estimated.correlation, p);
 
-  // leverages from the equilibrated Jacobian J·S and its (SJᵀJS)⁻¹: unit-free
-  const jEq = jcov.map((v, k) => v * cov.columnScale[Math.floor(k / n)]);
-  const h = leverages(jEq, n, p, cov.core);
-  const inf = influence(r, h, sScaled, p);
+  // leverages hᵢ = ‖row i of Q₁‖² from the QR of the (robust: reweighted) Jacobian, unit-free (engine/stats/influence.ts)
+  const qr = cov.factor;
+  const h = qr ? hatDiagonal(qr) : new Float64Array(n).fill(p === 0 ? 0 : NaN);
+  const inf = influence(r, h, sScaled, cov.rank, goodness.dof);
   const sqrtW = data.weights ? data.weights.map(Math.sqrt) : null;
   const fitted = data.y.map((y, i) => y - (c * r[i]) / (sqrtW ? sqrtW[i] : 1));
 
-  const residuals: ResidualDiagnostics = residualsAtRoundingLevel(r, data, goodness.dof, c)
-    ? { durbinWatson: null, runs: null, shapiroWilk: null }
+  const exactFit = residualsAtRoundingLevel(r, data, goodness.dof, c);
+  const residuals: ResidualDiagnostics = exactFit
+    ? { durbinWatson: null, runs: null, shapiroWilk: null, lackOfFit: lackOfFit(data.columns, r, data.weights, cov.rank, c), curvature: null }
     : (() => {
         const order = data.x ? orderBy(data.x) : undefined;
-        return { durbinWatson: durbinWatson(r, order), runs: runsTest(r, order), shapiroWilk: shapiroWilk(r) };
+        return {
+          durbinWatson: durbinWatson(r, order), runs: runsTest(r, order), shapiroWilk: shapiroWilk(r),
+          lackOfFit: lackOfFit(data.columns, r, data.weights, cov.rank, c),
+          // robust fits: the residuals of the last reweighted step, orthogonal to its Jacobian's span
+          curvature: qr ? curvatureTest(qr, rcov, fitted, sqrtW && rw ? sqrtW.map((v, i) => v * Math.sqrt(rw[i])) : rw ? rw.map(Math.sqrt) : sqrtW) : null,
+        };
       })();
+  const influenceFlags = influenceReport({ inf, rows: data.lines, rank: cov.rank, linear: input.linear, exactFit });
 
   let bands: FitResult['bands'] = null;
   if (data.x && data.predictor && data.modelColumns.length === 1 && n > 0 && theta.every(Number.isFinite)) {
@@ -166,8 +184,9 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
       sigmaAbsolute: data.sigmaAbsolute,
       rowsDropped: data.rowsDropped,
       ...excludedFields(data),
+      influence: influenceFlags,
     },
-    warnings: withExcludedWarning(warnings, data),
+    warnings: withExcludedWarning([...warnings, ...influenceWarnings(influenceFlags, inf, data.lines, residuals.lackOfFit, residuals.curvature, goodness.dof - 1)], data),
   };
 }
 
@@ -227,7 +246,7 @@ function withheld(input: FitStatisticsInput, r: Float64Array): { fields: StatFie
       correlation: nan(),
       goodness,
       residuals: none,
-      points: pointTable(data, fitted, { standardized: missing, studentized: missing, leverage: missing, cooksDistance: missing }),
+      points: pointTable(data, fitted, { standardized: missing, studentized: missing, deletedStudentized: missing, leverage: missing, cooksDistance: missing }),
       bands: null,
       predictor: data.predictor,
       response: exprText(fit.blocks[0].response),
@@ -262,7 +281,11 @@ function parameterRows(input: FitStatisticsInput, theta: Float64Array, intervalO
 }
 
 /** The per-point table: data, fitted values and residuals, and the influence columns given. */
-function pointTable(data: FitData, fitted: Float64Array, inf: { standardized: ArrayLike<number>; studentized: ArrayLike<number>; leverage: ArrayLike<number>; cooksDistance: ArrayLike<number> }): FitResult['points'] {
+function pointTable(
+  data: FitData,
+  fitted: Float64Array,
+  inf: { standardized: ArrayLike<number>; studentized: ArrayLike<number>; deletedStudentized: ArrayLike<number>; leverage: ArrayLike<number>; cooksDistance: ArrayLike<number> },
+): FitResult['points'] {
   return {
     row: toNumberArray(data.lines),
     x: data.x ? toNumberArray(data.x) : null,
@@ -271,6 +294,7 @@ function pointTable(data: FitData, fitted: Float64Array, inf: { standardized: Ar
     residual: numberArrayOf(data.n, (i) => data.y[i] - fitted[i]),
     standardized: toNumberArray(inf.standardized),
     studentized: toNumberArray(inf.studentized),
+    deletedStudentized: toNumberArray(inf.deletedStudentized),
     leverage: toNumberArray(inf.leverage),
     cooksDistance: toNumberArray(inf.cooksDistance),
     weight: data.weights ? toNumberArray(data.weights) : null,

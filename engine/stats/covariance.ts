@@ -41,6 +41,8 @@ export interface CovarianceResult {
   condition: number;
   /** The relative rank tolerance used. */
   tolerance: number;
+  /** The QR factor of J·S·P (for leverages and tests in the column space of J); null when none was computed. */
+  factor: PivotedQR | null;
 }
 
 export interface CovarianceOptions {
@@ -50,14 +52,14 @@ export interface CovarianceOptions {
 
 export function unscaledCovariance(jacobian: Float64Array, n: number, p: number, options: CovarianceOptions = {}): CovarianceResult {
   if (p === 0) {
-    return { unscaled: new Float64Array(0), core: new Float64Array(0), columnScale: new Float64Array(0), p, rank: 0, rankDeficient: false, dependent: [], condition: 1, tolerance: 0 };
+    return { unscaled: new Float64Array(0), core: new Float64Array(0), columnScale: new Float64Array(0), p, rank: 0, rankDeficient: false, dependent: [], condition: 1, tolerance: 0, factor: null };
   }
   let finite = true;
   for (let i = 0; i < n * p; i++) if (!Number.isFinite(jacobian[i])) { finite = false; break; }
   if (!finite || n === 0) {
     return {
       unscaled: new Float64Array(p * p).fill(NaN), core: new Float64Array(p * p).fill(NaN), columnScale: new Float64Array(p).fill(NaN), p, rank: 0, rankDeficient: true,
-      dependent: Array.from({ length: p }, (_, j) => j), condition: Infinity, tolerance: NaN,
+      dependent: Array.from({ length: p }, (_, j) => j), condition: Infinity, tolerance: NaN, factor: null,
     };
   }
   const qr = new PivotedQR(n, p).factor(jacobian, n, p, { pivot: true, scale: true, rankTolerance: options.rankTolerance });
@@ -70,6 +72,7 @@ export function unscaledCovariance(jacobian: Float64Array, n: number, p: number,
     unscaled, core, columnScale: Float64Array.from(qr.scale.subarray(0, p)), p, rank: qr.rank, rankDeficient: qr.rank < p, dependent,
     condition: qr.rank < p || n < p ? Infinity : conditionOfR(qr),
     tolerance: qr.tolerance,
+    factor: qr,
   };
 }
 

@@ -51,10 +51,16 @@ const WARNING_SEVERITY: Record<WarningCode, LsqSeverity> = {
   lower_minimum: 'warning',
   retried_start: 'info',
   profile_differs: 'warning',
+  exact_point: 'warning',
+  high_leverage: 'info',
+  influential_point: 'warning',
+  outlier: 'warning',
+  lack_of_fit: 'warning',
+  curvature: 'warning',
 };
 
 const PARAM_WARNINGS: readonly WarningCode[] = ['at_bound', 'high_correlation', 'guessed_start'];
-const MODEL_WARNINGS: readonly WarningCode[] = ['residual_pattern', 'non_normal_residuals'];
+const MODEL_WARNINGS: readonly WarningCode[] = ['residual_pattern', 'non_normal_residuals', 'lack_of_fit', 'curvature'];
 
 /** All diagnostics of a spec, sorted by position. */
 export function specDiagnostics(analysis: EditorAnalysis, run?: RunResult): LsqDiagnostic[] {

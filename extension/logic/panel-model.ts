@@ -21,6 +21,7 @@ import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { GroupFlag } from '../../engine/groups/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
 import { formatNumber } from '../../engine/front/views/format';
+import { flaggedPointRows, flaggedPointsNote } from '../../engine/front/views/influence';
 import { groupParameterCharts } from './panel-group-charts';
 
 export const PANEL_MODEL_VERSION = 1 as const;
@@ -60,6 +61,11 @@ export interface PanelFit {
   correlations: { a: string; b: string; r: string }[];
   /** Profile-likelihood intervals (engine/front/views/profile.ts): the line saying what was done, and the table when computed; null when the fit has none (additive). */
   profile?: { line: string; headers: string[]; rows: string[][] } | null;
+  /**
+   * Rows flagged by the influence and outlier rules (engine/front/views/influence.ts `flaggedPointRows`, the same
+   * table as the CLI and the report) and the note on their rules; no rows and a null note when nothing is flagged.
+   */
+  flaggedPoints: { headers: string[]; rows: string[][]; note: string | null };
   /** Charts, or null when they are sent on request. */
   charts: PanelChart[] | null;
 }
@@ -190,6 +196,7 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     warnings: warningLines(f),
     correlations: highCorrelations(f),
     profile: panelProfile(f),
+    flaggedPoints: flaggedPoints(f),
     charts: withCharts ? panelCharts(f) : null,
   };
 }
@@ -223,6 +230,11 @@ function keyStats(f: FitResult): PanelFit['keyStats'] {
   out.push({ label: 'R²', value: formatNumber(g.r2, 5), title: f.method === 'linear' ? 'coefficient of determination' : 'coefficient of determination (descriptive only for a nonlinear model)' });
   out.push({ label: 'AICc', value: formatNumber(g.aicc, 5), title: 'small-sample Akaike information criterion' });
   return out;
+}
+
+function flaggedPoints(f: FitResult): PanelFit['flaggedPoints'] {
+  const t = flaggedPointRows(f);
+  return { headers: t.headers, rows: t.rows, note: flaggedPointsNote(f) };
 }
 
 function highCorrelations(f: FitResult): { a: string; b: string; r: string }[] {

@@ -20,6 +20,7 @@ import {
 } from './summary';
 import { append, markdownTable } from './table';
 import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from './profile';
+import { flaggedPointRows, flaggedPointsNote } from './influence';
 import { md, mdCode, mdFence, mdHref, mdLinkText, mdText, type Markdown } from './escape';
 import {
   DETAIL_ALL_GROUPS, detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock,
@@ -107,6 +108,13 @@ function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
   if (hasProfileTable(fit)) append(lines, markdownTable(PROFILE_HEADERS(fit.level), profileRows(fit), ['left', 'right', 'right', 'left']), '');
   lines.push('### Goodness of fit', '');
   append(lines, markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left']), '');
+  const flagged = flaggedPointRows(fit);
+  const flaggedNote = flaggedPointsNote(fit);
+  if (flagged.rows.length || flaggedNote) {
+    lines.push('### Rows to check', '');
+    if (flagged.rows.length) append(lines, markdownTable(flagged.headers, flagged.rows, flagged.align), '');
+    if (flaggedNote) lines.push(mdText(flaggedNote), '');
+  }
   const warnings = warningLines(fit);
   if (warnings.length) {
     append(lines, '### Warnings', '', warnings.map((w) => `- ${mdText(w)}`), '');

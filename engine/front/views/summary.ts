@@ -8,6 +8,7 @@ import { LOSSES, LOSS_SPECS } from '../../../parser/registry/losses';
 import { METHOD_SPECS } from '../../../parser/registry/methods';
 import { formatEstimate, formatInteger, formatLevel, formatNumber, formatP, isUsable, MISSING } from './format';
 import { comparisonBlock } from './comparison';
+import { durbinWatsonHint, influenceEntries, runsHint } from './influence';
 
 /** How the views name the solver and the loss of a fit (labels from parser/registry). */
 export const METHOD_LABEL: Readonly<Record<FitResult['method'], string>> = {
@@ -158,9 +159,10 @@ export function goodnessEntries(fit: FitResult): Entry[] {
   e.push({ label: 'AIC', value: formatNumber(g.aic, 6) }, { label: 'AICc', value: formatNumber(g.aicc, 6) }, { label: 'BIC', value: formatNumber(g.bic, 6) });
   e.push({ label: 'condition number', value: formatNumber(g.condition, 3), note: isUsable(g.condition) && g.condition > 1e8 ? 'large: parameters nearly redundant' : undefined });
   const r = fit.residuals;
-  if (r.durbinWatson !== null) e.push({ label: 'Durbin–Watson', value: formatNumber(r.durbinWatson, 3), note: 'near 2: no serial correlation' });
-  if (r.runs) e.push({ label: 'runs test p', value: formatP(r.runs.pValue), note: `${r.runs.observed} runs, ${formatNumber(r.runs.expected, 3)} expected` });
+  if (r.durbinWatson !== null) e.push({ label: 'Durbin–Watson', value: formatNumber(r.durbinWatson, 3), note: durbinWatsonHint(r.durbinWatson, fit) });
+  if (r.runs) e.push({ label: 'runs test p', value: formatP(r.runs.pValue), note: runsHint(r.runs, fit) });
   if (r.shapiroWilk) e.push({ label: 'Shapiro–Wilk p', value: formatP(r.shapiroWilk.pValue), note: `W = ${formatNumber(r.shapiroWilk.w, 4)}` });
+  e.push(...influenceEntries(fit));
   return e;
 }
 

@@ -11,6 +11,7 @@ import {
   parameterRows, queryBlocks, robustLine, searchLine, stopLine, TRACE_HEADERS, traceHeading, traceRows, warningLines,
 } from './summary';
 import { append, maxOf, textTable } from './table';
+import { flaggedPointRows, flaggedPointsNote } from './influence';
 import { inlineText } from './escape';
 import {
   detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock, worstGroupLines, type FitSection,
@@ -44,6 +45,10 @@ export function fitTextLines(fit: FitResult): string[] {
     const line = `    ${e.label.padEnd(w)}  ${e.value.padStart(vw)}${e.note ? `   (${e.note})` : ''}`;
     lines.push(line);
   }
+  const flagged = flaggedPointRows(fit);
+  const flaggedNote = flaggedPointsNote(fit);
+  if (flagged.rows.length) append(lines, '', '  Rows to check', textTable(flagged.headers, flagged.rows, flagged.align, '    '));
+  if (flaggedNote) lines.push(`    ${flaggedNote}`);
   const warnings = warningLines(fit);
   if (warnings.length) {
     lines.push('', '  Warnings');

@@ -39,6 +39,12 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
       ? table('lw-corr', ['parameters', 'correlation'], fit.correlations.map((c) => [`${c.a} · ${c.b}`, c.r]), { numeric: (j) => j === 1, caption: 'High correlations (|r| ≥ 0.95)' })
       : null,
   );
+  const fp = fit.flaggedPoints;
+  const flaggedRows = fp && (fp.rows.length || fp.note)
+    ? h('div', { class: 'lw-flagged-points' },
+        fp.rows.length ? table('lw-points', fp.headers, fp.rows, { numeric: (j) => j < fp.headers.length - 1, caption: 'Rows to check' }) : null,
+        fp.note ? h('p', { class: 'lw-muted' }, fp.note) : null)
+    : null;
   const stats = h('dl', { class: 'lw-keystats' }, ...fit.keyStats.map((k) => h('div', { title: k.title }, h('dt', null, k.label), h('dd', null, k.value))));
   const charts = h('div', { class: 'lw-charts' });
   if (fit.charts) fillCharts(charts, fit.charts, events, pending, width);
@@ -63,6 +69,7 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
             ? table('lw-profile-table', fit.profile.headers, fit.profile.rows, { numeric: (j) => j === 1 || j === 2, caption: 'Profile-likelihood intervals' })
             : null)
       : null,
+    flaggedRows,
     stats,
     charts,
     h('details', { class: 'lw-details' }, h('summary', null, 'All statistics and residual tests'), goodness),
