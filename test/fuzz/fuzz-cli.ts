@@ -9,7 +9,7 @@
  * (test/fuzz/run-case.ts), in W worker threads (default 2). A case that
  * spends more than its budget (default 20,000 ms) is a hang: its worker is
  * stopped and replaced. The budget is CPU time of the case's own thread
- * (Linux: /proc/<pid>/task/<tid>/stat), so a busy machine does not turn slow
+ * (test/fuzz/thread-cpu.ts), so a busy machine does not turn slow
  * cases into hangs; a case whose thread has not run for 3 s past its budget
  * of wall time (a blocked read, a promise that never settles), or that takes
  * 10 times its budget in wall time, is a hang too. Where the thread's CPU
@@ -20,7 +20,7 @@
  * by case shape; exit code 0 when no case was internal, unlocated, parity or
  * hang, else 1.
  */
-import { mkdirSync, mkdtempSync, readFileSync, realpathSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
@@ -28,6 +28,7 @@ import { loadCorpus, specCase, FULL, type SpecCase } from './specs';
 import { csvCase, CSV_FULL } from './csv';
 import { Rand } from './random';
 import { OUTCOMES, runCase, type CaseResult, type Outcome } from './run-case';
+import { threadCpu, threadFolder } from './thread-cpu';
 
 type Kind = 'spec' | 'csv';
 
@@ -83,33 +84,13 @@ interface Hello { thread: string | null }
 const WALL_FACTOR = 10;
 /** Polls, a second apart, that find the thread not running and its CPU time unchanged before a case is called blocked. */
 const BLOCKED_POLLS = 3;
-/** USER_HZ, the unit of CPU times in /proc: 100 on Linux for every architecture Node supports (proc(5)). */
-const CLOCK_TICKS = 100;
-
-/** CPU time (user + system, ms) and scheduler state of a thread, from /proc/<pid>/task/<tid>/stat (proc(5): fields 3, 14, 15). */
-function threadCpu(thread: string): { ms: number; running: boolean } | null {
-  try {
-    const stat = readFileSync(path.join(thread, 'stat'), 'utf8');
-    const f = stat.slice(stat.lastIndexOf(')') + 2).split(' '); // f[0] is field 3
-    const ticks = Number(f[11]) + Number(f[12]);
-    return Number.isFinite(ticks) ? { ms: (ticks * 1000) / CLOCK_TICKS, running: f[0] === 'R' } : null;
-  } catch {
-    return null;
-  }
-}
 
 // ---- worker --------------------------------------------------------------------
 
 if (!isMainThread && (workerData as { role?: string })?.role === 'fuzz-worker') {
   const corpus = loadCorpus(ROOT);
   const dir = mkdtempSync(path.join(os.tmpdir(), 'leastwise-fuzz-'));
-  let thread: string | null = null;
-  try {
-    thread = realpathSync('/proc/thread-self');
-  } catch {
-    // not Linux: the driver falls back to wall time
-  }
-  parentPort!.postMessage({ thread } satisfies Hello);
+  parentPort!.postMessage({ thread: threadFolder() } satisfies Hello); // null (not Linux): the driver falls back to wall time
   parentPort!.on('message', async (job: Job | 'stop') => {
     if (job === 'stop') {
       rmSync(dir, { recursive: true, force: true });
