@@ -6,9 +6,14 @@
  *
  * Generates N cases of the kind (default: 1000 spec cases, seed 1) and runs
  * each like `leastwise check` then `fit` with every view of the result
- * (test/fuzz/run-case.ts), in W worker threads (default 2). A case that runs
- * longer than its budget (default 20,000 ms) is a hang: its worker is
- * stopped and replaced. Every case that is not ok or located (internal,
+ * (test/fuzz/run-case.ts), in W worker threads (default 2). A case that
+ * spends more than its budget (default 20,000 ms) is a hang: its worker is
+ * stopped and replaced. The budget is CPU time of the case's own thread
+ * (test/fuzz/thread-cpu.ts), so a busy machine does not turn slow
+ * cases into hangs; a case whose thread has not run for 3 s past its budget
+ * of wall time (a blocked read, a promise that never settles), or that takes
+ * 10 times its budget in wall time, is a hang too. Where the thread's CPU
+ * time cannot be read, the budget is wall time. Every case that is not ok or located (internal,
  * unlocated, parity, hang) is saved to DIR/<kind>-<seed>-<index>/ (default
  * ./fuzz-cases) with its spec, its data files and what happened, and listed
  * at the end; `--only I` reruns case I alone. Prints a tally by outcome and
@@ -23,6 +28,7 @@ import { loadCorpus, specCase, FULL, type SpecCase } from './specs';
 import { csvCase, CSV_FULL } from './csv';
 import { Rand } from './random';
 import { OUTCOMES, runCase, type CaseResult, type Outcome } from './run-case';
+import { threadCpu, threadFolder } from './thread-cpu';
 
 type Kind = 'spec' | 'csv';
 
@@ -71,12 +77,20 @@ function makeCase(kind: Kind, seed: number, index: number, corpus: ReturnType<ty
 
 interface Job { kind: Kind; seed: number; index: number; svg: boolean }
 interface Done { index: number; result: CaseResult; shape: string }
+/** The first message of a worker: its thread's folder under /proc (null where there is none). */
+interface Hello { thread: string | null }
+
+/** Wall time, in budgets, after which a case is a hang whatever its CPU time. */
+const WALL_FACTOR = 10;
+/** Polls, a second apart, that find the thread not running and its CPU time unchanged before a case is called blocked. */
+const BLOCKED_POLLS = 3;
 
 // ---- worker --------------------------------------------------------------------
 
 if (!isMainThread && (workerData as { role?: string })?.role === 'fuzz-worker') {
   const corpus = loadCorpus(ROOT);
   const dir = mkdtempSync(path.join(os.tmpdir(), 'leastwise-fuzz-'));
+  parentPort!.postMessage({ thread: threadFolder() } satisfies Hello); // null (not Linux): the driver falls back to wall time
   parentPort!.on('message', async (job: Job | 'stop') => {
     if (job === 'stop') {
       rmSync(dir, { recursive: true, force: true });
@@ -101,6 +115,8 @@ if (!isMainThread && (workerData as { role?: string })?.role === 'fuzz-worker') 
 class Slot {
   private worker!: Worker;
   private pending: { job: Job; resolve: (d: Done) => void; timer: NodeJS.Timeout } | null = null;
+  /** The worker's thread under /proc, once it said hello. */
+  private thread: Promise<string | null> = Promise.resolve(null);
 
   constructor(private readonly budget: number) {
     this.spawn();
@@ -108,7 +124,10 @@ class Slot {
 
   private spawn(): void {
     this.worker = new Worker(__filename, { workerData: { role: 'fuzz-worker' } });
-    this.worker.on('message', (d: Done) => {
+    let hello!: (t: string | null) => void;
+    this.thread = new Promise((r) => (hello = r));
+    this.worker.on('message', (d: Done | Hello) => {
+      if ('thread' in d) return hello(d.thread);
       const p = this.pending;
       if (!p) return;
       clearTimeout(p.timer);
@@ -116,6 +135,7 @@ class Slot {
       p.resolve(d);
     });
     this.worker.on('error', (e) => {
+      hello(null); // a worker that died before its hello: the next case runs against wall time
       const p = this.pending;
       if (!p) return;
       clearTimeout(p.timer);
@@ -125,15 +145,33 @@ class Slot {
     });
   }
 
-  run(job: Job): Promise<Done> {
+  async run(job: Job): Promise<Done> {
+    const thread = await this.thread;
+    const cpu0 = thread ? threadCpu(thread) : null;
+    const t0 = Date.now();
     return new Promise((resolve) => {
-      const timer = setTimeout(() => {
+      const hang = (why: string): void => {
         this.pending = null;
         void this.worker.terminate();
         this.spawn();
-        resolve({ index: job.index, shape: '?', result: { outcome: 'hang', notes: [`hang: over the ${this.budget} ms budget`], elapsed: this.budget, checkedClean: false } });
-      }, this.budget);
-      this.pending = { job, resolve, timer };
+        const elapsed = Date.now() - t0;
+        resolve({ index: job.index, shape: '?', result: { outcome: 'hang', notes: [`hang: ${why} (${elapsed} ms wall time)`], elapsed, checkedClean: false } });
+      };
+      let lastMs = -1;
+      let idle = 0;
+      const watch = (): void => {
+        if (this.pending?.job !== job) return;
+        const now = thread && cpu0 ? threadCpu(thread) : null;
+        if (!now || !cpu0) return hang(`over the ${this.budget} ms budget of wall time`);
+        const used = Math.round(now.ms - cpu0.ms);
+        if (used >= this.budget) return hang(`over the ${this.budget} ms budget: ${used} ms of CPU time`);
+        if (Date.now() - t0 >= WALL_FACTOR * this.budget) return hang(`over ${WALL_FACTOR} times the ${this.budget} ms budget in wall time (${used} ms of CPU time)`);
+        idle = !now.running && now.ms === lastMs ? idle + 1 : 0;
+        if (idle >= BLOCKED_POLLS) return hang(`blocked: its thread has not run for ${BLOCKED_POLLS} s past the ${this.budget} ms budget (${used} ms of CPU time)`);
+        lastMs = now.ms;
+        this.pending.timer = setTimeout(watch, 1000);
+      };
+      this.pending = { job, resolve, timer: setTimeout(watch, this.budget) };
       this.worker.postMessage(job);
     });
   }

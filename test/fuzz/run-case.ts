@@ -12,8 +12,9 @@
  *             (see SPEC_ERRORS: the errors the spec alone decides);
  *   internal  an exception, an `internal` diagnostic or error, or JavaScript
  *             error text (a stack overflow, "is not a function", …) in a message;
- *   hang      the case ran over its time budget (decided by the campaign
- *             driver, fuzz-cli.ts, which runs cases in a worker thread).
+ *   hang      the case ran over its budget of CPU time, or was blocked
+ *             (decided by the campaign driver, fuzz-cli.ts, which runs cases
+ *             in a worker thread).
  *
  * Data-dependent errors (bad cells, missing files, no usable rows in a
  * group, non-finite values, solver failures) are not parity failures: `check`
