@@ -11,20 +11,27 @@
  *   parameters, or fewer left after the fit): the curve can pass through every
  *   point, so there is no standard error, no interval and no test of fit.
  * - `few_dof`: 0 < ν < `minDof` (default 3, the engine's `few_dof` warning
- *   threshold, WARNING_THRESHOLDS.minDof): intervals are wide and tests weak.
+ *   threshold, THRESHOLDS.minDof): intervals are wide and tests weak.
  * - `at_bound`: at least one parameter estimate sits on a bound.
  * - `poor_fit`:
  *   - with absolute σ (`sigma` given): the χ² statistic is implausible for its
  *     degrees of freedom ν, i.e. P(χ²_ν ≥ χ²) < α (misfit or σ too small) or
  *     P(χ²_ν ≤ χ²) < α (σ too large), each tail at α = `chi2TailProbability`
- *     (default 0.001; common practice for a goodness-of-fit test, see e.g.
- *     Bevington & Robinson, "Data Reduction and Error Analysis", 3rd ed., §11.1);
- *   - without absolute σ: R² < `minR2` (default 0.9). R² is only a rough
- *     screen, most useful when groups share one model shape;
+ *     (default THRESHOLDS.groupChi2Tail, 0.001);
+ *   - without absolute σ, a model linear in its parameters: R² < `minR2`
+ *     (default THRESHOLDS.groupMinR2, 0.9), a rough screen, most useful when
+ *     groups share one model shape;
+ *   - without absolute σ, a model nonlinear in its parameters (the fit carries
+ *     the engine's `r2_nonlinear` warning): not by R², which the engine itself
+ *     says is no measure of fit there (R² can be high for a curve of the wrong
+ *     shape and need not lie in [0, 1]); instead by the engine's residual
+ *     tests, i.e. the fit carries a `residual_pattern` warning (runs test or
+ *     Durbin–Watson beyond engine/thresholds.ts): the residuals run in long
+ *     stretches of one sign, the mark of a curve that misses the data's shape;
  *   - skipped (not flagged) when ν ≤ 0 or the statistic is not finite.
  */
 import chisquareCdf from '@stdlib/stats-base-dists-chisquare-cdf';
-import { WARNING_THRESHOLDS } from '../messages';
+import { THRESHOLDS } from '../thresholds';
 import type { FitResult } from '../result';
 
 export type GroupFlag = 'failed' | 'not_converged' | 'no_dof' | 'few_dof' | 'at_bound' | 'poor_fit';
@@ -35,16 +42,13 @@ export function isGroupFlag(value: unknown): value is GroupFlag {
 }
 
 export interface FlagOptions {
-  /** Poor fit without absolute σ when R² < minR2. Default 0.9. */
+  /** Poor fit of a model linear in its parameters, without absolute σ, when R² < minR2. Default THRESHOLDS.groupMinR2 (0.9). */
   minR2?: number;
-  /** Per-tail probability of the two-sided χ² test with absolute σ. Default 0.001. */
+  /** Per-tail probability of the two-sided χ² test with absolute σ. Default THRESHOLDS.groupChi2Tail (0.001). */
   chi2TailProbability?: number;
-  /** `few_dof` when 0 < ν < minDof. Default WARNING_THRESHOLDS.minDof (3). */
+  /** `few_dof` when 0 < ν < minDof. Default THRESHOLDS.minDof (3). */
   minDof?: number;
 }
-
-export const DEFAULT_MIN_R2 = 0.9;
-export const DEFAULT_CHI2_TAIL = 0.001;
 
 /** The flags of one group's fit, in `GROUP_FLAGS` order. */
 export function flagsOf(fit: FitResult, options: FlagOptions = {}): GroupFlag[] {
@@ -53,7 +57,7 @@ export function flagsOf(fit: FitResult, options: FlagOptions = {}): GroupFlag[] 
   if (!fit.stop.converged) flags.push('not_converged');
   const dof = fit.goodness.dof;
   if (!(dof > 0)) flags.push('no_dof');
-  else if (dof < (options.minDof ?? WARNING_THRESHOLDS.minDof)) flags.push('few_dof');
+  else if (dof < (options.minDof ?? THRESHOLDS.minDof)) flags.push('few_dof');
   if (fit.parameters.some((p) => p.atBound !== null)) flags.push('at_bound');
   if (isPoorFit(fit, options)) flags.push('poor_fit');
   return flags;
@@ -63,11 +67,12 @@ export function flagsOf(fit: FitResult, options: FlagOptions = {}): GroupFlag[] 
 export function isPoorFit(fit: FitResult, options: FlagOptions = {}): boolean {
   const g = fit.goodness;
   if (fit.sigmaAbsolute && g.chi2 !== null) {
-    const alpha = options.chi2TailProbability ?? DEFAULT_CHI2_TAIL;
+    const alpha = options.chi2TailProbability ?? THRESHOLDS.groupChi2Tail;
     if (!(g.dof > 0) || !Number.isFinite(g.chi2)) return false;
     const lower = chisquareCdf(g.chi2, g.dof);
     return lower < alpha || 1 - lower < alpha;
   }
-  const minR2 = options.minR2 ?? DEFAULT_MIN_R2;
+  if (fit.warnings.some((w) => w.code === 'r2_nonlinear')) return fit.warnings.some((w) => w.code === 'residual_pattern');
+  const minR2 = options.minR2 ?? THRESHOLDS.groupMinR2;
   return Number.isFinite(g.r2) && g.r2 < minR2;
 }

@@ -23,6 +23,7 @@ import type { LeastSquaresProblem, CancelToken } from './problem';
 import { type SolveOutcome, stopReason, allFinite, halfSumSquares } from './types';
 import { PivotedQR } from '../linalg/qr';
 import { refineLeastSquares } from './refine';
+import { formatNumber } from '../format';
 
 export interface LinearOptions {
   /** Expansion point θ₀ (default 0); the result does not depend on it for a linear model. */
@@ -106,7 +107,7 @@ export function solveLinear(problem: LeastSquaresProblem, options: LinearOptions
     if (allFinite(hi)) for (let i = 0; i < n; i++) residuals[i] = hi[i] + lo[i];
   }
   const rankNote = qr.rank < p
-    ? `; rank ${qr.rank} < ${p} (|R_kk| ≤ ${qr.tolerance.toExponential(1)}·|R_00|), the ${p - qr.rank} dependent parameter(s) set to their expansion value`
+    ? `; rank ${qr.rank} < ${p} (|R_kk| ≤ ${formatNumber(qr.tolerance, 2)}·|R_00|), the ${p - qr.rank} dependent parameter(s) set to their expansion value`
     : '';
   return {
     theta,

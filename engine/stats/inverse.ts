@@ -17,6 +17,7 @@ import type { InversePrediction } from '../result';
 import type { BandPoints } from './bands';
 import { grid } from './bands';
 import { brentRoot } from './root';
+import { formatNumber } from '../format';
 
 /** Band values at predictor values (fitted and prediction half-widths are used). */
 export type Curve = (xs: Float64Array) => BandPoints;
@@ -76,7 +77,7 @@ export function inversePrediction(y0: number, lo: number, hi: number, curve: Cur
     }
   }
   const notes: string[] = [];
-  if (roots.length > 1) notes.push(`${roots.length} solutions in the data range (${roots.map((r) => r.toPrecision(6)).join(', ')}); the smallest is reported`);
+  if (roots.length > 1) notes.push(`${roots.length} solutions in the data range (${roots.map((r) => formatNumber(r)).join(', ')}); the smallest is reported`);
   if (lower === null || upper === null) notes.push('the prediction band contains the response up to the edge of the data range, so the interval is open there');
   return { response: y0, x, interval: [lower, upper], ...(notes.length ? { message: notes.join('; ') } : {}) };
 }

@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { flagsOf } from '../../engine/groups/flags';
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { FitResult } from '../../engine/result';
-import { WARNING_THRESHOLDS } from '../../engine/messages';
+import { THRESHOLDS as WARNING_THRESHOLDS } from '../../engine/thresholds';
 import { runSpec, tempDir, writeCsv } from '../run/helpers';
 
 const spec = `data d = "lines.csv"

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { WARNING_THRESHOLDS } from '../../engine/messages';
+import { THRESHOLDS as WARNING_THRESHOLDS } from '../../engine/thresholds';
 import { boundHit, fitWarnings, type WarningInput } from '../../engine/stats/warnings';
 
 function base(over: Partial<WarningInput> = {}): WarningInput {
