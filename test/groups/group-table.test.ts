@@ -7,6 +7,8 @@ import { flagsOf, isPoorFit, isGroupFlag } from '../../engine/groups/flags';
 import { quantileSorted, spreadOf } from '../../engine/groups/quantile';
 import type { FitResult } from '../../engine/result';
 import { lineData, lineFit } from '../fixtures/line-fit';
+import { warningText } from '../../engine/messages';
+import { THRESHOLDS } from '../../engine/thresholds';
 
 /** Straight-line fits for groups g0..g(k-1), slopes 0.09, 0.10, ... (invented calibration batches). */
 function groupFits(k: number): FitResult[] {
@@ -58,6 +60,19 @@ describe('engine/groups/flags', () => {
     expect(isPoorFit({ ...f, goodness: { ...f.goodness, r2: 0.89 } })).toBe(true);
     expect(isPoorFit({ ...f, goodness: { ...f.goodness, r2: 0.91 } })).toBe(false);
     expect(isPoorFit({ ...f, goodness: { ...f.goodness, r2: 0.95 } }, { minR2: 0.99 })).toBe(true);
+  });
+
+  it('does not judge a model nonlinear in its parameters by R² (the engine says R² is no measure of fit there): a residual pattern flags it instead', () => {
+    const f = groupFits(1)[0];
+    const r2Nonlinear = { code: 'r2_nonlinear' as const, message: warningText.r2_nonlinear() };
+    const pattern = { code: 'residual_pattern' as const, message: warningText.residual_pattern('runs test: 3 runs where 7 are expected, p = 0.002') };
+    const nonlinear = (r2: number, warnings: FitResult['warnings']): FitResult => ({ ...f, method: 'levenberg_marquardt', goodness: { ...f.goodness, r2 }, warnings });
+    expect(isPoorFit(nonlinear(0.5, [r2Nonlinear]))).toBe(false);
+    expect(isPoorFit(nonlinear(0.999, [r2Nonlinear, pattern]))).toBe(true);
+    expect(flagsOf(nonlinear(0.999, [r2Nonlinear, pattern]))).toEqual(['poor_fit']);
+    // a model linear in its parameters fitted iteratively keeps the R² screen (keyed on the model, not the method)
+    expect(isPoorFit({ ...f, method: 'levenberg_marquardt', goodness: { ...f.goodness, r2: 0.5 } })).toBe(true);
+    expect(THRESHOLDS.groupMinR2).toBe(0.9);
   });
 
   it('uses a two-sided χ² test at 0.001 per tail with absolute sigma, ignoring R²', () => {
