@@ -82,9 +82,18 @@ export const THRESHOLDS = {
    * absolute σ: R² < 0.9. A rough screen, most useful when the groups share
    * one model shape. Common practice. Not used for models nonlinear in their
    * parameters, where R² is not a measure of fit (warning `r2_nonlinear`);
-   * those are flagged by the residual tests instead (engine/groups/flags.ts).
+   * those are flagged by the runs test instead (`groupFamilyAlpha`).
    */
   groupMinR2: 0.9,
+  /**
+   * Group flag `poor_fit` for a model nonlinear in its parameters, without
+   * absolute σ: the runs tests of the fit's groups are decided as one family
+   * by Holm's step-down procedure at family-wise level 0.05 (Holm 1979,
+   * Scand. J. Statist. 6, 65–70), so that chance alone flags a group of a
+   * right model in at most 1 run in 20, however many groups there are. 0.05:
+   * common practice for a family-wise level.
+   */
+  groupFamilyAlpha: 0.05,
   /**
    * Group flag `poor_fit` with absolute σ: the χ² statistic is implausible for
    * its degrees of freedom, P(χ²_ν ≥ χ²) < 0.001 or P(χ²_ν ≤ χ²) < 0.001 (each

@@ -24,10 +24,16 @@
  *   - without absolute σ, a model nonlinear in its parameters (the fit carries
  *     the engine's `r2_nonlinear` warning): not by R², which the engine itself
  *     says is no measure of fit there (R² can be high for a curve of the wrong
- *     shape and need not lie in [0, 1]); instead by the engine's residual
- *     tests, i.e. the fit carries a `residual_pattern` warning (runs test or
- *     Durbin–Watson beyond engine/thresholds.ts): the residuals run in long
- *     stretches of one sign, the mark of a curve that misses the data's shape;
+ *     shape, and low for the right curve under large scatter); instead by the
+ *     runs test of its residual signs (Wald & Wolfowitz 1940): too few runs,
+ *     i.e. long stretches of one sign, is the mark of a curve that misses the
+ *     data's shape. The test runs on every group, so it is decided across the
+ *     fit's groups with Holm's step-down procedure (Holm 1979, "A simple
+ *     sequentially rejective multiple test procedure", Scand. J. Statist. 6)
+ *     at family-wise level THRESHOLDS.groupFamilyAlpha (0.05): chance alone
+ *     then flags a group of a right model in at most 1 of 20 plates, not 1 of
+ *     100 wells. A fit judged alone (`isPoorFit` without `runsRejected`) is a
+ *     family of one: runs p ≤ 0.05;
  *   - skipped (not flagged) when ν ≤ 0 or the statistic is not finite.
  */
 import chisquareCdf from '@stdlib/stats-base-dists-chisquare-cdf';
@@ -48,6 +54,12 @@ export interface FlagOptions {
   chi2TailProbability?: number;
   /** `few_dof` when 0 < ν < minDof. Default THRESHOLDS.minDof (3). */
   minDof?: number;
+  /**
+   * Whether the runs test of this fit is rejected by Holm's procedure across
+   * the fit's groups (`holmRejected`, computed by engine/groups/table.ts).
+   * Default: the fit as a family of one.
+   */
+  runsRejected?: boolean;
 }
 
 /** The flags of one group's fit, in `GROUP_FLAGS` order. */
@@ -72,7 +84,35 @@ export function isPoorFit(fit: FitResult, options: FlagOptions = {}): boolean {
     const lower = chisquareCdf(g.chi2, g.dof);
     return lower < alpha || 1 - lower < alpha;
   }
-  if (fit.warnings.some((w) => w.code === 'r2_nonlinear')) return fit.warnings.some((w) => w.code === 'residual_pattern');
+  if (isNonlinear(fit)) return options.runsRejected ?? holmRejected([runsP(fit)], THRESHOLDS.groupFamilyAlpha)[0];
   const minR2 = options.minR2 ?? THRESHOLDS.groupMinR2;
   return Number.isFinite(g.r2) && g.r2 < minR2;
+}
+
+/** The model is nonlinear in its parameters: the engine gave the fit its `r2_nonlinear` warning (engine/stats/warnings.ts). */
+export function isNonlinear(fit: FitResult): boolean {
+  return fit.warnings.some((w) => w.code === 'r2_nonlinear');
+}
+
+/** The runs test p-value of a fit's residuals, or null when it has none. */
+export function runsP(fit: FitResult): number | null {
+  const p = fit.residuals.runs?.pValue;
+  return typeof p === 'number' && Number.isFinite(p) ? p : null;
+}
+
+/**
+ * Holm's step-down procedure (Holm 1979): with the m usable p-values sorted,
+ * p₍₁₎ ≤ … ≤ p₍ₘ₎, reject the hypotheses of p₍₁₎ … p₍ₖ₎ where k is the last
+ * index with p₍ⱼ₎ ≤ α/(m − j + 1) for every j ≤ k. Controls the family-wise
+ * error rate at α under any dependence. Nulls are not tested (false).
+ */
+export function holmRejected(pValues: readonly (number | null)[], alpha: number): boolean[] {
+  const order = pValues.map((p, i) => ({ p, i })).filter((e): e is { p: number; i: number } => e.p !== null).sort((a, b) => a.p - b.p);
+  const out = pValues.map(() => false);
+  const m = order.length;
+  for (let j = 0; j < m; j++) {
+    if (!(order[j].p <= alpha / (m - j))) break;
+    out[order[j].i] = true;
+  }
+  return out;
 }

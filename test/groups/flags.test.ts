@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { flagsOf } from '../../engine/groups/flags';
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { FitResult } from '../../engine/result';
-import { THRESHOLDS as WARNING_THRESHOLDS } from '../../engine/thresholds';
+import { THRESHOLDS } from '../../engine/thresholds';
 import { normals, runSpec, tempDir, writeCsv } from '../run/helpers';
 
 const spec = `data d = "lines.csv"
@@ -33,7 +33,7 @@ async function fits(): Promise<FitResult[]> {
 describe('engine/groups/flags degrees of freedom', () => {
   it('flags no_dof (n = p) and few_dof (0 < n − p < 3), failed stays exclusive', async () => {
     const byGroup = new Map((await fits()).map((f) => [f.group, f]));
-    expect(WARNING_THRESHOLDS.minDof).toBe(3);
+    expect(THRESHOLDS.minDof).toBe(3);
     expect(byGroup.get('ok')!.goodness.dof).toBe(6);
     expect(flagsOf(byGroup.get('ok')!)).toEqual([]);
     expect(byGroup.get('four')!.goodness.dof).toBe(2);
@@ -64,7 +64,7 @@ fit decay on d {
   per lot
 }`;
 
-  it('is flagged by the residual pattern, not by R²', async () => {
+  it('is flagged by its runs test, not by R²', async () => {
     const dir = tempDir();
     const rows: (string | number)[][] = [];
     // seeded normal scatter (test/fixtures/random.ts); a regression case of this one seed, not a recovery claim
@@ -82,9 +82,9 @@ fit decay on d {
     }
     // the old rule (R² < 0.9 for every fit) flagged the right model under scatter
     expect(noisy.goodness.r2).toBeLessThan(0.9);
-    expect(noisy.warnings.map((w) => w.code)).not.toContain('residual_pattern');
-    expect(flagsOf(noisy)).not.toContain('poor_fit');
-    expect(wave.warnings.map((w) => w.code)).toContain('residual_pattern');
-    expect(flagsOf(wave)).toContain('poor_fit');
+    expect(noisy.residuals.runs!.pValue).toBeGreaterThan(THRESHOLDS.groupFamilyAlpha);
+    expect(wave.residuals.runs!.pValue).toBeLessThan(THRESHOLDS.groupFamilyAlpha / 2);
+    const table = buildGroupTable(result.fits);
+    expect(table.rows.filter((r) => r.flags.includes('poor_fit')).map((r) => r.group)).toEqual(['wave']);
   });
 });

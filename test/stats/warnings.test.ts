@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { THRESHOLDS as WARNING_THRESHOLDS } from '../../engine/thresholds';
+import { THRESHOLDS } from '../../engine/thresholds';
 import { boundHit, fitWarnings, type WarningInput } from '../../engine/stats/warnings';
 
 function base(over: Partial<WarningInput> = {}): WarningInput {
@@ -32,7 +32,7 @@ describe('stats/warnings fitWarnings', () => {
   it('flags each documented condition at its threshold', () => {
     expect(codes({ free: [{ name: 'a', estimate: 0, lower: 0, upper: 1 }], correlation: [[1]] })).toEqual(['at_bound']);
     expect(codes({ correlation: [[1, 0.995], [0.995, 1]] })).toEqual(['high_correlation']);
-    expect(codes({ correlation: [[1, WARNING_THRESHOLDS.correlation], [WARNING_THRESHOLDS.correlation, 1]] })).toEqual([]);
+    expect(codes({ correlation: [[1, THRESHOLDS.correlation], [THRESHOLDS.correlation, 1]] })).toEqual([]);
     expect(codes({ condition: 2e10 })).toEqual(['ill_conditioned']);
     expect(codes({ rank: 1, undetermined: ['b'], condition: Infinity })).toEqual(['rank_deficient']);
     expect(codes({ n: 4 })).toEqual(['few_dof']);
