@@ -155,3 +155,21 @@ describe('engine/format (the one number-formatting policy)', () => {
     expect(CHART_FORMAT.value).toBe(`.${DIGITS.statistic}~g`);
   });
 });
+
+describe('one formatter in the tree', () => {
+  it('no source file outside engine/format.ts formats numbers with toFixed, toPrecision or toExponential', async () => {
+    const { readdirSync, readFileSync, statSync } = await import('node:fs');
+    const path = await import('node:path');
+    const root = path.join(__dirname, '..');
+    const offenders: string[] = [];
+    const walk = (dir: string) => {
+      for (const name of readdirSync(path.join(root, dir))) {
+        const rel = `${dir}/${name}`;
+        if (statSync(path.join(root, rel)).isDirectory()) walk(rel);
+        else if (name.endsWith('.ts') && rel !== 'engine/format.ts' && /\.to(Fixed|Precision|Exponential)\(/.test(readFileSync(path.join(root, rel), 'utf8'))) offenders.push(rel);
+      }
+    };
+    for (const top of ['parser', 'engine', 'extension']) walk(top);
+    expect(offenders).toEqual([]);
+  });
+});
