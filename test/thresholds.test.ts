@@ -8,7 +8,8 @@ import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { CORRELATION_SYMBOL, isHighCorrelation, isLargeCondition, isSerialDurbinWatson, THRESHOLDS } from '../engine/thresholds';
-import { fitWarnings, type WarningInput } from '../engine/stats/warnings';
+import { fitWarnings } from '../engine/stats/warnings';
+import { warningInput } from './fixtures/warning-input';
 import { goodnessEntries } from '../engine/front/views/summary';
 import { HELP } from '../engine/front/cli/messages';
 import { AUTO_GROUPS_ALONE, AUTO_MIN_GROUPS, AUTO_MIN_ROWS } from '../engine/groups/threads';
@@ -17,23 +18,7 @@ import { lineData, lineFit } from './fixtures/line-fit';
 
 const ROOT = join(__dirname, '..');
 
-function input(over: Partial<WarningInput>): WarningInput {
-  return {
-    free: [{ name: 'a', estimate: 1, lower: -Infinity, upper: Infinity }, { name: 'b', estimate: 2, lower: -Infinity, upper: Infinity }],
-    correlation: [[1, 0.5], [0.5, 1]],
-    condition: 10,
-    rank: 2,
-    undetermined: [],
-    n: 20,
-    stop: { code: 'small_reduction', message: 'ok', converged: true },
-    residuals: { durbinWatson: 2, runs: null, shapiroWilk: null },
-    linear: true,
-    rowsDropped: 0,
-    file: 'd.csv',
-    guessed: { names: [], how: '' },
-    ...over,
-  };
-}
+const input = warningInput;
 
 describe('engine/thresholds', () => {
   it('documents every value with its reason or source', () => {

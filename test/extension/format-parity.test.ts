@@ -13,7 +13,8 @@ import type { FitResult } from '../../engine/result';
 import { fitTextLines } from '../../engine/front/views/text';
 import { markdownReport } from '../../engine/front/views/markdown';
 import { correlationCaption, goodnessEntries, r2Caveat } from '../../engine/front/views/summary';
-import { fitWarnings, type WarningInput } from '../../engine/stats/warnings';
+import { fitWarnings } from '../../engine/stats/warnings';
+import { warningInput } from '../fixtures/warning-input';
 import { CORRELATION_SYMBOL, THRESHOLDS } from '../../engine/thresholds';
 import { formatNumber } from '../../engine/format';
 import { buildPanelModel, panelFit } from '../../extension/logic/panel-model';
@@ -131,20 +132,8 @@ describe('panel and CLI show the same text for the same number', () => {
 });
 
 describe('panel and engine warnings use one correlation threshold', () => {
-  const input = (rho: number): WarningInput => ({
-    free: [{ name: 'a', estimate: 1, lower: -Infinity, upper: Infinity }, { name: 'b', estimate: 2, lower: -Infinity, upper: Infinity }],
-    correlation: [[1, rho], [rho, 1]],
-    condition: 10,
-    rank: 2,
-    undetermined: [],
-    n: 20,
-    stop: { code: 'small_reduction', message: 'ok', converged: true },
-    residuals: { durbinWatson: 2, runs: null, shapiroWilk: null },
-    linear: true,
-    rowsDropped: 0,
-    file: 'd.csv',
-    guessed: { names: [], how: '' },
-  });
+  const input = (rho: number) => warningInput({ correlation: [[1, rho], [rho, 1]] });
+
 
   it('lists a pair in the panel exactly when the engine warns about it', async () => {
     const { result } = await runSpec(LINE, dir);

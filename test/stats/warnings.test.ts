@@ -1,27 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { THRESHOLDS } from '../../engine/thresholds';
 import { boundHit, fitWarnings, type WarningInput } from '../../engine/stats/warnings';
+import { warningInput } from '../fixtures/warning-input';
 
-function base(over: Partial<WarningInput> = {}): WarningInput {
-  return {
-    free: [
-      { name: 'a', estimate: 1, lower: -Infinity, upper: Infinity },
-      { name: 'b', estimate: 2, lower: 0, upper: 10 },
-    ],
-    correlation: [[1, 0.5], [0.5, 1]],
-    condition: 10,
-    rank: 2,
-    undetermined: [],
-    n: 20,
-    stop: { code: 'small_reduction', message: 'ok', converged: true },
-    residuals: { durbinWatson: 2, runs: { observed: 10, expected: 10.5, pValue: 0.8 }, shapiroWilk: { w: 0.97, pValue: 0.6 } },
-    linear: true,
-    rowsDropped: 0,
-    file: 'd.csv',
-    guessed: { names: [], how: '' },
-    ...over,
-  };
-}
+const base = warningInput;
 const codes = (over: Partial<WarningInput>) => fitWarnings(base(over)).map((w) => w.code);
 
 describe('stats/warnings fitWarnings', () => {
