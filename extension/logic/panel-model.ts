@@ -23,7 +23,8 @@ import { DIGITS, formatNumber } from '../../engine/format';
 import { isHighCorrelation } from '../../engine/thresholds';
 import { groupParameterCharts } from './panel-group-charts';
 
-export const PANEL_MODEL_VERSION = 1 as const;
+/** Version of the model's shape; a saved page state of another version is not restored (2: correlations carry `rho` and a caption). */
+export const PANEL_MODEL_VERSION = 2 as const;
 
 /** A chart as the page receives it (same shape as engine/front/views/charts.ts ChartSpec). */
 export interface PanelChart {
