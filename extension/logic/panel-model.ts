@@ -15,7 +15,8 @@
  */
 import type { FitResult, RunResult } from '../../engine/result';
 import { chartSpecs, type ChartSpec } from '../../engine/front/views/charts';
-import { correlationCaption, derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, searchLine, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
+import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, searchLine, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
+import { correlationCaption } from '../../engine/front/views/summary';
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { GroupFlag } from '../../engine/groups/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
