@@ -16,13 +16,13 @@
 import type { FitResult, RunResult } from '../../engine/result';
 import { chartSpecs, type ChartSpec } from '../../engine/front/views/charts';
 import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, searchLine, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
-import { correlationCaption } from '../../engine/front/views/summary';
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { GroupFlag } from '../../engine/groups/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
 import { DIGITS, formatNumber } from '../../engine/format';
 import { isHighCorrelation } from '../../engine/thresholds';
 import { groupParameterCharts } from './panel-group-charts';
+import { correlationCaption } from '../../engine/front/views/summary';
 
 /** Version of the model's shape; a saved page state of another version is not restored (2: correlations carry `rho` and a caption). */
 export const PANEL_MODEL_VERSION = 2 as const;
