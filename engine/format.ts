@@ -9,8 +9,12 @@
  * messages, the front ends and the editor can all use it.
  *
  * Policy:
- * 1. Missing values (null, undefined, NaN) print as `n/a`; infinities as
- *    `inf` and `-inf`.
+ * 1. A value of a result that is not a finite number (null, undefined, NaN,
+ *    ±Infinity) prints as `n/a`: JSON carries all of them as null, so a
+ *    result read back from JSON prints the same text as the one in memory.
+ *    Numbers the user wrote or that a message quotes (bounds, a bad cell)
+ *    print infinities as the language spells them, `inf` and `-inf`
+ *    (`formatWritten`).
  * 2. A plain number prints with a number of significant digits chosen by its
  *    context (`DIGITS`), trailing zeros dropped; magnitudes below 1e-4 or from
  *    1e6 up in exponent notation (`3.21e-7`, `2.5e+6`).
@@ -67,10 +71,6 @@ export function isUsable(v: number | null | undefined): v is number {
   return typeof v === 'number' && Number.isFinite(v);
 }
 
-/** `inf`/`-inf` for infinities, `n/a` for the rest of what is not a finite number. */
-function notFinite(v: number | null | undefined): string {
-  return v === Infinity ? 'inf' : v === -Infinity ? '-inf' : MISSING;
-}
 
 function useExponent(v: number): boolean {
   const a = Math.abs(v);
@@ -83,7 +83,7 @@ function clampSig(sig: number): number {
 
 /** `v` with `sig` significant digits (default `DIGITS.value`), trailing zeros removed (rules 1–3). */
 export function formatNumber(v: number | null | undefined, sig: number = DIGITS.value): string {
-  if (!isUsable(v)) return notFinite(v);
+  if (!isUsable(v)) return MISSING;
   if (v === 0) return '0';
   const s = clampSig(sig);
   if (useExponent(v)) return v.toExponential(s - 1).replace(/\.?0+e/, 'e');
@@ -92,9 +92,25 @@ export function formatNumber(v: number | null | undefined, sig: number = DIGITS.
   return fixed.includes('.') ? fixed.replace(/\.?0+$/, '') : fixed;
 }
 
+/**
+ * A number the user wrote or a message quotes (rule 1): `formatNumber`, but
+ * infinities as `inf`/`-inf` (the language's spelling) and NaN as `NaN`.
+ */
+export function formatWritten(v: number, sig: number = DIGITS.value): string {
+  if (Number.isNaN(v)) return 'NaN';
+  if (v === Infinity) return 'inf';
+  if (v === -Infinity) return '-inf';
+  return formatNumber(v, sig);
+}
+
+/** Declared bounds `[lower, upper]` as written (`formatWritten`): `[0, inf]`. */
+export function formatBounds(lower: number, upper: number): string {
+  return `[${formatWritten(lower)}, ${formatWritten(upper)}]`;
+}
+
 /** Integer with no separators, or `n/a`. */
 export function formatInteger(v: number | null | undefined): string {
-  return isUsable(v) ? String(Math.round(v)) : notFinite(v);
+  return isUsable(v) ? String(Math.round(v)) : MISSING;
 }
 
 /**
@@ -116,7 +132,7 @@ export function uncertaintyExponent(u: number, digits: number = UNCERTAINTY_DIGI
  * non-zero value as 0: `formatEstimate` guards against that (rule 3).
  */
 export function formatAtDigit(v: number | null | undefined, exp10: number): string {
-  if (!isUsable(v)) return notFinite(v);
+  if (!isUsable(v)) return MISSING;
   if (v === 0) return exp10 < 0 ? (0).toFixed(Math.min(-exp10, 20)) : '0';
   const mag = Math.floor(Math.log10(Math.abs(v)));
   if (useExponent(v)) return v.toExponential(clampSig(mag - exp10 + 1) - 1);
@@ -161,7 +177,7 @@ export function formatEstimate(
   if (!isUsable(stderr) || stderr <= 0) {
     return {
       estimate: formatNumber(estimate),
-      stderr: stderr === 0 ? '0' : isUsable(stderr) ? MISSING : notFinite(stderr),
+      stderr: stderr === 0 ? '0' : MISSING,
       lower: formatNumber(lower),
       upper: formatNumber(upper),
     };
@@ -181,7 +197,7 @@ export function formatPlusMinus(estimate: number | null, stderr: number | null):
   return f.stderr === MISSING ? f.estimate : `${f.estimate} ± ${f.stderr}`;
 }
 
-/** `[a, b]` of plain numbers (e.g. bounds or a prediction interval), `sig` significant digits each; infinite ends as `inf`. */
+/** `[a, b]` of result values (e.g. a prediction interval), `sig` significant digits each. */
 export function formatInterval(lower: number | null | undefined, upper: number | null | undefined, sig: number = DIGITS.value): string {
   return `[${formatNumber(lower, sig)}, ${formatNumber(upper, sig)}]`;
 }
@@ -194,13 +210,13 @@ export function formatLevel(level: number): string {
 
 /** A proportion as a percentage with `DIGITS.percent` significant digits: 0.034 → `3.4%`. */
 export function formatPercent(x: number | null | undefined): string {
-  if (!isUsable(x)) return notFinite(x);
+  if (!isUsable(x)) return MISSING;
   return `${formatNumber(x * 100, DIGITS.percent)}%`;
 }
 
 /** p-value for a table cell (rule 5): `< 0.0001` below the floor, else `DIGITS.p` significant digits. */
 export function formatP(p: number | null | undefined): string {
-  if (!isUsable(p)) return notFinite(p);
+  if (!isUsable(p)) return MISSING;
   if (p < P_FLOOR) return `< ${formatNumber(P_FLOOR)}`;
   return formatNumber(p, DIGITS.p);
 }

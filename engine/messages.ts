@@ -8,7 +8,7 @@
 import type { WarningCode } from './result';
 import { MSG } from '../parser/messages';
 import { quoted } from '../parser/printable';
-import { DIGITS, formatNumber, pClause } from './format';
+import { DIGITS, formatNumber, formatWritten, pClause } from './format';
 import { CORRELATION_SYMBOL, THRESHOLDS } from './thresholds';
 
 /** At most 10 line numbers, then how many more. */
@@ -17,9 +17,9 @@ export function listLines(lines: ArrayLike<number>): string {
   return lines.length > 10 ? `${shown} and ${lines.length - 10} more` : shown;
 }
 
-/** A number inside a message: the one policy of engine/format.ts, `DIGITS.value` significant digits. */
+/** A number inside a message: the one policy of engine/format.ts, `DIGITS.value` significant digits (infinities as `inf`). */
 export function num(x: number): string {
-  return formatNumber(x);
+  return formatWritten(x);
 }
 
 export const warningText = {

@@ -1,17 +1,22 @@
 import { describe, expect, it } from 'vitest';
 import {
-  CHART_FORMAT, DIGITS, formatAtDigit, formatEstimate, formatInterval, formatLevel, formatNumber, formatP, formatPercent,
+  CHART_FORMAT, DIGITS, formatAtDigit, formatBounds, formatWritten, formatEstimate, formatInterval, formatLevel, formatNumber, formatP, formatPercent,
   formatPlusMinus, MISSING, P_FLOOR, pClause, uncertaintyExponent, UNCERTAINTY_DIGITS,
 } from '../engine/format';
 
 describe('engine/format (the one number-formatting policy)', () => {
   describe('plain numbers (rules 1–3)', () => {
-    it('prints missing values as n/a and infinities as inf', () => {
+    it('prints a result value that is not a finite number as n/a (JSON carries them all as null), a written number\'s infinities as inf', () => {
       expect(formatNumber(null)).toBe(MISSING);
       expect(formatNumber(undefined)).toBe(MISSING);
       expect(formatNumber(NaN)).toBe(MISSING);
-      expect(formatNumber(Infinity)).toBe('inf');
-      expect(formatNumber(-Infinity)).toBe('-inf');
+      expect(formatNumber(Infinity)).toBe(MISSING);
+      expect(formatNumber(-Infinity)).toBe(MISSING);
+      expect(formatWritten(Infinity)).toBe('inf');
+      expect(formatWritten(-Infinity)).toBe('-inf');
+      expect(formatWritten(NaN)).toBe('NaN');
+      expect(formatWritten(0.000123456789)).toBe(formatNumber(0.000123456789));
+      expect(formatBounds(0, Infinity)).toBe('[0, inf]');
     });
 
     it('uses significant digits by context and drops trailing zeros in fixed notation', () => {
@@ -41,7 +46,7 @@ describe('engine/format (the one number-formatting policy)', () => {
     });
 
     it('prints intervals and percentages by the same rules', () => {
-      expect(formatInterval(-Infinity, 2.5)).toBe('[-inf, 2.5]');
+      expect(formatInterval(-Infinity, 2.5)).toBe('[n/a, 2.5]');
       expect(formatInterval(null, 1e-7)).toBe('[n/a, 1e-7]');
       expect(formatPercent(0.0342)).toBe('3.4%');
       expect(formatPercent(NaN)).toBe(MISSING);
@@ -116,12 +121,12 @@ describe('engine/format (the one number-formatting policy)', () => {
       expect(formatEstimate(1.23456789, null, null, null)).toEqual({ estimate: '1.23457', stderr: MISSING, lower: MISSING, upper: MISSING });
       expect(formatEstimate(1.23456789, 0, 1.23456789, 1.23456789)).toEqual({ estimate: '1.23457', stderr: '0', lower: '1.23457', upper: '1.23457' });
       expect(formatEstimate(1.23456789, NaN, null, null).stderr).toBe(MISSING);
-      expect(formatEstimate(1.23456789, Infinity, null, null).stderr).toBe('inf');
+      expect(formatEstimate(1.23456789, Infinity, null, null).stderr).toBe(MISSING);
       expect(formatEstimate(1.23456789, -1, null, null).stderr).toBe(MISSING);
     });
 
-    it('passes missing and infinite estimates and ends through as n/a and inf', () => {
-      expect(formatEstimate(NaN, 0.1, -Infinity, Infinity)).toEqual({ estimate: MISSING, stderr: '0.10', lower: '-inf', upper: 'inf' });
+    it('passes missing and infinite estimates and ends through as n/a', () => {
+      expect(formatEstimate(NaN, 0.1, -Infinity, Infinity)).toEqual({ estimate: MISSING, stderr: '0.10', lower: MISSING, upper: MISSING });
       expect(formatEstimate(null, 0.1, null, null).estimate).toBe(MISSING);
     });
 

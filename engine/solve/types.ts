@@ -7,7 +7,7 @@
 import type { StopReason, StopCode } from '../result';
 import type { SolverTrace } from './trace';
 import type { CancelToken } from './problem';
-import { DIGITS, formatNumber } from '../format';
+import { DIGITS, formatWritten } from '../format';
 
 /** How bound-constrained nonlinear problems are solved (`index.ts` `solveNonlinear`). */
 export type BoundsMethod = 'reflective' | 'projection';
@@ -80,7 +80,7 @@ export function stopReason(code: StopCode, message: string): StopReason {
 
 /** A number in a stop or option message (sizes and tolerances, read by magnitude): engine/format.ts, `DIGITS.magnitude` digits, e.g. `3.1e-13`. */
 export function fmt(x: number): string {
-  return formatNumber(x, DIGITS.magnitude);
+  return formatWritten(x, DIGITS.magnitude);
 }
 
 export function allFinite(x: Float64Array, length = x.length): boolean {

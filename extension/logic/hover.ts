@@ -11,7 +11,7 @@ import { STATISTIC_GETTERS } from '../../engine/run/statistics';
 import { METHOD_LABEL } from '../../engine/front/views/summary';
 import { columnsOf, type EditorAnalysis } from './analysis';
 import type { ParameterResult } from '../../engine/result';
-import { formatEstimate, formatInterval, formatLevel, formatNumber, formatPercent, MISSING } from '../../engine/format';
+import { formatBounds, formatEstimate, formatLevel, formatNumber, formatPercent, MISSING } from '../../engine/format';
 import { constantDoc, functionDoc, keywordDoc, statisticDoc } from './function-docs';
 import { dataOfFit, enclosingFit } from './declarations';
 import { wordAt, type Span } from './text';
@@ -78,7 +78,7 @@ export function parameterHover(a: EditorAnalysis, fit: string, name: string, run
   const lines = [`**${name}** — parameter of fit \`${fit}\`${p?.unit ? ` [${p.unit}]` : ''}`];
   if (p) {
     const parts = [p.initial !== undefined ? `start ${formatNumber(p.initial)}` : 'start guessed'];
-    if (p.lower !== undefined || p.upper !== undefined) parts.push(`bounds ${formatInterval(p.lower ?? -Infinity, p.upper ?? Infinity)}`);
+    if (p.lower !== undefined || p.upper !== undefined) parts.push(`bounds ${formatBounds(p.lower ?? -Infinity, p.upper ?? Infinity)}`);
     if (p.fixed) parts.push('fixed');
     lines.push(parts.join(' · '));
   }
