@@ -24,7 +24,7 @@ import { isHighCorrelation } from '../../engine/thresholds';
 import { groupParameterCharts } from './panel-group-charts';
 import { correlationCaption } from '../../engine/front/views/summary';
 
-/** Version of the model's shape; a saved page state of another version is not restored (2: correlations carry `rho` and a caption). */
+/** Version of the model's shape; a saved page state of another version is not restored (2: the correlation list's caption). */
 export const PANEL_MODEL_VERSION = 2 as const;
 
 /** A chart as the page receives it (same shape as engine/front/views/charts.ts ChartSpec). */
@@ -52,14 +52,19 @@ export interface PanelFit {
   parameterRows: string[][];
   /** Parameter names flagged (at a bound) for highlighting. */
   flagged: string[];
+  /**
+   * Caption of the correlation list (`correlations`: the pairs the engine warns
+   * about, engine/thresholds.ts `isHighCorrelation`, each `r` the coefficient
+   * as the warning prints it), with the symbol ρ and the threshold
+   * (engine/front/views/summary.ts `correlationCaption`).
+   */
+  correlationCaption: string;
   /** A few headline figures shown above the charts (the full list is `goodness`). */
   keyStats: { label: string; value: string; title: string }[];
   goodness: Entry[];
   warnings: string[];
-  /** Pairs of free parameters whose correlation the engine warns about (engine/thresholds.ts `isHighCorrelation`), ρ as the warning prints it. */
-  correlations: { a: string; b: string; rho: string }[];
-  /** Caption of the correlation list, with the symbol and threshold (engine/front/views/summary.ts `correlationCaption`). */
-  correlationCaption: string;
+  /** Pairs of free parameters with |correlation| ≥ 0.95. */
+  correlations: { a: string; b: string; r: string }[];
   /** Charts, or null when they are sent on request. */
   charts: PanelChart[] | null;
 }
@@ -181,11 +186,11 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     parameterHeaders: PARAMETER_HEADERS(f.level),
     parameterRows: parameterRows(f),
     flagged: f.parameters.filter((p) => p.atBound).map((p) => p.name),
+    correlationCaption: correlationCaption(),
     keyStats: keyStats(f),
     goodness: goodnessEntries(f),
     warnings: warningLines(f),
     correlations: highCorrelations(f),
-    correlationCaption: correlationCaption(),
     charts: withCharts ? panelCharts(f) : null,
   };
 }
@@ -228,13 +233,13 @@ function keyStats(f: FitResult): PanelFit['keyStats'] {
   ];
 }
 
-function highCorrelations(f: FitResult): { a: string; b: string; rho: string }[] {
-  const out: { a: string; b: string; rho: string }[] = [];
+function highCorrelations(f: FitResult): { a: string; b: string; r: string }[] {
+  const out: { a: string; b: string; r: string }[] = [];
   const ps = f.parameters;
   for (let i = 0; i < ps.length; i++) {
     for (let j = i + 1; j < ps.length; j++) {
       const r = f.correlation[i]?.[j];
-      if (!ps[i].fixed && !ps[j].fixed && typeof r === 'number' && isHighCorrelation(r)) out.push({ a: ps[i].name, b: ps[j].name, rho: formatNumber(r, DIGITS.statistic) });
+      if (!ps[i].fixed && !ps[j].fixed && typeof r === 'number' && isHighCorrelation(r)) out.push({ a: ps[i].name, b: ps[j].name, r: formatNumber(r, DIGITS.statistic) });
     }
   }
   return out;

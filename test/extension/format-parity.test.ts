@@ -79,7 +79,7 @@ function expectParity(fit: FitResult): void {
   // correlations: the panel's value is the one in the CLI's warning for that pair, with the same symbol
   for (const c of panel.correlations) {
     const warning = cli.find((l) => l.includes('strongly correlated') && l.includes(c.a) && l.includes(c.b));
-    expect(warning, `${c.a} · ${c.b}`).toContain(`(${CORRELATION_SYMBOL} = ${c.rho})`);
+    expect(warning, `${c.a} · ${c.b}`).toContain(`(${CORRELATION_SYMBOL} = ${c.r})`);
   }
 }
 
