@@ -63,7 +63,7 @@ export interface PanelFit {
   keyStats: { label: string; value: string; title: string }[];
   goodness: Entry[];
   warnings: string[];
-  /** Pairs of free parameters with |correlation| ≥ 0.95. */
+  /** Pairs of free parameters the engine warns about (see `correlationCaption`). */
   correlations: { a: string; b: string; r: string }[];
   /** Charts, or null when they are sent on request. */
   charts: PanelChart[] | null;
