@@ -9,5 +9,6 @@ export type { RunFitOptions, FitData, Solvers } from './run';
 export { parseCsvText, loadDataFile, readHeaderFile, readHeaderText, headerLookup, selectRows, detectDelimiter, sha256Hex } from './data';
 export type { CsvOptions, CsvResult, DataTable, DataColumn, DataError, HeaderInfo, FileReader } from './data';
 export { guessStart } from './solve/start';
-export { warningText, errorText, WARNING_THRESHOLDS } from './messages';
+export { warningText, errorText } from './messages';
+export { THRESHOLDS } from './thresholds';
 export * from './result';

@@ -2,12 +2,15 @@
  * User-facing texts of fit warnings and run errors, in one place so that the
  * CLI, reports and the editor say the same thing. Each function returns one
  * sentence (or two) without trailing newline; numbers are shown with
- * `num()` (6 significant digits).
+ * `num()` (engine/format.ts, 6 significant digits), p-values with `pClause`.
+ * The thresholds the warnings name are engine/thresholds.ts.
  */
 import type { WarningCode } from './result';
 import type { Bound } from '../parser/plan';
 import { MSG } from '../parser/messages';
 import { quoted } from '../parser/printable';
+import { DIGITS, formatNumber, formatWritten, pClause } from './format';
+import { CORRELATION_SYMBOL, THRESHOLDS } from './thresholds';
 
 /** At most 10 line numbers, then how many more. */
 export function listLines(lines: ArrayLike<number>): string {
@@ -30,34 +33,18 @@ function rowValues(rows: readonly number[], values: readonly number[], label: st
   return rows.length > ROWS_IN_TEXT ? `${shown} and ${rows.length - ROWS_IN_TEXT} more` : shown;
 }
 
+/** A number inside a message: the one policy of engine/format.ts, `DIGITS.value` significant digits (infinities as `inf`). */
 export function num(x: number): string {
-  if (!Number.isFinite(x)) return String(x);
-  return Number(x.toPrecision(6)).toString();
+  return formatWritten(x);
 }
-
-/** Thresholds behind the warnings (documented here, used by engine/stats/warnings.ts). */
-export const WARNING_THRESHOLDS = {
-  /** |ρⱼₖ| above this flags a pair of parameters as nearly redundant. */
-  correlation: 0.99,
-  /** 2-norm condition number κ of the Jacobian above this flags ill-conditioning: a QR solve then carries relative errors up to about κ·ε ≈ 2e-6 (ε = 2⁻⁵²), i.e. only ~6 of 16 digits. */
-  condition: 1e10,
-  /** Degrees of freedom below this make intervals and tests weak. */
-  minDof: 3,
-  /** Runs-test or Shapiro–Wilk p below this flags a residual pattern / non-normality. */
-  pValue: 0.01,
-  /** Durbin–Watson d with |d − 2| above this flags serial correlation. */
-  durbinWatsonDistance: 1,
-  /** An estimate within max(1, |bound|)·this of a bound is at the bound. */
-  boundRelative: 1e-8,
-} as const;
 
 export const warningText = {
   at_bound: (param: string, side: 'lower' | 'upper', bound: number) =>
     `${param} ended at its ${side} bound ${num(bound)}; the optimum may lie outside the bounds, and its standard error and interval ignore the bound`,
   high_correlation: (a: string, b: string, rho: number) =>
-    `${a} and ${b} are strongly correlated (ρ = ${num(rho)}); the data hardly separate them - consider fixing one or reparametrising`,
+    `${a} and ${b} are strongly correlated (${CORRELATION_SYMBOL} = ${formatNumber(rho, DIGITS.statistic)}); the data hardly separate them - consider fixing one or reparametrising`,
   ill_conditioned: (condition: number) =>
-    `the fit is ill-conditioned (condition number ${num(condition)} > ${num(WARNING_THRESHOLDS.condition)}); standard errors may be unreliable - consider rescaling the predictor or the parameters`,
+    `the fit is ill-conditioned (condition number ${num(condition)} > ${num(THRESHOLDS.condition)}); standard errors may be unreliable - consider rescaling the predictor or the parameters`,
   few_dof: (n: number, p: number) =>
     n <= p
       ? `${n} data points for ${p} free parameters: the fit cannot be judged (needs more points than parameters)`
@@ -65,7 +52,7 @@ export const warningText = {
   no_convergence: (reason: string) => `the solver did not converge: ${reason}; the estimates are not an optimum`,
   residual_pattern: (detail: string) => `the residuals show a pattern (${detail}); the model may miss a trend in the data`,
   non_normal_residuals: (w: number, p: number) =>
-    `the residuals do not look normally distributed (Shapiro–Wilk W = ${num(w)}, p = ${num(p)}); intervals assume normal errors`,
+    `the residuals do not look normally distributed (Shapiro–Wilk W = ${formatNumber(w, DIGITS.statistic)}, ${pClause(p)}); intervals assume normal errors`,
   r2_nonlinear: () => `the model is nonlinear in its parameters: R² is descriptive only, not a test of fit`,
   rows_dropped: (dropped: number, file: string) =>
     `${dropped} row${dropped === 1 ? '' : 's'} of ${file} dropped for empty or NA cells in the columns this fit uses`,

@@ -16,6 +16,7 @@ import * as vscode from 'vscode';
 import { sampleFromBytes, SAMPLE_MAX_BYTES, SAMPLE_ROWS } from '../engine/data';
 import { clashMessage, OutputGuard, readInputHead, writeAllOrNothing } from '../engine/io';
 import { polynomial, scaffoldSpec, TEMPLATES, type Template } from '../engine/templates';
+import { DIGITS, formatNumber } from '../engine/format';
 import { degreeInputError, degreePrompt, maxDegreeFor, polynomialFor } from './logic/new-spec-degree';
 import type { LwContext } from './context';
 import { requireTrust } from './trust';
@@ -133,5 +134,5 @@ function summarize(v: Float64Array): string {
     hi = Math.max(hi, x);
     n++;
   }
-  return n ? `${n} values, ${+lo.toPrecision(4)} … ${+hi.toPrecision(4)}` : 'no numbers';
+  return n ? `${n} values, ${formatNumber(lo, DIGITS.statistic)} … ${formatNumber(hi, DIGITS.statistic)}` : 'no numbers';
 }

@@ -9,7 +9,8 @@
  * averaged in.
  */
 import type { FitResult, StopCode } from '../result';
-import { flagsOf, type FlagOptions, type GroupFlag } from './flags';
+import { flagsOf, holmRejected, isNonlinear, runsP, type FlagOptions, type GroupFlag } from './flags';
+import { THRESHOLDS } from '../thresholds';
 import { spreadOf, type Spread } from './quantile';
 
 export type GroupColumnKind = 'text' | 'integer' | 'number' | 'flags';
@@ -80,7 +81,10 @@ const finiteOrNull = (v: number | null | undefined): number | null => (typeof v 
 /** Builds the table of a group-by fit's results (one FitResult per group, in display order). */
 export function buildGroupTable(results: readonly FitResult[], options: FlagOptions = {}): GroupTable {
   const parameters = freeParameterNames(results);
-  const rows = results.map((fit) => rowOf(fit, parameters, options));
+  // the runs tests of the nonlinear groups, decided as one family (Holm; engine/groups/flags.ts poor_fit)
+  const tested = results.map((fit) => (fit.stop.converged && !fit.sigmaAbsolute && isNonlinear(fit) ? runsP(fit) : null));
+  const rejected = holmRejected(tested, THRESHOLDS.groupFamilyAlpha);
+  const rows = results.map((fit, i) => rowOf(fit, parameters, options.runsRejected === undefined ? { ...options, runsRejected: rejected[i] } : options));
   return {
     fit: results[0]?.name ?? '',
     parameters,

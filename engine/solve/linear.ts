@@ -24,6 +24,7 @@ import { type SolveOutcome, stopReason, allFinite, halfSumSquares } from './type
 import { PivotedQR } from '../linalg/qr';
 import { refineLeastSquares } from './refine';
 import { stopText } from './messages';
+import { formatNumber } from '../format';
 
 export interface LinearOptions {
   /** Expansion point θ₀ (default 0); the result does not depend on it for a linear model. */

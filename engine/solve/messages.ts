@@ -3,6 +3,7 @@
  * each names the quantity, its value and the tolerance or limit it met
  * (the inequalities are in each solver's module comment).
  */
+import { formatNumber } from '../format';
 import { fmt } from './types';
 import type { Stagnation } from './stagnation';
 import type { NonFiniteReport } from './types';
@@ -48,7 +49,7 @@ export const stopText = {
   linearNotFinite: 'residuals or Jacobian at the expansion point are not finite',
   linearSolved: (refinements: number, rankNote: string) => `direct solve by pivoted Householder QR with ${refinements} refinement step(s)${rankNote}`,
   linearRankNote: (rank: number, p: number, tolerance: number) =>
-    `; rank ${rank} < ${p} (|R_kk| ≤ ${tolerance.toExponential(1)}·|R_00|), the ${p - rank} dependent parameter(s) set to their expansion value`,
+    `; rank ${rank} < ${p} (|R_kk| ≤ ${formatNumber(tolerance, 2)}·|R_00|), the ${p - rank} dependent parameter(s) set to their expansion value`,
   // iteratively reweighted least squares for robust losses (loss.ts)
   irlsNotFinite: 'residuals are not finite',
   irlsInnerStop: (k: number, message: string) => `reweighting ${k}: ${message}`,

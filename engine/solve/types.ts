@@ -7,6 +7,7 @@
 import type { StopReason, StopCode } from '../result';
 import type { SolverTrace } from './trace';
 import type { CancelToken } from './problem';
+import { DIGITS, formatWritten } from '../format';
 
 /** How bound-constrained nonlinear problems are solved (`index.ts` `solveNonlinear`). */
 export type BoundsMethod = 'reflective' | 'projection';
@@ -79,12 +80,9 @@ export function stopReason(code: StopCode, message: string): StopReason {
   return { code, message, converged: CONVERGED.has(code) };
 }
 
-/** Short exponential notation for stop messages, e.g. 3.1e-13. */
+/** A number in a stop or option message (sizes and tolerances, read by magnitude): engine/format.ts, `DIGITS.magnitude` digits, e.g. `3.1e-13`. */
 export function fmt(x: number): string {
-  if (!Number.isFinite(x)) return String(x);
-  if (x === 0) return '0';
-  const a = Math.abs(x);
-  return a >= 1e-3 && a < 1e5 ? String(Number(x.toPrecision(3))) : x.toExponential(2).replace('e+', 'e');
+  return formatWritten(x, DIGITS.magnitude);
 }
 
 export function allFinite(x: Float64Array, length = x.length): boolean {

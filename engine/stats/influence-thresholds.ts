@@ -34,14 +34,14 @@ export const INFLUENCE_THRESHOLDS = {
   lackOfFitLevel: 0.05,
   /**
    * Curvature test: two-sided p below this warns. The same level as the project's other residual-pattern tests
-   * (runs test, Shapiro–Wilk: WARNING_THRESHOLDS.pValue), so each residual check flags a clean fit at most 1 % of the
+   * (runs test, Shapiro–Wilk: THRESHOLDS.residualP, engine/thresholds.ts), so each residual check flags a clean fit at most 1 % of the
    * time.
    */
   curvatureLevel: 0.01,
   /**
    * Durbin–Watson hints: d within durbinWatsonNear of 2 reads as "no sign of serial correlation", beyond it as a
    * hint of positive (below 2) or negative (above 2) serial correlation, and beyond the warning's distance
-   * (WARNING_THRESHOLDS.durbinWatsonDistance, 1) as serial correlation. The 1.5…2.5 band is a
+   * (THRESHOLDS.durbinWatsonDistance, 1) as serial correlation. The 1.5…2.5 band is a
    * rule of thumb (common practice); the exact bounds depend on n and p (Durbin & Watson 1951, Biometrika 38:159–178),
    * which a hint does not try to reproduce.
    */

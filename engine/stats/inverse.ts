@@ -18,6 +18,7 @@ import type { BandPoints } from './bands';
 import { grid } from './bands';
 import { brentRoot } from './root';
 import { inverseText } from '../messages';
+import { formatNumber } from '../format';
 
 /** Band values at predictor values (fitted and prediction half-widths are used). */
 export type Curve = (xs: Float64Array) => BandPoints;
@@ -77,7 +78,7 @@ export function inversePrediction(y0: number, lo: number, hi: number, curve: Cur
     }
   }
   const notes: string[] = [];
-  if (roots.length > 1) notes.push(`${roots.length} solutions in the data range (${roots.map((r) => r.toPrecision(6)).join(', ')}); the smallest is reported`);
+  if (roots.length > 1) notes.push(`${roots.length} solutions in the data range (${roots.map((r) => formatNumber(r)).join(', ')}); the smallest is reported`);
   if (lower === null || upper === null) notes.push(inverseText.openAtEdge);
   return { response: y0, x, interval: [lower, upper], ...(notes.length ? { message: notes.join('; ') } : {}) };
 }

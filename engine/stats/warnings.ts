@@ -1,14 +1,15 @@
 /**
- * Fit warnings from the finished statistics. Thresholds and texts live in
- * engine/messages.ts (WARNING_THRESHOLDS, warningText); each rule below says
- * which inequality triggers it. A fit that did not converge gets only the
+ * Fit warnings from the finished statistics. Thresholds live in
+ * engine/thresholds.ts (each with its reason), texts in engine/messages.ts
+ * (warningText); each rule below says which inequality triggers it. A fit that did not converge gets only the
  * warnings about its input and its stop (guessed starts, dropped rows, no
  * convergence, few degrees of freedom, a parameter at a bound at the last
  * iterate): the statistical ones (rank, conditioning, correlation, residual
  * patterns and normality, the R² caveat) describe a fitted result and are
  * withheld (engine/run/fit-stats.ts).
  */
-import { WARNING_THRESHOLDS as T, patternText, warningText } from '../messages';
+import { patternText, warningText } from '../messages';
+import { isHighCorrelation, isLargeCondition, isSerialDurbinWatson, THRESHOLDS as T } from '../thresholds';
 import type { FitWarning, ResidualDiagnostics, StopReason } from '../result';
 
 export interface WarningInput {
@@ -57,13 +58,13 @@ export function fitWarnings(input: WarningInput): FitWarning[] {
   if (input.rank < p) {
     const undetermined = input.undetermined;
     out.push({ code: 'rank_deficient', message: warningText.rank_deficient(input.rank, p, undetermined), parameters: undetermined });
-  } else if (input.condition > T.condition) {
+  } else if (isLargeCondition(input.condition)) {
     out.push({ code: 'ill_conditioned', message: warningText.ill_conditioned(input.condition) });
   }
   for (let j = 0; j < p; j++) {
     for (let k = j + 1; k < p; k++) {
       const rho = input.correlation[j]?.[k];
-      if (rho !== undefined && Math.abs(rho) > T.correlation) {
+      if (rho !== undefined && isHighCorrelation(rho)) {
         const names = [input.free[j].name, input.free[k].name];
         out.push({ code: 'high_correlation', message: warningText.high_correlation(names[0], names[1], rho), parameters: names });
       }
@@ -71,12 +72,12 @@ export function fitWarnings(input: WarningInput): FitWarning[] {
   }
   const patterns: string[] = [];
   const runs = input.residuals.runs;
-  if (runs && runs.pValue < T.pValue) patterns.push(patternText.runs(runs.observed, runs.expected, runs.pValue));
+  if (runs && runs.pValue < T.residualP) patterns.push(patternText.runs(runs.observed, runs.expected, runs.pValue));
   const dw = input.residuals.durbinWatson;
-  if (dw !== null && Math.abs(dw - 2) > T.durbinWatsonDistance) patterns.push(patternText.durbinWatson(dw));
+  if (dw !== null && isSerialDurbinWatson(dw)) patterns.push(patternText.durbinWatson(dw));
   if (patterns.length) out.push({ code: 'residual_pattern', message: warningText.residual_pattern(patterns.join('; ')) });
   const sw = input.residuals.shapiroWilk;
-  if (sw && sw.pValue < T.pValue) out.push({ code: 'non_normal_residuals', message: warningText.non_normal_residuals(sw.w, sw.pValue) });
+  if (sw && sw.pValue < T.residualP) out.push({ code: 'non_normal_residuals', message: warningText.non_normal_residuals(sw.w, sw.pValue) });
   if (!input.linear) out.push({ code: 'r2_nonlinear', message: warningText.r2_nonlinear() });
   return out;
 }

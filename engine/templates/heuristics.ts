@@ -132,9 +132,3 @@ export function localMean(d: XY, at: number, halfWidth: number): number {
   }
   return n > 0 ? s / n : d.y[nearest];
 }
-
-/** Round to 4 significant digits for display in a scaffolded spec. */
-export function round4(v: number): number {
-  if (!Number.isFinite(v) || v === 0) return v;
-  return Number(v.toPrecision(4));
-}

@@ -4,9 +4,10 @@
  */
 import { FUNCTIONS } from '../../parser/plan';
 import { StringLiteral } from '../../parser/tokens';
-import { cleanPairs, round4 } from './heuristics';
+import { cleanPairs } from './heuristics';
 import type { Template } from './types';
 import { scaffoldText } from '../messages';
+import { DIGITS, formatNumber } from '../format';
 
 export interface ScaffoldInput {
   template: Template;
@@ -64,13 +65,9 @@ export function identifierFrom(text: string, fallback: string): string {
   return s;
 }
 
-/** 4 significant digits; exponent form (`5.729e+8`) outside [1e-4, 1e6). */
+/** 4 significant digits by the one policy (engine/format.ts; exponent form `5.729e+8` outside [1e-4, 1e6)), `1` for a value that is not finite. */
 function formatStart(v: number): string {
-  const r = round4(v);
-  if (!Number.isFinite(r)) return '1';
-  const a = Math.abs(r);
-  if (a !== 0 && (a < 1e-4 || a >= 1e6)) return r.toExponential(3).replace(/\.?0+e/, 'e');
-  return String(r);
+  return Number.isFinite(v) ? formatNumber(v, DIGITS.statistic) : '1';
 }
 
 function boundText(lower?: number, upper?: number): string {

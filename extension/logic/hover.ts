@@ -10,8 +10,8 @@ import { isFunctionName, isStatisticName } from '../../parser/registry';
 import { STATISTIC_GETTERS } from '../../engine/run/statistics';
 import { METHOD_LABEL } from '../../engine/front/views/summary';
 import { columnsOf, type EditorAnalysis } from './analysis';
-import { formatEstimate } from '../../engine/front/views/format';
-import { fmt, fmtEstimate, fmtInterval, fmtLevel, fmtParameter, fmtPercent } from './format';
+import type { ParameterResult } from '../../engine/result';
+import { formatBounds, formatEstimate, formatLevel, formatNumber, formatPercent, MISSING } from '../../engine/format';
 import { constantDoc, functionDoc, keywordDoc, statisticDoc } from './function-docs';
 import { dataOfFit, enclosingFit } from './declarations';
 import { wordAt, type Span } from './text';
@@ -77,8 +77,8 @@ export function parameterHover(a: EditorAnalysis, fit: string, name: string, run
   const p = a.plan.fits.find((f) => f.name === fit)?.parameters.find((x) => x.name === name);
   const lines = [`**${name}** — parameter of fit \`${fit}\`${p?.unit ? ` [${p.unit}]` : ''}`];
   if (p) {
-    const parts = [p.initial !== undefined ? `start ${fmt(p.initial)}` : 'start guessed'];
-    if (p.lower !== undefined || p.upper !== undefined) parts.push(`bounds ${fmtInterval(p.lower ?? -Infinity, p.upper ?? Infinity)}`);
+    const parts = [p.initial !== undefined ? `start ${formatNumber(p.initial)}` : 'start guessed'];
+    if (p.lower !== undefined || p.upper !== undefined) parts.push(`bounds ${formatBounds(p.lower ?? -Infinity, p.upper ?? Infinity)}`);
     if (p.fixed) parts.push('fixed');
     lines.push(parts.join(' · '));
   }
@@ -88,21 +88,28 @@ export function parameterHover(a: EditorAnalysis, fit: string, name: string, run
   if (fits.length === 1 && fits[0].group === undefined) {
     const r = fits[0].parameters.find((x) => x.name === name);
     if (!r) return lines.join('\n\n');
-    const f = fmtParameter(r);
-    const rows = [`estimate **${fmtEstimate(r)}**${unit}${r.fixed ? '' : ' (± standard error)'}`];
-    if (!r.fixed) rows.push(`${fmtLevel(fits[0].level)} interval ${f.interval}${unit}`);
-    if (r.relativeStderr !== null) rows.push(`relative standard error ${fmtPercent(r.relativeStderr)}`);
+    const f = parameterText(r);
+    const rows = [`estimate **${f.estimate}**${unit}${r.fixed ? '' : ' (± standard error)'}`];
+    if (!r.fixed) rows.push(`${formatLevel(fits[0].level)} interval ${f.interval}${unit}`);
+    if (r.relativeStderr !== null) rows.push(`relative standard error ${formatPercent(r.relativeStderr)}`);
     if (r.atBound) rows.push(`⚠ at its ${r.atBound} bound: standard error and interval are not reliable`);
     if (r.fixed) rows.push('held fixed');
     return [...lines, rows.join('  \n'), fitStamp(fits[0])].join('\n\n');
   }
-  const header = `| group | estimate ± SE | ${fmtLevel(fits[0].level)} interval |\n|---|---|---|`;
+  const header = `| group | estimate ± SE | ${formatLevel(fits[0].level)} interval |\n|---|---|---|`;
   const body = fits.slice(0, MAX_GROUP_ROWS).map((f) => {
     const r = f.parameters.find((x) => x.name === name);
-    return r ? `| ${f.group ?? ''} | ${fmtEstimate(r)}${r.atBound ? ' ⚠' : ''} | ${fmtParameter(r).interval} |` : `| ${f.group ?? ''} | — | — |`;
+    const t = r ? parameterText(r) : null;
+    return r && t ? `| ${f.group ?? ''} | ${t.estimate}${r.atBound ? ' ⚠' : ''} | ${t.interval} |` : `| ${f.group ?? ''} | — | — |`;
   });
   const more = fits.length > MAX_GROUP_ROWS ? `\n\n… and ${fits.length - MAX_GROUP_ROWS} more groups (see the results panel)` : '';
   return [...lines, `${header}\n${body.join('\n')}${more}`].join('\n\n');
+}
+
+/** `estimate ± SE` and `[low, high]` of a parameter by the one policy (engine/format.ts), as the CLI's parameter table prints them. */
+function parameterText(r: Pick<ParameterResult, 'estimate' | 'stderr' | 'lower' | 'upper' | 'fixed'>): { estimate: string; interval: string } {
+  const f = formatEstimate(r.estimate, r.fixed ? null : r.stderr, r.fixed ? null : r.lower, r.fixed ? null : r.upper);
+  return { estimate: f.stderr === MISSING ? f.estimate : `${f.estimate} ± ${f.stderr}`, interval: `[${f.lower}, ${f.upper}]` };
 }
 
 function fitStamp(f: FitResult): string {
@@ -115,7 +122,7 @@ function statisticHover(fit: string, stat: string, run?: RunResult): string | nu
   const doc = statisticDoc(stat);
   const about = doc ? `\n\n${doc}` : '';
   if (!f) return `**${stat}** — statistic of fit \`${fit}\`${about}`;
-  return `**${stat}** of \`${fit}\` = ${value === undefined ? '—' : fmt(value)}${about}`;
+  return `**${stat}** of \`${fit}\` = ${value === undefined ? '—' : formatNumber(value)}${about}`;
 }
 
 /** The value an `expect FIT.STAT` names, from a fit result (the engine's getter); undefined for a name that is no statistic. */
@@ -129,10 +136,10 @@ function derivedHover(name: string, text: string, unit: string | undefined, run?
   const lines = [`**${name}** — derived quantity${u}`, `\`${name} = ${text}\``];
   const rows = (run?.derived ?? []).filter((d) => d.name === name);
   for (const d of rows.slice(0, MAX_GROUP_ROWS)) {
-    const f = formatEstimate(d.value ?? NaN, d.stderr, d.lower, d.upper);
+    const f = formatEstimate(d.value, d.stderr, d.lower, d.upper);
     const group = d.group !== undefined ? `${d.group}: ` : '';
     const value = d.value === null ? 'n/a' : d.stderr === null ? f.estimate : `${f.estimate} ± ${f.stderr}`;
-    const interval = d.lower !== null && d.upper !== null && d.level !== null ? `, ${fmtLevel(d.level)} interval [${f.lower}, ${f.upper}]` : '';
+    const interval = d.lower !== null && d.upper !== null && d.level !== null ? `, ${formatLevel(d.level)} interval [${f.lower}, ${f.upper}]` : '';
     lines.push(`${group}**${value}**${unit ? ` ${unit}` : ''}${interval}`);
   }
   if (rows.length > MAX_GROUP_ROWS) lines.push(`… and ${rows.length - MAX_GROUP_ROWS} more groups (see the results panel)`);
@@ -156,5 +163,5 @@ function fitHover(name: string, run?: RunResult): string {
     return `**${name}** — fit per group: ${fits.length} groups, ${ok} converged`;
   }
   const f = fits[0];
-  return `**${name}** — R² ${fmt(f.goodness.r2)}, RMSE ${fmt(f.goodness.rmse)}, n = ${f.goodness.n}, ${f.stop.converged ? 'converged' : 'not converged'}`;
+  return `**${name}** — R² ${formatNumber(f.goodness.r2)}, RMSE ${formatNumber(f.goodness.rmse)}, n = ${f.goodness.n}, ${f.stop.converged ? 'converged' : 'not converged'}`;
 }

@@ -10,6 +10,7 @@ import type { GroupTable } from '../../engine/groups/table';
 import { FONT, PALETTE } from '../../engine/front/views/palette';
 import { chartLabel } from '../../engine/front/views/escape';
 import type { PanelChart } from './panel-model';
+import { CHART_FORMAT } from '../../engine/format';
 
 const SCHEMA = 'https://vega.github.io/schema/vega-lite/v6.json';
 /** Groups beyond this count are drawn without axis labels (they would overlap). */
@@ -62,8 +63,8 @@ export function groupParameterCharts(fits: readonly FitResult[], table: GroupTab
             color: { field: 'flagged', type: 'nominal', scale: { domain: ['ok', 'flagged'], range: [pal.points, pal.highlight] }, legend: null },
             tooltip: [
               { field: 'group', type: 'nominal', title: 'group' },
-              { field: 'estimate', type: 'quantitative', title: name, format: '.4~g' },
-              { field: 'se', type: 'quantitative', title: 'standard error', format: '.3~g' },
+              { field: 'estimate', type: 'quantitative', title: name, format: CHART_FORMAT.value },
+              { field: 'se', type: 'quantitative', title: 'standard error', format: CHART_FORMAT.uncertainty },
               { field: 'flags', type: 'nominal', title: 'flags' },
             ],
           },

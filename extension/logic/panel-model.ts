@@ -20,11 +20,14 @@ import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEAD
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { GroupFlag } from '../../engine/groups/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
-import { formatNumber } from '../../engine/front/views/format';
+import { DIGITS, formatNumber } from '../../engine/format';
+import { isHighCorrelation } from '../../engine/thresholds';
 import { flaggedPointRows, flaggedPointsNote } from '../../engine/front/views/influence';
 import { groupParameterCharts } from './panel-group-charts';
+import { correlationCaption } from '../../engine/front/views/summary';
 
-export const PANEL_MODEL_VERSION = 1 as const;
+/** Version of the model's shape; a saved page state of another version is not restored (2: the correlation list's caption). */
+export const PANEL_MODEL_VERSION = 2 as const;
 
 /** A chart as the page receives it (same shape as engine/front/views/charts.ts ChartSpec). */
 export interface PanelChart {
@@ -53,11 +56,18 @@ export interface PanelFit {
   parameterRows: string[][];
   /** Parameter names flagged (at a bound) for highlighting. */
   flagged: string[];
+  /**
+   * Caption of the correlation list (`correlations`: the pairs the engine warns
+   * about, engine/thresholds.ts `isHighCorrelation`, each `r` the coefficient
+   * as the warning prints it), with the symbol ρ and the threshold
+   * (engine/front/views/summary.ts `correlationCaption`).
+   */
+  correlationCaption: string;
   /** A few headline figures shown above the charts (the full list is `goodness`). */
   keyStats: { label: string; value: string; title: string }[];
   goodness: Entry[];
   warnings: string[];
-  /** Pairs of free parameters with |correlation| ≥ 0.95. */
+  /** Pairs of free parameters the engine warns about (see `correlationCaption`). */
   correlations: { a: string; b: string; r: string }[];
   /** Profile-likelihood intervals (engine/front/views/profile.ts): the line saying what was done, and the table when computed; null when the fit has none (additive). */
   profile?: { line: string; headers: string[]; rows: string[][] } | null;
@@ -110,9 +120,6 @@ export interface ModelOptions {
   /** Group fits whose charts are included up front (the worst first). Default 6. */
   eagerGroupCharts?: number;
 }
-
-/** |r| at or above this is listed as a high correlation in the panel. */
-export const HIGH_CORRELATION = 0.95;
 
 export function fitKey(f: { name: string; group?: string }): string {
   return f.group === undefined ? f.name : `${f.name}/${f.group}`;
@@ -191,6 +198,7 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     parameterHeaders: PARAMETER_HEADERS(f.level),
     parameterRows: parameterRows(f),
     flagged: f.parameters.filter((p) => p.atBound).map((p) => p.name),
+    correlationCaption: correlationCaption(),
     keyStats: keyStats(f),
     goodness: goodnessEntries(f),
     warnings: warningLines(f),
@@ -217,6 +225,11 @@ export function chartsForKey(run: RunResult, key: string): PanelChart[] | null {
   return f ? panelCharts(f) : null;
 }
 
+/**
+ * The headline figures: the same strings as the goodness-of-fit table of the
+ * CLI and the report (summary.ts `goodnessEntries`), looked up by its labels,
+ * so the panel never prints a number with other digits than the CLI.
+ */
 function keyStats(f: FitResult): PanelFit['keyStats'] {
   const g = f.goodness;
   const counts: PanelFit['keyStats'] = [
@@ -225,11 +238,19 @@ function keyStats(f: FitResult): PanelFit['keyStats'] {
   ];
   // a fit that is not a result shows no goodness-of-fit figures (the engine withholds them)
   if (fitStatus(f) !== 'fitted') return [...counts, { label: 'fit', value: 'not fitted', title: notFittedNote(f) ?? '' }];
-  const out: PanelFit['keyStats'] = [...counts, { label: 'RMSE', value: formatNumber(g.rmse, 4), title: 'residual standard deviation' }];
-  if (f.sigmaAbsolute) out.push({ label: 'χ²/ν', value: formatNumber(g.chi2Reduced, 4), title: 'reduced chi-square (near 1 when σ matches the scatter)' });
-  out.push({ label: 'R²', value: formatNumber(g.r2, 5), title: f.method === 'linear' ? 'coefficient of determination' : 'coefficient of determination (descriptive only for a nonlinear model)' });
-  out.push({ label: 'AICc', value: formatNumber(g.aicc, 5), title: 'small-sample Akaike information criterion' });
-  return out;
+  const entries = goodnessEntries(f);
+  const entry = (label: string): Entry | undefined => entries.find((e) => e.label === label);
+  const stat = (short: string, label: string, title: string): PanelFit['keyStats'] => {
+    const e = entry(label);
+    return e ? [{ label: short, value: e.value, title: e.note ? `${title} (${e.note})` : title }] : [];
+  };
+  return [
+    ...counts,
+    ...stat('RMSE', 'residual standard deviation (RMSE)', 'residual standard deviation'),
+    ...(f.sigmaAbsolute ? stat('χ²/ν', 'reduced χ² (χ²/dof)', 'reduced chi-square') : []),
+    ...stat('R²', 'R²', 'coefficient of determination'),
+    ...stat('AICc', 'AICc', 'small-sample Akaike information criterion'),
+  ];
 }
 
 function flaggedPoints(f: FitResult): PanelFit['flaggedPoints'] {
@@ -243,7 +264,7 @@ function highCorrelations(f: FitResult): { a: string; b: string; r: string }[] {
   for (let i = 0; i < ps.length; i++) {
     for (let j = i + 1; j < ps.length; j++) {
       const r = f.correlation[i]?.[j];
-      if (!ps[i].fixed && !ps[j].fixed && typeof r === 'number' && Math.abs(r) >= HIGH_CORRELATION) out.push({ a: ps[i].name, b: ps[j].name, r: formatNumber(r, 4) });
+      if (!ps[i].fixed && !ps[j].fixed && typeof r === 'number' && isHighCorrelation(r)) out.push({ a: ps[i].name, b: ps[j].name, r: formatNumber(r, DIGITS.statistic) });
     }
   }
   return out;

@@ -50,7 +50,8 @@ const isOptString = (x: unknown): boolean => x === undefined || typeof x === 'st
 
 /** Shallow check of a panel model (the host builds it; the page only needs the shape). */
 export function isPanelModel(x: unknown): x is PanelModel {
-  return isObject(x) && x.version === 1 && isString(x.specUri) && isString(x.specName) && Array.isArray(x.fits) && isObject(x.run);
+  // the version of extension/logic/panel-model.ts PANEL_MODEL_VERSION (a literal: the page bundle imports no engine code; test/extension/protocol.test.ts holds them equal)
+  return isObject(x) && x.version === 2 && isString(x.specUri) && isString(x.specName) && Array.isArray(x.fits) && isObject(x.run);
 }
 
 export function isPanelChart(x: unknown): x is PanelChart {

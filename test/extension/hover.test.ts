@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { hoverAt } from '../../extension/logic/hover';
-import { formatEstimate, formatNumber } from '../../engine/front/views/format';
+import { formatEstimate, formatNumber } from '../../engine/format';
 import { FUNCTION_SPECS, STATISTICS } from '../../parser/registry';
 import { analysisOf, COOLING, fitNamed, runWith } from './helpers';
 
@@ -62,7 +62,7 @@ describe('extension/logic/hover', () => {
     const fit = fitNamed('newton', ['rise', 'tau']);
     const h = hoverAt(analysisOf(COOLING), COOLING.indexOf('newton.r2') + 'newton.'.length + 1, runWith([fit]));
     expect(h?.markdown).toContain('**r2** of `newton`');
-    expect(h?.markdown).toContain(`= ${formatNumber(fit.goodness.r2, 4)}`);
+    expect(h?.markdown).toContain(`= ${formatNumber(fit.goodness.r2)}`); // the digits of the CLI (engine/format.ts DIGITS.value)
   });
 
   it('gives the value of every statistic the registry names, each from its own field', () => {

@@ -3,10 +3,12 @@ import Papa from 'papaparse';
 import chisquareCdf from '@stdlib/stats-base-dists-chisquare-cdf';
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import { toCsv, toJson, summaryToCsv, rowCells } from '../../engine/front/views/group-csv';
-import { flagsOf, isPoorFit, isGroupFlag } from '../../engine/groups/flags';
+import { flagsOf, holmRejected, isPoorFit, isGroupFlag } from '../../engine/groups/flags';
 import { quantileSorted, spreadOf } from '../../engine/groups/quantile';
 import type { FitResult } from '../../engine/result';
 import { lineData, lineFit } from '../fixtures/line-fit';
+import { warningText } from '../../engine/messages';
+import { THRESHOLDS } from '../../engine/thresholds';
 
 /** Straight-line fits for groups g0..g(k-1), slopes 0.09, 0.10, ... (invented calibration batches). */
 function groupFits(k: number): FitResult[] {
@@ -58,6 +60,36 @@ describe('engine/groups/flags', () => {
     expect(isPoorFit({ ...f, goodness: { ...f.goodness, r2: 0.89 } })).toBe(true);
     expect(isPoorFit({ ...f, goodness: { ...f.goodness, r2: 0.91 } })).toBe(false);
     expect(isPoorFit({ ...f, goodness: { ...f.goodness, r2: 0.95 } }, { minR2: 0.99 })).toBe(true);
+  });
+
+  it('does not judge a model nonlinear in its parameters by R² (the engine says R² is no measure of fit there): its runs test flags it instead', () => {
+    const f = groupFits(1)[0];
+    const r2Nonlinear = { code: 'r2_nonlinear' as const, message: warningText.r2_nonlinear() };
+    const nonlinear = (r2: number, runsP: number): FitResult => ({
+      ...f, method: 'levenberg_marquardt', goodness: { ...f.goodness, r2 }, warnings: [r2Nonlinear],
+      residuals: { ...f.residuals, runs: { observed: 3, expected: 7, pValue: runsP } },
+    });
+    expect(isPoorFit(nonlinear(0.5, 0.4))).toBe(false);
+    expect(isPoorFit(nonlinear(0.999, 0.002))).toBe(true);
+    expect(flagsOf(nonlinear(0.999, 0.002))).toEqual(['poor_fit']);
+    // a model linear in its parameters fitted iteratively keeps the R² screen (keyed on the model, not the method)
+    expect(isPoorFit({ ...f, method: 'levenberg_marquardt', goodness: { ...f.goodness, r2: 0.5 } })).toBe(true);
+    expect(THRESHOLDS.groupMinR2).toBe(0.9);
+    // across groups, the runs tests are one family (Holm): p = 0.002 alone is flagged, not among 96 groups
+    const many = Array.from({ length: 96 }, (_, i) => ({ ...nonlinear(0.99, i === 0 ? 0.002 : 0.5), group: `w${i}` }));
+    expect(buildGroupTable(many).summary.poorFit).toBe(0);
+    many[1] = { ...nonlinear(0.99, 1e-5), group: 'w1' };
+    const t = buildGroupTable(many);
+    expect(t.rows.filter((r) => r.flags.includes('poor_fit')).map((r) => r.group)).toEqual(['w1']);
+  });
+
+  it('decides a family of tests by Holm\'s step-down procedure (Holm 1979; values worked from its definition)', () => {
+    // sorted 0.01 <= 0.05/3, then 0.03 > 0.05/2: stop
+    expect(holmRejected([0.01, 0.04, 0.03, null], 0.05)).toEqual([true, false, false, false]);
+    // 0.001 <= 0.0125, 0.01 <= 0.0167, 0.02 <= 0.025, 0.04 <= 0.05: all
+    expect(holmRejected([0.04, 0.02, 0.01, 0.001], 0.05)).toEqual([true, true, true, true]);
+    expect(holmRejected([], 0.05)).toEqual([]);
+    expect(holmRejected([0.05], 0.05)).toEqual([true]);
   });
 
   it('uses a two-sided χ² test at 0.001 per tail with absolute sigma, ignoring R²', () => {

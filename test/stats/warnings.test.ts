@@ -1,27 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { WARNING_THRESHOLDS } from '../../engine/messages';
+import { THRESHOLDS } from '../../engine/thresholds';
 import { boundHit, fitWarnings, type WarningInput } from '../../engine/stats/warnings';
+import { warningInput } from '../fixtures/warning-input';
 
-function base(over: Partial<WarningInput> = {}): WarningInput {
-  return {
-    free: [
-      { name: 'a', estimate: 1, lower: -Infinity, upper: Infinity },
-      { name: 'b', estimate: 2, lower: 0, upper: 10 },
-    ],
-    correlation: [[1, 0.5], [0.5, 1]],
-    condition: 10,
-    rank: 2,
-    undetermined: [],
-    n: 20,
-    stop: { code: 'small_reduction', message: 'ok', converged: true },
-    residuals: { durbinWatson: 2, runs: { observed: 10, expected: 10.5, pValue: 0.8 }, shapiroWilk: { w: 0.97, pValue: 0.6 } },
-    linear: true,
-    rowsDropped: 0,
-    file: 'd.csv',
-    guessed: { names: [], how: '' },
-    ...over,
-  };
-}
+const base = warningInput;
 const codes = (over: Partial<WarningInput>) => fitWarnings(base(over)).map((w) => w.code);
 
 describe('stats/warnings fitWarnings', () => {
@@ -32,7 +14,7 @@ describe('stats/warnings fitWarnings', () => {
   it('flags each documented condition at its threshold', () => {
     expect(codes({ free: [{ name: 'a', estimate: 0, lower: 0, upper: 1 }], correlation: [[1]] })).toEqual(['at_bound']);
     expect(codes({ correlation: [[1, 0.995], [0.995, 1]] })).toEqual(['high_correlation']);
-    expect(codes({ correlation: [[1, WARNING_THRESHOLDS.correlation], [WARNING_THRESHOLDS.correlation, 1]] })).toEqual([]);
+    expect(codes({ correlation: [[1, THRESHOLDS.correlation], [THRESHOLDS.correlation, 1]] })).toEqual([]);
     expect(codes({ condition: 2e10 })).toEqual(['ill_conditioned']);
     expect(codes({ rank: 1, undetermined: ['b'], condition: Infinity })).toEqual(['rank_deficient']);
     expect(codes({ n: 4 })).toEqual(['few_dof']);

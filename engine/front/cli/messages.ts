@@ -4,6 +4,7 @@
  * (locate.ts adds it).
  */
 import { DEFAULT_POLY_DEGREE, MAX_POLY_DEGREE, templateIds } from '../../templates';
+import { AUTO_GROUPS_ALONE, AUTO_MIN_GROUPS, AUTO_MIN_ROWS } from '../../groups/threads';
 
 export const TOOL = 'leastwise';
 
@@ -60,7 +61,7 @@ Options:
                    reduced χ², stop, flags. Several per-group fits: one file
                    each, PATH-<fit>.csv
   --threads N      threads for per-group fits (default: all cores, used only
-                   from 8 groups and either 64 groups or 50000 rows on);
+                   from ${AUTO_MIN_GROUPS} groups and either ${AUTO_GROUPS_ALONE} groups or ${AUTO_MIN_ROWS} rows on);
                    1 fits every group in this thread
   --quiet          print no summary; problems and failed expectations still
                    go to stderr

@@ -30,7 +30,7 @@ import type { FitResult } from '../../result';
 import { bandRows, excludedRows, histogramRows, pointRows, prefersLogX, qqRows, type PointRow, type Thinned } from './chart-data';
 import { fitStatus } from './summary';
 import { MAX_MARKS } from './downsample';
-import { formatLevel } from './format';
+import { CHART_FORMAT, formatLevel } from '../../format';
 import { FONT, PALETTE, type Palette } from './palette';
 import { chartLabel } from './escape';
 
@@ -59,7 +59,7 @@ export interface ChartSpec {
 }
 
 const SCHEMA = 'https://vega.github.io/schema/vega-lite/v6.json';
-const NUM = '.4~g';
+const NUM = CHART_FORMAT.value;
 
 type Json = Record<string, unknown>;
 
@@ -218,7 +218,7 @@ function residualChart(fit: FitResult, o: ChartContext, against: 'x' | 'fitted')
       ...pointLayer('data_points', pal, pts.rows.length, xEnc, { field: 'residual', type: 'quantitative', axis: axisTitle('residual (observed − fitted)') }, [
         { field: against, type: 'quantitative', title: xTitle, format: NUM },
         { field: 'residual', type: 'quantitative', title: 'residual', format: NUM },
-        { field: 'standardized', type: 'quantitative', title: 'standardized', format: '.3~f' },
+        { field: 'standardized', type: 'quantitative', title: 'standardized', format: CHART_FORMAT.standardized },
       ]),
     },
   ];
@@ -248,7 +248,7 @@ function qqChart(fit: FitResult, o: ChartContext): ChartSpec {
       ...pointLayer('data_points', pal, qq.rows.length,
         { field: 'theoretical', type: 'quantitative', axis: axisTitle('normal quantile') },
         { field: 'standardized', type: 'quantitative', axis: axisTitle('standardized residual') },
-        [{ field: 'theoretical', type: 'quantitative', title: 'normal quantile', format: '.3~f' }, { field: 'standardized', type: 'quantitative', title: 'standardized residual', format: '.3~f' }]),
+        [{ field: 'theoretical', type: 'quantitative', title: 'normal quantile', format: CHART_FORMAT.standardized }, { field: 'standardized', type: 'quantitative', title: 'standardized residual', format: CHART_FORMAT.standardized }]),
     },
   ];
   const title = `${fit.name}${groupSuffix(fit)}: residuals against a normal distribution`;
@@ -267,7 +267,7 @@ function histogramChart(fit: FitResult, o: ChartContext): ChartSpec {
       encoding: {
         x: { field: 'start', type: 'quantitative', axis: axisTitle('standardized residual') }, x2: { field: 'end' },
         y: { field: 'count', type: 'quantitative', axis: axisTitle('number of points') },
-        tooltip: [{ field: 'start', type: 'quantitative', title: 'from', format: '.2f' }, { field: 'end', type: 'quantitative', title: 'to', format: '.2f' }, { field: 'count', type: 'quantitative', title: 'points' }],
+        tooltip: [{ field: 'start', type: 'quantitative', title: 'from', format: CHART_FORMAT.binEdge }, { field: 'end', type: 'quantitative', title: 'to', format: CHART_FORMAT.binEdge }, { field: 'count', type: 'quantitative', title: 'points' }],
       },
     },
     { name: 'normal_curve', data: { values: h.curve }, mark: { type: 'line', color: pal.curve, strokeWidth: 1.5 }, encoding: { x: { field: 'z', type: 'quantitative' }, y: { field: 'count', type: 'quantitative' } } },

@@ -14,7 +14,7 @@
  * engine/stats/compare.ts.
  */
 import type { QueryResult } from '../../result';
-import { formatInteger, formatNumber, formatP } from './format';
+import { formatInteger, formatNumber, formatP } from '../../format';
 import type { Align } from './table';
 
 type Comparison = Extract<QueryResult, { kind: 'compare' }>;

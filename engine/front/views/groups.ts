@@ -14,7 +14,7 @@
 import type { FitResult, RunResult } from '../../result';
 import { buildGroupTable, worstGroups, type GroupRow, type GroupTable } from '../../groups/table';
 import type { GroupFlag } from '../../groups/flags';
-import { formatEstimate, formatNumber, MISSING } from './format';
+import { DIGITS, formatEstimate, formatNumber, MISSING } from '../../format';
 import type { Align } from './table';
 
 /** Groups up to this count all get a full per-fit block. */
@@ -103,8 +103,8 @@ export function groupRowCells(table: GroupTable, row: GroupRow): string[] {
       cells.push(f.estimate, f.stderr);
     }
   });
-  cells.push(formatNumber(row.r2, 5));
-  if (hasChi2(table)) cells.push(formatNumber(row.chi2Reduced, 4));
+  cells.push(formatNumber(row.r2, DIGITS.value));
+  if (hasChi2(table)) cells.push(formatNumber(row.chi2Reduced, DIGITS.statistic));
   cells.push(row.flags.join(', '));
   return cells;
 }
@@ -142,21 +142,21 @@ export function groupCountLine(table: GroupTable): string {
 /** Headers and rows of the summary across converged groups: per parameter (and R²) the median, quartiles, IQR and count. */
 export function groupSummaryBlock(table: GroupTable): GroupTableBlock {
   const rows = [...table.summary.parameters, { ...table.summary.r2, name: 'R²' }].map((p) => [
-    p.name, formatNumber(p.median, 5), formatNumber(p.q1, 5), formatNumber(p.q3, 5), formatNumber(p.iqr, 4), String(p.count),
+    p.name, formatNumber(p.median, DIGITS.value), formatNumber(p.q1, DIGITS.value), formatNumber(p.q3, DIGITS.value), formatNumber(p.iqr, DIGITS.statistic), String(p.count),
   ]);
   return { headers: ['', 'median', 'Q1', 'Q3', 'IQR', 'groups'], rows, align: ['left', 'right', 'right', 'right', 'right', 'right'] };
 }
 
 /** Short sentences per parameter for narrow displays: `k: median 0.31, IQR 0.05 (23 groups)`. */
 export function groupSummarySentences(table: GroupTable): string[] {
-  return table.summary.parameters.map((p) => `${p.name}: median ${formatNumber(p.median, 5)}, IQR ${formatNumber(p.iqr, 4)} (${p.count} groups)`);
+  return table.summary.parameters.map((p) => `${p.name}: median ${formatNumber(p.median, DIGITS.value)}, IQR ${formatNumber(p.iqr, DIGITS.statistic)} (${p.count} groups)`);
 }
 
 /** The worst groups (engine/groups/table.ts `worstGroups`), at most WORST_GROUPS, as `group: flags - reason` lines. */
 export function worstGroupLines(table: GroupTable, k = WORST_GROUPS): string[] {
   return worstGroups(table, k).map((r) => {
     const flags = r.flags.length ? r.flags.join(', ') : 'no flag';
-    const why = r.stop === 'failed' || !r.converged ? ` - ${r.stop}: ${r.message}` : `, R² ${formatNumber(r.r2, 5)}`;
+    const why = r.stop === 'failed' || !r.converged ? ` - ${r.stop}: ${r.message}` : `, R² ${formatNumber(r.r2, DIGITS.value)}`;
     return `${r.group}: ${flags}${why}`;
   });
 }

@@ -10,8 +10,8 @@ import type { FitResult } from '../../result';
 import type { Align } from './table';
 import type { Entry } from './summary';
 import { INFLUENCE_THRESHOLDS as T } from '../../stats/influence-thresholds';
-import { WARNING_THRESHOLDS } from '../../messages';
-import { formatInteger, formatNumber, formatP, isUsable } from './format';
+import { THRESHOLDS } from '../../thresholds';
+import { formatInteger, formatNumber, formatP, isUsable } from '../../format';
 
 /** What the residuals' order is: along the predictor (single-predictor fits) or the rows as read. */
 function orderText(fit: FitResult): string {
@@ -20,7 +20,7 @@ function orderText(fit: FitResult): string {
 
 /**
  * The hint beside a Durbin–Watson d: its reading follows the value. Within durbinWatsonNear of 2 (common practice):
- * no sign of serial correlation; up to the warning's distance (WARNING_THRESHOLDS.durbinWatsonDistance): a hint only;
+ * no sign of serial correlation; up to the warning's distance (THRESHOLDS.durbinWatsonDistance): a hint only;
  * beyond it: the reading of the warning.
  */
 export function durbinWatsonHint(d: number, fit: FitResult): string {
@@ -30,7 +30,7 @@ export function durbinWatsonHint(d: number, fit: FitResult): string {
   const side = d < 2
     ? 'neighbouring residuals alike (positive serial correlation, or a trend or bend the model misses)'
     : 'neighbouring residuals alternating in sign (negative serial correlation)';
-  return off <= WARNING_THRESHOLDS.durbinWatsonDistance
+  return off <= THRESHOLDS.durbinWatsonDistance
     ? `${order}; ${d < 2 ? 'below' : 'above'} 2: a hint of ${side}, not conclusive`
     : `${order}; far ${d < 2 ? 'below' : 'above'} 2: ${side}`;
 }

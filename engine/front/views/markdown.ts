@@ -13,7 +13,7 @@
  * neither the document's structure nor its HTML.
  */
 import type { FitResult, RunResult } from '../../result';
-import { formatLevel, formatNumber } from './format';
+import { DIGITS, formatLevel, formatNumber } from '../../format';
 import {
   derivedBlock, derivedLabel, expectationRows, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL,
   notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, robustLine, searchLine, stopLine, warningLines,
@@ -162,13 +162,13 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
   const sections = fitSections(result);
   if (result.fits.length) {
     lines.push('## Summary', '');
-    const fitRow = (f: FitResult): (string | Markdown)[] => [fitLabel(f), f.stop.converged ? 'yes' : md('**no**'), String(f.goodness.n), formatNumber(f.goodness.rmse, 4), formatNumber(f.goodness.r2, 5), String(warningLines(f).length)];
+    const fitRow = (f: FitResult): (string | Markdown)[] => [fitLabel(f), f.stop.converged ? 'yes' : md('**no**'), String(f.goodness.n), formatNumber(f.goodness.rmse, DIGITS.statistic), formatNumber(f.goodness.r2, DIGITS.value), String(warningLines(f).length)];
     const rows = sections.flatMap((s): (string | Markdown)[][] => {
       if (s.kind === 'single') return [fitRow(s.fit)];
       if (s.fits.length <= DETAIL_ALL_GROUPS) return s.fits.map(fitRow);
       const sum = s.table.summary;
       const n = s.fits.reduce((k, f) => k + f.goodness.n, 0);
-      return [[`${s.name} (${sum.groups} groups)`, sum.converged === sum.groups ? 'yes' : md(`**${sum.converged} of ${sum.groups}**`), String(n), 'per group', `median ${formatNumber(sum.r2.median, 5)}`, `${sum.flagged} groups flagged`]];
+      return [[`${s.name} (${sum.groups} groups)`, sum.converged === sum.groups ? 'yes' : md(`**${sum.converged} of ${sum.groups}**`), String(n), 'per group', `median ${formatNumber(sum.r2.median, DIGITS.value)}`, `${sum.flagged} groups flagged`]];
     });
     append(lines, markdownTable(['fit', 'converged', 'n', 'RMSE', 'R²', 'warnings'], rows), '');
     lines.push(mdText(expectationTally(result)), '');

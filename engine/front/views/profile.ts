@@ -6,7 +6,7 @@
  * `ParameterResult.profile` only (engine/result.ts).
  */
 import type { FitResult, ParameterResult, ProfileEnd } from '../../result';
-import { formatEstimate, formatLevel, formatNumber, isUsable } from './format';
+import { formatEstimate, formatLevel, formatNumber, isUsable } from '../../format';
 
 export const PROFILE_HEADERS = (level: number): string[] => ['parameter', `profile ${formatLevel(level)} low`, `profile ${formatLevel(level)} high`, 'against the symmetric interval'];
 

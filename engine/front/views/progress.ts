@@ -4,9 +4,9 @@
  * being solved, e.g. `decay [b003]: iteration 12,345, objective 0.001235`.
  */
 import type { RunIteration } from '../../runner/run-plan';
-import { formatNumber } from './format';
+import { DIGITS, formatNumber } from '../../format';
 
 export function iterationText(it: RunIteration): string {
   const who = `${it.fit}${it.group !== undefined ? ` [${it.group}]` : ''}`;
-  return `${who}: iteration ${it.iteration.toLocaleString('en-US')}, objective ${formatNumber(it.cost, 4)}`;
+  return `${who}: iteration ${it.iteration.toLocaleString('en-US')}, objective ${formatNumber(it.cost, DIGITS.statistic)}`;
 }

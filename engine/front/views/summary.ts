@@ -1,12 +1,14 @@
 /**
  * The printable content of a run, as strings, shared by the text and the
- * Markdown views (they differ only in layout). Digits follow format.ts.
+ * Markdown views (they differ only in layout). Digits follow engine/format.ts,
+ * thresholds behind the notes engine/thresholds.ts.
  */
 import type { DerivedResult, ExpectationResult, FitResult, QueryResult, RunResult } from '../../result';
 import type { Align } from './table';
 import { LOSSES, LOSS_SPECS } from '../../../parser/registry/losses';
 import { METHOD_SPECS } from '../../../parser/registry/methods';
-import { formatEstimate, formatInteger, formatLevel, formatNumber, formatP, isUsable, MISSING } from './format';
+import { DIGITS, formatEstimate, formatInteger, formatInterval, formatLevel, formatNumber, formatP, isUsable, MISSING, pClause } from '../../format';
+import { CORRELATION_SYMBOL, isLargeCondition, isSerialDurbinWatson, THRESHOLDS } from '../../thresholds';
 import { comparisonBlock } from './comparison';
 import { durbinWatsonHint, influenceEntries, runsHint } from './influence';
 
@@ -81,11 +83,11 @@ export function searchLine(fit: FitResult): string | null {
   const s = fit.search;
   if (!s) return null;
   if (s.skipped) return `Search: not run (${s.skipped})`;
-  const shown = s.minima.slice(0, SEARCH_MINIMA_SHOWN).map((m) => `${formatNumber(m.ssr, 6)}${m.reported ? ' reported' : ''}${m.converged ? '' : ' not converged'}`);
+  const shown = s.minima.slice(0, SEARCH_MINIMA_SHOWN).map((m) => `${formatNumber(m.ssr)}${m.reported ? ' reported' : ''}${m.converged ? '' : ' not converged'}`);
   const more = s.minima.length > SEARCH_MINIMA_SHOWN ? `, ${s.minima.length - SEARCH_MINIMA_SHOWN} more` : '';
   const start = s.reason === 'no_start' ? 'computed ' : s.reason === 'asked' ? 'given ' : '';
   const ending = s.lowerElsewhere
-    ? `; the fit from the ${start}starting values stopped higher, at SSR ${formatNumber(s.startSsr, 6)}`
+    ? `; the fit from the ${start}starting values stopped higher, at SSR ${formatNumber(s.startSsr)}`
     : '; the fit from the starting values reached the lowest';
   const why = s.reason === 'check' && s.mark ? ` (run because ${s.mark})` : '';
   return `Search${why}: ${s.points} starting points, ${s.refined} refined, ${s.minima.length} distinct minim${s.minima.length === 1 ? 'um' : 'a'} by SSR (${shown.join(', ')}${more})${ending}`;
@@ -118,7 +120,7 @@ export function parameterRows(fit: FitResult): string[][] {
     else if (status === 'last_iterate') notes.push('last iterate, not fitted');
     else if (status === 'not_fitted') notes.push('starting value, not fitted');
     if (p.atBound) notes.push(`at ${p.atBound} bound`);
-    if (!p.fixed && isUsable(p.relativeStderr) && p.relativeStderr > 0.5) notes.push(`poorly determined (SE ${formatNumber(p.relativeStderr * 100, 2)}% of estimate)`);
+    if (!p.fixed && isUsable(p.relativeStderr) && p.relativeStderr > THRESHOLDS.relativeStderr) notes.push(`poorly determined (SE ${formatNumber(p.relativeStderr * 100, DIGITS.percent)}% of estimate)`);
     return [p.name, f.estimate, p.fixed ? 'fixed' : f.stderr, p.fixed ? '' : f.lower, p.fixed ? '' : f.upper, p.unit ?? '', notes.join('; ')];
   });
 }
@@ -139,7 +141,7 @@ export function goodnessEntries(fit: FitResult): Entry[] {
       { label: 'free parameters (p)', value: formatInteger(g.p) },
       { label: 'degrees of freedom', value: formatInteger(g.dof) },
     ];
-    if (status === 'last_iterate' && isUsable(g.ssr)) out.push({ label: 'SSR at the last iterate', value: formatNumber(g.ssr, 6), note: 'where the solver stopped, not a minimum' });
+    if (status === 'last_iterate' && isUsable(g.ssr)) out.push({ label: 'SSR at the last iterate', value: formatNumber(g.ssr), note: 'where the solver stopped, not a minimum' });
     out.push({ label: 'R², RMSE, AIC and the rest', value: 'withheld', note: status === 'last_iterate' ? 'the fit did not converge' : 'nothing was fitted' });
     return out;
   }
@@ -147,31 +149,47 @@ export function goodnessEntries(fit: FitResult): Entry[] {
     { label: 'points (n)', value: formatInteger(g.n), note: fit.rowsDropped > 0 ? `${fit.rowsDropped} rows dropped` : undefined },
     { label: 'free parameters (p)', value: formatInteger(g.p) },
     { label: 'degrees of freedom', value: formatInteger(g.dof) },
-    { label: 'sum of squared residuals (SSR)', value: formatNumber(g.ssr, 6), note: fit.sigmaAbsolute ? 'weighted by 1/σ²' : undefined },
-    { label: 'residual standard deviation (RMSE)', value: formatNumber(g.rmse, 6) },
-    { label: 'R²', value: formatNumber(g.r2, 6), note: fit.method === 'linear' ? undefined : 'nonlinear model: R² is descriptive only, not a test of fit' },
-    { label: 'adjusted R²', value: formatNumber(g.adjR2, 6) },
+    { label: 'sum of squared residuals (SSR)', value: formatNumber(g.ssr), note: fit.sigmaAbsolute ? 'weighted by 1/σ²' : undefined },
+    { label: 'residual standard deviation (RMSE)', value: formatNumber(g.rmse) },
+    { label: 'R²', value: formatNumber(g.r2), note: r2Caveat(fit) ?? undefined },
+    { label: 'adjusted R²', value: formatNumber(g.adjR2) },
   ];
   if (fit.sigmaAbsolute) {
-    e.push({ label: 'χ²', value: formatNumber(g.chi2, 6) });
-    e.push({ label: 'reduced χ² (χ²/dof)', value: formatNumber(g.chi2Reduced, 4), note: 'near 1 when σ matches the scatter' });
+    e.push({ label: 'χ²', value: formatNumber(g.chi2) });
+    e.push({ label: 'reduced χ² (χ²/dof)', value: formatNumber(g.chi2Reduced, DIGITS.statistic), note: 'near 1 when σ matches the scatter' });
   }
-  e.push({ label: 'AIC', value: formatNumber(g.aic, 6) }, { label: 'AICc', value: formatNumber(g.aicc, 6) }, { label: 'BIC', value: formatNumber(g.bic, 6) });
-  e.push({ label: 'condition number', value: formatNumber(g.condition, 3), note: isUsable(g.condition) && g.condition > 1e8 ? 'large: parameters nearly redundant' : undefined });
+  e.push({ label: 'AIC', value: formatNumber(g.aic) }, { label: 'AICc', value: formatNumber(g.aicc) }, { label: 'BIC', value: formatNumber(g.bic) });
+  e.push({ label: 'condition number', value: formatNumber(g.condition, DIGITS.magnitude), note: isLargeCondition(g.condition) ? `large (above ${formatNumber(THRESHOLDS.condition)}): parameters nearly redundant, digits may be lost` : undefined });
   const r = fit.residuals;
-  if (r.durbinWatson !== null) e.push({ label: 'Durbin–Watson', value: formatNumber(r.durbinWatson, 3), note: durbinWatsonHint(r.durbinWatson, fit) });
+  if (r.durbinWatson !== null) e.push({ label: 'Durbin–Watson', value: formatNumber(r.durbinWatson, DIGITS.magnitude), note: durbinWatsonHint(r.durbinWatson, fit) });
   if (r.runs) e.push({ label: 'runs test p', value: formatP(r.runs.pValue), note: runsHint(r.runs, fit) });
-  if (r.shapiroWilk) e.push({ label: 'Shapiro–Wilk p', value: formatP(r.shapiroWilk.pValue), note: `W = ${formatNumber(r.shapiroWilk.w, 4)}` });
+  if (r.shapiroWilk) e.push({ label: 'Shapiro–Wilk p', value: formatP(r.shapiroWilk.pValue), note: `W = ${formatNumber(r.shapiroWilk.w, DIGITS.statistic)}` });
   e.push(...influenceEntries(fit));
   return e;
 }
 
 /**
+ * The caveat beside R², or null: the text of the fit's `r2_nonlinear` warning,
+ * which the engine gives exactly when the model is nonlinear in its free
+ * parameters (engine/stats/warnings.ts) — keyed on the model, not on the
+ * method, so a model linear in its parameters fitted by an iterative solver
+ * carries no caveat. The CLI, the report and the panel all read it here.
+ */
+export function r2Caveat(fit: FitResult): string | null {
+  return fit.warnings.find((w) => w.code === 'r2_nonlinear')?.message ?? null;
+}
+
+/**
  * Warning texts with their codes. `r2_nonlinear` is left out: the R² entry of
- * goodnessEntries already carries that note for every nonlinear fit.
+ * goodnessEntries already carries it (`r2Caveat`).
  */
 export function warningLines(fit: FitResult): string[] {
   return fit.warnings.filter((w) => w.code !== 'r2_nonlinear').map((w) => `${w.message}${w.parameters?.length ? ` (${w.parameters.join(', ')})` : ''} [${w.code}]`);
+}
+
+/** Caption of a list of strongly correlated parameter pairs: the symbol and the test of the `high_correlation` warning. */
+export function correlationCaption(): string {
+  return `High correlations (|${CORRELATION_SYMBOL}| > ${formatNumber(THRESHOLDS.correlation)})`;
 }
 
 /** Column labels of the solver trace table (`traceRows`). */
@@ -180,10 +198,11 @@ export const TRACE_HEADERS = ['iteration', 'cost', 'trial cost', 'gradient', 'st
 /** Rows of the per-iteration trace (fit --trace), or none. */
 export function traceRows(fit: FitResult): string[][] {
   if (!fit.trace) return [];
-  const n = (v: number | null, sig = 4) => formatNumber(v, sig);
+  // cost to 10 digits: the trace is read for changes in the last digits between iterations
+  const n = (v: number | null, sig: number = DIGITS.statistic) => formatNumber(v, sig);
   return fit.trace.records.map((r) => [
-    formatInteger(r.iteration), n(r.cost, 10), n(r.trialCost, 10), n(r.gradient, 3), n(r.step, 3), n(r.radius, 3), n(r.ratio, 3),
-    r.accepted ? 'yes' : 'no', r.kind ? `${r.kind}${r.stepBack !== null && r.stepBack !== undefined ? ` (step back ${formatNumber(r.stepBack, 6)})` : ''}` : '', (r.bounds ?? []).join(', '),
+    formatInteger(r.iteration), n(r.cost, 10), n(r.trialCost, 10), n(r.gradient, DIGITS.magnitude), n(r.step, DIGITS.magnitude), n(r.radius, DIGITS.magnitude), n(r.ratio, DIGITS.magnitude),
+    r.accepted ? 'yes' : 'no', r.kind ? `${r.kind}${r.stepBack !== null && r.stepBack !== undefined ? ` (step back ${formatNumber(r.stepBack)})` : ''}` : '', (r.bounds ?? []).join(', '),
   ]);
 }
 
@@ -207,9 +226,7 @@ export interface QueryBlock {
   notes: string[];
 }
 
-function interval(a: number | null, b: number | null, sig = 6): string {
-  return `[${formatNumber(a, sig)}, ${formatNumber(b, sig)}]`;
-}
+const interval = (a: number | null, b: number | null): string => formatInterval(a, b);
 
 /** One table per query, with the fit's level in the headings. */
 /** The cell of a query's number that is withheld because its fit did not converge. */
@@ -225,8 +242,8 @@ export function queryBlocks(result: RunResult): QueryBlock[] {
         heading: `Predictions from ${label(q.fit, q.group)} at ${q.variable}`,
         headers: [q.variable, 'fitted', `${lv} confidence interval`, `${lv} prediction interval`],
         rows: q.predictions.map((p) => q.withheld
-          ? [formatNumber(p.x, 6), WITHHELD, '', '']
-          : [formatNumber(p.x, 6), formatNumber(p.fitted, 6), interval(...p.confidence), interval(...p.prediction)]),
+          ? [formatNumber(p.x), WITHHELD, '', '']
+          : [formatNumber(p.x), formatNumber(p.fitted), interval(...p.confidence), interval(...p.prediction)]),
         align: ['right', 'right', 'right', 'right'],
         notes: [q.withheld ? q.withheld : 'Confidence interval: where the mean response lies; prediction interval: where one new observation lies.'],
       };
@@ -239,8 +256,8 @@ export function queryBlocks(result: RunResult): QueryBlock[] {
         heading: `Inverse predictions from ${label(q.fit, q.group)}: ${xName} from ${q.response}`,
         headers: [q.response, xName, `${lv} interval`, 'note'],
         rows: q.inversions.map((v) => q.withheld
-          ? [formatNumber(v.response, 6), WITHHELD, '', '']
-          : [formatNumber(v.response, 6), formatNumber(v.x, 6), interval(v.interval[0], v.interval[1]), v.message ?? '']),
+          ? [formatNumber(v.response), WITHHELD, '', '']
+          : [formatNumber(v.response), formatNumber(v.x), interval(v.interval[0], v.interval[1]), v.message ?? '']),
         align: ['right', 'right', 'right', 'left'],
         notes: [q.withheld ? q.withheld : 'Interval from inverting the prediction band (one new measurement of the response).'],
       };
@@ -281,7 +298,7 @@ export function derivedBlock(result: RunResult): QueryBlock | null {
   const levels = [...new Set(derived.filter((d) => d.lower !== null && d.upper !== null).map((d) => d.level))];
   const oneLevel = levels.length <= 1;
   const rows = derived.map((d) => {
-    const f = formatEstimate(d.value ?? NaN, d.stderr, d.lower, d.upper);
+    const f = formatEstimate(d.value, d.stderr, d.lower, d.upper);
     const hasInterval = d.lower !== null && d.upper !== null;
     const kind = d.dof !== null ? `t, ${d.dof} dof` : 'normal';
     const interval = hasInterval ? `[${f.lower}, ${f.upper}]${oneLevel ? '' : ` (${formatLevel(d.level ?? NaN)}, ${kind})`}` : '';
@@ -306,7 +323,7 @@ export function derivedBlock(result: RunResult): QueryBlock | null {
 
 export function expectationLine(e: ExpectationResult): { verdict: 'PASS' | 'FAIL'; text: string; actual: string; message: string } {
   const text = e.group !== undefined ? `${e.expectation.text} [${e.group}]` : e.expectation.text;
-  return { verdict: e.passed ? 'PASS' : 'FAIL', text, actual: e.actual === null ? MISSING : formatNumber(e.actual, 6), message: e.message };
+  return { verdict: e.passed ? 'PASS' : 'FAIL', text, actual: e.actual === null ? MISSING : formatNumber(e.actual), message: e.message };
 }
 
 export type ExpectationRow = ReturnType<typeof expectationLine>;

@@ -38,6 +38,7 @@ import { MAX_START_ROWS, thinned } from './guess';
 import { parameterRoles } from './roles';
 import { linearSet } from './separable';
 import type { StartInput } from './types';
+import { DIGITS, formatNumber } from '../../format';
 
 /**
  * Design points of the search the check runs (explore.ts; `explore N` asks for more), and the partial results
@@ -66,7 +67,7 @@ export function checkMark(start: StartInput, theta: Float64Array): string | null
     const role = roles.get(p.name);
     if (!role || !role.transformed || (role.kind !== 'location' && (role.inverse || !role.unit)) || linear.includes(j)) continue;
     const box = searchBox(p, theta[j], role);
-    if (theta[j] < box.lower || theta[j] > box.upper) return `${p.name} ended outside the range the data resolve (${box.lower.toPrecision(3)} to ${box.upper.toPrecision(3)})`;
+    if (theta[j] < box.lower || theta[j] > box.upper) return `${p.name} ended outside the range the data resolve (${formatNumber(box.lower, DIGITS.magnitude)} to ${formatNumber(box.upper, DIGITS.magnitude)})`;
   }
   return null;
 }

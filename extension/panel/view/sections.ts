@@ -36,7 +36,7 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
       ? h('ul', { class: 'lw-warnings' }, ...fit.warnings.map((w) => h('li', null, w)))
       : h('p', { class: 'lw-ok' }, 'None.'),
     fit.correlations.length
-      ? table('lw-corr', ['parameters', 'correlation'], fit.correlations.map((c) => [`${c.a} · ${c.b}`, c.r]), { numeric: (j) => j === 1, caption: 'High correlations (|r| ≥ 0.95)' })
+      ? table('lw-corr', ['parameters', 'correlation'], fit.correlations.map((c) => [`${c.a} · ${c.b}`, c.r]), { numeric: (j) => j === 1, caption: fit.correlationCaption })
       : null,
   );
   const fp = fit.flaggedPoints;

@@ -204,7 +204,7 @@ describe('weight 0 leaves a point out', () => {
   it('a sigma of infinity stays an error (the language reads it as a division by zero, not as "leave out")', async () => {
     const r = await fitWith('x,y,s\n1,2,1\n2,4,0\n3,6,1\n', 'data d = "d.csv"\nfit f on d {\n  model y = a + b * x\n  param a\n  param b\n  sigma 1 / s\n}\n');
     expect(r.code).toBe(EXIT.inputError);
-    expect(r.stderr).toMatch(/sigma must be positive and finite, got Infinity at data line 3/);
+    expect(r.stderr).toMatch(/sigma must be positive and finite, got inf at data line 3/);
   });
 
   it('a sigma whose weight 1/σ² leaves the range of doubles is a located error, not a silent drop', async () => {

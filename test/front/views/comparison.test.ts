@@ -23,7 +23,7 @@ describe('views/comparison', () => {
 
   it('states the nested test with its degrees of freedom and p, and a tiny p as a bound', () => {
     const t = { f: 660, df1: 3, df2: 20, pValue: 3.7e-20, simpler: 'one', richer: 'four' };
-    expect(nestedTestSentence(t)).toBe('Nested test: four has 3 more parameters than one; F(3, 20) = 660, p < 1e-4, the chance that scatter alone would lower the residual sum of squares this much.');
+    expect(nestedTestSentence(t)).toBe('Nested test: four has 3 more parameters than one; F(3, 20) = 660, p < 0.0001, the chance that scatter alone would lower the residual sum of squares this much.');
     expect(nestedTestSentence({ ...t, df1: 1, f: 0.46, pValue: 0.508 })).toContain('has 1 more parameter than one; F(1, 20) = 0.46, p = 0.508,');
   });
 

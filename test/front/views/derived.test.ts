@@ -5,7 +5,7 @@ import type { DerivedResult, RunResult } from '../../../engine/result';
 import { derivedBlock } from '../../../engine/front/views/summary';
 import { runText } from '../../../engine/front/views/text';
 import { markdownReport } from '../../../engine/front/views/markdown';
-import { formatEstimate } from '../../../engine/front/views/format';
+import { formatEstimate } from '../../../engine/format';
 import { buildPanelModel } from '../../../extension/logic/panel-model';
 
 const run = JSON.parse(readFileSync(join(__dirname, '../../fixtures/calibration-run.json'), 'utf8')) as RunResult;
@@ -57,7 +57,7 @@ describe('views: derived quantities in the CLI text, Markdown and panel', () => 
     expect(at('Derived quantities')).toBeGreaterThan(at('Predictions from cal'));
     expect(at('Derived quantities')).toBeLessThan(at('Expectations'));
     expect(text).toMatch(/\n {2}quantity +value +std\. error +95% interval +unit\n/);
-    expect(text).toMatch(/\n {2}lod +0\.0853\d* +0\.000139\d* +\[0\.085\d*, 0\.085\d*\] +mg\/L\n/);
+    expect(text).toMatch(/\n {2}lod +0\.0853\d* +0\.00014 +\[0\.085\d*, 0\.085\d*\] +mg\/L\n/);
     expect(text).toContain(`  lod, loq: ${NOTE}`);
     expect(runText(run)).not.toContain('Derived quantities');
   });

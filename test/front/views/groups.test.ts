@@ -7,7 +7,7 @@ import type { DerivedResult, ExpectationResult, FitResult } from '../../../engin
 import { buildGroupTable } from '../../../engine/groups/table';
 import { detailIndices, fitSections, groupRowCells, groupTableHeaders, MAX_DETAIL_GROUPS } from '../../../engine/front/views/groups';
 import { derivedBlock, expectationRows } from '../../../engine/front/views/summary';
-import { formatEstimate } from '../../../engine/front/views/format';
+import { formatEstimate } from '../../../engine/format';
 import { runText } from '../../../engine/front/views/text';
 import { markdownReport } from '../../../engine/front/views/markdown';
 import { lineData, lineFit, runOf } from '../../fixtures/line-fit';

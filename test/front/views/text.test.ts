@@ -4,7 +4,8 @@ import { join } from 'node:path';
 import type { RunResult } from '../../../engine/result';
 import { runText, fitTextLines } from '../../../engine/front/views/text';
 import { textTable, markdownTable } from '../../../engine/front/views/table';
-import { formatEstimate } from '../../../engine/front/views/format';
+import { formatEstimate } from '../../../engine/format';
+import { warningText } from '../../../engine/messages';
 
 const run = JSON.parse(readFileSync(join(__dirname, '../../fixtures/calibration-run.json'), 'utf8')) as RunResult;
 
@@ -40,11 +41,15 @@ describe('views/text', () => {
     expect(text).not.toContain('reduced χ²'); // no sigma in this fit
   });
 
-  it('notes that R² is descriptive for nonlinear fits and shows χ² with sigma', () => {
-    const nl = { ...fit, method: 'levenberg_marquardt' as const, sigmaAbsolute: true, goodness: { ...fit.goodness, chi2: 15.2, chi2Reduced: 0.95 } };
+  it('notes that R² is descriptive for a model nonlinear in its parameters (keyed on the model, as the warning is) and shows χ² with sigma', () => {
+    const caveat = warningText.r2_nonlinear();
+    const nl = { ...fit, method: 'levenberg_marquardt' as const, sigmaAbsolute: true, goodness: { ...fit.goodness, chi2: 15.2, chi2Reduced: 0.95 }, warnings: [...fit.warnings, { code: 'r2_nonlinear' as const, message: caveat }] };
     const lines = fitTextLines(nl).join('\n');
-    expect(lines).toContain('nonlinear model: R² is descriptive only');
+    expect(lines.split('\n').find((l) => l.trimStart().startsWith('R² '))).toContain(caveat);
     expect(lines).toMatch(/reduced χ² \(χ²\/dof\)\s+0\.95/);
+    // a model linear in its parameters fitted by an iterative solver carries no caveat
+    const iterative = { ...fit, method: 'levenberg_marquardt' as const };
+    expect(fitTextLines(iterative).join('\n')).not.toContain(caveat);
   });
 
   it('prints queries and expectations with verdicts', () => {

@@ -22,7 +22,7 @@ describe('solve/start/check', () => {
   it('marks a scale of the predictor outside the range the data resolve (the search box, box.ts)', () => {
     const { input } = setup(LOGISTIC, logisticParams, doses, flatY);
     // box of ec: smallest non-zero dose / 10 = 1e-4 to 10 × spread ≈ 197
-    expect(checkMark(input, Float64Array.of(2, 100, 2e-6, 4))).toMatch(/^ec ended outside the range the data resolve \(0\.000100 to 197\)$/);
+    expect(checkMark(input, Float64Array.of(2, 100, 2e-6, 4))).toMatch(/^ec ended outside the range the data resolve \(0\.0001 to 197\)$/);
     expect(checkMark(input, Float64Array.of(2, 100, 5e3, 4))).toMatch(/^ec ended outside/);
     expect(checkMark(input, Float64Array.of(2, 100, 2e-4, 4))).toBeNull();
     expect(checkMark(input, Float64Array.of(2, 100, 3, 1.2))).toBeNull();
@@ -32,7 +32,7 @@ describe('solve/start/check', () => {
     const xs = Array.from({ length: 41 }, (_, i) => i * 0.5);
     const { input } = setup('b + a * exp(-(x - c)^2 / (2 * w^2))', [p('b'), p('a'), p('c'), p('w', { lower: 0 })], xs, xs.map((x) => 1 + 5 * Math.exp(-((x - 8) ** 2) / 2)));
     expect(checkMark(input, Float64Array.of(1, 5, 8, 1))).toBeNull();
-    expect(checkMark(input, Float64Array.of(1, 5, 35, 1))).toMatch(/^c ended outside the range the data resolve \(0\.00 to 20\.0\)$/);
+    expect(checkMark(input, Float64Array.of(1, 5, 35, 1))).toMatch(/^c ended outside the range the data resolve \(0 to 20\)$/);
   });
 
   it('leaves linear parameters and scales of an inverted predictor alone (Ea in exp(-Ea/(R·T)))', () => {
