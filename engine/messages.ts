@@ -78,8 +78,8 @@ export const warningText = {
     rows.length === 1
       ? `the fit passes through row ${rows[0]} (leverage 1): its residual carries no information, so the data cannot check the model there and it has no studentized residual or Cook's distance`
       : `the fit passes through rows ${rowList(rows)} (leverage 1): their residuals carry no information, so the data cannot check the model there and they have no studentized residuals or Cook's distances`,
-  high_leverage: (rows: readonly number[], h: readonly number[], cutoff: number, linearised: boolean) =>
-    `${rows.length === 1 ? 'row' : 'rows'} ${rowValues(rows, h, 'h')} ha${rows.length === 1 ? 's' : 've'} high leverage (above 2p/n = ${num(cutoff)}, a rule of thumb of common practice${linearised ? '; leverage of the linearised model' : ''}): the fit leans on ${rows.length === 1 ? 'it' : 'them'}, so check ${rows.length === 1 ? 'its value' : 'their values'}`,
+  high_leverage: (rows: readonly number[], h: readonly number[], cutoff: number, cooks: number, linearised: boolean) =>
+    `${rows.length === 1 ? 'row' : 'rows'} ${rowValues(rows, h, 'h')} ha${rows.length === 1 ? 's' : 've'} high leverage (above 2p/n = ${num(cutoff)}) and move${rows.length === 1 ? 's' : ''} the fit (Cook's distance above 4/n = ${num(cooks)}; both rules of thumb of common practice${linearised ? ', of the linearised model' : ''}): the fit leans on ${rows.length === 1 ? 'it' : 'them'}, so check ${rows.length === 1 ? 'its value' : 'their values'}`,
   influential_point: (rows: readonly number[], d: readonly number[], cutoff: number, linearised: boolean) =>
     `${rows.length === 1 ? 'row' : 'rows'} ${rowValues(rows, d, 'D')} ${rows.length === 1 ? 'is' : 'are'} influential (Cook's distance above ${num(cutoff)}, a rule of thumb of common practice${linearised ? '; from the linearised model' : ''}): leaving ${rows.length === 1 ? 'it' : 'one'} out moves the estimates markedly`,
   outlier: (outliers: readonly { row: number; t: number; pValue: number }[], level: number, n: number, dof: number, linearised: boolean) =>

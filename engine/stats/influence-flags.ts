@@ -5,7 +5,10 @@
  *
  * Rules (n rows, k = rank of the Jacobian, ν = n − k):
  * - leverage one: 1 − hᵢ ≤ τ (engine/stats/influence.ts) → `exact_point`;
- * - high leverage: hᵢ > 2k/n (common practice) → `high_leverage`;
+ * - high leverage: hᵢ > 2k/n (common practice), listed in `highLeverage`; a warning
+ *   `high_leverage` only for those rows that also move the fit (Dᵢ > 4/n): the ends of
+ *   a well-spread design always have high leverage, and a warning on every clean
+ *   calibration would teach users to skip warnings (it fired on 5 of the 10 samples);
  * - influential: Dᵢ > 1 (common practice) → `influential_point`; Dᵢ > 4/n is listed in
  *   `notable` without a warning;
  * - outlier: Bonferroni-adjusted p = min(1, n·2·P(T > |tᵢ|)) < 0.05, T Student t with
@@ -80,15 +83,17 @@ export function influenceReport(input: FlagInput): InfluenceReport {
 export function influenceWarnings(report: InfluenceReport, inf: Influence, rows: ArrayLike<number>, lackOfFit: LackOfFitTest | undefined, curvature: CurvatureTest | null | undefined, dofDeleted: number): FitWarning[] {
   const out: FitWarning[] = [];
   // the index of each row a text quotes a value of (only the first few of each list: no map over every row)
-  const quoted = new Set([...report.highLeverage.slice(0, QUOTED_ROWS), ...report.influential.slice(0, QUOTED_ROWS)]);
+  const quoted = new Set([...report.highLeverage, ...report.influential.slice(0, QUOTED_ROWS)]);
   const indexOf = new Map<number, number>();
   if (quoted.size) for (let i = 0; i < rows.length; i++) if (quoted.has(rows[i]) && !indexOf.has(rows[i])) indexOf.set(rows[i], i);
   const at = (row: number) => indexOf.get(row) ?? -1;
   const lin = report.linearised;
   if (report.exact.length) out.push({ code: 'exact_point', message: warningText.exact_point(report.exact), rows: report.exact });
-  if (report.highLeverage.length) {
-    const values = report.highLeverage.slice(0, QUOTED_ROWS).map((r) => inf.leverage[at(r)]);
-    out.push({ code: 'high_leverage', message: warningText.high_leverage(report.highLeverage, values, report.leverageCutoff, lin), rows: report.highLeverage });
+  const notable = new Set(report.notable);
+  const leaning = report.highLeverage.filter((r) => notable.has(r));
+  if (leaning.length) {
+    const values = leaning.slice(0, QUOTED_ROWS).map((r) => inf.leverage[at(r)]);
+    out.push({ code: 'high_leverage', message: warningText.high_leverage(leaning, values, report.leverageCutoff, report.cooksNotice, lin), rows: leaning });
   }
   if (report.influential.length) {
     const values = report.influential.slice(0, QUOTED_ROWS).map((r) => inf.cooksDistance[at(r)]);

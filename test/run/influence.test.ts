@@ -11,7 +11,7 @@ import { markdownReport } from '../../engine/front/views/markdown';
 import { buildPanelModel } from '../../extension/logic/panel-model';
 import { PivotedQR } from '../../engine/linalg/qr';
 import { hatDiagonal, influence } from '../../engine/stats/influence';
-import { influenceReport } from '../../engine/stats/influence-flags';
+import { influenceReport, influenceWarnings } from '../../engine/stats/influence-flags';
 import { curvatureTest } from '../../engine/stats/curvature';
 import { lackOfFit } from '../../engine/stats/lack-of-fit';
 import type { FitResult } from '../../engine/result';
@@ -33,6 +33,21 @@ describe('influence and outliers in a run', () => {
   // Reference figures of the outlying row (x = 13, CSV row 4) from numpy 2.4.6 (QR hat diagonal, textbook formulas):
   // Cook's distance 1.3928494502510664, internally studentized 2.9999917156435556, deleted 1203.5394636977283.
   const A3 = { x: [10, 8, 13, 9, 11, 14, 6, 4, 12, 7, 5], y: [7.46, 6.77, 12.74, 7.11, 7.81, 8.84, 6.08, 5.39, 8.15, 6.42, 5.73] };
+
+  it('warns of high leverage only where the point also moves the fit (Cook above 4/n); the others are listed, not warned of', async () => {
+    // invented: ten standards at 0…9 and one far beyond them (x = 30) that sits off the line
+    const x = Array.from({ length: 10 }, (_, i) => i);
+    const y = x.map((v, i) => 1 + 0.5 * v + 0.05 * Math.sin(3.1 * i));
+    const far = await fitLine([...x, 30], [...y, 1 + 0.5 * 30 + 1.5]);
+    const w = far.warnings.find((x) => x.code === 'high_leverage');
+    expect(w?.rows).toEqual([12]);
+    expect(w?.message).toMatch(/^row 12 \(h = [0-9.]+\) has high leverage \(above 2p\/n = [0-9.]+\) and moves the fit \(Cook's distance above 4\/n/);
+    // the rule itself: of two high-leverage rows only the one with a notable Cook's distance is warned of
+    const inf = { leverage: Float64Array.from([0.1, 0.6, 0.1, 0.7]), cooksDistance: Float64Array.from([0, 0.01, 0, 2]), deletedStudentized: Float64Array.from([0, 0, 0, 0]), exact: [] } as unknown as Parameters<typeof influenceWarnings>[1];
+    const report = { linearised: false, leverageCutoff: 0.5, cooksCutoff: 1, cooksNotice: 0.5, outlierLevel: 0.05, outlierCritical: null, exact: [], highLeverage: [3, 5], influential: [5], notable: [5], outliers: [] };
+    const ws = influenceWarnings(report, inf, [2, 3, 4, 5], undefined, null, 1);
+    expect(ws.find((x) => x.code === 'high_leverage')?.rows).toEqual([5]);
+  });
 
   it('names the outlier of a published 11-point line by its row: influential (D > 1) and Bonferroni outlier', async () => {
     const f = await fitLine(A3.x, A3.y);
