@@ -17,8 +17,9 @@ import type { FitResult, FitWarning, ParameterResult, ProfileEnd, ProfileSummary
 import type { LeastSquaresProblem, SolveOptions, SolveOutcome } from '../solve';
 import { tCritical } from '../stats/distributions';
 import { profileIntervals, type ProfileSolve } from './profile';
-import { PROFILE_MATERIAL, PROFILE_ROUNDING, PROFILE_WORK_BOUND } from './profile-limits';
-import { profileIntervalText, profileText } from '../profile-messages';
+import { PROFILE_ROUNDING, PROFILE_WORK_BOUND } from './profile-limits';
+import { PROFILE_MATERIAL } from '../thresholds';
+import { profileIntervalText, profileText } from '../messages';
 import { num, warningText } from '../messages';
 
 export interface ProfileFitInput {
@@ -120,7 +121,7 @@ function atRoundingLevel(ssScaled: number, input: ProfileFitInput): boolean {
 
 /**
  * An end differs materially from the Wald end when it is open while the Wald end is a number, or
- * further from it than PROFILE_MATERIAL Wald half-widths (engine/run/profile-limits.ts). A failed end
+ * further from it than PROFILE_MATERIAL Wald half-widths (engine/thresholds.ts). A failed end
  * is not compared (the row says it was not found).
  */
 function materiallyDifferent(end: ProfileEnd, waldEnd: number, wald: { lower: number; upper: number }): boolean {

@@ -18,17 +18,6 @@
 export { PROFILE_WORK_BOUND } from '../../parser/registry/options';
 
 /**
- * A profile end differs "materially" from the Wald end when
- * |profile end − Wald end| > PROFILE_MATERIAL · (Wald half-width), or when it
- * is open while the Wald end is a number. 10 %: a change of the interval's
- * width at its second significant digit, which is where a reported interval
- * changes; below it the symmetric interval is a fair summary. Our choice (the
- * comparison itself follows Bates & Watts 1988, §6.1.2: a straight profile t
- * plot means the linear approximation is adequate).
- */
-export const PROFILE_MATERIAL = 0.1;
-
-/**
  * The search for an end stops as open ("not reached") when the profile stays
  * below the t level out to PROFILE_REACH Wald half-widths from the estimate:
  * the sum of squares then levels off (an asymptote the data do not close), and

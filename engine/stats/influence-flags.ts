@@ -1,7 +1,7 @@
 /**
  * Rows named by the influence and outlier rules, and the warnings of the
  * influence, lack-of-fit and curvature checks. Thresholds and their reasons:
- * engine/stats/influence-thresholds.ts; texts: engine/messages.ts (warningText).
+ * engine/thresholds.ts (INFLUENCE_THRESHOLDS); texts: engine/messages.ts (warningText).
  *
  * Rules (n rows, k = rank of the Jacobian, ν = n − k):
  * - leverage one: 1 − hᵢ ≤ τ (engine/stats/influence.ts) → `exact_point`;
@@ -25,7 +25,7 @@
 import type { CurvatureTest, FitWarning, InfluenceReport, LackOfFitTest } from '../result';
 import { warningText } from '../messages';
 import type { Influence } from './influence';
-import { INFLUENCE_THRESHOLDS as T } from './influence-thresholds';
+import { INFLUENCE_THRESHOLDS as T } from '../thresholds';
 import { tQuantile, tUpper } from './distributions';
 
 /** Rows whose value a warning text can quote (engine/messages.ts shows at most 5). */

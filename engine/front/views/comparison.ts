@@ -15,15 +15,12 @@
  */
 import type { QueryResult } from '../../result';
 import { formatInteger, formatNumber, formatP } from '../../format';
+import { AICC_CLEAR, AICC_TIE } from '../../thresholds';
 import type { Align } from './table';
 
 type Comparison = Extract<QueryResult, { kind: 'compare' }>;
 type Row = Comparison['rows'][number];
 
-/** ΔAICc at or below this: the data do not tell the two fits apart (Burnham & Anderson 2002, §2.6). */
-export const AICC_TIE = 2;
-/** ΔAICc above this: the fit with the higher AICc has essentially no support (Burnham & Anderson 2002, §2.6). */
-export const AICC_CLEAR = 10;
 
 /** A comparison for the views: heading, the decision sentences (`lead`), the evidence table and closing notes. */
 export interface ComparisonBlock {

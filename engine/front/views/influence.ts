@@ -4,12 +4,12 @@
  * only in layout): hints for the serial tests that follow their values, the
  * entries of the residual tests, and the table of the rows the rules flag.
  * Reads the RunResult only; thresholds come with the result
- * (`FitResult.influence`) or from engine/stats/influence-thresholds.ts.
+ * (`FitResult.influence`) or from engine/thresholds.ts (INFLUENCE_THRESHOLDS).
  */
 import type { FitResult } from '../../result';
 import type { Align } from './table';
 import type { Entry } from './summary';
-import { INFLUENCE_THRESHOLDS as T } from '../../stats/influence-thresholds';
+import { INFLUENCE_THRESHOLDS as T } from '../../thresholds';
 import { THRESHOLDS } from '../../thresholds';
 import { formatInteger, formatNumber, formatP, isUsable } from '../../format';
 

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { comparisonBlock, decisionSentence, nestedTestSentence, AICC_CLEAR, AICC_TIE } from '../../../engine/front/views/comparison';
+import { comparisonBlock, decisionSentence, nestedTestSentence } from '../../../engine/front/views/comparison';
+import { AICC_CLEAR, AICC_TIE } from '../../../engine/thresholds';
 import { markdownReport } from '../../../engine/front/views/markdown';
 import { queryTextLines } from '../../../engine/front/views/text';
 import type { QueryResult, RunResult } from '../../../engine/result';
