@@ -55,8 +55,8 @@ export const warningText = {
   non_normal_residuals: (w: number, p: number) =>
     `the residuals do not look normally distributed (Shapiro–Wilk W = ${formatNumber(w, DIGITS.statistic)}, ${pClause(p)}); intervals assume normal errors`,
   r2_nonlinear: () => `the model is nonlinear in its parameters: R² is descriptive only, not a test of fit`,
-  rows_dropped: (dropped: number, file: string) =>
-    `${dropped} row${dropped === 1 ? '' : 's'} of ${file} dropped for empty or NA cells in the columns this fit uses`,
+  rows_dropped: (dropped: number, file: string, rows?: readonly number[]) =>
+    `${dropped} row${dropped === 1 ? '' : 's'} of ${file} dropped for empty or NA cells in the columns this fit uses${rows && rows.length ? ` (${rows.length === 1 ? 'row' : 'rows'} ${rowList(rows)})` : ''}`,
   /** Also code 'rows_dropped': rows of a per-group fit without a group value. */
   rows_without_group: (rows: number, file: string, column: string) =>
     `${rows} row${rows === 1 ? '' : 's'} of ${file} ha${rows === 1 ? 's' : 've'} no value in the group column ${column} and belong${rows === 1 ? 's' : ''} to no group`,

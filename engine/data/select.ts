@@ -34,6 +34,8 @@ export interface Selection {
   labels: string[] | null;
   /** Rows dropped for a missing value in a used column. */
   dropped: number;
+  /** 1-based file line of each dropped row, in file order (`dropped` of them). */
+  droppedLines: Int32Array;
   /** Rows left out by the filter (not counted as dropped). */
   filteredOut: number;
   /** With `label`: the label of each dropped row ('' when the label itself is missing), else null. */
@@ -81,6 +83,8 @@ export function selectRows(table: DataTable, request: SelectRequest): SelectResu
     const missingHere = table.columns.find((c) => (c === labelCol && isMissingCell(labelOf(c, i0))) || (found.includes(c) && Number.isNaN(c.values[i0])));
     if (missingHere) firstDropped = { index: i0, column: missingHere.name };
   }
+  const droppedLines = new Int32Array(dropped);
+  for (let i = 0, k = 0; i < total && k < dropped; i++) if (!present[i]) droppedLines[k++] = table.lines[i];
   const droppedLabels = labelCol ? [] as string[] : null;
   if (droppedLabels && labelCol) {
     for (let i = 0; i < total; i++) {
@@ -112,7 +116,7 @@ export function selectRows(table: DataTable, request: SelectRequest): SelectResu
   const lines = new Int32Array(n);
   for (let i = 0; i < n; i++) lines[i] = table.lines[keepIdx[i]];
   const labels = labelCol ? keepIdx.map((i) => labelOf(labelCol, i)) : null;
-  return { ok: true, selection: { columns, n, lines, labels, dropped, filteredOut, droppedLabels, firstDropped } };
+  return { ok: true, selection: { columns, n, lines, labels, dropped, droppedLines, filteredOut, droppedLabels, firstDropped } };
 }
 
 function findColumn(table: DataTable, name: string, file: string, errors: DataError[]): DataColumn | undefined {

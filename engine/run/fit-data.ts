@@ -33,6 +33,8 @@ export interface FitData {
   x: Float64Array | null;
   predictor: string | null;
   rowsDropped: number;
+  /** 1-based file lines of the dropped rows (`rowsDropped` of them), in file order. */
+  droppedLines?: Int32Array;
   /** Rows dropped because the group label is missing (grouped fits only). */
   rowsWithoutGroup: number;
   /** Rows left out of the fit by a weight of 0 (absent when none): not in n, dof or any statistic, still drawn. */
@@ -167,6 +169,7 @@ export function prepareFitData(fit: FitPlan, source: DataSource, table: DataTabl
     x: hasPredictor ? cols[used.indexOf(predictor)] : null,
     predictor: hasPredictor ? predictor : null,
     rowsDropped: s.dropped,
+    droppedLines: s.droppedLines,
     rowsWithoutGroup: 0,
   };
   let labels = s.labels;
@@ -260,6 +263,15 @@ function splitGroups(base: FitData, labels: string[], droppedLabels: string[], e
   const excludedOf = bucketsOf(excludedLabels);
   const droppedOf = new Map<string, number>();
   for (const l of droppedLabels) droppedOf.set(l, (droppedOf.get(l) ?? 0) + 1);
+  // the dropped rows' file lines by group (droppedLabels and base.droppedLines are both in file order)
+  const droppedLinesOf = new Map<string, number[]>();
+  droppedLabels.forEach((l, k) => {
+    const line = base.droppedLines?.[k];
+    if (line === undefined) return;
+    const list = droppedLinesOf.get(l);
+    if (list) list.push(line);
+    else droppedLinesOf.set(l, [line]);
+  });
   const withoutGroup = droppedOf.get('') ?? 0;
   const { excluded: all, ...rest } = base;
   // a group whose rows all have weight 0 is still a group (its fit fails for lack of rows)
@@ -280,6 +292,7 @@ function splitGroups(base: FitData, labels: string[], droppedLabels: string[], e
       weights: base.weights ? pick(base.weights) : null,
       x: base.x ? pick(base.x) : null,
       rowsDropped: droppedOf.get(group) ?? 0,
+      droppedLines: Int32Array.from(droppedLinesOf.get(group) ?? []),
       rowsWithoutGroup: withoutGroup,
       ...(excluded ? { excluded } : {}),
     };

@@ -166,6 +166,7 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
     residuals,
     linear: input.linear,
     rowsDropped: data.rowsDropped,
+    ...(data.droppedLines ? { droppedLines: data.droppedLines } : {}),
     file: data.file,
     guessed: input.guessed,
   });
@@ -236,7 +237,7 @@ function withheld(input: FitStatisticsInput, r: Float64Array): { fields: StatFie
   const none = { durbinWatson: null, runs: null, shapiroWilk: null };
   const warnings = fitWarnings({
     free, correlation: nan(), condition: NaN, rank: p, undetermined: [], n, stop: outcome.stop, residuals: none, linear: input.linear,
-    rowsDropped: data.rowsDropped, file: data.file, guessed: input.guessed,
+    rowsDropped: data.rowsDropped, ...(data.droppedLines ? { droppedLines: data.droppedLines } : {}), file: data.file, guessed: input.guessed,
   });
   const missing = new Array<number>(n).fill(NaN);
   return {

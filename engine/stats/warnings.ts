@@ -27,6 +27,8 @@ export interface WarningInput {
   /** Model linear in its free parameters. */
   linear: boolean;
   rowsDropped: number;
+  /** File lines of the dropped rows, when known (named in the warning: the first few in its text, all in `rows`). */
+  droppedLines?: ArrayLike<number>;
   file: string;
   guessed: { names: string[]; how: string };
 }
@@ -45,7 +47,10 @@ export function fitWarnings(input: WarningInput): FitWarning[] {
   if (input.guessed.names.length) {
     out.push({ code: 'guessed_start', message: warningText.guessed_start(input.guessed.names, input.guessed.how), parameters: input.guessed.names });
   }
-  if (input.rowsDropped > 0) out.push({ code: 'rows_dropped', message: warningText.rows_dropped(input.rowsDropped, input.file) });
+  if (input.rowsDropped > 0) {
+    const rows = input.droppedLines && input.droppedLines.length === input.rowsDropped ? Array.from(input.droppedLines) : undefined;
+    out.push({ code: 'rows_dropped', message: warningText.rows_dropped(input.rowsDropped, input.file, rows), ...(rows ? { rows } : {}) });
+  }
   if (!input.stop.converged) out.push({ code: 'no_convergence', message: warningText.no_convergence(input.stop.message) });
   if (input.n - p < T.minDof) out.push({ code: 'few_dof', message: warningText.few_dof(input.n, p) });
   for (const par of input.free) {

@@ -284,7 +284,29 @@ fit f on d {
 }`, dir);
     expect(result.fits[0].rowsDropped).toBe(1);
     expect(result.fits[0].points.row).toEqual([2, 4, 5]);
-    expect(result.fits[0].warnings.find((w) => w.code === 'rows_dropped')!.message).toContain('1 row of na.csv');
+    const w = result.fits[0].warnings.find((w) => w.code === 'rows_dropped')!;
+    expect(w.message).toContain('1 row of na.csv');
+    // the dropped row is named by its file line (header = line 1)
+    expect(w.message).toContain('(row 3)');
+    expect(w.rows).toEqual([3]);
+  });
+
+  it('names the dropped rows of each group in that group\'s warning', async () => {
+    writeCsv(dir, 'gna.csv', ['lot', 'x', 'y'], [
+      ['A', 0, 0.1], ['A', 1, 'NA'], ['A', 2, 2.1], ['A', 3, 2.9],
+      ['B', 0, 1], ['B', 1, 3.1], ['B', 2, ''], ['B', 3, 7.0], ['B', 4, 'NA'], ['B', 5, 11.2],
+    ]);
+    const { result } = await runSpec(`data d = "gna.csv"
+fit g on d {
+  model y = a + b * x
+  param a
+  param b
+  per lot
+}`, dir);
+    const rows = (g: string) => result.fits.find((f) => f.group === g)!.warnings.find((w) => w.code === 'rows_dropped');
+    expect(rows('A')?.rows).toEqual([3]);
+    expect(rows('B')?.rows).toEqual([8, 10]);
+    expect(rows('B')?.message).toContain('(rows 8, 10)');
   });
 
   it('compares nested fits: ΔAICc, Akaike weights and the F test', async () => {
