@@ -4,6 +4,7 @@
  * expectation may instead name a derived quantity declared above (`expect
  * lod below 0.1`, `expect lod.se below 0.01`).
  */
+import { isMember, MEMBERS, MEMBER_SPECS } from './registry/statistics';
 import type { CompareAst, ExpectAst, NameAst, PredictAst, ValueAst } from './ast';
 import type { Bound, Expectation, ExpectTarget, Query } from './plan';
 import { STATISTICS, isStatisticName as isStatistic } from './registry/statistics';
@@ -102,9 +103,9 @@ function derivedTarget(env: Env, head: NameAst, path: NameAst[]): ExpectTarget |
   const [first, second] = path;
   if (env.derived.has(head.name)) {
     if (!first) return { kind: 'derived', name: head.name, of: 'estimate' };
-    if (first.name === 'se' && !second) return { kind: 'derived', name: head.name, of: 'stderr' };
-    const bad = first.name === 'se' ? second : first;
-    env.r.report('unknown_target', MSG.unknownDerivedPath(bad.name), bad.range, ['se']);
+    if (isMember(first.name) && !second) return { kind: 'derived', name: head.name, of: MEMBER_SPECS[first.name].of };
+    const bad = isMember(first.name) ? second : first;
+    env.r.report('unknown_target', MSG.unknownDerivedPath(bad.name), bad.range, env.suggester.suggest(bad.name, MEMBERS));
     return undefined;
   }
   const later = env.declared.derive.get(head.name);
@@ -132,10 +133,10 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
     } else if (second) {
       if (fit && !isParam) {
         env.r.report('unknown_target', MSG.stderrOfNonParam(first.name, fitName), first.range, env.suggester.suggest(first.name, params));
-      } else if (second.name !== 'se') {
-        env.r.report('unknown_target', MSG.unknownStderrPath(second.name), second.range, ['se']);
+      } else if (!isMember(second.name)) {
+        env.r.report('unknown_target', MSG.unknownStderrPath(second.name), second.range, env.suggester.suggest(second.name, MEMBERS));
       } else {
-        target = { kind: 'parameter', fit: fitName, name: first.name, of: 'stderr' };
+        target = { kind: 'parameter', fit: fitName, name: first.name, of: MEMBER_SPECS[second.name].of };
       }
     } else if (isParam) {
       target = { kind: 'parameter', fit: fitName, name: first.name, of: 'estimate' };

@@ -48,7 +48,7 @@ export const CODES = {
   number_range: { severity: 'error', when: 'a number too large to be finite (e.g. `1e400`)' },
   empty_path: { severity: 'error', when: '`data NAME = ""`' },
   delimiter_clash: { severity: 'error', when: '`decimal ","` together with `delimiter ","`' },
-  unknown_target: { severity: 'error', when: 'an expectation or a `FIT.NAME` in derive names neither a parameter nor a statistic of the fit, `.X` other than `.se`, a fit without `.NAME`, or a derived quantity with a member' },
+  unknown_target: { severity: 'error', when: 'an expectation or a `FIT.NAME` in derive names neither a parameter nor a statistic of the fit, `.X` other than `.se`, `.lower`, `.upper`, a fit without `.NAME`, or a derived quantity with a member' },
   predictor_mismatch: { severity: 'error', when: 'predict/invert on a column the model does not vary with, or on a model without exactly one predictor column' },
   response_mismatch: { severity: 'error', when: 'invert at a column that is not the response, or on a response that reads several columns' },
   compare_too_few: { severity: 'error', when: 'compare lists fewer than two different fits' },
@@ -114,9 +114,9 @@ export const MSG = {
   emptyPath: 'the data file path is empty',
   delimiterClash: 'decimal "," cannot be used with delimiter ","; use delimiter ";"',
   unknownTarget: (name: string, fit: string) => `${q(name)} is neither a parameter of ${q(fit)} nor a statistic`,
-  unknownStderrPath: (name: string) => `after a parameter only .se (standard error) may follow, not ${q(name)}`,
+  unknownStderrPath: (name: string) => `after a parameter only .se (standard error), .lower or .upper (its confidence interval) may follow, not ${q(name)}`,
   stderrOfNonParam: (name: string, fit: string) => `${q(name)} is not a parameter of ${q(fit)}, so it has no .se`,
-  pathTooLong: 'expected FIT.NAME or FIT.PARAM.se',
+  pathTooLong: 'expected FIT.NAME or FIT.PARAM.se (or .lower, .upper)',
   predictorOther: (fit: string, predictor: string, col: string) =>
     `fit ${q(fit)} varies with ${q(predictor)}, not ${q(col)}`,
   /** Also the engine's message when a query meets such a fit (engine/messages.ts `errorText.noPredictor`). */
@@ -146,7 +146,7 @@ export const MSG = {
   seInDerive: 'a standard error cannot enter a derived quantity (its own standard error comes from the fit covariance); use FIT.PARAM or FIT.STAT',
   derivePathTooLong: 'expected FIT.PARAM or FIT.STAT',
   unknownDerived: (name: string) => `no derived quantity named ${q(name)}`,
-  unknownDerivedPath: (name: string) => `after a derived quantity only .se (standard error) may follow, not ${q(name)}`,
+  unknownDerivedPath: (name: string) => `after a derived quantity only .se (standard error), .lower or .upper (its confidence interval) may follow, not ${q(name)}`,
   deriveClash: (name: string, what: string, line: number) =>
     `${q(name)} is already a ${what} (line ${line}); a derived quantity needs its own name`,
   compareRepeated: (name: string) => `fit ${q(name)} is listed twice`,

@@ -14,6 +14,7 @@
  *   dimensional-consistency check.
  */
 
+import type { MemberOf } from './registry/statistics';
 import type { FunctionName } from './registry/functions';
 import type { Method } from './registry/methods';
 import type { LossKind } from './registry/losses';
@@ -194,10 +195,10 @@ export type Query =
   | { kind: 'compare'; fits: string[]; range: Range };
 
 export type ExpectTarget =
-  | { kind: 'parameter'; fit: string; name: string; of: 'estimate' | 'stderr' }
+  | { kind: 'parameter'; fit: string; name: string; of: MemberOf }
   | { kind: 'statistic'; fit: string; name: StatisticName }
   /** A derived quantity (`expect lod below 0.1`) or its standard error (`expect lod.se below 0.01`). */
-  | { kind: 'derived'; name: string; of: 'estimate' | 'stderr' };
+  | { kind: 'derived'; name: string; of: MemberOf };
 
 export type Bound =
   | { kind: 'within'; low: number; high: number }

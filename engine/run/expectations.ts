@@ -6,6 +6,7 @@
  * values are not estimates), except on the counts n, dof and iterations. Per-group fits (and derived quantities of them) give one
  * result per group.
  */
+import { memberName, type MemberOf } from '../../parser/registry/statistics';
 import type { Bound, Expectation, StatisticName } from '../../parser/plan';
 import { expectationText, withheldText } from '../messages';
 import type { DerivedResult, ExpectationResult, FitResult } from '../result';
@@ -24,12 +25,18 @@ export function boundHolds(actual: number, bound: Bound): boolean {
 }
 
 
+/** `.se`, `.lower`, `.upper` after the name, or nothing for the estimate (parser/registry/statistics.ts MEMBER_SPECS). */
+function member(of: MemberOf): string {
+  const m = memberName(of);
+  return m ? `.${m}` : '';
+}
+
 function targetText(e: Expectation): string {
   const t = e.target;
   switch (t.kind) {
-    case 'parameter': return `${t.fit}.${t.name}${t.of === 'stderr' ? '.se' : ''}`;
+    case 'parameter': return `${t.fit}.${t.name}${member(t.of)}`;
     case 'statistic': return `${t.fit}.${t.name}`;
-    case 'derived': return `${t.name}${t.of === 'stderr' ? '.se' : ''}`;
+    case 'derived': return `${t.name}${member(t.of)}`;
   }
 }
 
@@ -77,7 +84,8 @@ function verdict(e: Expectation, actual: number, where: string, why: string): { 
 function checkDerived(e: Expectation, d: DerivedResult): ExpectationResult {
   const where = d.group !== undefined ? ` [${d.group}]` : '';
   const group = d.group !== undefined ? { group: d.group } : {};
-  const actual = (e.target.kind === 'derived' && e.target.of === 'stderr' ? d.stderr : d.value) ?? NaN;
+  const of = e.target.kind === 'derived' ? e.target.of : 'estimate';
+  const actual = (of === 'stderr' ? d.stderr : of === 'lower' ? d.lower : of === 'upper' ? d.upper : d.value) ?? NaN;
   return { expectation: e, ...group, ...verdict(e, actual, where, ` (${d.note.replace(/\.$/, '')})`) };
 }
 
@@ -95,7 +103,7 @@ function checkOne(e: Expectation, r: FitResult): ExpectationResult {
   if (t.kind === 'parameter') {
     const par = r.parameters.find((p) => p.name === t.name);
     if (!par) return { expectation: e, ...group, actual: null, passed: false, message: expectationText.noParameter(`${targetText(e)}${where}`, t.name) };
-    actual = t.of === 'estimate' ? par.estimate : par.stderr ?? NaN;
+    actual = (t.of === 'estimate' ? par.estimate : t.of === 'stderr' ? par.stderr : t.of === 'lower' ? par.lower : par.upper) ?? NaN;
   } else {
     actual = statisticValue(r, t.name);
   }

@@ -6,7 +6,7 @@
  * columns, constants; in `derive`: fits, constants and derived quantities). extension/language/completion.ts maps them to vscode items.
  */
 import {
-  CONSTANT_NAMES, EXPRESSION_CONSTANTS, FUNCTION_NAMES, FUNCTION_SPECS, LOSSES, LOSS_SPECS, METHODS, METHOD_SPECS, PROFILE_MODES, RESERVED_ROLES, STATISTICS, keywordsWithRole,
+  CONSTANT_NAMES, MEMBERS, EXPRESSION_CONSTANTS, FUNCTION_NAMES, FUNCTION_SPECS, LOSSES, LOSS_SPECS, METHODS, METHOD_SPECS, PROFILE_MODES, RESERVED_ROLES, STATISTICS, keywordsWithRole,
 } from '../../parser/registry';
 import { columnsOf, type EditorAnalysis } from './analysis';
 import { constantDoc, keywordDoc, statisticDoc } from './function-docs';
@@ -62,9 +62,9 @@ export function completionsAt(a: EditorAnalysis, offset: number, env: Completion
   if (/^\s*derive\s+\w+\s*=/.test(prefix)) return [...fitNames(a), ...derivedNames(a, /^\s*derive\s+(\w+)/.exec(prefix)?.[1]), ...constants(a), ...functions()];
   if (/^\s*(predict|invert)\s+\w+\s+\w*$/.test(prefix)) return keywords(['at']);
   if ((m = /^\s*(predict|invert)\s+(\w+)\s+at\s+\w*$/.exec(prefix))) return queryColumn(a, m[2], m[1] as 'predict' | 'invert');
-  if ((m = /^\s*expect\s+(\w+)\.(\w+)\.\w*$/.exec(prefix))) return [{ label: 'se', kind: 'statistic', detail: `standard error of ${m[2]}`, documentation: statisticDoc('se') }];
+  if ((m = /^\s*expect\s+(\w+)\.(\w+)\.\w*$/.exec(prefix))) return members(m[2]);
   if ((m = /^\s*expect\s+(\w+)\.\w*$/.exec(prefix))) {
-    if (a.plan.derived?.some((d) => d.name === m![1])) return [{ label: 'se', kind: 'statistic', detail: `standard error of ${m[1]}`, documentation: statisticDoc('se') }];
+    if (a.plan.derived?.some((d) => d.name === m![1])) return members(m[1]);
     return fitMembers(a, m[1]);
   }
   if (/^\s*expect\s+\S+\s+\w*$/.test(prefix)) return keywords(['within', 'above', 'below']);
@@ -185,4 +185,10 @@ function undeclaredNames(a: EditorAnalysis, fit: string): LsqCompletion[] {
     for (const w of rhs.match(/[A-Za-z_][A-Za-z0-9_]*/g) ?? []) if (!known.has(w)) names.add(w);
   }
   return [...names].map((n) => ({ label: n, kind: 'parameter' as const, detail: 'used in the model, not declared' }));
+}
+
+/** The members after a parameter or derived quantity in `expect` (parser/registry/statistics.ts MEMBER_SPECS). */
+function members(of: string) {
+  const detail = { se: `standard error of ${of}`, lower: `lower end of the interval of ${of}`, upper: `upper end of the interval of ${of}` } as const;
+  return MEMBERS.map((label) => ({ label, kind: 'statistic' as const, detail: detail[label], documentation: statisticDoc(label) }));
 }

@@ -3,7 +3,7 @@
  * names (parser/registry/), so the editor and LANGUAGE.md say the same thing.
  */
 import {
-  CONSTANT_SPECS, KEYWORD_SPECS, STATISTIC_SPECS, STATISTIC_UNIT_TEXT, STDERR_DOC, STDERR_MEMBER,
+  CONSTANT_SPECS, KEYWORD_SPECS, STATISTIC_SPECS, STATISTIC_UNIT_TEXT, isMember, MEMBER_SPECS,
   functionSpec, isConstantName, isKeyword, isStatisticName,
 } from '../../parser/registry';
 
@@ -24,7 +24,7 @@ export function keywordDoc(word: string): string | undefined {
 
 /** A statistic's doc line and its unit (`se` after a parameter: its standard error). */
 export function statisticDoc(name: string): string | undefined {
-  if (name === STDERR_MEMBER) return STDERR_DOC;
+  if (isMember(name)) return MEMBER_SPECS[name].doc;
   if (!isStatisticName(name)) return undefined;
   const s = STATISTIC_SPECS[name];
   return `${s.doc} (${STATISTIC_UNIT_TEXT[s.unit]})`;

@@ -59,3 +59,30 @@ export const STATISTIC_UNIT_TEXT: Readonly<Record<StatisticUnit, string>> = {
 /** The member after a parameter or derived quantity: its standard error (`expect cal.slope.se below 0.01`). */
 export const STDERR_MEMBER = 'se';
 export const STDERR_DOC = 'se - standard error of the parameter estimate (or of a derived quantity).';
+
+/**
+ * Every member that may follow a parameter or a derived quantity in `expect`
+ * (`expect cal.slope.lower above 0.8`), with the value it reads (the plan's
+ * `of`) and its doc. The checker, the expectations, hover and LANGUAGE.md read
+ * this one list.
+ */
+/** What an `expect` target reads: the estimate itself, or the member's value (a plain union: the schema generator reads it). */
+export type MemberOf = 'estimate' | 'stderr' | 'lower' | 'upper';
+
+export const MEMBER_SPECS = {
+  se: { of: 'stderr', doc: STDERR_DOC },
+  lower: { of: 'lower', doc: 'lower - lower end of the confidence interval of the estimate, at the fit\'s level (the derived quantity\'s interval for a derived quantity).' },
+  upper: { of: 'upper', doc: 'upper - upper end of the confidence interval of the estimate, at the fit\'s level (the derived quantity\'s interval for a derived quantity).' },
+} as const satisfies Record<string, { of: Exclude<MemberOf, 'estimate'>; doc: string }>;
+
+export type MemberName = keyof typeof MEMBER_SPECS;
+export const MEMBERS: readonly MemberName[] = Object.freeze(Object.keys(MEMBER_SPECS) as MemberName[]);
+
+export function isMember(name: string): name is MemberName {
+  return Object.prototype.hasOwnProperty.call(MEMBER_SPECS, name);
+}
+
+/** The member's name for a plan `of` ('' for the estimate itself). */
+export function memberName(of: MemberOf): string {
+  return of === 'estimate' ? '' : MEMBERS.find((m) => MEMBER_SPECS[m].of === of) ?? '';
+}

@@ -89,6 +89,6 @@ describe('extension/logic/completion', () => {
   it('expect: offers derived quantities beside fits, and only se after a derived quantity', () => {
     const spec = `${COOLING}derive half_life = ln(2) * newton.tau [min]\n`;
     expect(labels(at(`${spec}expect |`))).toEqual(['newton', 'half_life']);
-    expect(labels(at(`${spec}expect half_life.|`))).toEqual(['se']);
+    expect(labels(at(`${spec}expect half_life.|`))).toEqual(['se', 'lower', 'upper']);
   });
 });

@@ -212,6 +212,8 @@ describe('parser/check diagnostics', () => {
   it('unknown_target for expectations', () => {
     expect(expectAt(spec({ after: 'expect f.«r3» above 0.5' }), 'unknown_target').suggestions).toContain('r2');
     expect(expectAt(spec({ after: 'expect f.a.«sd» below 1' }), 'unknown_target').suggestions).toEqual(['se']);
+    expect(expectAt(spec({ after: 'expect f.a.«lowr» above 1' }), 'unknown_target').suggestions).toEqual(['lower']);
+    expect(expectAt(spec({ after: 'expect f.a.lower.«se» above 1' }), 'unknown_target').message).toMatch(/expected FIT.NAME or FIT.PARAM.se \(or .lower, .upper\)/);
     expect(expectAt(spec({ after: 'expect f.«b».se below 1' }), 'unknown_target').suggestions).toEqual(['a']);
     expectAt(spec({ after: 'expect f.a.se.«x» below 1' }), 'unknown_target');
   });

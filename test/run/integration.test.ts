@@ -34,6 +34,10 @@ invert line at y = 20
 expect line.b within 2.9 .. 3.1
 expect line.r2 above 0.99
 expect line.b.se below 1
+expect line.b.lower above 2.5
+expect line.b.upper below 2.9
+derive intercept_x = -line.a / line.b
+expect intercept_x.upper below 0
 `;
 
   it('recovers the slope within its interval, with the linear solver', async () => {
@@ -45,6 +49,14 @@ expect line.b.se below 1
     const b = fit.parameters.find((p) => p.name === 'b')!;
     expect(b.lower!).toBeLessThan(3);
     expect(b.upper!).toBeGreaterThan(3);
+    // the ends of the interval as expectation targets: read from the same numbers the summary shows
+    const ends = result.expectations.filter((x) => /\.(lower|upper) /.test(x.expectation.text));
+    expect(ends.map((x) => [x.expectation.text, x.actual, x.passed])).toEqual([
+      ['line.b.lower above 2.5', b.lower, true],
+      ['line.b.upper below 2.9', b.upper, false],
+      ['intercept_x.upper below 0', result.derived!.find((d) => d.name === 'intercept_x')!.upper, true],
+    ]);
+    expect(ends[1].message).toMatch(/^line\.b\.upper = /);
     // ml-matrix least squares (general-purpose library)
     const ref = wls(xs.map((x) => [1, x]), ys);
     expect(b.estimate).toBeCloseTo(ref.beta[1], 10);
@@ -88,7 +100,8 @@ expect line.b.se below 1
 
   it('checks expectations (pass) and reports the numbers', async () => {
     const { result } = await runSpec(spec, dir);
-    expect(result.expectations.map((x) => x.passed)).toEqual([true, true, true]);
+    // the first three; the interval-end expectations after them are checked in the first test (one fails on purpose)
+    expect(result.expectations.slice(0, 3).map((x) => x.passed)).toEqual([true, true, true]);
     expect(result.expectations[0].message).toMatch(/^line\.b = 3\.\d+ is within 2\.9 \.\. 3\.1$/);
     expect(result.provenance.data[0]).toMatchObject({ name: 'd', path: 'line.csv', rows: 25 });
     expect(result.provenance.specSha256).toMatch(/^[0-9a-f]{64}$/);
