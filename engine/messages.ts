@@ -173,8 +173,9 @@ export const errorText = {
   badWeight: (fit: string, row: number, value: number) => `fit ${fit}: weight must be non-negative and finite (0 leaves a row out), got ${num(value)} at data line ${row}`,
   unknownFit: (name: string) => `no fit named ${name}`,
   fixedWithoutValue: (fit: string, names: string[]) => `fit ${fit}: fixed parameter${names.length > 1 ? 's' : ''} ${names.join(', ')} need${names.length > 1 ? '' : 's'} a value`,
-  noPredictor: (fit: string, what: 'predict' | 'invert', columns: readonly string[]) => MSG.needsOnePredictor(what, fit, columns),
-  noPoints: (fit: string, what: 'predict' | 'invert') => `${what} on fit ${fit}, which has no fitted points (see its error)`,
+  noPredictor: (fit: string, what: 'predict' | 'invert' | 'backcalc', columns: readonly string[]) => MSG.needsOnePredictor(what, fit, columns),
+  noPoints: (fit: string, what: 'predict' | 'invert' | 'backcalc') => `${what} on fit ${fit}, which has no fitted points (see its error)`,
+  newSigmaNeeded: (fit: string, kind: 'sigma' | 'weight', cols: readonly string[], predictor: string, example: string) => MSG.newSigmaNeeded(fit, kind, cols, predictor, example),
   wrongVariable: (fit: string, given: string, predictor: string) => MSG.predictorOther(fit, predictor, given),
   wrongResponse: (fit: string, given: string, columns: readonly string[]) => MSG.responseMismatch(fit, given, columns),
   comparePerGroup: (fit: string) => MSG.comparePerGroup(fit),
@@ -277,6 +278,14 @@ export const inverseText = {
   noCrossing: (lo: number, hi: number, y0: number, fmin: number, fmax: number) =>
     `no predictor value in the data range [${lo}, ${hi}] gives ${y0}; the fitted curve there spans [${fmin}, ${fmax}]`,
   openAtEdge: 'the prediction band contains the response up to the edge of the data range, so the interval is open there',
+  estimateBeyond: (side: 'below' | 'above', edge: number) =>
+    `extrapolated: the curve reaches this response ${side} the ${side === 'below' ? 'lowest' : 'highest'} predictor value of the data (${formatNumber(edge)})`,
+  openSide: (below: boolean, above: boolean) =>
+    below && above
+      ? 'open on both sides: the prediction band still contains the response as far as the curve was followed, so no limit is given'
+      : `one-sided: open ${below ? 'below' : 'above'} (the prediction band still contains the response as far as the curve was followed ${below ? 'down' : 'up'}), so there is no ${below ? 'lower' : 'upper'} limit`,
+  endsBeyond: (lower: boolean, upper: boolean) =>
+    `${lower && upper ? 'both limits lie' : lower ? 'the lower limit lies' : 'the upper limit lies'} beyond the data range (the curve extrapolated)`,
 } as const;
 
 /** Texts of expectation checks (engine/run/expectations.ts); `target` is the expectation's target as written. */

@@ -318,10 +318,24 @@ export interface Bands {
 
 export interface Prediction {
   x: number;
+  /** On the model's scale: the response expression's (e.g. ln(rate)) for a transformed response. */
   fitted: number;
   confidence: [number, number];
   prediction: [number, number];
+  /** Standard deviation of the new observation the prediction interval is for, on the model's scale (additive, optional). */
+  observationSd?: number;
+  /** x lies outside the range of the fitted predictor values (additive, optional; absent inside). */
+  extrapolated?: boolean;
+  /**
+   * A transformed response (`model ln(rate) = …`): the same numbers on the response column's scale, each end
+   * mapped through the inverse of the (monotone) response function, so the intervals are not symmetric
+   * (additive, optional; absent for an untransformed response or when the inverse could not be formed).
+   */
+  original?: { fitted: number; confidence: [number, number]; prediction: [number, number] };
 }
+
+/** How an end of an inverse-prediction interval was found (engine/stats/inverse.ts). */
+export type InverseEnd = 'data' | 'extrapolated' | 'open';
 
 export interface InversePrediction {
   response: number;
@@ -330,7 +344,38 @@ export interface InversePrediction {
   /** Interval for x (inversion of the prediction band); null ends when unbounded. */
   interval: [number | null, number | null];
   message?: string;
+  /**
+   * Each end: inside the data range, beyond it (the curve extrapolated), or open (not reached: the interval is
+   * one-sided there). Additive, optional (absent when x is null).
+   */
+  ends?: [InverseEnd, InverseEnd];
+  /** x lies just beyond the data range (engine/thresholds.ts INVERSE_REACH; additive, optional). */
+  extrapolated?: boolean;
 }
+
+/** Where a query's new-observation spread came from: the residual s, the fit's sigma/weight expression at the point, or the query's `sigma`/`weight`. */
+export type ObservationSource = 'residual' | 'expression' | 'stated';
+
+/** One standard read back through the curve (`backcalc`). */
+export interface BackCalculation {
+  /** 1-based file line of the standard's row. */
+  row: number;
+  /** The predictor value in the data (the nominal value). */
+  nominal: number;
+  /** The standard's response, on the model's scale. */
+  response: number;
+  /** The back-calculated predictor, its inverse-prediction interval and how each end was found (as `invert`). */
+  x: number | null;
+  interval: [number | null, number | null];
+  ends?: [InverseEnd, InverseEnd];
+  extrapolated?: boolean;
+  /** 100·(x − nominal)/nominal; null when the nominal value is 0 or x is missing. */
+  deviationPercent: number | null;
+  /** The interval's ends as percent deviations from the nominal value (null where the end is open or the nominal 0). */
+  deviationInterval: [number | null, number | null];
+  message?: string;
+}
+
 
 /** One distinct minimum found by the multi-start search. */
 export interface SearchMinimum {
@@ -460,8 +505,19 @@ export type QueryResult =
    * `withheld`: the fit (or group) did not converge, so no numbers are given - `predictions` and `inversions` list
    * the values asked for with fitted values, x and intervals null, `rows` of a comparison is empty - and this says why.
    */
-  | { kind: 'predict'; fit: string; group?: string; variable: string; predictions: Prediction[]; withheld?: string }
-  | { kind: 'invert'; fit: string; group?: string; response: string; inversions: InversePrediction[]; withheld?: string }
+  /**
+   * `observation`: where the new observation's spread came from (additive, optional); `transform`: the response
+   * expression when it is a function of the response column, whose scale `original` reports (additive, optional);
+   * `range`: the predictor range of the fitted points, which `extrapolated` refers to (additive, optional).
+   */
+  | {
+      kind: 'predict'; fit: string; group?: string; variable: string; predictions: Prediction[]; withheld?: string;
+      observation?: ObservationSource; transform?: { column: string; expression: string }; range?: [number, number];
+    }
+  /** `readings`: responses are means of this many readings (additive, optional; absent for 1). */
+  | { kind: 'invert'; fit: string; group?: string; response: string; inversions: InversePrediction[]; withheld?: string; readings?: number; observation?: ObservationSource }
+  /** Every fitted point read back through the curve (`backcalc`); `response` is the response as the model has it. */
+  | { kind: 'backcalc'; fit: string; group?: string; predictor: string; response: string; standards: BackCalculation[]; withheld?: string }
   | {
       kind: 'compare';
       withheld?: string;

@@ -191,3 +191,16 @@ export const AICC_TIE = 2;
 
 /** ΔAICc above this: the fit with the higher AICc has essentially no support (Burnham & Anderson 2002, §2.6). */
 export const AICC_CLEAR = 10;
+
+/**
+ * How far inverse prediction (engine/stats/inverse.ts) follows the curve beyond the data range [lo, hi].
+ * - `estimateMargin`: the predictor value read off the curve may lie up to this fraction of the range
+ *   beyond an end (10 %), reported as extrapolated: a standard at the end of a calibration reads back just
+ *   outside it when its residual carries it there. Farther out the answer is refused as before (no standard
+ *   supports it). Our choice.
+ * - `intervalReach`: an interval end is sought up to this many data ranges beyond the data (1: one range; for
+ *   a log-spaced range, one decade per unit), reported as extrapolated when it lies outside the data; not found
+ *   within it, the interval is reported open on that side. Our choice: enough for the end standards of a
+ *   calibration, short of reading the curve where nothing was measured.
+ */
+export const INVERSE_REACH = { estimateMargin: 0.1, intervalReach: 1 } as const;

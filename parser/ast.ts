@@ -132,6 +132,22 @@ export interface PredictAst {
   /** Predictor column (`predict`) or response column (`invert`). */
   column: NameAst | undefined;
   values: ValueAst[];
+  /** Options after the values (`readings M`, `sigma S, ...`, `weight W, ...`), in order written. */
+  options: QueryOptionAst[];
+  range: Range;
+}
+
+/** `readings M`, `sigma S1, S2, ...` or `weight W1, W2, ...` after a query's values (or after `at` in `expect`). */
+export interface QueryOptionAst {
+  kind: 'readings' | 'sigma' | 'weight';
+  values: ValueAst[];
+  range: Range;
+}
+
+/** `backcalc FIT`: the fit's standards read back through its curve. */
+export interface BackcalcAst {
+  kind: 'backcalc';
+  fit: NameAst | undefined;
   range: Range;
 }
 
@@ -151,13 +167,15 @@ export interface ExpectAst {
   fit: NameAst | undefined;
   /** Names after the first: one (parameter or statistic, or `se` of a derived quantity), two (`param.se`), or none (a derived quantity). */
   path: NameAst[];
+  /** `at COLUMN = VALUE [options]`: the query point of a prediction or inversion target. */
+  at?: { column: NameAst | undefined; value: ValueAst; options: QueryOptionAst[]; range: Range };
   bound: ExpectBoundAst | undefined;
   /** The statement as written after `expect`, whitespace collapsed (for reports). */
   text: string;
   range: Range;
 }
 
-export type StatementAst = DataAst | ConstAst | FitAst | DeriveAst | PredictAst | CompareAst | ExpectAst;
+export type StatementAst = DataAst | ConstAst | FitAst | DeriveAst | PredictAst | BackcalcAst | CompareAst | ExpectAst;
 
 export interface SpecAst {
   kind: 'spec';

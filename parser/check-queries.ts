@@ -5,13 +5,14 @@
  * lod below 0.1`, `expect lod.se below 0.01`).
  */
 import { isMember, MEMBERS, MEMBER_SPECS } from './registry/statistics';
-import type { CompareAst, ExpectAst, NameAst, PredictAst, ValueAst } from './ast';
-import type { Bound, Expectation, ExpectTarget, Query } from './plan';
+import type { BackcalcAst, CompareAst, ExpectAst, NameAst, PredictAst, QueryOptionAst, ValueAst } from './ast';
+import type { Bound, Expectation, ExpectTarget, NewObservation, Query, Range } from './plan';
 import { STATISTICS, isStatisticName as isStatistic } from './registry/statistics';
 import type { Env, FitInfo } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
-import { exprText } from './plan-expr';
+import { columnsOf, exprText } from './plan-expr';
+import { QUERY_MEMBERS, isQueryMember, QUERY_MEMBER_SPECS } from './registry/statistics';
 
 /** The fit a statement names, or undefined (reported). */
 export function lookupFit(env: Env, name: NameAst | undefined): FitInfo | undefined {
@@ -55,10 +56,87 @@ export function checkQuery(env: Env, q: PredictAst): Query | undefined {
       }
     }
   }
-  if (!q.fit || !col) return undefined;
+  const opts = queryOptions(env, q.kind, q.options, q.values.length, fit, q.range, () => exampleQuery(q));
+  if (!q.fit || !col || !opts) return undefined;
+  const observation = opts.observation ? { observation: opts.observation } : {};
   return q.kind === 'predict'
-    ? { kind: 'predict', fit: q.fit.name, variable: col.name, values: vals, range: q.range }
-    : { kind: 'invert', fit: q.fit.name, response: col.name, values: vals, range: q.range };
+    ? { kind: 'predict', fit: q.fit.name, variable: col.name, values: vals, ...observation, range: q.range }
+    : { kind: 'invert', fit: q.fit.name, response: col.name, values: vals, ...(opts.readings !== undefined ? { readings: opts.readings } : {}), ...observation, range: q.range };
+}
+
+/** The query as written with a placeholder spread, for the message that asks for one. */
+function exampleQuery(q: PredictAst): string {
+  const shown = q.values.map((v) => (v.kind === 'number' ? String(v.value) : v.kind === 'name' ? v.name : '…')).join(', ');
+  return `${q.kind} ${q.fit?.name ?? 'FIT'} at ${q.column?.name ?? 'COLUMN'} = ${shown}`;
+}
+
+/**
+ * The options after a query's values (or after `at` in an expectation):
+ * `readings M` (invert only, a whole number ≥ 1) and the new observation's
+ * `sigma`/`weight` (the fit's own kind, 1 or `count` values, each > 0). A fit
+ * whose sigma or weight expression reads a column other than the predictor
+ * needs it stated: its value at a new point cannot be read off the curve, and
+ * an average over the fitted rows would be a silent guess (engine/run/curve.ts
+ * refuses it too). Undefined when an option is in error (reported).
+ */
+export function queryOptions(
+  env: Env, kind: 'predict' | 'invert', options: readonly QueryOptionAst[], count: number, fit: FitInfo | undefined, range: Range, example: () => string,
+): { readings?: number; observation?: NewObservation } | undefined {
+  let ok = true;
+  let readings: number | undefined;
+  let observation: NewObservation | undefined;
+  const block = fit?.plan.blocks[0];
+  const has: 'sigma' | 'weight' | undefined = block?.sigma ? 'sigma' : block?.weight ? 'weight' : undefined;
+  for (const o of options) {
+    if (o.kind === 'readings') {
+      const v = o.values[0] ? resolveValue(env, o.values[0], { allowInf: false }) : undefined;
+      if (kind === 'predict') { env.r.report('query_option', MSG.readingsOnPredict, o.range); ok = false; }
+      else if (readings !== undefined) { env.r.report('query_option', MSG.optionRepeated('readings'), o.range); ok = false; }
+      else if (v === undefined) ok = false;
+      else if (!Number.isInteger(v) || v < 1) { env.r.report('query_option', MSG.readingsCount(v), o.range); ok = false; }
+      else readings = v;
+      continue;
+    }
+    const vs = values(env, o.values);
+    if (vs.length !== o.values.length) { ok = false; continue; }
+    if (observation) { env.r.report('query_option', MSG.optionRepeated(o.kind === observation.kind ? o.kind : 'the new observation\'s spread'), o.range); ok = false; continue; }
+    if (fit && !fit.incomplete && has !== o.kind) {
+      env.r.report('query_option', has ? MSG.spreadOtherKind(fit.plan.name, has, o.kind) : MSG.spreadUnweighted(fit.plan.name, o.kind), o.range);
+      ok = false;
+      continue;
+    }
+    if (vs.length !== 1 && vs.length !== count) { env.r.report('query_option', MSG.spreadCount(o.kind, vs.length, count), o.range); ok = false; continue; }
+    const bad = vs.findIndex((v) => !(v > 0));
+    if (bad >= 0) { env.r.report('not_positive', MSG.notPositive(o.kind, vs[bad]), o.values[bad].range); ok = false; continue; }
+    observation = { kind: o.kind, values: vs };
+  }
+  if (fit && !fit.incomplete && block && has && !observation && fit.modelColumns.length === 1) {
+    const expr = has === 'sigma' ? block.sigma! : block.weight!;
+    const predictor = fit.modelColumns[0];
+    const others = columnsOf(expr).filter((c) => c !== predictor);
+    if (others.length > 0) {
+      env.r.report('new_sigma_needed', MSG.newSigmaNeeded(fit.plan.name, has, others, predictor, `${example()} ${has} ${has === 'sigma' ? 'S' : 'W'}`), range);
+      ok = false;
+    }
+  }
+  if (!ok) return undefined;
+  return { ...(readings !== undefined ? { readings } : {}), ...(observation ? { observation } : {}) };
+}
+
+/**
+ * `backcalc FIT`: the fit must have one predictor column and a response of
+ * one column (the standards are read back through the curve, as `invert`
+ * does). A sigma or weight of other columns is fine: each standard's own row
+ * gives its value.
+ */
+export function checkBackcalc(env: Env, b: BackcalcAst): Query | undefined {
+  const fit = lookupFit(env, b.fit);
+  if (!b.fit) return undefined;
+  if (fit && !fit.incomplete) {
+    if (fit.modelColumns.length !== 1) env.r.report('query_option', MSG.backcalcNeeds(fit.plan.name, 'exactly one predictor column'), b.fit.range);
+    else if (fit.responseColumns.length !== 1) env.r.report('query_option', MSG.backcalcNeeds(fit.plan.name, 'a response of exactly one column'), b.fit.range);
+  }
+  return { kind: 'backcalc', fit: b.fit.name, range: b.range };
 }
 
 /**
@@ -119,7 +197,41 @@ function derivedTarget(env: Env, head: NameAst, path: NameAst[]): ExpectTarget |
   return undefined;
 }
 
+/**
+ * `expect FIT.PATH at COLUMN = VALUE [options] BOUND`: a number of a query at
+ * one point (QUERY_MEMBER_SPECS), checked as that query would be.
+ */
+function queryTarget(env: Env, x: ExpectAst, at: NonNullable<ExpectAst['at']>): ExpectTarget | undefined {
+  const fit = lookupFit(env, x.fit);
+  const path = x.path.map((p) => p.name).join('.');
+  if (!isQueryMember(path)) {
+    const r = x.path.length ? { start: x.path[0].range.start, end: x.path[x.path.length - 1].range.end } : x.fit?.range;
+    if (r) env.r.report('unknown_query_member', MSG.unknownQueryMember(path, QUERY_MEMBERS), r, env.suggester.suggest(path, QUERY_MEMBERS));
+    return undefined;
+  }
+  const query = QUERY_MEMBER_SPECS[path].query;
+  const col = at.column;
+  const value = resolveValue(env, at.value, { allowInf: false });
+  if (fit && col && !fit.incomplete) {
+    const cols = query === 'predict' ? fit.modelColumns : fit.responseColumns;
+    if (cols.length !== 1) env.r.report(query === 'predict' ? 'predictor_mismatch' : 'response_mismatch', query === 'predict' ? MSG.needsOnePredictor('predict', fit.plan.name, cols) : MSG.responseMismatch(fit.plan.name, col.name, cols), col.range);
+    else if (cols[0] !== col.name) env.r.report(query === 'predict' ? 'predictor_mismatch' : 'response_mismatch', query === 'predict' ? MSG.predictorOther(fit.plan.name, cols[0], col.name) : MSG.responseMismatch(fit.plan.name, col.name, cols), col.range, [cols[0]]);
+  }
+  const opts = queryOptions(env, query, at.options, 1, fit, at.range, () => `expect ${x.fit?.name ?? 'FIT'}.${path} at ${col?.name ?? 'COLUMN'} = ${value ?? '…'}`);
+  if (!fit || !col || value === undefined || !opts) return undefined;
+  return {
+    kind: 'query', fit: fit.plan.name, query, member: path, column: col.name, value,
+    ...(opts.readings !== undefined ? { readings: opts.readings } : {}),
+    ...(opts.observation ? { observation: opts.observation } : {}),
+  };
+}
+
 export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
+  if (x.at) {
+    const target = queryTarget(env, x, x.at);
+    const bound = checkBound(env, x);
+    return target && bound ? { target, bound, text: x.text, range: x.range } : undefined;
+  }
   const derived = namesDerived(env, x);
   const fit = derived ? undefined : lookupFit(env, x.fit);
   const fitName = x.fit?.name ?? '';
@@ -149,6 +261,12 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
     env.r.report('unknown_target', MSG.fitNeedsMember(fitName), x.fit.range);
   }
 
+  const bound = checkBound(env, x);
+  if (!target || !bound || (!fit && target.kind !== 'derived')) return undefined;
+  return { target, bound, text: x.text, range: x.range };
+}
+
+function checkBound(env: Env, x: ExpectAst): Bound | undefined {
   let bound: Bound | undefined;
   const b = x.bound;
   if (b?.kind === 'within') {
@@ -162,6 +280,5 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
     const value = resolveValue(env, b.value, { allowInf: false });
     if (value !== undefined) bound = { kind: b.kind, value };
   }
-  if (!target || !bound || (!fit && target.kind !== 'derived')) return undefined;
-  return { target, bound, text: x.text, range: x.range };
+  return bound;
 }

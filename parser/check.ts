@@ -9,7 +9,7 @@ import { isBuiltinConstant, type CheckContext, type Env } from './check-env';
 import { newUse, resolveExpr, resolveValue } from './check-expr';
 import { checkFit } from './check-fit';
 import { checkDerive } from './check-derive';
-import { checkCompare, checkExpect, checkQuery } from './check-queries';
+import { checkBackcalc, checkCompare, checkExpect, checkQuery } from './check-queries';
 import { MSG } from './messages';
 import { Reporter } from './report';
 import { Suggester } from './suggest';
@@ -49,6 +49,11 @@ export function checkSpec(ast: SpecAst, ctx: CheckContext = {}): { plan: Plan; d
         case 'predict':
         case 'invert': {
           const q = checkQuery(env, s);
+          if (q) plan.queries.push(q);
+          break;
+        }
+        case 'backcalc': {
+          const q = checkBackcalc(env, s);
           if (q) plan.queries.push(q);
           break;
         }

@@ -2,7 +2,7 @@
  * The `.lsq` grammar as one chevrotain CstParser (one reused instance).
  *
  *   spec       := statement*
- *   statement  := data | const | fit | derive | predict | invert | compare | expect
+ *   statement  := data | const | fit | derive | predict | invert | backcalc | compare | expect
  *   data       := 'data' Name '=' String ( 'where' expr | 'delimiter' String | 'decimal' String )*
  *   const      := 'const' Name '=' value Unit?
  *   fit        := 'fit' Name 'on' Name '{' fitItem* '}'
@@ -11,9 +11,11 @@
  *               | ('sigma' | 'weight') expr | ('method' | 'profile') Name | 'loss' Name ('scale' value)?
  *               | ('level' | 'iterations' | 'tolerance' | 'rate' | 'explore') value | 'per' column
  *   derive     := 'derive' Name '=' expr Unit?
- *   predict    := ('predict' | 'invert') Name 'at' column '=' value (',' value)*
+ *   predict    := ('predict' | 'invert') Name 'at' column '=' value (',' value)* queryOpt*
+ *   queryOpt   := 'readings' value | ('sigma' | 'weight') value (',' value)*
+ *   backcalc   := 'backcalc' Name
  *   compare    := 'compare' Name (',' Name)*
- *   expect     := 'expect' Name ( '.' Name )* ( 'within' value '..' value | ('above'|'below') value )
+ *   expect     := 'expect' Name ( '.' Name )* ( 'at' column '=' value queryOpt* )? ( 'within' value '..' value | ('above'|'below') value )
  *   value      := ('-' | '+')? ( Number | 'inf' | Name )
  *   column     := Name | String
  *
@@ -45,7 +47,7 @@ function label(t: TokenType): string {
 }
 
 function unexpected(tok: IToken): string {
-  return `unexpected ${show(tok)}: a statement starts with data, const, fit, derive, predict, invert, compare or expect`;
+  return `unexpected ${show(tok)}: a statement starts with data, const, fit, derive, predict, invert, backcalc, compare or expect`;
 }
 
 /** Short, user-facing syntax messages (the parser's defaults name internal token types). */
@@ -81,10 +83,11 @@ export class LsqParser extends CstParser {
         { ALT: () => this.SUBRULE(this.fitStatement) },
         { ALT: () => this.SUBRULE(this.deriveStatement) },
         { ALT: () => this.SUBRULE(this.queryStatement) },
+        { ALT: () => this.SUBRULE(this.backcalcStatement) },
         { ALT: () => this.SUBRULE(this.compareStatement) },
         { ALT: () => this.SUBRULE(this.expectStatement) },
       ],
-      ERR_MSG: 'a statement (data, const, fit, derive, predict, invert, compare or expect)',
+      ERR_MSG: 'a statement (data, const, fit, derive, predict, invert, backcalc, compare or expect)',
     });
   });
 
@@ -218,6 +221,20 @@ export class LsqParser extends CstParser {
     this.SUBRULE(this.column);
     this.CONSUME(T.Equals);
     this.AT_LEAST_ONE_SEP({ SEP: T.Comma, DEF: () => this.SUBRULE(this.value, { LABEL: 'values' }) });
+    this.MANY(() => this.SUBRULE(this.queryOption, { LABEL: 'options' }));
+  });
+
+  private queryOption = this.RULE('queryOption', () => {
+    this.OR([
+      { ALT: () => { this.CONSUME(T.Readings, { LABEL: 'keyword' }); this.SUBRULE(this.value, { LABEL: 'readings' }); } },
+      { ALT: () => { this.CONSUME(T.Sigma, { LABEL: 'keyword' }); this.AT_LEAST_ONE_SEP({ SEP: T.Comma, DEF: () => this.SUBRULE2(this.value, { LABEL: 'spread' }) }); } },
+      { ALT: () => { this.CONSUME(T.Weight, { LABEL: 'keyword' }); this.AT_LEAST_ONE_SEP2({ SEP: T.Comma, DEF: () => this.SUBRULE3(this.value, { LABEL: 'spread' }) }); } },
+    ]);
+  });
+
+  private backcalcStatement = this.RULE('backcalcStatement', () => {
+    this.CONSUME(T.Backcalc);
+    this.CONSUME(T.Name, { LABEL: 'fit' });
   });
 
   private compareStatement = this.RULE('compareStatement', () => {
@@ -231,6 +248,13 @@ export class LsqParser extends CstParser {
     this.MANY(() => {
       this.CONSUME(T.Dot);
       this.CONSUME2(T.Name, { LABEL: 'path' });
+    });
+    this.OPTION(() => {
+      this.CONSUME(T.At);
+      this.SUBRULE(this.column, { LABEL: 'atColumn' });
+      this.CONSUME(T.Equals);
+      this.SUBRULE5(this.value, { LABEL: 'atValue' });
+      this.MANY2(() => this.SUBRULE(this.queryOption, { LABEL: 'options' }));
     });
     this.OR([
       { ALT: () => { this.CONSUME(T.Within); this.SUBRULE(this.value, { LABEL: 'low' }); this.CONSUME(T.DotDot); this.SUBRULE2(this.value, { LABEL: 'high' }); } },

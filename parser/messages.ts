@@ -61,6 +61,9 @@ export const CODES = {
   unused_data: { severity: 'warning', when: 'a data table no fit reads' },
   repeated_fit: { severity: 'warning', when: 'a fit listed twice in one compare' },
   option_ignored: { severity: 'warning', when: '`scale` with `loss squared`, `rate` without `method gradient_descent`, or `explore` with `method linear` or `gradient_descent`' },
+  new_sigma_needed: { severity: 'error', when: 'predict, invert or an `expect … at` on a fit whose sigma or weight reads a column other than the predictor, without `sigma`/`weight` for the new observation' },
+  query_option: { severity: 'error', when: '`readings` on predict or not a whole number ≥ 1; `sigma`/`weight` on a fit without that weighting, twice, with a count other than 1 or one per value, or not > 0; `backcalc` on a fit without one predictor or one response column' },
+  unknown_query_member: { severity: 'error', when: 'an `expect FIT.PATH at …` whose path is not a query number (`fitted`, `prediction.lower`, `inverse.upper`, …)' },
 } as const satisfies Record<string, { severity: Severity; when: string }>;
 
 export type DiagnosticCode = keyof typeof CODES;
@@ -120,7 +123,7 @@ export const MSG = {
   predictorOther: (fit: string, predictor: string, col: string) =>
     `fit ${q(fit)} varies with ${q(predictor)}, not ${q(col)}`,
   /** Also the engine's message when a query meets such a fit (engine/messages.ts `errorText.noPredictor`). */
-  needsOnePredictor: (what: 'predict' | 'invert', fit: string, cols: readonly string[]) =>
+  needsOnePredictor: (what: 'predict' | 'invert' | 'backcalc', fit: string, cols: readonly string[]) =>
     `${what} needs a model with exactly one predictor column; ${q(fit)} ${cols.length ? `varies with ${list(cols)}` : 'has none'}`,
   /** Also the engine's message (engine/messages.ts `errorText.wrongResponse`). */
   responseMismatch: (fit: string, col: string, cols: readonly string[]) =>
@@ -157,4 +160,17 @@ export const MSG = {
   exploreRange: (v: number, max: number) => `explore must be a whole number from 0 (no search) to ${max}, not ${v}`,
   exploreIgnored: 'explore only matters for the Levenberg–Marquardt solver (method auto or levenberg_marquardt); it is ignored here',
   didYouMean: (names: readonly string[]) => (names.length ? ` - did you mean ${names.map(q).join(' or ')}?` : ''),
+  /** Also the engine's refusal (engine/messages.ts `errorText.newSigmaNeeded`). */
+  newSigmaNeeded: (fit: string, kind: 'sigma' | 'weight', cols: readonly string[], predictor: string, example: string) =>
+    `the ${kind} of ${q(fit)} reads ${list(cols)}, not only the predictor ${q(predictor)}, so the ${kind} of a new observation cannot be read off the curve; state it after the values, e.g. \`${example}\``,
+  readingsOnPredict: '`readings` belongs to invert (the mean of several readings of the response); predict is about one new observation',
+  readingsCount: (v: number) => `readings must be a whole number of at least 1, not ${v}`,
+  spreadUnweighted: (fit: string, kind: 'sigma' | 'weight') =>
+    `${q(fit)} has no ${kind} expression; a new observation's spread comes from the fit's residual standard deviation, so \`${kind}\` has no meaning here`,
+  spreadOtherKind: (fit: string, has: 'sigma' | 'weight', wrote: 'sigma' | 'weight') =>
+    `${q(fit)} is weighted by ${has}, so state the new observation's ${has} (\`${has} …\`), not its ${wrote}`,
+  spreadCount: (kind: string, got: number, want: number) => `${kind} needs one value, or one per query value (${want}), not ${got}`,
+  optionRepeated: (kind: string) => `${kind} is given twice`,
+  backcalcNeeds: (fit: string, what: string) => `backcalc needs a fit with ${what}; ${q(fit)} does not have it`,
+  unknownQueryMember: (path: string, members: readonly string[]) => `${q(path)} is not a number of a query; before \`at\` use ${members.join(', ')}`,
 } as const;

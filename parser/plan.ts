@@ -14,7 +14,7 @@
  *   dimensional-consistency check.
  */
 
-import type { MemberOf } from './registry/statistics';
+import type { MemberOf, QueryMemberName } from './registry/statistics';
 import type { FunctionName } from './registry/functions';
 import type { Method } from './registry/methods';
 import type { LossKind } from './registry/losses';
@@ -189,16 +189,37 @@ export interface FitPlan {
   range: Range;
 }
 
+/**
+ * The spread of the new observation a query is about, as the spec states it
+ * (`sigma S, ...` or `weight W, ...` after the values): one value for every
+ * query value, or one per value in order. Absent: read from the fit's own
+ * sigma or weight expression at the query point, which the checker allows
+ * only when that expression reads no column but the predictor.
+ */
+export interface NewObservation {
+  kind: 'sigma' | 'weight';
+  values: number[];
+}
+
 export type Query =
-  | { kind: 'predict'; fit: string; variable: string; values: number[]; range: Range }
-  | { kind: 'invert'; fit: string; response: string; values: number[]; range: Range }
+  | { kind: 'predict'; fit: string; variable: string; values: number[]; observation?: NewObservation; range: Range }
+  /** `readings`: the response values are means of this many replicate readings (default 1). */
+  | { kind: 'invert'; fit: string; response: string; values: number[]; readings?: number; observation?: NewObservation; range: Range }
+  /** `backcalc FIT`: every fitted point's predictor read back from its response (engine/run/queries.ts). */
+  | { kind: 'backcalc'; fit: string; range: Range }
   | { kind: 'compare'; fits: string[]; range: Range };
 
 export type ExpectTarget =
   | { kind: 'parameter'; fit: string; name: string; of: MemberOf }
   | { kind: 'statistic'; fit: string; name: StatisticName }
   /** A derived quantity (`expect lod below 0.1`) or its standard error (`expect lod.se below 0.01`). */
-  | { kind: 'derived'; name: string; of: MemberOf };
+  | { kind: 'derived'; name: string; of: MemberOf }
+  /**
+   * A number of a query at one point (`expect cal.prediction.lower at conc = 5 above 0.2`): `member` of
+   * parser/registry/statistics.ts QUERY_MEMBER_SPECS, `query` the statement it is a number of, `column`
+   * and `value` the point, `readings` and `observation` as in that query.
+   */
+  | { kind: 'query'; fit: string; query: 'predict' | 'invert'; member: QueryMemberName; column: string; value: number; readings?: number; observation?: NewObservation };
 
 export type Bound =
   | { kind: 'within'; low: number; high: number }

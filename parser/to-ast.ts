@@ -16,7 +16,7 @@ import type { CstNode, IToken } from 'chevrotain';
 import type { Diagnostic, Range } from './plan';
 import type {
   BoundsAst, ConstAst, DataAst, DataOptionAst, DeriveAst, ExpectAst, ExpectBoundAst, ExprAst, FitAst, FitItemAst, NameAst,
-  NumericOptionKind, ParamAst, PredictAst, CompareAst, SpecAst, StatementAst, StringAst, UnitAst, ValueAst,
+  NumericOptionKind, ParamAst, PredictAst, QueryOptionAst, BackcalcAst, CompareAst, SpecAst, StatementAst, StringAst, UnitAst, ValueAst,
 } from './ast';
 import { getParser } from './grammar';
 import { EMPTY_RANGE, tokenRange } from './source';
@@ -293,11 +293,25 @@ class AstBuilder extends BaseVisitor {
     const column = n ? (this.visit(n) as NameAst | undefined) : undefined;
     this.tok(ctx, 'Equals');
     const values = this.nodes(ctx, 'values').map((v) => this.val(v));
+    const options = this.nodes(ctx, 'options').map((o) => this.visit(o) as QueryOptionAst);
     return {
       kind: t?.image === 'invert' ? 'invert' : 'predict',
-      fit, column, values,
-      range: cover(t && tokenRange(t), fit?.range, column?.range, ends(values)),
+      fit, column, values, options,
+      range: cover(t && tokenRange(t), fit?.range, column?.range, ends(values), ends(options)),
     };
+  }
+
+  queryOption(ctx: Children): QueryOptionAst {
+    const t = this.tok(ctx, 'keyword');
+    const kind = t?.image === 'readings' ? 'readings' : t?.image === 'weight' ? 'weight' : 'sigma';
+    const values = kind === 'readings' ? [this.val(this.node(ctx, 'readings'))] : this.nodes(ctx, 'spread').map((v) => this.val(v));
+    return { kind, values, range: cover(t && tokenRange(t), ends(values)) };
+  }
+
+  backcalcStatement(ctx: Children): BackcalcAst {
+    const kw = this.tokRange(ctx, 'Backcalc');
+    const fit = this.nameOf(ctx, 'fit');
+    return { kind: 'backcalc', fit, range: cover(kw, fit?.range) };
   }
 
   compareStatement(ctx: Children): CompareAst {
@@ -318,6 +332,16 @@ class AstBuilder extends BaseVisitor {
       const p = this.nameOf(ctx, 'path', i);
       if (p) path.push(p);
     }
+    let at: ExpectAst['at'];
+    const atKw = this.tokRange(ctx, 'At');
+    if (atKw) {
+      const n = this.node(ctx, 'atColumn');
+      const column = n ? (this.visit(n) as NameAst | undefined) : undefined;
+      this.tok(ctx, 'Equals');
+      const value = this.val(this.node(ctx, 'atValue'));
+      const options = this.nodes(ctx, 'options').map((o) => this.visit(o) as QueryOptionAst);
+      at = { column, value, options, range: cover(atKw, column?.range, value.range, ends(options)) };
+    }
     let bound: ExpectBoundAst | undefined;
     const within = this.tokRange(ctx, 'Within');
     const above = this.tokRange(ctx, 'Above');
@@ -334,10 +358,10 @@ class AstBuilder extends BaseVisitor {
       const value = this.val(this.node(ctx, 'below'));
       bound = { kind: 'below', value, range: cover(below, value.range) };
     }
-    const range = cover(kw, fit?.range, ends(path), bound?.range);
+    const range = cover(kw, fit?.range, ends(path), at?.range, bound?.range);
     const from = fit?.range.start.offset ?? kw?.end.offset ?? range.start.offset;
     const text = this.source.slice(from, range.end.offset).replace(/\s+/g, ' ').trim();
-    return { kind: 'expect', fit, path, bound, text, range };
+    return { kind: 'expect', fit, path, ...(at ? { at } : {}), bound, text, range };
   }
 
   value(ctx: Children): ValueAst {

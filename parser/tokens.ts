@@ -69,6 +69,7 @@ export const Fit = keyword('fit');
 export const Derive = keyword('derive');
 export const Predict = keyword('predict');
 export const Invert = keyword('invert');
+export const Backcalc = keyword('backcalc');
 export const Compare = keyword('compare');
 export const Expect = keyword('expect');
 // Data options
@@ -95,6 +96,7 @@ export const Profile = keyword('profile');
 export const Per = keyword('per');
 // Queries and expectations
 export const At = keyword('at');
+export const Readings = keyword('readings');
 export const Within = keyword('within');
 export const Above = keyword('above');
 export const Below = keyword('below');
@@ -106,8 +108,8 @@ export const Inf = keyword('inf', []);
 
 /** All keywords, longest first so a keyword that is a prefix of another (`in`, `inf`) comes after it. */
 export const KEYWORD_TOKENS: readonly TokenType[] = [
-  Data, Const, Fit, Derive, Predict, Invert, Compare, Expect, Where, Delimiter, Decimal, On, Model, Param, In, Fixed,
-  Sigma, Weight, Method, Loss, Scale, Level, Iterations, Tolerance, Rate, Explore, Profile, Per, At, Within, Above, Below,
+  Data, Const, Fit, Derive, Predict, Invert, Backcalc, Compare, Expect, Where, Delimiter, Decimal, On, Model, Param, In, Fixed,
+  Sigma, Weight, Method, Loss, Scale, Level, Iterations, Tolerance, Rate, Explore, Profile, Per, At, Readings, Within, Above, Below,
   And, Or, Not, Inf,
 ].sort((a, b) => String(b.PATTERN).length - String(a.PATTERN).length);
 

@@ -8,18 +8,26 @@
  * Rebuilt from plain data (the plan and the fit's numbers), so queries work
  * the same on results computed in another thread.
  *
- * Variance of one new observation at x (prediction band), given as its root:
+ * Variance of one new observation at x, given as its root:
  * - unweighted: s²;
  * - relative weights: s²/w(x) when the weight expression reads no column but
- *   the predictor, else s²·mean(1/wᵢ) over the fitted rows;
+ *   the predictor;
  * - absolute σ: σ(x)² when the sigma expression reads no column but the
- *   predictor, else mean(σᵢ²) over the fitted rows.
+ *   predictor.
+ * Queries (`querySd`) take a σ or w the spec states for the new observation
+ * instead, and divide the variance by m for the mean of m readings; with a
+ * sigma or weight of other columns and nothing stated they get null and are
+ * refused (engine/run/queries.ts): the value at a new point is not on the
+ * curve, and an average over the fitted rows would misstate it (twice too
+ * wide at the low end of a 1/x² calibration). Only the band drawn with the
+ * fit (`newSd`) falls back to that average, s²·mean(1/wᵢ) or mean(σᵢ²) over
+ * the fitted rows, for want of anything better to draw.
  * Roots are formed without squaring s or σ (s·√(1/w), …), so they stay in
  * range for data near 1e-300 or 1e+300.
  */
 import type { Expr, FitPlan } from '../../parser/plan';
 import { compileColumnExpr, compileModel } from '../compile';
-import type { FitResult } from '../result';
+import type { FitResult, ObservationSource } from '../result';
 import type { FactoredCovariance, ModelAt, NewObservationSd } from '../stats/bands';
 import { tCritical } from '../stats/distributions';
 import { columnsOf, substituteParams } from '../../parser/plan-expr';
@@ -49,7 +57,14 @@ export interface CurveInput {
 
 export interface Curve {
   modelAt: ModelAt;
+  /** For the band drawn with the fit (see the module comment). */
   newSd: NewObservationSd;
+  /**
+   * For a query: the root of the new-observation variance at each x, divided by `readings`, from the stated σ
+   * (or w) when given, else from the fit's expression at x; null when the expression reads other columns
+   * and nothing is stated. `source` says which.
+   */
+  querySd: (stated: { kind: 'sigma' | 'weight'; value: number } | undefined, readings: number) => { sd: NewObservationSd; source: ObservationSource } | null;
   cov: FactoredCovariance;
   p: number;
   /** t_{(1+level)/2, dof} (NaN when dof ≤ 0). */
@@ -68,7 +83,32 @@ export function buildCurve(input: CurveInput): Curve {
     model.valueAndJacobian(estimates, [xs], m, f, gradient);
     return { f, gradient };
   };
-  return { modelAt, newSd: newObservationSd(input), cov: input.cov, p, t: tCritical(input.level, input.dof) };
+  return { modelAt, newSd: newObservationSd(input), querySd: (stated, readings) => querySd(input, stated, readings), cov: input.cov, p, t: tCritical(input.level, input.dof) };
+}
+
+function querySd(input: CurveInput, stated: { kind: 'sigma' | 'weight'; value: number } | undefined, readings: number): { sd: NewObservationSd; source: ObservationSource } | null {
+  const block = input.fit.blocks[0];
+  const s = input.rmse;
+  const root = Math.sqrt(readings);
+  const fill = (v: number): NewObservationSd => (xs) => new Float64Array(xs.length).fill(v);
+  const absolute = input.sigmaAbsolute && block.sigma !== undefined;
+  if (stated) {
+    // σ stated for a σ-weighted fit; w stated for a relatively weighted one (the checker holds the pairing)
+    if (stated.kind === 'sigma') return { sd: fill(absolute ? stated.value / root : NaN), source: 'stated' };
+    return { sd: fill(s / Math.sqrt(stated.value) / root), source: 'stated' };
+  }
+  const expr = absolute ? block.sigma : block.weight;
+  if (!expr) return { sd: fill(s / root), source: 'residual' };
+  if (!columnsOf(expr).every((c) => c === input.predictor)) return null;
+  const f = compileColumnExpr(expr, [input.predictor]);
+  const at = (xs: Float64Array) => {
+    const out = new Float64Array(xs.length);
+    f([xs], xs.length, out);
+    return out;
+  };
+  return absolute
+    ? { sd: (xs) => at(xs).map((v) => Math.abs(v) / root), source: 'expression' }
+    : { sd: (xs) => at(xs).map((w) => (w > 0 ? s / Math.sqrt(w) / root : NaN)), source: 'expression' };
 }
 
 function newObservationSd(input: CurveInput): NewObservationSd {

@@ -7,7 +7,7 @@
  * result per group.
  */
 import { memberName, type MemberOf } from '../../parser/registry/statistics';
-import type { Bound, Expectation, StatisticName } from '../../parser/plan';
+import type { Bound, Expectation, ExpectTarget, StatisticName } from '../../parser/plan';
 import { expectationText, withheldText } from '../messages';
 import type { DerivedResult, ExpectationResult, FitResult } from '../result';
 import { statisticValue } from './statistics';
@@ -37,8 +37,12 @@ function targetText(e: Expectation): string {
     case 'parameter': return `${t.fit}.${t.name}${member(t.of)}`;
     case 'statistic': return `${t.fit}.${t.name}`;
     case 'derived': return `${t.name}${member(t.of)}`;
+    case 'query': return `${t.fit}.${t.member} at ${t.column} = ${t.value}`;
   }
 }
+
+/** The number of a query target at its point (engine/run/queries.ts `queryNumber`), NaN with why when there is none. */
+export type QueryNumber = (t: Extract<ExpectTarget, { kind: 'query' }>, r: FitResult, e: Expectation) => { value: number; why?: string };
 
 /**
  * True when an expectation belongs to this run: its fit ran, or (for a
@@ -53,6 +57,7 @@ export function checkExpectations(
   expectations: readonly Expectation[],
   results: ReadonlyMap<string, FitResult[]>,
   derived: readonly DerivedResult[] = [],
+  queryNumber?: QueryNumber,
 ): ExpectationResult[] {
   const out: ExpectationResult[] = [];
   for (const e of expectations) {
@@ -68,7 +73,7 @@ export function checkExpectations(
       out.push({ expectation: e, actual: null, passed: false, message: expectationText.noResult(targetText(e), t.fit) });
       continue;
     }
-    for (const r of fits) out.push(checkOne(e, r));
+    for (const r of fits) out.push(checkOne(e, r, queryNumber));
   }
   return out;
 }
@@ -89,7 +94,7 @@ function checkDerived(e: Expectation, d: DerivedResult): ExpectationResult {
   return { expectation: e, ...group, ...verdict(e, actual, where, ` (${d.note.replace(/\.$/, '')})`) };
 }
 
-function checkOne(e: Expectation, r: FitResult): ExpectationResult {
+function checkOne(e: Expectation, r: FitResult, queryNumber?: QueryNumber): ExpectationResult {
   const where = r.group !== undefined ? ` [${r.group}]` : '';
   const group = r.group !== undefined ? { group: r.group } : {};
   const t = e.target;
@@ -104,6 +109,9 @@ function checkOne(e: Expectation, r: FitResult): ExpectationResult {
     const par = r.parameters.find((p) => p.name === t.name);
     if (!par) return { expectation: e, ...group, actual: null, passed: false, message: expectationText.noParameter(`${targetText(e)}${where}`, t.name) };
     actual = (t.of === 'estimate' ? par.estimate : t.of === 'stderr' ? par.stderr : t.of === 'lower' ? par.lower : par.upper) ?? NaN;
+  } else if (t.kind === 'query') {
+    const got = queryNumber ? queryNumber(t, r, e) : { value: NaN, why: '' };
+    return { expectation: e, ...group, ...verdict(e, got.value, where, got.why ? ` (${got.why.replace(/\.$/, '')})` : '') };
   } else {
     actual = statisticValue(r, t.name);
   }

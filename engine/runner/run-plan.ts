@@ -27,14 +27,14 @@ import { RESULT_VERSION, type FitResult, type Provenance, type RunError, type Ru
 import type { CancelToken } from '../solve/problem';
 import { loadSources } from '../run/datasets';
 import { runDerived } from '../run/derived';
-import { checkExpectations, expectationApplies } from '../run/expectations';
+import { checkExpectations, expectationApplies, type QueryNumber } from '../run/expectations';
 import { runFit } from '../run/fit';
 import { prepareFitData, type FitData } from '../run/fit-data';
 import { groupThreads } from '../groups/threads';
 import { defaultWorkerFile, fitGroupData, type RunMode } from '../groups/fit-groups';
 import { CANCELLED_STOP, fitOneGroup } from '../groups/group-job';
 import { sharedStart } from '../groups/starts';
-import { runQueries } from '../run/queries';
+import { queryNumber, runQueries } from '../run/queries';
 import type { Solvers } from '../run/solvers';
 import { TOOL_NAME, TOOL_VERSION } from '../run/version';
 import { shardRanges, type Shard } from '../groups/shards';
@@ -233,7 +233,8 @@ export function finishRun(plan: Plan, run: FittedRun): RunResult {
   const q = runQueries(queries, { fitPlans: fitPlans as Map<string, FitPlan>, results });
   for (const e of q.errors) errors.push(e);
   const derived = runDerived(plan.derived ?? [], results, ran);
-  const expectations = checkExpectations(plan.expectations.filter((e) => expectationApplies(e, ran, derived)), results, derived);
+  const queryAt: QueryNumber = (t, r, e) => queryNumber(fitPlans.get(t.fit)!, r, t, e.range);
+  const expectations = checkExpectations(plan.expectations.filter((e) => expectationApplies(e, ran, derived)), results, derived, queryAt);
   return {
     version: RESULT_VERSION,
     provenance: run.provenance,

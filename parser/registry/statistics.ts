@@ -86,3 +86,29 @@ export function isMember(name: string): name is MemberName {
 export function memberName(of: MemberOf): string {
   return of === 'estimate' ? '' : MEMBERS.find((m) => MEMBER_SPECS[m].of === of) ?? '';
 }
+
+/**
+ * Every number of a query an `expect` may test at one point
+ * (`expect cal.prediction.lower at conc = 5 above 0.2`): the path after the
+ * fit name, the query it is read from (`predict` at a predictor value,
+ * `invert` at a response value) and its doc. The checker, the expectations,
+ * hover and LANGUAGE.md read this one list. A transformed response
+ * (`model ln(rate) = …`) is tested on the response column's scale, as reported.
+ */
+export const QUERY_MEMBER_SPECS = {
+  fitted: { query: 'predict', doc: 'fitted - the fitted value at the predictor value.' },
+  'confidence.lower': { query: 'predict', doc: 'confidence.lower - lower limit of the confidence interval of the mean response at the predictor value, at the fit\'s level.' },
+  'confidence.upper': { query: 'predict', doc: 'confidence.upper - upper limit of the confidence interval of the mean response at the predictor value.' },
+  'prediction.lower': { query: 'predict', doc: 'prediction.lower - lower limit of the prediction interval of one new observation at the predictor value.' },
+  'prediction.upper': { query: 'predict', doc: 'prediction.upper - upper limit of the prediction interval of one new observation at the predictor value.' },
+  inverse: { query: 'invert', doc: 'inverse - the predictor value read off the curve at the response value.' },
+  'inverse.lower': { query: 'invert', doc: 'inverse.lower - lower limit of the inverse-prediction interval of the predictor (fails when the interval is open there).' },
+  'inverse.upper': { query: 'invert', doc: 'inverse.upper - upper limit of the inverse-prediction interval of the predictor (fails when the interval is open there).' },
+} as const satisfies Record<string, { query: 'predict' | 'invert'; doc: string }>;
+
+export type QueryMemberName = keyof typeof QUERY_MEMBER_SPECS;
+export const QUERY_MEMBERS: readonly QueryMemberName[] = Object.freeze(Object.keys(QUERY_MEMBER_SPECS) as QueryMemberName[]);
+
+export function isQueryMember(path: string): path is QueryMemberName {
+  return Object.prototype.hasOwnProperty.call(QUERY_MEMBER_SPECS, path);
+}

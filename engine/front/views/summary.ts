@@ -7,9 +7,10 @@ import type { DerivedResult, ExpectationResult, FitResult, QueryResult, RunResul
 import type { Align } from './table';
 import { LOSSES, LOSS_SPECS } from '../../../parser/registry/losses';
 import { METHOD_SPECS } from '../../../parser/registry/methods';
-import { DIGITS, formatEstimate, formatInteger, formatInterval, formatLevel, formatNumber, formatP, isUsable, MISSING, pClause } from '../../format';
+import { DIGITS, formatEstimate, formatInteger, formatLevel, formatNumber, formatP, isUsable, MISSING, pClause } from '../../format';
 import { CORRELATION_SYMBOL, isLargeCondition, isSerialDurbinWatson, THRESHOLDS } from '../../thresholds';
 import { comparisonBlock } from './comparison';
+import { fitQueryBlock } from './queries';
 import { durbinWatsonHint, influenceEntries, runsHint } from './influence';
 
 /** How the views name the solver and the loss of a fit (labels from parser/registry). */
@@ -226,44 +227,10 @@ export interface QueryBlock {
   notes: string[];
 }
 
-const interval = (a: number | null, b: number | null): string => formatInterval(a, b);
-
 /** One table per query, with the fit's level in the headings. */
-/** The cell of a query's number that is withheld because its fit did not converge. */
-const WITHHELD = 'withheld';
-
 export function queryBlocks(result: RunResult): QueryBlock[] {
-  const fitOf = (name: string): FitResult | undefined => result.fits.find((f) => f.name === name);
-  return result.queries.map((q: QueryResult): QueryBlock => {
-    const label = (fit: string, group?: string): string => (group !== undefined ? `${fit} [${group}]` : fit);
-    if (q.kind === 'predict') {
-      const lv = formatLevel(fitOf(q.fit)?.level ?? NaN);
-      return {
-        heading: `Predictions from ${label(q.fit, q.group)} at ${q.variable}`,
-        headers: [q.variable, 'fitted', `${lv} confidence interval`, `${lv} prediction interval`],
-        rows: q.predictions.map((p) => q.withheld
-          ? [formatNumber(p.x), WITHHELD, '', '']
-          : [formatNumber(p.x), formatNumber(p.fitted), interval(...p.confidence), interval(...p.prediction)]),
-        align: ['right', 'right', 'right', 'right'],
-        notes: [q.withheld ? q.withheld : 'Confidence interval: where the mean response lies; prediction interval: where one new observation lies.'],
-      };
-    }
-    if (q.kind === 'invert') {
-      const fit = fitOf(q.fit);
-      const xName = fit?.predictor ?? 'predictor';
-      const lv = formatLevel(fit?.level ?? NaN);
-      return {
-        heading: `Inverse predictions from ${label(q.fit, q.group)}: ${xName} from ${q.response}`,
-        headers: [q.response, xName, `${lv} interval`, 'note'],
-        rows: q.inversions.map((v) => q.withheld
-          ? [formatNumber(v.response), WITHHELD, '', '']
-          : [formatNumber(v.response), formatNumber(v.x), interval(v.interval[0], v.interval[1]), v.message ?? '']),
-        align: ['right', 'right', 'right', 'left'],
-        notes: [q.withheld ? q.withheld : 'Interval from inverting the prediction band (one new measurement of the response).'],
-      };
-    }
-    return comparisonBlock(q);
-  });
+  // predict, invert and backcalc tables: ./queries.ts
+  return result.queries.map((q: QueryResult): QueryBlock => (q.kind === 'compare' ? comparisonBlock(q) : fitQueryBlock(result, q)!));
 }
 
 /** `lod` or `lod [batch 2]` for a derived quantity of a per-group fit. */
