@@ -10,6 +10,7 @@ import {
   type FunctionCategory, type KeywordRole,
 } from '../../parser/registry';
 import { CODES } from '../../parser/messages';
+import { QUERY_MEMBERS, QUERY_MEMBER_SPECS } from '../../parser/registry/statistics';
 
 /** A table cell: `|` escaped. */
 const cell = (s: string) => s.replace(/\|/g, '\\|');
@@ -54,6 +55,10 @@ export function diagnosticsTable(): string {
   return table(['Code', 'Severity', 'When'], Object.entries(CODES).map(([c, d]) => [code(c), d.severity, d.when]));
 }
 
+export function queryMembersTable(): string {
+  return table(['Number', 'Of', 'Meaning'], QUERY_MEMBERS.map((m) => [code(m), QUERY_MEMBER_SPECS[m].query, cell(QUERY_MEMBER_SPECS[m].doc.replace(/^[^ ]+ - /, ''))]));
+}
+
 /** The generated sections of parser/LANGUAGE.md, by marker name. */
 export const LANGUAGE_SECTIONS: Readonly<Record<string, () => string>> = {
   options: optionsTable,
@@ -63,6 +68,7 @@ export const LANGUAGE_SECTIONS: Readonly<Record<string, () => string>> = {
   statistics: statisticsTable,
   keywords: keywordsTable,
   diagnostics: diagnosticsTable,
+  'query members': queryMembersTable,
 };
 
 export const BEGIN = (name: string) => `<!-- generated from parser/registry: ${name} (npm run gen) -->`;
