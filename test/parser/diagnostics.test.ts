@@ -218,6 +218,34 @@ describe('parser/check diagnostics', () => {
     expectAt(spec({ after: 'expect f.a.se.«x» below 1' }), 'unknown_target');
   });
 
+  it('new_sigma_needed, query_option, unknown_query_member (the new observation of a weighted fit, readings, backcalc, expect at)', () => {
+    const col = spec({ items: '  sigma sd' });
+    // a sigma of another column: its value at a new point is not on the curve, so the query must state it
+    const need = expectAt(col + '\n«predict f at x = 2, 8»', 'new_sigma_needed');
+    expect(need.message).toBe("the sigma of 'f' reads 'sd', not only the predictor 'x', so the sigma of a new observation cannot be read off the curve; state it after the values, e.g. `predict f at x = 2, 8 sigma S`");
+    expectAt(col + '\n«invert f at y = 2 readings 3»', 'new_sigma_needed');
+    expectAt(col + '\nexpect f.prediction.lower «at x = 5» above 0', 'new_sigma_needed');
+    expect(analyze(col + '\npredict f at x = 2, 8 sigma 0.04').diagnostics).toEqual([]);
+    expect(analyze(col + '\npredict f at x = 2, 8 sigma 0.04, 0.3').diagnostics).toEqual([]);
+    expect(analyze(col + '\nexpect f.prediction.lower at x = 5 sigma 0.1 above 0').diagnostics).toEqual([]);
+    // an expression of the predictor alone is read at the query point: nothing to state
+    expect(analyze(spec({ items: '  sigma 0.02 + 0.03 * x', after: 'predict f at x = 2\ninvert f at y = 1 readings 2' })).diagnostics).toEqual([]);
+    expect(analyze(spec({ items: '  weight 1 / x^2', after: 'predict f at x = 2' })).diagnostics).toEqual([]);
+    expect(expectAt(spec({ after: 'predict f at x = 2 «readings 3»' }), 'query_option').message).toMatch(/belongs to invert/);
+    expect(expectAt(spec({ after: 'invert f at y = 2 «readings 2.5»' }), 'query_option').message).toBe('readings must be a whole number of at least 1, not 2.5');
+    expectAt(spec({ after: 'invert f at y = 2 «readings 0»' }), 'query_option');
+    expect(expectAt(spec({ after: 'predict f at x = 2 «sigma 0.1»' }), 'query_option').message).toMatch(/has no sigma expression/);
+    expect(expectAt(spec({ items: '  weight 1 / x', after: 'predict f at x = 2 «sigma 0.1»' }), 'query_option').message).toMatch(/weighted by weight, so state the new observation's weight/);
+    expect(expectAt(col + '\npredict f at x = 1, 2, 3 «sigma 0.1, 0.2»', 'query_option').message).toBe('sigma needs one value, or one per query value (3), not 2');
+    expectAt(col + '\npredict f at x = 1 sigma 0.1 «sigma 0.2»', 'query_option');
+    expect(expectAt(col + '\npredict f at x = 1 sigma «-0.1»', 'not_positive').message).toBe('sigma must be greater than 0, not -0.1');
+    expectAt(spec({ model: 'y = a * x + b * z', items: '  param b', after: 'backcalc «f»' }), 'query_option');
+    expect(analyze(spec({ after: 'backcalc f' })).diagnostics).toEqual([]);
+    expect(expectAt(spec({ after: 'expect f.«prediction.low» at x = 5 above 0' }), 'unknown_query_member').suggestions).toContain('prediction.lower');
+    expect(analyze(spec({ after: 'expect f.inverse.upper at y = 2 readings 2 below 9' })).diagnostics).toEqual([]);
+    expectAt(spec({ after: 'expect f.inverse at «x» = 5 above 0' }), 'response_mismatch');
+  });
+
   it('predictor_mismatch and response_mismatch', () => {
     expect(expectAt(spec({ after: 'predict f at «z» = 1' }), 'predictor_mismatch').suggestions).toEqual(['x']);
     const two = spec({ model: 'y = a * x + b * z', items: '  param b' });

@@ -73,12 +73,47 @@ describe('stats/inverse inversePrediction', () => {
     expect(r.message).toContain('no predictor value');
   });
 
-  it('leaves an interval end open when the band reaches the data edge', () => {
+  it('follows an interval end beyond the data edge and marks it extrapolated (the lowest standard: once n/a)', () => {
     const r = inversePrediction(1.6, 0, 10, curve);
     expect(r.x).toBeCloseTo(0.05, 10);
+    // the same quadratic as above (Draper & Smith §3.2): its lower root lies below the data range
+    const y0 = 1.6;
+    const A = b * b - t * t * C[3];
+    const B = 2 * b * (a - y0) - 2 * t * t * C[1];
+    const K = (a - y0) ** 2 - t * t * (C[0] + s2);
+    const disc = Math.sqrt(B * B - 4 * A * K);
+    expect((-B - disc) / (2 * A)).toBeLessThan(0);
+    expect(r.interval[0]).toBeCloseTo((-B - disc) / (2 * A), 8);
+    expect(r.interval[1]).toBeCloseTo((-B + disc) / (2 * A), 8);
+    expect(r.ends).toEqual(['extrapolated', 'data']);
+    expect(r.message).toBe('the lower limit lies beyond the data range (the curve extrapolated)');
+  });
+
+  it('reads a response just beyond the data range off the curve, marked extrapolated; farther out it refuses', () => {
+    // f(−0.2) = 1.1: 2 % of the range [0, 10] below its lower end, inside the 10 % margin (engine/thresholds.ts INVERSE_REACH)
+    const r = inversePrediction(1.1, 0, 10, curve);
+    expect(r.x).toBeCloseTo(-0.2, 10);
+    expect(r.extrapolated).toBe(true);
+    expect(r.message).toContain('extrapolated: the curve reaches this response below the lowest predictor value of the data (0)');
+    // f(−2) = −2.5: 20 % beyond, refused as before
+    expect(inversePrediction(-2.5, 0, 10, curve).x).toBeNull();
+  });
+
+  it('says an end is open where the band still holds the response as far as it is followed, or the model ends', () => {
+    // a band far wider than the curve's rise over the range and its reach: open on both sides
+    const wide = inversePrediction(9, 0, 10, (xs) => bandsAt(xs, line, F, t, (v) => new Float64Array(v.length).fill(1e3)));
+    expect(wide.x).toBeCloseTo(3.75, 10);
+    expect(wide.interval).toEqual([null, null]);
+    expect(wide.ends).toEqual(['open', 'open']);
+    expect(wide.message).toMatch(/^open on both sides/);
+    // f = a + b·√x is not defined below 0: the lower end is open at the edge of the model's domain
+    const root: ModelAt = (xs) => ({ f: xs.map((x) => a + b * Math.sqrt(x)), gradient: new Float64Array(2 * xs.length) });
+    const r = inversePrediction(a + b * Math.sqrt(0.01), 0, 10, (xs) => bandsAt(xs, root, F, t, (v) => new Float64Array(v.length).fill(0.3)));
+    expect(r.x).toBeCloseTo(0.01, 9);
+    expect(r.ends?.[0]).toBe('open');
     expect(r.interval[0]).toBeNull();
     expect(r.interval[1]).not.toBeNull();
-    expect(r.message).toContain('open');
+    expect(r.message).toContain('one-sided: open below');
   });
 
   it('reports the smallest of several solutions', () => {
