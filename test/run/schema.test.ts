@@ -38,11 +38,13 @@ fit gone on missing {
   model y = c
   param c
 }
-predict a at x = 3
-invert a at y = 5
+predict a at x = 3 sigma 0.5
+invert a at y = 5 sigma 0.5 readings 2
+backcalc a
 compare a, b
 expect a.p1 within 0.5 .. 1
 expect grouped.r2 above 0.9
+expect a.prediction.upper at x = 3 sigma 0.5 below 100
 expect gone.n above 1`, dir, { headers: false });
     expect(result.fits.some((f) => f.stop.code === 'failed')).toBe(true);
     expect(result.errors.length).toBeGreaterThan(0);
