@@ -17,7 +17,7 @@ fit newton on bench {
   param tau  = 10 in [0.1, 1000] [min]
   sigma temp_sd
 }
-predict newton at time_min = 5, 10, 30
+predict newton at time_min = 5, 10, 30 sigma 0.5
 expect newton.tau within 11.5 .. 12.5
 expect newton.r2 above 0.99
 `;

@@ -18,6 +18,9 @@ import { analyze } from '../../parser/index';
 import { headerLookup } from '../../engine/data/header';
 import { runPlan } from '../../engine/runner/run-plan';
 import { queryTextLines } from '../../engine/front/views/text';
+import { markdownReport } from '../../engine/front/views/markdown';
+import { resultToJson } from '../../engine/run/json';
+import { buildPanelModel } from '../../extension/logic/panel-model';
 import type { QueryResult } from '../../engine/result';
 import { runSpec, tempDir, writeCsv } from './helpers';
 
@@ -244,5 +247,28 @@ describe('run/queries expectations on query limits', () => {
     expect(result.expectations[0].passed).toBe(false);
     expect(result.expectations[0].actual).toBeNull();
     expect(result.expectations[0].message).toMatch(/could not be computed/);
+  });
+});
+
+describe('run/queries in every view', () => {
+  it('puts the backcalc, readings and stated-σ tables in the Markdown report, the panel and the JSON alike', async () => {
+    const spec = `${DATA}\n${fit('cal', '  sigma sd')}\npredict cal at conc = 8 sigma 0.05\ninvert cal at signal = 0.51 readings 2 sigma 0.05\nbackcalc cal`;
+    const { result } = await runSpec(spec, dir);
+    const md = markdownReport(result);
+    expect(md).toContain('Back-calculated standards of cal');
+    expect(md).toContain('validated procedure');
+    expect(md).toContain('(mean of 2 readings)');
+    const panel = buildPanelModel(result, { specUri: 'file:///cal.lsq', specName: 'cal.lsq' });
+    const headings = panel.queries.map((b) => b.heading);
+    expect(headings).toEqual([
+      'Predictions from cal at conc',
+      'Inverse predictions from cal: conc from signal (mean of 2 readings)',
+      'Back-calculated standards of cal: conc from signal',
+    ]);
+    const back = panel.queries[2];
+    expect(back.rows).toHaveLength(24);
+    expect(back.rows.every((r) => r.length === back.headers.length)).toBe(true);
+    const json = JSON.parse(resultToJson(result)) as { queries: QueryResult[] };
+    expect(json.queries.map((q) => q.kind)).toEqual(['predict', 'invert', 'backcalc']);
   });
 });
