@@ -50,6 +50,7 @@ export function documentSymbols(a: EditorAnalysis): LsqSymbol[] {
         break;
       case 'predict':
       case 'invert':
+      case 'backcalc':
       case 'compare':
       case 'expect': {
         const first = a.text.slice(span.start, span.end).split(/\r?\n/)[0].trim();
