@@ -86,6 +86,16 @@ describe('run/queries weighted prediction', () => {
     });
   });
 
+  it('takes a stated relative weight as s²/W: W = w(x₀) gives the expression\'s interval (numpy/scipy, 12 digits)', async () => {
+    const { result } = await runSpec(`${DATA}\n${fit('cal', '  weight 1 / conc^2')}\npredict cal at conc = 0.5, 8 weight 4, 0.015625`, dir);
+    const q = query(result, 0);
+    if (q.kind !== 'predict') throw new Error('predict expected');
+    expect(q.observation).toBe('stated');
+    // the same numpy 2.4.6 / scipy 1.17.1 references as above: 1/0.5² = 4, 1/8² = 0.015625
+    close(q.predictions[0].prediction[0], 0.0079440549924514);
+    close(q.predictions[1].prediction[1], 0.23104588480180588);
+  });
+
   it('uses the σ the query states for a sigma column (numpy/scipy, 12 digits)', async () => {
     const { result } = await runSpec(`${DATA}\n${fit('cal', '  sigma sd')}\npredict cal at conc = 8 sigma 0.05`, dir);
     const q = query(result, 0);
