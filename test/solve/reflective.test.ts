@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { reflectiveTrustRegion } from '../../engine/solve/reflective';
+import { reflectiveTrustRegion, STREAMED_MIN_ROWS } from '../../engine/solve/reflective';
 import { levenbergMarquardt } from '../../engine/solve/lm';
 import { solveNonlinear, boundsMethodFor } from '../../engine/solve/nonlinear';
 import { colemanLiScaling, makeStrictlyFeasible } from '../../engine/solve/bounds';
@@ -131,5 +131,36 @@ describe('engine/solve/reflective reflectiveTrustRegion', () => {
     // projection holds b exactly on the bound; the reflective method stays strictly inside
     expect(solveNonlinear(bounded, Float64Array.from([1, 2]), { bounds: 'projection' }).theta[1]).toBe(0.5);
     expect(solveNonlinear(bounded, Float64Array.from([1, 2])).theta[1]).toBeLessThan(0.5);
+  });
+});
+
+describe('engine/solve/reflective on tall problems (the streamed factor, n ≥ STREAMED_MIN_ROWS)', () => {
+  const n = 3 * STREAMED_MIN_ROWS + 5;
+  const dose = Array.from({ length: n }, (_, i) => 0.001 * 10 ** ((5 * i) / (n - 1)));
+
+  it('reaches the minimum Levenberg–Marquardt (pivoted QR of J itself) finds when no bound is active', () => {
+    const y = dose.map((d, i) => 2 + 96 / (1 + Math.pow(d / 0.7, 1.3)) + noise(i));
+    const formula = 'bot + (top - bot)/(1 + (x/ec)^h)';
+    const names = ['bot', 'top', 'ec', 'h'];
+    const start = Float64Array.from([0, 100, 1, 1]);
+    const bounded = reflectiveTrustRegion(fitProblem(formula, names, dose, y, { lower: [-Infinity, -Infinity, 0, 0], upper: [Infinity, Infinity, Infinity, Infinity] }), start);
+    const free = levenbergMarquardt(fitProblem(formula, names, dose, y), start);
+    expect(bounded.stop.converged).toBe(true);
+    expect(free.stop.converged).toBe(true);
+    for (let j = 0; j < 4; j++) expect(Math.abs(bounded.theta[j] - free.theta[j])).toBeLessThan(1e-9 * Math.abs(free.theta[j]));
+    expect(Math.abs(bounded.cost - free.cost)).toBeLessThan(1e-12 * free.cost);
+  });
+
+  it('an upper bound below the optimum: converges to it from inside, with the bound-constrained a', () => {
+    const x = dose.map((d) => d * 0.08);
+    const y = x.map((v, i) => 5 * Math.exp(-0.8 * v) + 1e-3 * noise(i));
+    const out = reflectiveTrustRegion(fitProblem('a*exp(-b*x)', ['a', 'b'], x, y, { lower: [-Infinity, 0], upper: [Infinity, 0.5] }), Float64Array.from([1, 0.2]));
+    expect(out.stop.converged).toBe(true);
+    expect(0.5 - out.theta[1]).toBeGreaterThan(0);
+    expect(0.5 - out.theta[1]).toBeLessThan(1e-8);
+    // with b at its bound the best a is the linear least-squares one (the normal equation of one unknown)
+    const e = x.map((v) => Math.exp(-0.5 * v));
+    const aStar = e.reduce((s, v, i) => s + v * y[i], 0) / e.reduce((s, v) => s + v * v, 0);
+    expect(out.theta[0]).toBeCloseTo(aStar, 6);
   });
 });
