@@ -34,6 +34,19 @@ import { norm2 } from './norm';
 /** Rows per block: 256 rows × (p + 1) columns stay in the first-level cache for p up to about 15. */
 export const BLOCK_ROWS = 256;
 
+/**
+ * From this many rows on, the trust-region solvers (`solve/reflective.ts`,
+ * `solve/lm.ts` without bounds) take each iteration's R, P and Qᵀr
+ * from `StreamedQR` (one pass over the rows, no m×p copy, no Q; the same R
+ * and P in exact arithmetic, the same backward error bound) instead of the
+ * pivoted QR of J itself. Measured on a 1e6×4 Jacobian in process
+ * (2026-12-03, 2 shared cores): 97–135 ms per factorisation with Qᵀr before,
+ * 48–66 ms after (the 4-parameter logistic of benchmark 14 factors 6 times). Below it the copy is cheap and small fits
+ * (per-group wells, every NIST StRD nonlinear problem: n ≤ 250) keep the
+ * factorisation of J, bit for bit.
+ */
+export const STREAMED_MIN_ROWS = 1024;
+
 /** 2^e for integer e in [−1022, 1023], exactly. */
 function powerOfTwo(e: number): number {
   return Math.pow(2, Math.max(-1022, Math.min(1023, e)));

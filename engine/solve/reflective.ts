@@ -85,7 +85,7 @@ import type { LeastSquaresProblem } from './problem';
 import { type SolveOptions, type SolveOutcome, type NonFiniteReport, allFinite, nonFiniteReport } from './types';
 import type { StopCode } from '../result';
 import { PivotedQR } from '../linalg/qr';
-import { StreamedQR } from '../linalg/streamed-qr';
+import { StreamedQR, STREAMED_MIN_ROWS } from '../linalg/streamed-qr';
 import { copyR } from '../linalg/damped';
 import { norm2, EPSILON } from '../linalg/norm';
 import { LMParameter } from './lm-parameter';
@@ -103,17 +103,6 @@ const STEP_FACTOR = 1;
 const ACCEPT_RATIO = 1e-4;
 /** Smallest step-back factor θ_b (module comment, step 4). */
 export const STEP_BACK = 0.995;
-/**
- * Streamed factor: from this many rows on, each iteration takes R, P and Qᵀr
- * from `StreamedQR` (one pass over the rows, no m×p copy, no Q; the same R
- * and P in exact arithmetic, the same backward error bound) instead of the
- * pivoted QR of J itself. Measured on the 1e6-point 4-parameter logistic of
- * benchmark 14 (2026-12-03): 6 factorisations with Qᵀr took about 0.6 s
- * before and 0.2 s after. Below it the copy is cheap and small fits
- * (per-group wells, every NIST StRD nonlinear problem: n ≤ 250) keep the
- * factorisation of J, bit for bit.
- */
-export const STREAMED_MIN_ROWS = 1024;
 
 /** Floor of a bound distance |vⱼ| in the scaling (the smallest normal double). */
 const MIN_DISTANCE = 2.2250738585072014e-308;
@@ -172,7 +161,7 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
   if (p === 0) return finish('small_gradient', stopText.noFreeParameters, true);
   let fnorm = norm2(r);
 
-  // Tall problems: R, P and Qᵀr in one pass over the rows (`streamed-qr.ts`, module comment "Streamed factor").
+  // Tall problems: R, P and Qᵀr in one pass over the rows (`streamed-qr.ts`, STREAMED_MIN_ROWS).
   const streamed = n >= STREAMED_MIN_ROWS ? new StreamedQR(p) : null;
   const qrf = streamed ? null : new PivotedQR(n, p);
   qr = qrf;
