@@ -123,5 +123,7 @@ export function solveLinear(problem: LeastSquaresProblem, options: LinearOptions
     evaluations: 2,
     jacobianEvaluations: 1,
     rank: qr.rank,
+    // the factorisation of `jac` itself, with the default rank tolerance only (SolveOutcome.factor)
+    ...(options.rankTolerance === undefined ? { factor: qr } : {}),
   };
 }

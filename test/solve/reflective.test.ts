@@ -1,6 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import { reflectiveTrustRegion } from '../../engine/solve/reflective';
 import { STREAMED_MIN_ROWS } from '../../engine/linalg/streamed-qr';
+import { PivotedQR } from '../../engine/linalg/qr';
 import { levenbergMarquardt } from '../../engine/solve/lm';
 import { solveNonlinear, boundsMethodFor } from '../../engine/solve/nonlinear';
 import { colemanLiScaling, makeStrictlyFeasible } from '../../engine/solve/bounds';
@@ -150,6 +151,14 @@ describe('engine/solve/reflective on tall problems (the streamed factor, n ≥ S
     expect(free.stop.converged).toBe(true);
     for (let j = 0; j < 4; j++) expect(Math.abs(bounded.theta[j] - free.theta[j])).toBeLessThan(1e-9 * Math.abs(free.theta[j]));
     expect(Math.abs(bounded.cost - free.cost)).toBeLessThan(1e-12 * free.cost);
+    // the polish's last factorisation is handed on only when it is of the returned Jacobian: refactoring gives the same bits
+    for (const out of [bounded, free]) {
+      if (!out.factor) continue;
+      const again = new PivotedQR(n, 4).factor(out.jacobian, n, 4, { pivot: true, scale: true });
+      expect(Array.from(out.factor.rdiag)).toEqual(Array.from(again.rdiag));
+      expect(Array.from(out.factor.perm)).toEqual(Array.from(again.perm));
+    }
+    expect(bounded.factor ?? free.factor).toBeDefined();
     // first-order condition from r and J themselves (no factorisation): |Jⱼᵀr| ≤ 1e-8·‖Jⱼ‖·‖r‖
     const { residuals: r, jacobian: jac } = free;
     const rn = Math.hypot(...r);
