@@ -53,6 +53,9 @@ export class PivotedQR {
   rank = 0;
   /** The tolerance used for `rank`. */
   tolerance = 0;
+  /** The options of the last `factor` call (so a factorisation handed on can be checked to be the one wanted). */
+  pivoted = false;
+  scaled = false;
   private readonly work: Float64Array;
 
   constructor(readonly maxRows: number, readonly maxCols: number) {
@@ -70,6 +73,8 @@ export class PivotedQR {
     const { pivot = true, scale = false } = options;
     this.m = m;
     this.n = n;
+    this.pivoted = pivot;
+    this.scaled = scale;
     const a = this.a;
     a.set(src.subarray(0, m * n));
     const rd = this.rdiag;

@@ -97,7 +97,8 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
     jcov = jac.map((v, k) => v * Math.sqrt(rw[k % n]));
     rcov = r.map((v, i) => v * Math.sqrt(rw[i]));
   }
-  const cov = unscaledCovariance(jcov, n, p);
+  // the solver's own factorisation of this very Jacobian, when it has one (SolveOutcome.factor): not factored twice
+  const cov = unscaledCovariance(jcov, n, p, !rw && jcov === outcome.jacobian && outcome.factor ? { factor: outcome.factor } : {});
   const c = input.responseScale ?? 1;
   const goodness = goodnessOfFit({ residuals: r, y: data.y, weights: data.weights, p, sigmaAbsolute: data.sigmaAbsolute, condition: cov.condition, scale: c });
   // s/c from the scaled residuals, in range whatever the units (robust covariance: of the last reweighted step)

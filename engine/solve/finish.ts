@@ -12,6 +12,7 @@ import { polishGaussNewton, type PolishWorkspace } from './polish';
 import { stopReason, type NonFiniteReport, type SolveOutcome } from './types';
 import { stopText } from './messages';
 import type { TraceRecorder } from './trace';
+import type { PivotedQR } from '../linalg/qr';
 
 export interface FinishState {
   problem: LeastSquaresProblem;
@@ -49,8 +50,10 @@ export function finishSolve(code: StopCode, message: string, s: FinishState): So
     stop.converged = false;
     stop.message += stopText.noStepAccepted;
   }
+  let factor: PivotedQR | null = null;
   if (stop.converged && s.polish) {
     const c = polishGaussNewton(problem, { x, r, jac }, 30, s.workspace, s.strictInterior);
+    factor = c.factor;
     nfev += c.evaluations;
     njev += c.jacobianEvaluations;
     if (c.steps > 0) stop.message += stopText.polished(c.steps);
@@ -59,6 +62,7 @@ export function finishSolve(code: StopCode, message: string, s: FinishState): So
   for (let i = 0; i < n; i++) ss += r[i] * r[i];
   return {
     theta: x, residuals: r, jacobian: jac, cost: 0.5 * ss, stop, iterations: s.iterations, evaluations: nfev, jacobianEvaluations: njev,
+    ...(factor ? { factor } : {}),
     ...(s.recorder ? { trace: s.recorder.result() } : {}),
     ...(code === 'non_finite' && s.nonFinite ? { nonFinite: s.nonFinite } : {}),
   };

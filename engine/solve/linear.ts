@@ -99,14 +99,19 @@ export function solveLinear(problem: LeastSquaresProblem, options: LinearOptions
   for (let j = 0; j < p; j++) theta[j] = theta0[j] + delta[j];
   // Final residuals: from the double-double evaluation when available (the
   // double evaluation of e.g. a degree-10 polynomial cancels ~5 digits).
-  const residuals = new Float64Array(n);
-  problem.residuals(theta, residuals);
-  if (problem.residualsExtended && allFinite(residuals)) {
+  // The double-double pass comes first: when it is finite the double one is not needed (its
+  // only use was to decide whether to try the double-double one; the high part lies within
+  // rounding of the double value, so the two are finite together).
+  let residuals = new Float64Array(n);
+  let extended = false;
+  if (problem.residualsExtended) {
     const lo = new Float64Array(n);
-    const hi = new Float64Array(n);
-    problem.residualsExtended(theta, hi, lo);
-    if (allFinite(hi)) for (let i = 0; i < n; i++) residuals[i] = hi[i] + lo[i];
+    problem.residualsExtended(theta, residuals, lo);
+    extended = allFinite(residuals);
+    if (extended) for (let i = 0; i < n; i++) residuals[i] += lo[i];
+    else residuals = new Float64Array(n);
   }
+  if (!extended) problem.residuals(theta, residuals);
   const rankNote = qr.rank < p ? stopText.linearRankNote(qr.rank, p, qr.tolerance) : '';
   return {
     theta,
@@ -118,5 +123,7 @@ export function solveLinear(problem: LeastSquaresProblem, options: LinearOptions
     evaluations: 2,
     jacobianEvaluations: 1,
     rank: qr.rank,
+    // the factorisation of `jac` itself, with the default rank tolerance only (SolveOutcome.factor)
+    ...(options.rankTolerance === undefined ? { factor: qr } : {}),
   };
 }

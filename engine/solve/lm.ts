@@ -49,6 +49,7 @@ import type { LeastSquaresProblem } from './problem';
 import { type SolveOptions, type SolveOutcome, type NonFiniteReport, allFinite, nonFiniteReport } from './types';
 import type { StopCode } from '../result';
 import { PivotedQR } from '../linalg/qr';
+import { StreamedQR, STREAMED_MIN_ROWS } from '../linalg/streamed-qr';
 import { copyR } from '../linalg/damped';
 import { norm2, EPSILON } from '../linalg/norm';
 import { LMParameter } from './lm-parameter';
@@ -102,8 +103,6 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
   if (p === 0) return finish('small_gradient', stopText.noFreeParameters, true);
   let fnorm = norm2(r);
 
-  const qrf = new PivotedQR(n, p);
-  qr = qrf;
   /** Free columns of J when some parameters are held at bounds: allocated on first need only (n×p). */
   let jf: Float64Array | null = null;
   const rq = new Float64Array(p * p);
@@ -117,6 +116,12 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
   const blocked = new Uint8Array(p);
   const lmpar = new LMParameter(p);
   const bounded = lower !== undefined || upper !== undefined;
+  // Tall unbounded problems: R, P and Qᵀr in one pass over the rows (`streamed-qr.ts` STREAMED_MIN_ROWS; a held parameter needs the factor of J's free columns).
+  const streamed = !bounded && n >= STREAMED_MIN_ROWS ? new StreamedQR(p) : null;
+  const qrf = streamed ? null : new PivotedQR(n, p);
+  qr = qrf;
+  /** The factorisation whose R and permutation the step uses (that of R itself when streamed). */
+  const fac = streamed ? streamed.small : qrf!;
   const watch = new StagnationWatch(p, { ...LM_STAGNATION, costTolerance: Math.max(LM_STAGNATION.costTolerance, ftol) });
 
   let par = 0;
@@ -164,7 +169,8 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
     const q = bounded ? freeSet(x, grad, lower, upper, blocked, free) : p;
     if (!bounded) for (let j = 0; j < p; j++) free[j] = j;
     if (q === 0) return finish('small_gradient', stopText.allAtBounds, true);
-    if (q === p) qrf.factor(jac, n, p, { pivot: true });
+    if (streamed) streamed.factor(jac, r, n);
+    else if (q === p) qrf!.factor(jac, n, p, { pivot: true });
     else {
       jf ??= new Float64Array(n * p);
       for (let k = 0; k < q; k++) {
@@ -172,7 +178,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
         const to = k * n;
         for (let i = 0; i < n; i++) jf[to + i] = jac[from + i];
       }
-      qrf.factor(jf, n, q, { pivot: true });
+      qrf!.factor(jf, n, q, { pivot: true });
     }
 
     if (!initialised) {
@@ -186,16 +192,20 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
       xnorm = Math.sqrt(s);
       delta = STEP_FACTOR * xnorm || STEP_FACTOR;
     }
-    wa.set(r);
-    qrf.applyQt(wa);
-    qtf.fill(0);
-    for (let k = 0; k < Math.min(n, q); k++) qtf[k] = wa[k];
-    copyR(qrf, rq);
+    if (streamed) qtf.set(streamed.qtr);
+    else {
+      wa.set(r);
+      qrf!.applyQt(wa);
+      qtf.fill(0);
+      for (let k = 0; k < Math.min(n, q); k++) qtf[k] = wa[k];
+    }
+    copyR(fac, rq);
+    const norms = streamed ? streamed.norms : qrf!.norms;
     // Scaled gradient norm: max_k |(Rᵀ Qᵀr)_k| / (‖J_k‖·‖r‖).
     let gnorm = 0;
     if (fnorm !== 0) {
       for (let k = 0; k < q; k++) {
-        const cn = qrf.norms[qrf.perm[k]];
+        const cn = norms[fac.perm[k]];
         if (cn === 0) continue;
         let s = 0;
         for (let i = 0; i <= k; i++) s += rq[i + k * q] * (qtf[i] / fnorm);
@@ -204,12 +214,12 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
     }
     if (gnorm <= gtol) return finish('small_gradient', stopText.smallGradient(gnorm, gtol), jacAtX);
     // Column norms: the factorisation computed them (same norm2 on the same numbers) when every column is free.
-    for (let j = 0; j < p; j++) diag[j] = Math.max(diag[j], q === p ? qrf.norms[j] : norm2(jac, j * n, n));
+    for (let j = 0; j < p; j++) diag[j] = Math.max(diag[j], q === p ? norms[j] : norm2(jac, j * n, n));
     for (let k = 0; k < q; k++) dF[k] = diag[free[k]];
 
     // Inner loop: trial steps until one is accepted.
     for (;;) {
-      par = lmpar.compute(q, rq, qrf.perm, dF, qtf, delta, par, xF);
+      par = lmpar.compute(q, rq, fac.perm, dF, qtf, delta, par, xF);
       xt.set(x);
       for (let k = 0; k < q; k++) xt[free[k]] -= xF[k];
       const clipped = bounded && project(xt, lower, upper);
@@ -257,7 +267,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
         let s1 = 0;
         for (let j = 0; j < q; j++) {
           let s = 0;
-          for (let i = j; i < q; i++) s += rq[j + i * q] * xF[qrf.perm[i]];
+          for (let i = j; i < q; i++) s += rq[j + i * q] * xF[fac.perm[i]];
           s1 += s * s;
         }
         const t1 = Math.sqrt(s1) / fnorm;

@@ -48,6 +48,8 @@ export interface PolishCount {
   steps: number;
   evaluations: number;
   jacobianEvaluations: number;
+  /** The last factorisation when it is of J at the returned x (see SolveOutcome.factor), else null. */
+  factor: PivotedQR | null;
 }
 
 /** Gauss–Newton step at (r, J) into `delta`; returns its scaled norm and ‖θ‖_D in `norms`, or false if rank deficient. */
@@ -80,7 +82,7 @@ export interface PolishWorkspace {
 /** `strictInterior`: trial points must lie strictly inside the bounds (the interior reflective method), not merely inside. */
 export function polishGaussNewton(problem: LeastSquaresProblem, s: PolishState, maxSteps = 30, work?: PolishWorkspace, strictInterior = false): PolishCount {
   const { n, p, lower, upper } = problem;
-  const count: PolishCount = { steps: 0, evaluations: 0, jacobianEvaluations: 0 };
+  const count: PolishCount = { steps: 0, evaluations: 0, jacobianEvaluations: 0, factor: null };
   if (n === 0 || p === 0 || n < p) return count;
   const fits = work !== undefined && work.qr.maxRows >= n && work.qr.maxCols >= p && work.b.length >= n && work.rt.length >= n;
   const qr = fits ? work.qr : new PivotedQR(n, p);
@@ -96,6 +98,8 @@ export function polishGaussNewton(problem: LeastSquaresProblem, s: PolishState, 
   const w = new Float64Array(p);
   const rw = refineWorkspace(n);
   let cur = gaussNewtonStep(qr, n, p, s.x, s.r, s.jac, b, delta, w, rw);
+  /** `qr` holds the factorisation of J(s.x) (not of a trial's Jacobian). */
+  let factorAtX = true;
   let ss = 0;
   for (let i = 0; i < n; i++) ss += s.r[i] * s.r[i];
   for (let step = 0; step < maxSteps && cur; step++) {
@@ -118,7 +122,9 @@ export function polishGaussNewton(problem: LeastSquaresProblem, s: PolishState, 
     jacAtX = false;
     if (!allFinite(jt)) break;
     const next = gaussNewtonStep(qr, n, p, xt, rt, jt, b, deltaT, w, rw);
+    factorAtX = false;
     if (!next || !(next[0] <= CONTRACTION * cur[0])) break;
+    factorAtX = true;
     s.x.set(xt);
     s.r.set(rt);
     jacAtX = true;
@@ -131,5 +137,6 @@ export function polishGaussNewton(problem: LeastSquaresProblem, s: PolishState, 
     problem.jacobian(s.x, s.jac);
     count.jacobianEvaluations++;
   }
+  if (factorAtX) count.factor = qr;
   return count;
 }

@@ -85,6 +85,7 @@ import type { LeastSquaresProblem } from './problem';
 import { type SolveOptions, type SolveOutcome, type NonFiniteReport, allFinite, nonFiniteReport } from './types';
 import type { StopCode } from '../result';
 import { PivotedQR } from '../linalg/qr';
+import { StreamedQR, STREAMED_MIN_ROWS } from '../linalg/streamed-qr';
 import { copyR } from '../linalg/damped';
 import { norm2, EPSILON } from '../linalg/norm';
 import { LMParameter } from './lm-parameter';
@@ -102,6 +103,7 @@ const STEP_FACTOR = 1;
 const ACCEPT_RATIO = 1e-4;
 /** Smallest step-back factor θ_b (module comment, step 4). */
 export const STEP_BACK = 0.995;
+
 /** Floor of a bound distance |vⱼ| in the scaling (the smallest normal double). */
 const MIN_DISTANCE = 2.2250738585072014e-308;
 
@@ -159,8 +161,12 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
   if (p === 0) return finish('small_gradient', stopText.noFreeParameters, true);
   let fnorm = norm2(r);
 
-  const qrf = new PivotedQR(n, p);
+  // Tall problems: R, P and Qᵀr in one pass over the rows (`streamed-qr.ts`, STREAMED_MIN_ROWS).
+  const streamed = n >= STREAMED_MIN_ROWS ? new StreamedQR(p) : null;
+  const qrf = streamed ? null : new PivotedQR(n, p);
   qr = qrf;
+  /** The factorisation whose R and permutation the step uses (that of R itself when streamed). */
+  const fac = streamed ? streamed.small : qrf!;
   const small = new PivotedQR(2 * p, p);
   const stack = new Float64Array(2 * p * p);
   const stackRhs = new Float64Array(2 * p);
@@ -179,7 +185,7 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
   const xt = new Float64Array(p);
   const lmpar = new LMParameter(p);
   const work = new StepWork(p);
-  const model: StepModel = { p, r: rj, perm: qrf.perm, g, c, d: dscale };
+  const model: StepModel = { p, r: rj, perm: fac.perm, g, c, d: dscale };
   const watch = new StagnationWatch(p, { ...LM_STAGNATION, costTolerance: Math.max(LM_STAGNATION.costTolerance, ftol) });
   let par = 0;
   let delta = 0;
@@ -200,17 +206,19 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
       g[j] = s;
     }
     colemanLiScaling(x, g, lower, upper, v, toward);
-    qrf.factor(jac, n, p, { pivot: true });
+    if (streamed) streamed.factor(jac, r, n);
+    else qrf!.factor(jac, n, p, { pivot: true });
+    const norms = streamed ? streamed.norms : qrf!.norms;
     if (!initialised) {
       initialised = true;
-      for (let j = 0; j < p; j++) sigma[j] = qrf.norms[j] === 0 ? 1 : qrf.norms[j];
+      for (let j = 0; j < p; j++) sigma[j] = norms[j] === 0 ? 1 : norms[j];
     }
-    for (let j = 0; j < p; j++) sigma[j] = Math.max(sigma[j], qrf.norms[j]);
+    for (let j = 0; j < p; j++) sigma[j] = Math.max(sigma[j], norms[j]);
     // scaled gradient measure γ (stop test and step-back factor)
     let gamma = 0;
     if (fnorm !== 0) {
       for (let j = 0; j < p; j++) {
-        const cn = qrf.norms[j];
+        const cn = norms[j];
         if (cn === 0) continue;
         let gj = Math.abs(g[j]) / (cn * fnorm);
         if (toward[j]) gj *= Math.min(1, (cn * v[j]) / fnorm);
@@ -229,17 +237,20 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
       if (c[j] > 0) anyC = true;
       dscale[j] = toward[j] ? sigma[j] / Math.sqrt(vj) : sigma[j];
     }
-    wa.set(r);
-    qrf.applyQt(wa);
-    qtf.fill(0);
-    for (let k = 0; k < Math.min(n, p); k++) qtf[k] = wa[k];
-    copyR(qrf, rj);
-    let perm2 = qrf.perm;
+    if (streamed) qtf.set(streamed.qtr);
+    else {
+      wa.set(r);
+      qrf!.applyQt(wa);
+      qtf.fill(0);
+      for (let k = 0; k < Math.min(n, p); k++) qtf[k] = wa[k];
+    }
+    copyR(fac, rj);
+    let perm2 = fac.perm;
     if (anyC) {
       // [R·Pᵀ; diag(√c)] (2p×p, original column order), refactored; right-hand side [Qᵀr; 0]
       stack.fill(0);
       for (let k = 0; k < p; k++) {
-        const col = qrf.perm[k];
+        const col = fac.perm[k];
         for (let i = 0; i <= k; i++) stack[i + col * 2 * p] = rj[i + k * p];
       }
       for (let j = 0; j < p; j++) stack[p + j + j * 2 * p] = Math.sqrt(c[j]);

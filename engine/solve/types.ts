@@ -7,6 +7,7 @@
 import type { StopReason, StopCode } from '../result';
 import type { SolverTrace } from './trace';
 import type { CancelToken } from './problem';
+import type { PivotedQR } from '../linalg/qr';
 import { DIGITS, formatWritten } from '../format';
 
 /** How bound-constrained nonlinear problems are solved (`index.ts` `solveNonlinear`). */
@@ -62,6 +63,14 @@ export interface SolveOutcome {
   jacobianEvaluations: number;
   /** Numerical rank of the Jacobian at theta, when the solver determined it. */
   rank?: number;
+  /**
+   * The pivoted, column-scaled QR (`{ pivot: true, scale: true }`, default rank
+   * tolerance) of `jacobian` exactly as returned, when the solver's last
+   * factorisation was of that matrix: the statistics use it instead of
+   * factoring the same numbers again (the same deterministic arithmetic, so
+   * the same bits). Absent when the solver has none.
+   */
+  factor?: PivotedQR;
   /** Robust fits: final IRLS weights ρ′(rᵢ²/c²) per residual. */
   robustWeights?: Float64Array;
   /** Robust fits: the loss scale c the weights were computed with (given, or from the residuals' spread; engine/solve/loss.ts). */

@@ -17,7 +17,7 @@
  * deficient or n < p.
  */
 import { Matrix, SingularValueDecomposition } from 'ml-matrix';
-import { PivotedQR } from '../linalg/qr';
+import { PivotedQR, defaultRankTolerance } from '../linalg/qr';
 import { inverseGram } from '../linalg/triangular';
 
 export interface CovarianceResult {
@@ -48,6 +48,12 @@ export interface CovarianceResult {
 export interface CovarianceOptions {
   /** Relative rank tolerance τ on |R_kk|/|R_00|. Default 10·max(n, p)·ε. */
   rankTolerance?: number;
+  /**
+   * A pivoted, column-scaled QR of exactly this Jacobian already computed (a
+   * solver's, SolveOutcome.factor): used instead of factoring again when its
+   * size, options and rank tolerance are those asked for. Default none.
+   */
+  factor?: PivotedQR;
 }
 
 export function unscaledCovariance(jacobian: Float64Array, n: number, p: number, options: CovarianceOptions = {}): CovarianceResult {
@@ -62,7 +68,11 @@ export function unscaledCovariance(jacobian: Float64Array, n: number, p: number,
       dependent: Array.from({ length: p }, (_, j) => j), condition: Infinity, tolerance: NaN, factor: null,
     };
   }
-  const qr = new PivotedQR(n, p).factor(jacobian, n, p, { pivot: true, scale: true, rankTolerance: options.rankTolerance });
+  const given = options.factor;
+  const tau = options.rankTolerance ?? defaultRankTolerance(n, p);
+  const qr = given && given.m === n && given.n === p && given.pivoted && given.scaled && given.tolerance === tau
+    ? given
+    : new PivotedQR(n, p).factor(jacobian, n, p, { pivot: true, scale: true, rankTolerance: options.rankTolerance });
   const unscaled = inverseGram(qr);
   const core = inverseGram(qr, qr.rank, false);
   const dependent: number[] = [];

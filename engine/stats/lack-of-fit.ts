@@ -23,6 +23,12 @@
  */
 import type { LackOfFitTest } from '../result';
 import { fUpper } from './distributions';
+import { radixOrder } from './radix-order';
+
+function allFinite(col: ArrayLike<number>, n: number): boolean {
+  for (let i = 0; i < n; i++) if (!Number.isFinite(col[i])) return false;
+  return true;
+}
 
 /**
  * Pure error at rounding level: SS_PE ≤ this·SSR counts as zero (replicates that agree to the last digits;
@@ -89,7 +95,11 @@ export function settings(columns: readonly ArrayLike<number>[], n: number): { gr
   for (let i = 0; i < n; i++) order[i] = i;
   let sorted = true;
   for (let i = 1; i < n && sorted; i++) sorted = compare(i - 1, i) <= 0;
-  if (!sorted) order.sort(compare);
+  // finite settings (the usual case): the same order in linear time (radix-order.ts); equal rows share a setting whatever their order
+  if (!sorted) {
+    if (columns.every((col) => allFinite(col, n))) order.set(radixOrder(columns, n));
+    else order.sort(compare);
+  }
   const groupOf = new Int32Array(n);
   let m = 0;
   for (let k = 0; k < n; k++) {

@@ -1,5 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import { reflectiveTrustRegion } from '../../engine/solve/reflective';
+import { STREAMED_MIN_ROWS } from '../../engine/linalg/streamed-qr';
+import { PivotedQR } from '../../engine/linalg/qr';
 import { levenbergMarquardt } from '../../engine/solve/lm';
 import { solveNonlinear, boundsMethodFor } from '../../engine/solve/nonlinear';
 import { colemanLiScaling, makeStrictlyFeasible } from '../../engine/solve/bounds';
@@ -131,5 +133,56 @@ describe('engine/solve/reflective reflectiveTrustRegion', () => {
     // projection holds b exactly on the bound; the reflective method stays strictly inside
     expect(solveNonlinear(bounded, Float64Array.from([1, 2]), { bounds: 'projection' }).theta[1]).toBe(0.5);
     expect(solveNonlinear(bounded, Float64Array.from([1, 2])).theta[1]).toBeLessThan(0.5);
+  });
+});
+
+describe('engine/solve/reflective on tall problems (the streamed factor, n ≥ STREAMED_MIN_ROWS)', () => {
+  const n = 3 * STREAMED_MIN_ROWS + 5;
+  const dose = Array.from({ length: n }, (_, i) => 0.001 * 10 ** ((5 * i) / (n - 1)));
+
+  it('reflective and Levenberg–Marquardt reach the same stationary point when no bound is active (Jᵀr ≈ 0 checked directly)', () => {
+    const y = dose.map((d, i) => 2 + 96 / (1 + Math.pow(d / 0.7, 1.3)) + noise(i));
+    const formula = 'bot + (top - bot)/(1 + (x/ec)^h)';
+    const names = ['bot', 'top', 'ec', 'h'];
+    const start = Float64Array.from([0, 100, 1, 1]);
+    const bounded = reflectiveTrustRegion(fitProblem(formula, names, dose, y, { lower: [-Infinity, -Infinity, 0, 0], upper: [Infinity, Infinity, Infinity, Infinity] }), start);
+    const free = levenbergMarquardt(fitProblem(formula, names, dose, y), start);
+    expect(bounded.stop.converged).toBe(true);
+    expect(free.stop.converged).toBe(true);
+    for (let j = 0; j < 4; j++) expect(Math.abs(bounded.theta[j] - free.theta[j])).toBeLessThan(1e-9 * Math.abs(free.theta[j]));
+    expect(Math.abs(bounded.cost - free.cost)).toBeLessThan(1e-12 * free.cost);
+    // the polish's last factorisation is handed on only when it is of the returned Jacobian: refactoring gives the same bits
+    for (const out of [bounded, free]) {
+      if (!out.factor) continue;
+      const again = new PivotedQR(n, 4).factor(out.jacobian, n, 4, { pivot: true, scale: true });
+      expect(Array.from(out.factor.rdiag)).toEqual(Array.from(again.rdiag));
+      expect(Array.from(out.factor.perm)).toEqual(Array.from(again.perm));
+    }
+    expect(bounded.factor ?? free.factor).toBeDefined();
+    // first-order condition from r and J themselves (no factorisation): |Jⱼᵀr| ≤ 1e-8·‖Jⱼ‖·‖r‖
+    const { residuals: r, jacobian: jac } = free;
+    const rn = Math.hypot(...r);
+    for (let j = 0; j < 4; j++) {
+      let g = 0;
+      let c = 0;
+      for (let i = 0; i < n; i++) {
+        g += jac[j * n + i] * r[i];
+        c += jac[j * n + i] ** 2;
+      }
+      expect(Math.abs(g)).toBeLessThan(1e-8 * Math.sqrt(c) * rn);
+    }
+  });
+
+  it('an upper bound below the optimum: converges to it from inside, with the bound-constrained a', () => {
+    const x = dose.map((d) => d * 0.08);
+    const y = x.map((v, i) => 5 * Math.exp(-0.8 * v) + 1e-3 * noise(i));
+    const out = reflectiveTrustRegion(fitProblem('a*exp(-b*x)', ['a', 'b'], x, y, { lower: [-Infinity, 0], upper: [Infinity, 0.5] }), Float64Array.from([1, 0.2]));
+    expect(out.stop.converged).toBe(true);
+    expect(0.5 - out.theta[1]).toBeGreaterThan(0);
+    expect(0.5 - out.theta[1]).toBeLessThan(1e-8);
+    // with b at its bound the best a is the linear least-squares one (the normal equation of one unknown)
+    const e = x.map((v) => Math.exp(-0.5 * v));
+    const aStar = e.reduce((s, v, i) => s + v * y[i], 0) / e.reduce((s, v) => s + v * v, 0);
+    expect(out.theta[0]).toBeCloseTo(aStar, 6);
   });
 });

@@ -61,3 +61,35 @@ describe('engine/stats/covariance unscaledCovariance', () => {
     expect(none.rankDeficient).toBe(false);
   });
 });
+
+describe('engine/stats/covariance with a factorisation handed on (SolveOutcome.factor)', () => {
+  const next = rng(99);
+
+  it('uses a pivoted, column-scaled QR of the same Jacobian and gives the same bits as factoring again', async () => {
+    const { PivotedQR } = await import('../../engine/linalg/qr');
+    const n = 50;
+    const p = 4;
+    const jac = randomMatrix(n, p, next);
+    const qr = new PivotedQR(n, p).factor(jac, n, p, { pivot: true, scale: true });
+    const fresh = unscaledCovariance(jac, n, p);
+    const reused = unscaledCovariance(jac, n, p, { factor: qr });
+    expect(reused.factor).toBe(qr);
+    expect(fresh.factor).not.toBe(qr);
+    expect(Array.from(reused.unscaled)).toEqual(Array.from(fresh.unscaled));
+    expect(Array.from(reused.core)).toEqual(Array.from(fresh.core));
+    expect(reused.condition).toBe(fresh.condition);
+  });
+
+  it('ignores one made with other options or another rank tolerance (it factors again)', async () => {
+    const { PivotedQR } = await import('../../engine/linalg/qr');
+    const n = 30;
+    const p = 3;
+    const jac = randomMatrix(n, p, next);
+    const unscaled = new PivotedQR(n, p).factor(jac, n, p, { pivot: true });
+    expect(unscaledCovariance(jac, n, p, { factor: unscaled }).factor).not.toBe(unscaled);
+    const scaled = new PivotedQR(n, p).factor(jac, n, p, { pivot: true, scale: true });
+    expect(unscaledCovariance(jac, n, p, { factor: scaled, rankTolerance: 1e-6 }).factor).not.toBe(scaled);
+    const other = new PivotedQR(n + 1, p).factor(randomMatrix(n + 1, p, next), n + 1, p, { pivot: true, scale: true });
+    expect(unscaledCovariance(jac, n, p, { factor: other }).factor).not.toBe(other);
+  });
+});
