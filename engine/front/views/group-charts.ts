@@ -9,7 +9,9 @@
  *
  * Axes across curves (`curveAxis`): every label is written when there are at
  * most MAX_LABELLED (60) curves, else every k-th one with k = ⌈n / 40⌉, and
- * the axis title says so.
+ * the axis title says so. Labels reach the spec only as data and scale
+ * domains (never as `sort` or `axis.values` lists, which Vega reads as
+ * operator names when a label is e.g. `constructor`, measured with vega 6).
  */
 import type { TopLevelSpec } from 'vega-lite';
 import type { FitResult } from '../../result';
@@ -49,7 +51,9 @@ export function curveAxis(labels: readonly string[], noun: string): { axis: Json
   const every = n <= MAX_LABELLED ? 1 : Math.ceil(n / TARGET_LABELS);
   const title = every === 1 ? `${n} ${noun}s` : `${n} ${noun}s (every ${ordinal(every)} labelled)`;
   const axis: Json = { title, labelAngle: -40, labelLimit: 90, labelOverlap: false };
-  if (every > 1) axis.values = labels.filter((_, i) => i % every === 0);
+  // every k-th label by its position: an expression made of numbers only (a label list in `axis.values` or `sort`
+  // breaks Vega when a label is an Object.prototype name such as `constructor`; the scale domain takes them)
+  if (every > 1) axis.labelExpr = `round(datum.index * ${n - 1}) % ${every} === 0 ? datum.label : ""`;
   return { axis, every };
 }
 
@@ -58,14 +62,21 @@ function ordinal(k: number): string {
   return `${k}${s}`;
 }
 
-/** The colour and shape scales over the shown labels (palette.ts SERIES, SERIES_SHAPES), one legend. */
-function seriesScales(labels: readonly string[]): { color: Json; shape: Json } {
-  const range = labels.map((_, i) => SERIES[i % SERIES.length]);
-  const shapes = labels.map((_, i) => SERIES_SHAPES[i % SERIES_SHAPES.length]);
+/**
+ * The colour and shape scales over the shown curves (palette.ts SERIES,
+ * SERIES_SHAPES), one legend. The domain is the data's labels in curve order
+ * (`sort` by the numeric `order` field, minimum): an explicit label list as the
+ * domain of both channels breaks Vega's merged legend when a label is an
+ * Object.prototype name (measured with vega 6).
+ */
+function seriesScales(count: number): { color: Json; shape: Json } {
+  const range = Array.from({ length: count }, (_, i) => SERIES[i % SERIES.length]);
+  const shapes = Array.from({ length: count }, (_, i) => SERIES_SHAPES[i % SERIES_SHAPES.length]);
   const legend = { title: null, orient: 'right', labelLimit: 140, symbolStrokeWidth: 2 };
+  const sort = { field: 'order', op: 'min' };
   return {
-    color: { field: 'label', type: 'nominal', sort: [...labels], scale: { domain: [...labels], range }, legend },
-    shape: { field: 'label', type: 'nominal', sort: [...labels], scale: { domain: [...labels], range: shapes }, legend },
+    color: { field: 'label', type: 'nominal', sort, scale: { range }, legend },
+    shape: { field: 'label', type: 'nominal', sort, scale: { range: shapes }, legend },
   };
 }
 
@@ -87,13 +98,13 @@ export function overlayChart(set: CurveSet, opts: GroupChartOptions = {}): Group
   if (!choice.shown.length) return null;
   const labels = choice.shown.map((c) => c.label);
   const perCurve = pointsPerCurve(choice.shown.length);
-  const points = choice.shown.flatMap((c) => thinPoints(c.points, perCurve).map((p) => ({ label: c.label, row: p.row, x: p.x, y: p.y, fitted: p.fitted, residual: p.residual })));
+  const points = choice.shown.flatMap((c, order) => thinPoints(c.points, perCurve).map((p) => ({ label: c.label, order, row: p.row, x: p.x, y: p.y, fitted: p.fitted, residual: p.residual })));
   const lines = choice.shown.flatMap((c, order) => thinLine(c.line).map((q) => ({ label: c.label, order, x: q.x, fitted: q.fitted })));
   const behind = choice.background.flatMap((c) => thinLine(c.line, 40).map((q) => ({ label: c.label, x: q.x, fitted: q.fitted })));
   const logX = prefersLogX(points as unknown as PointRow[], [...lines, ...behind] as unknown as BandRow[]);
   const xEnc: Json = { field: 'x', type: 'quantitative', axis: axisTitle(set.predictor), scale: logX ? { type: 'log' } : { zero: false } };
   const yAxis = axisTitle(set.response);
-  const { color, shape } = seriesScales(labels);
+  const { color, shape } = seriesScales(labels.length);
   const dim = (on: number, off: number): Json => ({ condition: { param: LEGEND_SELECTION, empty: true, value: on }, value: off });
   const layers: Json[] = [];
   if (behind.length) {
@@ -113,7 +124,7 @@ export function overlayChart(set: CurveSet, opts: GroupChartOptions = {}): Group
       mark: { type: 'line', strokeWidth: 2 },
       encoding: {
         x: xEnc, y: { field: 'fitted', type: 'quantitative', axis: yAxis, scale: { zero: false } }, color, opacity: dim(1, 0.12), order: { field: 'x', type: 'quantitative' },
-        ...(sameData ? { strokeDash: { field: 'label', type: 'nominal', sort: [...labels], scale: { domain: [...labels], range: labels.map((_, i) => DASHES[i % DASHES.length]) }, legend: (color as { legend: Json }).legend } } : {}),
+        ...(sameData ? { strokeDash: { field: 'label', type: 'nominal', sort: { field: 'order', op: 'min' }, scale: { range: labels.map((_, i) => DASHES[i % DASHES.length]) }, legend: (color as { legend: Json }).legend } } : {}),
       },
     });
   }
@@ -156,7 +167,7 @@ export function residualsByCurveChart(set: CurveSet, opts: GroupChartOptions = {
     label: c.label, order, row: p.row, x: p.x, standardized: p.standardized, flagged: c.flags.length ? 'flagged' : 'ok',
   })));
   const { axis } = curveAxis(labels, set.noun);
-  const x = { field: 'label', type: 'nominal', sort: [...labels], scale: { domain: [...labels] }, axis };
+  const x = { field: 'label', type: 'nominal', scale: { domain: [...labels] }, axis };
   const layers: Json[] = [
     { data: { values: [{ zero: 0 }] }, mark: { type: 'rule', color: pal.reference, strokeDash: [4, 3] }, encoding: { y: { field: 'zero', type: 'quantitative' } } },
     {
@@ -205,7 +216,7 @@ export function groupParameterSpecs(fits: readonly FitResult[], table: GroupTabl
       };
     }).filter((v) => v.estimate !== null);
     const unit = fits.flatMap((f) => f.parameters).find((p) => p.name === name)?.unit;
-    const x = { field: 'group', type: 'nominal', sort: [...labels], scale: { domain: [...labels] }, axis };
+    const x = { field: 'group', type: 'nominal', scale: { domain: [...labels] }, axis };
     const yAxis = axisTitle(unit ? `${name} [${unit}]` : name);
     const title = `${table.fit}: ${name} across groups`;
     const body = {

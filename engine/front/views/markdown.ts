@@ -21,7 +21,7 @@ import {
 import { append, markdownTable } from './table';
 import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from './profile';
 import { flaggedPointRows, flaggedPointsNote } from './influence';
-import { detectPlates } from './wells';
+import { detectPlates, parseWell } from './wells';
 import { sameDataFitSets } from './curves';
 import { md, mdCode, mdFence, mdHref, mdLinkText, mdText, type Markdown } from './escape';
 import {
@@ -96,10 +96,15 @@ function chartBlock(heading: string, charts: readonly ChartLink[] | undefined): 
   return lines;
 }
 
-/** Plate detection's outcome for a section, as a sentence (wells.ts). */
-function plateNote(section: Extract<FitSection, { kind: 'groups' }>): string | null {
-  const d = detectPlates(section.table.rows.map((r) => r.group));
-  return d.layout ? null : `No plate map: ${d.notPlates}.`;
+/**
+ * Why a section whose labels look mostly like wells (at least half of them
+ * well names, wells.ts `parseWell`) gets no plate map; null when it gets one
+ * or its labels are not well-like at all.
+ */
+export function plateNote(labels: readonly string[]): string | null {
+  const d = detectPlates(labels);
+  if (d.layout || labels.filter((l) => parseWell(l) !== null).length * 2 < labels.length) return null;
+  return `No plate map: ${d.notPlates}.`;
 }
 
 function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: number, charts?: readonly ChartLink[]): string[] {
@@ -113,8 +118,8 @@ function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: n
   if (worst.length) append(lines, '### Worst groups', '', worst.map((w) => `- ${mdText(w)}`), '');
   if (charts?.length) {
     append(lines, chartBlock('Charts across groups', charts));
-    const plates = plateNote(section);
-    if (plates && section.fits.length > 1) lines.push(mdText(plates), '');
+    const plates = plateNote(section.table.rows.map((r) => r.group));
+    if (plates) lines.push(mdText(plates), '');
   }
   const note = detailNote(section, shown);
   if (note) lines.push(mdText(note), '');
