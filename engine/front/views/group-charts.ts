@@ -38,6 +38,9 @@ export interface GroupChartOptions {
   palette?: Palette;
 }
 
+/** Widest plot of a chart across curves, in pixels (fits the panel beside its navigation rail at 1100 px). */
+export const MAX_ACROSS_WIDTH = 760;
+
 /** Curves up to this count get every label on an across-curve axis. */
 export const MAX_LABELLED = 60;
 /** Above MAX_LABELLED, about this many labels are written. */
@@ -123,7 +126,11 @@ export function overlayChart(set: CurveSet, opts: GroupChartOptions = {}): Group
       ...(sameData ? { params: [pick] } : {}),
       mark: { type: 'line', strokeWidth: 2 },
       encoding: {
-        x: xEnc, y: { field: 'fitted', type: 'quantitative', axis: yAxis, scale: { zero: false } }, color, opacity: dim(1, 0.12), order: { field: 'x', type: 'quantitative' },
+        // groups: the lines take the same colours through their own `stroke` scale (resolved independent, same range and
+        // order) without a legend, so the one legend is the points layer's, which holds the selection (a legend merged
+        // from both layers loses its click binding, measured with vega-lite 6)
+        x: xEnc, y: { field: 'fitted', type: 'quantitative', axis: yAxis, scale: { zero: false } }, ...(sameData ? { color } : { stroke: { ...color, legend: null } }),
+        opacity: dim(1, 0.12), order: { field: 'x', type: 'quantitative' },
         ...(sameData ? { strokeDash: { field: 'label', type: 'nominal', sort: { field: 'order', op: 'min' }, scale: { range: labels.map((_, i) => DASHES[i % DASHES.length]) }, legend: (color as { legend: Json }).legend } } : {}),
       },
     });
@@ -153,7 +160,8 @@ export function overlayChart(set: CurveSet, opts: GroupChartOptions = {}): Group
   if (choice.note) subtitle.push(choice.note);
   if (notFitted) subtitle.push(`${notFitted} ${set.noun}${notFitted === 1 ? '' : 's'} shown did not converge: points only, no curve.`);
   const title = set.kind === 'groups' ? `${set.name}: every ${set.noun}'s curve` : `Fits of the same data: ${set.name}`;
-  return { id: 'overlay', title, spec: top(pal, title, subtitle, opts.width ?? 560, opts.height ?? 320, { layer: layers }) };
+  const resolve = sameData ? {} : { resolve: { scale: { stroke: 'independent' }, legend: { stroke: 'independent' } } };
+  return { id: 'overlay', title, spec: top(pal, title, subtitle, opts.width ?? 560, opts.height ?? 320, { layer: layers, ...resolve }) };
 }
 
 /** Standardized residuals by curve: one column of points per curve, flagged curves in the highlight colour. */
@@ -189,7 +197,7 @@ export function residualsByCurveChart(set: CurveSet, opts: GroupChartOptions = {
   const subtitle = [`Residual / s per point, by ${set.noun}; highlighted: flagged ${set.noun}s. A ${set.noun} whose column sits off zero or spreads wider than the rest fits worse.`];
   if (missing) subtitle.push(`${missing} ${set.noun}${missing === 1 ? '' : 's'} without standardized residuals (not fitted): empty column.`);
   const title = `${set.kind === 'groups' ? set.name : 'Fits of the same data'}: residuals by ${set.noun}`;
-  const width = Math.max(320, Math.min(900, labels.length * 14));
+  const width = Math.max(320, Math.min(MAX_ACROSS_WIDTH, labels.length * 14));
   return { id: 'residuals-by-group', title, spec: top(pal, title, subtitle, width, Math.round((opts.height ?? 320) * 0.6), { layer: layers }) };
 }
 
@@ -203,7 +211,7 @@ export function groupParameterSpecs(fits: readonly FitResult[], table: GroupTabl
   const pal = opts.palette ?? PALETTE;
   const labels = table.rows.map((r) => r.group);
   const { axis } = curveAxis(labels, 'group');
-  const width = Math.max(320, Math.min(900, labels.length * 16));
+  const width = Math.max(320, Math.min(MAX_ACROSS_WIDTH, labels.length * 16));
   return table.parameters.map((name, j) => {
     const values = table.rows.map((r, i) => {
       const est = r.estimates[j];

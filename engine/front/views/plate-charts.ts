@@ -16,6 +16,7 @@ import type { GroupChartSpec } from './group-charts';
 import { chartLabel } from './escape';
 import { HEAT_RAMP, PALETTE, SERIES, type Palette } from './palette';
 import { detectPlates, wellName, type PlateLayout } from './wells';
+import { FLAG_LABEL } from './groups';
 import type { TopLevelSpec } from 'vega-lite';
 
 /** Plates drawn in one chart. */
@@ -38,8 +39,12 @@ export interface WellDatum {
   group: string | null;
   value: number | null;
   flag: FlagCategory | null;
+  /** `flag` in words (groups.ts FLAG_LABEL; `no flag`), or null for an empty well. */
+  flagLabel: string | null;
   flags: string;
 }
+
+const flagWords = (f: FlagCategory): string => (f === 'none' ? 'no flag' : FLAG_LABEL[f]);
 
 /** One map per plate choice: `flags` or a parameter name. */
 export type PlateMeasure = { kind: 'flags' } | { kind: 'parameter'; name: string; index: number };
@@ -57,7 +62,7 @@ export function plateData(layout: PlateLayout, table: GroupTable, measure: Plate
         let value: number | null = null;
         if (r && measure.kind === 'parameter' && r.converged) value = r.estimates[measure.index];
         const flag: FlagCategory | null = r ? (GROUP_FLAGS.find((f) => r.flags.includes(f)) ?? 'none') : null;
-        out.push({ plate, well: wellName(row, column), rowLetter: String.fromCharCode(65 + row), column, group, value, flag, flags: r ? r.flags.join(', ') || 'none' : '' });
+        out.push({ plate, well: wellName(row, column), rowLetter: String.fromCharCode(65 + row), column, group, value, flag, flagLabel: flag === null ? null : flagWords(flag), flags: r ? r.flags.join(', ') || 'none' : '' });
       }
     }
   }
@@ -80,14 +85,16 @@ function plateView(layout: PlateLayout, plate: string, values: WellDatum[], meas
   const colour: Json = measure.kind === 'parameter'
     ? { field: 'value', type: 'quantitative', scale: { range: [...HEAT_RAMP], zero: false }, legend: { title: chartLabel(legendTitle), gradientLength: Math.min(200, cell * layout.shape.rows) } }
     : (() => {
-        const present = GROUP_FLAGS.filter((f) => mine.some((v) => v.flag === f) || values.some((v) => v.flag === f));
+        const present = GROUP_FLAGS.filter((f) => values.some((v) => v.flag === f));
         const domain: FlagCategory[] = ['none', ...present];
-        return { field: 'flag', type: 'nominal', scale: { domain, range: domain.map((d) => FLAG_COLOURS[d]) }, legend: { title: 'flag' } };
+        // the legend reads the flags in words (groups.ts FLAG_LABEL), the data keeps the codes
+        return { field: 'flagLabel', type: 'nominal', scale: { domain: domain.map(flagWords), range: domain.map((d) => FLAG_COLOURS[d]) }, legend: { title: 'flag' } };
       })();
   const filled = measure.kind === 'parameter' ? mine.filter((v) => v.value !== null) : mine.filter((v) => v.flag !== null);
   const withoutValue = measure.kind === 'parameter' ? mine.filter((v) => v.group !== null && v.value === null) : [];
   const layer: Json[] = [
-    { name: 'wells', data: { values: mine }, mark: { type: 'rect', fill: pal.background, stroke: pal.grid, strokeWidth: 1 }, encoding: { x, y, tooltip } },
+    // every well, dashed: seen only where no coloured well covers it (an empty well)
+    { name: 'wells', data: { values: mine }, mark: { type: 'rect', fill: pal.background, stroke: pal.reference, strokeWidth: 1, strokeDash: [2, 2] }, encoding: { x, y, tooltip } },
     { name: 'well_values', data: { values: filled }, mark: { type: 'rect', stroke: pal.background, strokeWidth: 1, cursor: 'pointer' }, encoding: { x, y, color: colour, tooltip } },
   ];
   if (withoutValue.length) layer.push({ name: 'wells_without_value', data: { values: withoutValue }, mark: { type: 'rect', fill: pal.background, stroke: pal.highlight, strokeWidth: 2, cursor: 'pointer' }, encoding: { x, y, tooltip } });
@@ -108,7 +115,7 @@ export function plateMapSpecs(table: GroupTable, opts: { palette?: Palette } = {
     const values = plateData(layout, table, m);
     const what = m.kind === 'flags' ? 'flags' : m.name;
     const title = `${table.fit}: plate map of ${what}`;
-    const sub = [`${layout.shape.format}-well layout from the group labels; ${layout.groups.length} wells with a group, empty outlines: wells without one.`];
+    const sub = [`${layout.shape.format}-well layout from the group labels; ${layout.groups.length} wells with a group; dashed outline: a well without one.`];
     if (m.kind === 'parameter') sub.push('Colour: the estimate (lighter low, darker high); outlined in the highlight colour: a group without a fitted value (not converged or failed).');
     else sub.push('Colour: the most severe flag of the well\'s fit.');
     sub.push('In the panel, click a well to open its fit.');

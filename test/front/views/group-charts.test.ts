@@ -14,6 +14,7 @@ import { detectPlates, wellName } from '../../../engine/front/views/wells';
 import { renderSvg } from '../../../engine/front/views/svg';
 import { HEAT_RAMP, SERIES } from '../../../engine/front/views/palette';
 import { lineData, lineFit, runOf } from '../../fixtures/line-fit';
+import * as vegaLite from 'vega-lite';
 import { findAll, markItems, parseXml } from './xml';
 import { HOSTILE_COLUMNS, HOSTILE_LABELS } from '../../fixtures/hostile-names';
 
@@ -88,6 +89,11 @@ describe('views/group-charts', () => {
     expect(points.encoding.shape.scale.range).toEqual(['circle', 'square', 'triangle-up']);
     expect(points.encoding.opacity).toEqual({ condition: { param: LEGEND_SELECTION, empty: true, value: 0.9 }, value: 0.1 });
     expect(layer(c.spec, 'curve_lines').encoding.opacity.condition.param).toBe(LEGEND_SELECTION);
+    // one legend, and it is the clickable one (vega-lite compiles the binding into the legend's entries)
+    const compiled = vegaLite.compile(c.spec).spec as Json;
+    expect(compiled.legends).toHaveLength(1);
+    expect(compiled.legends[0].encode.symbols.name).toBe('label_legend_symbols');
+    expect(compiled.legends[0].encode.symbols.interactive).toBe(true);
     expect(points.data.values).toHaveLength(24);
     const svg = parseXml(await renderSvg(c.spec));
     expect(markItems(svg, 'curve_points')).toHaveLength(24);
@@ -115,6 +121,9 @@ describe('views/group-charts', () => {
     const lines = layer(c.spec, 'curve_lines');
     expect(lines.params[0].bind).toBe('legend');
     expect(lines.encoding.strokeDash.scale.range).toEqual([[1, 0], [7, 3]]);
+    const compiled = vegaLite.compile(c.spec).spec as Json;
+    expect(compiled.legends).toHaveLength(1);
+    expect(compiled.legends[0].encode.symbols.interactive).toBe(true);
   });
 
   it('puts standardized residuals by group on a labelled axis, every k-th label beyond 60 groups', async () => {
@@ -161,8 +170,8 @@ describe('views/plate-charts', () => {
     const data = plateData(layout, table, { kind: 'parameter', name: 'slope', index: 1 });
     expect(data).toHaveLength(96);
     const at = (w: string) => data.find((d) => d.well === w)!;
-    expect(at('C05')).toMatchObject({ group: null, value: null, flag: null });
-    expect(at('A04')).toMatchObject({ group: 'A04', value: null, flag: 'not_converged' });
+    expect(at('C05')).toMatchObject({ group: null, value: null, flag: null, flagLabel: null });
+    expect(at('A04')).toMatchObject({ group: 'A04', value: null, flag: 'not_converged', flagLabel: 'not converged' });
     expect(at('B01').value).toBeCloseTo(fits[12].parameters[1].estimate, 12);
     expect(at('B01')).toMatchObject({ rowLetter: 'B', column: 1, flag: 'none' });
   });
@@ -178,7 +187,7 @@ describe('views/plate-charts', () => {
     expect(values.data.values.every((v: Json) => typeof v.group === 'string')).toBe(true);
     expect(slope.layer.find((l: Json) => l.name === 'wells_without_value').data.values.map((v: Json) => v.group)).toEqual(['A04']);
     const flags = (specs[0].spec as Json).vconcat[0].layer.find((l: Json) => l.name === 'well_values');
-    expect(flags.encoding.color.scale).toEqual({ domain: ['none', 'not_converged'], range: [FLAG_COLOURS.none, FLAG_COLOURS.not_converged] });
+    expect(flags.encoding.color.scale).toEqual({ domain: ['no flag', 'not converged'], range: [FLAG_COLOURS.none, FLAG_COLOURS.not_converged] });
     const svg = parseXml(await renderSvg(specs[2].spec));
     expect(markItems(svg, 'wells')).toHaveLength(96);
     expect(markItems(svg, 'well_values')).toHaveLength(93);
