@@ -100,7 +100,7 @@ describe.skipIf(!haveChromium)('extension/panel views across groups in Chromium'
     await page.locator('figure[data-chart-id="overlay"]').evaluate((el) => el.scrollIntoView({ block: 'center' }));
     const box = (await page.locator('figure[data-chart-id="overlay"] .role-legend-label text', { hasText: 'A03' }).boundingBox())!;
     await page.mouse.click(box.x + box.width / 2, box.y + box.height / 2);
-    await page.waitForFunction(() => [...document.querySelectorAll('figure[data-chart-id="overlay"] .role-mark.curve_points_marks path')].some((p) => p.getAttribute('opacity') === '0.1'));
+    await page.waitForFunction(() => Array.from(document.querySelectorAll('figure[data-chart-id="overlay"] .role-mark.curve_points_marks path')).some((p) => p.getAttribute('opacity') === '0.1'));
     const after = await opacities();
     expect(after.filter((o) => o === '0.9')).toHaveLength(6); // A03's six points
     expect(after.filter((o) => o === '0.1')).toHaveLength(after.length - 6);
