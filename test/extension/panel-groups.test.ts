@@ -4,10 +4,9 @@
  * residuals by group, the parameter charts with group labels, and the plate
  * map with its chooser and click-through, for an invented 96-well run of
  * straight-line groups (fixtures/line-fit.ts) with one well left empty and
- * one group that did not converge. Screenshots go to test/artifacts/extension/
- * (`UPDATE_SCREENSHOTS=1` also refreshes test/extension/screenshots/).
+ * one group that did not converge. Screenshots go to test/artifacts/extension/.
  */
-import { copyFileSync, existsSync, mkdirSync } from 'node:fs';
+import { existsSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
@@ -17,7 +16,7 @@ import { buildPanelModel, type PanelModel } from '../../extension/logic/panel-mo
 import { wellName } from '../../engine/front/views/wells';
 import { requireInCi } from '../fixtures/required';
 import { lineData, lineFit, runOf } from '../fixtures/line-fit';
-import { ARTIFACTS, bundlePage, CHROMIUM_ARGS, ROOT, servePanel, type PanelServer, type ThemeName } from './panel-harness';
+import { ARTIFACTS, bundlePage, CHROMIUM_ARGS, servePanel, type PanelServer, type ThemeName } from './panel-harness';
 
 const CHROMIUM = process.env.CHROMIUM ?? '/usr/bin/chromium';
 const haveChromium = requireInCi('Chromium for the panel page test', existsSync(CHROMIUM), `CHROMIUM=${CHROMIUM}`);
@@ -126,11 +125,10 @@ describe.skipIf(!haveChromium)('extension/panel views across groups in Chromium'
     await page.close();
   });
 
-  it('keeps the screenshots for review', () => {
+  it('leaves its screenshots for review in the artifacts (the checked-in ones come from the VS Code run, test/e2e/views.cjs)', () => {
     for (const theme of ['light', 'dark', 'high-contrast']) expect(existsSync(join(ARTIFACTS, `panel-groups-${theme}.png`))).toBe(true);
-    if (process.env.UPDATE_SCREENSHOTS === '1') {
-      const dir = join(ROOT, 'test', 'extension', 'screenshots');
-      mkdirSync(dir, { recursive: true });
+  });
+});
       for (const theme of ['light', 'dark', 'high-contrast']) copyFileSync(join(ARTIFACTS, `panel-groups-${theme}.png`), join(dir, `panel-groups-${theme}.png`));
     }
   });

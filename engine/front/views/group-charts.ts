@@ -41,6 +41,29 @@ export interface GroupChartOptions {
 /** Widest plot of a chart across curves, in pixels (fits the panel beside its navigation rail at 1100 px). */
 export const MAX_ACROSS_WIDTH = 760;
 
+/**
+ * Subtitle lines word-wrapped to at most `width` characters (Vega draws each
+ * subtitle line as given and never wraps it; a long line would run past a
+ * narrow panel). A single word longer than `width` stays whole.
+ */
+export function wrapLines(lines: readonly string[], width: number): string[] {
+  const out: string[] = [];
+  for (const line of lines) {
+    let cur = '';
+    for (const word of line.split(' ')) {
+      if (cur && cur.length + 1 + word.length > width) {
+        out.push(cur);
+        cur = word;
+      } else cur = cur ? `${cur} ${word}` : word;
+    }
+    out.push(cur);
+  }
+  return out;
+}
+
+/** Subtitle width (characters) of a chart across curves. */
+const SUBTITLE_CHARS = 96;
+
 /** Curves up to this count get every label on an across-curve axis. */
 export const MAX_LABELLED = 60;
 /** Above MAX_LABELLED, about this many labels are written. */
@@ -161,7 +184,7 @@ export function overlayChart(set: CurveSet, opts: GroupChartOptions = {}): Group
   if (notFitted) subtitle.push(`${notFitted} ${set.noun}${notFitted === 1 ? '' : 's'} shown did not converge: points only, no curve.`);
   const title = set.kind === 'groups' ? `${set.name}: every ${set.noun}'s curve` : `Fits of the same data: ${set.name}`;
   const resolve = sameData ? {} : { resolve: { scale: { stroke: 'independent' }, legend: { stroke: 'independent' } } };
-  return { id: 'overlay', title, spec: top(pal, title, subtitle, opts.width ?? 560, opts.height ?? 320, { layer: layers, ...resolve }) };
+  return { id: 'overlay', title, spec: top(pal, title, wrapLines(subtitle, SUBTITLE_CHARS), opts.width ?? 560, opts.height ?? 320, { layer: layers, ...resolve }) };
 }
 
 /** Standardized residuals by curve: one column of points per curve, flagged curves in the highlight colour. */
@@ -198,7 +221,7 @@ export function residualsByCurveChart(set: CurveSet, opts: GroupChartOptions = {
   if (missing) subtitle.push(`${missing} ${set.noun}${missing === 1 ? '' : 's'} without standardized residuals (not fitted): empty column.`);
   const title = `${set.kind === 'groups' ? set.name : 'Fits of the same data'}: residuals by ${set.noun}`;
   const width = Math.max(320, Math.min(MAX_ACROSS_WIDTH, labels.length * 14));
-  return { id: 'residuals-by-group', title, spec: top(pal, title, subtitle, width, Math.round((opts.height ?? 320) * 0.6), { layer: layers }) };
+  return { id: 'residuals-by-group', title, spec: top(pal, title, wrapLines(subtitle, SUBTITLE_CHARS), width, Math.round((opts.height ?? 320) * 0.6), { layer: layers }) };
 }
 
 /**

@@ -12,7 +12,7 @@ import type { GroupTable } from '../../groups/table';
 import { GROUP_FLAGS, type GroupFlag } from '../../groups/flags';
 import { CHART_FORMAT } from '../../format';
 import { config, type Json } from './charts';
-import type { GroupChartSpec } from './group-charts';
+import { wrapLines, type GroupChartSpec } from './group-charts';
 import { chartLabel } from './escape';
 import { HEAT_RAMP, PALETTE, SERIES, type Palette } from './palette';
 import { detectPlates, wellName, type PlateLayout } from './wells';
@@ -73,8 +73,8 @@ function plateView(layout: PlateLayout, plate: string, values: WellDatum[], meas
   const cell = layout.shape.format === 96 ? 30 : 18;
   const rows = Array.from({ length: layout.shape.rows }, (_, i) => String.fromCharCode(65 + i));
   const columns = Array.from({ length: layout.shape.columns }, (_, i) => i + 1);
-  const x = { field: 'column', type: 'ordinal', scale: { domain: columns }, axis: { title: null, orient: 'top', labelAngle: 0, domain: false, ticks: false } };
-  const y = { field: 'rowLetter', type: 'ordinal', scale: { domain: rows }, axis: { title: null, domain: false, ticks: false } };
+  const x = { field: 'column', type: 'ordinal', scale: { domain: columns }, axis: { title: null, orient: 'top', labelAngle: 0, domain: false, ticks: false, labelPadding: 4 } };
+  const y = { field: 'rowLetter', type: 'ordinal', scale: { domain: rows }, axis: { title: null, domain: false, ticks: false, labelPadding: 6 } };
   const mine = values.filter((v) => v.plate === plate);
   const tooltip = [
     { field: 'well', type: 'nominal', title: 'well' },
@@ -95,8 +95,10 @@ function plateView(layout: PlateLayout, plate: string, values: WellDatum[], meas
   const layer: Json[] = [
     // every well, dashed: seen only where no coloured well covers it (an empty well)
     { name: 'wells', data: { values: mine }, mark: { type: 'rect', fill: pal.background, stroke: pal.reference, strokeWidth: 1, strokeDash: [2, 2] }, encoding: { x, y, tooltip } },
-    { name: 'well_values', data: { values: filled }, mark: { type: 'rect', stroke: pal.background, strokeWidth: 1, cursor: 'pointer' }, encoding: { x, y, color: colour, tooltip } },
+    { name: 'well_values', data: { values: filled }, mark: { type: 'rect', stroke: pal.grid, strokeWidth: 1, cursor: 'pointer' }, encoding: { x, y, color: colour, tooltip } },
   ];
+  const flagged = measure.kind === 'parameter' ? filled.filter((v) => v.flag !== null && v.flag !== 'none') : [];
+  if (flagged.length) layer.push({ name: 'flagged_wells', data: { values: flagged }, mark: { type: 'point', shape: 'circle', filled: true, size: cell * 2, color: pal.highlight, stroke: pal.background, strokeWidth: 1, cursor: 'pointer' }, encoding: { x, y, tooltip } });
   if (withoutValue.length) layer.push({ name: 'wells_without_value', data: { values: withoutValue }, mark: { type: 'rect', fill: pal.background, stroke: pal.highlight, strokeWidth: 2, cursor: 'pointer' }, encoding: { x, y, tooltip } });
   const view: Json = { width: cell * layout.shape.columns, height: cell * layout.shape.rows, layer };
   if (layout.plates.length > 1 || plate !== '') view.title = { text: chartLabel(plate === '' ? 'plate' : `plate ${plate}`), fontSize: 12, fontWeight: 'normal' };
@@ -115,14 +117,15 @@ export function plateMapSpecs(table: GroupTable, opts: { palette?: Palette } = {
     const values = plateData(layout, table, m);
     const what = m.kind === 'flags' ? 'flags' : m.name;
     const title = `${table.fit}: plate map of ${what}`;
-    const sub = [`${layout.shape.format}-well layout from the group labels; ${layout.groups.length} wells with a group; dashed outline: a well without one.`];
-    if (m.kind === 'parameter') sub.push('Colour: the estimate (lighter low, darker high); outlined in the highlight colour: a group without a fitted value (not converged or failed).');
-    else sub.push('Colour: the most severe flag of the well\'s fit.');
+    const sub = [`${layout.shape.format}-well layout from the group labels: ${layout.groups.length} wells with a group; dashed outline: a well without one.`];
+    if (m.kind === 'parameter') {
+      sub.push('Colour: the estimate (lighter low, darker high). Dot: a flagged group (see the flag map). Thick outline: a group without a fitted value (not converged or failed).');
+    } else sub.push('Colour: the most severe flag of the well\'s fit.');
     sub.push('In the panel, click a well to open its fit.');
     if (layout.plates.length > MAX_PLATES) sub.push(`Showing the first ${MAX_PLATES} of ${layout.plates.length} plates.`);
     const spec = {
       $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-      title: { text: chartLabel(title), subtitle: sub },
+      title: { text: chartLabel(title), subtitle: wrapLines(sub, layout.shape.format === 96 ? 64 : 80) },
       config: { ...config(pal), axis: { ...(config(pal).axis as Json), grid: false } },
       vconcat: plates.map((p) => plateView(layout, p, values, m, pal, what)),
       resolve: { scale: { color: 'shared' } },

@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import type { FitResult } from '../../../engine/result';
 import { buildGroupTable } from '../../../engine/groups/table';
 import { groupCurveSet, MAX_OVERLAY_CURVES, overlayChoice, sameDataFitSets, thinLine } from '../../../engine/front/views/curves';
-import { curveAxis, groupParameterSpecs, LEGEND_SELECTION, overlayChart, residualsByCurveChart } from '../../../engine/front/views/group-charts';
+import { curveAxis, groupParameterSpecs, LEGEND_SELECTION, overlayChart, residualsByCurveChart, wrapLines } from '../../../engine/front/views/group-charts';
 import { FLAG_COLOURS, plateData, plateMapSpecs } from '../../../engine/front/views/plate-charts';
 import { acrossCharts, acrossFileName } from '../../../engine/front/views/across';
 import { detectPlates, wellName } from '../../../engine/front/views/wells';
@@ -108,6 +108,7 @@ describe('views/group-charts', () => {
     expect([...new Set(layer(c.spec, 'curve_points').data.values.map((v: Json) => v.label))]).toEqual(labels.slice(0, 8));
     expect(new Set(layer(c.spec, 'other_curves').data.values.map((v: Json) => v.label)).size).toBe(22);
     expect((c.spec as Json).title.subtitle.join(' ')).toContain('Showing 8 of 30 groups in colour');
+    for (const line of (c.spec as Json).title.subtitle) expect(line.length).toBeLessThanOrEqual(96);
     const svg = parseXml(await renderSvg(c.spec));
     expect(markItems(svg, 'other_curves')).toHaveLength(22);
   });
@@ -186,11 +187,23 @@ describe('views/plate-charts', () => {
     expect(values.data.values).toHaveLength(93); // 94 groups less the one not converged
     expect(values.data.values.every((v: Json) => typeof v.group === 'string')).toBe(true);
     expect(slope.layer.find((l: Json) => l.name === 'wells_without_value').data.values.map((v: Json) => v.group)).toEqual(['A04']);
+    expect(slope.layer.find((l: Json) => l.name === 'flagged_wells')).toBeUndefined(); // the only flagged group has no value to mark
     const flags = (specs[0].spec as Json).vconcat[0].layer.find((l: Json) => l.name === 'well_values');
     expect(flags.encoding.color.scale).toEqual({ domain: ['no flag', 'not converged'], range: [FLAG_COLOURS.none, FLAG_COLOURS.not_converged] });
     const svg = parseXml(await renderSvg(specs[2].spec));
     expect(markItems(svg, 'wells')).toHaveLength(96);
     expect(markItems(svg, 'well_values')).toHaveLength(93);
+  });
+
+  it('marks a flagged group that has a value with a dot over its colour', async () => {
+    const fits = groups(wells, 5);
+    const b03 = wells.indexOf('B03');
+    fits[b03] = { ...fits[b03], parameters: fits[b03].parameters.map((p, j) => (j === 1 ? { ...p, atBound: 'lower' } : p)) } as FitResult;
+    const slope = (plateMapSpecs(buildGroupTable(fits))[2].spec as Json);
+    const dots = slope.vconcat[0].layer.find((l: Json) => l.name === 'flagged_wells');
+    expect(dots.data.values.map((v: Json) => [v.group, v.flag])).toEqual([['B03', 'at_bound']]);
+    expect(slope.title.subtitle.join(' ')).toContain('Dot: a flagged group');
+    expect(markItems(parseXml(await renderSvg(slope as never)), 'flagged_wells')).toHaveLength(1);
   });
 
   it('draws one map per plate for prefixed labels, and none for labels that are not wells', () => {
@@ -228,5 +241,13 @@ describe('views/across with hostile names', () => {
       const marks = findAll(svg, (e) => e.name === 'g' && /_marks\b/.test(e.attrs.class ?? ''));
       expect(marks.length, c.id).toBeGreaterThan(0);
     }
+  });
+});
+
+describe('views/group-charts wrapLines', () => {
+  it('wraps subtitle lines at word boundaries within the width, keeping an over-long word whole', () => {
+    expect(wrapLines(['one two three four', 'x'], 9)).toEqual(['one two', 'three', 'four', 'x']);
+    expect(wrapLines(['abcdefghijkl b'], 5)).toEqual(['abcdefghijkl', 'b']);
+    for (const l of wrapLines(['a '.repeat(200).trim()], 64)) expect(l.length).toBeLessThanOrEqual(64);
   });
 });
