@@ -129,7 +129,3 @@ describe.skipIf(!haveChromium)('extension/panel views across groups in Chromium'
     for (const theme of ['light', 'dark', 'high-contrast']) expect(existsSync(join(ARTIFACTS, `panel-groups-${theme}.png`))).toBe(true);
   });
 });
-      for (const theme of ['light', 'dark', 'high-contrast']) copyFileSync(join(ARTIFACTS, `panel-groups-${theme}.png`), join(dir, `panel-groups-${theme}.png`));
-    }
-  });
-});
