@@ -165,5 +165,6 @@ export function thinPoints(points: readonly CurvePoint[], max: number): CurvePoi
 
 /** Points allowed per curve so that a chart of `curves` stays within MAX_MARKS. */
 export function pointsPerCurve(curves: number, maxMarks = MAX_MARKS): number {
-  return Math.max(8, Math.floor(maxMarks / Math.max(1, curves)));
+  // at least 4 (keepExtremes keeps an x bucket's ends and residual extremes); with at most 384 curves drawn, ≤ 5000 + 1536 marks
+  return Math.max(4, Math.floor(maxMarks / Math.max(1, curves)));
 }

@@ -109,6 +109,16 @@ function seriesScales(count: number): { color: Json; shape: Json } {
 /** Dash patterns of the lines of several fits of the same data, in legend order. */
 const DASHES: number[][] = [[1, 0], [7, 3], [2, 2], [9, 3, 2, 3], [4, 4], [12, 4], [2, 5], [6, 2, 2, 2]];
 
+/** Points per thin grey background line (smooth curves; keeps a 400-curve overlay near 8,000 rows). */
+const BACKGROUND_LINE_POINTS = 20;
+
+/**
+ * A coordinate of a line without tooltip, to 10 significant digits: off by at most 5e-11 of the value, below
+ * 1e-4 of the axis range (a tenth of a pixel on 1000) unless the values sit 1e6 times farther from zero than
+ * they spread.
+ */
+const drawn = (v: number): number => Number(v.toPrecision(10));
+
 /** Name of the legend selection in the overlay (a fixed name, never user text). */
 export const LEGEND_SELECTION = 'picked';
 
@@ -125,8 +135,9 @@ export function overlayChart(set: CurveSet, opts: GroupChartOptions = {}): Group
   const labels = choice.shown.map((c) => c.label);
   const perCurve = pointsPerCurve(choice.shown.length);
   const points = choice.shown.flatMap((c, order) => thinPoints(c.points, perCurve).map((p) => ({ label: c.label, order, row: p.row, x: p.x, y: p.y, fitted: p.fitted, residual: p.residual })));
-  const lines = choice.shown.flatMap((c, order) => thinLine(c.line).map((q) => ({ label: c.label, order, x: q.x, fitted: q.fitted })));
-  const behind = choice.background.flatMap((c) => thinLine(c.line, 40).map((q) => ({ label: c.label, x: q.x, fitted: q.fitted })));
+  // lines carry no tooltip: 10 significant digits (`drawn`) draw them as exactly and shorten the data
+  const lines = choice.shown.flatMap((c, order) => thinLine(c.line).map((q) => ({ label: c.label, order, x: drawn(q.x), fitted: drawn(q.fitted) })));
+  const behind = choice.background.flatMap((c) => thinLine(c.line, BACKGROUND_LINE_POINTS).map((q) => ({ label: c.label, x: drawn(q.x), fitted: drawn(q.fitted) })));
   const logX = prefersLogX(points as unknown as PointRow[], [...lines, ...behind] as unknown as BandRow[]);
   const xEnc: Json = { field: 'x', type: 'quantitative', axis: axisTitle(set.predictor), scale: logX ? { type: 'log' } : { zero: false } };
   const yAxis = axisTitle(set.response);
@@ -192,9 +203,10 @@ export function residualsByCurveChart(set: CurveSet, opts: GroupChartOptions = {
   const pal = opts.palette ?? PALETTE;
   const with_ = set.curves.filter((c) => c.points.some((p) => p.standardized !== null));
   if (!with_.length) return null;
-  const labels = set.curves.map((c) => c.label);
-  const perCurve = pointsPerCurve(set.curves.length);
-  const values = set.curves.flatMap((c: Curve, order) => thinPoints(c.points.filter((p) => p.standardized !== null), perCurve).map((p) => ({
+  const curves = residualCurves(set.curves);
+  const labels = curves.map((c) => c.label);
+  const perCurve = pointsPerCurve(curves.length);
+  const values = curves.flatMap((c: Curve, order) => thinPoints(c.points.filter((p) => p.standardized !== null), perCurve).map((p) => ({
     label: c.label, order, row: p.row, x: p.x, standardized: p.standardized, flagged: c.flags.length ? 'flagged' : 'ok',
   })));
   const { axis } = curveAxis(labels, set.noun);
@@ -216,12 +228,25 @@ export function residualsByCurveChart(set: CurveSet, opts: GroupChartOptions = {
       },
     },
   ];
-  const missing = set.curves.length - with_.length;
+  const missing = curves.filter((c) => !c.points.some((p) => p.standardized !== null)).length;
   const subtitle = [`Residual / s per point, by ${set.noun}; highlighted: flagged ${set.noun}s. A ${set.noun} whose column sits off zero or spreads wider than the rest fits worse.`];
+  if (curves.length < set.curves.length) subtitle.push(`Showing ${curves.length} of ${set.curves.length} ${set.noun}s: the flagged ones first, then the first others (every ${set.noun} is in the table).`);
   if (missing) subtitle.push(`${missing} ${set.noun}${missing === 1 ? '' : 's'} without standardized residuals (not fitted): empty column.`);
   const title = `${set.kind === 'groups' ? set.name : 'Fits of the same data'}: residuals by ${set.noun}`;
   const width = Math.max(320, Math.min(MAX_ACROSS_WIDTH, labels.length * 14));
   return { id: 'residuals-by-group', title, spec: top(pal, title, wrapLines(subtitle, SUBTITLE_CHARS), width, Math.round((opts.height ?? 320) * 0.6), { layer: layers }) };
+}
+
+/** Curves in the residuals-by-group chart: a 384-well plate's worth. */
+export const MAX_RESIDUAL_CURVES = 384;
+
+/** The curves of a residuals-by-group chart: all up to MAX_RESIDUAL_CURVES, else the flagged ones first, then the first others, in set order. */
+function residualCurves(all: readonly Curve[]): readonly Curve[] {
+  if (all.length <= MAX_RESIDUAL_CURVES) return all;
+  const flagged = all.filter((c) => c.flags.length > 0).slice(0, MAX_RESIDUAL_CURVES);
+  const rest = all.filter((c) => c.flags.length === 0).slice(0, MAX_RESIDUAL_CURVES - flagged.length);
+  const keep = new Set([...flagged, ...rest]);
+  return all.filter((c) => keep.has(c));
 }
 
 /**

@@ -251,3 +251,21 @@ describe('views/group-charts wrapLines', () => {
     for (const l of wrapLines(['a '.repeat(200).trim()], 64)) expect(l.length).toBeLessThanOrEqual(64);
   });
 });
+
+describe('views/group-charts with many groups', () => {
+  it('caps the residuals by group at 384 groups, flagged first, and the overlay at 8 coloured and 400 grey', () => {
+    const labels = Array.from({ length: 1000 }, (_, i) => `s${i}`);
+    let fits = groups(labels, 5);
+    fits = notConverged(fits, 900);
+    const { set } = setOf(fits);
+    const r = residualsByCurveChart(set)!;
+    const domain = layer(r.spec, 'residual_points').encoding.x.scale.domain as string[];
+    expect(domain).toHaveLength(384);
+    expect(domain).toContain('s900');
+    expect(domain.slice(0, 3)).toEqual(['s0', 's1', 's2']);
+    expect((r.spec as Json).title.subtitle.join(' ')).toContain('Showing 384 of 1000 groups');
+    expect(layer(r.spec, 'residual_points').data.values.length).toBeLessThanOrEqual(5000 + 4 * 384);
+    const o = overlayChart(set)!;
+    expect(new Set(layer(o.spec, 'other_curves').data.values.map((v: Json) => v.label)).size).toBe(400);
+  });
+});
