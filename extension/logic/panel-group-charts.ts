@@ -1,76 +1,31 @@
 /**
- * Charts across the groups of a `per COLUMN` fit: one Vega-Lite chart per
- * free parameter, estimate ± one standard error per group, flagged groups in
- * the highlight colour. Colours are the default palette's roles (the page
- * maps them to theme colours like every other chart). Clicking a point
- * selects that group in the panel (each datum carries `group`).
+ * Charts across curves for the results panel: the same Vega-Lite specs as the
+ * CLI report (engine/front/views/across.ts) as PanelCharts. For a per-group
+ * fit: the overlay of every group's curve (a legend that selects), residuals
+ * by group, one chart per free parameter (estimate ± one standard error per
+ * group, group labels on the axis, flagged groups highlighted) and, when the
+ * group labels are well names, the plate maps (ids `plate-…`; the page shows
+ * one at a time with a chooser, panel/view/plate.ts). Clicking a parameter
+ * point or a well opens that group's fit (each datum carries `group`).
  */
-import type { FitResult } from '../../engine/result';
+import type { FitResult, RunResult } from '../../engine/result';
 import type { GroupTable } from '../../engine/groups/table';
-import { FONT, PALETTE } from '../../engine/front/views/palette';
-import { chartLabel } from '../../engine/front/views/escape';
+import { groupSectionCharts, sameDataCharts } from '../../engine/front/views/across';
+import { sameDataFitSets } from '../../engine/front/views/curves';
 import type { PanelChart } from './panel-model';
-import { CHART_FORMAT } from '../../engine/format';
 
-const SCHEMA = 'https://vega.github.io/schema/vega-lite/v6.json';
-/** Groups beyond this count are drawn without axis labels (they would overlap). */
-const MAX_LABELLED_GROUPS = 60;
+const toPanel = (c: { id: string; title: string; spec: unknown }): PanelChart => ({ id: c.id, title: c.title, spec: c.spec as Record<string, unknown> });
 
 export function groupParameterCharts(fits: readonly FitResult[], table: GroupTable): PanelChart[] {
-  const pal = PALETTE;
-  const labelled = table.rows.length <= MAX_LABELLED_GROUPS;
-  const width = Math.max(320, Math.min(900, table.rows.length * 16));
-  return table.parameters.map((name, j) => {
-    const values = table.rows.map((r, i) => {
-      const est = r.estimates[j];
-      const se = r.stderrs[j];
-      return {
-        group: r.group,
-        order: i,
-        estimate: est,
-        low: est !== null && se !== null ? est - se : null,
-        high: est !== null && se !== null ? est + se : null,
-        se,
-        flagged: r.flags.length > 0 ? 'flagged' : 'ok',
-        flags: r.flags.join(', ') || 'none',
-      };
-    }).filter((v) => v.estimate !== null);
-    const unit = fits.flatMap((f) => f.parameters).find((p) => p.name === name)?.unit;
-    // user names only as label text (axis and chart titles, see engine/front/views/charts.ts); groups are data values
-    const x = { field: 'group', type: 'nominal', sort: { field: 'order' }, axis: { title: `${table.rows.length} groups`, ...(labelled ? { labelAngle: -40, labelLimit: 90 } : { labels: false, ticks: false }) } };
-    const yAxis = { title: chartLabel(unit ? `${name} [${unit}]` : name) };
-    const spec = {
-      $schema: SCHEMA,
-      title: { text: chartLabel(`${table.fit}: ${name} across groups`), subtitle: ['Point: estimate. Bar: ± one standard error. Highlighted: flagged groups.'] },
-      width,
-      height: 180,
-      config: {
-        background: pal.background,
-        font: FONT,
-        view: { stroke: null },
-        title: { color: pal.foreground, subtitleColor: pal.muted, anchor: 'start', fontSize: 13, fontWeight: 600, subtitleFontSize: 11 },
-        axis: { labelColor: pal.muted, titleColor: pal.foreground, gridColor: pal.grid, domainColor: pal.reference, tickColor: pal.reference, titleFontWeight: 'normal' },
-      },
-      data: { values },
-      layer: [
-        { mark: { type: 'rule', color: pal.reference }, encoding: { x, y: { field: 'low', type: 'quantitative', axis: yAxis, scale: { zero: false } }, y2: { field: 'high' } } },
-        {
-          name: 'group_points',
-          mark: { type: 'point', filled: true, size: 46 },
-          encoding: {
-            x,
-            y: { field: 'estimate', type: 'quantitative', axis: yAxis },
-            color: { field: 'flagged', type: 'nominal', scale: { domain: ['ok', 'flagged'], range: [pal.points, pal.highlight] }, legend: null },
-            tooltip: [
-              { field: 'group', type: 'nominal', title: 'group' },
-              { field: 'estimate', type: 'quantitative', title: name, format: CHART_FORMAT.value },
-              { field: 'se', type: 'quantitative', title: 'standard error', format: CHART_FORMAT.uncertainty },
-              { field: 'flags', type: 'nominal', title: 'flags' },
-            ],
-          },
-        },
-      ],
-    };
-    return { id: `group-${name}`, title: `${table.fit}: ${name} across groups`, spec };
-  });
+  return groupSectionCharts(table.fit, fits, table).map(toPanel);
+}
+
+/** Sets of single fits of the same data (engine/front/views/curves.ts `sameDataFitSets`): fit keys and their overlay charts. */
+export interface PanelSameData {
+  fits: string[];
+  charts: PanelChart[];
+}
+
+export function sameDataPanelCharts(run: RunResult): PanelSameData[] {
+  return sameDataFitSets(run.fits).map((set) => ({ fits: set.curves.map((c) => c.key), charts: sameDataCharts(set).map(toPanel) }));
 }

@@ -23,7 +23,7 @@ import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders
 import { DIGITS, formatNumber } from '../../engine/format';
 import { isHighCorrelation } from '../../engine/thresholds';
 import { flaggedPointRows, flaggedPointsNote } from '../../engine/front/views/influence';
-import { groupParameterCharts } from './panel-group-charts';
+import { groupParameterCharts, sameDataPanelCharts, type PanelSameData } from './panel-group-charts';
 import { correlationCaption } from '../../engine/front/views/summary';
 
 /** Version of the model's shape; a saved page state of another version is not restored (2: the correlation list's caption). */
@@ -112,6 +112,8 @@ export interface PanelModel {
   queries: QueryBlock[];
   expectations: { verdict: 'PASS' | 'FAIL'; text: string; actual: string; message: string }[];
   errors: string[];
+  /** Single fits of the same data drawn together (extension/logic/panel-group-charts.ts; additive, optional). */
+  sameData?: PanelSameData[];
 }
 
 export interface ModelOptions {
@@ -168,6 +170,7 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
     queries: [derivedBlock(run), ...queryBlocks(run)].filter((b): b is QueryBlock => b !== null),
     expectations: run.expectations.map(expectationLine),
     errors: run.errors.map((e) => `${e.message}${e.file ? ` (${e.file}${e.row ? `, line ${e.row}` : ''})` : ''}`),
+    sameData: sameDataPanelCharts(run),
   };
 }
 

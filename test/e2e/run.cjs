@@ -31,6 +31,7 @@ const outDir = path.resolve(process.env.E2E_OUT || path.join(repo, 'test', 'arti
 const { secs, check, anyFailed, finish, waitForFile, freePort, run, quickInput, startRecipeServer, openBrowser, webviewFrame, errorSummary } = require('./harness.cjs');
 const { restrictedMode } = require('./restricted.cjs');
 const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
+const { writePlateSample, groupViews } = require('./views.cjs');
 
 (async () => {
   fs.mkdirSync(outDir, { recursive: true });
@@ -59,6 +60,8 @@ const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
 
   // A slow per-group job for the cancel step (written into the workspace, never into samples/).
   writeSlowJob(ws);
+  // The 96-well plate sample for the views across groups (views.cjs).
+  writePlateSample(repo, ws);
 
   // 4. code-server with the .vsix installed (the recipe's start.sh: Workspace Trust off)
   const state = path.join(work, 'state');
@@ -201,6 +204,9 @@ const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
 
     // cancel a running fit from its progress notification
     await cancelRunningFit(page, path.join(state, 'user-data', 'logs'));
+
+    // views across groups: plate map, overlay, residuals by group, group labels, three themes
+    await groupViews(page, { repo, ws, outDir });
   } catch (e) {
     failed = true;
     check('no exception while driving VS Code', false, errorSummary(e));

@@ -65,7 +65,7 @@ describe('extension/logic/panel-model (downsampling, groups)', () => {
     const g = m.groups[0];
     expect(g.rows.map((r) => r.group).slice(0, 2)).toEqual(['g5', 'g3']);
     expect(g.rows).toHaveLength(9);
-    expect(g.charts.map((c) => c.id)).toEqual(['group-rise', 'group-tau']);
+    expect(g.charts.map((c) => c.id)).toEqual(['overlay', 'residuals-by-group', 'group-rise', 'group-tau']);
     const withCharts = m.fits.filter((f) => f.charts !== null).map((f) => f.group);
     expect(withCharts).toHaveLength(3);
     expect(withCharts).toContain('g5');

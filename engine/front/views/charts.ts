@@ -61,9 +61,10 @@ export interface ChartSpec {
 const SCHEMA = 'https://vega.github.io/schema/vega-lite/v6.json';
 const NUM = CHART_FORMAT.value;
 
-type Json = Record<string, unknown>;
+export type Json = Record<string, unknown>;
 
-function config(pal: Palette): Json {
+/** The chart config of every chart (colours by palette role, font). */
+export function config(pal: Palette): Json {
   return {
     background: pal.background,
     font: FONT,
@@ -73,13 +74,15 @@ function config(pal: Palette): Json {
       labelColor: pal.muted, titleColor: pal.foreground, gridColor: pal.grid, domainColor: pal.reference,
       tickColor: pal.reference, titleFontWeight: 'normal', titleFontSize: 11, labelFontSize: 10,
     },
+    legend: { labelColor: pal.muted, titleColor: pal.foreground, titleFontWeight: 'normal' },
   };
 }
 
 /** An axis title: user text as a label only. */
-const axisTitle = (text: string): Json => ({ title: chartLabel(text) });
+export const axisTitle = (text: string): Json => ({ title: chartLabel(text) });
 
-function top(pal: Palette, title: string, subtitle: string[], width: number, height: number, body: Json): TopLevelSpec {
+/** A top-level spec: title (user text as a label), subtitle lines, size, config and body. */
+export function top(pal: Palette, title: string, subtitle: string[], width: number, height: number, body: Json): TopLevelSpec {
   const t: Json = { text: chartLabel(title) };
   if (subtitle.length) t.subtitle = subtitle;
   return { $schema: SCHEMA, title: t, width, height, config: config(pal), ...body } as unknown as TopLevelSpec;
@@ -90,7 +93,7 @@ function thinNote(t: Thinned<unknown>, noun = 'points'): string[] {
   return [`Drawing ${t.rows.length} of ${t.total} ${noun} (extremes kept); statistics use all of them.`];
 }
 
-function pointSize(n: number): number {
+export function pointSize(n: number): number {
   return n <= 60 ? 48 : n <= 500 ? 28 : n <= 2000 ? 14 : 8;
 }
 

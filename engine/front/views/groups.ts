@@ -119,7 +119,8 @@ export function groupTableBlock(table: GroupTable, rows: readonly GroupRow[] = t
   };
 }
 
-const FLAG_LABEL: Record<GroupFlag, string> = {
+/** Each group flag in words (group count line, plate-map legend). */
+export const FLAG_LABEL: Record<GroupFlag, string> = {
   failed: 'failed',
   not_converged: 'not converged',
   no_dof: 'no degrees of freedom',

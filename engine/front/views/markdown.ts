@@ -21,6 +21,8 @@ import {
 import { append, markdownTable } from './table';
 import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from './profile';
 import { flaggedPointRows, flaggedPointsNote } from './influence';
+import { detectPlates, parseWell } from './wells';
+import { sameDataFitSets } from './curves';
 import { md, mdCode, mdFence, mdHref, mdLinkText, mdText, type Markdown } from './escape';
 import {
   DETAIL_ALL_GROUPS, detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock,
@@ -38,6 +40,11 @@ export interface MarkdownOptions {
   title?: string;
   /** Chart links per fit, in `result.fits` order. Default none. */
   charts?: ChartLink[][];
+  /**
+   * Charts across curves (engine/front/views/across.ts), by `AcrossCharts.key`:
+   * a per-group fit's name, or `same-data:<fit names>`. Default none.
+   */
+  acrossCharts?: Record<string, ChartLink[]>;
   /**
    * What the spec says about itself: its leading comment block, shown under
    * "About this spec" (it carries the author's context and cautions). Default none.
@@ -81,7 +88,26 @@ export function reviewPoints(result: RunResult): string[] {
   return out;
 }
 
-function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: number): string[] {
+/** A `### heading` and the linked charts, or nothing when there are none. */
+function chartBlock(heading: string, charts: readonly ChartLink[] | undefined): string[] {
+  if (!charts?.length) return [];
+  const lines = [`### ${heading}`, ''];
+  for (const c of charts) lines.push(`![${mdLinkText(c.title)}](${mdHref(c.href)})`, '');
+  return lines;
+}
+
+/**
+ * Why a section whose labels look mostly like wells (at least half of them
+ * well names, wells.ts `parseWell`) gets no plate map; null when it gets one
+ * or its labels are not well-like at all.
+ */
+export function plateNote(labels: readonly string[]): string | null {
+  const d = detectPlates(labels);
+  if (d.layout || labels.filter((l) => parseWell(l) !== null).length * 2 < labels.length) return null;
+  return `No plate map: ${d.notPlates}.`;
+}
+
+function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: number, charts?: readonly ChartLink[]): string[] {
   const t = section.table;
   const lines = [`## ${mdText(groupHeading(section))}`, '', mdText(groupCountLine(t)), ''];
   const table = groupTableBlock(t);
@@ -90,6 +116,11 @@ function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: n
   append(lines, '### Across converged groups', '', markdownTable(summary.headers, summary.rows, summary.align), '');
   const worst = worstGroupLines(t);
   if (worst.length) append(lines, '### Worst groups', '', worst.map((w) => `- ${mdText(w)}`), '');
+  if (charts?.length) {
+    append(lines, chartBlock('Charts across groups', charts));
+    const plates = plateNote(section.table.rows.map((r) => r.group));
+    if (plates) lines.push(mdText(plates), '');
+  }
   const note = detailNote(section, shown);
   if (note) lines.push(mdText(note), '');
   return lines;
@@ -183,8 +214,15 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
       continue;
     }
     const shown = detailIndices(s);
-    append(lines, groupSection(s, shown.length));
+    append(lines, groupSection(s, shown.length, opts.acrossCharts?.[s.name]));
     for (const i of shown) append(lines, fitSection(result.fits[i], opts.charts?.[i] ?? []));
+  }
+
+  for (const set of sameDataFitSets(result.fits)) {
+    const charts = opts.acrossCharts?.[`same-data:${set.name}`];
+    if (!charts?.length) continue;
+    append(lines, `## ${mdText(`Fits of the same data: ${set.name}`)}`, '', mdText(`${set.curves.length} fits of ${set.response} against ${set.predictor} on the same rows, drawn together.`), '');
+    append(lines, chartBlock('Charts', charts));
   }
 
   const blocks = queryBlocks(result);

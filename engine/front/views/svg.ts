@@ -5,7 +5,9 @@
  * the SVG names a system font stack (palette.ts) that viewers resolve locally.
  */
 import type { TopLevelSpec } from 'vega-lite';
-import type { FitResult } from '../../result';
+import type { FitResult, RunResult } from '../../result';
+import { acrossCharts } from './across';
+import type { GroupChartOptions } from './group-charts';
 import { chartSpecs, type ChartId, type ChartOptions } from './charts';
 export { chartFileName } from './charts';
 import { loadVega } from './vega-runtime';
@@ -53,4 +55,21 @@ export async function chartSvgs(fit: FitResult, opts?: ChartOptions): Promise<Re
   const out: RenderedChart[] = [];
   for (const c of chartSpecs(fit, opts)) out.push({ id: c.id, title: c.title, svg: await renderSvg(c.spec) });
   return out;
+}
+
+/** Every across-curve chart of a run as SVG (across.ts `acrossCharts`), grouped as there. */
+export async function acrossChartSvgs(result: RunResult, opts?: GroupChartOptions): Promise<{ key: string; charts: RenderedAcrossChart[] }[]> {
+  const out: { key: string; charts: RenderedAcrossChart[] }[] = [];
+  for (const a of acrossCharts(result, opts)) {
+    const charts: RenderedAcrossChart[] = [];
+    for (const c of a.charts) charts.push({ id: c.id, title: c.title, svg: await renderSvg(c.spec) });
+    out.push({ key: a.key, charts });
+  }
+  return out;
+}
+
+export interface RenderedAcrossChart {
+  id: string;
+  title: string;
+  svg: string;
 }

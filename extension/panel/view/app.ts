@@ -10,7 +10,7 @@ import type { FromPage } from '../../logic/panel-protocol';
 import type { PanelModel } from '../../logic/panel-model';
 import { finalizeCharts } from './charts';
 import { clear, h } from './dom';
-import { checksSection, fitSection, groupSection, type SectionEvents } from './sections';
+import { checksSection, fitSection, groupSection, sameDataSection, type SectionEvents } from './sections';
 
 export interface AppState {
   model?: PanelModel;
@@ -157,6 +157,8 @@ function main(m: PanelModel, selected: string, host: AppHost, token: number): HT
     if (f) {
       shownFitKey = f.key;
       el.append(fitSection(f, events, pending, width));
+      const same = sameDataSection(m, f.key, events, pending, width);
+      if (same) el.append(same);
     }
     const checks = checksSection(m);
     if (checks && m.fits.filter((x) => x.group === undefined).length === 1) el.append(checks);

@@ -7,6 +7,7 @@
 import type { PanelChart, PanelFit, PanelGroupTable, PanelModel } from '../../logic/panel-model';
 import { chartFigure, type ChartEvents } from './charts';
 import { h, table } from './dom';
+import { isPlateChart, plateMaps } from './plate';
 
 export interface SectionEvents extends ChartEvents {
   onReveal: (fit: string, param?: string) => void;
@@ -98,9 +99,11 @@ export function groupSection(g: PanelGroupTable, selected: string | undefined, e
     caption: 'Groups, worst first (click a row for its fit)',
   });
   const charts = h('div', { class: 'lw-charts' });
-  fillCharts(charts, g.charts, events, pending, width);
+  fillCharts(charts, g.charts.filter((c) => !isPlateChart(c)), events, pending, width);
+  const plates = plateMaps(g.fit, g.charts.filter(isPlateChart), events, pending, width);
   return h('section', { class: 'lw-group', data: { fit: g.fit } },
     h('header', { class: 'lw-fit-head' }, h('h2', null, `${g.fit} — per group`), ...g.summary.map((s) => h('p', { class: 'lw-muted' }, s))),
+    plates,
     h('div', { class: 'lw-scroll' }, tbl),
     charts,
   );
@@ -129,4 +132,13 @@ export function checksSection(m: PanelModel): HTMLElement | null {
 /** A key made safe for an element id. */
 export function cssId(key: string): string {
   return key.replace(/[^A-Za-z0-9_-]/g, (c) => `_${c.charCodeAt(0).toString(16)}`);
+}
+
+/** The charts of the fits of the same data as fit `key` (model.sameData), or null when it has none. */
+export function sameDataSection(m: PanelModel, key: string, events: ChartEvents, pending: Promise<void>[], width: number): HTMLElement | null {
+  const set = m.sameData?.find((s) => s.fits.includes(key));
+  if (!set) return null;
+  const charts = h('div', { class: 'lw-charts' });
+  fillCharts(charts, set.charts, events, pending, width);
+  return h('section', { class: 'lw-same-data', data: { fits: set.fits.join(',') } }, h('h3', null, 'Fits of the same data'), charts);
 }

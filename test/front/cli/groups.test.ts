@@ -173,8 +173,14 @@ fit through_zero on rig {
     expect(md).toContain('| stiffness (13 groups) | yes | 122 | per group |');
     expect(md.match(/^## Fit stiffness \[[^\]]+\]/gm)).toEqual(['## Fit stiffness [S50]']);
     const charts = readdirSync(join(dir, 'report-charts'));
-    expect(charts).toHaveLength(5);
-    expect(charts.filter((f) => f.startsWith('stiffness-S50-'))).toEqual(charts);
+    const perFit = charts.filter((f) => !f.includes('~groups-'));
+    expect(perFit).toHaveLength(5);
+    expect(perFit.filter((f) => f.startsWith('stiffness-S50-'))).toEqual(perFit);
+    // the charts across groups: overlay, residuals by group, each parameter; no plate map (S07… are not well names: row S is beyond P)
+    expect(charts.filter((f) => f.includes('~groups-')).sort()).toEqual(['stiffness~groups-group-k.svg', 'stiffness~groups-group-preload.svg', 'stiffness~groups-overlay.svg', 'stiffness~groups-residuals-by-group.svg']);
+    expect(md).toContain('### Charts across groups');
+    expect(md).toContain('![stiffness: every group\'s curve](report-charts/stiffness~groups-overlay.svg)');
+    expect(md).not.toContain('plate map');
   });
 });
 
