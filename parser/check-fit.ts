@@ -100,7 +100,8 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
   };
   if (sigma) block.sigma = sigma;
   if (weight) block.weight = weight;
-  if (modelUse.columns.length === 1) block.predictor = modelUse.columns[0];
+  // (an unknown name is no predictor: completion and queries would follow the misspelling)
+  if (modelUse.columns.length === 1 && modelUse.unresolved.length === 0) block.predictor = modelUse.columns[0];
 
   const isLinearIn = env.ctx.isLinearIn;
   if (isLinearIn && options.method === 'linear' && first && !modelUse.broken && params.every((p) => !p.fixed || p.initial !== undefined)) {
@@ -121,6 +122,7 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
     params: [...paramNames],
     modelColumns: modelUse.columns,
     responseColumns: responseUse.columns,
+    unresolved: { model: modelUse.unresolved, response: responseUse.unresolved },
     incomplete: !first || modelUse.broken || responseUse.broken,
   };
 }
