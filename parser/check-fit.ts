@@ -29,7 +29,9 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
       d.used = true;
       columns = d.headers;
     } else if (env.declared.data.has(dataName)) {
-      r.report('declared_later', MSG.declaredLater('data', dataName, env.declared.data.get(dataName)!), fit.data.range);
+      // declared above but unreadable (its syntax error is reported there): nothing more to say here
+      const line = env.declared.data.get(dataName)!;
+      if (line > fit.data.range.start.line) r.report('declared_later', MSG.declaredLater('data', dataName, line), fit.data.range);
     } else {
       r.report('unknown_data', MSG.unknownData(dataName), fit.data.range, env.suggester.suggest(dataName, env.data.keys()));
     }
