@@ -11,7 +11,9 @@
 // -> hover a parameter for its estimate -> screenshot -> export the Markdown
 // report -> scaffold a new spec from the CSV (QuickPicks: x, y, model) ->
 // fit on save -> cancel a long fit from its progress notification
-// (cancel.cjs) -> then a second server with Workspace Trust on for the
+// (cancel.cjs) -> edit the dose-response sample (editor.cjs: one diagnostic for
+// one misspelling, unclosed-parenthesis range, bounds quick fixes, completion
+// order, semantic colours in three themes with screenshots) -> then a second server with Workspace Trust on for the
 // Restricted Mode checks (restricted.cjs). No sleeps: every step waits for a
 // condition. Last line: "N passed, N failed"; exit 1 on failure.
 //
@@ -31,6 +33,7 @@ const outDir = path.resolve(process.env.E2E_OUT || path.join(repo, 'test', 'arti
 const { secs, check, anyFailed, finish, waitForFile, freePort, run, quickInput, startRecipeServer, openBrowser, webviewFrame, errorSummary } = require('./harness.cjs');
 const { restrictedMode } = require('./restricted.cjs');
 const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
+const { writeEditorSpecs, editorChecks } = require('./editor.cjs');
 
 (async () => {
   fs.mkdirSync(outDir, { recursive: true });
@@ -59,6 +62,8 @@ const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
 
   // A slow per-group job for the cancel step (written into the workspace, never into samples/).
   writeSlowJob(ws);
+  // The dose-response sample for the editing steps (editor.cjs), as dose/ in the workspace.
+  writeEditorSpecs(repo, ws);
 
   // 4. code-server with the .vsix installed (the recipe's start.sh: Workspace Trust off)
   const state = path.join(work, 'state');
@@ -201,6 +206,9 @@ const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
 
     // cancel a running fit from its progress notification
     await cancelRunningFit(page, path.join(state, 'user-data', 'logs'));
+
+    // editing: no cascade from a misspelling, unclosed ranges, bounds fixes, completion order, theme colours (editor.cjs)
+    await editorChecks(page, { repo, ws, outDir });
   } catch (e) {
     failed = true;
     check('no exception while driving VS Code', false, errorSummary(e));
