@@ -8,10 +8,15 @@
  *   identifier or the written one was quoted); the first is preferred.
  * - a start value outside its bounds (`initial_outside_bounds`): move the
  *   start inside (preferred), or widen the bound it crosses.
+ * - `predict … at NAME` against a model that reads a near spelling of NAME,
+ *   with the data's header not read: either name may be the typo, so the fix
+ *   in each direction, neither preferred.
  */
 import type { Diagnostic } from '../../parser/plan';
 import type { EditorAnalysis } from './analysis';
 import { paramAsts } from './declarations';
+import { mapLeaves } from '../../parser/plan-expr';
+import { suggest } from '../../parser/suggest';
 import { spanOf, type Span } from './text';
 
 export interface LsqEdit extends Span {
@@ -38,7 +43,42 @@ export function fixesFor(a: EditorAnalysis, d: Diagnostic): LsqFix[] {
     preferred: i === 0,
   }));
   if (d.code === 'initial_outside_bounds') out.push(...boundsFixes(a, at));
+  if (d.code === 'predictor_mismatch' && out.length === 1) return predictorFixes(a, at, current, out[0]);
   return out;
+}
+
+/**
+ * `predict FIT at NAME` where the fit's model reads a near spelling of NAME. With the header read, the checker
+ * reports a misspelt model column on the model line and never this (parser/check-queries.ts), so the model's
+ * name is a real column and the fix toward it stands. With the header not read, either name may be the typo:
+ * both directions are offered, neither preferred: this line to the model's name, or the model's name (each
+ * place the model reads it) to this one.
+ */
+function predictorFixes(a: EditorAnalysis, at: Span, written: string, toModel: LsqFix): LsqFix[] {
+  const fitName = /^\s*predict\s+([A-Za-z_]\w*)/.exec(lineOf(a.text, at.start))?.[1];
+  const fit = a.plan.fits.find((f) => f.name === fitName);
+  const block = fit?.blocks[0];
+  const modelName = toModel.edits[0].newText.replace(/^"|"$/g, '');
+  const read = a.data.find((x) => x.name === block?.data)?.state === 'found';
+  const name = written.replace(/^"|"$/g, '');
+  if (!fit || !block || read || suggest(name, [modelName]).length === 0) return [toModel];
+  const uses: LsqEdit[] = [];
+  mapLeaves(block.model, (e) => {
+    if (e.kind === 'column' && e.name === modelName && e.range) {
+      const span = spanOf(e.range);
+      const old = a.text.slice(span.start, span.end);
+      uses.push({ ...span, oldText: old, newText: old.startsWith('"') || !IDENT.test(name) ? `"${name}"` : name });
+    }
+    return e;
+  });
+  if (!uses.length) return [toModel];
+  return [{ ...toModel, preferred: false }, { title: `Change '${modelName}' in the model of ${fit.name} to '${name}'`, edits: uses }];
+}
+
+function lineOf(text: string, offset: number): string {
+  const start = text.lastIndexOf('\n', offset - 1) + 1;
+  const end = text.indexOf('\n', offset);
+  return text.slice(start, end < 0 ? text.length : end);
 }
 
 /** "Move the start inside" and "widen the bound" for the start value written at `at`. */

@@ -71,3 +71,26 @@ describe('extension/logic/fixes', () => {
     expect(widenedBound(50, 0, 100)).toBeUndefined();
   });
 });
+
+describe('extension/logic/fixes: predict against a near spelling in the model', () => {
+  const text = COOLING.replace('exp(-time_min', 'exp(-time_mn');
+  it('with the header read there is no predict error at all (the model line has the error)', () => {
+    const ds = specDiagnostics(analysisOf(text));
+    expect(ds.filter((d) => d.code === 'predictor_mismatch')).toEqual([]);
+  });
+
+  it('with the header not read, offers both directions, neither preferred', () => {
+    const d = specDiagnostics(analysisOf(text, 'unknown')).find((x) => x.code === 'predictor_mismatch')!;
+    expect(d.fixes?.map((f) => [f.title, f.preferred ?? false])).toEqual([
+      ["Change to 'time_mn'", false],
+      ["Change 'time_mn' in the model of newton to 'time_min'", false],
+    ]);
+    expect(apply(text, d.fixes![1])).toBe(COOLING);
+  });
+
+  it('keeps the one preferred fix for a name that is no near spelling (another column chosen)', () => {
+    const other = COOLING.replace('predict newton at time_min', 'predict newton at batch');
+    const d = specDiagnostics(analysisOf(other, 'unknown')).find((x) => x.code === 'predictor_mismatch')!;
+    expect(d.fixes?.map((f) => [f.title, f.preferred])).toEqual([["Change to 'time_min'", true]]);
+  });
+});
