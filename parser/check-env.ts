@@ -49,6 +49,8 @@ export interface FitInfo {
   modelColumns: string[];
   /** Columns read by the response side (left of `=`). */
   responseColumns: string[];
+  /** Names of the model side / response side reported as unknown (`ExprUse.unresolved`): a query is not checked against them. */
+  unresolved: { model: string[]; response: string[] };
   /** The fit had problems that make predictor checks meaningless (no model, syntax errors in it...). */
   incomplete: boolean;
 }

@@ -44,9 +44,16 @@ export interface ExprUse {
   params: Set<string>;
   /** Contains a piece the parser could not read. */
   broken: boolean;
+  /**
+   * Names reported as unknown (headers known, the name none of a parameter,
+   * constant or column). Still listed in `columns`, so the plan keeps its
+   * shape, but later checks must not take them for real columns: a query
+   * naming the real column is not told to follow the misspelling.
+   */
+  unresolved: string[];
 }
 
-export const newUse = (): ExprUse => ({ columns: [], params: new Set(), broken: false });
+export const newUse = (): ExprUse => ({ columns: [], params: new Set(), broken: false, unresolved: [] });
 
 const isLogicChain = (e: ExprAst): boolean => e.kind === 'chain' && (e.ops[0] === 'and' || e.ops[0] === 'or');
 const isCondition = (e: ExprAst): boolean => e.kind === 'compare' || e.kind === 'logic' || e.kind === 'not' || isLogicChain(e);
@@ -125,6 +132,7 @@ function resolveName(env: Env, name: string, quoted: boolean, range: Range, scop
       const candidates = [scope.allowParams ? scope.params : [], env.consts.keys(), scope.columns, BUILTIN_CONSTANT_NAMES];
       env.r.report('undefined_name', MSG.undefinedName(name), range, env.suggester.suggest(name, candidates));
     }
+    if (!use.unresolved.includes(name)) use.unresolved.push(name);
   }
   addColumn(use, name);
   return { kind: 'column', name, range };

@@ -29,7 +29,9 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
       d.used = true;
       columns = d.headers;
     } else if (env.declared.data.has(dataName)) {
-      r.report('declared_later', MSG.declaredLater('data', dataName, env.declared.data.get(dataName)!), fit.data.range);
+      // declared above but unreadable (its syntax error is reported there): nothing more to say here
+      const line = env.declared.data.get(dataName)!;
+      if (line > fit.data.range.start.line) r.report('declared_later', MSG.declaredLater('data', dataName, line), fit.data.range);
     } else {
       r.report('unknown_data', MSG.unknownData(dataName), fit.data.range, env.suggester.suggest(dataName, env.data.keys()));
     }
@@ -100,7 +102,8 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
   };
   if (sigma) block.sigma = sigma;
   if (weight) block.weight = weight;
-  if (modelUse.columns.length === 1) block.predictor = modelUse.columns[0];
+  // (an unknown name is no predictor: completion and queries would follow the misspelling)
+  if (modelUse.columns.length === 1 && modelUse.unresolved.length === 0) block.predictor = modelUse.columns[0];
 
   const isLinearIn = env.ctx.isLinearIn;
   if (isLinearIn && options.method === 'linear' && first && !modelUse.broken && params.every((p) => !p.fixed || p.initial !== undefined)) {
@@ -121,6 +124,7 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
     params: [...paramNames],
     modelColumns: modelUse.columns,
     responseColumns: responseUse.columns,
+    unresolved: { model: modelUse.unresolved, response: responseUse.unresolved },
     incomplete: !first || modelUse.broken || responseUse.broken,
   };
 }

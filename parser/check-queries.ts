@@ -41,17 +41,27 @@ export function checkQuery(env: Env, q: PredictAst): Query | undefined {
   if (fit && col && !fit.incomplete) {
     const cols = fit.modelColumns;
     const fitName = fit.plan.name;
+    const data = fit.plan.blocks[0]?.data ?? '';
+    const headers = env.data.get(data)?.headers;
+    // A fit whose own model (or response) names an unknown column is wrong there, and reported there: the
+    // query is then checked against the data only, never told to follow the misspelling.
+    const modelOk = fit.unresolved.model.length === 0;
+    const responseOk = fit.unresolved.response.length === 0;
+    const side = q.kind === 'predict' ? modelOk : responseOk;
+    if (!side && headers && !headers.has(col.name)) {
+      env.r.report('unknown_column', MSG.unknownColumn(col.name, data), col.range, env.suggester.suggest(col.name, headers));
+    }
     // The same rules as the engine's queries (engine/run/queries.ts), which keep them as a guard.
     if (q.kind === 'predict') {
-      if (cols.length === 1 && cols[0] !== col.name) {
+      if (modelOk && cols.length === 1 && cols[0] !== col.name) {
         env.r.report('predictor_mismatch', MSG.predictorOther(fitName, cols[0], col.name), col.range, [cols[0]]);
-      } else if (cols.length !== 1) {
+      } else if (modelOk && cols.length !== 1) {
         env.r.report('predictor_mismatch', MSG.needsOnePredictor('predict', fitName, cols), col.range);
       }
     } else {
-      if (cols.length !== 1) env.r.report('predictor_mismatch', MSG.needsOnePredictor('invert', fitName, cols), q.fit!.range);
+      if (modelOk && cols.length !== 1) env.r.report('predictor_mismatch', MSG.needsOnePredictor('invert', fitName, cols), q.fit!.range);
       const resp = fit.responseColumns;
-      if (resp.length !== 1 || resp[0] !== col.name) {
+      if (responseOk && (resp.length !== 1 || resp[0] !== col.name)) {
         env.r.report('response_mismatch', MSG.responseMismatch(fitName, col.name, resp), col.range, resp.includes(col.name) ? undefined : resp.slice(0, 3));
       }
     }

@@ -74,6 +74,7 @@ const list = (xs: readonly string[]): string => xs.map(q).join(', ');
 
 export const MSG = {
   unterminatedString: 'this text has no closing " on its line',
+  unclosed: (opener: string, expected: string) => `${q(opener)} is not closed: ${expected}`,
   unexpectedCharacter: (ch: string) => `unexpected character ${q(ch)}`,
   internal: (detail: string) => `internal parser problem (please report it with the spec): ${detail}`,
   nestedTooDeeply: (limit: number) =>

@@ -7,11 +7,12 @@ import { EOF, type IRecognitionException, type IToken, type ILexingError } from 
 import type { SpecAst } from './ast';
 import type { Diagnostic, Range } from './plan';
 import { getParser } from './grammar';
-import { FIRST_ON_LINE, lexer, markLineStarts } from './tokens';
+import { FIRST_ON_LINE, LBracket, RBracket, lexer, markLineStarts } from './tokens';
 import { LineIndex, EMPTY_RANGE, tokenRange } from './source';
 import { toAst } from './to-ast';
 import { limitNesting } from './nesting';
 import { MSG } from './messages';
+import { CLOSERS, unclosedOpener } from './unclosed';
 
 export interface ParseResult {
   ast: SpecAst;
@@ -35,8 +36,13 @@ export function parseSpec(text: string): ParseResult {
     const parser = getParser();
     parser.input = limited.tokens;
     const cst = parser.spec();
-    const lastToken = limited.tokens[limited.tokens.length - 1];
-    for (const e of parser.errors) diagnostics.push(parseDiagnostic(e, lastToken, lines));
+    const unterminated = lexed.groups.unterminated ?? [];
+    for (const e of parser.errors) {
+      const d = parseDiagnostic(e, limited.tokens, lines);
+      // "expected a text at the end of this line" where the text is there but unclosed: that is reported already
+      if (d.message.endsWith(LINE_END) && unterminated.some((u) => u.startLine === d.range.end.line && u.startOffset >= d.range.end.offset)) continue;
+      diagnostics.push(d);
+    }
     const built = toAst(cst, source);
     const ast = built.ast;
     for (const d of built.diagnostics) diagnostics.push(d);
@@ -52,22 +58,57 @@ function lexDiagnostic(e: ILexingError, text: string, lines: LineIndex): Diagnos
   return { severity: 'error', code: 'syntax', message: MSG.unexpectedCharacter(ch), range: lines.range(e.offset, e.offset + Math.max(1, e.length)) };
 }
 
-function parseDiagnostic(e: IRecognitionException, lastToken: IToken | undefined, lines: LineIndex): Diagnostic {
+const LINE_END = ' at the end of this line';
+
+/**
+ * A `[` the lexer could not read as a unit and nothing closes on its line
+ * (`[mg`): the parser reports whatever it expected there; the missing `]` is the error.
+ */
+function unclosedBracket(tok: IToken, tokens: readonly IToken[], lines: LineIndex): Diagnostic | undefined {
+  if (tok.tokenType !== LBracket) return undefined;
+  let last = tok;
+  for (let i = tokens.indexOf(tok) + 1; i < tokens.length && tokens[i].startLine === tok.startLine; i++) {
+    if (tokens[i].tokenType === RBracket) return undefined;
+    last = tokens[i];
+  }
+  return { severity: 'error', code: 'syntax', message: MSG.unclosed('[', `expected ']'${LINE_END}`), range: lines.range(tok.startOffset, (last.endOffset ?? last.startOffset) + 1) };
+}
+
+function parseDiagnostic(e: IRecognitionException, tokens: readonly IToken[], lines: LineIndex): Diagnostic {
+  const lastToken = tokens[tokens.length - 1];
   let range: Range;
   let message = e.message;
   const tok = e.token;
   const prevTok = (e as { previousToken?: IToken }).previousToken;
   const prevReal = prevTok && prevTok.tokenType !== EOF && Number.isFinite(prevTok.startOffset) ? prevTok : undefined;
+  /** The last token read before the error (where the construct being read ends). */
+  let lastRead: IToken | undefined;
+  /** Where the parser stopped: the unexpected token, or the end of the input. */
+  let stop: number;
   if (tok && tok.tokenType !== EOF && Number.isFinite(tok.startOffset)) {
+    const bracket = unclosedBracket(tok, tokens, lines);
+    if (bracket) return bracket;
     // Something missing at the end of a line is shown on that line, not on the next statement.
     const missingAtLineEnd = prevReal && e.name !== 'NotAllInputParsedException' && tok.payload === FIRST_ON_LINE && (prevReal.endLine ?? 0) < (tok.startLine ?? 0);
     range = missingAtLineEnd ? tokenRange(prevReal) : tokenRange(tok);
-    if (missingAtLineEnd) message = message.replace(/ but found .*$/s, ' at the end of this line');
+    if (missingAtLineEnd) message = message.replace(/ but found .*$/s, LINE_END);
+    lastRead = prevReal;
+    stop = tok.startOffset;
   } else {
     // At the end of the input (or on an invented token): point at the last token read, where something is missing.
-    const prev = (e as { previousToken?: IToken }).previousToken;
-    const anchor = prev && Number.isFinite(prev.startOffset) ? prev : lastToken;
+    const anchor = prevReal ?? lastToken;
     range = anchor ? tokenRange(anchor) : lines.range(lines.text.length, lines.text.length);
+    lastRead = anchor;
+    stop = lines.text.length;
+  }
+  // A missing `)`, `]` or `}`: cover the construct from its opener through the last token read.
+  const closer = e.name === 'MismatchedTokenException' ? CLOSERS.find((c) => message.startsWith(`expected ${c.LABEL} `)) : undefined;
+  const opener = closer && lastRead ? unclosedOpener(tokens, stop, closer) : undefined;
+  if (opener && lastRead && lastRead.startOffset >= opener.startOffset) {
+    range = lines.range(opener.startOffset, (lastRead.endOffset ?? lastRead.startOffset) + 1);
+    // (a block left open over lines: "this line" would not say which)
+    const endLine = lastRead.endLine ?? lastRead.startLine ?? 0;
+    message = MSG.unclosed(opener.image, endLine > (opener.startLine ?? 0) ? `expected ${closer!.LABEL} after line ${endLine}` : message);
   }
   return { severity: 'error', code: 'syntax', message, range };
 }

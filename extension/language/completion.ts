@@ -19,6 +19,7 @@ const KIND: Record<CompletionKind, vscode.CompletionItemKind> = {
 export function toCompletionItem(c: LsqCompletion): vscode.CompletionItem {
   const item = new vscode.CompletionItem(c.label, KIND[c.kind]);
   if (c.detail) item.detail = c.detail;
+  if (c.sortText) item.sortText = c.sortText;
   if (c.documentation) item.documentation = new vscode.MarkdownString(c.documentation);
   if (c.snippet) item.insertText = new vscode.SnippetString(c.snippet);
   else if (c.insertText) item.insertText = c.insertText;

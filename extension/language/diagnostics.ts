@@ -3,7 +3,7 @@
  * changes) and after every run, `specDiagnostics` (logic/diagnostics.ts)
  * gives the plain findings, mapped here to vscode.Diagnostic. Removed when
  * the document closes. The last LsqDiagnostics per document are kept for the
- * quick-fix provider (suggestions).
+ * quick-fix provider (their `fixes`, with the analysis they were made on).
  */
 import * as vscode from 'vscode';
 import type { LwContext } from '../context';
@@ -20,8 +20,8 @@ const SEVERITY: Record<LsqSeverity, vscode.DiagnosticSeverity> = {
 };
 const SOURCE: Record<LsqDiagnostic['source'], string> = { syntax: 'leastwise', data: 'leastwise (data)', fit: 'leastwise (fit)' };
 
-/** Last findings per document uri, with their vscode twins (for quick fixes). */
-export const published = new Map<string, { lsq: LsqDiagnostic; vs: vscode.Diagnostic }[]>();
+/** Last findings per document uri, with their vscode twins and the analysis they were made on (for quick fixes). */
+export const published = new Map<string, { analysis: EditorAnalysis; items: { lsq: LsqDiagnostic; vs: vscode.Diagnostic }[] }>();
 
 export function toVscodeDiagnostic(analysis: EditorAnalysis, d: LsqDiagnostic): vscode.Diagnostic {
   const idx = lineIndex(analysis, analysis.text);
@@ -39,7 +39,7 @@ export function registerDiagnostics(ctx: LwContext): vscode.DiagnosticCollection
   const publish = (uri: vscode.Uri, analysis: EditorAnalysis): void => {
     const run = ctx.runs.get(uri)?.run;
     const items = specDiagnostics(analysis, run).map((lsq) => ({ lsq, vs: toVscodeDiagnostic(analysis, lsq) }));
-    published.set(uri.toString(), items);
+    published.set(uri.toString(), { analysis, items });
     collection.set(uri, items.map((i) => i.vs));
   };
   const analyseSoon = (doc: vscode.TextDocument, delay?: number): void => {

@@ -9,6 +9,7 @@ import {
   CONSTANT_NAMES, MEMBERS, EXPRESSION_CONSTANTS, FUNCTION_NAMES, FUNCTION_SPECS, LOSSES, LOSS_SPECS, METHODS, METHOD_SPECS, PROFILE_MODES, RESERVED_ROLES, STATISTICS, keywordsWithRole,
 } from '../../parser/registry';
 import { columnsOf, type EditorAnalysis } from './analysis';
+import { columnsOf as exprColumns } from '../../parser/plan-expr';
 import { constantDoc, keywordDoc, statisticDoc } from './function-docs';
 import { dataOfFit, enclosingFit, scanEnclosingFit } from './declarations';
 import { blankComments, linePrefix } from './text';
@@ -25,6 +26,11 @@ export interface LsqCompletion {
   insertText?: string;
   /** Snippet to insert (`exp($1)`), takes precedence over insertText. */
   snippet?: string;
+  /**
+   * Order in the list (compared as text), set where some kinds come first: the editor sorts by label
+   * otherwise, which would mix columns and functions alphabetically where a column is expected.
+   */
+  sortText?: string;
 }
 
 export interface CompletionEnv {
@@ -61,22 +67,32 @@ export function completionsAt(a: EditorAnalysis, offset: number, env: Completion
   if ((m = /^\s*derive\s+\w+\s*=.*?\b([A-Za-z_]\w*)\.\w*$/.exec(prefix))) return fitMembers(a, m[1]);
   if (/^\s*derive\s+\w+\s*=/.test(prefix)) return [...fitNames(a), ...derivedNames(a, /^\s*derive\s+(\w+)/.exec(prefix)?.[1]), ...constants(a), ...functions()];
   if (/^\s*(predict|invert)\s+\w+\s+\w*$/.test(prefix)) return keywords(['at']);
-  if ((m = /^\s*(predict|invert)\s+(\w+)\s+at\s+\w*$/.exec(prefix))) return queryColumn(a, m[2], m[1] as 'predict' | 'invert');
+  if ((m = /^\s*(predict|invert)\s+(\w+)\s+at\s+\w*$/.exec(prefix))) return ranked([queryColumn(a, m[2], m[1] as 'predict' | 'invert')]);
   if ((m = /^\s*expect\s+(\w+)\.(\w+)\.\w*$/.exec(prefix))) return members(m[2]);
   if ((m = /^\s*expect\s+(\w+)\.\w*$/.exec(prefix))) {
     if (a.plan.derived?.some((d) => d.name === m![1])) return members(m[1]);
     return fitMembers(a, m[1]);
   }
   if (/^\s*expect\s+\S+\s+\w*$/.test(prefix)) return keywords(['within', 'above', 'below']);
-  if (/^\s*per\s+\w*$/.test(prefix) && fitName) return columns(a, fitName);
+  if (/^\s*per\s+\w*$/.test(prefix) && fitName) return ranked([columns(a, fitName)]);
   if (/^\s*param\s+\w*$/.test(prefix) && fitName) return undeclaredNames(a, fitName);
   if (/^\s*param\s+\w+.*\s\w*$/.test(prefix)) return keywords(['in', 'fixed']);
   if ((m = /^\s*data\s+\w+\s*=\s*"[^"]*"\s+.*\bwhere\b/.exec(prefix))) {
     const data = /^\s*data\s+(\w+)/.exec(prefix)?.[1] ?? '';
-    return [...functions(), ...columnItems(columnsOf(a, data) ?? [], data), ...constants(a)];
+    return ranked([columnItems(columnsOf(a, data) ?? [], data), constants(a), functions()]);
   }
-  if (inFit && fitName && /\b(model|sigma|weight)\b/.test(prefix)) return expression(a, fitName);
+  if (inFit && fitName) {
+    // where a column is expected (a response, sigma, weight: parameters are not allowed there) columns come
+    // first; on the model side the fit's parameters, then its columns; then constants, then functions
+    if (/^\s*(sigma|weight)\b/.test(prefix) || /^\s*model\b[^=]*$/.test(prefix)) return ranked([columns(a, fitName), constants(a), functions()]);
+    if (/^\s*model\b/.test(prefix)) return ranked([params(a, fitName), columns(a, fitName), constants(a), functions()]);
+  }
   return [];
+}
+
+/** Items in groups, each group before the next (alphabetical within a group), by `sortText`. */
+export function ranked(groups: readonly LsqCompletion[][]): LsqCompletion[] {
+  return groups.flatMap((g, i) => g.map((c) => ({ ...c, sortText: `${String(i).padStart(2, '0')} ${c.label}` })));
 }
 
 function keywords(words: readonly string[]): LsqCompletion[] {
@@ -118,7 +134,14 @@ function queryColumn(a: EditorAnalysis, fit: string, kind: 'predict' | 'invert')
   const f = a.plan.fits.find((x) => x.name === fit);
   const block = f?.blocks[0];
   if (!block) return [];
-  if (kind === 'predict') return block.predictor ? columnItems([block.predictor], block.data) : columnItems(block.columns, block.data);
+  if (kind === 'predict') {
+    if (block.predictor) return columnItems([block.predictor], block.data);
+    // no single predictor (several, or a name the header lacks): the model's real columns, else the header's
+    const header = columnsOf(a, block.data);
+    const response = exprColumns(block.response);
+    const used = exprColumns(block.model).filter((c) => (header ? header.includes(c) : true) && !response.includes(c));
+    return columnItems(used.length ? used : (header ?? []).filter((c) => !response.includes(c)), block.data);
+  }
   return block.response.kind === 'column' ? columnItems([block.response.name], block.data) : [];
 }
 
@@ -155,10 +178,6 @@ function constants(a: EditorAnalysis): LsqCompletion[] {
   const named = a.plan.constants.map((c) => ({ label: c.name, kind: 'constant' as const, detail: `const = ${c.value}${c.unit ? ` [${c.unit}]` : ''}` }));
   const builtin = EXPRESSION_CONSTANTS.map((c) => ({ label: c, kind: 'constant' as const, detail: constantDoc(c) }));
   return [...named, ...builtin];
-}
-
-function expression(a: EditorAnalysis, fit: string): LsqCompletion[] {
-  return [...params(a, fit), ...columns(a, fit), ...constants(a), ...functions()];
 }
 
 /**

@@ -20,6 +20,7 @@ import type { EditorAnalysis } from './analysis';
 import { findFit, findParam, findExpectation, findData, modelSpan } from './declarations';
 import { firstLine, spanOf, type Span } from './text';
 import { dataFileText } from './data-files';
+import { fixesFor, type LsqFix } from './fixes';
 
 export type LsqSeverity = Severity | 'hint';
 /** Where a diagnostic comes from; the adapter shows it as the diagnostic's source. */
@@ -33,6 +34,8 @@ export interface LsqDiagnostic extends Span {
   source: LsqSource;
   /** Names offered by the "did you mean" quick fix. */
   suggestions?: string[];
+  /** Quick fixes (logic/fixes.ts): "did you mean" edits and others, such as moving a start inside its bounds. */
+  fixes?: LsqFix[];
 }
 
 /** Severity of each fit warning in the editor. */
@@ -65,16 +68,21 @@ const MODEL_WARNINGS: readonly WarningCode[] = ['residual_pattern', 'non_normal_
 /** All diagnostics of a spec, sorted by position. */
 export function specDiagnostics(analysis: EditorAnalysis, run?: RunResult): LsqDiagnostic[] {
   const out: LsqDiagnostic[] = [
-    ...analysis.diagnostics.map(fromParser),
+    ...analysis.diagnostics.map((d) => fromParser(analysis, d)),
     ...dataDiagnostics(analysis),
     ...(run ? fitDiagnostics(analysis, run) : []),
   ];
   return out.sort((a, b) => a.start - b.start || a.end - b.end);
 }
 
-function fromParser(d: Diagnostic): LsqDiagnostic {
+function fromParser(analysis: EditorAnalysis, d: Diagnostic): LsqDiagnostic {
   const s = spanOf(d.range);
-  return { ...s, severity: d.severity, code: d.code, message: d.message, source: 'syntax', ...(d.suggestions?.length ? { suggestions: [...d.suggestions] } : {}) };
+  const fixes = fixesFor(analysis, d);
+  return {
+    ...s, severity: d.severity, code: d.code, message: d.message, source: 'syntax',
+    ...(d.suggestions?.length ? { suggestions: [...d.suggestions] } : {}),
+    ...(fixes.length ? { fixes } : {}),
+  };
 }
 
 /**

@@ -14,7 +14,7 @@ import type { ParameterResult } from '../../engine/result';
 import { formatBounds, formatEstimate, formatLevel, formatNumber, formatPercent, MISSING } from '../../engine/format';
 import { constantDoc, functionDoc, keywordDoc, statisticDoc } from './function-docs';
 import { dataOfFit, enclosingFit } from './declarations';
-import { wordAt, type Span } from './text';
+import { linePrefix, wordAt, type Span } from './text';
 
 export interface LsqHover {
   markdown: string;
@@ -61,14 +61,37 @@ export function hoverAt(a: EditorAnalysis, offset: number, run?: RunResult): Lsq
   const d = a.plan.data.find((k) => k.name === name) ?? (a.data.find((k) => k.name === name) ? { name, path: a.data.find((k) => k.name === name)!.path } : undefined);
   if (d) return md(dataHover(a, name, d.path));
   if (a.plan.fits.some((f) => f.name === name)) return md(fitHover(name, run));
-  const data = fit ? dataOfFit(a, fit) : undefined;
-  if (data && (columnsOf(a, data)?.includes(name) || a.plan.fits.find((f) => f.name === fit)?.blocks.some((b) => b.columns.includes(name)))) {
-    const file = a.data.find((x) => x.name === data)?.path;
-    return md(`**${name}** — column of \`${data}\`${file ? ` (${file})` : ''}`);
+  // the columns of the enclosing fit's data, of the fit a query names (`predict FIT at COL`), or of a `data … where`
+  const line = linePrefix(a.text, w.span.start);
+  const queried = /^\s*(?:predict|invert)\s+([A-Za-z_]\w*)\s+at\s+"?$/.exec(line)?.[1];
+  const user = fit ?? queried;
+  const data = user ? dataOfFit(a, user) : /^\s*data\s+([A-Za-z_]\w*)\b.*\bwhere\b/.exec(line)?.[1];
+  if (data) {
+    const column = columnHover(a, data, name, w.span, a.plan.fits.find((f) => f.name === user)?.blocks.some((b) => b.columns.includes(name)) ?? false);
+    if (column) return md(column);
   }
   if (!w.quoted && constantDoc(name) && !c) return md(`**${name}** — ${constantDoc(name)}`);
   const kw = w.quoted ? undefined : keywordDoc(name);
   if (kw) return md(`\`${kw.split(' - ')[0]}\`${kw.includes(' - ') ? `\n\n${kw.split(' - ').slice(1).join(' - ')}` : ''}`);
+  return null;
+}
+
+/**
+ * A name of a fit's expressions that is no parameter or constant: a column of the header when it was read; a
+ * name the checker reported as unknown (the header does not have it) says so, with the diagnostic's "did you
+ * mean", never "column of"; with the header unread, a name the fit uses is read as a column, unchecked.
+ */
+function columnHover(a: EditorAnalysis, data: string, name: string, at: Span, usedByFit: boolean): string | null {
+  const file = a.data.find((x) => x.name === data)?.path;
+  const source = `\`${data}\`${file ? ` (${file})` : ''}`;
+  const header = columnsOf(a, data);
+  if (header?.includes(name)) return `**${name}** — column of ${source}`;
+  const unknown = a.diagnostics.find((d) => (d.code === 'undefined_name' || d.code === 'unknown_column') && d.range.start.offset <= at.start && d.range.end.offset >= at.end);
+  if (unknown) {
+    const near = unknown.suggestions?.length ? `\n\ndid you mean ${unknown.suggestions.map((x) => `\`${x}\``).join(', ')}?` : '';
+    return `**${name}** — unknown name: not a parameter or constant of this spec, and not in the header of ${source}${near}`;
+  }
+  if (header === undefined && usedByFit) return `**${name}** — read as a column of ${source}; its header was not read, so the name is not checked`;
   return null;
 }
 

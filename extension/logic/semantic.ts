@@ -1,15 +1,23 @@
 /**
  * Semantic tokens from the real lexer (`lexTokens`): each token's kind maps
  * to a standard token type, and identifiers are refined by what they name in
- * the plan (parameter of the enclosing fit, constant, data source, fit,
- * otherwise a column). The TextMate grammar paints first; these refine it.
+ * the plan (parameter of the enclosing fit, constant, data source, fit, a
+ * column of a data file, otherwise a property such as a statistic or an
+ * option value). The TextMate grammar paints first; these refine it.
+ *
+ * Columns get their own type `column` (declared in package.json
+ * `semanticTokenTypes`, super type `property`), which `semanticTokenScopes`
+ * maps to the TextMate scope `entity.name.type.column.lsq`: the default
+ * themes (Light+, Dark+, High Contrast) colour it as a type name, apart from
+ * parameters (`variable.parameter`, the variable colour). A name the checker
+ * reported as unknown is neither: a plain `variable`.
  */
 import type { LexToken } from '../../parser';
 import type { EditorAnalysis } from './analysis';
 import { spanOf, type Span } from './text';
 
 /** Token types in legend order (standard VS Code semantic token types). */
-export const TOKEN_TYPES = ['keyword', 'function', 'number', 'string', 'type', 'comment', 'variable', 'operator', 'parameter', 'property', 'namespace', 'class', 'enumMember'] as const;
+export const TOKEN_TYPES = ['keyword', 'function', 'number', 'string', 'type', 'comment', 'variable', 'operator', 'parameter', 'property', 'namespace', 'class', 'enumMember', 'column'] as const;
 export type TokenType = (typeof TOKEN_TYPES)[number];
 export const TOKEN_MODIFIERS = ['declaration', 'readonly', 'defaultLibrary'] as const;
 export type TokenModifier = (typeof TOKEN_MODIFIERS)[number];
@@ -39,6 +47,9 @@ export function semanticTokens(a: EditorAnalysis, tokens: readonly LexToken[]): 
   const consts = new Set(a.plan.constants.map((c) => c.name));
   const data = new Set(a.ast.statements.flatMap((s) => (s.kind === 'data' && s.name ? [s.name.name] : [])));
   const fitNames = new Set(a.ast.statements.flatMap((s) => (s.kind === 'fit' && s.name ? [s.name.name] : [])));
+  // columns: of the headers read, else those the plan's fits read (headers unknown); minus the names reported unknown
+  const unknown = a.diagnostics.filter((d) => d.code === 'undefined_name' || d.code === 'unknown_column').map((d) => spanOf(d.range));
+  const columns = new Set<string>([...a.data.flatMap((d) => (d.state === 'found' ? d.headers ?? [] : [])), ...a.plan.fits.flatMap((f) => f.blocks.flatMap((b) => b.columns))]);
   const declared = new Set<number>();
   for (const s of a.ast.statements) {
     if ((s.kind === 'data' || s.kind === 'const' || s.kind === 'fit') && s.name) declared.add(s.name.range.start.offset);
@@ -61,6 +72,8 @@ export function semanticTokens(a: EditorAnalysis, tokens: readonly LexToken[]): 
       else if (consts.has(name)) { type = 'variable'; modifiers.push('readonly'); }
       else if (data.has(name)) type = 'namespace';
       else if (fitNames.has(name)) type = 'class';
+      else if (unknown.some((u) => u.start <= span.start && u.end >= span.end)) type = 'variable';
+      else if (columns.has(name)) type = 'column';
       else type = 'property';
       if (declared.has(span.start)) modifiers.push('declaration');
     }

@@ -11,7 +11,9 @@
 // -> hover a parameter for its estimate -> screenshot -> export the Markdown
 // report -> scaffold a new spec from the CSV (QuickPicks: x, y, model) ->
 // fit on save -> cancel a long fit from its progress notification
-// (cancel.cjs) -> then a second server with Workspace Trust on for the
+// (cancel.cjs) -> edit the dose-response sample (editor.cjs: one diagnostic for
+// one misspelling, unclosed-parenthesis range, bounds quick fixes, completion
+// order, semantic colours in three themes with screenshots) -> then a second server with Workspace Trust on for the
 // Restricted Mode checks (restricted.cjs). No sleeps: every step waits for a
 // condition. Last line: "N passed, N failed"; exit 1 on failure.
 //
@@ -32,6 +34,7 @@ const { secs, check, anyFailed, finish, waitForFile, freePort, run, quickInput, 
 const { restrictedMode } = require('./restricted.cjs');
 const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
 const { writePlateSample, groupViews } = require('./views.cjs');
+const { writeEditorSpecs, editorChecks } = require('./editor.cjs');
 
 (async () => {
   fs.mkdirSync(outDir, { recursive: true });
@@ -62,6 +65,8 @@ const { writePlateSample, groupViews } = require('./views.cjs');
   writeSlowJob(ws);
   // The 96-well plate sample for the views across groups (views.cjs).
   writePlateSample(repo, ws);
+  // The dose-response sample for the editing steps (editor.cjs), as dose/ in the workspace.
+  writeEditorSpecs(repo, ws);
 
   // 4. code-server with the .vsix installed (the recipe's start.sh: Workspace Trust off)
   const state = path.join(work, 'state');
@@ -207,6 +212,8 @@ const { writePlateSample, groupViews } = require('./views.cjs');
 
     // views across groups: plate map, overlay, residuals by group, group labels, three themes
     await groupViews(page, { repo, ws, outDir });
+    // editing: no cascade from a misspelling, unclosed ranges, bounds fixes, completion order, theme colours (editor.cjs)
+    await editorChecks(page, { repo, ws, outDir });
   } catch (e) {
     failed = true;
     check('no exception while driving VS Code', false, errorSummary(e));

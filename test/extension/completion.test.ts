@@ -92,3 +92,38 @@ describe('extension/logic/completion', () => {
     expect(labels(at(`${spec}expect half_life.|`))).toEqual(['se', 'lower', 'upper']);
   });
 });
+
+describe('extension/logic/completion ranking', () => {
+  const sorted = (items: { label: string; sortText?: string }[]) => [...items].sort((x, y) => (x.sortText ?? x.label).localeCompare(y.sortText ?? y.label)).map((i) => i.label);
+
+  it('puts columns first where a column is expected: sigma, weight, the response, per, where, predict … at', () => {
+    for (const line of ['  sigma |', '  weight |', '  sigma sqrt(|']) {
+      const items = at(COOLING.replace('  sigma temp_sd\n', `${line}\n`));
+      const order = sorted(items);
+      expect(order.slice(0, COOLING_HEADERS.length), line).toEqual([...COOLING_HEADERS].sort());
+      // parameters are not allowed in sigma or weight: not offered
+      expect(order, line).not.toContain('tau');
+      // then constants, then functions
+      expect(order.indexOf('ambient')).toBeLessThan(order.indexOf('abs'));
+    }
+    const response = sorted(at(COOLING.replace('model temp_C =', 'model |')));
+    expect(response.slice(0, COOLING_HEADERS.length)).toEqual([...COOLING_HEADERS].sort());
+    const where = sorted(at(COOLING.replace('where time_min >= 0', 'where |')));
+    expect(where.slice(0, COOLING_HEADERS.length)).toEqual([...COOLING_HEADERS].sort());
+    expect(sorted(at(`${COOLING}predict newton at |`))).toEqual(['time_min']);
+  });
+
+  it('puts the fit\'s parameters, then its columns, before constants and functions on the model side', () => {
+    const order = sorted(at(COOLING.replace('exp(-time_min / tau)', 'exp(-time_min / |tau)')));
+    expect(order.slice(0, 2)).toEqual(['rise', 'tau']);
+    expect(order.slice(2, 2 + COOLING_HEADERS.length)).toEqual([...COOLING_HEADERS].sort());
+    expect(order.indexOf('pi')).toBeLessThan(order.indexOf('exp'));
+  });
+
+  it('offers the real column after `predict … at` when the model misspells it', () => {
+    const text = COOLING.replace('exp(-time_min', 'exp(-time_mn');
+    const l = labels(at(text.replace('predict newton at time_min', 'predict newton at |')));
+    // the header's columns but the response; never the misspelling
+    expect(l).toEqual(['time_min', 'temp_sd', 'batch']);
+  });
+});

@@ -58,6 +58,22 @@ describe('extension/logic/hover', () => {
     expect(hoverAt(a, offsetOf('temp_sd'))?.markdown).toContain('column of `bench`');
   });
 
+  it('does not call a misspelt name a column: it is unknown, with the real column to mean', () => {
+    const text = COOLING.replace('exp(-time_min', 'exp(-time_mn');
+    const h = hoverAt(analysisOf(text), text.indexOf('time_mn') + 1)?.markdown ?? '';
+    expect(h).toContain('unknown name');
+    expect(h).not.toContain('column of `bench`');
+    expect(h).toContain('`time_min`');
+    // the real column, on the predict line, is still a column
+    expect(hoverAt(analysisOf(text), text.indexOf('at time_min') + 4)?.markdown ?? '').toMatch(/^\*\*time_min\*\* — column of `bench`/);
+  });
+
+  it('says a name is read as a column, unchecked, when the header was not read', () => {
+    const h = hoverAt(analysisOf(COOLING, 'unknown'), offsetOf('temp_sd'))?.markdown ?? '';
+    expect(h).toContain('read as a column of `bench`');
+    expect(h).toContain('not checked');
+  });
+
   it('gives a statistic value in expect after a fit', () => {
     const fit = fitNamed('newton', ['rise', 'tau']);
     const h = hoverAt(analysisOf(COOLING), COOLING.indexOf('newton.r2') + 'newton.'.length + 1, runWith([fit]));

@@ -1,7 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { lexTokens } from '../../parser';
 import { definitionAt, documentSymbols, fitLenses } from '../../extension/logic/symbols';
-import { semanticTokens } from '../../extension/logic/semantic';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { semanticTokens, TOKEN_TYPES } from '../../extension/logic/semantic';
+
+const ROOT = join(__dirname, '..', '..');
 import { analysisOf, COOLING } from './helpers';
 
 describe('extension/logic/symbols', () => {
@@ -51,7 +55,7 @@ describe('extension/logic/semantic', () => {
     expect(typeAt('tau)')).toBe('parameter');
     expect(typeAt('ambient +')).toBe('variable');
     expect(typeAt('bench {')).toBe('namespace');
-    expect(typeAt('temp_sd')).toBe('property');
+    expect(typeAt('temp_sd')).toBe('column');
     expect(typeAt('exp(')).toBe('function');
     expect(typeAt('# Cooling')).toBe('comment');
     expect(typeAt('[degC]')).toBe('type');
@@ -59,5 +63,28 @@ describe('extension/logic/semantic', () => {
     const decl = toks.find((t) => t.start === COOLING.indexOf('param tau') + 6);
     expect(decl?.modifiers).toContain('declaration');
     for (let i = 1; i < toks.length; i++) expect(toks[i].start).toBeGreaterThanOrEqual(toks[i - 1].start);
+  });
+
+  it('gives columns their own type, apart from parameters; a misspelt name is no column', () => {
+    const text = COOLING.replace('exp(-time_min', 'exp(-time_mn');
+    const toks = semanticTokens(analysisOf(text), lexTokens(text));
+    const typeAt = (needle: string, skip = 0) => toks.find((t) => t.start === text.indexOf(needle) + skip)?.type;
+    expect(typeAt('time_mn')).toBe('variable');
+    expect(typeAt('temp_C =')).toBe('column');
+    expect(typeAt('at time_min', 3)).toBe('column');
+    expect(typeAt('rise *')).toBe('parameter');
+    // the statistic after `newton.` is no column
+    expect(typeAt('newton.r2', 7)).toBe('property');
+  });
+
+  it('declares every custom token type in package.json and maps columns and parameters to different scopes', () => {
+    const pkg = JSON.parse(readFileSync(join(ROOT, 'package.json'), 'utf8'));
+    const declared = (pkg.contributes.semanticTokenTypes as { id: string; superType?: string }[]).map((t) => t.id);
+    // VS Code's standard token types (the semantic highlighting guide's list) need no declaration
+    const standard = new Set(['namespace', 'class', 'enum', 'interface', 'struct', 'typeParameter', 'type', 'parameter', 'variable', 'property', 'enumMember', 'decorator', 'event', 'function', 'method', 'macro', 'label', 'comment', 'string', 'keyword', 'number', 'regexp', 'operator']);
+    for (const t of TOKEN_TYPES) expect(standard.has(t) || declared.includes(t), t).toBe(true);
+    const scopes = pkg.contributes.semanticTokenScopes.find((s: { language: string }) => s.language === 'lsq').scopes;
+    expect(scopes.column[0]).toMatch(/^entity\.name\.type\./);
+    expect(scopes.parameter[0]).toMatch(/^variable\.parameter\./);
   });
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { parse } from '../../parser/index';
+import { analyze, parse } from '../../parser/index';
 import type { ExprAst, FitAst, StatementAst } from '../../parser/ast';
 import { codes, marked } from './helpers';
 
@@ -177,12 +177,38 @@ describe('parser/parse error recovery', () => {
     expect(fit.items.map((i) => i.kind)).toEqual(['model', 'method', 'level']);
   });
 
-  it('reports a missing closing brace at the last token', () => {
-    const m = marked('fit f on d {\n  model y = a * x\n  param «a»');
+  it('reports a missing closing brace over the block, from its opening brace through the last token', () => {
+    const m = marked('fit f on d «{\n  model y = a * x\n  param a»');
     const d = parse(m.text).diagnostics;
     expect(d).toHaveLength(1);
-    expect(d[0]).toMatchObject({ code: 'syntax', range: { start: m.start } });
-    expect(d[0].message).toMatch(/'}'/);
+    expect(d[0]).toMatchObject({ code: 'syntax', range: { start: m.start, end: m.end } });
+    expect(d[0].message).toBe("'{' is not closed: expected '}' after line 3");
+  });
+
+  it('covers an unclosed parenthesis from its opening, not one character at the end', () => {
+    for (const model of ['«(1 + (x / c)^h»', 'a + «(b * (x / c)»', 'a * exp«(b * x»']) {
+      const m = marked(`fit f on d {\n  model y = ${model}\n  param a = 1\n}`);
+      const d = parse(m.text).diagnostics;
+      expect(d.map((x) => [x.message, x.range.start, x.range.end]), model).toEqual([["'(' is not closed: expected ')' at the end of this line", m.start, m.end]]);
+    }
+    // at the end of the file, and in a filter
+    const eof = marked('fit f on d {\n  model y = a * «(b + x»');
+    expect(parse(eof.text).diagnostics[0].range).toEqual({ start: eof.start, end: eof.end });
+    const where = marked('data d = "a.csv" where «(x > 1»\nconst k = 1');
+    expect(parse(where.text).diagnostics.map((x) => [x.range.start, x.range.end])).toEqual([[where.start, where.end]]);
+  });
+
+  it('covers an unclosed bracket of bounds or a unit from its opening', () => {
+    const bounds = marked('fit f on d {\n  model y = a * x\n  param a = 1 in «[0, 10»\n}');
+    expect(parse(bounds.text).diagnostics.map((x) => [x.message, x.range.start, x.range.end])).toEqual([["'[' is not closed: expected ']' at the end of this line", bounds.start, bounds.end]]);
+    const unit = marked('fit f on d {\n  model y = a * x\n  param a = 1 «[mg»\n}');
+    expect(parse(unit.text).diagnostics.map((x) => [x.message, x.range.start, x.range.end])).toEqual([["'[' is not closed: expected ']' at the end of this line", unit.start, unit.end]]);
+  });
+
+  it('reports an unclosed quote once, from the quote to the end of the line, with no follow-on errors', () => {
+    const m = marked('data d = «"a.csv»\nfit f on d {\n  model y = a * x\n  param a = 1\n}\n');
+    const { diagnostics } = analyze(m.text);
+    expect(diagnostics.map((x) => [x.message, x.range.start, x.range.end])).toEqual([['this text has no closing " on its line', m.start, m.end]]);
   });
 
   it('reports unknown characters and unclosed strings with their positions', () => {
