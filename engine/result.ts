@@ -467,9 +467,42 @@ export type QueryResult =
       withheld?: string;
       fits: string[];
       rows: { fit: string; n: number; p: number; ssr: number; aic: number; aicc: number; bic: number; deltaAicc: number; akaikeWeight: number }[];
-      /** Extra-sum-of-squares F test when two fits are nested by parameter count. */
+      /** Extra-sum-of-squares F test, only for two fits whose nesting is established or declared (`nesting`). */
       fTest?: { f: number; df1: number; df2: number; pValue: number; simpler: string; richer: string };
+      /**
+       * Fits left out of the ranking (additive, optional; absent when none): failed or not
+       * converged, with their stop code and why. `rows` holds only the ranked fits.
+       */
+      excluded?: CompareExclusion[];
+      /** How nesting was decided, for two ranked fits with different parameter counts (additive, optional). */
+      nesting?: CompareNesting;
+      /** Why no F test is shown, when there is none (additive, optional). */
+      noFTest?: string;
     };
+
+/** A fit of a `compare` left out of the ranking (engine/run/compare-query.ts). */
+export interface CompareExclusion {
+  fit: string;
+  code: StopCode;
+  reason: string;
+}
+
+/**
+ * Nesting of the two fits of a `compare` (engine/run/nesting.ts): `established` by the
+ * numerical reproduction test, `declared` by the spec (`compare a within b`), `not_nested`
+ * (the richer model does not reproduce the simpler one), `not_checked` (the test cannot run).
+ */
+export interface CompareNesting {
+  simpler: string;
+  richer: string;
+  status: 'established' | 'declared' | 'not_nested' | 'not_checked';
+  /** Largest relative distance of the reproductions (null when the test did not run). */
+  distance: number | null;
+  /** The tolerance the distance is held to (engine/run/nesting.ts NESTING_TOLERANCE). */
+  tolerance: number;
+  /** The method and its outcome in words. */
+  detail: string;
+}
 
 export interface ExpectationResult {
   expectation: Expectation;

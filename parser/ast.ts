@@ -138,6 +138,8 @@ export interface PredictAst {
 export interface CompareAst {
   kind: 'compare';
   fits: NameAst[];
+  /** `compare a within b`: the spec declares a nested in b. */
+  within?: Range;
   range: Range;
 }
 

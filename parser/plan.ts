@@ -192,7 +192,8 @@ export interface FitPlan {
 export type Query =
   | { kind: 'predict'; fit: string; variable: string; values: number[]; range: Range }
   | { kind: 'invert'; fit: string; response: string; values: number[]; range: Range }
-  | { kind: 'compare'; fits: string[]; range: Range };
+  /** `within`: the spec declares the first fit nested in the second (`compare a within b`; additive, optional). */
+  | { kind: 'compare'; fits: string[]; within?: boolean; range: Range };
 
 export type ExpectTarget =
   | { kind: 'parameter'; fit: string; name: string; of: MemberOf }

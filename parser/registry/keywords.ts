@@ -34,7 +34,7 @@ export const KEYWORD_SPECS = {
   derive: { role: 'declaration', doc: 'derive NAME = EXPRESSION [UNIT] - a number computed from fit results (FIT.PARAM, FIT.STAT), with a delta-method standard error and interval.' },
   predict: { role: 'query', doc: 'predict FIT at COLUMN = v1, v2, ... - model values (with intervals) at these predictor values.' },
   invert: { role: 'query', doc: 'invert FIT at RESPONSE = v1, v2, ... - predictor values at which the model reaches these responses.' },
-  compare: { role: 'query', doc: 'compare FIT, FIT, ... - side-by-side statistics (AIC, BIC, F-test when nested) of fits.' },
+  compare: { role: 'query', doc: 'compare FIT, FIT, ... | compare FIT within FIT - side-by-side statistics (AIC, BIC, F-test when nested) of fits.' },
   expect: { role: 'query', doc: 'expect FIT.TARGET | DERIVED within LOW .. HIGH | above X | below X - a check reported as pass or fail.' },
   // data options
   where: { role: 'data_option', doc: 'where CONDITION - keep only the rows where the condition holds.' },
@@ -60,7 +60,7 @@ export const KEYWORD_SPECS = {
   fixed: { role: 'part', doc: 'fixed - hold the parameter at its given value.' },
   scale: { role: 'part', doc: 'scale C - residual size where a robust loss starts to down-weight (default 1).' },
   at: { role: 'part', doc: 'at COLUMN = values - the column the query values belong to.' },
-  within: { role: 'part', doc: 'within LOW .. HIGH - the value must lie in the closed interval.' },
+  within: { role: 'part', doc: 'within LOW .. HIGH - the value must lie in the closed interval; in compare A within B, A is declared a special case of B.' },
   above: { role: 'part', doc: 'above X - the value must be greater than X.' },
   below: { role: 'part', doc: 'below X - the value must be less than X.' },
   // reserved words
