@@ -19,6 +19,9 @@ export function listLines(lines: ArrayLike<number>): string {
   return lines.length > 10 ? `${shown} and ${lines.length - 10} more` : shown;
 }
 
+/** Correlated parameter pairs named in the `high_correlation` text (its `pairs` field has all of them). */
+export const CORRELATED_PAIRS_IN_TEXT = 3;
+
 /** Rows named in a warning's text (its `rows` field has all of them). */
 const ROWS_IN_TEXT = 5;
 
@@ -42,6 +45,12 @@ export function num(x: number): string {
 export const warningText = {
   at_bound: (param: string, side: 'lower' | 'upper', bound: number) =>
     `${param} ended at its ${side} bound ${num(bound)}; the optimum may lie outside the bounds, and its standard error and interval ignore the bound`,
+  /** Several pairs: how many, the worst CORRELATED_PAIRS_IN_TEXT with their ρ, all of them in the warning's `pairs`. */
+  high_correlations: (pairs: readonly { parameters: readonly [string, string]; rho: number }[], involved: number, free: number) => {
+    const shown = pairs.slice(0, CORRELATED_PAIRS_IN_TEXT).map((x) => `${x.parameters[0]}–${x.parameters[1]} (${CORRELATION_SYMBOL} = ${formatNumber(x.rho, DIGITS.statistic)})`).join(', ');
+    const more = pairs.length > CORRELATED_PAIRS_IN_TEXT ? ` and ${pairs.length - CORRELATED_PAIRS_IN_TEXT} more` : '';
+    return `${pairs.length} pairs of parameters are strongly correlated (|${CORRELATION_SYMBOL}| > ${num(THRESHOLDS.correlation)}; ${involved} of the ${free} free parameters take part), the strongest ${shown}${more}; the data hardly separate them - consider fewer parameters, fixing some, or a centred or orthogonal form of the model`;
+  },
   high_correlation: (a: string, b: string, rho: number) =>
     `${a} and ${b} are strongly correlated (${CORRELATION_SYMBOL} = ${formatNumber(rho, DIGITS.statistic)}); the data hardly separate them - consider fixing one or reparametrising`,
   ill_conditioned: (condition: number) =>

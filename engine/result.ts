@@ -127,6 +127,14 @@ export interface FitWarning {
   parameters?: string[];
   /** Data rows the warning names, all of them (`PointTable.row` numbers; the message lists the first few; additive, optional). */
   rows?: number[];
+  /** `high_correlation`: every strongly correlated pair, worst |ρ| first (the message names the worst few; additive, optional). */
+  pairs?: CorrelatedPair[];
+}
+
+/** Two free parameters and their correlation ρ (engine/stats/warnings.ts). */
+export interface CorrelatedPair {
+  parameters: [string, string];
+  rho: number;
 }
 
 export interface ParameterResult {

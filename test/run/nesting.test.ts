@@ -4,6 +4,11 @@ import { NESTING_TOLERANCE } from '../../engine/run/nesting';
 import { comparisonBlock } from '../../engine/front/views/comparison';
 import { fUpper } from '../../engine/stats/distributions';
 import type { QueryResult, RunResult } from '../../engine/result';
+import Ajv from 'ajv';
+import schema from '../../engine/result.schema.json';
+import { resultToJsonValue } from '../../engine/run/json';
+
+const validate = new Ajv().compile(schema);
 
 type Comparison = Extract<QueryResult, { kind: 'compare' }>;
 const comparison = (r: RunResult): Comparison => r.queries.find((q): q is Comparison => q.kind === 'compare')!;
@@ -44,6 +49,7 @@ describe('run/nesting and run/compare-query', () => {
     expect(d.nesting?.status).toBe('declared');
     expect(d.nesting?.detail).toMatch(/as the spec declares .*power is not a special case of stretched/);
     expect(d.noFTest).toMatch(/stretched ends with a larger residual sum of squares than power/);
+    for (const r of [result, declared.result]) expect(validate(resultToJsonValue(r)), JSON.stringify(validate.errors)).toBe(true);
   });
 
   it('nested pairs are established (line in quadratic, exponential in exponential with offset, Michaelis–Menten in Hill) and F is the by-hand value from the two SSRs', async () => {
