@@ -405,3 +405,11 @@ export const compareText = {
   /** The decision sentence's list of fits left out. */
   leftOut: (fits: readonly string[]) => `Left out of the ranking: ${fits.join(', ')} (${fits.length === 1 ? 'it is' : 'they are'} not a converged result; see below).`,
 } as const;
+
+/** What a per-group residual warning says of its decision across the groups (engine/groups/flags.ts `adjustGroupWarnings`). */
+export const adjustedText = {
+  kept: (a: { family: number; level: number; pValue: number }) =>
+    `; upheld across the fit's ${a.family} groups by Holm's step-down procedure at family-wise level ${num(a.level)} (Holm 1979)`,
+  setAside: (a: { family: number; level: number; pValue: number }) =>
+    `; not upheld across the fit's ${a.family} groups by Holm's step-down procedure at family-wise level ${num(a.level)} (Holm 1979): with this many groups, chance alone gives such a p (${num(a.pValue)}) now and then`,
+} as const;

@@ -129,6 +129,16 @@ export interface FitWarning {
   rows?: number[];
   /** `high_correlation`: every strongly correlated pair, worst |ρ| first (the message names the worst few; additive, optional). */
   pairs?: CorrelatedPair[];
+  /** A residual test of a per-group fit decided across the fit's groups (engine/groups/flags.ts `adjustGroupWarnings`; additive, optional). */
+  adjusted?: WarningAdjustment;
+}
+
+/** How a group's residual warning was decided across the groups: the method, the family size m, the family-wise level and the group's own p. */
+export interface WarningAdjustment {
+  method: 'holm';
+  family: number;
+  level: number;
+  pValue: number;
 }
 
 /** Two free parameters and their correlation ρ (engine/stats/warnings.ts). */
@@ -434,6 +444,11 @@ export interface FitResult {
    */
   excluded?: ExcludedPoints;
   warnings: FitWarning[];
+  /**
+   * Per-group fits: residual warnings the test across the fit's groups did not uphold (Holm 1979;
+   * engine/groups/flags.ts `adjustGroupWarnings`), kept here with their adjustment (additive, optional; absent when none).
+   */
+  setAside?: FitWarning[];
   /** Rows flagged by leverage, Cook's distance and the outlier test, with the thresholds (additive, optional: absent for a fit that did not converge). */
   influence?: InfluenceReport;
   /** The multi-start search, when it ran (additive, optional). */
