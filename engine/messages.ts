@@ -19,6 +19,9 @@ export function listLines(lines: ArrayLike<number>): string {
   return lines.length > 10 ? `${shown} and ${lines.length - 10} more` : shown;
 }
 
+/** Correlated parameter pairs named in the `high_correlation` text (its `pairs` field has all of them). */
+export const CORRELATED_PAIRS_IN_TEXT = 3;
+
 /** Rows named in a warning's text (its `rows` field has all of them). */
 const ROWS_IN_TEXT = 5;
 
@@ -42,6 +45,12 @@ export function num(x: number): string {
 export const warningText = {
   at_bound: (param: string, side: 'lower' | 'upper', bound: number) =>
     `${param} ended at its ${side} bound ${num(bound)}; the optimum may lie outside the bounds, and its standard error and interval ignore the bound`,
+  /** Several pairs: how many, the worst CORRELATED_PAIRS_IN_TEXT with their ρ, all of them in the warning's `pairs`. */
+  high_correlations: (pairs: readonly { parameters: readonly [string, string]; rho: number }[], involved: number, free: number) => {
+    const shown = pairs.slice(0, CORRELATED_PAIRS_IN_TEXT).map((x) => `${x.parameters[0]}–${x.parameters[1]} (${CORRELATION_SYMBOL} = ${formatNumber(x.rho, DIGITS.statistic)})`).join(', ');
+    const more = pairs.length > CORRELATED_PAIRS_IN_TEXT ? ` and ${pairs.length - CORRELATED_PAIRS_IN_TEXT} more` : '';
+    return `${pairs.length} pairs of parameters are strongly correlated (|${CORRELATION_SYMBOL}| > ${num(THRESHOLDS.correlation)}; ${involved} of the ${free} free parameters take part), the strongest ${shown}${more}; the data hardly separate them - consider fewer parameters, fixing some, or a centred or orthogonal form of the model`;
+  },
   high_correlation: (a: string, b: string, rho: number) =>
     `${a} and ${b} are strongly correlated (${CORRELATION_SYMBOL} = ${formatNumber(rho, DIGITS.statistic)}); the data hardly separate them - consider fixing one or reparametrising`,
   ill_conditioned: (condition: number) =>
@@ -374,3 +383,42 @@ export function profileEndText(e: ProfileEnd, format: (x: number) => string = nu
 export function profileIntervalText(lower: ProfileEnd, upper: ProfileEnd, format: (x: number) => string = num): string {
   return `[${profileEndText(lower, format)}, ${profileEndText(upper, format)}]`;
 }
+
+/** Texts of `compare` (engine/run/compare-query.ts, engine/run/nesting.ts): fits left out, how nesting was decided, why no F test. */
+export const compareText = {
+  excluded: (code: string, message: string) => `${code === 'failed' ? 'the fit failed' : 'the fit did not converge'} (${code}: ${message}); a fit that is not a result has no place in a ranking`,
+  established: (simpler: string, richer: string, distance: number, tolerance: number, trials: number) =>
+    `${simpler} is nested in ${richer}: checked numerically — for ${trials} parameter sets of ${simpler} (its estimate and points drawn around it), ${richer} reproduced ${simpler}'s curve at every data point to a relative distance of ${formatNumber(distance, 2)} ≤ ${formatNumber(tolerance, 2)}`,
+  notNested: (simpler: string, richer: string, distance: number, tolerance: number) =>
+    `${simpler} is not a special case of ${richer}: fitted to ${simpler}'s own curve, ${richer} stays at a relative distance of ${Number.isFinite(distance) ? formatNumber(distance, 2) : 'n/a'} > ${formatNumber(tolerance, 2)} from it at the data points (fixing or tying ${richer}'s parameters does not give ${simpler})`,
+  notChecked: (simpler: string, richer: string, reason: 'several_columns' | 'different_rows' | 'not_finite') =>
+    `whether ${simpler} is nested in ${richer} was not checked: ${reason === 'several_columns' ? 'the models read more than one column' : reason === 'different_rows' ? 'the fits used different rows' : `${simpler} is not finite at some data points for the parameter sets tried`}`,
+  declared: (simpler: string, richer: string, check: string) => `${simpler} is nested in ${richer} as the spec declares (\`within\`); ${check}`,
+  declaredReversed: (simpler: string, richer: string) =>
+    `the spec declares ${simpler} within ${richer}, but ${simpler} has at least as many free parameters as ${richer}`,
+  noF: {
+    notNested: 'No nested test: the two models are not nested (see above), so the extra-sum-of-squares F statistic has no F distribution; AICc alone compares them.',
+    notChecked: 'No nested test: nesting could not be checked (see above) and the spec does not declare it (`compare SIMPLE within RICH`); AICc alone compares them.',
+    sameCount: 'No nested test: both fits have the same number of free parameters; AICc alone compares them.',
+    manyFits: 'No nested test: it compares two fits, and this comparison has more; AICc compares them all.',
+    tooFew: 'No nested test: fewer than two fits could be ranked.',
+    weighting: 'No nested test: the fits weigh their points differently, so their sums of squares are not on one scale; AICc compares them, with the same caveat.',
+    robust: 'No nested test: a fit uses a robust loss, and the F test is that of the squared loss; AICc compares them.',
+    differentData: 'No nested test: the fits do not use the same rows.',
+    noDof: 'No nested test: the richer fit has no degrees of freedom left.',
+    exact: 'No nested test: the richer fit passes through every point (residual sum of squares 0).',
+    richerWorse: (simpler: string, richer: string) =>
+      `No nested test: ${richer} ends with a larger residual sum of squares than ${simpler}, which a model containing ${simpler} cannot have at its minimum; ${richer} stopped elsewhere (a local minimum or a bound). Try other starting values or \`explore\`; AICc compares them meanwhile.`,
+  },
+  onlyOne: (fit: string) => `Only ${fit} is a converged result: there is nothing to compare it with.`,
+  /** The decision sentence's list of fits left out. */
+  leftOut: (fits: readonly string[]) => `Left out of the ranking: ${fits.join(', ')} (${fits.length === 1 ? 'it is' : 'they are'} not a converged result; see below).`,
+} as const;
+
+/** What a per-group residual warning says of its decision across the groups (engine/groups/flags.ts `adjustGroupWarnings`). */
+export const adjustedText = {
+  kept: (a: { family: number; level: number; pValue: number }) =>
+    `; upheld across the fit's ${a.family} groups by Holm's step-down procedure at family-wise level ${num(a.level)} (Holm 1979)`,
+  setAside: (a: { family: number; level: number; pValue: number }) =>
+    `; not upheld across the fit's ${a.family} groups by Holm's step-down procedure at family-wise level ${num(a.level)} (Holm 1979): with this many groups, chance alone gives such a p (${num(a.pValue)}) now and then`,
+} as const;

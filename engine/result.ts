@@ -127,6 +127,24 @@ export interface FitWarning {
   parameters?: string[];
   /** Data rows the warning names, all of them (`PointTable.row` numbers; the message lists the first few; additive, optional). */
   rows?: number[];
+  /** `high_correlation`: every strongly correlated pair, worst |ρ| first (the message names the worst few; additive, optional). */
+  pairs?: CorrelatedPair[];
+  /** A residual test of a per-group fit decided across the fit's groups (engine/groups/flags.ts `adjustGroupWarnings`; additive, optional). */
+  adjusted?: WarningAdjustment;
+}
+
+/** How a group's residual warning was decided across the groups: the method, the family size m, the family-wise level and the group's own p. */
+export interface WarningAdjustment {
+  method: 'holm';
+  family: number;
+  level: number;
+  pValue: number;
+}
+
+/** Two free parameters and their correlation ρ (engine/stats/warnings.ts). */
+export interface CorrelatedPair {
+  parameters: [string, string];
+  rho: number;
 }
 
 export interface ParameterResult {
@@ -471,6 +489,11 @@ export interface FitResult {
    */
   excluded?: ExcludedPoints;
   warnings: FitWarning[];
+  /**
+   * Per-group fits: residual warnings the test across the fit's groups did not uphold (Holm 1979;
+   * engine/groups/flags.ts `adjustGroupWarnings`), kept here with their adjustment (additive, optional; absent when none).
+   */
+  setAside?: FitWarning[];
   /** Rows flagged by leverage, Cook's distance and the outlier test, with the thresholds (additive, optional: absent for a fit that did not converge). */
   influence?: InfluenceReport;
   /** The multi-start search, when it ran (additive, optional). */
@@ -523,9 +546,42 @@ export type QueryResult =
       withheld?: string;
       fits: string[];
       rows: { fit: string; n: number; p: number; ssr: number; aic: number; aicc: number; bic: number; deltaAicc: number; akaikeWeight: number }[];
-      /** Extra-sum-of-squares F test when two fits are nested by parameter count. */
+      /** Extra-sum-of-squares F test, only for two fits whose nesting is established or declared (`nesting`). */
       fTest?: { f: number; df1: number; df2: number; pValue: number; simpler: string; richer: string };
+      /**
+       * Fits left out of the ranking (additive, optional; absent when none): failed or not
+       * converged, with their stop code and why. `rows` holds only the ranked fits.
+       */
+      excluded?: CompareExclusion[];
+      /** How nesting was decided, for two ranked fits with different parameter counts (additive, optional). */
+      nesting?: CompareNesting;
+      /** Why no F test is shown, when there is none (additive, optional). */
+      noFTest?: string;
     };
+
+/** A fit of a `compare` left out of the ranking (engine/run/compare-query.ts). */
+export interface CompareExclusion {
+  fit: string;
+  code: StopCode;
+  reason: string;
+}
+
+/**
+ * Nesting of the two fits of a `compare` (engine/run/nesting.ts): `established` by the
+ * numerical reproduction test, `declared` by the spec (`compare a within b`), `not_nested`
+ * (the richer model does not reproduce the simpler one), `not_checked` (the test cannot run).
+ */
+export interface CompareNesting {
+  simpler: string;
+  richer: string;
+  status: 'established' | 'declared' | 'not_nested' | 'not_checked';
+  /** Largest relative distance of the reproductions (null when the test did not run). */
+  distance: number | null;
+  /** The tolerance the distance is held to (engine/run/nesting.ts NESTING_TOLERANCE). */
+  tolerance: number;
+  /** The method and its outcome in words. */
+  detail: string;
+}
 
 export interface ExpectationResult {
   expectation: Expectation;

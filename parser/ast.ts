@@ -154,6 +154,8 @@ export interface BackcalcAst {
 export interface CompareAst {
   kind: 'compare';
   fits: NameAst[];
+  /** `compare a within b`: the spec declares a nested in b. */
+  within?: Range;
   range: Range;
 }
 

@@ -174,7 +174,13 @@ export function checkCompare(env: Env, c: CompareAst): Query {
     const same = (a: FitInfo, b: FitInfo) => a.plan.blocks[0].data === b.plan.blocks[0].data && exprText(a.plan.blocks[0].response) === exprText(b.plan.blocks[0].response);
     if (found.some((f) => !same(f, found[0]))) env.r.report('compare_mismatch', MSG.compareMismatch(names), c.range);
   }
-  return { kind: 'compare', fits: names, range: c.range };
+  // `compare a within b`: a must be b with parameters fixed or tied, so it has fewer free parameters
+  if (c.within && found.length === 2 && names.length === 2) {
+    const free = (f: FitInfo) => f.plan.parameters.filter((p) => !p.fixed).length;
+    const [p1, p2] = [free(found[0]), free(found[1])];
+    if (p1 >= p2) env.r.report('compare_within_order', MSG.compareWithinOrder(names[0], names[1], p1, p2), c.within);
+  }
+  return { kind: 'compare', fits: names, ...(c.within && names.length === 2 ? { within: true } : {}), range: c.range };
 }
 
 

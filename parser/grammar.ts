@@ -14,7 +14,7 @@
  *   predict    := ('predict' | 'invert') Name 'at' column '=' value (',' value)* queryOpt*
  *   queryOpt   := 'readings' value | ('sigma' | 'weight') value (',' value)*
  *   backcalc   := 'backcalc' Name
- *   compare    := 'compare' Name (',' Name)*
+ *   compare    := 'compare' Name ('within' Name | (',' Name)*)
  *   expect     := 'expect' Name ( '.' Name )* ( 'at' column '=' value queryOpt* )? ( 'within' value '..' value | ('above'|'below') value )
  *   value      := ('-' | '+')? ( Number | 'inf' | Name )
  *   column     := Name | String
@@ -239,7 +239,12 @@ export class LsqParser extends CstParser {
 
   private compareStatement = this.RULE('compareStatement', () => {
     this.CONSUME(T.Compare);
-    this.AT_LEAST_ONE_SEP({ SEP: T.Comma, DEF: () => this.CONSUME(T.Name, { LABEL: 'fits' }) });
+    this.CONSUME(T.Name, { LABEL: 'fits' });
+    // `compare a within b` declares a nested in b; else a list `compare a, b, ...`
+    this.OR([
+      { ALT: () => { this.CONSUME(T.Within, { LABEL: 'within' }); this.CONSUME2(T.Name, { LABEL: 'fits' }); } },
+      { ALT: () => this.MANY(() => { this.CONSUME(T.Comma); this.CONSUME3(T.Name, { LABEL: 'fits' }); }) },
+    ]);
   });
 
   private expectStatement = this.RULE('expectStatement', () => {

@@ -54,6 +54,7 @@ export const CODES = {
   compare_too_few: { severity: 'error', when: 'compare lists fewer than two different fits' },
   compare_per_group: { severity: 'error', when: 'compare lists a fit with `per`' },
   compare_mismatch: { severity: 'error', when: 'compare lists fits on different data or with different responses' },
+  compare_within_order: { severity: 'error', when: '`compare A within B` where A has at least as many free parameters as B (a special case has fewer)' },
   method_not_linear: { severity: 'error', when: '`method linear` on a model that is not linear in its free parameters' },
   reference_not_allowed: { severity: 'error', when: 'a `FIT.NAME` reference outside `derive` (in a model, sigma, weight or where)' },
   column_in_derive: { severity: 'error', when: 'a column in a derive expression' },
@@ -132,6 +133,8 @@ export const MSG = {
       ? `${q(col)} is not the response of ${q(fit)} (it reads ${q(cols[0])})`
       : `invert needs a response (left of =) that reads exactly one column; ${q(fit)} reads ${cols.length ? list(cols) : 'no column'}`,
   compareTooFew: 'compare needs at least two different fits',
+  compareWithinOrder: (simpler: string, richer: string, p1: number, p2: number) =>
+    `compare ${q(simpler)} within ${q(richer)}: ${q(simpler)} has ${p1} free parameter${p1 === 1 ? '' : 's'} and ${q(richer)} ${p2}; the one declared within must have fewer`,
   /** Also the engine's message (engine/run/queries.ts). */
   comparePerGroup: (fit: string) => `compare needs fits without "per"; ${q(fit)} runs per group`,
   /** Also the engine's message (engine/run/queries.ts), which also applies when the fits end up with different rows. */

@@ -207,7 +207,8 @@ export type Query =
   | { kind: 'invert'; fit: string; response: string; values: number[]; readings?: number; observation?: NewObservation; range: Range }
   /** `backcalc FIT`: every fitted point's predictor read back from its response (engine/run/queries.ts). */
   | { kind: 'backcalc'; fit: string; range: Range }
-  | { kind: 'compare'; fits: string[]; range: Range };
+  /** `within`: the spec declares the first fit nested in the second (`compare a within b`; additive, optional). */
+  | { kind: 'compare'; fits: string[]; within?: boolean; range: Range };
 
 export type ExpectTarget =
   | { kind: 'parameter'; fit: string; name: string; of: MemberOf }

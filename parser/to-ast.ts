@@ -321,7 +321,8 @@ class AstBuilder extends BaseVisitor {
       const f = this.nameOf(ctx, 'fits', i);
       if (f) fits.push(f);
     }
-    return { kind: 'compare', fits, range: cover(kw, ends(fits)) };
+    const within = this.tokRange(ctx, 'within');
+    return { kind: 'compare', fits, ...(within ? { within } : {}), range: cover(kw, ends(fits)) };
   }
 
   expectStatement(ctx: Children): ExpectAst {

@@ -36,9 +36,10 @@
  *     family of one: runs p ≤ 0.05;
  *   - skipped (not flagged) when ν ≤ 0 or the statistic is not finite.
  */
-import { chiSquareCdf, chiSquareUpper } from '../stats/distributions';
-import { THRESHOLDS } from '../thresholds';
-import type { FitResult } from '../result';
+import { chiSquareCdf, chiSquareUpper, normalUpper } from '../stats/distributions';
+import { INFLUENCE_THRESHOLDS, isSerialDurbinWatson, THRESHOLDS } from '../thresholds';
+import type { FitResult, FitWarning, WarningAdjustment, WarningCode } from '../result';
+import { adjustedText } from '../messages';
 
 export type GroupFlag = 'failed' | 'not_converged' | 'no_dof' | 'few_dof' | 'at_bound' | 'poor_fit';
 export const GROUP_FLAGS: readonly GroupFlag[] = ['failed', 'not_converged', 'no_dof', 'few_dof', 'at_bound', 'poor_fit'];
@@ -114,4 +115,124 @@ export function holmRejected(pValues: readonly (number | null)[], alpha: number)
     out[order[j].i] = true;
   }
   return out;
+}
+
+/**
+ * The residual tests whose per-fit warnings are decided across the groups of
+ * a per-group fit (`adjustGroupWarnings`), each with the warning it gives, the
+ * level a single fit uses and the group's p-value:
+ * - the serial checks (`residual_pattern`, THRESHOLDS.residualP): the runs
+ *   test of the residual signs and the Durbin–Watson band; the group's p is
+ *   the smaller of the p-values of the checks that tripped, the runs test's
+ *   own and, for d, the large-sample normal approximation d ~ N(2, 4/n) under
+ *   no serial correlation (d ≈ 2(1 − r₁), r₁ ~ N(0, 1/n); common practice —
+ *   the exact distribution of d depends on the design, Durbin & Watson 1950,
+ *   Biometrika 37, 409–428), p = 2·P(Z > |d − 2|·√n/2);
+ * - Shapiro–Wilk (`non_normal_residuals`, THRESHOLDS.residualP);
+ * - curvature (`curvature`, INFLUENCE_THRESHOLDS.curvatureLevel);
+ * - lack of fit (`lack_of_fit`, INFLUENCE_THRESHOLDS.lackOfFitLevel);
+ * - the Bonferroni outlier test (`outlier`, INFLUENCE_THRESHOLDS.outlierLevel;
+ *   the group's p is its smallest Bonferroni-adjusted row p, and only groups
+ *   with a flagged row carry one, which is all Holm needs: a test with
+ *   p ≥ α is never rejected and only counts in m).
+ */
+export const ADJUSTED_TESTS: readonly AdjustedTest[] = [
+  { test: 'serial', code: 'residual_pattern', level: () => THRESHOLDS.residualP, p: serialP, tested: (f) => finiteP(f.residuals.runs?.pValue) !== null || finiteP(f.residuals.durbinWatson) !== null },
+  { test: 'shapiro_wilk', code: 'non_normal_residuals', level: () => THRESHOLDS.residualP, p: (f) => finiteP(f.residuals.shapiroWilk?.pValue), tested: (f) => finiteP(f.residuals.shapiroWilk?.pValue) !== null },
+  { test: 'curvature', code: 'curvature', level: () => INFLUENCE_THRESHOLDS.curvatureLevel, p: (f) => finiteP(f.residuals.curvature?.pValue), tested: (f) => finiteP(f.residuals.curvature?.pValue) !== null },
+  { test: 'lack_of_fit', code: 'lack_of_fit', level: () => INFLUENCE_THRESHOLDS.lackOfFitLevel, p: (f) => finiteP(f.residuals.lackOfFit?.pValue), tested: (f) => finiteP(f.residuals.lackOfFit?.pValue) !== null },
+  {
+    test: 'outlier', code: 'outlier', level: () => INFLUENCE_THRESHOLDS.outlierLevel,
+    p: (f) => (f.influence?.outliers.length ? Math.min(...f.influence.outliers.slice(0, 1000).map((o) => o.pValue)) : null),
+    tested: (f) => f.influence !== undefined && f.influence.outlierCritical !== null,
+  },
+];
+
+export interface AdjustedTest {
+  test: 'serial' | 'shapiro_wilk' | 'curvature' | 'lack_of_fit' | 'outlier';
+  code: WarningCode;
+  level: () => number;
+  /** The p-value this warning rests on, or null when the warning does not rest on this test alone. */
+  p: (fit: FitResult) => number | null;
+  /** The test ran on this fit (it counts in the family). */
+  tested: (fit: FitResult) => boolean;
+}
+
+const finiteP = (p: number | null | undefined): number | null => (typeof p === 'number' && Number.isFinite(p) ? p : null);
+
+/** The p of the serial checks that tripped (see ADJUSTED_TESTS): the runs test's, and Durbin–Watson's by d ~ N(2, 4/n). */
+function serialP(f: FitResult): number | null {
+  const ps: number[] = [];
+  const runs = finiteP(f.residuals.runs?.pValue);
+  if (runs !== null && runs < THRESHOLDS.residualP) ps.push(runs);
+  const d = finiteP(f.residuals.durbinWatson);
+  if (d !== null && isSerialDurbinWatson(d) && f.goodness.n > 0) ps.push(durbinWatsonP(d, f.goodness.n));
+  return ps.length ? Math.min(...ps) : null;
+}
+
+/** Two-sided p of Durbin–Watson d by the large-sample approximation d ~ N(2, 4/n) (common practice; see ADJUSTED_TESTS). */
+export function durbinWatsonP(d: number, n: number): number {
+  return Math.min(1, 2 * normalUpper(Math.abs(d - 2), 0, 2 / Math.sqrt(n)));
+}
+
+/**
+ * The residual warnings of a per-group fit's groups, decided across the groups
+ * (a multiple-testing adjustment): with 96 wells, each residual test at 1 %
+ * warns about one well of a right model by chance alone; decided as one
+ * family per test by Holm's step-down procedure (Holm 1979; `holmRejected`) at
+ * the level a single fit uses, chance alone warns about any well of the plate
+ * at most that often. A warning the family upholds keeps its text, with the
+ * method, the family size and the level added (`adjusted`); one it does not
+ * uphold is moved to the fit's `setAside` with the same record, so the group's
+ * own residual diagnostics stay as they are and nothing is lost. Idempotent:
+ * set-aside warnings are restored first, so a gathered run (engine/runner/
+ * gather.ts) decides over all its groups again. Fits of one group, and
+ * groups that did not converge (they have no residual warnings), are left
+ * as they are. The influence rules (`high_leverage`, `influential_point`:
+ * rules of thumb on leverage and Cook's distance, not tests) have no p-value
+ * and are not adjusted.
+ */
+export function adjustGroupWarnings(results: readonly FitResult[]): FitResult[] {
+  const restored = results.map(restore);
+  if (restored.length < 2) return restored;
+  let out = restored;
+  for (const spec of ADJUSTED_TESTS) {
+    const family = out.filter((f) => f.stop.converged && spec.tested(f));
+    const m = family.length;
+    if (m < 2) continue;
+    const level = spec.level();
+    const ps = out.map((f) => (f.stop.converged && spec.tested(f) && f.warnings.some((w) => w.code === spec.code) ? spec.p(f) : null));
+    // Holm over m tests: the p-values of the warned groups, the others (p ≥ level, never rejected) filling m
+    const padded = [...ps, ...Array.from({ length: Math.max(0, m - ps.filter((p) => p !== null).length) }, () => 1)];
+    const rejected = holmRejected(padded, level);
+    out = out.map((f, i) => {
+      const p = ps[i];
+      if (p === null) return f;
+      const adjusted: WarningAdjustment = { method: 'holm', family: m, level, pValue: p };
+      const keep = rejected[i];
+      const warnings: FitWarning[] = [];
+      const aside: FitWarning[] = [...(f.setAside ?? [])];
+      for (const w of f.warnings) {
+        if (w.code !== spec.code) warnings.push(w);
+        else if (keep) warnings.push({ ...w, message: `${w.message}${adjustedText.kept(adjusted)}`, adjusted });
+        else aside.push({ ...w, message: `${w.message}${adjustedText.setAside(adjusted)}`, adjusted });
+      }
+      return { ...f, warnings, ...(aside.length ? { setAside: aside } : {}) };
+    });
+  }
+  return out;
+}
+
+/** A fit with its set-aside warnings back and the adjustment texts removed. */
+function restore(f: FitResult): FitResult {
+  if (!f.setAside?.length && !f.warnings.some((w) => w.adjusted)) return f;
+  const plain = (w: FitWarning, suffix: (a: WarningAdjustment) => string): FitWarning => {
+    if (!w.adjusted) return w;
+    const { adjusted, ...rest } = w;
+    const s = suffix(adjusted);
+    return { ...rest, message: rest.message.endsWith(s) ? rest.message.slice(0, -s.length) : rest.message };
+  };
+  const warnings = [...f.warnings.map((w) => plain(w, adjustedText.kept)), ...(f.setAside ?? []).map((w) => plain(w, adjustedText.setAside))];
+  const { setAside: _, ...rest } = f;
+  return { ...rest, warnings };
 }

@@ -15,7 +15,7 @@ import { compileColumnExpr } from '../compile';
 import { errorText, runText, withheldText } from '../messages';
 import type { BackCalculation, FitResult, InversePrediction, ObservationSource, Prediction, QueryResult, RunError } from '../result';
 import { bandsAt, predictAt } from '../stats/bands';
-import { akaikeRows, extraSumOfSquaresF, type CompareInput } from '../stats/compare';
+import { compareQuery } from './compare-query';
 import { inversePrediction } from '../stats/inverse';
 import { curveFromResult } from './curve';
 import { backTransform, type BackTransform } from './back-transform';
@@ -284,29 +284,7 @@ function backcalc(q: Extract<Query, { kind: 'backcalc' }>, ctx: QueryContext): O
 }
 
 function compare(q: Extract<Query, { kind: 'compare' }>, ctx: QueryContext): Out {
-  const rows: CompareInput[] = [];
-  const plans: FitPlan[] = [];
-  for (const name of q.fits) {
-    const found = lookup(name, q, ctx);
-    if (isError(found)) return { results: [], errors: [found] };
-    if (found.results.length !== 1 || found.results[0].group !== undefined) {
-      return { results: [], errors: [{ code: 'compare_grouped', message: errorText.comparePerGroup(name), range: q.range, fit: name }] };
-    }
-    const r = found.results[0];
-    if (!r.stop.converged) return { results: [{ kind: 'compare', fits: [...q.fits], rows: [], withheld: withheldText.query(name, 'sums of squares and information criteria', r.stop.code) }], errors: [] };
-    const g = r.goodness;
-    rows.push({ fit: name, n: g.n, p: g.p, ssr: g.ssr, aic: g.aic, aicc: g.aicc, bic: g.bic });
-    plans.push(found.plan);
-  }
-  const sameData = plans.every(
-    (p) => p.blocks[0].data === plans[0].blocks[0].data && exprText(p.blocks[0].response) === exprText(plans[0].blocks[0].response),
-  );
-  const errors: RunError[] = [];
-  if (!sameData || rows.some((r) => r.n !== rows[0].n)) {
-    errors.push({ code: 'compare_different_data', message: errorText.compareMismatch(q.fits), range: q.range });
-  }
-  const fTest = rows.length === 2 && sameData ? extraSumOfSquaresF(rows[0], rows[1]) : null;
-  return { results: [{ kind: 'compare', fits: [...q.fits], rows: akaikeRows(rows), ...(fTest ? { fTest } : {}) }], errors };
+  return compareQuery(q, ctx);
 }
 
 /**

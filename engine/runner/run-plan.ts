@@ -18,6 +18,7 @@
  * failing group never stops the others, and estimates are bit-identical;
  * `runPlanSync` always fits in this thread.
  */
+import { adjustGroupWarnings } from '../groups/flags';
 import { createHash } from 'node:crypto';
 import type { FitPlan, Plan } from '../../parser/plan';
 import { compileColumnExpr } from '../compile';
@@ -228,6 +229,8 @@ export interface FittedRun {
  */
 export function finishRun(plan: Plan, run: FittedRun): RunResult {
   const { fitPlans, results, errors } = run;
+  // per-group fits: their groups' residual warnings decided across the groups (Holm; engine/groups/flags.ts)
+  for (const [name, list] of results) if (fitPlans.get(name)?.groupBy !== undefined) results.set(name, adjustGroupWarnings(list));
   const ran = (name: string) => fitPlans.has(name);
   const queries = plan.queries.filter((q) => (q.kind === 'compare' ? q.fits.every(ran) : ran(q.fit)));
   const q = runQueries(queries, { fitPlans: fitPlans as Map<string, FitPlan>, results });

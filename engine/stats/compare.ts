@@ -7,8 +7,13 @@
  *   (Draper & Smith 1998, Applied Regression Analysis, 3rd ed., "extra sum of
  *   squares" principle; Bates & Watts 1988, Nonlinear Regression Analysis and Its
  *   Applications, for the nonlinear case, where the test is approximate).
- *   Nesting is taken from the parameter counts only: the spec author must make
- *   sure the simpler model is a special case of the richer one.
+ *   The caller decides that the fits are nested (engine/run/nesting.ts, or the
+ *   spec's `within`); parameter counts alone do not make them so.
+ *   Refused (null) when the richer fit ends with a larger sum of squares than
+ *   the simpler one beyond rounding, SSR₂ > SSR₁·(1 + SSR_ROUNDING): a richer
+ *   model that contains the simpler one reaches at least its minimum, so a
+ *   larger SSR means the richer fit stopped elsewhere (a local minimum, a
+ *   bound) and F would be negative, which no F distribution has.
  */
 import { fUpper } from './distributions';
 
@@ -45,14 +50,33 @@ export interface FTestResult {
   richer: string;
 }
 
-/** F test of two fits with different parameter counts on the same n points; null when not applicable. */
-export function extraSumOfSquaresF(a: CompareInput, b: CompareInput): FTestResult | null {
-  if (a.n !== b.n || a.p === b.p) return null;
+/**
+ * Relative rounding allowed between the two sums of squares: SSR₂ ≤ SSR₁·(1 + 1e-9) still counts as
+ * "not above" (two converged fits of the same curve agree to about the solvers' relative reduction
+ * tolerance, 1e-10, engine/solve/types.ts; 1e-9 leaves a factor 10 for it). Such an F is then 0 or near it.
+ */
+export const SSR_ROUNDING = 1e-9;
+
+/** Why the F test of a nested pair cannot be formed. */
+export type FTestRefusal = 'same_count' | 'different_n' | 'no_dof' | 'exact' | 'richer_worse';
+
+/** F test of two nested fits with different parameter counts on the same n points, or why not. */
+export function nestedF(a: CompareInput, b: CompareInput): FTestResult | { refused: FTestRefusal } {
+  if (a.n !== b.n) return { refused: 'different_n' };
+  if (a.p === b.p) return { refused: 'same_count' };
   const [simple, rich] = a.p < b.p ? [a, b] : [b, a];
   const df1 = rich.p - simple.p;
   const df2 = rich.n - rich.p;
-  if (df2 <= 0 || !(rich.ssr > 0)) return null;
-  const f = (simple.ssr - rich.ssr) / df1 / (rich.ssr / df2);
+  if (df2 <= 0) return { refused: 'no_dof' };
+  if (!(rich.ssr > 0)) return { refused: 'exact' };
+  if (!(rich.ssr <= simple.ssr * (1 + SSR_ROUNDING))) return { refused: 'richer_worse' };
+  const f = Math.max(0, (simple.ssr - rich.ssr) / df1 / (rich.ssr / df2));
   const pValue = f > 0 ? fUpper(f, df1, df2) : 1;
   return { f, df1, df2, pValue, simpler: simple.fit, richer: rich.fit };
+}
+
+/** F test of two fits with different parameter counts on the same n points; null when it cannot be formed (see `nestedF`). */
+export function extraSumOfSquaresF(a: CompareInput, b: CompareInput): FTestResult | null {
+  const r = nestedF(a, b);
+  return 'refused' in r ? null : r;
 }

@@ -10,7 +10,7 @@
  */
 import { patternText, warningText } from '../messages';
 import { isHighCorrelation, isLargeCondition, isSerialDurbinWatson, THRESHOLDS as T } from '../thresholds';
-import type { FitWarning, ResidualDiagnostics, StopReason } from '../result';
+import type { CorrelatedPair, FitWarning, ResidualDiagnostics, StopReason } from '../result';
 
 export interface WarningInput {
   /** Free parameters with their estimates and bounds. */
@@ -41,6 +41,30 @@ export function boundHit(estimate: number, lower: number, upper: number): 'lower
   return null;
 }
 
+/**
+ * One `high_correlation` warning for all pairs with |ρⱼₖ| > THRESHOLDS.correlation (`isHighCorrelation`),
+ * however many there are (a degree-10 polynomial has dozens): all pairs in `pairs`, worst |ρ| first, the
+ * worst few in the text; `parameters` lists the parameters involved, those of the worst pair first.
+ */
+function correlatedPairs(input: WarningInput): FitWarning | null {
+  const pairs: CorrelatedPair[] = [];
+  const p = input.free.length;
+  for (let j = 0; j < p; j++) {
+    for (let k = j + 1; k < p; k++) {
+      const rho = input.correlation[j]?.[k];
+      if (rho !== undefined && isHighCorrelation(rho)) pairs.push({ parameters: [input.free[j].name, input.free[k].name], rho });
+    }
+  }
+  if (pairs.length === 0) return null;
+  pairs.sort((a, b) => Math.abs(b.rho) - Math.abs(a.rho));
+  const names: string[] = [];
+  for (const pair of pairs) for (const n of pair.parameters) if (!names.includes(n)) names.push(n);
+  const message = pairs.length === 1
+    ? warningText.high_correlation(pairs[0].parameters[0], pairs[0].parameters[1], pairs[0].rho)
+    : warningText.high_correlations(pairs, names.length, p);
+  return { code: 'high_correlation', message, parameters: names, pairs };
+}
+
 export function fitWarnings(input: WarningInput): FitWarning[] {
   const out: FitWarning[] = [];
   const p = input.free.length;
@@ -66,15 +90,8 @@ export function fitWarnings(input: WarningInput): FitWarning[] {
   } else if (isLargeCondition(input.condition)) {
     out.push({ code: 'ill_conditioned', message: warningText.ill_conditioned(input.condition) });
   }
-  for (let j = 0; j < p; j++) {
-    for (let k = j + 1; k < p; k++) {
-      const rho = input.correlation[j]?.[k];
-      if (rho !== undefined && isHighCorrelation(rho)) {
-        const names = [input.free[j].name, input.free[k].name];
-        out.push({ code: 'high_correlation', message: warningText.high_correlation(names[0], names[1], rho), parameters: names });
-      }
-    }
-  }
+  const correlated = correlatedPairs(input);
+  if (correlated) out.push(correlated);
   const patterns: string[] = [];
   const runs = input.residuals.runs;
   if (runs && runs.pValue < T.residualP) patterns.push(patternText.runs(runs.observed, runs.expected, runs.pValue));

@@ -35,7 +35,7 @@ export const KEYWORD_SPECS = {
   predict: { role: 'query', doc: 'predict FIT at COLUMN = v1, v2, ... - model values (with intervals) at these predictor values.' },
   invert: { role: 'query', doc: 'invert FIT at RESPONSE = v1, v2, ... - predictor values at which the model reaches these responses.' },
   backcalc: { role: 'query', doc: 'backcalc FIT - every standard of a calibration fit read back through the curve: its predictor from its response, with the inverse interval and the percent deviation from the nominal value.' },
-  compare: { role: 'query', doc: 'compare FIT, FIT, ... - side-by-side statistics (AIC, BIC, F-test when nested) of fits.' },
+  compare: { role: 'query', doc: 'compare FIT, FIT, ... | compare FIT within FIT - side-by-side statistics (AIC, BIC, F-test when nested) of fits.' },
   expect: { role: 'query', doc: 'expect FIT.TARGET | DERIVED within LOW .. HIGH | above X | below X - a check reported as pass or fail.' },
   // data options
   where: { role: 'data_option', doc: 'where CONDITION - keep only the rows where the condition holds.' },
@@ -62,7 +62,7 @@ export const KEYWORD_SPECS = {
   scale: { role: 'part', doc: 'scale C - residual size where a robust loss starts to down-weight (default 1).' },
   at: { role: 'part', doc: 'at COLUMN = values - the column the query values belong to.' },
   readings: { role: 'part', doc: 'readings M - invert from the mean of M replicate readings of the response (new-reading variance divided by M).' },
-  within: { role: 'part', doc: 'within LOW .. HIGH - the value must lie in the closed interval.' },
+  within: { role: 'part', doc: 'within LOW .. HIGH - the value must lie in the closed interval; in compare A within B, A is declared a special case of B.' },
   above: { role: 'part', doc: 'above X - the value must be greater than X.' },
   below: { role: 'part', doc: 'below X - the value must be less than X.' },
   // reserved words

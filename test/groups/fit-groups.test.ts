@@ -1,3 +1,4 @@
+import { adjustGroupWarnings } from '../../engine/groups/flags';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { writeFileSync, rmSync } from 'node:fs';
 import path from 'node:path';
@@ -13,7 +14,11 @@ import { buildBundles, removeBuilt, tempDir, type Built } from '../fixtures/buil
 import { writeGroupFixture, type GroupFixture } from './groups-fixture';
 
 /** FitResults without the clock-dependent field. */
-const strip = (fits: FitResult[]) => fits.map(({ elapsedMs: _e, ...rest }) => rest);
+/**
+ * Without the clock, and with the groups' residual warnings decided across the groups as the runner does after
+ * fitting them (engine/groups/flags.ts adjustGroupWarnings; idempotent, so a runner's result is unchanged by it).
+ */
+const strip = (fits: FitResult[]) => adjustGroupWarnings(fits).map(({ elapsedMs: _e, ...rest }) => rest);
 
 /** The IEEE-754 bit patterns of every estimate and standard error, for bit-identity checks. */
 function bits(fits: FitResult[]): string[] {

@@ -283,6 +283,20 @@ describe('parser/check diagnostics', () => {
     expect(analyze(spec({ model: 'y = a * x + b * x^2', items: '  param b\n  method linear' }), { ...HEADERS, isLinearIn: isLinearInParameters }).diagnostics).toEqual([]);
   });
 
+  it('compare_within_order: the fit declared within has fewer free parameters (fixed ones do not count)', () => {
+    const two = (second: string, after: string) => [
+      'data d = "a.csv"',
+      'fit f on d {', '  model y = a * x', '  param a = 1', '}',
+      'fit g on d {', `  model y = ${second}`, '  param a = 1', '  param b = 1 fixed', '}', after,
+    ].join('\n');
+    expect(expectAt(two('a * x + b', 'compare f «within» g'), 'compare_within_order').message).toBe("compare 'f' within 'g': 'f' has 1 free parameter and 'g' 1; the one declared within must have fewer");
+    expect(analyze(two('a * x + b * x^2', 'compare g within f'), HEADERS).diagnostics.map((d) => d.code)).toContain('compare_within_order');
+    const plan = analyze(two('a * x + c', 'compare f within g').replace('param b = 1 fixed', 'param c = 0'), HEADERS);
+    expect(plan.diagnostics).toEqual([]);
+    expect(plan.plan.queries[0]).toMatchObject({ kind: 'compare', fits: ['f', 'g'], within: true });
+    expect(analyze(spec({ after: 'compare f within' })).diagnostics.map((d) => d.code)).toContain('syntax');
+  });
+
   it('compare_too_few; repeated_fit (a warning)', () => {
     expectAt(spec({ after: '«compare f»' }), 'compare_too_few');
     expectAt(spec({ after: 'compare f, «f»' }), 'repeated_fit');

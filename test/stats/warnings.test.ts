@@ -37,6 +37,20 @@ describe('stats/warnings fitWarnings', () => {
     expect(r.message).toContain('rank 1 of 2');
   });
 
+  it('summarises many strongly correlated pairs in one warning: all pairs in `pairs`, worst first, the worst three in the text', () => {
+    const names = ['c0', 'c1', 'c2', 'c3', 'c4'];
+    // invented correlations: every pair above 0.99 except c0–c4, strongest c3–c4; ties (c1–c4, c2–c3) keep pair order
+    const rho = (j: number, k: number) => (j === k ? 1 : j === 0 && k === 4 ? 0.5 : 0.991 + 0.001 * (j + k));
+    const correlation = names.map((_, j) => names.map((__, k) => rho(Math.min(j, k), Math.max(j, k))));
+    const w = fitWarnings(base({ free: names.map((name) => ({ name, estimate: 1, lower: -Infinity, upper: Infinity })), correlation })).filter((x) => x.code === 'high_correlation');
+    expect(w).toHaveLength(1);
+    expect(w[0].pairs).toHaveLength(9); // 10 pairs of 5, less c0–c4
+    expect(w[0].pairs![0]).toEqual({ parameters: ['c3', 'c4'], rho: 0.991 + 0.007 });
+    expect(w[0].pairs!.map((x) => Math.abs(x.rho))).toEqual([...w[0].pairs!.map((x) => Math.abs(x.rho))].sort((a, b) => b - a));
+    expect(w[0].parameters!.slice(0, 2)).toEqual(['c3', 'c4']);
+    expect(w[0].message).toMatch(/^9 pairs of parameters are strongly correlated \(\|ρ\| > 0\.99; 5 of the 5 free parameters take part\), the strongest c3–c4 \(ρ = 0\.998\), c2–c4 \(ρ = 0\.997\), c1–c4 \(ρ = 0\.996\) and 6 more;/);
+  });
+
   it('boundHit uses the relative tolerance max(1, |bound|)·1e-8', () => {
     expect(boundHit(100 + 5e-7, 100, 200)).toBe('lower');
     expect(boundHit(100 + 2e-6, 100, 200)).toBeNull();

@@ -11,11 +11,15 @@
  * have substantial support; Δ above 10, the other has essentially none; in
  * between, less support for the other. The F test's p is stated as what it
  * is, without a verdict of its own: the statistics are those of
- * engine/stats/compare.ts.
+ * engine/stats/compare.ts. The F test is there only for two fits whose
+ * nesting was established or declared (engine/run/nesting.ts); otherwise the
+ * block says why it is not shown. Fits that failed or did not converge are
+ * not ranked: the lead names them and the notes give each one's reason.
  */
 import type { QueryResult } from '../../result';
 import { formatInteger, formatNumber, formatP } from '../../format';
 import { AICC_CLEAR, AICC_TIE } from '../../thresholds';
+import { compareText } from '../../messages';
 import type { Align } from './table';
 
 type Comparison = Extract<QueryResult, { kind: 'compare' }>;
@@ -54,13 +58,21 @@ export function nestedTestSentence(t: NonNullable<Comparison['fTest']>): string 
   return `Nested test: ${t.richer} has ${more} than ${t.simpler}; F(${t.df1}, ${t.df2}) = ${formatNumber(t.f, 4)}, p ${p.startsWith('<') ? p : `= ${p}`}, the chance that scatter alone would lower the residual sum of squares this much.`;
 }
 
+/** A nesting detail as a sentence of the lead. */
+const sentence = (t: string) => `Nesting: ${t}${t.endsWith('.') ? '' : '.'}`;
+
 export function comparisonBlock(q: Comparison): ComparisonBlock {
   const heading = `${COMPARISON_HEADING}: ${q.fits.join(', ')}`;
   if (q.withheld) return { heading, lead: [], headers: [], rows: [], align: [], notes: [q.withheld] };
   const ranked = q.rows.filter((r) => Number.isFinite(r.aicc)).sort((a, b) => a.aicc - b.aicc);
   const best = ranked[0] ?? q.rows[0];
   const lead = q.rows.filter((r) => r !== best).map((r) => decisionSentence(best, r));
+  const excluded = q.excluded ?? [];
+  if (q.rows.length === 1) lead.push(compareText.onlyOne(q.rows[0].fit));
+  if (excluded.length) lead.push(compareText.leftOut(excluded.map((e) => e.fit)));
+  if (q.nesting) lead.push(sentence(q.nesting.detail));
   if (q.fTest) lead.push(nestedTestSentence(q.fTest));
+  else if (q.noFTest && q.rows.length >= 2) lead.push(q.noFTest);
   const measure = (label: string, cell: (r: Row) => string): string[] => [label, ...q.rows.map(cell)];
   const rows = [
     measure('points', (r) => formatInteger(r.n)),
@@ -71,6 +83,7 @@ export function comparisonBlock(q: Comparison): ComparisonBlock {
     measure('Akaike weight', (r) => formatNumber(r.akaikeWeight, 3)),
   ];
   const notes = ['AICc weighs how closely a model follows the data against how many parameters it spends; the Akaike weights share the support among these fits and add up to 1.'];
-  if (q.fTest) notes.push(`The nested test holds only if ${q.fTest.simpler} is ${q.fTest.richer} with some parameters fixed; the spec says which fits are nested, the test does not check it.`);
+  if (q.fTest && q.nesting?.status === 'declared') notes.push(`The nested test holds only if ${q.fTest.simpler} is ${q.fTest.richer} with some parameters fixed or tied; the spec declares it, so the test rests on that declaration.`);
+  for (const e of excluded) notes.push(`${e.fit} left out: ${e.reason}.`);
   return { heading, lead, headers: ['evidence', ...q.rows.map((r) => r.fit)], rows, align: ['left', ...q.rows.map((): Align => 'right')], notes };
 }

@@ -160,8 +160,10 @@ expect life above 0
       for (const p of pr.predictions) expect([p.fitted, ...p.confidence, ...p.prediction].every(Number.isNaN)).toBe(true);
       expect(inv.withheld).toMatch(/inverse predictions/);
       expect(inv.inversions).toEqual([{ response: 20, x: null, interval: [null, null] }]);
-      expect(cmp.rows).toEqual([]);
-      expect(cmp.withheld).toMatch(/^Withheld: fit decay did not converge/);
+      // the comparison leaves the fit out of its ranking, marked with its stop and why (issue: it used to be ranked, then withheld whole)
+      expect(cmp.rows.map((r) => r.fit)).toEqual(['other']);
+      expect(cmp.excluded).toEqual([{ fit: 'decay', code: 'max_iterations', reason: expect.stringMatching(/^the fit did not converge \(max_iterations: /) }]);
+      expect(cmp.fTest).toBeUndefined();
       expect(validate(resultToJsonValue(bad)), JSON.stringify(validate.errors)).toBe(true);
       // the converged fit answers as before
       const [p2, i2, c2] = ok.queries;
@@ -188,8 +190,9 @@ expect life above 0
       expect(text).toMatch(/^\s+100\s+withheld\s*$/m);
       expect(text).toMatch(/^\s+20\s+withheld\s*$/m);
       expect(text).toContain('Withheld: fit decay did not converge (max_iterations), so its predictions would come from values that are not estimates.');
-      expect(text).toContain('Withheld: fit decay did not converge (max_iterations), so its sums of squares and information criteria would come from values that are not estimates.');
-      expect(text).not.toContain('AICc weighs how closely'); // the comparison's closing note needs numbers
+      expect(text).toContain('Left out of the ranking: decay (it is not a converged result; see below).');
+      expect(text).toContain('Only other is a converged result: there is nothing to compare it with.');
+      expect(text).toContain('decay left out: the fit did not converge (max_iterations: ');
       expect(text).not.toMatch(/The data (clearly )?favour|do not tell/);
       const md = markdownReport(bad);
       expect(md).toContain('| 100 | withheld |  |  |');
