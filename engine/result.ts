@@ -112,7 +112,7 @@ export type WarningCode =
   | 'lack_of_fit'
   /** The residuals bend systematically with the fitted value (engine/stats/curvature.ts). */
   | 'curvature'
-  /** More bootstrap refits failed than the interval's tail holds: the bootstrap intervals are withheld (engine/run/bootstrap-summary.ts). */
+  /** More bootstrap refits failed than one tail of the interval holds: the bootstrap intervals are withheld (engine/run/bootstrap-summary.ts). */
   | 'bootstrap_failures';
 
 /** Every warning code (a code added to `WarningCode` without its entry here does not compile). */
