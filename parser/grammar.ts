@@ -184,7 +184,7 @@ export class LsqParser extends CstParser {
     this.CONSUME(T.Bootstrap);
     this.SUBRULE(this.value, { LABEL: 'replicates' });
     // `seed` is a soft keyword (also a Name): it is never read as the resampling word
-    this.OPTION({ GATE: () => this.LA(1).tokenType !== T.Seed, DEF: () => this.SUBRULE(this.word) });
+    this.OPTION({ GATE: () => this.LA(1).tokenType !== T.Seed && !T.startsStatement(this.LA(1)), DEF: () => this.SUBRULE(this.word) });
     this.OPTION2(() => {
       this.CONSUME(T.Seed);
       this.SUBRULE2(this.value, { LABEL: 'seed' });

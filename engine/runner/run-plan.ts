@@ -183,7 +183,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
         done += groups.length;
         // Groups the cancellation caught before they started are left out, as in the loop below.
         const started = fitted.filter((r) => !isUnstarted(r));
-        for (const r of started) results.get(fit.name)!.push(r);
+        for (const r of started) results.get(fit.name)!.push(groupBootstrap(fit, data0(groups), r));
         const missed = fitted.find(isUnstarted);
         if (missed) errors.push({ code: 'cancelled', message: runText.cancelledBefore(runText.fitLabel(fit.name, missed.group ?? '')), range: fit.range, fit: fit.name });
         continue;
@@ -202,7 +202,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
       const one = shared
         ? fitOneGroup(fit, data, { cancel: opts.cancel, shared, ...(opts.solvers ? { solvers: opts.solvers } : {}), ...watch, ...trace })
         : runFit(fit, data, { cancel: opts.cancel, solvers: opts.solvers, ...watch, ...trace });
-      let final = one;
+      let final = shared ? groupBootstrap(fit, data, one) : one;
       if (!shared) {
         // a single fit: its bootstrap (engine/run/bootstrap-fit.ts) and the rows for the intervals of its derived quantities
         const planned = planBootstrap(fit, data, one);
@@ -272,6 +272,14 @@ export function finishRun(plan: Plan, run: FittedRun): RunResult {
     errors,
   };
 }
+
+/** A group of a per-group fit that asks for a bootstrap: the summary saying it is not run for groups (engine/run/bootstrap-fit.ts). */
+function groupBootstrap(fit: FitPlan, data: FitData, r: FitResult): FitResult {
+  const planned = fit.options.bootstrap ? planBootstrap(fit, { ...data, group: r.group ?? data.group ?? '' }, r) : null;
+  return planned && 'skipped' in planned ? { ...r, bootstrap: planned.skipped } : r;
+}
+
+const data0 = (groups: readonly FitData[]): FitData => groups[0];
 
 /** A group result standing for a group the cancellation caught before it started (engine/groups `unfittedGroup`). */
 function isUnstarted(r: FitResult): boolean {
