@@ -8,11 +8,12 @@
  * (engine/run/bootstrap.ts), so the result is bit-identical whatever the
  * number of threads, the chunking or the finishing order.
  *
- * When to use threads (`bootstrapThreads`): `threads: 1` never; otherwise
- * `threads` or all cores when the job has at least AUTO_MIN_REFIT_ROWS
- * refit-rows (refits × rows): starting workers costs about 50–100 ms
- * (engine/groups/threads.ts), about the time of 20,000 refit-rows of a small
- * nonlinear model here.
+ * When to use threads (`bootstrapThreads`): `threads: 1` never; `threads N`
+ * (N ≥ 2) always; automatic: all cores when the job has at least
+ * AUTO_MIN_REFIT_ROWS refit-rows (refits × rows). Measured (test/bench case
+ * 21, 2026-12-03, 2 cores under a load average of 19): 2100 refits of 100
+ * rows (210,000 refit-rows) took 1.2 s in one thread and 4.1 s on two
+ * workers, so the bound keeps jobs under about 5 s of one-thread work here.
  */
 import os from 'node:os';
 import { Worker } from 'node:worker_threads';
@@ -20,7 +21,7 @@ import { isWorkerResponse, type WorkerRequest } from '../groups/protocol';
 import { jobSize, runBootstrapRange, type BootstrapChunk, type BootstrapJob } from './bootstrap';
 
 /** Refits × rows below which the refits stay in this thread when the thread count is automatic. */
-export const AUTO_MIN_REFIT_ROWS = 20_000;
+export const AUTO_MIN_REFIT_ROWS = 1_000_000;
 
 /** Chunks per thread: small enough to balance slow refits, large enough that messages cost little. */
 const CHUNKS_PER_THREAD = 8;
