@@ -39,7 +39,7 @@ export const CODES = {
   bounds_order: { severity: 'error', when: 'lower bound not below upper bound (also `within LOW .. HIGH` with LOW > HIGH)' },
   initial_outside_bounds: { severity: 'error', when: 'start value outside the bounds' },
   fixed_without_value: { severity: 'error', when: '`fixed` parameter without `= VALUE`' },
-  unknown_option: { severity: 'error', when: 'unknown method, loss, profile mode, delimiter or decimal mark, with "did you mean"; a former name (loss `soft_l1`), with its new name' },
+  unknown_option: { severity: 'error', when: 'unknown method, loss, profile mode, bootstrap resampling, delimiter or decimal mark, with "did you mean"; a former name (loss `soft_l1`), with its new name' },
   level_range: { severity: 'error', when: '`level` not strictly between 0 and 1' },
   explore_range: { severity: 'error', when: `\`explore\` not a whole number from 0 to ${MAX_EXPLORE}` },
   bootstrap_range: { severity: 'error', when: `\`bootstrap\` refits not a whole number from ${MIN_BOOTSTRAP} to ${MAX_BOOTSTRAP}` },
