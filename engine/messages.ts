@@ -98,6 +98,8 @@ export const warningText = {
     `the model misses the means of the replicates (lack-of-fit F(${df1}, ${df2}) = ${num(f)}, p = ${num(p)} < ${num(level)}): the scatter between replicates is smaller than the model's misfit - the model may be the wrong shape`,
   curvature: (t: number, dof: number, p: number, level: number, linearised: boolean) =>
     `curvature: the residuals bend with the fitted value (t = ${num(t)} on ${dof} degrees of freedom for an added squared fitted value, p = ${num(p)} < ${num(level)}${linearised ? ', linearised model' : ''}); the model may miss a bend in the data - consider another shape or a curved term`,
+  bootstrap_failures: (failed: number, replicates: number, allowed: number) =>
+    `${failed} of ${replicates} bootstrap refits failed, more than the ${allowed} the interval's tails may lose (a failed refit is most likely a sample from a tail): the bootstrap intervals are withheld - the model may be too flexible for these data`,
 } satisfies Record<WarningCode, (...args: never[]) => string> & Record<string, (...args: never[]) => string>;
 
 /** Notes added to a fit's stop message by the multi-start search (engine/run/fit.ts). */
@@ -422,3 +424,48 @@ export const adjustedText = {
   setAside: (a: { family: number; level: number; pValue: number }) =>
     `; not upheld across the fit's ${a.family} groups by Holm's step-down procedure at family-wise level ${num(a.level)} (Holm 1979): with this many groups, chance alone gives such a p (${num(a.pValue)}) now and then`,
 } as const;
+
+/** The bootstrap (engine/run/bootstrap.ts, bootstrap-summary.ts) and the intervals of derived quantities (engine/run/derived-intervals.ts). */
+export const bootstrapText = {
+  cancelled: 'cancelled',
+  noResiduals: 'no residuals to resample (every row has leverage one)',
+  tooFewRows: 'fewer rows than parameters',
+  rankDeficient: 'the sample does not determine every parameter (rank below p)',
+  notConverged: (code: string) => `the refit did not converge (${code})`,
+  notFinite: 'an estimate is not finite',
+  computed: (replicates: number, resample: string, seed: number, level: number, failed: number) =>
+    `${replicates} refits (${resample === 'cases' ? 'cases resampled' : resample === 'adjusted' ? 'leverage-adjusted residuals resampled' : 'residuals resampled'}, seed ${seed}) started from the estimate; ${num(100 * level)} % percentile intervals (Efron & Tibshirani 1993, §13.3)${failed > 0 ? `; ${failed} refits failed and are left out` : ''}`,
+  withheld: (failed: number, replicates: number, allowed: number) =>
+    `withheld: ${failed} of ${replicates} refits failed, more than the ${allowed} that the interval's tails may lose`,
+  fewInTail: (tail: number) => `only about ${num(tail)} replicates lie beyond each end: the ends are uncertain (Efron & Tibshirani 1993, §19.3, suggest at least 1000 refits for percentile intervals)`,
+  group: 'not run for the groups of a per-group fit',
+  robust: 'not run for a robust loss (the refits would need the robust weights of each sample)',
+  notConverged2: 'not run: the fit did not converge',
+  noDof: 'not run: no degrees of freedom (the residuals carry no information)',
+  bca: 'BCa intervals (Efron & Tibshirani 1993, §14.3): bias correction from the replicates, acceleration from leave-one-out refits',
+  bcaTooMany: (n: number, max: number) => `no BCa intervals: ${n} rows is over ${max} for the leave-one-out refits of the acceleration`,
+  bcaJackFailed: (failed: number) => `no BCa intervals: ${failed} leave-one-out refits failed`,
+  bcaDegenerate: 'no BCa interval: the replicates all lie on one side of the estimate, or the acceleration is not finite',
+  derivedManyFits: 'no bootstrap interval: the quantity reads several fits',
+  derivedNoBootstrap: (fit: string) => `no bootstrap interval: fit ${fit} ran no bootstrap`,
+  derivedGroups: 'no bootstrap interval: the quantity reads a per-group fit',
+  derivedNotFinite: (count: number) => `${count} replicates give no finite value and are left out`,
+  statisticsFixed: 'statistics in the expression held at their fitted values',
+};
+
+/** Profile intervals of derived quantities (engine/run/derived-profile.ts). */
+export const derivedProfileText = {
+  computed: (level: number, critical: number, eliminated: string) =>
+    `${num(100 * level)} %, where the profile t statistic |τ| ≤ t = ${num(critical)}: the sum of squares minimised with the quantity held at each value (${eliminated} solved from it; Bates & Watts 1988, §6.1; Venzon & Moolgavkar 1988)`,
+  manyFits: 'not computed: the quantity reads several fits',
+  groups: 'not computed for a quantity of a per-group fit',
+  notRun: (fit: string) => `not computed: fit ${fit} has no profile (${'`profile never`'}, a robust loss, no degrees of freedom, or a fit that did not converge)`,
+  noParameter: 'not computed: the quantity depends on no free parameter',
+  noStderr: 'not computed: the quantity has no standard error to step by',
+  overBound: (np: number, bound: number) => `not computed: n·p = ${np} is over the work bound ${bound}; \`profile always\` asks for it`,
+  statistics: 'not computed: the quantity reads fit statistics, which change along the profile',
+  notSolvable: (name: string) => `${name} could not be solved from the quantity`,
+  outsideBounds: (name: string) => `${name} solved from the quantity leaves its bounds`,
+  differs: (name: string, profile: string, wald: string) =>
+    `the curvature of the model makes the symmetric interval misleading for ${name}: the profile interval is ${profile}, the symmetric one ${wald}; use the profile interval`,
+};

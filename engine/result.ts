@@ -111,13 +111,16 @@ export type WarningCode =
   /** Lack-of-fit F test against pure error from replicated predictor values. */
   | 'lack_of_fit'
   /** The residuals bend systematically with the fitted value (engine/stats/curvature.ts). */
-  | 'curvature';
+  | 'curvature'
+  /** More bootstrap refits failed than one tail of the interval holds: the bootstrap intervals are withheld (engine/run/bootstrap-summary.ts). */
+  | 'bootstrap_failures';
 
 /** Every warning code (a code added to `WarningCode` without its entry here does not compile). */
 export const WARNING_CODES: readonly WarningCode[] = Object.freeze(Object.keys({
   at_bound: 1, high_correlation: 1, ill_conditioned: 1, few_dof: 1, no_convergence: 1, residual_pattern: 1,
   non_normal_residuals: 1, r2_nonlinear: 1, rows_dropped: 1, rank_deficient: 1, guessed_start: 1, lower_minimum: 1,
   retried_start: 1, profile_differs: 1, exact_point: 1, high_leverage: 1, influential_point: 1, outlier: 1, lack_of_fit: 1, curvature: 1,
+  bootstrap_failures: 1,
 } satisfies Record<WarningCode, 1>) as WarningCode[]);
 
 export interface FitWarning {
@@ -165,6 +168,67 @@ export interface ParameterResult {
   unit?: string;
   /** Profile-likelihood interval at `level`, when it was computed (see `FitResult.profile`; additive, optional). */
   profile?: ProfileInterval;
+  /** Bootstrap intervals at `level`, when the fit asked for them and they were not withheld (see `FitResult.bootstrap`; additive, optional). */
+  bootstrap?: BootstrapInterval;
+}
+
+/**
+ * Bootstrap intervals of one quantity (a parameter or a derived quantity) from
+ * the refits that succeeded (engine/run/bootstrap-summary.ts).
+ */
+export interface BootstrapInterval {
+  /** Percentile interval (Efron & Tibshirani 1993, §13.3): the (1 − level)/2 and (1 + level)/2 quantiles of the replicates. */
+  lower: number;
+  upper: number;
+  /** BCa interval (Efron & Tibshirani 1993, §14.3), null when not computed (see `BootstrapSummary.bcaNote`). */
+  bcaLower: number | null;
+  bcaUpper: number | null;
+  /** Standard deviation of the replicates (the bootstrap standard error, §6.2). */
+  stderr: number;
+  /** The bias-correction z₀ of BCa (eq. 14.14), null without BCa. */
+  z0: number | null;
+  /** The acceleration a of BCa (jackknife, eq. 14.15), null without BCa. */
+  acceleration: number | null;
+}
+
+/**
+ * What the bootstrap of a fit did: `computed` — every free parameter has
+ * `bootstrap`; `withheld` — too many refits failed (`note` says how many and
+ * why); `skipped` — not run (`note` says why: a per-group fit, a robust loss,
+ * a fit that did not converge, cancelled).
+ */
+export interface BootstrapSummary {
+  status: 'computed' | 'withheld' | 'skipped';
+  note: string;
+  resample: 'residuals' | 'adjusted' | 'cases';
+  /** Replicates asked for. */
+  replicates: number;
+  /** The seed of the random streams (the default when the spec gives none), so the run reproduces. */
+  seed: number;
+  level: number;
+  /** Refits that failed (of `replicates`), and why, most frequent first. */
+  failed: number;
+  failures: { reason: string; count: number }[];
+  /** Whether BCa intervals were computed, and why not when not. */
+  bca: boolean;
+  bcaNote: string;
+  /** Leave-one-out refits for the BCa acceleration (0 without BCa), and how many failed. */
+  jackknife: number;
+  jackknifeFailed: number;
+}
+
+/** Profile or bootstrap interval of a derived quantity, or why there is none (engine/run/derived-intervals.ts). */
+export interface DerivedProfile {
+  status: 'computed' | 'skipped';
+  note: string;
+  /** The interval, when computed. */
+  interval: ProfileInterval | null;
+}
+
+export interface DerivedBootstrap {
+  status: 'computed' | 'withheld' | 'skipped';
+  note: string;
+  interval: BootstrapInterval | null;
 }
 
 /**
@@ -504,6 +568,8 @@ export interface FitResult {
   retry?: RetryRecord;
   /** Profile-likelihood intervals: computed, equal to Wald (linear model), or why skipped; absent for a fit that did not converge (additive, optional). */
   profile?: ProfileSummary;
+  /** The bootstrap, when the fit asked for it (`bootstrap N`; additive, optional). */
+  bootstrap?: BootstrapSummary;
   /** Milliseconds spent fitting (not deterministic; views may omit it). */
   elapsedMs: number;
 }
@@ -622,6 +688,12 @@ export interface DerivedResult {
   note: string;
   /** The derive statement in the spec. */
   range?: Range;
+  /** Profile-likelihood interval at `level` for a quantity of one single fit (additive, optional; engine/run/derived-intervals.ts). */
+  profile?: DerivedProfile;
+  /** Bootstrap intervals, when the fit it reads ran a bootstrap (additive, optional). */
+  bootstrap?: DerivedBootstrap;
+  /** Warnings about this quantity (`profile_differs`; additive, optional). */
+  warnings?: FitWarning[];
 }
 
 /** A data or run-time problem with a location (spec range or data file cell). */

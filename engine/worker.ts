@@ -3,6 +3,8 @@
  * jobs of engine/groups/protocol.ts:
  * - `fitGroups` (fitGroupsParallel): fits a chunk of groups in order and
  *   answers `groupsDone` with one FitResult per group;
+ * - `bootstrap` (engine/run/bootstrap-threads.ts): bootstrap refits of one fit,
+ *   answered by `bootstrapDone`;
  * - `runPlan` (the editor extension): runs a whole plan, reading its data
  *   files, and answers `runPlanDone`.
  * Progress goes out as `progress` messages at most every PROGRESS_MS (and at
@@ -18,6 +20,7 @@ import { cancelTokenOf, isWorkerRequest, type WorkerRequest, type WorkerResponse
 import { runPlanJob } from './runner/plan-job';
 import { packNumbers } from './groups/pack';
 import { runText } from './messages';
+import { runBootstrapRange } from './run/bootstrap';
 
 /** Minimum interval between progress messages, in ms. */
 const PROGRESS_MS = 50;
@@ -44,6 +47,10 @@ async function handle(req: WorkerRequest, send: (m: WorkerResponse) => void): Pr
       if (done < total) progress(done, total);
     }, req.shared);
     send({ kind: 'groupsDone', id: req.id, results: packNumbers(results) });
+    return;
+  }
+  if (req.kind === 'bootstrap') {
+    send({ kind: 'bootstrapDone', id: req.id, chunk: runBootstrapRange(req.job, req.from, req.to, cancel) });
     return;
   }
   let lastIteration = -Infinity;

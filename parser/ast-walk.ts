@@ -43,6 +43,7 @@ export function walkNames(ast: SpecAst, v: NameVisitor): void {
             case 'method': case 'profile': n(i.value); break;
             case 'loss': n(i.value); val(i.scale); break;
             case 'per': n(i.column); break;
+            case 'bootstrap': val(i.replicates); n(i.resample); val(i.seed); break;
             default: val(i.value); break;
           }
         }

@@ -105,7 +105,8 @@ export type FitItemAst =
   | { kind: 'profile'; value: NameAst | undefined; range: Range }
   | { kind: 'loss'; value: NameAst | undefined; scale?: ValueAst; range: Range }
   | NumericOptionAst
-  | { kind: 'per'; column: NameAst | undefined; range: Range };
+  | { kind: 'per'; column: NameAst | undefined; range: Range }
+  | { kind: 'bootstrap'; replicates: ValueAst; resample: NameAst | undefined; seed?: ValueAst; range: Range };
 
 export interface FitAst {
   kind: 'fit';

@@ -5,6 +5,7 @@
 import type { FitAst, FitItemAst, NumericOptionAst, NumericOptionKind } from './ast';
 import type { FitOptions } from './plan';
 import { LOSSES, MAX_EXPLORE, METHODS, PROFILE_MODES, RENAMED_LOSSES, isLoss, isMethod, isProfileMode, type KeywordName } from './registry';
+import { BOOTSTRAP_RESAMPLES, DEFAULT_BOOTSTRAP_SEED, MAX_BOOTSTRAP, MAX_BOOTSTRAP_SEED, MIN_BOOTSTRAP, isBootstrapResample, type BootstrapResample } from './registry';
 import type { Env } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
@@ -22,6 +23,7 @@ export const OPTION_KEYWORD: Readonly<Record<keyof FitOptions, KeywordName>> = {
   learningRate: 'rate',
   explore: 'explore',
   profile: 'profile',
+  bootstrap: 'bootstrap',
 };
 
 /** Default options (plan.ts FitOptions docs). */
@@ -105,6 +107,35 @@ export function checkOptions(env: Env, fit: FitAst, dataName: string, columns: R
     if (isProfileMode(v)) {
       if (v !== 'auto') options.profile = v;
     } else r.report('unknown_option', MSG.unknownOption('profile', v, PROFILE_MODES), profile.value.range, env.suggester.suggest(v, PROFILE_MODES));
+  }
+
+  const bootstrap = once('bootstrap', 'bootstrap');
+  if (bootstrap) {
+    const n = resolveValue(env, bootstrap.replicates, { allowInf: false });
+    let ok = n !== undefined;
+    if (n !== undefined && !(Number.isInteger(n) && n >= MIN_BOOTSTRAP && n <= MAX_BOOTSTRAP)) {
+      r.report('bootstrap_range', MSG.bootstrapRange(n, MIN_BOOTSTRAP, MAX_BOOTSTRAP), bootstrap.replicates.range);
+      ok = false;
+    }
+    let resample: BootstrapResample = 'residuals';
+    if (bootstrap.resample) {
+      const v = bootstrap.resample.name;
+      if (isBootstrapResample(v)) resample = v;
+      else {
+        r.report('unknown_option', MSG.unknownOption('bootstrap', v, BOOTSTRAP_RESAMPLES), bootstrap.resample.range, env.suggester.suggest(v, BOOTSTRAP_RESAMPLES));
+        ok = false;
+      }
+    }
+    let seed = DEFAULT_BOOTSTRAP_SEED;
+    if (bootstrap.seed) {
+      const s = resolveValue(env, bootstrap.seed, { allowInf: false });
+      if (s !== undefined && !(Number.isInteger(s) && s >= 0 && s <= MAX_BOOTSTRAP_SEED)) {
+        r.report('seed_range', MSG.seedRange(s, MAX_BOOTSTRAP_SEED), bootstrap.seed.range);
+        ok = false;
+      } else if (s === undefined) ok = false;
+      else seed = s;
+    }
+    if (ok && n !== undefined) options.bootstrap = { replicates: n, resample, seed };
   }
 
   let groupBy: string | undefined;

@@ -10,6 +10,7 @@
  *               | 'param' Name ( '=' value | 'in' '[' value ',' value ']' | 'fixed' | Unit )*
  *               | ('sigma' | 'weight') expr | ('method' | 'profile') Name | 'loss' Name ('scale' value)?
  *               | ('level' | 'iterations' | 'tolerance' | 'rate' | 'explore') value | 'per' column
+ *               | 'bootstrap' value Name? ('seed' value)?
  *   derive     := 'derive' Name '=' expr Unit?
  *   predict    := ('predict' | 'invert') Name 'at' column '=' value (',' value)* queryOpt*
  *   queryOpt   := 'readings' value | ('sigma' | 'weight') value (',' value)*
@@ -135,8 +136,9 @@ export class LsqParser extends CstParser {
         { ALT: () => this.SUBRULE(this.lossOption) },
         { ALT: () => this.SUBRULE(this.numberOption) },
         { ALT: () => this.SUBRULE(this.perOption) },
+        { ALT: () => this.SUBRULE(this.bootstrapOption) },
       ],
-      ERR_MSG: 'model, param, sigma, weight, method, loss, level, iterations, tolerance, rate, explore, profile, per or }',
+      ERR_MSG: 'model, param, sigma, weight, method, loss, level, iterations, tolerance, rate, explore, profile, bootstrap, per or }',
     });
   });
 
@@ -179,6 +181,17 @@ export class LsqParser extends CstParser {
   private nameOption = this.RULE('nameOption', () => {
     this.OR([{ ALT: () => this.CONSUME(T.Method, { LABEL: 'keyword' }) }, { ALT: () => this.CONSUME(T.Profile, { LABEL: 'keyword' }) }]);
     this.SUBRULE(this.word);
+  });
+
+  private bootstrapOption = this.RULE('bootstrapOption', () => {
+    this.CONSUME(T.Bootstrap);
+    this.SUBRULE(this.value, { LABEL: 'replicates' });
+    // `seed` is a soft keyword (also a Name): it is never read as the resampling word
+    this.OPTION({ GATE: () => this.LA(1).tokenType !== T.Seed && !T.startsStatement(this.LA(1)), DEF: () => this.SUBRULE(this.word) });
+    this.OPTION2(() => {
+      this.CONSUME(T.Seed);
+      this.SUBRULE2(this.value, { LABEL: 'seed' });
+    });
   });
 
   private lossOption = this.RULE('lossOption', () => {

@@ -11,7 +11,7 @@
 import type { Severity } from './plan';
 import { inlineText } from './printable';
 import { LOSSES } from './registry/losses';
-import { MAX_EXPLORE } from './registry/options';
+import { MAX_BOOTSTRAP, MAX_BOOTSTRAP_SEED, MAX_EXPLORE, MIN_BOOTSTRAP } from './registry/options';
 import { MAX_NESTING } from './limits';
 
 export const CODES = {
@@ -39,9 +39,11 @@ export const CODES = {
   bounds_order: { severity: 'error', when: 'lower bound not below upper bound (also `within LOW .. HIGH` with LOW > HIGH)' },
   initial_outside_bounds: { severity: 'error', when: 'start value outside the bounds' },
   fixed_without_value: { severity: 'error', when: '`fixed` parameter without `= VALUE`' },
-  unknown_option: { severity: 'error', when: 'unknown method, loss, profile mode, delimiter or decimal mark, with "did you mean"; a former name (loss `soft_l1`), with its new name' },
+  unknown_option: { severity: 'error', when: 'unknown method, loss, profile mode, bootstrap resampling, delimiter or decimal mark, with "did you mean"; a former name (loss `soft_l1`), with its new name' },
   level_range: { severity: 'error', when: '`level` not strictly between 0 and 1' },
   explore_range: { severity: 'error', when: `\`explore\` not a whole number from 0 to ${MAX_EXPLORE}` },
+  bootstrap_range: { severity: 'error', when: `\`bootstrap\` refits not a whole number from ${MIN_BOOTSTRAP} to ${MAX_BOOTSTRAP}` },
+  seed_range: { severity: 'error', when: `\`seed\` not a whole number from 0 to ${MAX_BOOTSTRAP_SEED}` },
   not_positive: { severity: 'error', when: '`iterations`, `tolerance`, `rate` or `scale` not greater than 0' },
   not_integer: { severity: 'error', when: '`iterations` not a whole number' },
   inf_not_allowed: { severity: 'error', when: '`inf` anywhere but parameter bounds' },
@@ -161,6 +163,8 @@ export const MSG = {
   unusedData: (name: string) => `data ${q(name)} is not used by any fit`,
   scaleIgnored: `scale only matters for a robust loss (${LOSSES.filter((l) => l !== 'squared').join(', ')}); it is ignored with squared`,
   rateIgnored: 'rate only matters for method gradient_descent; it is ignored here',
+  bootstrapRange: (v: number, min: number, max: number) => `bootstrap takes a whole number of refits from ${min} to ${max}, not ${v}`,
+  seedRange: (v: number, max: number) => `seed must be a whole number from 0 to ${max}, not ${v}`,
   exploreRange: (v: number, max: number) => `explore must be a whole number from 0 (no search) to ${max}, not ${v}`,
   exploreIgnored: 'explore only matters for the Levenberg–Marquardt solver (method auto or levenberg_marquardt); it is ignored here',
   didYouMean: (names: readonly string[]) => (names.length ? ` - did you mean ${names.map(q).join(' or ')}?` : ''),

@@ -19,7 +19,7 @@ import type { FunctionName } from './registry/functions';
 import type { Method } from './registry/methods';
 import type { LossKind } from './registry/losses';
 import type { StatisticName } from './registry/statistics';
-import type { ProfileMode } from './registry/options';
+import type { BootstrapResample, ProfileMode } from './registry/options';
 
 export const PLAN_VERSION = 1 as const;
 
@@ -125,6 +125,7 @@ export interface ParameterPlan {
 export { METHODS, type Method } from './registry/methods';
 export { LOSSES, type LossKind } from './registry/losses';
 export { MAX_EXPLORE, PROFILE_MODES, type ProfileMode } from './registry/options';
+export { BOOTSTRAP_RESAMPLES, type BootstrapResample } from './registry/options';
 export { STATISTICS, type StatisticName } from './registry/statistics';
 
 export interface FitOptions {
@@ -161,6 +162,18 @@ export interface FitOptions {
    * `always`: also per group, beyond the bound and for linear models; `never`: not computed.
    */
   profile?: ProfileMode;
+  /**
+   * Bootstrap intervals (`bootstrap N [residuals | adjusted | cases] [seed S]`; engine/run/bootstrap.ts).
+   * Default (absent): none. `resample` default `residuals`, `seed` default DEFAULT_BOOTSTRAP_SEED.
+   */
+  bootstrap?: BootstrapOptions;
+}
+
+/** What `bootstrap` asks for (parser/registry/options.ts). */
+export interface BootstrapOptions {
+  replicates: number;
+  resample: BootstrapResample;
+  seed: number;
 }
 
 /** One dataset's share of a fit: `response = model` over the rows of `data`. */

@@ -267,6 +267,15 @@ class AstBuilder extends BaseVisitor {
     return { kind, value, range: cover(t && tokenRange(t), value.range) };
   }
 
+  bootstrapOption(ctx: Children): FitItemAst {
+    const kw = this.tokRange(ctx, 'Bootstrap');
+    const replicates = this.val(this.node(ctx, 'replicates'));
+    const resample = this.wordOf(ctx);
+    const seedKw = this.tokRange(ctx, 'Seed');
+    const seed = seedKw || ctx.seed ? this.val(this.node(ctx, 'seed')) : undefined;
+    return { kind: 'bootstrap', replicates, resample, ...(seed ? { seed } : {}), range: cover(kw, replicates.range, resample?.range, seedKw, seed?.range) };
+  }
+
   perOption(ctx: Children): FitItemAst {
     const kw = this.tokRange(ctx, 'Per');
     const n = this.node(ctx, 'column');

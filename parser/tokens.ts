@@ -93,6 +93,8 @@ export const Tolerance = keyword('tolerance');
 export const Rate = keyword('rate');
 export const Explore = keyword('explore');
 export const Profile = keyword('profile');
+export const Bootstrap = keyword('bootstrap');
+export const Seed = keyword('seed');
 export const Per = keyword('per');
 // Queries and expectations
 export const At = keyword('at');
@@ -109,7 +111,7 @@ export const Inf = keyword('inf', []);
 /** All keywords, longest first so a keyword that is a prefix of another (`in`, `inf`) comes after it. */
 export const KEYWORD_TOKENS: readonly TokenType[] = [
   Data, Const, Fit, Derive, Predict, Invert, Backcalc, Compare, Expect, Where, Delimiter, Decimal, On, Model, Param, In, Fixed,
-  Sigma, Weight, Method, Loss, Scale, Level, Iterations, Tolerance, Rate, Explore, Profile, Per, At, Readings, Within, Above, Below,
+  Sigma, Weight, Method, Loss, Scale, Level, Iterations, Tolerance, Rate, Explore, Profile, Bootstrap, Seed, Per, At, Readings, Within, Above, Below,
   And, Or, Not, Inf,
 ].sort((a, b) => String(b.PATTERN).length - String(a.PATTERN).length);
 

@@ -18,6 +18,7 @@ import type { FitPlan, Plan } from '../../parser/plan';
 import type { FitResult, RunResult } from '../result';
 import type { FitData } from '../run/fit-data';
 import type { SharedStart } from './starts';
+import type { BootstrapChunk, BootstrapJob } from '../run/bootstrap';
 
 /** Options of `runPlan` that can cross a thread boundary (no functions). */
 export interface RunPlanJobOptions {
@@ -40,7 +41,9 @@ export type WorkerRequest =
       /** The fit's shared start (engine/groups/starts.ts), computed once by the host. */
       shared?: SharedStart;
       cancelFlag: SharedArrayBuffer | null;
-    };
+    }
+  /** Bootstrap refits [from, to) of one fit (engine/run/bootstrap-threads.ts); answered by `bootstrapDone`. */
+  | { kind: 'bootstrap'; id: number; job: BootstrapJob; from: number; to: number; cancelFlag: SharedArrayBuffer | null };
 
 export type WorkerResponse =
   /** Progress inside a job: `done` of `total` units (groups, or fits for runPlan). */
@@ -50,6 +53,8 @@ export type WorkerResponse =
   | { kind: 'runPlanDone'; id: number; result: RunResult }
   /** Results in the order sent; long number arrays travel packed as Float64Arrays (`pack.ts`: `unpackNumbers` restores them). */
   | { kind: 'groupsDone'; id: number; results: FitResult[] }
+  /** Bootstrap refits of a `bootstrap` job, in index order. */
+  | { kind: 'bootstrapDone'; id: number; chunk: BootstrapChunk }
   /** The job itself could not run (a bug, not a fit failure: those are FitResults with stop `failed`). */
   | { kind: 'error'; id: number; message: string };
 
@@ -65,6 +70,7 @@ export function isWorkerRequest(x: unknown): x is WorkerRequest {
   const flagOk = x.cancelFlag === null || x.cancelFlag instanceof SharedArrayBuffer;
   if (x.kind === 'runPlan') return flagOk && isObject(x.plan) && isObject(x.options) && typeof x.options.baseDir === 'string';
   if (x.kind === 'fitGroups') return flagOk && isObject(x.fit) && typeof x.fit.name === 'string' && Array.isArray(x.groups) && (x.shared === undefined || (isObject(x.shared) && typeof x.shared.kind === 'string'));
+  if (x.kind === 'bootstrap') return flagOk && isObject(x.job) && typeof x.from === 'number' && typeof x.to === 'number';
   return false;
 }
 
@@ -79,6 +85,8 @@ export function isWorkerResponse(x: unknown): x is WorkerResponse {
       return isObject(x.result);
     case 'groupsDone':
       return Array.isArray(x.results);
+    case 'bootstrapDone':
+      return isObject(x.chunk) && typeof x.chunk.from === 'number';
     case 'error':
       return typeof x.message === 'string';
     default:

@@ -380,3 +380,78 @@ export function runDerived(plans: readonly DerivedPlan[], results: ReadonlyMap<s
   }
   return out;
 }
+
+/**
+ * A derived quantity as a function of the free parameters of the one fit it
+ * reads (for its bootstrap and profile intervals, engine/run/derived-intervals.ts):
+ * value and gradient at any parameter vector, statistics held at the fit's
+ * values. A string says why there is none (several fits, a per-group fit, a
+ * quantity that cannot be evaluated).
+ */
+export interface DerivedFunction {
+  fit: string;
+  /** The expression reads fit statistics (held fixed). */
+  readsStatistics: boolean;
+  at(thetaFree: Float64Array): { value: number; grad: Float64Array };
+}
+
+export function derivedFunctions(plans: readonly DerivedPlan[], results: ReadonlyMap<string, FitResult[]>): Map<string, DerivedFunction | 'many_fits' | 'groups' | 'unusable'> {
+  const defs = new Map<string, Prepared | null>();
+  const grouped = (fit: string) => (results.get(fit) ?? []).some((r) => r.group !== undefined);
+  const out = new Map<string, DerivedFunction | 'many_fits' | 'groups' | 'unusable'>();
+  for (const d of plans) {
+    let prepared: Prepared;
+    try {
+      prepared = prepare(d, defs);
+    } catch {
+      prepared = { plan: d, fits: [], slots: [], direct: [], deps: [], model: null, error: 'unusable' };
+    }
+    defs.set(d.name, prepared.error ? null : prepared);
+    if (prepared.error || !prepared.model) out.set(d.name, 'unusable');
+    else if (prepared.fits.length !== 1) out.set(d.name, 'many_fits');
+    else if (grouped(prepared.fits[0])) out.set(d.name, 'groups');
+    else {
+      const fit = prepared.fits[0];
+      const r = (results.get(fit) ?? [])[0];
+      if (!r) {
+        out.set(d.name, 'unusable');
+        continue;
+      }
+      const freeIndex = new Map<string, number>();
+      r.parameters.filter((q) => !q.fixed).forEach((q, j) => freeIndex.set(q.name, j));
+      const p = freeIndex.size;
+      const base = new Float64Array(prepared.slots.length);
+      const map = new Int32Array(prepared.slots.length).fill(-1);
+      let bad = false;
+      prepared.slots.forEach((s, k) => {
+        if (s.of === 'statistic') base[k] = statisticValue(r, s.name as Parameters<typeof statisticValue>[1]);
+        else {
+          const q = r.parameters.find((x) => x.name === s.name);
+          if (!q) bad = true;
+          else {
+            base[k] = q.estimate;
+            map[k] = freeIndex.get(s.name) ?? -1;
+          }
+        }
+      });
+      if (bad) {
+        out.set(d.name, 'unusable');
+        continue;
+      }
+      const pp = prepared;
+      out.set(d.name, {
+        fit,
+        readsStatistics: prepared.slots.some((s) => s.of === 'statistic'),
+        at(thetaFree: Float64Array) {
+          const theta = new Float64Array(base);
+          for (let k = 0; k < map.length; k++) if (map[k] >= 0) theta[k] = thetaFree[map[k]];
+          const raw = rawNumbers(pp, theta, '', new Map(), defs, () => false);
+          const grad = new Float64Array(p);
+          for (let k = 0; k < map.length; k++) if (map[k] >= 0) grad[map[k]] += raw.grad[k];
+          return { value: raw.value, grad };
+        },
+      });
+    }
+  }
+  return out;
+}

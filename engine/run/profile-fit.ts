@@ -124,7 +124,7 @@ function atRoundingLevel(ssScaled: number, input: ProfileFitInput): boolean {
  * further from it than PROFILE_MATERIAL Wald half-widths (engine/thresholds.ts). A failed end
  * is not compared (the row says it was not found).
  */
-function materiallyDifferent(end: ProfileEnd, waldEnd: number, wald: { lower: number; upper: number }): boolean {
+export function materiallyDifferent(end: ProfileEnd, waldEnd: number, wald: { lower: number; upper: number }): boolean {
   const half = (wald.upper - wald.lower) / 2;
   if (!Number.isFinite(waldEnd) || !(half > 0)) return false;
   if (end.kind === 'failed' || end.value === null) return false;

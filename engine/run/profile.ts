@@ -135,9 +135,37 @@ function profileOne(input: ProfileInput, j: number, sHat: number): ParameterProf
   const at = { v: theta[j] };
   const reduced = reducedProblem(problem, j, theta, at);
   const rest0 = Float64Array.from(Array.from(theta).filter((_, k) => k !== j));
-  const buf = new Float64Array(problem.n);
+  return profileCurve({ reduced, at, rest0, center: theta[j], se: input.se[j], lower: input.lower[j], upper: input.upper[j] }, input, sHat);
+}
+
+/**
+ * A profile over the value v of one quantity: `reduced` is the problem of the
+ * other p − 1 free numbers with the quantity held at `at.v` (set before each
+ * evaluation), `rest0` their values at the estimate, `center` the estimate of
+ * the quantity, `se` its standard error, `lower`/`upper` its bounds. A
+ * parameter's profile (above) holds the parameter; a derived quantity's
+ * (engine/run/derived-profile.ts) eliminates one parameter through it.
+ */
+export interface ProfileCurve {
+  reduced: LeastSquaresProblem;
+  at: { v: number };
+  rest0: Float64Array;
+  center: number;
+  se: number;
+  lower: number;
+  upper: number;
+  /** Why the last reduced fit failed, when the curve knows better than the solver's stop (e.g. the eliminated parameter could not be solved). */
+  why?: () => string | undefined;
+}
+
+/** Both ends of the profile interval of a quantity (the search of the module comment), with `sHat` = S(θ̂). */
+export function profileCurve(curve: ProfileCurve, input: Pick<ProfileInput, 'scale' | 'critical' | 'solve' | 'options'>, sHat: number): ParameterProfile {
+  const { reduced, at, rest0 } = curve;
+  const theta = [curve.center];
+  const j = 0;
+  const buf = new Float64Array(reduced.n);
   let refits = 0;
-  const points: Point[] = [{ v: theta[j], tau: 0, rest: rest0 }];
+  const points: Point[] = [{ v: curve.center, tau: 0, rest: rest0 }];
 
   /** τ at v, or a failure reason. Warm start: the evaluated point nearest to v. */
   const tauAt = (v: number): Point | { failed: string } => {
@@ -154,7 +182,7 @@ function profileOne(input: ProfileInput, j: number, sHat: number): ParameterProf
       rest = rest0;
     } else {
       const out = input.solve(reduced, new Float64Array(near.rest), input.options);
-      if (!out.stop.converged) return { failed: out.stop.message };
+      if (!out.stop.converged) return { failed: curve.why?.() ?? out.stop.message };
       s = sumSquares(out.residuals);
       rest = out.theta;
     }
@@ -168,10 +196,10 @@ function profileOne(input: ProfileInput, j: number, sHat: number): ParameterProf
   };
 
   const end = (dir: 1 | -1): ProfileEnd => {
-    const se = input.se[j];
+    const se = curve.se;
     const c = input.critical;
     if (!(se > 0) || !Number.isFinite(se) || !(c > 0)) return { kind: 'failed', value: null, reason: 'no standard error to step by' };
-    const bound = dir > 0 ? input.upper[j] : input.lower[j];
+    const bound = dir > 0 ? curve.upper : curve.lower;
     const h0 = c * se;
     let prev: Point = points[0];
     let step = h0;

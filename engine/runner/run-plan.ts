@@ -40,6 +40,11 @@ import type { Solvers } from '../run/solvers';
 import { TOOL_NAME, TOOL_VERSION } from '../run/version';
 import { shardRanges, type Shard } from '../groups/shards';
 import type { SharedStart } from '../groups/starts';
+import { planBootstrap, runBootstrapHere, withBootstrap, type PlannedBootstrap } from '../run/bootstrap-fit';
+import type { BootstrapChunk } from '../run/bootstrap';
+import { bootstrapThreads, runBootstrapInWorkers } from '../run/bootstrap-threads';
+import { derivedIntervals, type RefitContext } from '../run/derived-intervals';
+import { createCancelFlag, setCancelled } from '../groups/protocol';
 
 export interface RunProgress {
   fit: string;
@@ -114,7 +119,12 @@ interface GroupBatch {
   shared: SharedStart;
 }
 
-function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined, RunResult, FitResult[] | undefined> {
+/** Asks the driver of `steps` for the bootstrap refits of a single fit (engine/run/bootstrap-fit.ts); undefined lets `steps` compute them in this thread. */
+interface BootstrapBatch {
+  bootstrap: PlannedBootstrap;
+}
+
+function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapBatch | undefined, RunResult, FitResult[] | BootstrapChunk[] | undefined> {
   const startedAt = (opts.now ?? (() => new Date()))().toISOString();
   const errors: RunError[] = [];
   const wanted = opts.fits ? new Set(opts.fits) : null;
@@ -129,6 +139,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
 
   const results = new Map<string, FitResult[]>();
   const fitPlans = new Map<string, FitPlan>(fits.map((f) => [f.name, f]));
+  const refits = new Map<string, RefitContext>();
   let done = 0;
   let total = fits.length;
   for (const fit of fits) {
@@ -168,12 +179,12 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
     }
     total += groups.length - 1;
     if (shared && groups.length > 1) {
-      const fitted = yield { fit, groups, done, total, shared };
+      const fitted = (yield { fit, groups, done, total, shared }) as FitResult[] | undefined;
       if (fitted) {
         done += groups.length;
         // Groups the cancellation caught before they started are left out, as in the loop below.
         const started = fitted.filter((r) => !isUnstarted(r));
-        for (const r of started) results.get(fit.name)!.push(r);
+        for (const r of started) results.get(fit.name)!.push(groupBootstrap(fit, data0(groups), r));
         const missed = fitted.find(isUnstarted);
         if (missed) errors.push({ code: 'cancelled', message: runText.cancelledBefore(runText.fitLabel(fit.name, missed.group ?? '')), range: fit.range, fit: fit.name });
         continue;
@@ -192,7 +203,21 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
       const one = shared
         ? fitOneGroup(fit, data, { cancel: opts.cancel, shared, ...(opts.solvers ? { solvers: opts.solvers } : {}), ...watch, ...trace })
         : runFit(fit, data, { cancel: opts.cancel, solvers: opts.solvers, ...watch, ...trace });
-      results.get(fit.name)!.push(one);
+      let final = shared ? groupBootstrap(fit, data, one) : one;
+      if (!shared) {
+        // a single fit: its bootstrap (engine/run/bootstrap-fit.ts) and the rows for the intervals of its derived quantities
+        const planned = planBootstrap(fit, data, one);
+        let draws = null;
+        if (planned && 'skipped' in planned) final = { ...one, bootstrap: planned.skipped };
+        else if (planned) {
+          const answer = (yield { bootstrap: planned }) as BootstrapChunk[] | undefined;
+          const done = withBootstrap(one, planned, answer ?? runBootstrapHere(planned.job, opts.cancel));
+          final = done.result;
+          draws = done.result.bootstrap?.status === 'computed' ? done.draws : null;
+        }
+        refits.set(fit.name, { fit, data, result: final, draws });
+      }
+      results.get(fit.name)!.push(final);
       opts.onProgress?.({ fit: fit.name, ...(data.group !== undefined ? { group: data.group } : {}), done: ++done, total });
       yield;
     }
@@ -207,7 +232,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | undefined,
     startedAt,
     ...(shard ? { shard: { index: shard.index, count: shard.count, ...(opts.fits ? { only: [...opts.fits] } : {}), fits: shardFits, fitErrors: errors.length } } : {}),
   };
-  return finishRun(plan, { fitPlans, results, errors, provenance });
+  return finishRun(plan, { fitPlans, results, errors, provenance, refits });
 }
 
 /** What the fitting of a run produced, before its queries, derived quantities and expectations. */
@@ -219,6 +244,8 @@ export interface FittedRun {
   /** Errors of loading and fitting, in order; the later stages append theirs. */
   errors: RunError[];
   provenance: Provenance;
+  /** The single fits with their rows, for the profile and bootstrap intervals of derived quantities (absent: none, e.g. a gathered run). */
+  refits?: ReadonlyMap<string, RefitContext>;
 }
 
 /**
@@ -235,7 +262,8 @@ export function finishRun(plan: Plan, run: FittedRun): RunResult {
   const queries = plan.queries.filter((q) => (q.kind === 'compare' ? q.fits.every(ran) : ran(q.fit)));
   const q = runQueries(queries, { fitPlans: fitPlans as Map<string, FitPlan>, results });
   for (const e of q.errors) errors.push(e);
-  const derived = runDerived(plan.derived ?? [], results, ran);
+  const plain = runDerived(plan.derived ?? [], results, ran);
+  const derived = run.refits ? derivedIntervals(plan.derived ?? [], results, plain, run.refits) : plain;
   const queryAt: QueryNumber = (t, r, e) => queryNumber(fitPlans.get(t.fit)!, r, t, e.range);
   const expectations = checkExpectations(plan.expectations.filter((e) => expectationApplies(e, ran, derived)), results, derived, queryAt);
   return {
@@ -248,6 +276,14 @@ export function finishRun(plan: Plan, run: FittedRun): RunResult {
     errors,
   };
 }
+
+/** A group of a per-group fit that asks for a bootstrap: the summary saying it is not run for groups (engine/run/bootstrap-fit.ts). */
+function groupBootstrap(fit: FitPlan, data: FitData, r: FitResult): FitResult {
+  const planned = fit.options.bootstrap ? planBootstrap(fit, { ...data, group: r.group ?? data.group ?? '' }, r) : null;
+  return planned && 'skipped' in planned ? { ...r, bootstrap: planned.skipped } : r;
+}
+
+const data0 = (groups: readonly FitData[]): FitData => groups[0];
 
 /** A group result standing for a group the cancellation caught before it started (engine/groups `unfittedGroup`). */
 function isUnstarted(r: FitResult): boolean {
@@ -287,15 +323,32 @@ async function fitBatch(batch: GroupBatch, opts: RunOptions): Promise<FitResult[
   });
 }
 
+/** Bootstrap refits on worker threads when engine/run/bootstrap-threads.ts says so; undefined leaves them to this thread. */
+async function bootstrapBatch(batch: BootstrapBatch, opts: RunOptions): Promise<BootstrapChunk[] | undefined> {
+  const job = batch.bootstrap.job;
+  const threads = opts.solvers ? 1 : bootstrapThreads(job, opts.threads);
+  const workerFile = opts.workerFile === undefined ? defaultWorkerFile() : opts.workerFile;
+  if (threads < 2 || workerFile === null) return undefined;
+  const flag = createCancelFlag();
+  const cancel = opts.cancel;
+  const watch = cancel ? setInterval(() => { if (cancel.cancelled) setCancelled(flag); }, 50) : null;
+  try {
+    return await runBootstrapInWorkers(job, threads, workerFile, flag);
+  } finally {
+    if (watch) clearInterval(watch);
+  }
+}
+
 /** Runs the plan, yielding to the event loop between fits (see module comment). */
 export async function runPlan(plan: Plan, opts: RunOptions): Promise<RunResult> {
   const it = steps(plan, opts);
-  let answer: FitResult[] | undefined;
+  let answer: FitResult[] | BootstrapChunk[] | undefined;
   for (;;) {
     const next = it.next(answer);
     answer = undefined;
     if (next.done) return next.value;
-    if (next.value) answer = await fitBatch(next.value, opts);
+    if (next.value && 'bootstrap' in next.value) answer = await bootstrapBatch(next.value, opts);
+    else if (next.value) answer = await fitBatch(next.value, opts);
     else await new Promise<void>((resolve) => setImmediate(resolve));
   }
 }

@@ -60,6 +60,7 @@ const WARNING_SEVERITY: Record<WarningCode, LsqSeverity> = {
   outlier: 'warning',
   lack_of_fit: 'warning',
   curvature: 'warning',
+  bootstrap_failures: 'warning',
 };
 
 const PARAM_WARNINGS: readonly WarningCode[] = ['at_bound', 'high_correlation', 'guessed_start'];

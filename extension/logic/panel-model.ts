@@ -16,6 +16,7 @@
 import type { FitResult, RunResult } from '../../engine/result';
 import { chartSpecs, type ChartSpec } from '../../engine/front/views/charts';
 import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from '../../engine/front/views/profile';
+import { BOOTSTRAP_HEADERS, bootstrapLine, bootstrapRows, derivedIntervalBlock, hasBootstrapTable } from '../../engine/front/views/bootstrap';
 import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, robustLine, searchLine, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { GroupFlag } from '../../engine/groups/flags';
@@ -71,6 +72,8 @@ export interface PanelFit {
   correlations: { a: string; b: string; r: string }[];
   /** Profile-likelihood intervals (engine/front/views/profile.ts): the line saying what was done, and the table when computed; null when the fit has none (additive). */
   profile?: { line: string; headers: string[]; rows: string[][] } | null;
+  /** Bootstrap intervals (engine/front/views/bootstrap.ts): the line saying what was done, and the table when computed; null when the fit asked for none (additive). */
+  bootstrap?: { line: string; headers: string[]; rows: string[][] } | null;
   /**
    * Rows flagged by the influence and outlier rules (engine/front/views/influence.ts `flaggedPointRows`, the same
    * table as the CLI and the report) and the note on their rules; no rows and a null note when nothing is flagged.
@@ -167,7 +170,7 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
     },
     fits,
     groups,
-    queries: [derivedBlock(run), ...queryBlocks(run)].filter((b): b is QueryBlock => b !== null),
+    queries: [derivedBlock(run), derivedIntervalBlock(run), ...queryBlocks(run)].filter((b): b is QueryBlock => b !== null),
     expectations: run.expectations.map(expectationLine),
     errors: run.errors.map((e) => `${e.message}${e.file ? ` (${e.file}${e.row ? `, line ${e.row}` : ''})` : ''}`),
     sameData: sameDataPanelCharts(run),
@@ -207,9 +210,16 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     warnings: warningLines(f),
     correlations: highCorrelations(f),
     profile: panelProfile(f),
+    bootstrap: panelBootstrap(f),
     flaggedPoints: flaggedPoints(f),
     charts: withCharts ? panelCharts(f) : null,
   };
+}
+
+function panelBootstrap(f: FitResult): PanelFit['bootstrap'] {
+  const line = bootstrapLine(f);
+  if (!line) return null;
+  return { line, headers: hasBootstrapTable(f) ? BOOTSTRAP_HEADERS(f.level) : [], rows: hasBootstrapTable(f) ? bootstrapRows(f) : [] };
 }
 
 function panelProfile(f: FitResult): PanelFit['profile'] {

@@ -24,6 +24,20 @@ export function isProfileMode(s: string): s is ProfileMode {
   return (PROFILE_MODES as readonly string[]).includes(s);
 }
 
+/** Ways of drawing a bootstrap sample (`bootstrap N MODE`, engine/run/bootstrap.ts). */
+export const BOOTSTRAP_RESAMPLES = ['residuals', 'adjusted', 'cases'] as const;
+export type BootstrapResample = (typeof BOOTSTRAP_RESAMPLES)[number];
+export function isBootstrapResample(s: string): s is BootstrapResample {
+  return (BOOTSTRAP_RESAMPLES as readonly string[]).includes(s);
+}
+/** Fewest and most bootstrap refits (`bootstrap N`). */
+export const MIN_BOOTSTRAP = 100;
+export const MAX_BOOTSTRAP = 1_000_000;
+/** Seed of the bootstrap's random streams when the spec gives none (reported, so a run reproduces). */
+export const DEFAULT_BOOTSTRAP_SEED = 1;
+/** Largest seed (the streams take it as a 32-bit unsigned integer, engine/run/bootstrap-rng.ts). */
+export const MAX_BOOTSTRAP_SEED = 2 ** 32 - 1;
+
 export interface FitOptionSpec {
   /** The item as written (Markdown-free; `|` separates alternatives). */
   readonly syntax: string;
@@ -33,7 +47,7 @@ export interface FitOptionSpec {
   readonly field: string;
 }
 
-export type FitOptionKeyword = Extract<KeywordName, 'sigma' | 'weight' | 'method' | 'loss' | 'level' | 'iterations' | 'tolerance' | 'rate' | 'explore' | 'profile' | 'per'>;
+export type FitOptionKeyword = Extract<KeywordName, 'sigma' | 'weight' | 'method' | 'loss' | 'level' | 'iterations' | 'tolerance' | 'rate' | 'explore' | 'profile' | 'bootstrap' | 'per'>;
 
 export const FIT_OPTION_SPECS: Readonly<Record<FitOptionKeyword, FitOptionSpec>> = {
   sigma: { syntax: 'sigma EXPR', meaning: 'absolute standard deviation of each point; weights are 1/σ² and chi-square statistics are reported', default: 'unweighted', field: 'sigma' },
@@ -65,6 +79,12 @@ export const FIT_OPTION_SPECS: Readonly<Record<FitOptionKeyword, FitOptionSpec>>
     meaning: 'profile-likelihood intervals of the parameters beside the symmetric ones (Bates & Watts 1988, §6.1): `always` also for the groups of a `per` fit, large fits and linear models, `never` not at all',
     default: `\`auto\`: for a single fit of a nonlinear model with the squared loss when n·p ≤ ${PROFILE_WORK_BOUND}; a linear model's profile interval is its symmetric one`,
     field: 'profile',
+  },
+  bootstrap: {
+    syntax: `bootstrap N [${BOOTSTRAP_RESAMPLES.join(' | ')}] [seed S]`,
+    meaning: `N refits of resampled data, started from the estimate, for percentile and BCa intervals of the parameters and derived quantities (Efron & Tibshirani 1993, ch. 13–14): \`residuals\` adds resampled (weighted) residuals to the fitted values, \`adjusted\` the same with leverage-adjusted residuals, \`cases\` resamples whole rows; N a whole number ${MIN_BOOTSTRAP}–${MAX_BOOTSTRAP}, S a whole number 0–${MAX_BOOTSTRAP_SEED}`,
+    default: `no bootstrap; with \`bootstrap N\`: \`residuals\`, seed ${DEFAULT_BOOTSTRAP_SEED}`,
+    field: 'bootstrap',
   },
   per: { syntax: 'per COLUMN', meaning: 'one separate fit per distinct value of the column', default: 'one fit', field: 'groupBy' },
 };

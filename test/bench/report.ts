@@ -4,7 +4,7 @@
 import type { Machine } from './harness';
 
 export interface BenchRow {
-  /** 1…20, the order of the benchmark list. */
+  /** 1…21, the order of the benchmark list. */
   id: number;
   name: string;
   /** The headline figure compared with the goal, in `unit`. */

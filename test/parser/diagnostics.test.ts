@@ -189,6 +189,22 @@ describe('parser/check diagnostics', () => {
     expectAt(spec({ items: '  iterations «2.5»' }), 'not_integer');
   });
 
+  it('bootstrap_range and seed_range: whole numbers in range; the resampling word from the registry', () => {
+    expectAt(spec({ items: '  bootstrap «50»' }), 'bootstrap_range');
+    expectAt(spec({ items: '  bootstrap «200.5»' }), 'bootstrap_range');
+    expectAt(spec({ items: '  bootstrap 200 seed «-1»' }), 'seed_range');
+    expectAt(spec({ items: '  bootstrap 200 seed «1.5»' }), 'seed_range');
+    expectAt(spec({ items: '  bootstrap 200 «pairs»' }), 'unknown_option');
+    const ok = analyze(spec({ items: '  bootstrap 200 cases seed 42' }));
+    expect(ok.diagnostics).toEqual([]);
+    expect(ok.plan.fits[0].options.bootstrap).toEqual({ replicates: 200, resample: 'cases', seed: 42 });
+    const plain = analyze(spec({ items: '  bootstrap 300' }));
+    expect(plain.plan.fits[0].options.bootstrap).toEqual({ replicates: 300, resample: 'residuals', seed: 1 });
+    const seedOnly = analyze(spec({ items: '  bootstrap 300 seed 9' }));
+    expect(seedOnly.diagnostics).toEqual([]);
+    expect(seedOnly.plan.fits[0].options.bootstrap).toEqual({ replicates: 300, resample: 'residuals', seed: 9 });
+  });
+
   it('explore_range: a whole number from 0 to MAX_EXPLORE', () => {
     expectAt(spec({ items: '  explore «-1»' }), 'explore_range');
     expectAt(spec({ items: '  explore «2.5»' }), 'explore_range');

@@ -20,6 +20,7 @@ import {
 } from './summary';
 import { append, markdownTable } from './table';
 import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from './profile';
+import { BOOTSTRAP_ALIGN, BOOTSTRAP_HEADERS, bootstrapLine, bootstrapRows, derivedIntervalBlock, hasBootstrapTable } from './bootstrap';
 import { flaggedPointRows, flaggedPointsNote } from './influence';
 import { detectPlates, parseWell } from './wells';
 import { sameDataFitSets } from './curves';
@@ -137,6 +138,9 @@ function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
   const profile = profileLine(fit);
   if (profile) lines.push(mdText(profile + '.'), '');
   if (hasProfileTable(fit)) append(lines, markdownTable(PROFILE_HEADERS(fit.level), profileRows(fit), ['left', 'right', 'right', 'left']), '');
+  const boot = bootstrapLine(fit);
+  if (boot) lines.push(mdText(boot + '.'), '');
+  if (hasBootstrapTable(fit)) append(lines, markdownTable(BOOTSTRAP_HEADERS(fit.level), bootstrapRows(fit), [...BOOTSTRAP_ALIGN]), '');
   lines.push('### Goodness of fit', '');
   append(lines, markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left']), '');
   const flagged = flaggedPointRows(fit);
@@ -240,6 +244,11 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
     append(lines, `## ${derived.heading}`, '', `As defined in the spec: ${[...defs.values()].join(', ')}.`, '');
     append(lines, markdownTable(derived.headers, derived.rows, derived.align), '');
     append(lines, derived.notes.map((n) => `- ${mdText(n)}`), '');
+    const iv = derivedIntervalBlock(result);
+    if (iv) {
+      append(lines, `### ${iv.heading}`, '', markdownTable(iv.headers, iv.rows, iv.align), '');
+      append(lines, iv.notes.map((n) => `- ${mdText(n)}`), '');
+    }
     lines.push('First-order (delta-method) uncertainties; they assume the listed conditions and do not replace a validated uncertainty evaluation.', '');
   }
   if (result.expectations.length) {

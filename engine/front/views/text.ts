@@ -17,6 +17,16 @@ import {
   detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock, worstGroupLines, type FitSection,
 } from './groups';
 import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from './profile';
+import { BOOTSTRAP_ALIGN, BOOTSTRAP_HEADERS, bootstrapLine, bootstrapRows, derivedIntervalBlock, hasBootstrapTable } from './bootstrap';
+
+/** The bootstrap section of a fit (engine/front/views/bootstrap.ts): a table, or the line saying why there is none. */
+function bootstrapTextLines(fit: FitResult): string[] {
+  const line = bootstrapLine(fit);
+  if (!line) return [];
+  const lines = ['', `  ${line}`];
+  if (hasBootstrapTable(fit)) append(lines, textTable(BOOTSTRAP_HEADERS(fit.level), bootstrapRows(fit), [...BOOTSTRAP_ALIGN]));
+  return lines;
+}
 
 /** The profile-interval section of a fit (engine/front/views/profile.ts): a table, or the line saying why there is none. */
 function profileTextLines(fit: FitResult): string[] {
@@ -37,6 +47,7 @@ export function fitTextLines(fit: FitResult): string[] {
   lines.push('');
   append(lines, textTable(PARAMETER_HEADERS(fit.level), parameterRows(fit), ['left', 'right', 'right', 'right', 'right', 'left', 'left']));
   append(lines, profileTextLines(fit));
+  append(lines, bootstrapTextLines(fit));
   lines.push('', '  Goodness of fit');
   const entries = goodnessEntries(fit);
   const w = maxOf(entries.map((e) => [...e.label].length));
@@ -76,7 +87,10 @@ export function queryTextLines(result: RunResult): string[] {
 export function derivedTextLines(result: RunResult): string[] {
   const b = derivedBlock(result);
   if (!b) return [];
-  return append([b.heading], textTable(b.headers, b.rows, b.align), b.notes.map((n) => `  ${n}`));
+  const lines = append([b.heading], textTable(b.headers, b.rows, b.align), b.notes.map((n) => `  ${n}`));
+  const iv = derivedIntervalBlock(result);
+  if (iv) append(lines, '', iv.heading, textTable(iv.headers, iv.rows, iv.align), iv.notes.map((n) => `  ${n}`));
+  return lines;
 }
 
 /** Expectation verdicts, one per line, and the tally. */

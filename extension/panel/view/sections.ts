@@ -70,6 +70,13 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
             ? table('lw-profile-table', fit.profile.headers, fit.profile.rows, { numeric: (j) => j === 1 || j === 2, caption: 'Profile-likelihood intervals' })
             : null)
       : null,
+    fit.bootstrap
+      ? h('div', { class: 'lw-bootstrap' },
+          h('p', { class: 'lw-muted' }, fit.bootstrap.line),
+          fit.bootstrap.rows.length
+            ? table('lw-bootstrap-table', fit.bootstrap.headers, fit.bootstrap.rows, { numeric: (j) => j >= 1, caption: 'Bootstrap intervals' })
+            : null)
+      : null,
     flaggedRows,
     stats,
     charts,
