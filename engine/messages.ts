@@ -181,6 +181,9 @@ export const errorText = {
   compareMismatch: (fits: readonly string[]) => MSG.compareMismatch(fits),
   methodNotLinear: (fit: string) => MSG.methodNotLinear(fit),
   internal: (fit: string, message: string) => `fit ${fit} could not be completed: ${message}`,
+  textCompare: (text: string) => `the text "${text}" can only be compared with a column (by == or !=)`,
+  textOnNumbers: (column: string, text: string, file: string) =>
+    `column "${column}" of ${file} holds only numbers, so it never reads the text "${text}"; compare it with a number instead (${/^[A-Za-z_][A-Za-z0-9_]*$/.test(column) ? column : `"${column}"`} == ${Number.isFinite(Number(text)) && text.trim() !== '' ? Number(text) : 'NUMBER'})`,
 } as const;
 
 /** `file:line:column` (column = 1-based field number), or `file:line` without a column. */

@@ -57,6 +57,8 @@ export const CODES = {
   method_not_linear: { severity: 'error', when: '`method linear` on a model that is not linear in its free parameters' },
   reference_not_allowed: { severity: 'error', when: 'a `FIT.NAME` reference outside `derive` (in a model, sigma, weight or where)' },
   column_in_derive: { severity: 'error', when: 'a column in a derive expression' },
+  text_or_column: { severity: 'error', when: 'in a `where` condition, a quoted item compared by `==`/`!=` with a column names a column too, so it could be either that column or a text value (columns known)' },
+  text_not_allowed: { severity: 'error', when: 'a text value (`\"…\"` that names no column) compared anywhere but in a `where` condition, or with something that is not a column' },
   unused_parameter: { severity: 'warning', when: 'a declared parameter the model does not use' },
   unused_data: { severity: 'warning', when: 'a data table no fit reads' },
   repeated_fit: { severity: 'warning', when: 'a fit listed twice in one compare' },
@@ -79,6 +81,13 @@ export const MSG = {
   undefinedName: (name: string) => `${q(name)} is not a parameter, constant or column`,
   notAConstant: (name: string) => `${q(name)} is not a constant`,
   unknownColumn: (name: string, data: string) => `data ${q(data)} has no column ${q(name)}`,
+  textOrColumn: (text: string, column: string, data: string) =>
+    `"${inlineText(text)}" is a column of ${q(data)} and could also be the text ${q(text)} compared with ${q(column)}; ` +
+    (/^[A-Za-z_][A-Za-z0-9_]*$/.test(text)
+      ? `to compare the two columns write ${text} without quotes; to keep the rows whose ${inlineText(column)} reads ${q(text)}, rename the column ${q(text)} in the file`
+      : `to keep the rows whose ${inlineText(column)} reads ${q(text)}, rename the column ${q(text)} in the file`),
+  textNotAllowed: (text: string) =>
+    `"${inlineText(text)}" names no column; a text value can only be compared with a column by == or != in a data where condition (where compound == "${inlineText(text)}")`,
   unknownData: (name: string) => `no data named ${q(name)}; declare it with: data ${name} = "file.csv"`,
   unknownFit: (name: string) => `no fit named ${q(name)}`,
   declaredLater: (what: string, name: string, line: number) =>

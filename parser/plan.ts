@@ -60,6 +60,14 @@ export { FUNCTIONS, isFunctionName, type FunctionName } from './registry/functio
 export type Expr =
   | { kind: 'number'; value: number; range?: Range }
   | { kind: 'column'; name: string; range?: Range }
+  /**
+   * A text value, only as one operand of `==`/`!=` whose other operand is a
+   * column, in a data source's `where` condition (`compound == "CPD-A"`): true
+   * where the column's cell reads exactly this text. The engine turns each such
+   * comparison into a 0/1 column before compiling the filter
+   * (engine/data/text-match.ts). Additive: plans keep version 1.
+   */
+  | { kind: 'text'; value: string; range?: Range }
   | { kind: 'param'; name: string; range?: Range }
   | { kind: 'result'; fit: string; of: 'estimate'; name: string; range?: Range }
   | { kind: 'result'; fit: string; of: 'statistic'; name: StatisticName; range?: Range }
