@@ -57,6 +57,8 @@ export const CODES = {
   method_not_linear: { severity: 'error', when: '`method linear` on a model that is not linear in its free parameters' },
   reference_not_allowed: { severity: 'error', when: 'a `FIT.NAME` reference outside `derive` (in a model, sigma, weight or where)' },
   column_in_derive: { severity: 'error', when: 'a column in a derive expression' },
+  shared_without_groups: { severity: 'error', when: 'a parameter marked `shared` in a fit without `per COLUMN` (there are no groups to share it)' },
+  joint_not_supported: { severity: 'error', when: 'a fit with `shared` parameters and a robust loss, `method linear` or `method gradient_descent` (a joint fit runs with the squared loss by Levenberg–Marquardt)' },
   text_or_column: { severity: 'error', when: 'in a `where` condition, a quoted item compared by `==`/`!=` with a column names a column too, so it could be either that column or a text value (columns known)' },
   text_not_allowed: { severity: 'error', when: 'a text value (`\"…\"` that names no column) compared anywhere but in a `where` condition, or with something that is not a column' },
   unused_parameter: { severity: 'warning', when: 'a declared parameter the model does not use' },
@@ -81,6 +83,10 @@ export const MSG = {
   undefinedName: (name: string) => `${q(name)} is not a parameter, constant or column`,
   notAConstant: (name: string) => `${q(name)} is not a constant`,
   unknownColumn: (name: string, data: string) => `data ${q(data)} has no column ${q(name)}`,
+  sharedWithoutGroups: (name: string) =>
+    `parameter ${q(name)} is shared, but the fit has no groups to share it: add per COLUMN to fit one curve per value of a column with ${q(name)} common to all, or remove shared`,
+  jointNotSupported: (fit: string, what: string) =>
+    `fit ${q(fit)} has shared parameters, which are fitted jointly with the squared loss by Levenberg–Marquardt; ${what} is not available for a joint fit`,
   textOrColumn: (text: string, column: string, data: string) =>
     `"${inlineText(text)}" is a column of ${q(data)} and could also be the text ${q(text)} compared with ${q(column)}; ` +
     (/^[A-Za-z_][A-Za-z0-9_]*$/.test(text)

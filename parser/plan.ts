@@ -127,6 +127,13 @@ export interface ParameterPlan {
   unit?: string;
   /** `shared` across all blocks of the fit (the only scope until global fits). */
   scope: 'shared' | 'perBlock';
+  /**
+   * In a fit with `groupBy`: `shared` (the spec's `shared`) gives the parameter one
+   * value for every group, fitted jointly with the per-group parameters of all
+   * groups as one least-squares problem (engine/run/joint.ts). Absent: a value per
+   * group. Additive: plans keep version 1.
+   */
+  acrossGroups?: 'shared';
   range: Range;
 }
 

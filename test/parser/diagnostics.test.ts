@@ -280,6 +280,12 @@ describe('parser/check diagnostics', () => {
     expectAt(spec({ after: 'derive k = f.a + «"temp (C)"»' }), 'column_in_derive');
   });
 
+  it('shared_without_groups / joint_not_supported: shared needs per, and the squared loss by Levenberg–Marquardt', () => {
+    expectAt(spec({ items: '  param b «shared»', model: 'y = a * x + b' }), 'shared_without_groups');
+    expectAt(spec({ items: '  param b «shared»\n  per batch\n  loss huber', model: 'y = a * x + b' }), 'joint_not_supported');
+    expect(analyze(spec({ items: '  param b shared\n  per batch', model: 'y = a * x + b' })).diagnostics).toEqual([]);
+  });
+
   it('text_or_column / text_not_allowed: a quoted item compared with a column (headers known)', () => {
     expectAt('data d = "a.csv" where batch == «"sd"»\nfit f on d {\n  model y = a * x\n  param a = 1\n}', 'text_or_column', HEADERS);
     expectAt(spec({ model: 'y = a * when(batch == «"B-1"», x, 0)' }), 'text_not_allowed', HEADERS);
