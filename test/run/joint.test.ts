@@ -23,6 +23,8 @@ import { FAMILIES, curvesOf } from '../robustness/scenarios';
 import Ajv from 'ajv';
 import schema from '../../engine/result.schema.json';
 import { resultToJsonValue } from '../../engine/run/json';
+import binomialQuantile from '@stdlib/stats-base-dists-binomial-quantile';
+import { generate } from '../../samples/generate.mjs';
 import { runSpec, tempDir } from './helpers';
 
 const here = join(__dirname, 'joint');
@@ -168,6 +170,36 @@ describe('run/joint', () => {
     const x5 = solved.cov.groups[5].x;
     expect(rel(x0[2] * x5[2], inv[(1 + 2) * P + 1 + 3 * 5 + 2])).toBeLessThan(1e-6);
   });
+
+  it('coverage over fresh data of the potency sample: the 95 % intervals of the joint fit and of the Fieller ratio miss as often as they should', async () => {
+    // samples/generate.mjs draws the plate around known values (shared bottom, top, hill; ec50 40 and 50, ratio 1.25).
+    // A miss count is Binomial(DRAWS, 0.05) when the intervals are right; with Bonferroni over the 6 checks each must
+    // stay at or below the binomial 1 − 0.001/6 quantile (common practice for a coverage check, as test/samples/recovery.test.ts).
+    const DRAWS = 40;
+    const spec = readFileSync(join(__dirname, '../../samples/potency/potency.lsq'), 'utf8');
+    const misses: Record<string, number> = {};
+    const miss = (k: string, hit: boolean) => (misses[k] = (misses[k] ?? 0) + (hit ? 0 : 1));
+    for (let d = 0; d < DRAWS; d++) {
+      const dir = tempDir();
+      writeFileSync(join(dir, 'plate.csv'), generate({ potency: 50000 + d })['potency/plate.csv']);
+      const { result } = await runSpec(spec, dir);
+      const joint = result.joint![0];
+      expect(joint.stop.converged).toBe(true);
+      const truth: Record<string, number> = { bottom: 2000, top: 52000, hill: 1.1 };
+      for (const e of joint.estimates) miss(e.name, e.lower! <= truth[e.name] && truth[e.name] <= e.upper!);
+      const fits = result.fits.filter((f) => f.name === 'potency');
+      fits.forEach((f, k) => {
+        const ec = f.parameters.find((p) => p.name === 'ec50')!;
+        const t = k === 0 ? 40 : 50;
+        miss(`ec50 ${f.group}`, ec.lower! <= t && t <= ec.upper!);
+      });
+      const pair = joint.pairs[0];
+      miss('ratio', pair.ratioLower! <= 1.25 && 1.25 <= pair.ratioUpper!);
+    }
+    const limit = binomialQuantile(1 - 0.001 / 6, DRAWS, 0.05);
+    expect(Object.keys(misses).length).toBe(6);
+    for (const [k, m] of Object.entries(misses)) expect(m, `${k}: ${m} of ${DRAWS} intervals miss the truth`).toBeLessThanOrEqual(limit);
+  }, 60000);
 
   it('a group with too few rows is left out with its reason; a group whose separate fit cannot run still joins', async () => {
     const dir = tempDir();
