@@ -132,6 +132,9 @@ interface GroupWork {
   w: number;
   /** ½‖r_g‖². */
   cost: number;
+  /** Scratch: [B_g A_g r_g] for its QR (max(n_g, k) × k), and the elimination [T_g; √λ·D_g] ((w + p_l) × k). */
+  full: Float64Array;
+  elim: Float64Array;
 }
 
 export function solveBlockLM(problem: BlockProblem, shared0: Float64Array, local0: Float64Array, options: BlockSolveOptions = {}): BlockOutcome {
@@ -146,7 +149,8 @@ export function solveBlockLM(problem: BlockProblem, shared0: Float64Array, local
   const work: GroupWork[] = [];
   for (let g = 0; g < G; g++) {
     const n = problem.rows(g);
-    work.push({ n, r: new Float64Array(n), a: new Float64Array(n * ps), b: new Float64Array(n * pl), t: new Float64Array(Math.max(n, k) * k), w: Math.min(n, k), cost: 0 });
+    const w = Math.min(n, k);
+    work.push({ n, r: new Float64Array(n), a: new Float64Array(n * ps), b: new Float64Array(n * pl), t: new Float64Array(Math.max(n, k) * k), w, cost: 0, full: new Float64Array(Math.max(n, k) * k), elim: new Float64Array((w + pl) * k) });
   }
   let shared = Float64Array.from(shared0);
   let local = Float64Array.from(local0);
@@ -179,7 +183,8 @@ export function solveBlockLM(problem: BlockProblem, shared0: Float64Array, local
       const wk = work[g];
       const n = wk.n;
       const m = Math.max(n, k);
-      const full = new Float64Array(m * k);
+      const full = wk.full;
+      full.fill(0);
       for (let j = 0; j < pl; j++) full.set(wk.b.subarray(j * n, (j + 1) * n), j * m);
       for (let j = 0; j < ps; j++) full.set(wk.a.subarray(j * n, (j + 1) * n), (pl + j) * m);
       full.set(wk.r, (k - 1) * m);
@@ -220,18 +225,26 @@ export function solveBlockLM(problem: BlockProblem, shared0: Float64Array, local
     return 0.5 * total;
   };
 
+  const acc = new Float64Array((ps + 1) * (ps + 1));
+  let stack = new Float64Array(0);
+  const stackBuffer = (size: number) => {
+    if (stack.length < size) stack = new Float64Array(size);
+    else stack.fill(0, 0, size);
+    return stack;
+  };
   const dampedStep = (lambda: number): { ds: Float64Array; dl: Float64Array } | null => {
     const sq = Math.sqrt(lambda);
     // accumulator U: (ps+1)×(ps+1) triangle of the shared part, rows added group by group
     const kk = ps + 1;
-    let acc = new Float64Array(0);
+    // the accumulated shared triangle (at most kk rows) and the stack it is reduced from, reused across groups
     let accRows = 0;
     const elim: { m: number; e: Float64Array }[] = [];
     for (let g = 0; g < G; g++) {
       const wk = work[g];
       const w = wk.w;
       const m = w + pl;
-      const e = new Float64Array(m * k);
+      const e = wk.elim;
+      e.fill(0);
       for (let j = 0; j < k; j++) for (let i = 0; i < w; i++) e[j * m + i] = wk.t[j * w + i];
       for (let j = 0; j < pl; j++) e[j * m + w + j] = sq * dL[g * pl + j];
       householder(e, m, k, pl);
@@ -239,14 +252,13 @@ export function solveBlockLM(problem: BlockProblem, shared0: Float64Array, local
       // rows pl..m-1, columns pl..k-1 go to the shared reduction
       const rowsHere = m - pl;
       const stackRows = accRows + rowsHere;
-      const st = new Float64Array(stackRows * kk);
+      const st = stackBuffer(stackRows * kk);
       for (let j = 0; j < kk; j++) {
         for (let i = 0; i < accRows; i++) st[j * stackRows + i] = acc[j * accRows + i];
         for (let i = 0; i < rowsHere; i++) st[j * stackRows + accRows + i] = e[(pl + j) * m + pl + i];
       }
       householder(st, stackRows, kk, kk);
       const keep = Math.min(stackRows, kk);
-      acc = new Float64Array(keep * kk);
       for (let j = 0; j < kk; j++) for (let i = 0; i < keep; i++) acc[j * keep + i] = st[j * stackRows + i];
       accRows = keep;
     }

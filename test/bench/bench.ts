@@ -3,7 +3,7 @@
  *
  *   node build.mjs && node dist/bench.js [--quick] [--json] [--markdown FILE] [--only 1,4,7]
  *
- * Prints one row per benchmark (1-19, see the cases/ modules) with the
+ * Prints one row per benchmark (1-21, see the cases/ modules) with the
  * headline figure, its spread over the runs (min-max), the goal and whether
  * it is met, after a line describing the machine and date. Comparisons are
  * measured side by side in one run and given as ratios. `--json` prints the
@@ -33,6 +33,7 @@ import { benchRobustness } from './cases/robustness';
 import { benchSuggest } from './cases/suggest';
 import { benchDerivedChain } from './cases/derived-chain';
 import { benchShards } from './cases/shards';
+import { benchJoint } from './cases/joint';
 
 const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<BenchRow> }[] = [
   { id: 1, name: 'LM vs gradient descent', run: benchDescent },
@@ -55,6 +56,7 @@ const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<Ben
   { id: 18, name: 'Did you mean at scale', run: benchSuggest },
   { id: 19, name: 'Chained derive statements', run: benchDerivedChain },
   { id: 20, name: 'Shards side by side', run: benchShards },
+  { id: 21, name: 'Joint fit, shared parameters', run: benchJoint },
 ];
 
 interface Args {
