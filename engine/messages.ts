@@ -173,6 +173,19 @@ export const outputText = {
  * (parser/messages.ts): `check` reports them before a run, the engine keeps
  * them as a guard.
  */
+/** Joint fits over groups (engine/run/joint.ts, joint-compare.ts). */
+export const jointText = {
+  tooFewRows: (n: number, pl: number) => `${n} usable row${n === 1 ? '' : 's'} for ${pl} per-group parameter${pl === 1 ? '' : 's'}: left out of the joint fit`,
+  noGroups: 'no group has enough rows for its own parameters, so there is no joint fit',
+  noStart: 'no starting values for the joint fit: no group\'s separate fit gave finite estimates',
+  groupStop: (message: string) => `joint fit over all groups: ${message}`,
+  noTest: 'no test: the degrees of freedom or the sum of squares of the larger model leave nothing to compare',
+  generalWorse: (restricted: number, general: number) =>
+    `the model with more parameters ended with a larger sum of squares (${num(general)} against ${num(restricted)}), so one of the two fits missed its minimum; F is shown as 0`,
+  releasedNotConverged: (stop: string) => `the fit with this parameter per group did not converge (${stop}); the test is not reliable`,
+  sharded: (fit: string) => `fit ${fit} has shared parameters: a joint fit needs all its groups in one run, so it cannot be split into shards`,
+} as const;
+
 export const errorText = {
   unknownData: (fit: string, data: string) => `fit ${fit} uses data "${data}", which is not declared`,
   noRows: (fit: string, file: string) => `fit ${fit} has no usable rows in ${file} after dropping empty cells and applying the filter`,
@@ -193,6 +206,9 @@ export const errorText = {
   compareMismatch: (fits: readonly string[]) => MSG.compareMismatch(fits),
   methodNotLinear: (fit: string) => MSG.methodNotLinear(fit),
   internal: (fit: string, message: string) => `fit ${fit} could not be completed: ${message}`,
+  textCompare: (text: string) => `the text "${text}" can only be compared with a column (by == or !=)`,
+  textOnNumbers: (column: string, text: string, file: string) =>
+    `column "${column}" of ${file} holds only numbers, so it never reads the text "${text}"; compare it with a number instead (${/^[A-Za-z_][A-Za-z0-9_]*$/.test(column) ? column : `"${column}"`} == ${Number.isFinite(Number(text)) && text.trim() !== '' ? Number(text) : 'NUMBER'})`,
 } as const;
 
 /** `file:line:column` (column = 1-based field number), or `file:line` without a column. */

@@ -762,4 +762,86 @@ export interface RunResult {
   derived?: DerivedResult[];
   expectations: ExpectationResult[];
   errors: RunError[];
+  /**
+   * Joint fits over the groups of a `per` fit with `shared` parameters
+   * (engine/run/joint.ts), one entry per such fit: the joint solve, its shared
+   * estimates and the comparisons between groups. The groups' own results are
+   * in `fits` as for any per-group fit (additive, optional: absent without joint fits).
+   */
+  joint?: JointFitResult[];
+}
+
+/** One parameter of a joint fit: its estimate with the joint covariance's standard error and interval (Student t, the joint dof). */
+export interface JointEstimate {
+  name: string;
+  estimate: number;
+  stderr: number | null;
+  lower: number | null;
+  upper: number | null;
+  unit?: string;
+}
+
+/** Extra-sum-of-squares F test of a model nested in a larger one (Seber & Wild 1989, §5.3): F = ((SSR₀ − SSR₁)/(dof₀ − dof₁)) / (SSR₁/dof₁). */
+export interface NestedFTest {
+  /** The restricted (fewer parameters) and the general model. */
+  restricted: { ssr: number; dof: number; p: number };
+  general: { ssr: number; dof: number; p: number };
+  f: number;
+  df1: number;
+  df2: number;
+  pValue: number;
+  /** Set when the test cannot be read as computed, e.g. the general model's SSR above the restricted one's (a fit that missed its minimum) or a fit that did not converge. */
+  note?: string;
+}
+
+/** A difference and a ratio of one per-group parameter between two groups (b − a, b / a), with intervals from the joint covariance. */
+export interface GroupPair {
+  parameter: string;
+  a: string;
+  b: string;
+  difference: number;
+  differenceSe: number | null;
+  differenceLower: number | null;
+  differenceUpper: number | null;
+  ratio: number;
+  /** Fieller (1954) interval of b / a; null ends: the interval is not bounded at this level (the denominator's interval includes 0). */
+  ratioLower: number | null;
+  ratioUpper: number | null;
+}
+
+export interface JointFitResult {
+  fit: string;
+  groupBy: string;
+  /** Free parameters shared by every group, and those fitted per group, in plan order. */
+  shared: string[];
+  perGroup: string[];
+  /** Groups in the joint fit, in group order, and those left out with why. */
+  groups: string[];
+  leftOut: { group: string; reason: string }[];
+  stop: StopReason;
+  iterations: number;
+  evaluations: number;
+  n: number;
+  /** Free parameters of the joint problem: shared + groups × per-group. */
+  p: number;
+  dof: number;
+  ssr: number;
+  /** s = √(SSR/dof) (1 with absolute sigma: the covariance is not scaled). */
+  rmse: number;
+  level: number;
+  sigmaAbsolute: boolean;
+  /** The shared parameters' estimates. */
+  estimates: JointEstimate[];
+  /** Shared versus separate: every shared parameter released at once (the joint fit against the groups' separate fits); null when a separate fit is missing. */
+  sharedVsSeparate: NestedFTest | null;
+  /** Per shared parameter: the joint fit against the joint fit with that one parameter fitted per group. */
+  perParameter: ({ parameter: string } & NestedFTest)[];
+  /** Pairwise comparisons of each per-group parameter (all pairs up to PAIR_GROUPS groups, else each group against the first). */
+  pairs: GroupPair[];
+  /**
+   * For covariances between groups (engine/solve/block-covariance.ts): the unscaled X_g of each group in `groups`
+   * order (p_l × pₛ, row-major) and `scale` = s², so that Cov(θ_g, θ_h) = s²·X_g·X_hᵀ for g ≠ h.
+   */
+  cross: { scale: number; x: number[][] };
+  elapsedMs: number;
 }

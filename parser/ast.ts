@@ -83,6 +83,8 @@ export interface ParamAst {
   bounds?: BoundsAst;
   /** Range of the `fixed` keyword when present. */
   fixed?: Range;
+  /** Range of the `shared` keyword when present (one value for all groups of a `per` fit). */
+  shared?: Range;
   unit?: UnitAst;
   /** Parts given more than once (`= 1 = 2`, two units...), reported by the checker. */
   repeated: Range[];

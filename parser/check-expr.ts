@@ -5,7 +5,11 @@
  * the fit, a constant declared above, `pi`/`e`, a column. With headers known
  * a name that is none of these is an error ('undefined_name' with
  * suggestions); with headers unknown it is taken as a column. Quoted names
- * are always columns. Constants fold into number nodes.
+ * are columns, with one exception: in a `where` condition (scope `allowText`)
+ * a quoted item that is an operand of `==`/`!=` whose other operand is a
+ * column is a text value when no column has its name (`compound == "CPD-A"`),
+ * an error (`text_or_column`) when one has, and a text value when the
+ * headers are unknown (`textOperand`). Constants fold into number nodes.
  *
  * Conditions (comparisons, and/or/not) may appear only in `where` and as the
  * first argument of `when`; everywhere else expressions are numbers.
@@ -26,6 +30,8 @@ export interface ExprScope {
   /** Data source whose columns are read. */
   dataName: string;
   columns: ReadonlySet<string> | undefined;
+  /** Text values may be compared with columns here (a data source's `where` condition). Default false. */
+  allowText?: boolean;
   /**
    * Present in a `derive` expression (hooks in check-derive.ts): plain names
    * and `FIT.NAME` resolve there. Absent elsewhere, where `FIT.NAME` is an error.
@@ -90,8 +96,20 @@ export function resolveExpr(env: Env, ast: ExprAst, want: 'number' | 'condition'
     }
     case 'binary':
       return { kind: 'binary', op: ast.op, left: num(ast.left), right: num(ast.right), range };
-    case 'compare':
+    case 'compare': {
+      if (ast.op === '==' || ast.op === '!=') {
+        const text = textOperand(env, ast.left, ast.right, scope, 'left') ?? textOperand(env, ast.right, ast.left, scope, 'right');
+        if (text) {
+          const textSide = text.side === 'left' ? ast.left : ast.right;
+          const columnSide = num(text.side === 'left' ? ast.right : ast.left);
+          const value: Expr = { kind: 'text', value: text.value, range: textSide.range };
+          return text.side === 'left'
+            ? { kind: 'compare', op: ast.op, left: value, right: columnSide, range }
+            : { kind: 'compare', op: ast.op, left: columnSide, right: value, range };
+        }
+      }
       return { kind: 'compare', op: ast.op, left: num(ast.left), right: num(ast.right), range };
+    }
     case 'logic':
       return { kind: 'logic', op: ast.op, left: cond(ast.left), right: cond(ast.right), range };
     case 'not':
@@ -103,6 +121,47 @@ export function resolveExpr(env: Env, ast: ExprAst, want: 'number' | 'condition'
       return { kind: 'chain', ops: [...ast.ops], args, range };
     }
   }
+}
+
+/** A plain or quoted name that resolves to a column here (not a parameter or constant). */
+function isColumnOperand(env: Env, e: ExprAst, scope: ExprScope): boolean {
+  if (e.kind !== 'name') return false;
+  if (!e.quoted && (scope.params.has(e.name) || env.consts.has(e.name) || isBuiltinConstant(e.name))) return false;
+  return scope.columns ? scope.columns.has(e.name) : true;
+}
+
+/**
+ * Whether `candidate` is a text value compared with the column `other` (module
+ * comment): its text and side, or undefined (then both are resolved as
+ * usual). An ambiguous or misplaced one is reported here and read as text, so
+ * the same problem is not reported again as an unknown column.
+ */
+function textOperand(env: Env, candidate: ExprAst, other: ExprAst, scope: ExprScope, side: 'left' | 'right'): { value: string; side: 'left' | 'right' } | undefined {
+  if (candidate.kind !== 'name' || !candidate.quoted) return undefined;
+  const names = scope.columns;
+  const isColumn = names ? names.has(candidate.name) : false;
+  const otherIsColumn = isColumnOperand(env, other, scope) && !(other.kind === 'name' && other.quoted && names === undefined);
+  if (!otherIsColumn) {
+    if (names && !isColumn && !scope.derive) {
+      // "CPD-A" compared with a number or a parameter: not a column, and text has no meaning there
+      env.r.report('text_not_allowed', MSG.textNotAllowed(candidate.name), candidate.range);
+      return { value: candidate.name, side };
+    }
+    return undefined;
+  }
+  if (!scope.allowText) {
+    if (names && !isColumn) {
+      env.r.report('text_not_allowed', MSG.textNotAllowed(candidate.name), candidate.range);
+      return { value: candidate.name, side };
+    }
+    return undefined;
+  }
+  if (isColumn) {
+    const column = other.kind === 'name' ? other.name : '';
+    env.r.report('text_or_column', MSG.textOrColumn(candidate.name, column, scope.dataName), candidate.range);
+    return { value: candidate.name, side };
+  }
+  return { value: candidate.name, side };
 }
 
 function addColumn(use: ExprUse, name: string): void {

@@ -118,6 +118,7 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
 
   const plan: FitPlan = { name, blocks: [block], parameters: params, options, range: fit.range };
   if (groupBy !== undefined) plan.groupBy = groupBy;
+  checkShared(env, plan, paramAsts);
   return {
     plan,
     line: fit.range.start.line,
@@ -127,6 +128,19 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
     unresolved: { model: modelUse.unresolved, response: responseUse.unresolved },
     incomplete: !first || modelUse.broken || responseUse.broken,
   };
+}
+
+/** `shared` needs groups, and a joint fit runs with the squared loss by Levenberg–Marquardt only (engine/run/joint.ts). */
+function checkShared(env: Env, plan: FitPlan, asts: Map<string, ParamAst & { name: NameAst }>): void {
+  const shared = [...asts.values()].filter((p) => p.shared);
+  if (!shared.length) return;
+  if (plan.groupBy === undefined) {
+    for (const p of shared) env.r.report('shared_without_groups', MSG.sharedWithoutGroups(p.name.name), p.shared!);
+    return;
+  }
+  const o = plan.options;
+  const unsupported = o.loss !== 'squared' ? `loss ${o.loss}` : o.method === 'gradient_descent' || o.method === 'linear' ? `method ${o.method}` : null;
+  if (unsupported) env.r.report('joint_not_supported', MSG.jointNotSupported(plan.name, unsupported), shared[0].shared!);
 }
 
 function mergeColumns(...uses: ExprUse[]): string[] {
@@ -164,6 +178,7 @@ function checkParam(env: Env, p: ParamAst & { name: NameAst }): ParameterPlan {
   if (lower !== undefined && Number.isFinite(lower)) plan.lower = lower;
   if (upper !== undefined && Number.isFinite(upper)) plan.upper = upper;
   if (p.unit) plan.unit = p.unit.text;
+  if (p.shared) plan.acrossGroups = 'shared';
   return plan;
 }
 

@@ -121,7 +121,7 @@ function checkData(env: Env, s: DataAst): DataSource | undefined {
     }
     seen.add(o.kind);
     if (o.kind === 'where') {
-      const scope = { params: new Set<string>(), allowParams: false, place: 'where condition', dataName: name, columns: headers };
+      const scope = { params: new Set<string>(), allowParams: false, place: 'where condition', dataName: name, columns: headers, allowText: true };
       source.filter = resolveExpr(env, o.condition, 'condition', scope, newUse());
     } else if (o.value && o.kind === 'delimiter') {
       const v = o.value.value;

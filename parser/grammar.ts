@@ -7,7 +7,7 @@
  *   const      := 'const' Name '=' value Unit?
  *   fit        := 'fit' Name 'on' Name '{' fitItem* '}'
  *   fitItem    := 'model' expr '=' expr
- *               | 'param' Name ( '=' value | 'in' '[' value ',' value ']' | 'fixed' | Unit )*
+ *               | 'param' Name ( '=' value | 'in' '[' value ',' value ']' | 'fixed' | 'shared' | Unit )*
  *               | ('sigma' | 'weight') expr | ('method' | 'profile') Name | 'loss' Name ('scale' value)?
  *               | ('level' | 'iterations' | 'tolerance' | 'rate' | 'explore') value | 'per' column
  *               | 'bootstrap' value Name? ('seed' value)?
@@ -160,6 +160,7 @@ export class LsqParser extends CstParser {
       { ALT: () => { this.CONSUME(T.Equals); this.SUBRULE(this.value, { LABEL: 'initial' }); } },
       { ALT: () => this.SUBRULE(this.bounds) },
       { ALT: () => this.CONSUME(T.Fixed) },
+      { ALT: () => this.CONSUME(T.Shared) },
       { ALT: () => this.CONSUME(T.Unit) },
     ]);
   });

@@ -60,6 +60,10 @@ export const CODES = {
   method_not_linear: { severity: 'error', when: '`method linear` on a model that is not linear in its free parameters' },
   reference_not_allowed: { severity: 'error', when: 'a `FIT.NAME` reference outside `derive` (in a model, sigma, weight or where)' },
   column_in_derive: { severity: 'error', when: 'a column in a derive expression' },
+  shared_without_groups: { severity: 'error', when: 'a parameter marked `shared` in a fit without `per COLUMN` (there are no groups to share it)' },
+  joint_not_supported: { severity: 'error', when: 'a fit with `shared` parameters and a robust loss, `method linear` or `method gradient_descent` (a joint fit runs with the squared loss by Levenberg–Marquardt)' },
+  text_or_column: { severity: 'error', when: 'in a `where` condition, a quoted item compared by `==`/`!=` with a column names a column too, so it could be either that column or a text value (columns known)' },
+  text_not_allowed: { severity: 'error', when: 'a text value (`\"…\"` that names no column) compared anywhere but in a `where` condition, or with something that is not a column' },
   unused_parameter: { severity: 'warning', when: 'a declared parameter the model does not use' },
   unused_data: { severity: 'warning', when: 'a data table no fit reads' },
   repeated_fit: { severity: 'warning', when: 'a fit listed twice in one compare' },
@@ -86,6 +90,17 @@ export const MSG = {
   undefinedName: (name: string) => `${q(name)} is not a parameter, constant or column`,
   notAConstant: (name: string) => `${q(name)} is not a constant`,
   unknownColumn: (name: string, data: string) => `data ${q(data)} has no column ${q(name)}`,
+  sharedWithoutGroups: (name: string) =>
+    `parameter ${q(name)} is shared, but the fit has no groups to share it: add per COLUMN to fit one curve per value of a column with ${q(name)} common to all, or remove shared`,
+  jointNotSupported: (fit: string, what: string) =>
+    `fit ${q(fit)} has shared parameters, which are fitted jointly with the squared loss by Levenberg–Marquardt; ${what} is not available for a joint fit`,
+  textOrColumn: (text: string, column: string, data: string) =>
+    `"${inlineText(text)}" is a column of ${q(data)} and could also be the text ${q(text)} compared with ${q(column)}; ` +
+    (/^[A-Za-z_][A-Za-z0-9_]*$/.test(text)
+      ? `to compare the two columns write ${text} without quotes; to keep the rows whose ${inlineText(column)} reads ${q(text)}, rename the column ${q(text)} in the file`
+      : `to keep the rows whose ${inlineText(column)} reads ${q(text)}, rename the column ${q(text)} in the file`),
+  textNotAllowed: (text: string) =>
+    `"${inlineText(text)}" names no column; a text value can only be compared with a column by == or != in a data where condition (where compound == "${inlineText(text)}")`,
   unknownData: (name: string) => `no data named ${q(name)}; declare it with: data ${name} = "file.csv"`,
   unknownFit: (name: string) => `no fit named ${q(name)}`,
   declaredLater: (what: string, name: string, line: number) =>

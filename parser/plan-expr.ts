@@ -91,6 +91,8 @@ export function exprText(expr: Expr): string {
       return /^[A-Za-z_][A-Za-z0-9_]*$/.test(expr.name) ? expr.name : `"${expr.name}"`;
     case 'param':
       return expr.name;
+    case 'text':
+      return `"${expr.value}"`;
     case 'result':
       return `${expr.fit}.${expr.name}`;
     case 'derived':

@@ -60,6 +60,14 @@ export { FUNCTIONS, isFunctionName, type FunctionName } from './registry/functio
 export type Expr =
   | { kind: 'number'; value: number; range?: Range }
   | { kind: 'column'; name: string; range?: Range }
+  /**
+   * A text value, only as one operand of `==`/`!=` whose other operand is a
+   * column, in a data source's `where` condition (`compound == "CPD-A"`): true
+   * where the column's cell reads exactly this text. The engine turns each such
+   * comparison into a 0/1 column before compiling the filter
+   * (engine/data/text-match.ts). Additive: plans keep version 1.
+   */
+  | { kind: 'text'; value: string; range?: Range }
   | { kind: 'param'; name: string; range?: Range }
   | { kind: 'result'; fit: string; of: 'estimate'; name: string; range?: Range }
   | { kind: 'result'; fit: string; of: 'statistic'; name: StatisticName; range?: Range }
@@ -119,6 +127,13 @@ export interface ParameterPlan {
   unit?: string;
   /** `shared` across all blocks of the fit (the only scope until global fits). */
   scope: 'shared' | 'perBlock';
+  /**
+   * In a fit with `groupBy`: `shared` (the spec's `shared`) gives the parameter one
+   * value for every group, fitted jointly with the per-group parameters of all
+   * groups as one least-squares problem (engine/run/joint.ts). Absent: a value per
+   * group. Additive: plans keep version 1.
+   */
+  acrossGroups?: 'shared';
   range: Range;
 }
 

@@ -212,6 +212,11 @@ class AstBuilder extends BaseVisitor {
         if (r && p.fixed) p.repeated.push(r);
         else if (r) p.fixed = r;
         ranges.push(r);
+      } else if (c.Shared) {
+        const r = this.tokRange(c, 'Shared');
+        if (r && p.shared) p.repeated.push(r);
+        else if (r) p.shared = r;
+        ranges.push(r);
       } else if (c.Unit) {
         const u = this.unitOf(this.tok(c, 'Unit'));
         if (u && p.unit) p.repeated.push(u.range);

@@ -82,6 +82,7 @@ export const Model = keyword('model');
 export const Param = keyword('param');
 export const In = keyword('in');
 export const Fixed = keyword('fixed');
+export const Shared = keyword('shared');
 export const Sigma = keyword('sigma');
 export const Weight = keyword('weight');
 export const Method = keyword('method');
@@ -110,7 +111,7 @@ export const Inf = keyword('inf', []);
 
 /** All keywords, longest first so a keyword that is a prefix of another (`in`, `inf`) comes after it. */
 export const KEYWORD_TOKENS: readonly TokenType[] = [
-  Data, Const, Fit, Derive, Predict, Invert, Backcalc, Compare, Expect, Where, Delimiter, Decimal, On, Model, Param, In, Fixed,
+  Data, Const, Fit, Derive, Predict, Invert, Backcalc, Compare, Expect, Where, Delimiter, Decimal, On, Model, Param, In, Fixed, Shared,
   Sigma, Weight, Method, Loss, Scale, Level, Iterations, Tolerance, Rate, Explore, Profile, Bootstrap, Seed, Per, At, Readings, Within, Above, Below,
   And, Or, Not, Inf,
 ].sort((a, b) => String(b.PATTERN).length - String(a.PATTERN).length);

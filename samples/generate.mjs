@@ -205,10 +205,37 @@ const scenarios = {
     }
     return { files: { 'reads.csv': csv(['well', 'time_min', 'absorbance'], rows, [0, 0, 4]) }, truth: { kinetics: truth }, flagged: { kinetics: [empty] } };
   },
+
+  /**
+   * Relative potency on one 96-well plate: a reporter's luminescence falls as an inhibitor's dose rises; the
+   * reference standard fills rows A–C and a test lot rows D–F (eight 3-fold doses across columns 1–8,
+   * triplicate rows), row G columns 1–8 hold blank wells (no cells). Both preparations share the
+   * asymptotes and the Hill slope; the test lot is 80 % as potent, so its EC50 is the reference's / 0.8.
+   * Read noise 600 RLU.
+   */
+  potency: (seed) => {
+    const g = normal(seed);
+    const shared = { bottom: 2000, top: 52000, hill: 1.1 };
+    const samples = [['Reference std', 40], ['Test lot 7', 50]];
+    const rows = [];
+    const truth = {};
+    samples.forEach(([name, ec50], s) => {
+      truth[name] = { ...shared, ec50 };
+      for (let rep = 0; rep < 3; rep++) {
+        for (let c = 1; c <= 8; c++) {
+          const dose = 0.5 * 3 ** (c - 1);
+          const y = shared.bottom + (shared.top - shared.bottom) / (1 + (dose / ec50) ** shared.hill) + 600 * g();
+          rows.push([`${'ABCDEF'[3 * s + rep]}${String(c).padStart(2, '0')}`, name, String(dose), y]);
+        }
+      }
+    });
+    for (let c = 1; c <= 8; c++) rows.push([`G${String(c).padStart(2, '0')}`, 'Blank', '0', 300 + 40 * g()]);
+    return { files: { 'plate.csv': csv(['well', 'sample', 'dose_ng_mL', 'signal_RLU'], rows, [0, 0, 0, 0]) }, truth: { potency: truth } };
+  },
 };
 
 /** Seed per scenario (see the module comment for how they were chosen). */
-export const SEEDS = { cooling: 1102, photometer: 2204, enzyme: 3305, thermistor: 4405, doseresponse: 5506, drift: 6609, arrhenius: 7709, plate: 8808, agonist: 9909 };
+export const SEEDS = { cooling: 1102, photometer: 2204, enzyme: 3305, thermistor: 4405, doseresponse: 5506, drift: 6609, arrhenius: 7709, plate: 8808, agonist: 9909, potency: 1214 };
 
 /** All files by relative path; `seeds` overrides SEEDS per scenario (used when choosing seeds). */
 export function generate(seeds = SEEDS) {

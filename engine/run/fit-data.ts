@@ -8,6 +8,7 @@ import { cellLine, selectRows, type DataError, type DataTable } from '../data';
 import { dataText, errorText } from '../messages';
 import type { RunError } from '../result';
 import { columnsOf } from '../../parser/plan-expr';
+import { matchTextValues } from './text-match';
 
 /** Evaluates a parameter-free expression over columns (engine/compile `compileColumnExpr`). */
 export type ColumnCompiler = (expr: Expr, columns: readonly string[]) => (cols: readonly Float64Array[], n: number, out: Float64Array) => void;
@@ -98,9 +99,20 @@ export function dataErrorToRunError(e: DataError, range?: Range, fit?: string): 
   };
 }
 
-export function prepareFitData(fit: FitPlan, source: DataSource, table: DataTable, compile: ColumnCompiler): FitDataResult {
+export function prepareFitData(fit: FitPlan, source: DataSource, fileTable: DataTable, compile: ColumnCompiler): FitDataResult {
   const block = fit.blocks[0];
-  const exprs = [block.model, block.response, block.sigma, block.weight, source.filter];
+  // text values in the where condition become 0/1 pseudo-columns (text-match.ts)
+  let table = fileTable;
+  let filterExpr = source.filter;
+  let origin = new Map<string, string>();
+  if (filterExpr) {
+    const m = matchTextValues(filterExpr, fileTable, source.path, fit.name);
+    if (!m.ok) return { ok: false, errors: m.errors };
+    table = m.table;
+    filterExpr = m.filter;
+    origin = m.origin;
+  }
+  const exprs = [block.model, block.response, block.sigma, block.weight, filterExpr];
   const modelColumns = columnsOf(block.model);
   const used = [...modelColumns];
   for (const e of exprs.slice(1)) columnsOf(e, used);
@@ -109,14 +121,14 @@ export function prepareFitData(fit: FitPlan, source: DataSource, table: DataTabl
 
   let filter;
   try {
-    filter = source.filter ? compile(source.filter, used) : undefined;
+    filter = filterExpr ? compile(filterExpr, used) : undefined;
   } catch (e) {
     return fail([{ code: 'compile_error', message: errorText.internal(fit.name, (e as Error).message), range: source.range, fit: fit.name }]);
   }
   const sel = selectRows(table, { numeric: used, label: fit.groupBy, filter, file: source.path });
   if (!sel.ok) return fail(sel.errors.map((e) => dataErrorToRunError(e, e.column === fit.groupBy ? fit.range : locate(e.column), fit.name)));
   const s = sel.selection;
-  const empty = noRowsError(fit, source, table, s, block);
+  const empty = noRowsError(fit, source, fileTable, s.firstDropped && origin.has(s.firstDropped.column) ? { ...s, firstDropped: { ...s.firstDropped, column: origin.get(s.firstDropped.column)! } } : s, block);
   if (empty) return fail([empty]);
   const cols = s.columns;
 

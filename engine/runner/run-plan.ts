@@ -23,8 +23,9 @@ import { createHash } from 'node:crypto';
 import type { FitPlan, Plan } from '../../parser/plan';
 import { compileColumnExpr } from '../compile';
 import type { FileReader } from '../data';
-import { errorText, runText } from '../messages';
-import { RESULT_VERSION, type FitResult, type Provenance, type RunError, type RunResult, type ShardFit } from '../result';
+import { errorText, jointText, runText } from '../messages';
+import { isJointFit, runJointFit } from '../run/joint';
+import { RESULT_VERSION, type FitResult, type JointFitResult, type Provenance, type RunError, type RunResult, type ShardFit } from '../result';
 import type { CancelToken } from '../solve/problem';
 import { loadSources } from '../run/datasets';
 import { runDerived } from '../run/derived';
@@ -138,6 +139,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
   for (const e of loaded.errors) errors.push(e);
 
   const results = new Map<string, FitResult[]>();
+  const jointFits: JointFitResult[] = [];
   const fitPlans = new Map<string, FitPlan>(fits.map((f) => [f.name, f]));
   const refits = new Map<string, RefitContext>();
   let done = 0;
@@ -172,6 +174,11 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
     // the start is computed from every group, also in a shard
     const shared = fit.groupBy !== undefined ? sharedStart(fit, prepared.data) : undefined;
     let groups = prepared.data;
+    const joint = isJointFit(fit);
+    if (joint && shard) {
+      errors.push({ code: 'not_supported', message: jointText.sharded(fit.name), range: fit.range, fit: fit.name });
+      continue;
+    }
     if (shard && fit.groupBy !== undefined) {
       const [from, to] = shardRanges(groups.map((g) => g.n), shard.count)[shard.index - 1];
       shardFits.push({ fit: fit.name, groups: groups.length, from, to });
@@ -187,6 +194,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
         for (const r of started) results.get(fit.name)!.push(groupBootstrap(fit, data0(groups), r));
         const missed = fitted.find(isUnstarted);
         if (missed) errors.push({ code: 'cancelled', message: runText.cancelledBefore(runText.fitLabel(fit.name, missed.group ?? '')), range: fit.range, fit: fit.name });
+        else if (joint) jointFits.push(finishJoint(fit, groups, results, opts));
         continue;
       }
     }
@@ -221,6 +229,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
       opts.onProgress?.({ fit: fit.name, ...(data.group !== undefined ? { group: data.group } : {}), done: ++done, total });
       yield;
     }
+    if (joint && results.get(fit.name)!.length === groups.length && !opts.cancel?.cancelled) jointFits.push(finishJoint(fit, groups, results, opts));
   }
 
   const provenance: Provenance = {
@@ -232,7 +241,15 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
     startedAt,
     ...(shard ? { shard: { index: shard.index, count: shard.count, ...(opts.fits ? { only: [...opts.fits] } : {}), fits: shardFits, fitErrors: errors.length } } : {}),
   };
-  return finishRun(plan, { fitPlans, results, errors, provenance, refits });
+  const run = finishRun(plan, { fitPlans, results, errors, provenance, refits });
+  return jointFits.length ? { ...run, joint: jointFits } : run;
+}
+
+/** The joint fit of a fit with shared parameters, from its groups' separate results, which it replaces in `results` (engine/run/joint.ts). */
+function finishJoint(fit: FitPlan, groups: FitData[], results: Map<string, FitResult[]>, opts: RunOptions): JointFitResult {
+  const run = runJointFit(fit, groups, results.get(fit.name)!, opts.cancel ? { cancel: opts.cancel } : {});
+  results.set(fit.name, run.results);
+  return run.joint;
 }
 
 /** What the fitting of a run produced, before its queries, derived quantities and expectations. */

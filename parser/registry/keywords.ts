@@ -43,7 +43,7 @@ export const KEYWORD_SPECS = {
   decimal: { role: 'data_option', doc: 'decimal "." | "," - decimal mark of the numbers in the file (default ".").' },
   // fit body
   model: { role: 'fit_item', doc: 'model RESPONSE = EXPRESSION - what is fitted: the response (a column or an expression of columns) against the model.' },
-  param: { role: 'fit_item', doc: 'param NAME [= START] [in [LOW, HIGH]] [fixed] [UNIT] - a fitted parameter.' },
+  param: { role: 'fit_item', doc: 'param NAME [= START] [in [LOW, HIGH]] [fixed] [shared] [UNIT] - a fitted parameter.' },
   sigma: { role: 'fit_item', doc: 'sigma EXPRESSION - absolute standard deviation of each point (weights 1/sigma^2, chi-square statistics).' },
   weight: { role: 'fit_item', doc: 'weight EXPRESSION - relative weight of each point.' },
   method: { role: 'fit_item', doc: `method ${METHODS.join(' | ')} - the solver (default auto).` },
@@ -60,6 +60,7 @@ export const KEYWORD_SPECS = {
   on: { role: 'part', doc: 'fit NAME on DATA - the data table the fit reads.' },
   in: { role: 'part', doc: 'in [LOW, HIGH] - bounds of a parameter; use inf or -inf for an open side.' },
   fixed: { role: 'part', doc: 'fixed - hold the parameter at its given value.' },
+  shared: { role: 'part', doc: 'shared - in a fit with per COLUMN: one value of the parameter for every group, fitted jointly with the others, which each group fits for itself.' },
   scale: { role: 'part', doc: 'scale C - residual size where a robust loss starts to down-weight (default 1).' },
   seed: { role: 'part', doc: 'seed S - start of the bootstrap\'s random streams (whole number; default 1), so a run reproduces.' },
   at: { role: 'part', doc: 'at COLUMN = values - the column the query values belong to.' },

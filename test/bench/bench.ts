@@ -34,6 +34,7 @@ import { benchSuggest } from './cases/suggest';
 import { benchDerivedChain } from './cases/derived-chain';
 import { benchShards } from './cases/shards';
 import { benchBootstrap } from './cases/bootstrap';
+import { benchJoint } from './cases/joint';
 
 const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<BenchRow> }[] = [
   { id: 1, name: 'LM vs gradient descent', run: benchDescent },
@@ -57,6 +58,7 @@ const CASES: { id: number; name: string; run: (ctx: BenchContext) => Promise<Ben
   { id: 19, name: 'Chained derive statements', run: benchDerivedChain },
   { id: 20, name: 'Shards side by side', run: benchShards },
   { id: 21, name: 'Bootstrap refits', run: benchBootstrap },
+  { id: 22, name: 'Joint fit, shared parameters', run: benchJoint },
 ];
 
 interface Args {

@@ -338,6 +338,20 @@ describe('parser/check diagnostics', () => {
     expectAt(spec({ after: 'derive k = f.a + «"temp (C)"»' }), 'column_in_derive');
   });
 
+  it('shared_without_groups / joint_not_supported: shared needs per, and the squared loss by Levenberg–Marquardt', () => {
+    expectAt(spec({ items: '  param b «shared»', model: 'y = a * x + b' }), 'shared_without_groups');
+    expectAt(spec({ items: '  param b «shared»\n  per batch\n  loss huber', model: 'y = a * x + b' }), 'joint_not_supported');
+    expect(analyze(spec({ items: '  param b shared\n  per batch', model: 'y = a * x + b' })).diagnostics).toEqual([]);
+  });
+
+  it('text_or_column / text_not_allowed: a quoted item compared with a column (headers known)', () => {
+    expectAt('data d = "a.csv" where batch == «"sd"»\nfit f on d {\n  model y = a * x\n  param a = 1\n}', 'text_or_column', HEADERS);
+    expectAt(spec({ model: 'y = a * when(batch == «"B-1"», x, 0)' }), 'text_not_allowed', HEADERS);
+    expectAt('data d = "a.csv" where x > 0 and «"B-1"» == 2\nfit f on d {\n  model y = a * x\n  param a = 1\n}', 'text_not_allowed', HEADERS);
+    // the plain case is no diagnostic: a text value
+    expect(analyze('data d = "a.csv" where batch == "B 1"\nfit f on d {\n  model y = a * x\n  param a = 1\n}', HEADERS).diagnostics).toEqual([]);
+  });
+
   it('derive: unknown or later fit, unknown parameter or statistic (did you mean)', () => {
     expect(expectAt(spec({ after: 'derive k = «g».a' }), 'unknown_fit').suggestions).toEqual(['f']);
     expectAt(spec({ after: 'derive k = «g».b\nfit g on d {\n  model y = b * x\n  param b\n}' }), 'declared_later');

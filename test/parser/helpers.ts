@@ -47,6 +47,7 @@ export function show(e: Expr): string {
   switch (e.kind) {
     case 'number': return String(e.value);
     case 'column': return `col:${e.name}`;
+    case 'text': return `text:${JSON.stringify(e.value)}`;
     case 'param': return `par:${e.name}`;
     case 'result': return `${e.of === 'estimate' ? 'est' : 'stat'}:${e.fit}.${e.name}`;
     case 'derived': return `der:${e.name}`;

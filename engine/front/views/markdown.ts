@@ -12,6 +12,7 @@
  * `<script>`, `a|b`, `[x](y)` or a backtick show as written and change
  * neither the document's structure nor its HTML.
  */
+import { jointBlocks } from './joint';
 import type { FitResult, RunResult } from '../../result';
 import { DIGITS, formatLevel, formatNumber } from '../../format';
 import {
@@ -229,6 +230,11 @@ export function markdownReport(result: RunResult, opts: MarkdownOptions = {}): s
     append(lines, chartBlock('Charts', charts));
   }
 
+  for (const b of jointBlocks(result.joint ?? [])) {
+    append(lines, `## ${mdText(b.heading)}`, '', b.lead.flatMap((l) => [mdText(l), '']));
+    for (const t of b.tables) append(lines, `**${mdText(t.title)}**`, '', markdownTable(t.headers, t.rows, t.align), '');
+    append(lines, b.notes.map((n) => `- ${mdText(n)}`), '');
+  }
   const blocks = queryBlocks(result);
   if (blocks.length) {
     lines.push('## Queries', '');

@@ -16,6 +16,7 @@ import { inlineText } from './escape';
 import {
   detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock, worstGroupLines, type FitSection,
 } from './groups';
+import { jointBlocks } from './joint';
 import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from './profile';
 import { BOOTSTRAP_ALIGN, BOOTSTRAP_HEADERS, bootstrapLine, bootstrapRows, derivedIntervalBlock, hasBootstrapTable } from './bootstrap';
 
@@ -135,6 +136,18 @@ function withTerminalLabels(result: RunResult): RunResult {
   };
 }
 
+/** The comparisons between groups of the run's joint fits (joint.ts), as lines. */
+export function jointTextLines(result: RunResult): string[] {
+  const lines: string[] = [];
+  for (const b of jointBlocks(result.joint ?? [])) {
+    if (lines.length) lines.push('');
+    lines.push(b.heading, ...b.lead.map((l) => `  ${inlineText(l)}`));
+    for (const t of b.tables) append(lines, '', `  ${t.title}`, textTable(t.headers, t.rows.map((r) => r.map(inlineText)), t.align, '    '));
+    lines.push('', ...b.notes.map((n) => `  ${inlineText(n)}`));
+  }
+  return lines;
+}
+
 /** The whole run summary (fits, queries, derived quantities, expectations) ending with a newline. */
 export function runText(run: RunResult): string {
   const result = withTerminalLabels(run);
@@ -148,6 +161,8 @@ export function runText(run: RunResult): string {
     sections.push(groupTextLines(s, shown));
     for (const i of shown) sections.push(fitTextLines(result.fits[i]));
   }
+  const j = jointTextLines(result);
+  if (j.length) sections.push(j);
   const q = queryTextLines(result);
   if (q.length) sections.push(q);
   const d = derivedTextLines(result);

@@ -1,0 +1,100 @@
+/**
+ * The comparison between groups of a joint fit (engine/run/joint.ts,
+ * joint-compare.ts) as view-neutral blocks, rendered by the text summary and
+ * the Markdown report alike: the joint solve and its shared estimates, the
+ * shared-versus-separate F tests with the reading of each, and the pairwise
+ * differences and ratios of the per-group parameters.
+ */
+import type { JointFitResult, NestedFTest } from '../../result';
+import { DIGITS, formatEstimate, formatInterval, formatLevel, formatNumber, formatP, pClause } from '../../format';
+
+export interface JointTable {
+  title: string;
+  headers: string[];
+  rows: string[][];
+  align: ('left' | 'right')[];
+}
+
+export interface JointBlock {
+  heading: string;
+  /** Sentences before the tables. */
+  lead: string[];
+  tables: JointTable[];
+  /** Sentences after the tables (readings and cautions). */
+  notes: string[];
+}
+
+/** The caution every comparison block ends with (the tests are checks, not a validated suitability procedure). */
+export const JOINT_CAUTION =
+  'These tests are statistical checks of this data set. Where the comparison feeds a release, potency or other regulated ' +
+  'decision, use the validated procedure of the laboratory (for bioassays, equivalence limits set in advance, as USP general ' +
+  'chapter <1034> describes) and have the result reviewed by qualified people.';
+
+function ssrPair(t: NestedFTest): string {
+  return `${formatNumber(t.restricted.ssr)} → ${formatNumber(t.general.ssr)}`;
+}
+
+function reading(t: NestedFTest, alpha: number, what: string): string {
+  if (t.note) return `${what}: ${t.note}.`;
+  return t.pValue < alpha
+    ? `${what}: the groups differ (${pClause(t.pValue)} < ${formatNumber(alpha)}); a common value does not describe them.`
+    : `${what}: no evidence that the groups differ (${pClause(t.pValue)} ≥ ${formatNumber(alpha)}); this does not show they are equal.`;
+}
+
+export function jointBlocks(joint: readonly JointFitResult[]): JointBlock[] {
+  return joint.map((j) => {
+    const alpha = 1 - j.level;
+    const level = formatLevel(j.level);
+    const lead = [
+      `Joint fit over ${j.groups.length} group${j.groups.length === 1 ? '' : 's'} of ${j.groupBy}: ${j.stop.converged ? 'converged' : 'NOT converged'} (${j.stop.code}: ${j.stop.message}; ${j.iterations} iterations).`,
+      `n ${j.n}, ${j.p} parameters (${j.shared.length} shared + ${j.groups.length} × ${j.perGroup.length} per group), ${j.dof} degrees of freedom, SSR ${formatNumber(j.ssr)}, s ${formatNumber(j.rmse)}.`,
+      ...j.leftOut.map((l) => `Left out: ${l.group} (${l.reason}).`),
+    ];
+    const tables: JointTable[] = [];
+    tables.push({
+      title: 'Shared parameters',
+      headers: ['parameter', 'estimate', 'std. error', `${level} low`, `${level} high`, 'unit'],
+      rows: j.estimates.map((e) => {
+        const f = formatEstimate(e.estimate, e.stderr, e.lower, e.upper);
+        return [e.name, f.estimate, f.stderr, f.lower, f.upper, e.unit ?? ''];
+      }),
+      align: ['left', 'right', 'right', 'right', 'right', 'left'],
+    });
+    const tests: string[][] = [];
+    if (j.sharedVsSeparate) {
+      const t = j.sharedVsSeparate;
+      tests.push([`all of ${j.shared.join(', ')}`, formatNumber(t.f, DIGITS.statistic), `${t.df1}, ${t.df2}`, formatP(t.pValue), ssrPair(t)]);
+    }
+    for (const t of j.perParameter) tests.push([t.parameter, formatNumber(t.f, DIGITS.statistic), `${t.df1}, ${t.df2}`, formatP(t.pValue), ssrPair(t)]);
+    if (tests.length) {
+      tables.push({
+        title: 'Shared or per group (extra-sum-of-squares F test: the joint fit against the fit with these parameters per group)',
+        headers: ['per group instead', 'F', 'df', 'p', 'SSR shared → per group'],
+        rows: tests,
+        align: ['left', 'right', 'right', 'right', 'right'],
+      });
+    }
+    if (j.pairs.length) {
+      tables.push({
+        title: `Between groups (b − a with a Student-t interval, b / a with Fieller's interval, ${level})`,
+        headers: ['parameter', 'a', 'b', 'b − a', 'interval', 'b / a', 'interval'],
+        rows: j.pairs.map((p) => [
+          p.parameter, p.a, p.b,
+          formatNumber(p.difference), formatInterval(p.differenceLower, p.differenceUpper),
+          formatNumber(p.ratio, DIGITS.statistic),
+          p.ratioLower === null || p.ratioUpper === null ? 'not bounded' : formatInterval(p.ratioLower, p.ratioUpper, DIGITS.statistic),
+        ]),
+        align: ['left', 'left', 'left', 'right', 'right', 'right', 'right'],
+      });
+    }
+    const notes: string[] = [];
+    if (j.sharedVsSeparate) notes.push(reading(j.sharedVsSeparate, alpha, `Shared ${j.shared.join(', ')}`));
+    else notes.push('No test of all shared parameters at once: a group\'s separate fit did not converge.');
+    if (j.perGroup.length === 1 && j.sharedVsSeparate) {
+      notes.push(`With ${j.perGroup[0]} the only parameter per group, this is the parallelism check of a relative-potency comparison (common practice): the ratio of ${j.perGroup[0]} between two groups is then their relative potency (or its inverse).`);
+    }
+    for (const t of j.perParameter) notes.push(reading(t, alpha, t.parameter));
+    notes.push(JOINT_CAUTION);
+    return { heading: `Between groups: ${j.fit}`, lead, tables, notes };
+  });
+}
