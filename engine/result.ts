@@ -469,6 +469,8 @@ export type QueryResult =
       rows: { fit: string; n: number; p: number; ssr: number; aic: number; aicc: number; bic: number; deltaAicc: number; akaikeWeight: number }[];
       /** Extra-sum-of-squares F test when two fits are nested by parameter count. */
       fTest?: { f: number; df1: number; df2: number; pValue: number; simpler: string; richer: string };
+      /** Fits named but left out (no result, or not converged) while at least two others were compared, with the reason (additive, optional). */
+      leftOut?: { fit: string; reason: string }[];
     };
 
 export interface ExpectationResult {

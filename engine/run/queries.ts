@@ -144,18 +144,32 @@ function invert(q: Extract<Query, { kind: 'invert' }>, ctx: QueryContext): Out {
 function compare(q: Extract<Query, { kind: 'compare' }>, ctx: QueryContext): Out {
   const rows: CompareInput[] = [];
   const plans: FitPlan[] = [];
+  // Fits without a result or not converged are left out and the others compared, while at least two remain;
+  // with fewer, the first such fit decides the answer as before (its error, or the comparison withheld).
+  const leftOut: { fit: string; reason: string }[] = [];
+  let firstMissing: Out | undefined;
   for (const name of q.fits) {
     const found = lookup(name, q, ctx);
-    if (isError(found)) return { results: [], errors: [found] };
+    if (isError(found)) {
+      if (found.code !== 'fit_not_run') return { results: [], errors: [found] };
+      leftOut.push({ fit: name, reason: withheldText.compareNoResult });
+      firstMissing ??= { results: [], errors: [found] };
+      continue;
+    }
     if (found.results.length !== 1 || found.results[0].group !== undefined) {
       return { results: [], errors: [{ code: 'compare_grouped', message: errorText.comparePerGroup(name), range: q.range, fit: name }] };
     }
     const r = found.results[0];
-    if (!r.stop.converged) return { results: [{ kind: 'compare', fits: [...q.fits], rows: [], withheld: withheldText.query(name, 'sums of squares and information criteria', r.stop.code) }], errors: [] };
+    if (!r.stop.converged) {
+      leftOut.push({ fit: name, reason: withheldText.compareNotConverged(r.stop.code) });
+      firstMissing ??= { results: [{ kind: 'compare', fits: [...q.fits], rows: [], withheld: withheldText.query(name, 'sums of squares and information criteria', r.stop.code) }], errors: [] };
+      continue;
+    }
     const g = r.goodness;
     rows.push({ fit: name, n: g.n, p: g.p, ssr: g.ssr, aic: g.aic, aicc: g.aicc, bic: g.bic });
     plans.push(found.plan);
   }
+  if (firstMissing && rows.length < 2) return firstMissing;
   const sameData = plans.every(
     (p) => p.blocks[0].data === plans[0].blocks[0].data && exprText(p.blocks[0].response) === exprText(plans[0].blocks[0].response),
   );
@@ -164,5 +178,5 @@ function compare(q: Extract<Query, { kind: 'compare' }>, ctx: QueryContext): Out
     errors.push({ code: 'compare_different_data', message: errorText.compareMismatch(q.fits), range: q.range });
   }
   const fTest = rows.length === 2 && sameData ? extraSumOfSquaresF(rows[0], rows[1]) : null;
-  return { results: [{ kind: 'compare', fits: [...q.fits], rows: akaikeRows(rows), ...(fTest ? { fTest } : {}) }], errors };
+  return { results: [{ kind: 'compare', fits: [...q.fits], rows: akaikeRows(rows), ...(fTest ? { fTest } : {}), ...(leftOut.length ? { leftOut } : {}) }], errors };
 }

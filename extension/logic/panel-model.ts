@@ -25,9 +25,11 @@ import { isHighCorrelation } from '../../engine/thresholds';
 import { flaggedPointRows, flaggedPointsNote } from '../../engine/front/views/influence';
 import { groupParameterCharts } from './panel-group-charts';
 import { correlationCaption } from '../../engine/front/views/summary';
+import { flagSummary, warningFindings, type WarningFinding } from './panel-warnings';
+import { declaredOrder, FIT_STATE_LABEL, fitState, missingFits, stateCounts, type FitState, type MissingFit } from './panel-states';
 
-/** Version of the model's shape; a saved page state of another version is not restored (2: the correlation list's caption). */
-export const PANEL_MODEL_VERSION = 2 as const;
+/** Version of the model's shape; a saved page state of another version is not restored (2: the correlation list's caption; 3: fit states, fits without a result). */
+export const PANEL_MODEL_VERSION = 3 as const;
 
 /** A chart as the page receives it (same shape as engine/front/views/charts.ts ChartSpec). */
 export interface PanelChart {
@@ -49,6 +51,12 @@ export interface PanelFit {
   /** A robust loss's sentence (scale and down-weighted points, engine/front/views/summary.ts `robustLine`). */
   robust: string | null;
   converged: boolean;
+  /** Converged, not converged, failed (no result, `reasons` say why) or not run (extension/logic/panel-states.ts). */
+  state: FitState;
+  /** Whether the run has a result for it (false: a failed fit without one, or a fit not run; `reasons` say why). */
+  hasResult: boolean;
+  /** Why a fit has no result (the run errors naming it), or why it did not converge (the stop message); empty when converged. */
+  reasons: string[];
   /** The marking of a fit that is not a result (engine/front/views/summary.ts `notFittedNote`), shown as a banner; null when fitted. */
   notFitted: string | null;
   parameterHeaders: string[];
@@ -95,6 +103,8 @@ export interface PanelGroupTable {
   /** Worst first (engine/groups/table.ts `worstGroups`). */
   rows: PanelGroupRow[];
   summary: string[];
+  /** The flags of `rows` in one sentence (extension/logic/panel-warnings.ts `flagSummary`). */
+  flagSummary: string;
   charts: PanelChart[];
 }
 
@@ -105,8 +115,16 @@ export interface PanelModel {
   /** ISO time the run started. */
   startedAt: string;
   run: { tool: string; toolVersion: string; data: { name: string; path: string; rows: number }[] };
-  headline: { fits: number; converged: number; warnings: number; expectations: number; failedExpectations: number; errors: number };
+  /**
+   * `fits`: every entry (a declared fit, or each group of a per-group fit), with or without a result; then the
+   * entries per state (they add up to `fits`).
+   */
+  headline: { fits: number; converged: number; notConverged: number; failed: number; notRun: number; warnings: number; expectations: number; failedExpectations: number; errors: number };
+  /** Fit names as declared in the spec (when the host knew them), kept for a later merge of runs of single fits. */
+  declaredFits: string[];
   fits: PanelFit[];
+  /** Every warning, counted as the Problems panel counts them (`headline.warnings` is its length; extension/logic/panel-warnings.ts). */
+  findings: WarningFinding[];
   groups: PanelGroupTable[];
   /** Query tables; the derived-quantity table (engine/front/views/summary.ts `derivedBlock`) comes first when there is one. */
   queries: QueryBlock[];
@@ -119,6 +137,8 @@ export interface ModelOptions {
   specName: string;
   /** Group fits whose charts are included up front (the worst first). Default 6. */
   eagerGroupCharts?: number;
+  /** Names of the fits the spec declares, in order (from the plan): fits without a result are listed too. Default: those the run names. */
+  declaredFits?: readonly string[];
 }
 
 export function fitKey(f: { name: string; group?: string }): string {
@@ -145,10 +165,19 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
         message: r.message,
       })),
       summary: [groupCountLine(table), ...groupSummarySentences(table)],
+      flagSummary: flagSummary(table.rows),
       charts: groupParameterCharts(fits, table),
     });
   }
-  const fits = run.fits.map((f) => panelFit(f, f.group === undefined || eager.has(fitKey(f))));
+  const declared = opts.declaredFits ?? [];
+  const missing = missingFits(run, declared);
+  const order = declaredOrder(declared, [...run.fits.map((f) => f.name), ...missing.map((m) => m.name)]);
+  const fits = [...run.fits.map((f) => panelFit(f, f.group === undefined || eager.has(fitKey(f)))), ...missing.map(missingPanelFit)]
+    .map((f, i) => ({ f, i }))
+    .sort((a, b) => (order.get(a.f.name) ?? 0) - (order.get(b.f.name) ?? 0) || a.i - b.i)
+    .map((x) => x.f);
+  const counts = stateCounts(fits.map((f) => f.state));
+  const findings = warningFindings(run.fits);
   return {
     version: PANEL_MODEL_VERSION,
     specUri: opts.specUri,
@@ -156,14 +185,19 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
     startedAt: run.provenance.startedAt,
     run: { tool: run.provenance.tool, toolVersion: run.provenance.toolVersion, data: run.provenance.data.map((d) => ({ name: d.name, path: d.path, rows: d.rows })) },
     headline: {
-      fits: run.fits.length,
-      converged: run.fits.filter((f) => f.stop.converged).length,
-      warnings: run.fits.reduce((s, f) => s + warningLines(f).length, 0),
+      fits: fits.length,
+      converged: counts.converged,
+      notConverged: counts.not_converged,
+      failed: counts.failed,
+      notRun: counts.not_run,
+      warnings: findings.length,
       expectations: run.expectations.length,
       failedExpectations: run.expectations.filter((e) => !e.passed).length,
       errors: run.errors.length,
     },
+    declaredFits: [...order.keys()],
     fits,
+    findings,
     groups,
     queries: [derivedBlock(run), ...queryBlocks(run)].filter((b): b is QueryBlock => b !== null),
     expectations: run.expectations.map(expectationLine),
@@ -194,6 +228,9 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     search: searchLine(f),
     robust: robustLine(f),
     converged: f.stop.converged,
+    state: fitState(f),
+    hasResult: true,
+    reasons: f.stop.converged ? [] : [f.stop.message],
     notFitted: notFittedNote(f),
     parameterHeaders: PARAMETER_HEADERS(f.level),
     parameterRows: parameterRows(f),
@@ -206,6 +243,36 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     profile: panelProfile(f),
     flaggedPoints: flaggedPoints(f),
     charts: withCharts ? panelCharts(f) : null,
+  };
+}
+
+/** The entry of a declared fit without a result: its state and reasons, nothing else to show. */
+function missingPanelFit(m: MissingFit): PanelFit {
+  const label = FIT_STATE_LABEL[m.state];
+  return {
+    key: m.name,
+    name: m.name,
+    label: m.name,
+    heading: `Fit ${m.name}: ${label}, no result`,
+    stop: m.state === 'failed' ? `Failed: ${m.reasons.join(' ')}` : `Not run: ${m.reasons.join(' ')}`,
+    search: null,
+    robust: null,
+    converged: false,
+    state: m.state,
+    hasResult: false,
+    reasons: m.reasons,
+    notFitted: null,
+    parameterHeaders: [],
+    parameterRows: [],
+    flagged: [],
+    correlationCaption: correlationCaption(),
+    keyStats: [],
+    goodness: [],
+    warnings: [],
+    correlations: [],
+    profile: null,
+    flaggedPoints: { headers: [], rows: [], note: null },
+    charts: [],
   };
 }
 

@@ -51,7 +51,7 @@ const isOptString = (x: unknown): boolean => x === undefined || typeof x === 'st
 /** Shallow check of a panel model (the host builds it; the page only needs the shape). */
 export function isPanelModel(x: unknown): x is PanelModel {
   // the version of extension/logic/panel-model.ts PANEL_MODEL_VERSION (a literal: the page bundle imports no engine code; test/extension/protocol.test.ts holds them equal)
-  return isObject(x) && x.version === 2 && isString(x.specUri) && isString(x.specName) && Array.isArray(x.fits) && isObject(x.run);
+  return isObject(x) && x.version === 3 && isString(x.specUri) && isString(x.specName) && Array.isArray(x.fits) && isObject(x.run);
 }
 
 export function isPanelChart(x: unknown): x is PanelChart {

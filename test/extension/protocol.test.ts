@@ -27,14 +27,14 @@ describe('extension/logic/panel-protocol', () => {
 
   it('accepts host messages with a real panel model and rejects broken ones', () => {
     expect(isPanelModel(model)).toBe(true);
-    expect(isPanelModel({ ...model, version: 1 })).toBe(false); // a saved state of an older shape
+    expect(isPanelModel({ ...model, version: 2 })).toBe(false); // a saved state of an older shape
     expect(isToPage({ type: 'show', model })).toBe(true);
     expect(isToPage({ type: 'show', model, focus: 'newton' })).toBe(true);
     expect(isToPage({ type: 'busy', specName: 'a.lsq', text: '1 of 2' })).toBe(true);
     expect(isToPage({ type: 'failed', specName: 'a.lsq', message: 'worker crashed' })).toBe(true);
     expect(isToPage({ type: 'charts', key: 'newton', charts: model.fits[0].charts })).toBe(true);
     expect(isToPage({ type: 'charts', key: 'newton', charts: null })).toBe(true);
-    expect(isToPage({ type: 'show', model: { ...model, version: 3 } })).toBe(false);
+    expect(isToPage({ type: 'show', model: { ...model, version: 4 } })).toBe(false);
     expect(isToPage({ type: 'show' })).toBe(false);
     expect(isToPage({ type: 'charts', key: 'newton', charts: [{ id: 'x' }] })).toBe(false);
     expect(isToPage({ type: 'busy', specName: 'a.lsq' })).toBe(false);

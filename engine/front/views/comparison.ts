@@ -16,6 +16,7 @@
 import type { QueryResult } from '../../result';
 import { formatInteger, formatNumber, formatP } from '../../format';
 import { AICC_CLEAR, AICC_TIE } from '../../thresholds';
+import { withheldText } from '../../messages';
 import type { Align } from './table';
 
 type Comparison = Extract<QueryResult, { kind: 'compare' }>;
@@ -70,7 +71,8 @@ export function comparisonBlock(q: Comparison): ComparisonBlock {
     measure('AICc above the lowest', (r) => formatNumber(r.deltaAicc, 3)),
     measure('Akaike weight', (r) => formatNumber(r.akaikeWeight, 3)),
   ];
-  const notes = ['AICc weighs how closely a model follows the data against how many parameters it spends; the Akaike weights share the support among these fits and add up to 1.'];
+  const notes = q.leftOut?.length ? [withheldText.compareLeftOut(q.leftOut)] : [];
+  notes.push('AICc weighs how closely a model follows the data against how many parameters it spends; the Akaike weights share the support among these fits and add up to 1.');
   if (q.fTest) notes.push(`The nested test holds only if ${q.fTest.simpler} is ${q.fTest.richer} with some parameters fixed; the spec says which fits are nested, the test does not check it.`);
   return { heading, lead, headers: ['evidence', ...q.rows.map((r) => r.fit)], rows, align: ['left', ...q.rows.map((): Align => 'right')], notes };
 }

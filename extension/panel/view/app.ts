@@ -10,7 +10,7 @@ import type { FromPage } from '../../logic/panel-protocol';
 import type { PanelModel } from '../../logic/panel-model';
 import { finalizeCharts } from './charts';
 import { clear, h } from './dom';
-import { checksSection, fitSection, groupSection, type SectionEvents } from './sections';
+import { checksSection, fitSection, groupSection, warningsSection, type SectionEvents } from './sections';
 
 export interface AppState {
   model?: PanelModel;
@@ -24,6 +24,8 @@ export interface AppHost {
 }
 
 const CHECKS_KEY = '#checks';
+/** The list of every warning (opened by the warnings chip). */
+export const WARNINGS_KEY = '#warnings';
 const groupKey = (fit: string): string => `#group:${fit}`;
 
 let renderCount = 0;
@@ -63,22 +65,28 @@ function navKeys(m: PanelModel): string[] {
       keys.push(groupKey(f.name));
     }
   }
+  if (m.findings.length) keys.push(WARNINGS_KEY);
   if (m.queries.length || m.expectations.length || m.errors.length) keys.push(CHECKS_KEY);
   return keys;
 }
 
 function toolbar(m: PanelModel, host: AppHost): HTMLElement {
   const hl = m.headline;
-  const chip = (text: string, kind: 'ok' | 'warn' | 'bad' | 'plain', title?: string) => h('span', { class: `lw-chip ${kind}`, title }, text);
+  const chip = (text: string, kind: 'ok' | 'warn' | 'bad' | 'plain', title?: string, open?: string) => open
+    ? h('button', { class: `lw-chip ${kind}`, title, data: { open }, onClick: () => host.select(open) }, text)
+    : h('span', { class: `lw-chip ${kind}`, title }, text);
   const chips = [
-    chip(`${hl.converged}/${hl.fits} converged`, hl.converged === hl.fits ? 'ok' : 'bad'),
-    chip(`${hl.warnings} warning${hl.warnings === 1 ? '' : 's'}`, hl.warnings ? 'warn' : 'plain'),
-    hl.expectations ? chip(`${hl.expectations - hl.failedExpectations}/${hl.expectations} expectations`, hl.failedExpectations ? 'bad' : 'ok') : null,
-    hl.errors ? chip(`${hl.errors} error${hl.errors === 1 ? '' : 's'}`, 'bad') : null,
+    chip(`${hl.converged}/${hl.fits} converged`, hl.converged === hl.fits ? 'ok' : 'bad', 'Fits (each group of a per-group fit counts once) that converged, of all declared'),
+    hl.notConverged ? chip(`${hl.notConverged} not converged`, 'bad', 'Results that are not estimates: their statistics are withheld') : null,
+    hl.failed ? chip(`${hl.failed} failed`, 'bad', 'Declared fits without a result (see the reason in each entry)') : null,
+    hl.notRun ? chip(`${hl.notRun} not run`, 'plain', 'Declared fits the last run did not ask for') : null,
+    chip(`${hl.warnings} warning${hl.warnings === 1 ? '' : 's'}`, hl.warnings ? 'warn' : 'plain', hl.warnings ? 'Show every warning (counted as in the Problems panel)' : undefined, hl.warnings ? WARNINGS_KEY : undefined),
+    hl.expectations ? chip(`${hl.expectations - hl.failedExpectations}/${hl.expectations} expectations`, hl.failedExpectations ? 'bad' : 'ok', undefined, CHECKS_KEY) : null,
+    hl.errors ? chip(`${hl.errors} error${hl.errors === 1 ? '' : 's'}`, 'bad', undefined, CHECKS_KEY) : null,
   ];
   const when = new Date(m.startedAt);
   return h('header', { class: 'lw-toolbar' },
-    h('div', { class: 'lw-title' }, h('h1', null, m.specName), h('span', { class: 'lw-muted', title: m.startedAt }, Number.isNaN(when.getTime()) ? '' : `fitted ${when.toLocaleString()}`)),
+    h('div', { class: 'lw-title' }, h('h1', null, m.specName), h('span', { class: 'lw-muted', title: m.startedAt }, Number.isNaN(when.getTime()) ? '' : `fitted ${isoMinute(when)}`)),
     h('div', { class: 'lw-chips' }, ...chips),
     h('div', { class: 'lw-actions' },
       h('button', { class: 'lw-btn primary', onClick: () => host.post({ type: 'refit' }), title: 'Run the spec again' }, 'Fit again'),
@@ -89,11 +97,20 @@ function toolbar(m: PanelModel, host: AppHost): HTMLElement {
   );
 }
 
+/** A time as ISO 8601 to the minute, in UTC (`2026-12-03 14:05 UTC`): the one date form of every view. */
+export function isoMinute(d: Date): string {
+  return `${d.toISOString().slice(0, 16).replace('T', ' ')} UTC`;
+}
+
 function nav(m: PanelModel, selected: string, host: AppHost): HTMLElement {
   const items = navKeys(m).map((key) => {
     let label = key;
     let status: 'ok' | 'warn' | 'bad' = 'ok';
-    if (key === CHECKS_KEY) {
+    let note: string | null = null;
+    if (key === WARNINGS_KEY) {
+      label = `Warnings (${m.findings.length})`;
+      status = 'warn';
+    } else if (key === CHECKS_KEY) {
       label = 'Queries and checks';
       status = m.headline.failedExpectations || m.headline.errors ? 'bad' : 'ok';
     } else if (key.startsWith('#group:')) {
@@ -104,6 +121,7 @@ function nav(m: PanelModel, selected: string, host: AppHost): HTMLElement {
     } else {
       const f = m.fits.find((x) => x.key === key);
       status = !f?.converged ? 'bad' : f.warnings.length ? 'warn' : 'ok';
+      if (f && f.state !== 'converged') note = f.state.replace('_', ' ');
     }
     const active = key === selected || (key.startsWith('#group:') && selected.startsWith(`${key.slice('#group:'.length)}/`));
     return h('li', null, h('button', {
@@ -111,7 +129,7 @@ function nav(m: PanelModel, selected: string, host: AppHost): HTMLElement {
       data: { key },
       attrs: { 'aria-current': active ? 'true' : 'false' },
       onClick: () => host.select(key),
-    }, h('span', { class: `lw-dot ${status}`, attrs: { 'aria-hidden': 'true' } }), label));
+    }, h('span', { class: `lw-dot ${status}`, attrs: { 'aria-hidden': 'true' } }), h('span', { class: 'lw-nav-label' }, label), note ? h('span', { class: 'lw-nav-state' }, note) : null));
   });
   return h('nav', { class: 'lw-nav', attrs: { 'aria-label': 'Fits' } }, h('ul', null, ...items));
 }
@@ -138,7 +156,9 @@ function main(m: PanelModel, selected: string, host: AppHost, token: number): HT
   };
   let shownFitKey: string | undefined;
   let shownGroupFit: string | undefined;
-  if (selected === CHECKS_KEY) {
+  if (selected === WARNINGS_KEY) {
+    el.append(warningsSection(m, events));
+  } else if (selected === CHECKS_KEY) {
     const s = checksSection(m);
     if (s) el.append(s);
   } else if (selected.startsWith('#group:') || m.fits.find((f) => f.key === selected)?.group !== undefined) {

@@ -5,6 +5,7 @@
  * section (predictions, inversions, comparisons, expectations, errors).
  */
 import type { PanelChart, PanelFit, PanelGroupTable, PanelModel } from '../../logic/panel-model';
+import { groupsPhrase } from '../../logic/panel-warnings';
 import { chartFigure, type ChartEvents } from './charts';
 import { h, table } from './dom';
 
@@ -19,6 +20,7 @@ export interface SectionEvents extends ChartEvents {
 const PARAM_NUMERIC = new Set([1, 2, 3, 4]);
 
 export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promise<void>[], width: number): HTMLElement {
+  if (!fit.hasResult) return missingFitSection(fit);
   const params = table('lw-params', fit.parameterHeaders, fit.parameterRows, {
     numeric: (j) => PARAM_NUMERIC.has(j),
     rowProps: (r) => ({
@@ -52,9 +54,9 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
     charts.append(h('p', { class: 'lw-muted' }, 'Loading charts…'));
     events.onNeedCharts(fit.key);
   }
-  return h('section', { class: 'lw-fit', id: `fit-${cssId(fit.key)}`, data: { fitKey: fit.key } },
+  return h('section', { class: 'lw-fit', id: `fit-${cssId(fit.key)}`, data: { fitKey: fit.key, state: fit.state } },
     h('header', { class: 'lw-fit-head' },
-      h('h2', null, fit.label),
+      h('h2', null, fit.label, ...(fit.state === 'converged' ? [] : [' ', h('span', { class: `lw-state ${fit.state}` }, fit.state.replace('_', ' '))])),
       h('p', { class: 'lw-muted' }, fit.heading),
       h('p', { class: fit.converged ? 'lw-stop' : 'lw-stop lw-bad' }, fit.stop),
       fit.search ? h('p', { class: 'lw-stop' }, fit.search) : null,
@@ -74,6 +76,38 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
     charts,
     h('details', { class: 'lw-details' }, h('summary', null, 'All statistics and residual tests'), goodness),
   );
+}
+
+/** A declared fit without a result: its state and why, in place of tables and charts. */
+function missingFitSection(fit: PanelFit): HTMLElement {
+  return h('section', { class: 'lw-fit lw-missing', id: `fit-${cssId(fit.key)}`, data: { fitKey: fit.key, state: fit.state } },
+    h('header', { class: 'lw-fit-head' },
+      h('h2', null, fit.label, ' ', h('span', { class: `lw-state ${fit.state}` }, fit.state === 'failed' ? 'failed' : 'not run')),
+      h('p', { class: 'lw-muted' }, fit.heading)),
+    h('div', { class: fit.state === 'failed' ? 'lw-notfitted lw-bad' : 'lw-notfitted', role: fit.state === 'failed' ? 'alert' : undefined },
+      h('p', null, fit.state === 'failed' ? 'This fit has no result:' : 'This fit has no result in the last run:'),
+      h('ul', { class: 'lw-reasons' }, ...fit.reasons.map((r) => h('li', null, r)))),
+    h('p', { class: 'lw-muted' }, 'No parameters, statistics or charts are shown; queries and comparisons that name it leave it out and say so.'),
+  );
+}
+
+/** Every warning of the run, counted as in the Problems panel; each names the fit (or groups) to open. */
+export function warningsSection(m: PanelModel, events: SectionEvents): HTMLElement {
+  const byFit = new Map<string, typeof m.findings>();
+  for (const f of m.findings) byFit.set(f.fit, [...(byFit.get(f.fit) ?? []), f]);
+  const blocks = [...byFit].map(([fit, list]) => {
+    const g = m.groups.find((x) => x.fit === fit);
+    return h('div', { class: 'lw-warn-fit', data: { fit } },
+      h('h3', null, h('button', { class: 'lw-link', onClick: () => events.onSelect(g ? `#group:${fit}` : fit) }, fit), ` — ${list.length} warning${list.length === 1 ? '' : 's'}`),
+      g ? h('p', { class: 'lw-muted lw-flag-summary' }, g.flagSummary) : null,
+      h('ul', { class: 'lw-warnings' }, ...list.map((w) => h('li', { data: { code: w.code } },
+        w.text, ` [${w.code}]`,
+        w.groups ? h('span', { class: 'lw-muted' }, ' — ', groupsPhrase(w.groups), ' ', ...w.keys.slice(0, 5).map((k) => h('button', { class: 'lw-link', onClick: () => events.onSelect(k) }, k.slice(fit.length + 1)))) : null))));
+  });
+  return h('section', { class: 'lw-warnings-all', id: 'warnings' },
+    h('h2', null, `Warnings (${m.findings.length})`),
+    h('p', { class: 'lw-muted' }, 'Counted as in the Problems panel: one entry per warning of a fit, and one per kind of warning of a per-group fit, naming its groups.'),
+    ...blocks);
 }
 
 export function fillCharts(into: HTMLElement, charts: PanelChart[], events: ChartEvents, pending: Promise<void>[], width: number): void {

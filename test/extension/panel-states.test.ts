@@ -1,0 +1,98 @@
+/**
+ * Every declared fit in the results panel's model with its state, warnings
+ * counted as the Problems panel counts them, and comparisons that leave out
+ * a fit saying so. Run through the real engine on the invented scenario of
+ * test/extension/panel-scenario.ts.
+ */
+import { describe, expect, it } from 'vitest';
+import { fitDiagnostics } from '../../extension/logic/diagnostics';
+import { missingFits, NOT_RUN_REASON, fitState } from '../../extension/logic/panel-states';
+import { warningFindings, groupsPhrase, flagSummary } from '../../extension/logic/panel-warnings';
+import { buildPanelModel } from '../../extension/logic/panel-model';
+import { analysisOf } from './helpers';
+import { runScenario, SCENARIO_SPEC } from './panel-scenario';
+
+describe('extension/logic/panel-states', async () => {
+  const s = await runScenario();
+
+  it('lists every declared fit in declaration order, the one that failed at run time with its reason', () => {
+    expect(s.model.fits.map((f) => [f.key, f.state, f.hasResult])).toEqual([
+      ['newton', 'converged', true],
+      ['line', 'converged', true],
+      ['quad', 'converged', true],
+      ['slow', 'not_converged', true],
+      ['empty', 'failed', false],
+    ]);
+    const empty = s.model.fits.find((f) => f.key === 'empty')!;
+    expect(empty.reasons).toEqual([expect.stringMatching(/^fit empty: the where condition of the data statement leaves none of the 30 usable rows/)]);
+    expect(empty.parameterRows).toEqual([]);
+    expect(empty.keyStats).toEqual([]);
+    expect(s.model.fits.find((f) => f.key === 'slow')!.reasons).toEqual(['reached the iteration limit 2']);
+  });
+
+  it('counts the states in the headline: 3 of 5 converged, not "3/3"', () => {
+    expect(s.model.headline).toMatchObject({ fits: 5, converged: 3, notConverged: 1, failed: 1, notRun: 0 });
+  });
+
+  it('withholds the statistics of the fit that did not converge', () => {
+    const slow = s.model.fits.find((f) => f.key === 'slow')!;
+    expect(slow.keyStats.map((k) => k.label)).toEqual(['n', 'dof', 'fit']);
+    expect(slow.notFitted).toMatch(/^Not a fitted result/);
+    expect(slow.goodness.map((e) => e.label)).not.toContain('R²');
+  });
+
+  it('compares the fits that converged and names the one left out, with the reason (engine result and panel)', () => {
+    const cmp = s.run.queries.find((q) => q.kind === 'compare');
+    if (cmp?.kind !== 'compare') throw new Error('no comparison');
+    expect(cmp.rows.map((r) => r.fit)).toEqual(['line', 'quad']);
+    expect(cmp.leftOut).toEqual([{ fit: 'slow', reason: 'did not converge (max_iterations); its sums of squares are not those of estimates' }]);
+    expect(cmp.fTest).toBeDefined();
+    const block = s.model.queries.find((q) => q.heading.startsWith('Which model'))!;
+    expect(block.notes[0]).toBe('Left out of this comparison: slow did not converge (max_iterations); its sums of squares are not those of estimates.');
+    expect(block.headers).toEqual(['evidence', 'line', 'quad']);
+  });
+
+  it('finds fits named by errors even without the declared list, and marks declared fits the run did not ask for', () => {
+    expect(missingFits(s.run).map((m) => [m.name, m.state])).toEqual([['empty', 'failed']]);
+    const one = { ...s.run, fits: s.run.fits.filter((f) => f.name === 'line'), errors: [] };
+    const m = missingFits(one, s.declared);
+    expect(m.map((x) => [x.name, x.state])).toEqual([['newton', 'not_run'], ['quad', 'not_run'], ['slow', 'not_run'], ['empty', 'not_run']]);
+    expect(m[0].reasons).toEqual([NOT_RUN_REASON]);
+    const model = buildPanelModel(one, { specUri: 'file:///x.lsq', specName: 'x.lsq', declaredFits: s.declared });
+    expect(model.fits.map((f) => f.key)).toEqual(s.declared);
+    expect(model.headline).toMatchObject({ fits: 5, converged: 1, notRun: 4 });
+  });
+
+  it('calls a fit that never took a step failed, one stopped at its iteration limit not converged', () => {
+    const slow = s.run.fits.find((f) => f.name === 'slow')!;
+    expect(fitState(slow)).toBe('not_converged');
+    expect(fitState({ ...slow, iterations: 0, stop: { ...slow.stop, code: 'non_finite' } })).toBe('failed');
+  });
+});
+
+describe('extension/logic/panel-warnings', async () => {
+  const s = await runScenario();
+
+  it('counts warnings as the Problems panel does, for the same run', () => {
+    const analysis = analysisOf(SCENARIO_SPEC, 'found', ['time_min', 'temp_C', 'temp_sd', 'w']);
+    const problems = fitDiagnostics(analysis, s.run).filter((d) => d.code !== 'fit.expectation_failed' && !s.run.errors.some((e) => `fit.${e.code}` === d.code));
+    expect(s.model.findings.length).toBe(problems.length);
+    expect(s.model.headline.warnings).toBe(problems.length);
+    expect(s.model.findings.length).toBeGreaterThan(3);
+  });
+
+  it('merges a warning of many groups into one finding naming them', () => {
+    const newton = s.run.fits.find((f) => f.name === 'line')!;
+    const groups = ['A1', 'A2', 'A3', 'B1', 'B2', 'B3', 'C1'].map((g) => ({ ...newton, group: g }));
+    const findings = warningFindings(groups);
+    const codes = newton.warnings.filter((w) => w.code !== 'r2_nonlinear').map((w) => w.code);
+    expect(findings.map((f) => f.code)).toEqual(codes.filter((c, i) => codes.indexOf(c) === i || c !== 'rows_dropped'));
+    expect(groupsPhrase(findings[0].groups!)).toBe('in 7 of 7 groups: A1, A2, A3, B1, B2, …');
+    expect(findings[0].keys).toEqual(groups.map((g) => `line/${g.group}`));
+  });
+
+  it('sums up the group table flags in one sentence', () => {
+    expect(flagSummary([{ flags: [] }, { flags: ['poor_fit'] }, { flags: ['poor_fit', 'at_bound'] }])).toMatch(/^2 of 3 groups flagged in the group table \(poor fit 2, at bound 1\)/);
+    expect(flagSummary([{ flags: [] }])).toBe('No group of 1 is flagged in the group table.');
+  });
+});
