@@ -1,0 +1,128 @@
+/**
+ * The results page's trust views in real headless Chromium (as
+ * test/extension/panel.test.ts): the scenario of panel-scenario.ts (five
+ * declared fits, one failing at run time, one stopped at its iteration
+ * limit) as the extension would show it. Checks each fit's entry and state,
+ * the warnings chip opening the warnings, and takes light, dark and
+ * high-contrast screenshots of each view (test/artifacts/extension/;
+ * `UPDATE_SCREENSHOTS=1` copies them to test/extension/screenshots/).
+ */
+import { copyFileSync, existsSync, mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, Page } from 'playwright-core';
+import { chromium } from 'playwright-core';
+import { requireInCi } from '../fixtures/required';
+import type { PanelModel } from '../../extension/logic/panel-model';
+import { ARTIFACTS, bundlePage, CHROMIUM_ARGS, ROOT, servePanel, type PanelServer, type ThemeName } from './panel-harness';
+import { runScenario } from './panel-scenario';
+
+const CHROMIUM = process.env.CHROMIUM ?? '/usr/bin/chromium';
+const haveChromium = requireInCi('Chromium for the panel page test', existsSync(CHROMIUM), `CHROMIUM=${CHROMIUM}`);
+const THEME_NAMES: ThemeName[] = ['light', 'dark', 'high-contrast'];
+
+let browser: Browser;
+let server: PanelServer;
+let model: PanelModel;
+
+async function open(theme: ThemeName, m: PanelModel | undefined, savedState?: unknown, width = 1180): Promise<{ page: Page; problems: string[] }> {
+  const page = await browser.newPage({ viewport: { width, height: 900 } });
+  const problems: string[] = [];
+  page.on('console', (msg) => {
+    if (msg.type() === 'error' || msg.type() === 'warning') problems.push(`${msg.type()}: ${msg.text()}`);
+  });
+  page.on('pageerror', (e) => problems.push(`pageerror: ${e.message}`));
+  await page.goto(server.url(theme, savedState));
+  await page.waitForFunction(() => (window as unknown as { __posted: { type: string }[] }).__posted.some((x) => x.type === 'ready'));
+  if (m) await page.evaluate((x) => window.postMessage({ type: 'show', model: x }, '*'), m as unknown as Record<string, unknown>);
+  await page.waitForSelector('body[data-rendered="true"]');
+  return { page, problems };
+}
+
+const posted = (page: Page) => page.evaluate(() => (window as unknown as { __posted: Record<string, unknown>[] }).__posted);
+
+/** A screenshot of the view in the artifacts, copied to the checked-in screenshots with UPDATE_SCREENSHOTS=1. */
+async function shot(page: Page, name: string): Promise<void> {
+  mkdirSync(ARTIFACTS, { recursive: true });
+  const path = join(ARTIFACTS, `${name}.png`);
+  await page.screenshot({ path, fullPage: true });
+  if (process.env.UPDATE_SCREENSHOTS === '1') {
+    const dir = join(ROOT, 'test', 'extension', 'screenshots');
+    mkdirSync(dir, { recursive: true });
+    copyFileSync(path, join(dir, `${name}.png`));
+  }
+}
+
+async function select(page: Page, key: string): Promise<void> {
+  await page.locator(`button.lw-nav-item[data-key="${key}"]`).click();
+  await page.waitForSelector('body[data-rendered="true"]');
+}
+
+describe.skipIf(!haveChromium)('extension/panel trust views in Chromium', () => {
+  beforeAll(async () => {
+    model = (await runScenario()).model;
+    const out = join(ARTIFACTS, 'panel-views-build');
+    await bundlePage(out);
+    server = await servePanel(out);
+    const scratch = join(ARTIFACTS, 'chromium-views');
+    mkdirSync(scratch, { recursive: true });
+    browser = await chromium.launch({ executablePath: CHROMIUM, headless: true, args: CHROMIUM_ARGS, env: { ...process.env, XDG_CONFIG_HOME: scratch, XDG_CACHE_HOME: scratch } });
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await server?.close();
+  });
+
+  it('lists every declared fit with its state, and the failed one with its reason', async () => {
+    for (const theme of THEME_NAMES) {
+      const { page, problems } = await open(theme, model);
+      const nav = await page.locator('button.lw-nav-item').evaluateAll((bs) => bs.map((b) => b.textContent));
+      expect(nav.slice(0, 5)).toEqual(['newton', 'line', 'quad', 'slownot converged', 'emptyfailed']);
+      await expect(page.locator('.lw-chips').textContent()).resolves.toMatch(/^3\/5 converged1 not converged1 failed/);
+      await select(page, 'empty');
+      await expect(page.locator('section.lw-missing[data-state="failed"] .lw-reasons li').textContent()).resolves.toMatch(/where condition of the data statement leaves none/);
+      await shot(page, `panel-failed-fit-${theme}`);
+      await select(page, 'slow');
+      await expect(page.locator('section.lw-fit[data-state="not_converged"] .lw-notfitted').textContent()).resolves.toMatch(/^Not a fitted result/);
+      expect(await page.locator('.lw-keystats').textContent()).not.toMatch(/RMSE|R²/);
+      expect(problems, theme).toEqual([]);
+      await page.close();
+    }
+  });
+
+  it('opens the warnings from the chip; the count is the list\'s length, each entry leads to its fit', async () => {
+    for (const theme of THEME_NAMES) {
+      const { page } = await open(theme, model);
+      const chip = page.locator('button.lw-chip[data-open="#warnings"]');
+      await expect(chip.textContent()).resolves.toBe(`${model.findings.length} warnings`);
+      await chip.click();
+      await page.waitForSelector('section.lw-warnings-all');
+      expect(await page.locator('section.lw-warnings-all li').count()).toBe(model.findings.length);
+      await shot(page, `panel-warnings-${theme}`);
+      await page.locator('.lw-warn-fit[data-fit="line"] h3 button').click();
+      await page.waitForSelector('section.lw-fit[data-fit-key="line"]');
+      await page.close();
+    }
+  });
+
+  it('shows the comparison of the fits that converged, naming the one left out', async () => {
+    const { page } = await open('light', model);
+    await select(page, '#checks');
+    const text = await page.locator('section.lw-checks').textContent();
+    expect(text).toContain('Left out of this comparison: slow did not converge (max_iterations)');
+    expect(text).toContain('The data');
+    await page.close();
+  });
+
+  it('comes back from its saved state after a reload with the same selection', async () => {
+    const first = await open('light', model);
+    await select(first.page, 'empty');
+    const state = await first.page.evaluate(() => (window as unknown as { __state: unknown }).__state);
+    await first.page.close();
+    const { page } = await open('light', undefined, state);
+    await page.waitForSelector('section.lw-missing');
+    expect((await posted(page)).filter((m) => m.type !== 'ready' && m.type !== 'log')).toEqual([]);
+    await page.close();
+  });
+});
