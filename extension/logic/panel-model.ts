@@ -20,10 +20,12 @@ import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEAD
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { GroupFlag } from '../../engine/groups/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
-import { DIGITS, formatNumber } from '../../engine/format';
+import { DIGITS, formatLevel, formatNumber } from '../../engine/format';
 import { isHighCorrelation } from '../../engine/thresholds';
 import { flaggedPointRows, flaggedPointsNote } from '../../engine/front/views/influence';
 import { groupParameterCharts } from './panel-group-charts';
+import { panelFitChart } from './panel-fit-chart';
+import { leftOutRows, leftOutSentence, rowsLine } from './panel-rows';
 import { correlationCaption } from '../../engine/front/views/summary';
 import { flagSummary, warningFindings, type WarningFinding } from './panel-warnings';
 import { declaredOrder, FIT_STATE_LABEL, fitState, missingFits, stateCounts, type FitState, type MissingFit } from './panel-states';
@@ -71,6 +73,10 @@ export interface PanelFit {
    * (engine/front/views/summary.ts `correlationCaption`).
    */
   correlationCaption: string;
+  /** n and the rows the fit left out, with why (extension/logic/panel-rows.ts `rowsLine`). */
+  rows: string;
+  /** How many rows the fit left out (weight 0, empty cells); 0 when none. */
+  leftOut: number;
   /** A few headline figures shown above the charts (the full list is `goodness`). */
   keyStats: { label: string; value: string; title: string }[];
   goodness: Entry[];
@@ -235,6 +241,8 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     parameterHeaders: PARAMETER_HEADERS(f.level),
     parameterRows: parameterRows(f),
     flagged: f.parameters.filter((p) => p.atBound).map((p) => p.name),
+    rows: rowsLine(f),
+    leftOut: leftOutRows(f).total,
     correlationCaption: correlationCaption(),
     keyStats: keyStats(f),
     goodness: goodnessEntries(f),
@@ -265,6 +273,8 @@ function missingPanelFit(m: MissingFit): PanelFit {
     parameterHeaders: [],
     parameterRows: [],
     flagged: [],
+    rows: '',
+    leftOut: 0,
     correlationCaption: correlationCaption(),
     keyStats: [],
     goodness: [],
@@ -283,7 +293,11 @@ function panelProfile(f: FitResult): PanelFit['profile'] {
 }
 
 export function panelCharts(f: FitResult): PanelChart[] {
-  return chartSpecs(f).map((c: ChartSpec) => ({ id: c.id, title: c.title, spec: c.spec as unknown as Record<string, unknown> }));
+  return chartSpecs(f).map((c: ChartSpec) => {
+    const spec = c.spec as unknown as Record<string, unknown>;
+    // the fit chart with a swatch legend instead of colour words, left-out rows muted (panel-fit-chart.ts)
+    return { id: c.id, title: c.title, spec: c.id === 'fit' ? panelFitChart(spec, formatLevel(f.level)) : spec };
+  });
 }
 
 /** Charts of the fit with key `key`, for a page that asks for them later. */
@@ -300,7 +314,8 @@ export function chartsForKey(run: RunResult, key: string): PanelChart[] | null {
 function keyStats(f: FitResult): PanelFit['keyStats'] {
   const g = f.goodness;
   const counts: PanelFit['keyStats'] = [
-    { label: 'n', value: String(g.n), title: 'points used' },
+    { label: 'n', value: String(g.n), title: `points used${leftOutSentence(f) ? `; ${leftOutSentence(f)}` : ''}` },
+    ...(leftOutRows(f).total ? [{ label: 'left out', value: String(leftOutRows(f).total), title: leftOutSentence(f) ?? '' }] : []),
     { label: 'dof', value: String(g.dof), title: 'degrees of freedom' },
   ];
   // a fit that is not a result shows no goodness-of-fit figures (the engine withholds them)

@@ -42,10 +42,15 @@ async function open(theme: ThemeName, m: PanelModel | undefined, savedState?: un
 const posted = (page: Page) => page.evaluate(() => (window as unknown as { __posted: Record<string, unknown>[] }).__posted);
 
 /** A screenshot of the view in the artifacts, copied to the checked-in screenshots with UPDATE_SCREENSHOTS=1. */
-async function shot(page: Page, name: string): Promise<void> {
+async function shot(page: Page, name: string, selector?: string): Promise<void> {
   mkdirSync(ARTIFACTS, { recursive: true });
   const path = join(ARTIFACTS, `${name}.png`);
-  await page.screenshot({ path, fullPage: true });
+  if (selector) {
+    // the sticky toolbar would cover part of a tall element's screenshot
+    await page.evaluate(() => document.querySelectorAll<HTMLElement>('.lw-toolbar').forEach((t) => (t.style.position = 'static')));
+    await page.locator(selector).first().screenshot({ path });
+  }
+  else await page.screenshot({ path });
   if (process.env.UPDATE_SCREENSHOTS === '1') {
     const dir = join(ROOT, 'test', 'extension', 'screenshots');
     mkdirSync(dir, { recursive: true });
@@ -124,5 +129,31 @@ describe.skipIf(!haveChromium)('extension/panel trust views in Chromium', () => 
     await page.waitForSelector('section.lw-missing');
     expect((await posted(page)).filter((m) => m.type !== 'ready' && m.type !== 'log')).toEqual([]);
     await page.close();
+  });
+
+  it('draws a swatch legend in the theme colours of the bands, and the rows left out muted with the reason', async () => {
+    for (const theme of THEME_NAMES) {
+      const { page, problems } = await open(theme, model);
+      const fig = page.locator('figure[data-chart-id="fit"]');
+      const subtitle = await fig.locator('svg .role-title-subtitle').textContent();
+      expect(subtitle, theme).not.toMatch(/shade/);
+      const legend = await fig.locator('svg .role-legend-label').allTextContents();
+      expect(legend, theme).toEqual(['data', 'fitted curve', '95% confidence band', '95% prediction band']);
+      // each swatch has the colour its marks are drawn in
+      const swatches = await fig.locator('svg .role-legend-symbol path').evaluateAll((ps) => ps.map((p) => p.getAttribute('fill')));
+      const bandFill = (name: string) => fig.locator(`svg .role-mark.${name}_marks path`).first().getAttribute('fill');
+      expect(swatches[2], theme).toBe(await bandFill('confidence_band'));
+      expect(swatches[3], theme).toBe(await bandFill('prediction_band'));
+      await expect(page.locator('section.lw-fit .lw-rows').textContent()).resolves.toBe('n = 28, 3 rows left out: 2 with weight 0 (lines 10, 22), drawn hollow; 1 with an empty or NA cell (line 27)');
+      const hollow = fig.locator('svg .role-mark.excluded_points_marks path');
+      expect(await hollow.count()).toBe(2);
+      await hollow.first().hover();
+      const tip = page.locator('#vg-tooltip-element.visible');
+      await tip.waitFor();
+      expect(await tip.textContent()).toMatch(/left out\s*weight 0: left out of the fit/);
+      await shot(page, `panel-fit-legend-${theme}`, 'section.lw-fit');
+      expect(problems, theme).toEqual([]);
+      await page.close();
+    }
   });
 });

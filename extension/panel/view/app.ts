@@ -139,7 +139,8 @@ function main(m: PanelModel, selected: string, host: AppHost, token: number): HT
   const pending: Promise<void>[] = [];
   // room for a chart: the window less the navigation rail (beside the content above 640 px, on top below)
   const viewport = window.innerWidth || document.body.clientWidth || 900;
-  const width = Math.max(260, viewport - (viewport > 640 ? 270 : 60));
+  // (the content area: the window less the rail, the main padding and a scroll bar)
+  const width = Math.max(300, viewport - (viewport > 640 ? 210 + 36 + 16 : 36 + 16));
   const events: SectionEvents = {
     onReveal: (fit, param) => host.post({ type: 'reveal', fit, param }),
     onSelect: (key) => host.select(key),

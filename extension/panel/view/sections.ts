@@ -6,6 +6,7 @@
  */
 import type { PanelChart, PanelFit, PanelGroupTable, PanelModel } from '../../logic/panel-model';
 import { groupsPhrase } from '../../logic/panel-warnings';
+import { chartSlots } from '../../logic/panel-layout';
 import { chartFigure, type ChartEvents } from './charts';
 import { h, table } from './dom';
 
@@ -58,6 +59,7 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
     h('header', { class: 'lw-fit-head' },
       h('h2', null, fit.label, ...(fit.state === 'converged' ? [] : [' ', h('span', { class: `lw-state ${fit.state}` }, fit.state.replace('_', ' '))])),
       h('p', { class: 'lw-muted' }, fit.heading),
+      h('p', { class: fit.leftOut ? 'lw-rows lw-has-left-out' : 'lw-rows' }, fit.rows),
       h('p', { class: fit.converged ? 'lw-stop' : 'lw-stop lw-bad' }, fit.stop),
       fit.search ? h('p', { class: 'lw-stop' }, fit.search) : null,
       fit.robust ? h('p', { class: 'lw-stop' }, fit.robust) : null,
@@ -112,11 +114,13 @@ export function warningsSection(m: PanelModel, events: SectionEvents): HTMLEleme
 
 export function fillCharts(into: HTMLElement, charts: PanelChart[], events: ChartEvents, pending: Promise<void>[], width: number): void {
   into.replaceChildren();
-  for (const c of charts) {
-    const { el, drawn } = chartFigure(c, width, events);
+  const slots = chartSlots(charts.length, width);
+  charts.forEach((c, i) => {
+    const { el, drawn } = chartFigure(c, slots[i].width, events);
+    if (slots[i].paired) el.classList.add('paired');
     into.append(el);
     pending.push(drawn);
-  }
+  });
 }
 
 export function groupSection(g: PanelGroupTable, selected: string | undefined, events: SectionEvents, pending: Promise<void>[], width: number): HTMLElement {
