@@ -25,6 +25,7 @@ import { isHighCorrelation } from '../../engine/thresholds';
 import { flaggedPointRows, flaggedPointsNote } from '../../engine/front/views/influence';
 import { groupParameterCharts } from './panel-group-charts';
 import { panelFitChart } from './panel-fit-chart';
+import { defaultResidualKind, RESIDUAL_CHARTS, residualKinds, withPercent, type ResidualKind } from './panel-chart-options';
 import { leftOutRows, leftOutSentence, rowsLine } from './panel-rows';
 import { correlationCaption } from '../../engine/front/views/summary';
 import { flagSummary, warningFindings, type WarningFinding } from './panel-warnings';
@@ -92,6 +93,9 @@ export interface PanelFit {
   flaggedPoints: { headers: string[]; rows: string[][]; note: string | null };
   /** Charts, or null when they are sent on request. */
   charts: PanelChart[] | null;
+  /** The residual kind the residual charts start with (standardized for a weighted fit) and the kinds offered (extension/logic/panel-chart-options.ts). */
+  residualDefault: ResidualKind;
+  residualKinds: ResidualKind[];
 }
 
 export interface PanelGroupRow {
@@ -251,6 +255,8 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     profile: panelProfile(f),
     flaggedPoints: flaggedPoints(f),
     charts: withCharts ? panelCharts(f) : null,
+    residualDefault: defaultResidualKind({ weighted: f.points.weight !== null || f.sigmaAbsolute, converged: f.stop.converged }),
+    residualKinds: residualKinds(f.stop.converged),
   };
 }
 
@@ -283,6 +289,8 @@ function missingPanelFit(m: MissingFit): PanelFit {
     profile: null,
     flaggedPoints: { headers: [], rows: [], note: null },
     charts: [],
+    residualDefault: 'raw',
+    residualKinds: [],
   };
 }
 
@@ -296,7 +304,8 @@ export function panelCharts(f: FitResult): PanelChart[] {
   return chartSpecs(f).map((c: ChartSpec) => {
     const spec = c.spec as unknown as Record<string, unknown>;
     // the fit chart with a swatch legend instead of colour words, left-out rows muted (panel-fit-chart.ts)
-    return { id: c.id, title: c.title, spec: c.id === 'fit' ? panelFitChart(spec, formatLevel(f.level)) : spec };
+    const shown = c.id === 'fit' ? panelFitChart(spec, formatLevel(f.level)) : RESIDUAL_CHARTS.includes(c.id) ? withPercent(structuredClone(spec)) : spec;
+    return { id: c.id, title: c.title, spec: shown };
   });
 }
 

@@ -5,6 +5,7 @@
  * Browser-safe: no Node or vscode imports.
  */
 import type { PanelChart, PanelModel } from './panel-model';
+import type { ResidualKind, XScale } from './panel-chart-options';
 
 export type ExportFormat = 'markdown' | 'json' | 'svg';
 export const EXPORT_FORMATS: readonly ExportFormat[] = ['markdown', 'json', 'svg'];
@@ -39,6 +40,10 @@ export interface PageState {
   model?: PanelModel;
   /** Fit key shown. */
   selected?: string;
+  /** Residual kind chosen per fit key (extension/logic/panel-chart-options.ts; absent: the fit's default). */
+  residualKind?: Record<string, ResidualKind>;
+  /** x axis chosen per fit key (absent: as the views chose it). */
+  xScale?: Record<string, XScale>;
 }
 
 function isObject(x: unknown): x is Record<string, unknown> {
@@ -95,6 +100,14 @@ export function isFromPage(x: unknown): x is FromPage {
   }
 }
 
+const RESIDUAL_KIND_NAMES: readonly string[] = ['raw', 'standardized', 'percent'];
+const X_SCALE_NAMES: readonly string[] = ['linear', 'log'];
+
+function isChoiceMap(x: unknown, names: readonly string[]): boolean {
+  return x === undefined || (isObject(x) && Object.values(x).every((v) => typeof v === 'string' && names.includes(v)));
+}
+
 export function isPageState(x: unknown): x is PageState {
-  return isObject(x) && (x.model === undefined || isPanelModel(x.model)) && isOptString(x.selected);
+  return isObject(x) && (x.model === undefined || isPanelModel(x.model)) && isOptString(x.selected)
+    && isChoiceMap(x.residualKind, RESIDUAL_KIND_NAMES) && isChoiceMap(x.xScale, X_SCALE_NAMES);
 }

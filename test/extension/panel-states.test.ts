@@ -36,7 +36,7 @@ describe('extension/logic/panel-states', async () => {
 
   it('withholds the statistics of the fit that did not converge', () => {
     const slow = s.model.fits.find((f) => f.key === 'slow')!;
-    expect(slow.keyStats.map((k) => k.label)).toEqual(['n', 'dof', 'fit']);
+    expect(slow.keyStats.map((k) => k.label)).toEqual(['n', 'left out', 'dof', 'fit']);
     expect(slow.notFitted).toMatch(/^Not a fitted result/);
     expect(slow.goodness.map((e) => e.label)).not.toContain('R²');
   });
@@ -94,5 +94,44 @@ describe('extension/logic/panel-warnings', async () => {
   it('sums up the group table flags in one sentence', () => {
     expect(flagSummary([{ flags: [] }, { flags: ['poor_fit'] }, { flags: ['poor_fit', 'at_bound'] }])).toMatch(/^2 of 3 groups flagged in the group table \(poor fit 2, at bound 1\)/);
     expect(flagSummary([{ flags: [] }])).toBe('No group of 1 is flagged in the group table.');
+  });
+});
+
+describe('extension/logic/panel-chart-options', async () => {
+  const { withResidualKind, withXScale, xScaleOf, canLogX, RESIDUAL_KINDS, defaultResidualKind } = await import('../../extension/logic/panel-chart-options');
+  const s = await runScenario();
+  const newton = s.model.fits.find((f) => f.key === 'newton')!;
+  const line = s.model.fits.find((f) => f.key === 'line')!;
+  const slow = s.model.fits.find((f) => f.key === 'slow')!;
+
+  it('starts a weighted fit on standardized residuals, an unweighted one on raw; a fit that did not converge offers no standardized ones', () => {
+    expect(newton.residualDefault).toBe('standardized');
+    expect(line.residualDefault).toBe('raw');
+    expect(slow.residualKinds).toEqual(['raw', 'percent']);
+    expect(defaultResidualKind({ weighted: true, converged: false })).toBe('raw');
+    expect(RESIDUAL_KINDS).toEqual(['raw', 'standardized', 'percent']);
+  });
+
+  it('plots the chosen kind: percent is 100·residual/fitted of each point', () => {
+    const chart = line.charts!.find((c) => c.id === 'residuals-fitted')!;
+    const pts = (chart.spec.layer as { name?: string; data: { values: { residual: number; fitted: number; percent: number | null }[] } }[]).find((l) => l.name === 'data_points')!.data.values;
+    for (const p of pts) expect(p.percent).toBeCloseTo((100 * p.residual) / p.fitted, 12);
+    const pct = withResidualKind(chart.spec, 'percent');
+    const y = (pct.layer as { name?: string; encoding: { y: { field: string; axis: { title: string } } } }[]).find((l) => l.name === 'data_points')!.encoding.y;
+    expect(y).toMatchObject({ field: 'percent', axis: { title: 'residual, % of the fitted value' } });
+    // the model's own spec is unchanged
+    expect(JSON.stringify(chart.spec)).not.toContain('"field":"percent","type":"quantitative","axis"');
+  });
+
+  it('switches the x axis between linear and logarithmic, log only where every x is positive', () => {
+    const fit = line.charts!.find((c) => c.id === 'fit')!;
+    expect(xScaleOf(fit.spec)).toBe('linear');
+    expect(canLogX(fit.spec)).toBe(false); // the readings start at t = 0
+    const shifted = structuredClone(fit.spec);
+    for (const l of shifted.layer as { data?: { values?: { x?: number }[] } }[]) for (const v of l.data?.values ?? []) if (typeof v.x === 'number') v.x += 1;
+    expect(canLogX(shifted)).toBe(true);
+    const log = withXScale(shifted, 'log');
+    expect(xScaleOf(log)).toBe('log');
+    expect(xScaleOf(withXScale(log, 'linear'))).toBe('linear');
   });
 });

@@ -156,4 +156,30 @@ describe.skipIf(!haveChromium)('extension/panel trust views in Chromium', () => 
       await page.close();
     }
   });
+
+  it('switches the residual kind (standardized first for the weighted fit) and the x axis, and keeps the choice after a reload', async () => {
+    const { page, problems } = await open('light', model);
+    const yTitle = () => page.locator('figure[data-chart-id="residuals-fitted"] svg .role-axis-title').allTextContents();
+    await expect(page.locator('.lw-segmented[data-control="residual"] button.on').textContent()).resolves.toBe('standardized');
+    expect(await yTitle()).toContain('standardized residual (weighted residual / s)');
+    await page.locator('.lw-segmented[data-control="residual"] button[data-value="percent"]').click();
+    await page.waitForSelector('body[data-rendered="true"]');
+    expect(await yTitle()).toContain('residual, % of the fitted value');
+    // the readings start at t = 0: no logarithmic axis
+    expect(await page.locator('.lw-segmented[data-control="x-scale"] button[data-value="log"]').isDisabled()).toBe(true);
+    const state = await page.evaluate(() => (window as unknown as { __state: unknown }).__state);
+    await page.close();
+    for (const theme of THEME_NAMES) {
+      const again = await open(theme, undefined, state);
+      await expect(again.page.locator('.lw-segmented[data-control="residual"] button.on').textContent()).resolves.toBe('% of fitted');
+      await shot(again.page, `panel-residual-kind-${theme}`, 'section.lw-fit .lw-chart-controls + .lw-charts');
+      await again.page.close();
+    }
+    // the unweighted fit starts on raw residuals
+    const second = await open('light', model);
+    await select(second.page, 'line');
+    await expect(second.page.locator('.lw-segmented[data-control="residual"] button.on').textContent()).resolves.toBe('raw');
+    await second.page.close();
+    expect(problems).toEqual([]);
+  });
 });

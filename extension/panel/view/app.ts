@@ -8,6 +8,7 @@
  */
 import type { FromPage } from '../../logic/panel-protocol';
 import type { PanelModel } from '../../logic/panel-model';
+import type { ResidualKind, XScale } from '../../logic/panel-chart-options';
 import { finalizeCharts } from './charts';
 import { clear, h } from './dom';
 import { checksSection, fitSection, groupSection, warningsSection, type SectionEvents } from './sections';
@@ -16,11 +17,20 @@ export interface AppState {
   model?: PanelModel;
   selected?: string;
   banner?: { kind: 'busy' | 'failed'; text: string };
+  /** Residual kind and x axis chosen per fit key. */
+  residualKind?: Record<string, ResidualKind>;
+  xScale?: Record<string, XScale>;
+}
+
+export interface ChartChoice {
+  residual?: ResidualKind;
+  xScale?: XScale;
 }
 
 export interface AppHost {
   post(msg: FromPage): void;
   select(key: string): void;
+  choose(key: string, choice: ChartChoice): void;
 }
 
 const CHECKS_KEY = '#checks';
@@ -45,7 +55,7 @@ export function render(root: HTMLElement, state: AppState, host: AppHost): void 
     return;
   }
   const selected = resolveSelection(m, state.selected);
-  root.append(toolbar(m, host), h('div', { class: 'lw-body' }, nav(m, selected, host), main(m, selected, host, token)));
+  root.append(toolbar(m, host), h('div', { class: 'lw-body' }, nav(m, selected, host), main(m, selected, host, token, state)));
 }
 
 /** The entry to show: the stored key if it still exists, else the first entry. */
@@ -134,7 +144,7 @@ function nav(m: PanelModel, selected: string, host: AppHost): HTMLElement {
   return h('nav', { class: 'lw-nav', attrs: { 'aria-label': 'Fits' } }, h('ul', null, ...items));
 }
 
-function main(m: PanelModel, selected: string, host: AppHost, token: number): HTMLElement {
+function main(m: PanelModel, selected: string, host: AppHost, token: number, state: AppState): HTMLElement {
   const el = h('main', { class: 'lw-main', id: 'main' });
   const pending: Promise<void>[] = [];
   // room for a chart: the window less the navigation rail (beside the content above 640 px, on top below)
@@ -154,6 +164,8 @@ function main(m: PanelModel, selected: string, host: AppHost, token: number): HT
       if (f) host.select(f.key);
     },
     onError: (message) => host.post({ type: 'log', level: 'error', message }),
+    choice: (key) => ({ residual: state.residualKind?.[key], xScale: state.xScale?.[key] }),
+    onChoose: (key, choice) => host.choose(key, choice),
   };
   let shownFitKey: string | undefined;
   let shownGroupFit: string | undefined;

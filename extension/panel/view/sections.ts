@@ -7,6 +7,7 @@
 import type { PanelChart, PanelFit, PanelGroupTable, PanelModel } from '../../logic/panel-model';
 import { groupsPhrase } from '../../logic/panel-warnings';
 import { chartSlots } from '../../logic/panel-layout';
+import { canLogX, PREDICTOR_CHARTS, RESIDUAL_CHARTS, RESIDUAL_KIND_LABEL, withResidualKind, withXScale, xScaleOf, type ResidualKind, type XScale } from '../../logic/panel-chart-options';
 import { chartFigure, type ChartEvents } from './charts';
 import { h, table } from './dom';
 
@@ -15,6 +16,9 @@ export interface SectionEvents extends ChartEvents {
   onSelect: (key: string) => void;
   /** Charts of `key` are missing (sent on request). */
   onNeedCharts: (key: string) => void;
+  /** The reader's residual kind and x axis for fit `key` (undefined: the defaults). */
+  choice: (key: string) => { residual?: ResidualKind; xScale?: XScale };
+  onChoose: (key: string, choice: { residual?: ResidualKind; xScale?: XScale }) => void;
 }
 
 /** Columns of the parameter table holding numbers (right-aligned). */
@@ -50,7 +54,8 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
     : null;
   const stats = h('dl', { class: 'lw-keystats' }, ...fit.keyStats.map((k) => h('div', { title: k.title }, h('dt', null, k.label), h('dd', null, k.value))));
   const charts = h('div', { class: 'lw-charts' });
-  if (fit.charts) fillCharts(charts, fit.charts, events, pending, width);
+  const choices = fit.charts ? chartControls(fit, fit.charts, events) : null;
+  if (fit.charts) fillCharts(charts, choices!.charts, events, pending, width);
   else {
     charts.append(h('p', { class: 'lw-muted' }, 'Loading charts…'));
     events.onNeedCharts(fit.key);
@@ -75,9 +80,50 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
       : null,
     flaggedRows,
     stats,
+    choices?.bar ?? null,
     charts,
     h('details', { class: 'lw-details' }, h('summary', null, 'All statistics and residual tests'), goodness),
   );
+}
+
+/** A row of buttons choosing one of `options`; the chosen one is pressed. */
+function segmented<T extends string>(label: string, name: string, options: readonly T[], chosen: T, text: (o: T) => string, pick: (o: T) => void, disabled: (o: T) => boolean = () => false): HTMLElement {
+  return h('div', { class: 'lw-segmented', role: 'group', data: { control: name }, attrs: { 'aria-label': label } },
+    h('span', { class: 'lw-muted' }, `${label}:`),
+    ...options.map((o) => {
+      const b = h('button', { class: `lw-seg${o === chosen ? ' on' : ''}`, data: { value: o }, attrs: { 'aria-pressed': o === chosen ? 'true' : 'false' }, onClick: () => { if (o !== chosen) pick(o); } }, text(o));
+      if (disabled(o)) {
+        b.disabled = true;
+        b.title = 'Not available for this fit';
+      }
+      return b;
+    }));
+}
+
+/** The residual-kind and x-axis switches of a fit, and its charts as chosen. */
+function chartControls(fit: PanelFit, charts: PanelChart[], events: SectionEvents): { bar: HTMLElement | null; charts: PanelChart[] } {
+  const choice = events.choice(fit.key);
+  const kind: ResidualKind = choice.residual && fit.residualKinds.includes(choice.residual) ? choice.residual : fit.residualDefault;
+  const predictorCharts = charts.filter((c) => PREDICTOR_CHARTS.includes(c.id));
+  const viewsScale: XScale | undefined = predictorCharts.length ? xScaleOf(predictorCharts[0].spec) : undefined;
+  const logOk = predictorCharts.length > 0 && predictorCharts.every((c) => canLogX(c.spec));
+  const scale: XScale | undefined = viewsScale && (choice.xScale === 'log' && !logOk ? 'linear' : choice.xScale ?? viewsScale);
+  const shown = charts.map((c) => {
+    let spec = c.spec;
+    if (RESIDUAL_CHARTS.includes(c.id) && kind !== 'raw') spec = withResidualKind(spec, kind);
+    if (scale && PREDICTOR_CHARTS.includes(c.id) && scale !== viewsScale) spec = withXScale(spec, scale);
+    return spec === c.spec ? c : { ...c, spec };
+  });
+  const hasResiduals = charts.some((c) => RESIDUAL_CHARTS.includes(c.id));
+  const controls = [
+    hasResiduals && fit.residualKinds.length
+      ? segmented('Residuals', 'residual', ['raw', 'standardized', 'percent'] as const, kind, (o) => RESIDUAL_KIND_LABEL[o], (o) => events.onChoose(fit.key, { residual: o }), (o) => !fit.residualKinds.includes(o))
+      : null,
+    scale
+      ? segmented('x axis', 'x-scale', ['linear', 'log'] as const, scale, (o) => o, (o) => events.onChoose(fit.key, { xScale: o }), (o) => o === 'log' && !logOk)
+      : null,
+  ].filter((x): x is HTMLElement => x !== null);
+  return { bar: controls.length ? h('div', { class: 'lw-chart-controls' }, ...controls) : null, charts: shown };
 }
 
 /** A declared fit without a result: its state and why, in place of tables and charts. */
