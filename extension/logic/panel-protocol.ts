@@ -6,6 +6,7 @@
  */
 import type { PanelChart, PanelModel } from './panel-model';
 import type { ResidualKind, XScale } from './panel-chart-options';
+import { MAX_IMAGE_CHARS } from './panel-copy';
 
 export type ExportFormat = 'markdown' | 'json' | 'svg';
 export const EXPORT_FORMATS: readonly ExportFormat[] = ['markdown', 'json', 'svg'];
@@ -32,6 +33,10 @@ export type FromPage =
   /** Charts of a fit whose model entry has `charts: null`. */
   | { type: 'requestCharts'; key: string }
   | { type: 'export'; format: ExportFormat }
+  /** Put a table (tab-separated text, extension/logic/panel-copy.ts) on the clipboard; `what` names it in the confirmation. */
+  | { type: 'copy'; text: string; what: string }
+  /** Save a drawn chart: `data` is the SVG document, or a PNG as a `data:image/png;base64,` URL; `name` the proposed file name. */
+  | { type: 'saveChart'; format: 'png' | 'svg'; name: string; data: string }
   /** A page-side problem, for the output channel. */
   | { type: 'log'; level: 'info' | 'error'; message: string };
 
@@ -95,6 +100,11 @@ export function isFromPage(x: unknown): x is FromPage {
       return (EXPORT_FORMATS as readonly unknown[]).includes(x.format);
     case 'log':
       return (x.level === 'info' || x.level === 'error') && isString(x.message);
+    case 'copy':
+      return isString(x.text) && x.text.length <= MAX_IMAGE_CHARS && isString(x.what);
+    case 'saveChart':
+      return (x.format === 'png' || x.format === 'svg') && isString(x.name) && /^[A-Za-z0-9._-]{1,90}$/.test(x.name) && isString(x.data) && x.data.length <= MAX_IMAGE_CHARS
+        && (x.format === 'svg' ? x.data.trimStart().startsWith('<svg') : x.data.startsWith('data:image/png;base64,'));
     default:
       return false;
   }

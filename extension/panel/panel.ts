@@ -21,6 +21,8 @@ export interface PanelActions {
   reveal(specUri: vscode.Uri, fit: string, param?: string): Promise<void>;
   refit(specUri: vscode.Uri): Promise<void>;
   exportReport(specUri: vscode.Uri, format: 'markdown' | 'json' | 'svg'): Promise<void>;
+  /** Save a chart image the page drew (save dialog, the export guard). */
+  saveChart(specUri: vscode.Uri, format: 'png' | 'svg', name: string, data: string): Promise<void>;
 }
 
 export class ResultsPanel {
@@ -151,6 +153,11 @@ export class ResultsPanel {
         if (msg.level === 'error') this.ctx.log.error(`[panel] ${msg.message}`);
         else this.ctx.log.info(`[panel] ${msg.message}`);
         return;
+      case 'copy':
+        await vscode.env.clipboard.writeText(msg.text);
+        void vscode.window.setStatusBarMessage(`Leastwise: copied ${msg.what} (${msg.text.split('\n').length - 2} rows, tab-separated)`, 5000);
+        this.ctx.log.info(`copied ${msg.what} to the clipboard (${msg.text.length} characters)`);
+        return;
       case 'requestCharts': {
         const run = spec ? this.ctx.runs.get(spec)?.run : undefined;
         this.post({ type: 'charts', key: msg.key, charts: run ? chartsForKey(run, msg.key) : null });
@@ -167,6 +174,8 @@ export class ResultsPanel {
         return this.actions.refit(spec);
       case 'export':
         return this.actions.exportReport(spec, msg.format);
+      case 'saveChart':
+        return this.actions.saveChart(spec, msg.format, msg.name, msg.data);
     }
   }
 

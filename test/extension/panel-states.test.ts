@@ -135,3 +135,14 @@ describe('extension/logic/panel-chart-options', async () => {
     expect(xScaleOf(withXScale(log, 'linear'))).toBe('linear');
   });
 });
+
+describe('extension/logic/panel-copy', async () => {
+  const { toTsv, chartImageName } = await import('../../extension/logic/panel-copy');
+  it('writes a table as TSV, one line per row, a tab or line break inside a cell as a space', () => {
+    expect(toTsv(['a', 'b'], [['1', 'x\ty'], ['2', 'two\nlines']])).toBe('a\tb\n1\tx y\n2\ttwo lines\n');
+  });
+  it('names a chart file after its title', () => {
+    expect(chartImageName('newton: data and fitted curve', 'png')).toBe('newton-data-and-fitted-curve.png');
+    expect(chartImageName('µ/€', 'svg')).toBe('chart.svg');
+  });
+});

@@ -182,4 +182,30 @@ describe.skipIf(!haveChromium)('extension/panel trust views in Chromium', () => 
     await second.page.close();
     expect(problems).toEqual([]);
   });
+
+  it('copies a table as tab-separated text and hands a drawn chart to the host as PNG and SVG', async () => {
+    const { page, problems } = await open('light', model);
+    await page.locator('table.lw-params caption button.lw-copy').click();
+    const copy = (await posted(page)).find((m) => m.type === 'copy') as { text: string; what: string };
+    const newton = model.fits.find((f) => f.key === 'newton')!;
+    expect(copy.what).toBe('Parameters (click a row to show its declaration)');
+    expect(copy.text).toBe([newton.parameterHeaders, ...newton.parameterRows].map((r) => r.join('\t')).join('\n') + '\n');
+    for (const format of ['svg', 'png'] as const) {
+      await page.locator(`figure[data-chart-id="fit"] button.lw-save[data-format="${format}"]`).click();
+      await page.waitForFunction((f) => (window as unknown as { __posted: { type: string; format?: string }[] }).__posted.some((m) => m.type === 'saveChart' && m.format === f), format);
+    }
+    const saves = (await posted(page)).filter((m) => m.type === 'saveChart') as { format: string; name: string; data: string }[];
+    expect(saves.map((x) => x.name)).toEqual(['newton-data-and-fitted-curve.svg', 'newton-data-and-fitted-curve.png']);
+    const svg = saves[0].data;
+    expect(svg.startsWith('<svg')).toBe(true);
+    // no blank strip on the right: the document is as wide as the chart drawn in the page
+    const drawnWidth = await page.locator('figure[data-chart-id="fit"] .lw-chart-canvas svg').evaluate((e) => Number(e.getAttribute('width')));
+    expect(Number(/width="(\d+(?:\.\d+)?)"/.exec(svg)?.[1])).toBe(drawnWidth);
+    expect(saves[1].data.startsWith('data:image/png;base64,')).toBe(true);
+    const png = Buffer.from(saves[1].data.slice(saves[1].data.indexOf(',') + 1), 'base64');
+    expect(png.subarray(1, 4).toString('ascii')).toBe('PNG');
+    expect(png.readUInt32BE(16)).toBe(2 * drawnWidth); // 2× resolution
+    expect(problems).toEqual([]);
+    await page.close();
+  });
 });

@@ -166,13 +166,15 @@ function main(m: PanelModel, selected: string, host: AppHost, token: number, sta
     onError: (message) => host.post({ type: 'log', level: 'error', message }),
     choice: (key) => ({ residual: state.residualKind?.[key], xScale: state.xScale?.[key] }),
     onChoose: (key, choice) => host.choose(key, choice),
+    onCopy: (text, what) => host.post({ type: 'copy', text, what }),
+    onSave: (format, name, data) => host.post({ type: 'saveChart', format, name, data }),
   };
   let shownFitKey: string | undefined;
   let shownGroupFit: string | undefined;
   if (selected === WARNINGS_KEY) {
     el.append(warningsSection(m, events));
   } else if (selected === CHECKS_KEY) {
-    const s = checksSection(m);
+    const s = checksSection(m, events.onCopy);
     if (s) el.append(s);
   } else if (selected.startsWith('#group:') || m.fits.find((f) => f.key === selected)?.group !== undefined) {
     const name = selected.startsWith('#group:') ? selected.slice('#group:'.length) : m.fits.find((f) => f.key === selected)!.name;
@@ -191,7 +193,7 @@ function main(m: PanelModel, selected: string, host: AppHost, token: number, sta
       shownFitKey = f.key;
       el.append(fitSection(f, events, pending, width));
     }
-    const checks = checksSection(m);
+    const checks = checksSection(m, events.onCopy);
     if (checks && m.fits.filter((x) => x.group === undefined).length === 1) el.append(checks);
   }
   void Promise.allSettled(pending).then(() => {

@@ -11,6 +11,7 @@ import embed, { type Result } from 'vega-embed';
 import { expressionInterpreter } from 'vega-interpreter';
 import type { PanelChart } from '../../logic/panel-model';
 import { h } from './dom';
+import { chartImageName } from '../../logic/panel-copy';
 import { themed, themeFont, themePalette } from './theme';
 import { deferredTooltipHandler, deferTooltips } from './tooltips';
 
@@ -20,6 +21,8 @@ export interface ChartEvents {
   /** A group's point was clicked (group charts). */
   onGroup?: (group: string) => void;
   onError?: (message: string) => void;
+  /** Save the drawn chart (SVG text or a PNG data URL). */
+  onSave?: (format: 'png' | 'svg', name: string, data: string) => void;
 }
 
 const live = new Set<Result>();
@@ -61,6 +64,19 @@ export function chartFigure(chart: PanelChart, maxWidth: number, events: ChartEv
         else if (typeof datum.group === 'string' && events.onGroup) events.onGroup(datum.group);
       });
       el.dataset.marks = String(countMarks(target));
+      const save = events.onSave;
+      if (save) {
+        const button = (format: 'png' | 'svg') => h('button', {
+          class: 'lw-save', data: { format }, title: `Save this chart as ${format.toUpperCase()}`, attrs: { type: 'button' },
+          onClick: () => {
+            const name = chartImageName(chart.title, format);
+            // PNG at twice the screen resolution, for print
+            const image = format === 'svg' ? result.view.toSVG() : result.view.toImageURL('png', 2);
+            void image.then((data) => save(format, name, data)).catch((e: unknown) => events.onError?.(`saving ${chart.id}: ${String(e)}`));
+          },
+        }, format.toUpperCase());
+        el.append(h('figcaption', { class: 'lw-chart-actions' }, button('png'), button('svg')));
+      }
     })
     .catch((e: unknown) => {
       el.dataset.marks = '0';

@@ -4,6 +4,8 @@
  * files cannot inject markup.
  */
 
+import { toTsv } from '../../logic/panel-copy';
+
 export type Child = Node | string | number | null | undefined | false;
 
 export interface Props {
@@ -59,11 +61,16 @@ export function table(
   className: string,
   headers: string[],
   rows: string[][],
-  opts: { numeric?: (col: number) => boolean; rowProps?: (row: string[], i: number) => Props; caption?: string } = {},
+  opts: { numeric?: (col: number) => boolean; rowProps?: (row: string[], i: number) => Props; caption?: string; copy?: (tsv: string, what: string) => void; what?: string } = {},
 ): HTMLTableElement {
   const head = h('thead', null, h('tr', null, ...headers.map((t, j) => h('th', { class: opts.numeric?.(j) ? 'num' : undefined, attrs: { scope: 'col' } }, t))));
   const body = h('tbody', null, ...rows.map((r, i) => h('tr', opts.rowProps?.(r, i) ?? null, ...r.map((t, j) => (j === 0 ? h('th', { attrs: { scope: 'row' } }, t) : h('td', { class: opts.numeric?.(j) ? 'num' : undefined }, t))))));
-  return h('table', { class: className }, opts.caption ? h('caption', null, opts.caption) : null, head, body);
+  const copy = opts.copy;
+  const copyButton = copy
+    ? h('button', { class: 'lw-copy', title: 'Copy this table as tab-separated text', attrs: { type: 'button' }, onClick: () => copy(toTsv(headers, rows), opts.what ?? opts.caption ?? 'table') }, 'Copy')
+    : null;
+  const caption = opts.caption || copyButton ? h('caption', null, opts.caption ?? '', copyButton) : null;
+  return h('table', { class: className }, caption, head, body);
 }
 
 export function clear(el: Element): void {

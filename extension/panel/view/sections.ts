@@ -19,6 +19,8 @@ export interface SectionEvents extends ChartEvents {
   /** The reader's residual kind and x axis for fit `key` (undefined: the defaults). */
   choice: (key: string) => { residual?: ResidualKind; xScale?: XScale };
   onChoose: (key: string, choice: { residual?: ResidualKind; xScale?: XScale }) => void;
+  /** Copy a table's tab-separated text. */
+  onCopy?: (tsv: string, what: string) => void;
 }
 
 /** Columns of the parameter table holding numbers (right-aligned). */
@@ -35,8 +37,9 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
       onClick: () => events.onReveal(fit.name, r[0]),
     }),
     caption: 'Parameters (click a row to show its declaration)',
+    copy: events.onCopy,
   });
-  const goodness = table('lw-goodness', ['statistic', 'value', 'note'], fit.goodness.map((e) => [e.label, e.value, e.note ?? '']), { numeric: (j) => j === 1 });
+  const goodness = table('lw-goodness', ['statistic', 'value', 'note'], fit.goodness.map((e) => [e.label, e.value, e.note ?? '']), { numeric: (j) => j === 1, copy: events.onCopy });
   const notes = h('aside', { class: 'lw-notes', attrs: { 'aria-label': 'Warnings' } },
     h('h3', null, 'Warnings'),
     fit.warnings.length
@@ -49,7 +52,7 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
   const fp = fit.flaggedPoints;
   const flaggedRows = fp && (fp.rows.length || fp.note)
     ? h('div', { class: 'lw-flagged-points' },
-        fp.rows.length ? table('lw-points', fp.headers, fp.rows, { numeric: (j) => j < fp.headers.length - 1, caption: 'Rows to check' }) : null,
+        fp.rows.length ? table('lw-points', fp.headers, fp.rows, { numeric: (j) => j < fp.headers.length - 1, caption: 'Rows to check', copy: events.onCopy }) : null,
         fp.note ? h('p', { class: 'lw-muted' }, fp.note) : null)
     : null;
   const stats = h('dl', { class: 'lw-keystats' }, ...fit.keyStats.map((k) => h('div', { title: k.title }, h('dt', null, k.label), h('dd', null, k.value))));
@@ -75,7 +78,7 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
       ? h('div', { class: 'lw-profile' },
           h('p', { class: 'lw-muted' }, fit.profile.line),
           fit.profile.rows.length
-            ? table('lw-profile-table', fit.profile.headers, fit.profile.rows, { numeric: (j) => j === 1 || j === 2, caption: 'Profile-likelihood intervals' })
+            ? table('lw-profile-table', fit.profile.headers, fit.profile.rows, { numeric: (j) => j === 1 || j === 2, caption: 'Profile-likelihood intervals', copy: events.onCopy })
             : null)
       : null,
     flaggedRows,
@@ -180,6 +183,7 @@ export function groupSection(g: PanelGroupTable, selected: string | undefined, e
       onClick: () => events.onSelect(g.rows[i].key),
     }),
     caption: 'Groups, worst first (click a row for its fit)',
+    copy: events.onCopy,
   });
   const charts = h('div', { class: 'lw-charts' });
   fillCharts(charts, g.charts, events, pending, width);
@@ -190,7 +194,7 @@ export function groupSection(g: PanelGroupTable, selected: string | undefined, e
   );
 }
 
-export function checksSection(m: PanelModel): HTMLElement | null {
+export function checksSection(m: PanelModel, onCopy?: (tsv: string, what: string) => void): HTMLElement | null {
   if (!m.queries.length && !m.expectations.length && !m.errors.length) return null;
   const parts: HTMLElement[] = [];
   if (m.errors.length) parts.push(h('div', { class: 'lw-errors' }, h('h3', null, 'Errors'), h('ul', null, ...m.errors.map((e) => h('li', null, e)))));
@@ -203,8 +207,8 @@ export function checksSection(m: PanelModel): HTMLElement | null {
     // a comparison leads with its decision: heading, sentences, then the evidence table (engine/front/views/comparison.ts)
     const lead = (q.lead ?? []).map((l) => h('p', { class: 'lw-lead' }, l));
     const body = lead.length || q.headers.length === 0
-      ? [h('h3', null, q.heading), ...lead, ...(q.rows.length ? [table('lw-qtable', q.headers, q.rows, { numeric: () => true })] : [])]
-      : [table('lw-qtable', q.headers, q.rows, { numeric: () => true, caption: q.heading })];
+      ? [h('h3', null, q.heading), ...lead, ...(q.rows.length ? [table('lw-qtable', q.headers, q.rows, { numeric: () => true, what: q.heading, copy: onCopy })] : [])]
+      : [table('lw-qtable', q.headers, q.rows, { numeric: () => true, caption: q.heading, copy: onCopy })];
     parts.push(h('div', { class: 'lw-query' }, ...body, ...q.notes.map((n) => h('p', { class: 'lw-muted' }, n))));
   }
   return h('section', { class: 'lw-checks', id: 'checks' }, h('h2', null, 'Queries and checks'), ...parts);
