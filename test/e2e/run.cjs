@@ -31,6 +31,7 @@ const outDir = path.resolve(process.env.E2E_OUT || path.join(repo, 'test', 'arti
 const { secs, check, anyFailed, finish, waitForFile, freePort, run, quickInput, startRecipeServer, openBrowser, webviewFrame, errorSummary } = require('./harness.cjs');
 const { restrictedMode } = require('./restricted.cjs');
 const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
+const { panelViews } = require('./panel-views.cjs');
 
 (async () => {
   fs.mkdirSync(outDir, { recursive: true });
@@ -201,6 +202,9 @@ const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
 
     // cancel a running fit from its progress notification
     await cancelRunningFit(page, path.join(state, 'user-data', 'logs'));
+
+    // the results panel's trust views on a second spec (panel-views.cjs)
+    await panelViews(page, ws, outDir);
   } catch (e) {
     failed = true;
     check('no exception while driving VS Code', false, errorSummary(e));

@@ -146,3 +146,19 @@ describe('extension/logic/panel-copy', async () => {
     expect(chartImageName('µ/€', 'svg')).toBe('chart.svg');
   });
 });
+
+describe('extension/logic/panel-align', async () => {
+  const { decimalPadding, fractionDigits, paddingText } = await import('../../extension/logic/panel-align');
+  it('pads each cell of a column so the decimal points line up', () => {
+    const col = ['0.9747', '0.400749', '12', 'n/a', '< 0.0001', '1.1e-42'];
+    expect(col.map(fractionDigits)).toEqual([4, 6, 0, null, null, null]);
+    expect(decimalPadding(col)).toEqual([
+      { digits: 2, point: false }, { digits: 0, point: false }, { digits: 6, point: true },
+      { digits: 0, point: false }, { digits: 0, point: false }, { digits: 0, point: false },
+    ]);
+    // monospaced: the cell plus its padding has the same width right of the point in every plain cell
+    const widths = col.slice(0, 3).map((c, i) => (c + paddingText(decimalPadding(col)[i])).length - (c.includes('.') ? c.indexOf('.') : c.length));
+    expect(new Set(widths).size).toBe(1);
+    expect(decimalPadding(['1', '2'])).toEqual([{ digits: 0, point: false }, { digits: 0, point: false }]);
+  });
+});
