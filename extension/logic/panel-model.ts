@@ -28,6 +28,7 @@ import { panelFitChart } from './panel-fit-chart';
 import { defaultResidualKind, RESIDUAL_CHARTS, residualKinds, withPercent, type ResidualKind } from './panel-chart-options';
 import { leftOutRows, leftOutSentence, rowsLine } from './panel-rows';
 import { correlationCaption } from '../../engine/front/views/summary';
+import { derivedGroupTable, summariseChecks, summariseExpectations, type ExpectationSummary } from './panel-checks';
 import { flagSummary, warningFindings, type WarningFinding } from './panel-warnings';
 import { declaredOrder, FIT_STATE_LABEL, fitState, missingFits, stateCounts, type FitState, type MissingFit } from './panel-states';
 
@@ -139,6 +140,11 @@ export interface PanelModel {
   /** Query tables; the derived-quantity table (engine/front/views/summary.ts `derivedBlock`) comes first when there is one. */
   queries: QueryBlock[];
   expectations: { verdict: 'PASS' | 'FAIL'; text: string; actual: string; message: string }[];
+  /**
+   * Checks of per-group fits summarised (extension/logic/panel-checks.ts): each expectation with its passed and
+   * failed counts and the failures; the derived quantities as a group × quantity table. Null without groups.
+   */
+  groupChecks: { expectations: ExpectationSummary[]; derived: { headers: string[]; rows: string[][] } | null } | null;
   errors: string[];
 }
 
@@ -211,6 +217,9 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
     groups,
     queries: [derivedBlock(run), ...queryBlocks(run)].filter((b): b is QueryBlock => b !== null),
     expectations: run.expectations.map(expectationLine),
+    groupChecks: summariseChecks(run.expectations) || derivedGroupTable(run.derived ?? [])
+      ? { expectations: summariseExpectations(run.expectations), derived: derivedGroupTable(run.derived ?? []) }
+      : null,
     errors: run.errors.map((e) => `${e.message}${e.file ? ` (${e.file}${e.row ? `, line ${e.row}` : ''})` : ''}`),
   };
 }

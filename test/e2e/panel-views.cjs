@@ -65,10 +65,12 @@ async function panelViews(page, ws, outDir) {
   await page.locator('.statusbar-item', { hasText: 'Leastwise: copied' }).first().waitFor();
   await page.keyboard.press('Control+1');
   await quickInput(page, 'F1', 'File: New Untitled Text File', 'New Untitled Text File');
-  const untitled = page.locator('.editor-group-container .monaco-editor').first();
+  await page.locator('.tab.active', { hasText: 'Untitled' }).first().waitFor();
   await page.keyboard.press('Control+V');
-  await page.locator('.editor-group-container .monaco-editor .view-line', { hasText: /parameter\s+estimate/ }).first().waitFor();
-  check('"Copy" puts the parameter table on the clipboard as tab-separated text', true, (await untitled.locator('.view-line').first().innerText()).slice(0, 80));
+  const pasted = page.locator('.editor-group-container .monaco-editor .view-line', { hasText: /parameter\s+estimate\s+std\. error/ }).first();
+  await pasted.waitFor();
+  await page.locator('.editor-group-container .monaco-editor .view-line', { hasText: /^\s*tau\s+14\.\d+/ }).first().waitFor();
+  check('"Copy" puts the parameter table on the clipboard as tab-separated text (pasted into a new editor)', true, (await pasted.innerText()).replace(/\s+/g, ' ').slice(0, 80));
 
   // the failed fit and the warnings
   await frame.locator('button.lw-nav-item[data-key="empty"]').click();

@@ -162,3 +162,36 @@ describe('extension/logic/panel-align', async () => {
     expect(decimalPadding(['1', '2'])).toEqual([{ digits: 0, point: false }, { digits: 0, point: false }]);
   });
 });
+
+describe('extension/logic/panel-checks', async () => {
+  const { readFileSync } = await import('node:fs');
+  const { join } = await import('node:path');
+  const spec = readFileSync(join(__dirname, '..', '..', 'samples', 'plate', 'plate.lsq'), 'utf8');
+  const { analyze } = await import('../../parser/index');
+  const { headerLookup } = await import('../../engine/data/header');
+  const { runPlan } = await import('../../engine/runner/run-plan');
+  const dir = join(__dirname, '..', '..', 'samples', 'plate');
+  const { plan } = analyze(spec, { headers: headerLookup(dir) });
+  const run = await runPlan(plan, { baseDir: dir, specText: spec, threads: 1 });
+  const m = buildPanelModel(run, { specUri: 'file:///plate.lsq', specName: 'plate.lsq', declaredFits: ['kinetics'] });
+
+  it('summarises the per-group expectations: each once, passed and failed counts adding up to the checks, failures listed', () => {
+    const gc = m.groupChecks!;
+    expect(gc.expectations.map((e) => e.text)).toEqual(plan.expectations.map((e) => e.text));
+    const groups = run.fits.length;
+    for (const e of gc.expectations) {
+      expect(e.passed + e.failed).toBe(groups);
+      expect(e.failures).toHaveLength(e.failed);
+      for (const f of e.failures) expect(run.fits.some((x) => x.group === f.group)).toBe(true);
+    }
+    expect(gc.expectations.reduce((s, e) => s + e.failed, 0)).toBe(run.expectations.filter((e) => !e.passed).length);
+  });
+
+  it('tabulates the derived quantity per group: one row per well, value and standard error', () => {
+    const t = m.groupChecks!.derived!;
+    expect(t.headers).toEqual(['group', 'initial_rate [AU/min]', 'initial_rate std. error']);
+    expect(t.rows).toHaveLength(run.fits.length);
+    const a1 = run.derived!.find((d) => d.group === t.rows[0][0])!;
+    expect(Number(t.rows[0][1])).toBeCloseTo(a1.value!, 2);
+  });
+});

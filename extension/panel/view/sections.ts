@@ -198,12 +198,30 @@ export function checksSection(m: PanelModel, onCopy?: (tsv: string, what: string
   if (!m.queries.length && !m.expectations.length && !m.errors.length) return null;
   const parts: HTMLElement[] = [];
   if (m.errors.length) parts.push(h('div', { class: 'lw-errors' }, h('h3', null, 'Errors'), h('ul', null, ...m.errors.map((e) => h('li', null, e)))));
-  if (m.expectations.length) {
+  const gc = m.groupChecks;
+  if (gc?.derived) {
+    // in place of the long list of the derived table (one row per quantity and group); its notes stay
+    const notes = m.queries.find((q) => q.heading === 'Derived quantities')?.notes ?? [];
+    parts.push(h('div', { class: 'lw-derived-groups' }, table('lw-qtable lw-derived-table', gc.derived.headers, gc.derived.rows, { numeric: (j) => j > 0, caption: 'Derived quantities per group', copy: onCopy }),
+      ...notes.map((n) => h('p', { class: 'lw-muted' }, n))));
+  }
+  if (gc && gc.expectations.length) {
+    const passed = gc.expectations.reduce((s, e) => s + e.passed, 0);
+    const failed = gc.expectations.reduce((s, e) => s + e.failed, 0);
+    parts.push(h('div', { class: 'lw-expect-summary' },
+      h('h3', null, `Expectations: ${passed} passed, ${failed} failed`),
+      h('ul', { class: 'lw-expect' }, ...gc.expectations.map((e) => h('li', { class: e.failed ? 'fail' : 'pass', data: { passed: e.passed, failed: e.failed } },
+        h('span', { class: 'lw-verdict' }, e.failed ? 'failed' : 'passed'), ' ', h('code', null, e.text), ` — ${e.passed} passed, ${e.failed} failed`,
+        e.failures.length
+          ? h('ul', { class: 'lw-failures' }, ...e.failures.map((f) => h('li', null, f.group !== undefined ? `[${f.group}] ` : '', `actual ${f.actual}: ${f.message}`)))
+          : null)))));
+  } else if (m.expectations.length) {
     parts.push(h('div', null, h('h3', null, 'Expectations'),
       h('ul', { class: 'lw-expect' }, ...m.expectations.map((e) => h('li', { class: e.verdict === 'PASS' ? 'pass' : 'fail' },
         h('span', { class: 'lw-verdict' }, e.verdict === 'PASS' ? 'passed' : 'failed'), ' ', h('code', null, e.text), ` — actual ${e.actual}`, e.verdict === 'FAIL' ? `: ${e.message}` : '')))));
   }
   for (const q of m.queries) {
+    if (gc?.derived && q.heading === 'Derived quantities') continue;
     // a comparison leads with its decision: heading, sentences, then the evidence table (engine/front/views/comparison.ts)
     const lead = (q.lead ?? []).map((l) => h('p', { class: 'lw-lead' }, l));
     const body = lead.length || q.headers.length === 0
