@@ -64,8 +64,9 @@ async function panelViews(page, ws, outDir) {
   await frame.locator('table.lw-params caption button.lw-copy').click();
   await page.locator('.statusbar-item', { hasText: 'Leastwise: copied' }).first().waitFor();
   await page.keyboard.press('Control+1');
-  await quickInput(page, 'F1', 'File: New Untitled Text File', 'New Untitled Text File');
-  await page.locator('.tab.active', { hasText: 'Untitled' }).first().waitFor();
+  // the row must be "File: New Untitled Text File" itself ("File: Compare New Untitled Text Files" matches the typed words too)
+  await quickInput(page, 'F1', 'File: New Untitled Text File', 'File: New Untitled Text File');
+  await page.locator('.tab.active', { hasText: /^Untitled-\d+$/ }).first().waitFor();
   await page.keyboard.press('Control+V');
   const pasted = page.locator('.editor-group-container .monaco-editor .view-line', { hasText: /parameter\s+estimate\s+std\. error/ }).first();
   await pasted.waitFor();

@@ -7,7 +7,7 @@
  * high-contrast screenshots of each view (test/artifacts/extension/;
  * `UPDATE_SCREENSHOTS=1` copies them to test/extension/screenshots/).
  */
-import { copyFileSync, existsSync, mkdirSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
@@ -16,6 +16,10 @@ import { requireInCi } from '../fixtures/required';
 import type { PanelModel } from '../../extension/logic/panel-model';
 import { ARTIFACTS, bundlePage, CHROMIUM_ARGS, ROOT, servePanel, type PanelServer, type ThemeName } from './panel-harness';
 import { runScenario } from './panel-scenario';
+import { buildPanelModel } from '../../extension/logic/panel-model';
+import { analyze } from '../../parser/index';
+import { headerLookup } from '../../engine/data/header';
+import { runPlan } from '../../engine/runner/run-plan';
 
 const CHROMIUM = process.env.CHROMIUM ?? '/usr/bin/chromium';
 const haveChromium = requireInCi('Chromium for the panel page test', existsSync(CHROMIUM), `CHROMIUM=${CHROMIUM}`);
@@ -207,5 +211,24 @@ describe.skipIf(!haveChromium)('extension/panel trust views in Chromium', () => 
     expect(png.readUInt32BE(16)).toBe(2 * drawnWidth); // 2× resolution
     expect(problems).toEqual([]);
     await page.close();
+  });
+
+  it('summarises the per-group checks of the plate sample: counts per expectation, failures, derived values per well', async () => {
+    const spec = readFileSync(join(ROOT, 'samples', 'plate', 'plate.lsq'), 'utf8');
+    const dir = join(ROOT, 'samples', 'plate');
+    const { plan } = analyze(spec, { headers: headerLookup(dir) });
+    const run = await runPlan(plan, { baseDir: dir, specText: spec, threads: 1 });
+    const plate = buildPanelModel(run, { specUri: 'file:///work/samples/plate/plate.lsq', specName: 'plate.lsq', declaredFits: plan.fits.map((f) => f.name) });
+    for (const theme of THEME_NAMES) {
+      const { page, problems } = await open(theme, plate);
+      await select(page, '#checks');
+      const items = await page.locator('.lw-expect-summary > ul > li').count();
+      expect(items).toBe(plan.expectations.length);
+      expect(await page.locator('table.lw-derived-table tbody tr').count()).toBe(run.fits.length);
+      await expect(page.locator('.lw-expect-summary h3').textContent()).resolves.toMatch(/^Expectations: \d+ passed, \d+ failed$/);
+      await shot(page, `panel-group-checks-${theme}`);
+      expect(problems, theme).toEqual([]);
+      await page.close();
+    }
   });
 });

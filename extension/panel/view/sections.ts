@@ -199,12 +199,6 @@ export function checksSection(m: PanelModel, onCopy?: (tsv: string, what: string
   const parts: HTMLElement[] = [];
   if (m.errors.length) parts.push(h('div', { class: 'lw-errors' }, h('h3', null, 'Errors'), h('ul', null, ...m.errors.map((e) => h('li', null, e)))));
   const gc = m.groupChecks;
-  if (gc?.derived) {
-    // in place of the long list of the derived table (one row per quantity and group); its notes stay
-    const notes = m.queries.find((q) => q.heading === 'Derived quantities')?.notes ?? [];
-    parts.push(h('div', { class: 'lw-derived-groups' }, table('lw-qtable lw-derived-table', gc.derived.headers, gc.derived.rows, { numeric: (j) => j > 0, caption: 'Derived quantities per group', copy: onCopy }),
-      ...notes.map((n) => h('p', { class: 'lw-muted' }, n))));
-  }
   if (gc && gc.expectations.length) {
     const passed = gc.expectations.reduce((s, e) => s + e.passed, 0);
     const failed = gc.expectations.reduce((s, e) => s + e.failed, 0);
@@ -219,6 +213,12 @@ export function checksSection(m: PanelModel, onCopy?: (tsv: string, what: string
     parts.push(h('div', null, h('h3', null, 'Expectations'),
       h('ul', { class: 'lw-expect' }, ...m.expectations.map((e) => h('li', { class: e.verdict === 'PASS' ? 'pass' : 'fail' },
         h('span', { class: 'lw-verdict' }, e.verdict === 'PASS' ? 'passed' : 'failed'), ' ', h('code', null, e.text), ` — actual ${e.actual}`, e.verdict === 'FAIL' ? `: ${e.message}` : '')))));
+  }
+  if (gc?.derived) {
+    // in place of the long list of the derived table (one row per quantity and group); its notes stay
+    const notes = m.queries.find((q) => q.heading === 'Derived quantities')?.notes ?? [];
+    parts.push(h('div', { class: 'lw-derived-groups' }, h('div', { class: 'lw-scroll' }, table('lw-qtable lw-derived-table', gc.derived.headers, gc.derived.rows, { numeric: (j) => j > 0, caption: 'Derived quantities per group', copy: onCopy })),
+      ...notes.map((n) => h('p', { class: 'lw-muted' }, n))));
   }
   for (const q of m.queries) {
     if (gc?.derived && q.heading === 'Derived quantities') continue;
