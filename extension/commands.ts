@@ -66,7 +66,8 @@ export const COMMANDS: Record<CommandId, Handler> = {
     const specUri = doc?.uri ?? (isSpec(active) ? active.uri : undefined) ?? ctx.runs.last;
     const stored = specUri ? ctx.runs.get(specUri) : undefined;
     if (!stored) {
-      if (ResultsPanel.current) return void ResultsPanel.current.panel.reveal();
+      const open = specUri ? ResultsPanel.forSpec(specUri) : ResultsPanel.current;
+      if (open) return void open.panel.reveal();
       const name = specUri ? specUri.path.split('/').pop() : 'this spec';
       const pick = specUri && vscode.workspace.isTrusted ? await vscode.window.showInformationMessage(`Leastwise: no results for ${name} yet.`, 'Fit Now') : undefined;
       if (pick && specUri) await COMMANDS['leastwise.fitFile'](ctx, specUri);
@@ -120,15 +121,15 @@ export function registerFitOnSave(ctx: LwContext): void {
     if (!isSpec(doc) || !vscode.workspace.getConfiguration('leastwise', doc.uri).get<boolean>('fitOnSave', false)) return;
     if (!(await requireTrust('fit on save'))) return;
     const stored = await fitDocument(ctx, doc, { quiet: true });
-    if (stored && ResultsPanel.current?.specUri?.toString() === doc.uri.toString()) ResultsPanel.current.show(stored.model);
+    if (stored) ResultsPanel.forSpec(doc.uri)?.show(stored.model);
   }));
 }
 
 /** Keeps an open results panel informed while its spec is being fitted. */
 export function registerPanelSync(ctx: LwContext): void {
   ctx.ext.subscriptions.push(ctx.runs.onDidChange(({ uri, state, message }) => {
-    const p = ResultsPanel.current;
-    if (!p || p.specUri?.toString() !== uri.toString()) return;
+    const p = ResultsPanel.forSpec(uri);
+    if (!p) return;
     const specName = uri.path.split('/').pop() ?? 'spec';
     if (state === 'running') p.post({ type: 'busy', specName, text: message ?? '' });
     else if (state === 'failed') p.post({ type: 'failed', specName, message: message ?? 'the fit could not run' });

@@ -60,6 +60,22 @@ export async function exportReport(ctx: LwContext, specUri: vscode.Uri, format?:
   return [target];
 }
 
+/** Saves one chart the results page drew (SVG text, or a PNG data URL) where the user picks, never over an input. */
+export async function saveChartImage(ctx: LwContext, specUri: vscode.Uri, format: 'png' | 'svg', name: string, data: string): Promise<vscode.Uri | undefined> {
+  const stored = ctx.runs.get(specUri);
+  const target = await vscode.window.showSaveDialog({
+    defaultUri: vscode.Uri.joinPath(specUri, '..', name),
+    filters: format === 'png' ? { 'PNG image': ['png'] } : { 'SVG image': ['svg'] },
+    title: `Save chart as ${format.toUpperCase()}`,
+  });
+  if (!target) return undefined;
+  const content = format === 'png' ? Buffer.from(data.slice(data.indexOf(',') + 1), 'base64') : `${data.trimEnd()}\n`;
+  const run: RunResult = stored?.run ?? ({ provenance: { data: [] } } as unknown as RunResult);
+  if (!(await writeChecked(ctx, specUri, run, [{ uri: target, content }]))) return undefined;
+  void vscode.window.showInformationMessage(`Leastwise: wrote ${path.posix.basename(target.path)}`);
+  return target;
+}
+
 async function exportSvg(ctx: LwContext, specUri: vscode.Uri, run: RunResult, dir: vscode.Uri): Promise<vscode.Uri[]> {
   const picked = await vscode.window.showOpenDialog({ canSelectFiles: false, canSelectFolders: true, defaultUri: dir, openLabel: 'Write SVG charts here', title: 'Folder for the SVG charts' });
   const folder = picked?.[0];

@@ -110,7 +110,7 @@ export async function fitDocument(ctx: LwContext, doc: vscode.TextDocument, req:
       void vscode.window.showErrorMessage(`Leastwise: the fit of ${name} could not run: ${outcome.message}`);
       return undefined;
     }
-    const model = buildPanelModel(outcome.result, { specUri: key, specName: name });
+    const model = buildPanelModel(outcome.result, { specUri: key, specName: name, declaredFits: analysis.plan.fits.map((f) => f.name) });
     const stored: StoredRun = { specUri: doc.uri, run: outcome.result, model, fits: req.fits ?? 'all', finishedAt: new Date() };
     ctx.log.info(`fitted ${doc.uri.fsPath} (${req.fits?.join(', ') ?? 'all fits'}) in ${Date.now() - started} ms`);
     ctx.runs.set(stored);

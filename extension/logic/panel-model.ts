@@ -21,14 +21,20 @@ import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEAD
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { GroupFlag } from '../../engine/groups/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
-import { DIGITS, formatNumber } from '../../engine/format';
+import { DIGITS, formatLevel, formatNumber } from '../../engine/format';
 import { isHighCorrelation } from '../../engine/thresholds';
 import { flaggedPointRows, flaggedPointsNote } from '../../engine/front/views/influence';
 import { groupParameterCharts, sameDataPanelCharts, type PanelSameData } from './panel-group-charts';
+import { panelFitChart } from './panel-fit-chart';
+import { defaultResidualKind, RESIDUAL_CHARTS, residualKinds, withPercent, type ResidualKind } from './panel-chart-options';
+import { leftOutRows, leftOutSentence, rowsLine } from './panel-rows';
 import { correlationCaption } from '../../engine/front/views/summary';
+import { derivedGroupTable, summariseChecks, summariseExpectations, type ExpectationSummary } from './panel-checks';
+import { flagSummary, warningFindings, type WarningFinding } from './panel-warnings';
+import { declaredOrder, FIT_STATE_LABEL, fitState, missingFits, stateCounts, type FitState, type MissingFit } from './panel-states';
 
-/** Version of the model's shape; a saved page state of another version is not restored (2: the correlation list's caption). */
-export const PANEL_MODEL_VERSION = 2 as const;
+/** Version of the model's shape; a saved page state of another version is not restored (2: the correlation list's caption; 3: fit states, fits without a result). */
+export const PANEL_MODEL_VERSION = 3 as const;
 
 /** A chart as the page receives it (same shape as engine/front/views/charts.ts ChartSpec). */
 export interface PanelChart {
@@ -50,6 +56,12 @@ export interface PanelFit {
   /** A robust loss's sentence (scale and down-weighted points, engine/front/views/summary.ts `robustLine`). */
   robust: string | null;
   converged: boolean;
+  /** Converged, not converged, failed (no result, `reasons` say why) or not run (extension/logic/panel-states.ts). */
+  state: FitState;
+  /** Whether the run has a result for it (false: a failed fit without one, or a fit not run; `reasons` say why). */
+  hasResult: boolean;
+  /** Why a fit has no result (the run errors naming it), or why it did not converge (the stop message); empty when converged. */
+  reasons: string[];
   /** The marking of a fit that is not a result (engine/front/views/summary.ts `notFittedNote`), shown as a banner; null when fitted. */
   notFitted: string | null;
   parameterHeaders: string[];
@@ -64,6 +76,10 @@ export interface PanelFit {
    * (engine/front/views/summary.ts `correlationCaption`).
    */
   correlationCaption: string;
+  /** n and the rows the fit left out, with why (extension/logic/panel-rows.ts `rowsLine`). */
+  rows: string;
+  /** How many rows the fit left out (weight 0, empty cells); 0 when none. */
+  leftOut: number;
   /** A few headline figures shown above the charts (the full list is `goodness`). */
   keyStats: { label: string; value: string; title: string }[];
   goodness: Entry[];
@@ -81,6 +97,9 @@ export interface PanelFit {
   flaggedPoints: { headers: string[]; rows: string[][]; note: string | null };
   /** Charts, or null when they are sent on request. */
   charts: PanelChart[] | null;
+  /** The residual kind the residual charts start with (standardized for a weighted fit) and the kinds offered (extension/logic/panel-chart-options.ts). */
+  residualDefault: ResidualKind;
+  residualKinds: ResidualKind[];
 }
 
 export interface PanelGroupRow {
@@ -98,6 +117,8 @@ export interface PanelGroupTable {
   /** Worst first (engine/groups/table.ts `worstGroups`). */
   rows: PanelGroupRow[];
   summary: string[];
+  /** The flags of `rows` in one sentence (extension/logic/panel-warnings.ts `flagSummary`). */
+  flagSummary: string;
   charts: PanelChart[];
 }
 
@@ -108,12 +129,25 @@ export interface PanelModel {
   /** ISO time the run started. */
   startedAt: string;
   run: { tool: string; toolVersion: string; data: { name: string; path: string; rows: number }[] };
-  headline: { fits: number; converged: number; warnings: number; expectations: number; failedExpectations: number; errors: number };
+  /**
+   * `fits`: every entry (a declared fit, or each group of a per-group fit), with or without a result; then the
+   * entries per state (they add up to `fits`).
+   */
+  headline: { fits: number; converged: number; notConverged: number; failed: number; notRun: number; warnings: number; expectations: number; failedExpectations: number; errors: number };
+  /** Fit names as declared in the spec (when the host knew them), kept for a later merge of runs of single fits. */
+  declaredFits: string[];
   fits: PanelFit[];
+  /** Every warning, counted as the Problems panel counts them (`headline.warnings` is its length; extension/logic/panel-warnings.ts). */
+  findings: WarningFinding[];
   groups: PanelGroupTable[];
   /** Query tables; the derived-quantity table (engine/front/views/summary.ts `derivedBlock`) comes first when there is one. */
   queries: QueryBlock[];
   expectations: { verdict: 'PASS' | 'FAIL'; text: string; actual: string; message: string }[];
+  /**
+   * Checks of per-group fits summarised (extension/logic/panel-checks.ts): each expectation with its passed and
+   * failed counts and the failures; the derived quantities as a group × quantity table. Null without groups.
+   */
+  groupChecks: { expectations: ExpectationSummary[]; derived: { headers: string[]; rows: string[][] } | null } | null;
   errors: string[];
   /** Single fits of the same data drawn together (extension/logic/panel-group-charts.ts; additive, optional). */
   sameData?: PanelSameData[];
@@ -124,6 +158,8 @@ export interface ModelOptions {
   specName: string;
   /** Group fits whose charts are included up front (the worst first). Default 6. */
   eagerGroupCharts?: number;
+  /** Names of the fits the spec declares, in order (from the plan): fits without a result are listed too. Default: those the run names. */
+  declaredFits?: readonly string[];
 }
 
 export function fitKey(f: { name: string; group?: string }): string {
@@ -150,10 +186,19 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
         message: r.message,
       })),
       summary: [groupCountLine(table), ...groupSummarySentences(table)],
+      flagSummary: flagSummary(table.rows),
       charts: groupParameterCharts(fits, table),
     });
   }
-  const fits = run.fits.map((f) => panelFit(f, f.group === undefined || eager.has(fitKey(f))));
+  const declared = opts.declaredFits ?? [];
+  const missing = missingFits(run, declared);
+  const order = declaredOrder(declared, [...run.fits.map((f) => f.name), ...missing.map((m) => m.name)]);
+  const fits = [...run.fits.map((f) => panelFit(f, f.group === undefined || eager.has(fitKey(f)))), ...missing.map(missingPanelFit)]
+    .map((f, i) => ({ f, i }))
+    .sort((a, b) => (order.get(a.f.name) ?? 0) - (order.get(b.f.name) ?? 0) || a.i - b.i)
+    .map((x) => x.f);
+  const counts = stateCounts(fits.map((f) => f.state));
+  const findings = warningFindings(run.fits);
   return {
     version: PANEL_MODEL_VERSION,
     specUri: opts.specUri,
@@ -161,17 +206,25 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
     startedAt: run.provenance.startedAt,
     run: { tool: run.provenance.tool, toolVersion: run.provenance.toolVersion, data: run.provenance.data.map((d) => ({ name: d.name, path: d.path, rows: d.rows })) },
     headline: {
-      fits: run.fits.length,
-      converged: run.fits.filter((f) => f.stop.converged).length,
-      warnings: run.fits.reduce((s, f) => s + warningLines(f).length, 0),
+      fits: fits.length,
+      converged: counts.converged,
+      notConverged: counts.not_converged,
+      failed: counts.failed,
+      notRun: counts.not_run,
+      warnings: findings.length,
       expectations: run.expectations.length,
       failedExpectations: run.expectations.filter((e) => !e.passed).length,
       errors: run.errors.length,
     },
+    declaredFits: [...order.keys()],
     fits,
+    findings,
     groups,
     queries: [derivedBlock(run), derivedIntervalBlock(run), ...queryBlocks(run)].filter((b): b is QueryBlock => b !== null),
     expectations: run.expectations.map(expectationLine),
+    groupChecks: summariseChecks(run.expectations) || derivedGroupTable(run.derived ?? [])
+      ? { expectations: summariseExpectations(run.expectations), derived: derivedGroupTable(run.derived ?? []) }
+      : null,
     errors: run.errors.map((e) => `${e.message}${e.file ? ` (${e.file}${e.row ? `, line ${e.row}` : ''})` : ''}`),
     sameData: sameDataPanelCharts(run),
   };
@@ -200,10 +253,15 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     search: searchLine(f),
     robust: robustLine(f),
     converged: f.stop.converged,
+    state: fitState(f),
+    hasResult: true,
+    reasons: f.stop.converged ? [] : [f.stop.message],
     notFitted: notFittedNote(f),
     parameterHeaders: PARAMETER_HEADERS(f.level),
     parameterRows: parameterRows(f),
     flagged: f.parameters.filter((p) => p.atBound).map((p) => p.name),
+    rows: rowsLine(f),
+    leftOut: leftOutRows(f).total,
     correlationCaption: correlationCaption(),
     keyStats: keyStats(f),
     goodness: goodnessEntries(f),
@@ -213,6 +271,42 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     bootstrap: panelBootstrap(f),
     flaggedPoints: flaggedPoints(f),
     charts: withCharts ? panelCharts(f) : null,
+    residualDefault: defaultResidualKind({ weighted: f.points.weight !== null || f.sigmaAbsolute, converged: f.stop.converged }),
+    residualKinds: residualKinds(f.stop.converged),
+  };
+}
+
+/** The entry of a declared fit without a result: its state and reasons, nothing else to show. */
+function missingPanelFit(m: MissingFit): PanelFit {
+  const label = FIT_STATE_LABEL[m.state];
+  return {
+    key: m.name,
+    name: m.name,
+    label: m.name,
+    heading: `Fit ${m.name}: ${label}, no result`,
+    stop: m.state === 'failed' ? `Failed: ${m.reasons.join(' ')}` : `Not run: ${m.reasons.join(' ')}`,
+    search: null,
+    robust: null,
+    converged: false,
+    state: m.state,
+    hasResult: false,
+    reasons: m.reasons,
+    notFitted: null,
+    parameterHeaders: [],
+    parameterRows: [],
+    flagged: [],
+    rows: '',
+    leftOut: 0,
+    correlationCaption: correlationCaption(),
+    keyStats: [],
+    goodness: [],
+    warnings: [],
+    correlations: [],
+    profile: null,
+    flaggedPoints: { headers: [], rows: [], note: null },
+    charts: [],
+    residualDefault: 'raw',
+    residualKinds: [],
   };
 }
 
@@ -229,7 +323,12 @@ function panelProfile(f: FitResult): PanelFit['profile'] {
 }
 
 export function panelCharts(f: FitResult): PanelChart[] {
-  return chartSpecs(f).map((c: ChartSpec) => ({ id: c.id, title: c.title, spec: c.spec as unknown as Record<string, unknown> }));
+  return chartSpecs(f).map((c: ChartSpec) => {
+    const spec = c.spec as unknown as Record<string, unknown>;
+    // the fit chart with a swatch legend instead of colour words, left-out rows muted (panel-fit-chart.ts)
+    const shown = c.id === 'fit' ? panelFitChart(spec, formatLevel(f.level)) : RESIDUAL_CHARTS.includes(c.id) ? withPercent(structuredClone(spec)) : spec;
+    return { id: c.id, title: c.title, spec: shown };
+  });
 }
 
 /** Charts of the fit with key `key`, for a page that asks for them later. */
@@ -246,7 +345,8 @@ export function chartsForKey(run: RunResult, key: string): PanelChart[] | null {
 function keyStats(f: FitResult): PanelFit['keyStats'] {
   const g = f.goodness;
   const counts: PanelFit['keyStats'] = [
-    { label: 'n', value: String(g.n), title: 'points used' },
+    { label: 'n', value: String(g.n), title: `points used${leftOutSentence(f) ? `; ${leftOutSentence(f)}` : ''}` },
+    ...(leftOutRows(f).total ? [{ label: 'left out', value: String(leftOutRows(f).total), title: leftOutSentence(f) ?? '' }] : []),
     { label: 'dof', value: String(g.dof), title: 'degrees of freedom' },
   ];
   // a fit that is not a result shows no goodness-of-fit figures (the engine withholds them)

@@ -5,6 +5,8 @@
  * Browser-safe: no Node or vscode imports.
  */
 import type { PanelChart, PanelModel } from './panel-model';
+import type { ResidualKind, XScale } from './panel-chart-options';
+import { MAX_IMAGE_CHARS } from './panel-copy';
 
 export type ExportFormat = 'markdown' | 'json' | 'svg';
 export const EXPORT_FORMATS: readonly ExportFormat[] = ['markdown', 'json', 'svg'];
@@ -31,6 +33,10 @@ export type FromPage =
   /** Charts of a fit whose model entry has `charts: null`. */
   | { type: 'requestCharts'; key: string }
   | { type: 'export'; format: ExportFormat }
+  /** Put a table (tab-separated text, extension/logic/panel-copy.ts) on the clipboard; `what` names it in the confirmation. */
+  | { type: 'copy'; text: string; what: string }
+  /** Save a drawn chart: `data` is the SVG document, or a PNG as a `data:image/png;base64,` URL; `name` the proposed file name. */
+  | { type: 'saveChart'; format: 'png' | 'svg'; name: string; data: string }
   /** A page-side problem, for the output channel. */
   | { type: 'log'; level: 'info' | 'error'; message: string };
 
@@ -39,6 +45,10 @@ export interface PageState {
   model?: PanelModel;
   /** Fit key shown. */
   selected?: string;
+  /** Residual kind chosen per fit key (extension/logic/panel-chart-options.ts; absent: the fit's default). */
+  residualKind?: Record<string, ResidualKind>;
+  /** x axis chosen per fit key (absent: as the views chose it). */
+  xScale?: Record<string, XScale>;
 }
 
 function isObject(x: unknown): x is Record<string, unknown> {
@@ -51,7 +61,7 @@ const isOptString = (x: unknown): boolean => x === undefined || typeof x === 'st
 /** Shallow check of a panel model (the host builds it; the page only needs the shape). */
 export function isPanelModel(x: unknown): x is PanelModel {
   // the version of extension/logic/panel-model.ts PANEL_MODEL_VERSION (a literal: the page bundle imports no engine code; test/extension/protocol.test.ts holds them equal)
-  return isObject(x) && x.version === 2 && isString(x.specUri) && isString(x.specName) && Array.isArray(x.fits) && isObject(x.run);
+  return isObject(x) && x.version === 3 && isString(x.specUri) && isString(x.specName) && Array.isArray(x.fits) && isObject(x.run);
 }
 
 export function isPanelChart(x: unknown): x is PanelChart {
@@ -90,11 +100,24 @@ export function isFromPage(x: unknown): x is FromPage {
       return (EXPORT_FORMATS as readonly unknown[]).includes(x.format);
     case 'log':
       return (x.level === 'info' || x.level === 'error') && isString(x.message);
+    case 'copy':
+      return isString(x.text) && x.text.length <= MAX_IMAGE_CHARS && isString(x.what);
+    case 'saveChart':
+      return (x.format === 'png' || x.format === 'svg') && isString(x.name) && /^[A-Za-z0-9._-]{1,90}$/.test(x.name) && isString(x.data) && x.data.length <= MAX_IMAGE_CHARS
+        && (x.format === 'svg' ? x.data.trimStart().startsWith('<svg') : x.data.startsWith('data:image/png;base64,'));
     default:
       return false;
   }
 }
 
+const RESIDUAL_KIND_NAMES: readonly string[] = ['raw', 'standardized', 'percent'];
+const X_SCALE_NAMES: readonly string[] = ['linear', 'log'];
+
+function isChoiceMap(x: unknown, names: readonly string[]): boolean {
+  return x === undefined || (isObject(x) && Object.values(x).every((v) => typeof v === 'string' && names.includes(v)));
+}
+
 export function isPageState(x: unknown): x is PageState {
-  return isObject(x) && (x.model === undefined || isPanelModel(x.model)) && isOptString(x.selected);
+  return isObject(x) && (x.model === undefined || isPanelModel(x.model)) && isOptString(x.selected)
+    && isChoiceMap(x.residualKind, RESIDUAL_KIND_NAMES) && isChoiceMap(x.xScale, X_SCALE_NAMES);
 }

@@ -4,7 +4,7 @@
  */
 import * as vscode from 'vscode';
 import type { LwContext } from '../context';
-import { exportReport } from '../export/report';
+import { exportReport, saveChartImage } from '../export/report';
 import { resolveDataUri } from '../state/headers';
 import { lineIndex, toRange } from '../language/convert';
 import { findFitName, findParamName } from '../logic/declarations';
@@ -42,6 +42,9 @@ export function panelActions(ctx: LwContext, refit: (spec: vscode.Uri) => Promis
     refit,
     async exportReport(specUri, format) {
       await exportReport(ctx, specUri, format);
+    },
+    async saveChart(specUri, format, name, data) {
+      await saveChartImage(ctx, specUri, format, name, data);
     },
   };
 }

@@ -1,5 +1,6 @@
 /**
- * The results panel (one per window): `createOrShow` opens or reveals it,
+ * The results panels, one per spec (several side by side): `createOrShow`
+ * opens or reveals the panel of the model's spec,
  * `revive` re-attaches it after a reload (WebviewPanelSerializer; the page
  * restores its own saved state), `dispose` closes it. Messages are typed
  * both ways (protocol.ts) and checked with guards on arrival. The webview
@@ -20,9 +21,14 @@ export interface PanelActions {
   reveal(specUri: vscode.Uri, fit: string, param?: string): Promise<void>;
   refit(specUri: vscode.Uri): Promise<void>;
   exportReport(specUri: vscode.Uri, format: 'markdown' | 'json' | 'svg'): Promise<void>;
+  /** Save a chart image the page drew (save dialog, the export guard). */
+  saveChart(specUri: vscode.Uri, format: 'png' | 'svg', name: string, data: string): Promise<void>;
 }
 
 export class ResultsPanel {
+  /** Open panels by spec uri (a restored panel whose state held no model is kept under '' until it shows one). */
+  private static readonly panels = new Map<string, ResultsPanel>();
+  /** The panel last shown or focused. */
   private static instance: ResultsPanel | undefined;
   private readonly disposables: vscode.Disposable[] = [];
   private ready = false;
@@ -36,12 +42,25 @@ export class ResultsPanel {
     return ResultsPanel.instance;
   }
 
-  /** Opens the panel (or reveals it) and shows `model`, focusing fit key `focus`. */
+  /** The open panel of the spec `uri`, if any. */
+  static forSpec(uri: vscode.Uri): ResultsPanel | undefined {
+    return ResultsPanel.panels.get(uri.toString());
+  }
+
+  /** Every open panel. */
+  static all(): ResultsPanel[] {
+    return [...new Set(ResultsPanel.panels.values())];
+  }
+
+  /** Opens the panel of `model`'s spec (or reveals it) and shows `model`, focusing fit key `focus`; without a model, the current panel. */
   static createOrShow(ctx: LwContext, actions: PanelActions, model?: PanelModel, focus?: string, preserveFocus = false): ResultsPanel {
-    let p = ResultsPanel.instance;
-    if (p) p.panel.reveal(undefined, preserveFocus);
+    let p = model ? ResultsPanel.panels.get(model.specUri) : ResultsPanel.instance;
+    if (p) p.panel.reveal(p.panel.viewColumn, preserveFocus);
     else {
-      const panel = vscode.window.createWebviewPanel(VIEW_TYPE, 'Leastwise Results', { viewColumn: vscode.ViewColumn.Beside, preserveFocus }, ResultsPanel.options(ctx));
+      // beside the other specs' panels when some are open, else beside the editor
+      const columns = ResultsPanel.all().map((x) => x.panel.viewColumn ?? 0).filter((c) => c > 0);
+      const viewColumn = columns.length ? Math.max(...columns) + 1 : vscode.ViewColumn.Beside;
+      const panel = vscode.window.createWebviewPanel(VIEW_TYPE, 'Leastwise Results', { viewColumn, preserveFocus }, ResultsPanel.options(ctx));
       p = new ResultsPanel(ctx, actions, panel);
     }
     if (model) p.show(model, focus);
@@ -50,11 +69,22 @@ export class ResultsPanel {
 
   /** Re-attaches a panel restored by VS Code after a reload. */
   static revive(ctx: LwContext, actions: PanelActions, panel: vscode.WebviewPanel, state: unknown): ResultsPanel {
-    ResultsPanel.instance?.dispose();
     panel.webview.options = ResultsPanel.options(ctx);
+    const spec = isPageState(state) && state.model ? state.model.specUri : '';
+    // a second restored panel of one spec (should not happen) replaces the first
+    ResultsPanel.panels.get(spec)?.dispose();
     const p = new ResultsPanel(ctx, actions, panel);
-    if (isPageState(state) && state.model) p.specUri = vscode.Uri.parse(state.model.specUri);
+    if (spec) {
+      p.specUri = vscode.Uri.parse(spec);
+      panel.title = `Results: ${state && isPageState(state) && state.model ? state.model.specName : ''}`;
+    }
+    p.register(spec);
     return p;
+  }
+
+  private register(key: string): void {
+    for (const [k, v] of ResultsPanel.panels) if (v === this && k !== key) ResultsPanel.panels.delete(k);
+    ResultsPanel.panels.set(key, this);
   }
 
   private static options(ctx: LwContext): vscode.WebviewPanelOptions & vscode.WebviewOptions {
@@ -81,6 +111,7 @@ export class ResultsPanel {
       // a hidden webview is torn down (no retained context): queue until its page says `ready` again
       panel.onDidChangeViewState((e) => {
         if (!e.webviewPanel.visible) this.ready = false;
+        if (e.webviewPanel.active) ResultsPanel.instance = this;
       }),
       panel.webview.onDidReceiveMessage((msg: unknown) => {
         if (isFromPage(msg)) void this.handle(msg).catch((e) => ctx.log.error(`panel message ${msg.type}: ${String(e)}`));
@@ -91,6 +122,8 @@ export class ResultsPanel {
 
   show(model: PanelModel, focus?: string): void {
     this.specUri = vscode.Uri.parse(model.specUri);
+    this.register(model.specUri);
+    ResultsPanel.instance = this;
     this.latest = { type: 'show', model, focus };
     this.panel.title = `Results: ${model.specName}`;
     this.post({ type: 'show', model, focus });
@@ -120,6 +153,11 @@ export class ResultsPanel {
         if (msg.level === 'error') this.ctx.log.error(`[panel] ${msg.message}`);
         else this.ctx.log.info(`[panel] ${msg.message}`);
         return;
+      case 'copy':
+        await vscode.env.clipboard.writeText(msg.text);
+        void vscode.window.setStatusBarMessage(`Leastwise: copied ${msg.what} (${msg.text.split('\n').length - 2} rows, tab-separated)`, 5000);
+        this.ctx.log.info(`copied ${msg.what} to the clipboard (${msg.text.length} characters)`);
+        return;
       case 'requestCharts': {
         const run = spec ? this.ctx.runs.get(spec)?.run : undefined;
         this.post({ type: 'charts', key: msg.key, charts: run ? chartsForKey(run, msg.key) : null });
@@ -136,6 +174,8 @@ export class ResultsPanel {
         return this.actions.refit(spec);
       case 'export':
         return this.actions.exportReport(spec, msg.format);
+      case 'saveChart':
+        return this.actions.saveChart(spec, msg.format, msg.name, msg.data);
     }
   }
 
@@ -145,6 +185,7 @@ export class ResultsPanel {
     if (this.disposed) return;
     this.disposed = true;
     if (ResultsPanel.instance === this) ResultsPanel.instance = undefined;
+    for (const [k, v] of ResultsPanel.panels) if (v === this) ResultsPanel.panels.delete(k);
     for (const d of this.disposables.splice(0)) d.dispose();
     this.panel.dispose();
   }

@@ -63,7 +63,9 @@ function mergeRuns(prev: StoredRun, next: StoredRun): StoredRun {
   const fits = [...prev.run.fits.filter((f) => !names.has(f.name)), ...next.run.fits];
   const order = [...new Set([...prev.run.fits, ...next.run.fits].map((f) => f.name))];
   fits.sort((a, b) => order.indexOf(a.name) - order.indexOf(b.name));
-  const run: RunResult = { ...next.run, fits };
-  const model = buildPanelModel(run, { specUri: next.model.specUri, specName: next.model.specName });
+  // a fit of another name that failed before keeps its error (so it stays listed as failed, with the reason)
+  const errors = [...prev.run.errors.filter((e) => e.fit !== undefined && !names.has(e.fit)), ...next.run.errors];
+  const run: RunResult = { ...next.run, fits, errors };
+  const model = buildPanelModel(run, { specUri: next.model.specUri, specName: next.model.specName, declaredFits: next.model.declaredFits });
   return { ...next, run, model, fits: prev.fits };
 }

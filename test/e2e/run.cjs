@@ -35,6 +35,7 @@ const { restrictedMode } = require('./restricted.cjs');
 const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
 const { writePlateSample, groupViews } = require('./views.cjs');
 const { writeEditorSpecs, editorChecks } = require('./editor.cjs');
+const { panelViews } = require('./panel-views.cjs');
 
 (async () => {
   fs.mkdirSync(outDir, { recursive: true });
@@ -214,6 +215,8 @@ const { writeEditorSpecs, editorChecks } = require('./editor.cjs');
     await groupViews(page, { repo, ws, outDir });
     // editing: no cascade from a misspelling, unclosed ranges, bounds fixes, completion order, theme colours (editor.cjs)
     await editorChecks(page, { repo, ws, outDir });
+    // the results panel's trust views on a second spec (panel-views.cjs)
+    await panelViews(page, ws, outDir);
   } catch (e) {
     failed = true;
     check('no exception while driving VS Code', false, errorSummary(e));

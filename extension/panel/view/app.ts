@@ -8,22 +8,34 @@
  */
 import type { FromPage } from '../../logic/panel-protocol';
 import type { PanelModel } from '../../logic/panel-model';
+import type { ResidualKind, XScale } from '../../logic/panel-chart-options';
 import { finalizeCharts } from './charts';
 import { clear, h } from './dom';
-import { checksSection, fitSection, groupSection, sameDataSection, type SectionEvents } from './sections';
+import { checksSection, fitSection, groupSection, sameDataSection, warningsSection, type SectionEvents } from './sections';
 
 export interface AppState {
   model?: PanelModel;
   selected?: string;
   banner?: { kind: 'busy' | 'failed'; text: string };
+  /** Residual kind and x axis chosen per fit key. */
+  residualKind?: Record<string, ResidualKind>;
+  xScale?: Record<string, XScale>;
+}
+
+export interface ChartChoice {
+  residual?: ResidualKind;
+  xScale?: XScale;
 }
 
 export interface AppHost {
   post(msg: FromPage): void;
   select(key: string): void;
+  choose(key: string, choice: ChartChoice): void;
 }
 
 const CHECKS_KEY = '#checks';
+/** The list of every warning (opened by the warnings chip). */
+export const WARNINGS_KEY = '#warnings';
 const groupKey = (fit: string): string => `#group:${fit}`;
 
 let renderCount = 0;
@@ -43,7 +55,7 @@ export function render(root: HTMLElement, state: AppState, host: AppHost): void 
     return;
   }
   const selected = resolveSelection(m, state.selected);
-  root.append(toolbar(m, host), h('div', { class: 'lw-body' }, nav(m, selected, host), main(m, selected, host, token)));
+  root.append(toolbar(m, host), h('div', { class: 'lw-body' }, nav(m, selected, host), main(m, selected, host, token, state)));
 }
 
 /** The entry to show: the stored key if it still exists, else the first entry. */
@@ -63,22 +75,28 @@ function navKeys(m: PanelModel): string[] {
       keys.push(groupKey(f.name));
     }
   }
+  if (m.findings.length) keys.push(WARNINGS_KEY);
   if (m.queries.length || m.expectations.length || m.errors.length) keys.push(CHECKS_KEY);
   return keys;
 }
 
 function toolbar(m: PanelModel, host: AppHost): HTMLElement {
   const hl = m.headline;
-  const chip = (text: string, kind: 'ok' | 'warn' | 'bad' | 'plain', title?: string) => h('span', { class: `lw-chip ${kind}`, title }, text);
+  const chip = (text: string, kind: 'ok' | 'warn' | 'bad' | 'plain', title?: string, open?: string) => open
+    ? h('button', { class: `lw-chip ${kind}`, title, data: { open }, onClick: () => host.select(open) }, text)
+    : h('span', { class: `lw-chip ${kind}`, title }, text);
   const chips = [
-    chip(`${hl.converged}/${hl.fits} converged`, hl.converged === hl.fits ? 'ok' : 'bad'),
-    chip(`${hl.warnings} warning${hl.warnings === 1 ? '' : 's'}`, hl.warnings ? 'warn' : 'plain'),
-    hl.expectations ? chip(`${hl.expectations - hl.failedExpectations}/${hl.expectations} expectations`, hl.failedExpectations ? 'bad' : 'ok') : null,
-    hl.errors ? chip(`${hl.errors} error${hl.errors === 1 ? '' : 's'}`, 'bad') : null,
+    chip(`${hl.converged}/${hl.fits} converged`, hl.converged === hl.fits ? 'ok' : 'bad', 'Fits (each group of a per-group fit counts once) that converged, of all declared'),
+    hl.notConverged ? chip(`${hl.notConverged} not converged`, 'bad', 'Results that are not estimates: their statistics are withheld') : null,
+    hl.failed ? chip(`${hl.failed} failed`, 'bad', 'Declared fits without a result (see the reason in each entry)') : null,
+    hl.notRun ? chip(`${hl.notRun} not run`, 'plain', 'Declared fits the last run did not ask for') : null,
+    chip(`${hl.warnings} warning${hl.warnings === 1 ? '' : 's'}`, hl.warnings ? 'warn' : 'plain', hl.warnings ? 'Show every warning (counted as in the Problems panel)' : undefined, hl.warnings ? WARNINGS_KEY : undefined),
+    hl.expectations ? chip(`${hl.expectations - hl.failedExpectations}/${hl.expectations} expectations`, hl.failedExpectations ? 'bad' : 'ok', undefined, CHECKS_KEY) : null,
+    hl.errors ? chip(`${hl.errors} error${hl.errors === 1 ? '' : 's'}`, 'bad', undefined, CHECKS_KEY) : null,
   ];
   const when = new Date(m.startedAt);
   return h('header', { class: 'lw-toolbar' },
-    h('div', { class: 'lw-title' }, h('h1', null, m.specName), h('span', { class: 'lw-muted', title: m.startedAt }, Number.isNaN(when.getTime()) ? '' : `fitted ${when.toLocaleString()}`)),
+    h('div', { class: 'lw-title' }, h('h1', null, m.specName), h('span', { class: 'lw-muted', title: m.startedAt }, Number.isNaN(when.getTime()) ? '' : `fitted ${isoMinute(when)}`)),
     h('div', { class: 'lw-chips' }, ...chips),
     h('div', { class: 'lw-actions' },
       h('button', { class: 'lw-btn primary', onClick: () => host.post({ type: 'refit' }), title: 'Run the spec again' }, 'Fit again'),
@@ -89,11 +107,20 @@ function toolbar(m: PanelModel, host: AppHost): HTMLElement {
   );
 }
 
+/** A time as ISO 8601 to the minute, in UTC (`2026-12-03 14:05 UTC`): the one date form of every view. */
+export function isoMinute(d: Date): string {
+  return `${d.toISOString().slice(0, 16).replace('T', ' ')} UTC`;
+}
+
 function nav(m: PanelModel, selected: string, host: AppHost): HTMLElement {
   const items = navKeys(m).map((key) => {
     let label = key;
     let status: 'ok' | 'warn' | 'bad' = 'ok';
-    if (key === CHECKS_KEY) {
+    let note: string | null = null;
+    if (key === WARNINGS_KEY) {
+      label = `Warnings (${m.findings.length})`;
+      status = 'warn';
+    } else if (key === CHECKS_KEY) {
       label = 'Queries and checks';
       status = m.headline.failedExpectations || m.headline.errors ? 'bad' : 'ok';
     } else if (key.startsWith('#group:')) {
@@ -104,6 +131,7 @@ function nav(m: PanelModel, selected: string, host: AppHost): HTMLElement {
     } else {
       const f = m.fits.find((x) => x.key === key);
       status = !f?.converged ? 'bad' : f.warnings.length ? 'warn' : 'ok';
+      if (f && f.state !== 'converged') note = f.state.replace('_', ' ');
     }
     const active = key === selected || (key.startsWith('#group:') && selected.startsWith(`${key.slice('#group:'.length)}/`));
     return h('li', null, h('button', {
@@ -111,17 +139,18 @@ function nav(m: PanelModel, selected: string, host: AppHost): HTMLElement {
       data: { key },
       attrs: { 'aria-current': active ? 'true' : 'false' },
       onClick: () => host.select(key),
-    }, h('span', { class: `lw-dot ${status}`, attrs: { 'aria-hidden': 'true' } }), label));
+    }, h('span', { class: `lw-dot ${status}`, attrs: { 'aria-hidden': 'true' } }), h('span', { class: 'lw-nav-label' }, label), note ? h('span', { class: 'lw-nav-state' }, note) : null));
   });
   return h('nav', { class: 'lw-nav', attrs: { 'aria-label': 'Fits' } }, h('ul', null, ...items));
 }
 
-function main(m: PanelModel, selected: string, host: AppHost, token: number): HTMLElement {
+function main(m: PanelModel, selected: string, host: AppHost, token: number, state: AppState): HTMLElement {
   const el = h('main', { class: 'lw-main', id: 'main' });
   const pending: Promise<void>[] = [];
   // room for a chart: the window less the navigation rail (beside the content above 640 px, on top below)
   const viewport = window.innerWidth || document.body.clientWidth || 900;
-  const width = Math.max(260, viewport - (viewport > 640 ? 270 : 60));
+  // (the content area: the window less the rail, the main padding and a scroll bar)
+  const width = Math.max(300, viewport - (viewport > 640 ? 210 + 36 + 16 : 36 + 16));
   const events: SectionEvents = {
     onReveal: (fit, param) => host.post({ type: 'reveal', fit, param }),
     onSelect: (key) => host.select(key),
@@ -135,11 +164,17 @@ function main(m: PanelModel, selected: string, host: AppHost, token: number): HT
       if (f) host.select(f.key);
     },
     onError: (message) => host.post({ type: 'log', level: 'error', message }),
+    choice: (key) => ({ residual: state.residualKind?.[key], xScale: state.xScale?.[key] }),
+    onChoose: (key, choice) => host.choose(key, choice),
+    onCopy: (text, what) => host.post({ type: 'copy', text, what }),
+    onSave: (format, name, data) => host.post({ type: 'saveChart', format, name, data }),
   };
   let shownFitKey: string | undefined;
   let shownGroupFit: string | undefined;
-  if (selected === CHECKS_KEY) {
-    const s = checksSection(m);
+  if (selected === WARNINGS_KEY) {
+    el.append(warningsSection(m, events));
+  } else if (selected === CHECKS_KEY) {
+    const s = checksSection(m, events.onCopy);
     if (s) el.append(s);
   } else if (selected.startsWith('#group:') || m.fits.find((f) => f.key === selected)?.group !== undefined) {
     const name = selected.startsWith('#group:') ? selected.slice('#group:'.length) : m.fits.find((f) => f.key === selected)!.name;
@@ -160,7 +195,7 @@ function main(m: PanelModel, selected: string, host: AppHost, token: number): HT
       const same = sameDataSection(m, f.key, events, pending, width);
       if (same) el.append(same);
     }
-    const checks = checksSection(m);
+    const checks = checksSection(m, events.onCopy);
     if (checks && m.fits.filter((x) => x.group === undefined).length === 1) el.append(checks);
   }
   void Promise.allSettled(pending).then(() => {

@@ -11,6 +11,7 @@ import embed, { type Result } from 'vega-embed';
 import { expressionInterpreter } from 'vega-interpreter';
 import type { PanelChart } from '../../logic/panel-model';
 import { h } from './dom';
+import { chartImageName } from '../../logic/panel-copy';
 import { themed, themeFont, themePalette } from './theme';
 import { deferredTooltipHandler, deferTooltips } from './tooltips';
 
@@ -20,6 +21,8 @@ export interface ChartEvents {
   /** A group's point was clicked (group charts). */
   onGroup?: (group: string) => void;
   onError?: (message: string) => void;
+  /** Save the drawn chart (SVG text or a PNG data URL). */
+  onSave?: (format: 'png' | 'svg', name: string, data: string) => void;
 }
 
 const live = new Set<Result>();
@@ -30,12 +33,18 @@ export function finalizeCharts(): void {
   live.clear();
 }
 
-/** A figure element that draws `chart` into itself; resolves when drawn. */
+/** A figure element that draws `chart` into itself, `maxWidth` pixels wide with its axes (0: as the spec says); resolves when drawn. */
 export function chartFigure(chart: PanelChart, maxWidth: number, events: ChartEvents): { el: HTMLElement; drawn: Promise<void> } {
   const target = h('div', { class: 'lw-chart-canvas' });
   const el = h('figure', { class: 'lw-chart', data: { chartId: chart.id }, attrs: { 'aria-label': chart.title } }, target);
   const spec = themed(chart.spec, themePalette(), themeFont()) as Record<string, unknown>;
-  if (typeof spec.width === 'number' && maxWidth > 0 && spec.width > maxWidth) spec.width = Math.max(240, Math.floor(maxWidth));
+  if (typeof spec.width === 'number' && maxWidth > 0) {
+    // the whole chart, axes included, `maxWidth` wide (extension/logic/panel-layout.ts); square charts (the Q-Q plot) stay about square
+    if (spec.height === spec.width) spec.height = Math.floor(Math.min(maxWidth - 70, 480));
+    spec.width = Math.floor(maxWidth);
+    spec.autosize = { type: 'fit-x', contains: 'padding' };
+    wrapSubtitle(spec, maxWidth);
+  }
   const tips = deferTooltips(spec); // formatted on hover (tooltips.ts)
   const drawn = embed(target, spec as never, {
     ast: true,
@@ -55,6 +64,19 @@ export function chartFigure(chart: PanelChart, maxWidth: number, events: ChartEv
         else if (typeof datum.group === 'string' && events.onGroup) events.onGroup(datum.group);
       });
       el.dataset.marks = String(countMarks(target));
+      const save = events.onSave;
+      if (save) {
+        const button = (format: 'png' | 'svg') => h('button', {
+          class: 'lw-save', data: { format }, title: `Save this chart as ${format.toUpperCase()}`, attrs: { type: 'button' },
+          onClick: () => {
+            const name = chartImageName(chart.title, format);
+            // PNG at twice the screen resolution, for print
+            const image = format === 'svg' ? result.view.toSVG() : result.view.toImageURL('png', 2);
+            void image.then((data) => save(format, name, data)).catch((e: unknown) => events.onError?.(`saving ${chart.id}: ${String(e)}`));
+          },
+        }, format.toUpperCase());
+        el.append(h('figcaption', { class: 'lw-chart-actions' }, button('png'), button('svg')));
+      }
     })
     .catch((e: unknown) => {
       el.dataset.marks = '0';
@@ -62,6 +84,29 @@ export function chartFigure(chart: PanelChart, maxWidth: number, events: ChartEv
       events.onError?.(`chart ${chart.id}: ${e instanceof Error ? e.message : String(e)}`);
     });
   return { el, drawn };
+}
+
+/** Average width of a subtitle character (11 px sans-serif), for wrapping subtitles to the chart width. */
+const SUBTITLE_CHAR_PX = 6;
+
+/** Subtitle lines wrapped at word boundaries to the chart's width (Vega cuts a long title line off). */
+function wrapSubtitle(spec: Record<string, unknown>, width: number): void {
+  const t = spec.title;
+  if (typeof t !== 'object' || t === null || !Array.isArray((t as { subtitle?: unknown }).subtitle)) return;
+  const budget = Math.max(30, Math.floor((width - 24) / SUBTITLE_CHAR_PX));
+  const lines: string[] = [];
+  for (const s of (t as { subtitle: unknown[] }).subtitle) {
+    if (typeof s !== 'string') continue;
+    let line = '';
+    for (const word of s.split(' ')) {
+      if (line && line.length + 1 + word.length > budget) {
+        lines.push(line);
+        line = word;
+      } else line = line ? `${line} ${word}` : word;
+    }
+    if (line) lines.push(line);
+  }
+  (t as { subtitle: unknown[] }).subtitle = lines;
 }
 
 /** Drawn mark items (points, lines, areas, bars) in an SVG chart. */

@@ -4,6 +4,9 @@
  * files cannot inject markup.
  */
 
+import { toTsv } from '../../logic/panel-copy';
+import { decimalPadding, paddingText } from '../../logic/panel-align';
+
 export type Child = Node | string | number | null | undefined | false;
 
 export interface Props {
@@ -59,11 +62,26 @@ export function table(
   className: string,
   headers: string[],
   rows: string[][],
-  opts: { numeric?: (col: number) => boolean; rowProps?: (row: string[], i: number) => Props; caption?: string } = {},
+  opts: { numeric?: (col: number) => boolean; rowProps?: (row: string[], i: number) => Props; caption?: string; copy?: (tsv: string, what: string) => void; what?: string } = {},
 ): HTMLTableElement {
   const head = h('thead', null, h('tr', null, ...headers.map((t, j) => h('th', { class: opts.numeric?.(j) ? 'num' : undefined, attrs: { scope: 'col' } }, t))));
-  const body = h('tbody', null, ...rows.map((r, i) => h('tr', opts.rowProps?.(r, i) ?? null, ...r.map((t, j) => (j === 0 ? h('th', { attrs: { scope: 'row' } }, t) : h('td', { class: opts.numeric?.(j) ? 'num' : undefined }, t))))));
-  return h('table', { class: className }, opts.caption ? h('caption', null, opts.caption) : null, head, body);
+  // numeric columns aligned on the decimal point (extension/logic/panel-align.ts)
+  const pads = headers.map((_, j) => (j > 0 && opts.numeric?.(j) ? decimalPadding(rows.map((r) => r[j] ?? '')) : null));
+  const cell = (t: string, i: number, j: number): HTMLElement => {
+    if (j === 0) return h('th', { attrs: { scope: 'row' } }, t);
+    if (!opts.numeric?.(j)) return h('td', null, t);
+    const pad = pads[j]?.[i];
+    const text = pad ? paddingText(pad) : '';
+    // drawn by page.css as generated content: the cell's text stays the CLI's string (copy, find, tests)
+    return h('td', { class: 'num', data: text ? { pad: text } : undefined }, t);
+  };
+  const body = h('tbody', null, ...rows.map((r, i) => h('tr', opts.rowProps?.(r, i) ?? null, ...r.map((t, j) => cell(t, i, j)))));
+  const copy = opts.copy;
+  const copyButton = copy
+    ? h('button', { class: 'lw-copy', title: 'Copy this table as tab-separated text', attrs: { type: 'button' }, onClick: () => copy(toTsv(headers, rows), opts.what ?? opts.caption ?? 'table') }, 'Copy')
+    : null;
+  const caption = opts.caption || copyButton ? h('caption', null, opts.caption ?? '', copyButton) : null;
+  return h('table', { class: className }, caption, head, body);
 }
 
 export function clear(el: Element): void {

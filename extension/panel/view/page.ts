@@ -6,7 +6,7 @@
  */
 import './page.css';
 import { isPageState, isToPage, type FromPage, type PageState } from '../../logic/panel-protocol';
-import { render, type AppState } from './app';
+import { render, type AppState, type ChartChoice } from './app';
 
 interface VsCodeApi {
   postMessage(msg: unknown): void;
@@ -18,14 +18,14 @@ declare function acquireVsCodeApi(): VsCodeApi;
 const vscode = acquireVsCodeApi();
 const root = document.getElementById('app') ?? document.body;
 const saved = vscode.getState();
-const state: AppState = isPageState(saved) ? { model: saved.model, selected: saved.selected } : {};
+const state: AppState = isPageState(saved) ? { model: saved.model, selected: saved.selected, residualKind: saved.residualKind ?? {}, xScale: saved.xScale ?? {} } : { residualKind: {}, xScale: {} };
 
 function post(msg: FromPage): void {
   vscode.postMessage(msg);
 }
 
 function save(): void {
-  const s: PageState = { model: state.model, selected: state.selected };
+  const s: PageState = { model: state.model, selected: state.selected, residualKind: state.residualKind, xScale: state.xScale };
   vscode.setState(s);
 }
 
@@ -33,6 +33,12 @@ const host = {
   post,
   select(key: string): void {
     state.selected = key;
+    save();
+    draw();
+  },
+  choose(key: string, choice: ChartChoice): void {
+    if (choice.residual) state.residualKind = { ...state.residualKind, [key]: choice.residual };
+    if (choice.xScale) state.xScale = { ...state.xScale, [key]: choice.xScale };
     save();
     draw();
   },

@@ -1,0 +1,111 @@
+// The results panel's trust views in a real VS Code (issue 15, panel part): a second
+// spec (test/fixtures/panel-trust.cjs: five declared fits, one failing at run time,
+// one stopped at its iteration limit, two rows with weight 0 and one empty cell) is
+// fitted while the first spec's panel stays open, so each spec has its own panel;
+// then, inside the new panel's webview: every declared fit in the navigation with its
+// state and the headline counts per state; the failed fit's reason; the warnings chip
+// opening the warnings (count = list); the comparison naming the fit left out; the
+// rows left out in the header and drawn hollow; the residual-kind switch (standardized
+// first for the weighted fit); copying the parameter table as tab-separated text
+// (pasted into a new editor); saving a chart as SVG through the save dialog; and the
+// panel coming back after a window reload with the reader's choices. Condition waits
+// only. Screenshots: vscode-panel-<view>.png in the output folder.
+'use strict';
+const fs = require('fs');
+const path = require('path');
+const { check, quickInput, waitForFile } = require('./harness.cjs');
+const { writeTrustScenario } = require('../fixtures/panel-trust.cjs');
+
+/** The webview (inner frame) of the results panel whose toolbar names `specName` (each try waits up to 1 s for a frame's title). */
+async function panelFrame(page, specName, timeoutMs = 90000) {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const n = await page.locator('iframe.webview.ready').count();
+    for (let i = 0; i < n; i++) {
+      const f = page.frameLocator(`iframe.webview.ready >> nth=${i}`).frameLocator('#active-frame');
+      const title = await f.locator('.lw-toolbar h1').textContent({ timeout: 1000 }).catch(() => null);
+      if (title === specName) return f;
+    }
+    if (Date.now() > deadline) throw new Error(`no results panel for ${specName}`);
+    if (n === 0) await page.locator('iframe.webview.ready').first().waitFor({ timeout: Math.max(1000, deadline - Date.now()) });
+  }
+}
+
+async function panelViews(page, ws, outDir) {
+  writeTrustScenario(ws, 'trust');
+  await quickInput(page, 'Control+P', 'trust.lsq', 'trust.lsq');
+  const editor = page.locator('.editor-group-container .monaco-editor', { hasText: 'fit newton on bench' }).last();
+  await editor.locator('.view-lines', { hasText: 'fit empty on late' }).waitFor();
+  await quickInput(page, 'F1', 'Leastwise: Fit This File', 'Leastwise: Fit This File');
+  await page.locator('.tab', { hasText: 'Results: trust.lsq' }).first().waitFor({ timeout: 90000 });
+  const tabs = await page.locator('.tab', { hasText: /^Results: / }).allInnerTexts();
+  check('a second spec gets its own results panel; the first spec\'s panel stays', tabs.some((t) => t.includes('cooling.lsq')) && tabs.some((t) => t.includes('trust.lsq')), tabs.join(' | '));
+  const frame = await panelFrame(page, 'trust.lsq');
+  await frame.locator('body[data-rendered="true"]').waitFor();
+
+  const nav = await frame.locator('button.lw-nav-item').evaluateAll((bs) => bs.map((b) => b.textContent));
+  check('every declared fit is in the navigation with its state', nav.slice(0, 5).join('|') === 'newton|line|quad|slownot converged|emptyfailed', nav.join('|'));
+  const chips = (await frame.locator('.lw-chips').innerText()).replace(/\s+/g, ' ');
+  check('the headline counts converged, not converged and failed fits of all declared', /3\/5 converged 1 not converged 1 failed/.test(chips), chips);
+
+  const rows = await frame.locator('section.lw-fit .lw-rows').innerText();
+  check('the header counts the rows left out, with why', rows === 'n = 28, 3 rows left out: 2 with weight 0 (lines 10, 22), drawn hollow; 1 with an empty or NA cell (line 27)', rows);
+  const hollow = await frame.locator('figure[data-chart-id="fit"] svg .role-mark.excluded_points_marks path').count();
+  const legend = await frame.locator('figure[data-chart-id="fit"] svg .role-legend-label').allTextContents();
+  check('rows with weight 0 drawn hollow; the bands named by a legend, not by shade', hollow === 2 && legend.includes('95% confidence band') && !/shade/.test(await frame.locator('figure[data-chart-id="fit"] svg .role-title-subtitle').textContent()), `${hollow} hollow, legend ${legend.join(', ')}`);
+  const on = await frame.locator('.lw-segmented[data-control="residual"] button.on').innerText();
+  check('the weighted fit shows standardized residuals first', on === 'standardized', on);
+  await frame.locator('.lw-segmented[data-control="residual"] button[data-value="percent"]').click();
+  await frame.locator('figure[data-chart-id="residuals-fitted"] svg .role-axis-title', { hasText: '% of the fitted value' }).first().waitFor();
+  check('the residual switch draws residuals in % of the fitted value', true);
+  await page.screenshot({ path: path.join(outDir, 'vscode-panel-fit.png') });
+
+  // copy the parameter table, paste it into a new editor
+  await frame.locator('table.lw-params caption button.lw-copy').click();
+  await page.locator('.statusbar-item', { hasText: 'Leastwise: copied' }).first().waitFor();
+  await page.keyboard.press('Control+1');
+  // the row must be "File: New Untitled Text File" itself ("File: Compare New Untitled Text Files" matches the typed words too)
+  await quickInput(page, 'F1', 'File: New Untitled Text File', 'File: New Untitled Text File');
+  await page.locator('.tab.active', { hasText: /^Untitled-\d+$/ }).first().waitFor();
+  await page.keyboard.press('Control+V');
+  const pasted = page.locator('.editor-group-container .monaco-editor .view-line', { hasText: /parameter\s+estimate\s+std\. error/ }).first();
+  await pasted.waitFor();
+  await page.locator('.editor-group-container .monaco-editor .view-line', { hasText: /^\s*tau\s+14\.\d+/ }).first().waitFor();
+  check('"Copy" puts the parameter table on the clipboard as tab-separated text (pasted into a new editor)', true, (await pasted.innerText()).replace(/\s+/g, ' ').slice(0, 80));
+
+  // the failed fit and the warnings
+  await frame.locator('button.lw-nav-item[data-key="empty"]').click();
+  const reason = await frame.locator('section.lw-missing .lw-reasons li').innerText();
+  check('the fit that failed at run time shows why', /where condition of the data statement leaves none/.test(reason), reason.slice(0, 100));
+  await page.screenshot({ path: path.join(outDir, 'vscode-panel-failed.png') });
+  const chip = frame.locator('button.lw-chip[data-open="#warnings"]');
+  const count = Number(/(\d+)/.exec(await chip.innerText())[1]);
+  await chip.click();
+  await frame.locator('section.lw-warnings-all').waitFor();
+  const listed = await frame.locator('section.lw-warnings-all li').count();
+  check('the warnings chip opens the warnings; its count is the list\'s', listed === count && count > 0, `${count} on the chip, ${listed} listed`);
+  await frame.locator('button.lw-nav-item[data-key="#checks"]').click();
+  const cmp = await frame.locator('section.lw-checks').innerText();
+  check('the comparison compares the fits that converged and names the one left out', cmp.includes('Left out of this comparison: slow did not converge'), cmp.split('\n').find((l) => l.startsWith('Left out')));
+
+  // save a chart as SVG (code-server's simple save dialog: Enter accepts the proposed path)
+  await frame.locator('button.lw-nav-item[data-key="newton"]').click();
+  await frame.locator('body[data-rendered="true"]').waitFor();
+  await frame.locator('figure[data-chart-id="fit"] button.lw-save[data-format="svg"]').click();
+  await page.waitForFunction(() => /newton-data-and-fitted-curve\.svg$/.test(document.querySelector('.quick-input-widget .quick-input-box input')?.value ?? ''));
+  await page.keyboard.press('Enter');
+  const svg = await waitForFile(path.join(ws, 'newton-data-and-fitted-curve.svg'), (t) => t.trimEnd().endsWith('</svg>'));
+  check('a chart saved as SVG next to the spec', /^<svg/.test(svg) && svg.includes('fitted curve'), `${svg.length} characters`);
+
+  // reload the window: the panels come back with the reader's choices
+  await frame.locator('button.lw-nav-item[data-key="slow"]').click();
+  await frame.locator('section.lw-fit[data-state="not_converged"]').waitFor();
+  await page.reload();
+  await page.locator('.monaco-workbench').waitFor();
+  await page.locator('.tab', { hasText: 'Results: trust.lsq' }).first().click();
+  const back = await panelFrame(page, 'trust.lsq');
+  await back.locator('section.lw-fit[data-state="not_converged"]').waitFor({ timeout: 90000 });
+  check('after a reload the panel comes back showing the fit the reader left it on', true);
+}
+
+module.exports = { panelViews };
