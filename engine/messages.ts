@@ -118,9 +118,6 @@ export const searchText = {
 export const withheldText = {
   query: (fit: string, what: string, stop: string) => `Withheld: fit ${fit} did not converge (${stop}), so its ${what} would come from values that are not estimates.`,
   /** A fit left out of a comparison of the others (engine/run/queries.ts `compare`). */
-  compareNotConverged: (stop: string) => `did not converge (${stop}); its sums of squares are not those of estimates`,
-  compareNoResult: 'has no result (see the errors)',
-  compareLeftOut: (items: { fit: string; reason: string }[]) => `Left out of this comparison: ${items.map((i) => `${i.fit} ${i.reason}`).join('; ')}.`,
   expectation: (target: string, fit: string, stop: string) => `${target}: not checked, fit ${fit} did not converge (${stop}); its values are not estimates`,
 } as const;
 

@@ -45,10 +45,11 @@ describe('extension/logic/panel-states', async () => {
     const cmp = s.run.queries.find((q) => q.kind === 'compare');
     if (cmp?.kind !== 'compare') throw new Error('no comparison');
     expect(cmp.rows.map((r) => r.fit)).toEqual(['line', 'quad']);
-    expect(cmp.leftOut).toEqual([{ fit: 'slow', reason: 'did not converge (max_iterations); its sums of squares are not those of estimates' }]);
+    expect(cmp.excluded?.map((e) => [e.fit, e.code])).toEqual([['slow', 'max_iterations']]);
     expect(cmp.fTest).toBeDefined();
     const block = s.model.queries.find((q) => q.heading.startsWith('Which model'))!;
-    expect(block.notes[0]).toBe('Left out of this comparison: slow did not converge (max_iterations); its sums of squares are not those of estimates.');
+    expect((block.lead ?? []).join(' ')).toMatch(/Left out of the ranking: slow/);
+    expect(block.notes.some((n) => n.startsWith('slow left out: the fit did not converge (max_iterations'))).toBe(true);
     expect(block.headers).toEqual(['evidence', 'line', 'quad']);
   });
 
