@@ -119,7 +119,8 @@ describe.skipIf(!haveChromium)('extension/panel trust views in Chromium', () => 
     const { page } = await open('light', model);
     await select(page, '#checks');
     const text = await page.locator('section.lw-checks').textContent();
-    expect(text).toContain('Left out of this comparison: slow did not converge (max_iterations)');
+    expect(text).toContain('Left out of the ranking: slow');
+    expect(text).toContain('slow left out: the fit did not converge (max_iterations');
     expect(text).toContain('The data');
     await page.close();
   });
