@@ -86,7 +86,7 @@ async function panelViews(page, ws, outDir) {
   check('the warnings chip opens the warnings; its count is the list\'s', listed === count && count > 0, `${count} on the chip, ${listed} listed`);
   await frame.locator('button.lw-nav-item[data-key="#checks"]').click();
   const cmp = await frame.locator('section.lw-checks').innerText();
-  check('the comparison compares the fits that converged and names the one left out', cmp.includes('Left out of this comparison: slow did not converge'), cmp.split('\n').find((l) => l.startsWith('Left out')));
+  check('the comparison compares the fits that converged and names the one left out', cmp.includes('Left out of the ranking: slow') && cmp.includes('slow left out: the fit did not converge'), cmp.split('\n').find((l) => l.startsWith('Left out')));
 
   // save a chart as SVG (code-server's simple save dialog: Enter accepts the proposed path)
   await frame.locator('button.lw-nav-item[data-key="newton"]').click();
