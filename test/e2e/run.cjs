@@ -213,10 +213,10 @@ const { panelViews } = require('./panel-views.cjs');
 
     // views across groups: plate map, overlay, residuals by group, group labels, three themes
     await groupViews(page, { repo, ws, outDir });
-    // editing: no cascade from a misspelling, unclosed ranges, bounds fixes, completion order, theme colours (editor.cjs)
-    await editorChecks(page, { repo, ws, outDir });
     // the results panel's trust views on a second spec (panel-views.cjs)
     await panelViews(page, ws, outDir);
+    // editing: no cascade from a misspelling, unclosed ranges, bounds fixes, completion order, theme colours (editor.cjs)
+    await editorChecks(page, { repo, ws, outDir });
   } catch (e) {
     failed = true;
     check('no exception while driving VS Code', false, errorSummary(e));
