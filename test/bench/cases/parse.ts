@@ -33,7 +33,7 @@ export function greenhouseSpec(lines: number): string {
       `  weight 1 / (1 + hour)`,
       `  method levenberg_marquardt`,
       `}`,
-      `predict warm${i} at hour = 6, 12, 18`,
+      `predict warm${i} at hour = 6, 12, 18 sigma 0.4`,
       `invert soil${i} at moisture = 20`,
       `expect warm${i}.lag within 2 .. 12`,
       `expect soil${i}.r2 above 0.95`,
