@@ -112,13 +112,6 @@ const DASHES: number[][] = [[1, 0], [7, 3], [2, 2], [9, 3, 2, 3], [4, 4], [12, 4
 /** Points per thin grey background line (smooth curves; keeps a 400-curve overlay near 8,000 rows). */
 const BACKGROUND_LINE_POINTS = 20;
 
-/**
- * A coordinate of a line without tooltip, to 10 significant digits: off by at most 5e-11 of the value, below
- * 1e-4 of the axis range (a tenth of a pixel on 1000) unless the values sit 1e6 times farther from zero than
- * they spread.
- */
-const drawn = (v: number): number => Number(v.toPrecision(10));
-
 /** Name of the legend selection in the overlay (a fixed name, never user text). */
 export const LEGEND_SELECTION = 'picked';
 
@@ -135,9 +128,8 @@ export function overlayChart(set: CurveSet, opts: GroupChartOptions = {}): Group
   const labels = choice.shown.map((c) => c.label);
   const perCurve = pointsPerCurve(choice.shown.length);
   const points = choice.shown.flatMap((c, order) => thinPoints(c.points, perCurve).map((p) => ({ label: c.label, order, row: p.row, x: p.x, y: p.y, fitted: p.fitted, residual: p.residual })));
-  // lines carry no tooltip: 10 significant digits (`drawn`) draw them as exactly and shorten the data
-  const lines = choice.shown.flatMap((c, order) => thinLine(c.line).map((q) => ({ label: c.label, order, x: drawn(q.x), fitted: drawn(q.fitted) })));
-  const behind = choice.background.flatMap((c) => thinLine(c.line, BACKGROUND_LINE_POINTS).map((q) => ({ label: c.label, x: drawn(q.x), fitted: drawn(q.fitted) })));
+  const lines = choice.shown.flatMap((c, order) => thinLine(c.line).map((q) => ({ label: c.label, order, x: q.x, fitted: q.fitted })));
+  const behind = choice.background.flatMap((c) => thinLine(c.line, BACKGROUND_LINE_POINTS).map((q) => ({ label: c.label, x: q.x, fitted: q.fitted })));
   const logX = prefersLogX(points as unknown as PointRow[], [...lines, ...behind] as unknown as BandRow[]);
   const xEnc: Json = { field: 'x', type: 'quantitative', axis: axisTitle(set.predictor), scale: logX ? { type: 'log' } : { zero: false } };
   const yAxis = axisTitle(set.response);
