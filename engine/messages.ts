@@ -413,3 +413,14 @@ export const adjustedText = {
   setAside: (a: { family: number; level: number; pValue: number }) =>
     `; not upheld across the fit's ${a.family} groups by Holm's step-down procedure at family-wise level ${num(a.level)} (Holm 1979): with this many groups, chance alone gives such a p (${num(a.pValue)}) now and then`,
 } as const;
+
+/** How a fit's points are weighted, in words (views' model line, derived quantities' notes). */
+export const weightingText = {
+  describe: (w: { kind: 'none' | 'weight' | 'sigma'; expression: string | null }) =>
+    w.kind === 'none' ? 'none (every point counts alike)'
+      : w.kind === 'weight' ? `relative weights w = ${w.expression} (residual variance estimated; SSR, R² and RMSE are weighted)`
+        : `absolute σ = ${w.expression} (weights 1/σ²; SSR is χ², RMSE in σ units)`,
+  /** A derived quantity reads numbers of a weighted fit whose value changes with the weighting. */
+  derivedNote: (reads: readonly string[], fit: string, w: { kind: 'none' | 'weight' | 'sigma'; expression: string | null }) =>
+    `${reads.join(', ')} ${reads.length === 1 ? 'depends' : 'depend'} on the weighting of ${fit} (${w.kind === 'sigma' ? `σ = ${w.expression}: on the scale of σ` : `weight ${w.expression}: on the weighted scale`}), so this value changes when the weighting does`,
+} as const;

@@ -56,6 +56,7 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
     h('header', { class: 'lw-fit-head' },
       h('h2', null, fit.label),
       h('p', { class: 'lw-muted' }, fit.heading),
+      fit.model ? h('p', { class: 'lw-muted' }, fit.model) : null,
       h('p', { class: fit.converged ? 'lw-stop' : 'lw-stop lw-bad' }, fit.stop),
       fit.search ? h('p', { class: 'lw-stop' }, fit.search) : null,
       fit.robust ? h('p', { class: 'lw-stop' }, fit.robust) : null,
