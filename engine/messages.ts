@@ -408,6 +408,8 @@ export const compareText = {
 
 /** What a per-group residual warning says of its decision across the groups (engine/groups/flags.ts `adjustGroupWarnings`). */
 export const adjustedText = {
+  keptMessage: (message: string, a: { family: number; level: number; pValue: number }) => `${message}${adjustedText.kept(a)}`,
+  setAsideMessage: (message: string, a: { family: number; level: number; pValue: number }) => `${message}${adjustedText.setAside(a)}`,
   kept: (a: { family: number; level: number; pValue: number }) =>
     `; upheld across the fit's ${a.family} groups by Holm's step-down procedure at family-wise level ${num(a.level)} (Holm 1979)`,
   setAside: (a: { family: number; level: number; pValue: number }) =>
