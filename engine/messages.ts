@@ -436,6 +436,8 @@ export const compareText = {
 
 /** What a per-group residual warning says of its decision across the groups (engine/groups/flags.ts `adjustGroupWarnings`). */
 export const adjustedText = {
+  keptMessage: (message: string, a: { family: number; level: number; pValue: number }) => `${message}${adjustedText.kept(a)}`,
+  setAsideMessage: (message: string, a: { family: number; level: number; pValue: number }) => `${message}${adjustedText.setAside(a)}`,
   kept: (a: { family: number; level: number; pValue: number }) =>
     `; upheld across the fit's ${a.family} groups by Holm's step-down procedure at family-wise level ${num(a.level)} (Holm 1979)`,
   setAside: (a: { family: number; level: number; pValue: number }) =>
@@ -486,3 +488,14 @@ export const derivedProfileText = {
   differs: (name: string, profile: string, wald: string) =>
     `the curvature of the model makes the symmetric interval misleading for ${name}: the profile interval is ${profile}, the symmetric one ${wald}; use the profile interval`,
 };
+
+/** How a fit's points are weighted, in words (views' model line, derived quantities' notes). */
+export const weightingText = {
+  describe: (w: { kind: 'none' | 'weight' | 'sigma'; expression: string | null }) =>
+    w.kind === 'none' ? 'none (every point counts alike)'
+      : w.kind === 'weight' ? `relative weights w = ${w.expression} (residual variance estimated; SSR, R² and RMSE are weighted)`
+        : `absolute σ = ${w.expression} (weights 1/σ²; SSR is χ², RMSE in σ units)`,
+  /** A derived quantity reads numbers of a weighted fit whose value changes with the weighting. */
+  derivedNote: (reads: readonly string[], fit: string, w: { kind: 'none' | 'weight' | 'sigma'; expression: string | null }) =>
+    `${reads.join(', ')} ${reads.length === 1 ? 'depends' : 'depend'} on the weighting of ${fit} (${w.kind === 'sigma' ? `σ = ${w.expression}: on the scale of σ` : `weight ${w.expression}: on the weighted scale`}), so this value changes when the weighting does`,
+} as const;

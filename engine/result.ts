@@ -570,8 +570,27 @@ export interface FitResult {
   profile?: ProfileSummary;
   /** The bootstrap, when the fit asked for it (`bootstrap N`; additive, optional). */
   bootstrap?: BootstrapSummary;
+  /** The model equation and the weighting as the spec states them (additive, optional; set by the runner, engine/runner/run-plan.ts `finishRun`). */
+  model?: FitModelText;
   /** Milliseconds spent fitting (not deterministic; views may omit it). */
   elapsedMs: number;
+}
+
+/** The model equation and how the points are weighted, as every view states them. */
+export interface FitModelText {
+  /** `response = model`, as the spec wrote it (fixed parameters by name). */
+  equation: string;
+  weighting: Weighting;
+}
+
+/**
+ * How the points of a fit are weighted: `none` (ordinary least squares), `weight` (relative weights wᵢ, the
+ * residual variance still estimated: weighted SSR, R² and RMSE), `sigma` (absolute σᵢ, weights 1/σᵢ²: SSR is χ²,
+ * RMSE is in σ units). `expression` is the spec's weight or sigma expression.
+ */
+export interface Weighting {
+  kind: 'none' | 'weight' | 'sigma';
+  expression: string | null;
 }
 
 /** What a robust loss did (engine/solve/loss.ts). */

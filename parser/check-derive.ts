@@ -70,9 +70,11 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
         return zero;
       }
       const fit = lookupFit(env, head);
-      const [member, extra] = members;
-      if (extra) {
-        env.r.report('unknown_target', extra.name === 'se' ? MSG.seInDerive : MSG.derivePathTooLong, extra.range);
+      const [member, extra, beyond] = members;
+      // FIT.PARAM.se: the parameter's standard error, a fixed number (engine/run/derived.ts); nothing else after a member
+      const isSe = extra?.name === 'se' && !beyond && (!fit || fit.params.includes(member.name));
+      if (extra && !isSe) {
+        env.r.report('unknown_target', extra.name === 'se' && !beyond ? MSG.seNotParameter(member.name) : MSG.derivePathTooLong, (beyond ?? extra).range);
         use.broken = true;
         return zero;
       }
@@ -81,6 +83,7 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
         return zero;
       }
       addFit(fits, fit.plan.name);
+      if (isSe) return { kind: 'result', fit: fit.plan.name, of: 'stderr', name: member.name, range };
       if (fit.params.includes(member.name)) return { kind: 'result', fit: fit.plan.name, of: 'estimate', name: member.name, range };
       if (isStatistic(member.name)) return { kind: 'result', fit: fit.plan.name, of: 'statistic', name: member.name, range };
       env.r.report('unknown_target', MSG.unknownTarget(member.name, fit.plan.name), member.range, env.suggester.suggest(member.name, [...fit.params, ...STATISTICS]));

@@ -167,7 +167,7 @@ export const MSG = {
   selfReference: (name: string) => `derived quantity ${q(name)} cannot use itself`,
   fitNeedsMember: (fit: string) => `${q(fit)} is a fit; name one of its results: ${fit}.PARAM or ${fit}.STAT`,
   derivedNotFit: (name: string) => `${q(name)} is a derived quantity, not a fit; write ${name} without a member`,
-  seInDerive: 'a standard error cannot enter a derived quantity (its own standard error comes from the fit covariance); use FIT.PARAM or FIT.STAT',
+  seNotParameter: (name: string) => `.se follows a parameter (FIT.PARAM.se); ${q(name)} is not a parameter of the fit`,
   derivePathTooLong: 'expected FIT.PARAM or FIT.STAT',
   unknownDerived: (name: string) => `no derived quantity named ${q(name)}`,
   unknownDerivedPath: (name: string) => `after a derived quantity only .se (standard error), .lower or .upper (its confidence interval) may follow, not ${q(name)}`,

@@ -94,7 +94,7 @@ export function exprText(expr: Expr): string {
     case 'text':
       return `"${expr.value}"`;
     case 'result':
-      return `${expr.fit}.${expr.name}`;
+      return expr.of === 'stderr' ? `${expr.fit}.${expr.name}.se` : `${expr.fit}.${expr.name}`;
     case 'derived':
       return expr.name;
     case 'negate':

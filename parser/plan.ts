@@ -71,6 +71,8 @@ export type Expr =
   | { kind: 'param'; name: string; range?: Range }
   | { kind: 'result'; fit: string; of: 'estimate'; name: string; range?: Range }
   | { kind: 'result'; fit: string; of: 'statistic'; name: StatisticName; range?: Range }
+  /** `FIT.PARAM.se` in derive: the parameter's standard error, taken as a fixed number like a statistic (additive). */
+  | { kind: 'result'; fit: string; of: 'stderr'; name: string; range?: Range }
   | { kind: 'derived'; name: string; range?: Range }
   | { kind: 'negate'; arg: Expr; range?: Range }
   | { kind: 'binary'; op: BinaryOp; left: Expr; right: Expr; range?: Range }

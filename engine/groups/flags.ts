@@ -214,8 +214,8 @@ export function adjustGroupWarnings(results: readonly FitResult[]): FitResult[] 
       const aside: FitWarning[] = [...(f.setAside ?? [])];
       for (const w of f.warnings) {
         if (w.code !== spec.code) warnings.push(w);
-        else if (keep) warnings.push({ ...w, message: `${w.message}${adjustedText.kept(adjusted)}`, adjusted });
-        else aside.push({ ...w, message: `${w.message}${adjustedText.setAside(adjusted)}`, adjusted });
+        else if (keep) warnings.push({ ...w, message: adjustedText.keptMessage(w.message, adjusted), adjusted });
+        else aside.push({ ...w, message: adjustedText.setAsideMessage(w.message, adjusted), adjusted });
       }
       return { ...f, warnings, ...(aside.length ? { setAside: aside } : {}) };
     });

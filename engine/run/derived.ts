@@ -16,11 +16,14 @@
  * numbers it reads, so its Jacobian row is g.
  *
  * Assumptions, stated in every result's note:
- * - statistics (`rmse`, `r2`, `n`, ...) are fixed numbers; their own sampling
+ * - statistics (`rmse`, `r2`, `n`, ...) and standard errors read as
+ *   `FIT.PARAM.se` (e.g. LOD = 3.3·se(intercept)/slope) are fixed numbers; their own sampling
  *   uncertainty is not propagated (for LOD = 3.3·s/slope this understates the
  *   uncertainty: s alone has a relative standard error of about 1/√(2·dof));
  * - parameters of different fits are independent (zero cross-covariance),
- *   which holds when the fits read different data.
+ *   which holds when the fits read different data;
+ * - a number on a weighted fit's scale (its statistics but the counts, its
+ *   standard errors) is noted: the value then changes with the weighting.
  *
  * Interval: value ± q·se. When every free parameter read comes from one fit,
  * q = t_{(1+level)/2, dof} with that fit's level and degrees of freedom (as
@@ -43,7 +46,7 @@
  */
 import type { DerivedPlan, Expr } from '../../parser/plan';
 import { compileModel, type CompiledModel } from '../compile';
-import { derivedText, num } from '../messages';
+import { derivedText, num, weightingText } from '../messages';
 import type { DerivedResult, FitResult } from '../result';
 import { normalQuantile, tCritical } from '../stats/distributions';
 import { statisticValue } from './expectations';
@@ -56,6 +59,17 @@ export const NEGATIVE_VARIANCE_TOLERANCE = 1e-10;
 const FALLBACK_LEVEL = 0.95;
 
 type Result = Extract<Expr, { kind: 'result' }>;
+
+/** `FIT.NAME` or `FIT.PARAM.se`, as the spec writes it. */
+const slotText = (s: { fit: string; name: string; of: Result['of'] }): string => (s.of === 'stderr' ? `${s.fit}.${s.name}.se` : `${s.fit}.${s.name}`);
+
+/**
+ * Numbers whose value depends on how the points are weighted, beyond the estimates: a parameter's standard error
+ * and every statistic but the counts (n, dof, iterations). E.g. 3.3·rmse/slope is 3.23, 0.45 or 0.14 for no
+ * weights, 1/x and 1/x² on one calibration: rmse is in weighted units.
+ */
+const COUNT_STATISTICS: ReadonlySet<string> = new Set(['n', 'dof', 'iterations']);
+const isOnWeightedScale = (s: { name: string; of: Result['of'] }): boolean => s.of === 'stderr' || (s.of === 'statistic' && !COUNT_STATISTICS.has(s.name));
 
 interface Slot {
   fit: string;
@@ -224,16 +238,27 @@ function evaluate(p: Prepared, pick: ReadonlyMap<string, FitResult>, group: stri
     } else {
       const k = r.parameters.findIndex((q) => q.name === s.name);
       if (k < 0) return missing(derivedText.noParameter(s.fit, s.name));
-      theta[j] = r.parameters[k].estimate;
-      if (!r.parameters[k].fixed) free[j] = k;
+      // FIT.PARAM.se: the standard error as a fixed number (like a statistic); the estimate: free unless fixed
+      if (s.of === 'stderr') theta[j] = r.parameters[k].stderr ?? NaN;
+      else {
+        theta[j] = r.parameters[k].estimate;
+        if (!r.parameters[k].fixed) free[j] = k;
+      }
     }
-    if (!Number.isFinite(theta[j])) return missing(derivedText.notComputable(`${s.fit}.${s.name}`));
+    if (!Number.isFinite(theta[j])) return missing(derivedText.notComputable(slotText(s)));
   }
   const { value, grad: g } = rawNumbers(p, theta, group, ctx.memo, ctx.defs, ctx.grouped);
   if (!Number.isFinite(value)) return missing(derivedText.notFinite);
 
-  const statistics = p.slots.filter((s) => s.of === 'statistic').map((s) => `${s.fit}.${s.name}`);
+  const statistics = p.slots.filter((s) => s.of !== 'estimate').map(slotText);
   if (statistics.length) notes.push(derivedText.fixedStatistics(statistics));
+  // numbers on a weighted fit's scale (its rmse, ssr, standard errors, ...): the value changes with the weighting
+  for (const fit of p.fits) {
+    const w = pick.get(fit)!.model?.weighting;
+    if (!w || w.kind === 'none') continue;
+    const scaled = p.slots.filter((s) => s.fit === fit && isOnWeightedScale(s)).map(slotText);
+    if (scaled.length) notes.push(weightingText.derivedNote(scaled, fit, w));
+  }
   const paramFits = p.fits.filter((fit) => p.slots.some((s, j) => s.fit === fit && free[j] >= 0));
   const result: Numbers = { value, stderr: null, lower: null, upper: null, level: null, dof: null, note: '' };
   const finish = (lead: string): Numbers => ({ ...result, note: sentence([lead, ...notes].join('; ')) });

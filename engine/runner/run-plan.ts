@@ -18,6 +18,7 @@
  * failing group never stops the others, and estimates are bit-identical;
  * `runPlanSync` always fits in this thread.
  */
+import { fitModelText } from '../run/model-text';
 import { adjustGroupWarnings } from '../groups/flags';
 import { createHash } from 'node:crypto';
 import type { FitPlan, Plan } from '../../parser/plan';
@@ -273,8 +274,16 @@ export interface FittedRun {
  */
 export function finishRun(plan: Plan, run: FittedRun): RunResult {
   const { fitPlans, results, errors } = run;
-  // per-group fits: their groups' residual warnings decided across the groups (Holm; engine/groups/flags.ts)
-  for (const [name, list] of results) if (fitPlans.get(name)?.groupBy !== undefined) results.set(name, adjustGroupWarnings(list));
+  for (const [name, list] of results) {
+    const fp = fitPlans.get(name);
+    if (!fp) continue;
+    // per-group fits: their groups' residual warnings decided across the groups (Holm; engine/groups/flags.ts)
+    const decided = fp.groupBy !== undefined ? adjustGroupWarnings(list) : list;
+    // the model equation and the weighting, stated in every view (engine/front/views/summary.ts modelLine)
+    const model = fitModelText(fp);
+    // (set last, after any earlier one is removed, so a gathered result has the keys in a single run's order)
+    results.set(name, decided.map(({ model: _, ...r }) => ({ ...r, model })));
+  }
   const ran = (name: string) => fitPlans.has(name);
   const queries = plan.queries.filter((q) => (q.kind === 'compare' ? q.fits.every(ran) : ran(q.fit)));
   const q = runQueries(queries, { fitPlans: fitPlans as Map<string, FitPlan>, results });

@@ -17,7 +17,7 @@ import type { FitResult, RunResult } from '../../engine/result';
 import { chartSpecs, type ChartSpec } from '../../engine/front/views/charts';
 import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from '../../engine/front/views/profile';
 import { BOOTSTRAP_HEADERS, bootstrapLine, bootstrapRows, derivedIntervalBlock, hasBootstrapTable } from '../../engine/front/views/bootstrap';
-import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, robustLine, searchLine, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
+import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, modelLine, robustLine, searchLine, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import type { GroupFlag } from '../../engine/groups/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
@@ -50,6 +50,8 @@ export interface PanelFit {
   group?: string;
   label: string;
   heading: string;
+  /** The model equation and the weighting (engine/front/views/summary.ts `modelLine`), when the result carries them. */
+  model: string | null;
   stop: string;
   /** The multi-start search's sentence (engine/front/views/summary.ts `searchLine`), when one ran. */
   search: string | null;
@@ -249,6 +251,7 @@ export function panelFit(f: FitResult, withCharts: boolean): PanelFit {
     ...(f.group !== undefined ? { group: f.group } : {}),
     label: fitLabel(f),
     heading: fitHeading(f),
+    model: modelLine(f),
     stop: stopLine(f),
     search: searchLine(f),
     robust: robustLine(f),

@@ -15,10 +15,11 @@ import { writeGroupFixture, type GroupFixture } from './groups-fixture';
 
 /** FitResults without the clock-dependent field. */
 /**
- * Without the clock, and with the groups' residual warnings decided across the groups as the runner does after
- * fitting them (engine/groups/flags.ts adjustGroupWarnings; idempotent, so a runner's result is unchanged by it).
+ * Without the clock and the model text the runner adds (FitResult.model), and with the groups' residual warnings
+ * decided across the groups as the runner does after fitting them (engine/groups/flags.ts adjustGroupWarnings;
+ * idempotent, so a runner's result is unchanged by it).
  */
-const strip = (fits: FitResult[]) => adjustGroupWarnings(fits).map(({ elapsedMs: _e, ...rest }) => rest);
+const strip = (fits: FitResult[]) => adjustGroupWarnings(fits).map(({ elapsedMs: _e, model: _m, ...rest }) => rest);
 
 /** The IEEE-754 bit patterns of every estimate and standard error, for bit-identity checks. */
 function bits(fits: FitResult[]): string[] {

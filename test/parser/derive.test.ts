@@ -91,6 +91,19 @@ describe('parser: derive statement (plan)', () => {
     ]);
   });
 
+  it('reads a standard error FIT.PARAM.se as a number (regression: it was refused); .se after a statistic or a longer path is not', () => {
+    const { plan, diagnostics } = analyze(FITS + 'derive lod = 3.3 * cal.blank.se / cal.slope');
+    expect(diagnostics).toEqual([]);
+    const e = plan.derived![0].expr;
+    expect(e.kind === 'chain' || e.kind === 'binary').toBe(true);
+    expect(JSON.stringify(e)).toContain('"kind":"result","fit":"cal","of":"stderr","name":"blank"');
+    expect(plan.derived![0].text).toBe('3.3 * cal.blank.se / cal.slope');
+    const bad = analyze(FITS + 'derive x = cal.rmse.se');
+    expect(bad.diagnostics.map((d) => [d.code, d.message])).toEqual([['unknown_target', ".se follows a parameter (FIT.PARAM.se); 'rmse' is not a parameter of the fit"]]);
+    expect(analyze(FITS + 'derive x = cal.blank.se.se').diagnostics.map((d) => d.code)).toEqual(['unknown_target']);
+    expect(analyze(FITS + 'derive x = cal.blank.lower').diagnostics.map((d) => d.code)).toEqual(['unknown_target']);
+  });
+
   it('leaves a derived quantity with errors out of the plan, but reports its later uses only once', () => {
     const { plan, diagnostics } = analyze(FITS + 'derive bad = cal.nope\nderive good = bad * 2\nexpect bad below 1');
     expect(diagnostics.map((d) => d.code)).toEqual(['unknown_target']);

@@ -357,7 +357,9 @@ describe('parser/check diagnostics', () => {
     expectAt(spec({ after: 'derive k = «g».b\nfit g on d {\n  model y = b * x\n  param b\n}' }), 'declared_later');
     expect(expectAt(spec({ after: 'derive k = 3 * f.«aa»' }), 'unknown_target').suggestions).toEqual(['a']);
     expect(expectAt(spec({ after: 'derive k = f.«rmes» / f.a' }), 'unknown_target').suggestions).toContain('rmse');
-    expectAt(spec({ after: 'derive k = f.a.«se»' }), 'unknown_target');
+    // FIT.PARAM.se reads the standard error (a fixed number); after a statistic, .se is refused
+    expect(analyze(spec({ after: 'derive k = f.a.se' })).diagnostics).toEqual([]);
+    expectAt(spec({ after: 'derive k = f.r2.«se»' }), 'unknown_target');
     expectAt(spec({ after: 'derive k = 2 * «f»' }), 'unknown_target');
     expectAt(spec({ after: 'derive k = f.a\nderive m = «k».a' }), 'unknown_target');
   });

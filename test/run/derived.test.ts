@@ -323,3 +323,73 @@ expect nope above 0`;
 });
 
 type DerivedPlanExpr = Parameters<typeof runDerived>[0][number]['expr'];
+
+describe('run/derived: a standard error in derive, and numbers that depend on the weighting', () => {
+  // invented calibration with scatter growing with the level (the shape of the reported case): 7 levels in triplicate
+  const levels = [0.5, 1, 2, 5, 10, 20, 50];
+  const e = normals(77, levels.length * 3);
+  const calRows = levels.flatMap((x, i) => [0, 1, 2].map((k) => [x, 0.01 + 0.05 * x + 0.002 * x * e[3 * i + k]]));
+  writeCsv(dir, 'wcal.csv', ['x', 'y'], calRows);
+  const spec = (weight: string) => `data d = "wcal.csv"
+fit cal on d {
+  model y = intercept + slope * x
+  param intercept
+  param slope${weight ? `\n  weight ${weight}` : ''}
+}
+derive lod = 3.3 * cal.intercept.se / cal.slope
+derive lod_rmse = 3.3 * cal.rmse / cal.slope
+`;
+
+  /** Weighted least squares by hand with ml-matrix: β = (XᵀWX)⁻¹XᵀWy, s² = Σw r²/(n − 2), se(β₀) = √(s²·[(XᵀWX)⁻¹]₀₀). */
+  function wls(w: (x: number) => number): { b0: number; b1: number; se0: number } {
+    const X = new Matrix(calRows.map(([x]) => [1, x]));
+    const W = Matrix.diag(calRows.map(([x]) => w(x)));
+    const y = Matrix.columnVector(calRows.map(([, yv]) => yv));
+    const xtwxInv = inverse(X.transpose().mmul(W).mmul(X));
+    const beta = xtwxInv.mmul(X.transpose()).mmul(W).mmul(y);
+    const r = y.clone().sub(X.mmul(beta));
+    const s2 = calRows.reduce((a, [x], i) => a + w(x) * r.get(i, 0) ** 2, 0) / (calRows.length - 2);
+    return { b0: beta.get(0, 0), b1: beta.get(1, 0), se0: Math.sqrt(s2 * xtwxInv.get(0, 0)) };
+  }
+
+  it('3.3 · intercept.se / slope for no weights, 1/x and 1/x², against weighted least squares by hand; weighted ones carry the note', async () => {
+    const cases: [string, (x: number) => number][] = [['', () => 1], ['1 / x', (x) => 1 / x], ['1 / x ^ 2', (x) => 1 / x ** 2]];
+    const lods: number[] = [];
+    for (const [weight, w] of cases) {
+      const { result } = await runSpec(spec(weight), dir);
+      const lod = result.derived!.find((d) => d.name === 'lod')!;
+      const ref = wls(w);
+      // reference: ml-matrix 6.x normal equations (a general-purpose library), well conditioned here
+      expect(Math.abs(lod.value! / (3.3 * ref.se0 / ref.b1) - 1)).toBeLessThan(1e-9);
+      expect(lod.note).toMatch(/cal\.intercept\.se taken as fixed/);
+      const rmseNote = result.derived!.find((d) => d.name === 'lod_rmse')!.note;
+      if (weight) {
+        expect(lod.note).toContain(`cal.intercept.se depends on the weighting of cal (weight ${weight}: on the weighted scale), so this value changes when the weighting does`);
+        expect(rmseNote).toContain(`cal.rmse depends on the weighting of cal (weight ${weight}`);
+      } else {
+        expect(lod.note).not.toMatch(/weighting/);
+        expect(rmseNote).not.toMatch(/weighting/);
+      }
+      expect(result.fits[0].model).toEqual({ equation: 'y = intercept + slope * x', weighting: weight ? { kind: 'weight', expression: weight } : { kind: 'none', expression: null } });
+      const validate = new Ajv().compile(schema);
+      expect(validate(resultToJsonValue(result)), JSON.stringify(validate.errors)).toBe(true);
+      lods.push(lod.value!);
+    }
+    // the weighting moves the number a lot: that is what the note is for
+    expect(new Set(lods.map((v) => v.toPrecision(3))).size).toBe(3);
+  });
+
+  it('a σ-weighted fit: the note says the number is on the scale of σ', async () => {
+    writeCsv(dir, 'scal.csv', ['x', 'y', 'sd'], calRows.map(([x, yv]) => [x, yv, 0.002 * x]));
+    const { result } = await runSpec(`data d = "scal.csv"
+fit cal on d {
+  model y = intercept + slope * x
+  param intercept
+  param slope
+  sigma sd
+}
+derive lod = 3.3 * cal.rmse / cal.slope
+`, dir);
+    expect(result.derived![0].note).toContain('cal.rmse depends on the weighting of cal (σ = sd: on the scale of σ)');
+  });
+});

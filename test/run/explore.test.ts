@@ -36,7 +36,8 @@ describe('run/fit multi-start search', () => {
     const json = resultToJsonValue(result);
     const v = validateResult(json);
     expect(v.ok, v.errors).toBe(true);
-    expect(fitTextLines(fit)[2]).toMatch(/^ {2}Search: \d+ starting points, \d+ refined, \d+ distinct minim/);
+    // lines: heading, model and weighting, stop, search
+    expect(fitTextLines(fit)[3]).toMatch(/^ {2}Search: \d+ starting points, \d+ refined, \d+ distinct minim/);
   });
 
   it('with given starts, searches only when asked, and warns that the start leads to a higher minimum', async () => {

@@ -16,7 +16,7 @@ import { jointBlocks } from './joint';
 import type { FitResult, RunResult } from '../../result';
 import { DIGITS, formatLevel, formatNumber } from '../../format';
 import {
-  derivedBlock, derivedLabel, expectationRows, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL,
+  derivedBlock, derivedLabel, expectationRows, expectationTally, fitHeading, fitLabel, goodnessEntries, LOSS_LABEL, METHOD_LABEL, modelLine,
   notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, robustLine, searchLine, stopLine, warningLines,
 } from './summary';
 import { append, markdownTable } from './table';
@@ -131,7 +131,8 @@ function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: n
 function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
   const search = searchLine(fit);
   const robust = robustLine(fit);
-  const lines = [`## ${mdText(fitHeading(fit))}`, '', mdText(stopLine(fit) + '.'), ...(search ? ['', mdText(search + '.')] : []), ...(robust ? ['', mdText(robust + '.')] : []), ''];
+  const model = modelLine(fit);
+  const lines = [`## ${mdText(fitHeading(fit))}`, '', ...(model ? [mdText(model + '.'), ''] : []), mdText(stopLine(fit) + '.'), ...(search ? ['', mdText(search + '.')] : []), ...(robust ? ['', mdText(robust + '.')] : []), ''];
   const marked = notFittedNote(fit);
   if (marked) lines.push(`> **${mdText(marked)}**`, '');
   else lines.push(`Confidence level ${formatLevel(fit.level)}; intervals use Student's t with ${fit.goodness.dof} degrees of freedom.`, '');

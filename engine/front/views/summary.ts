@@ -3,7 +3,8 @@
  * Markdown views (they differ only in layout). Digits follow engine/format.ts,
  * thresholds behind the notes engine/thresholds.ts.
  */
-import type { DerivedResult, ExpectationResult, FitResult, QueryResult, RunResult } from '../../result';
+import type { DerivedResult, ExpectationResult, FitResult, QueryResult, RunResult, Weighting } from '../../result';
+import { weightingText } from '../../messages';
 import type { Align } from './table';
 import { LOSSES, LOSS_SPECS } from '../../../parser/registry/losses';
 import { METHOD_SPECS } from '../../../parser/registry/methods';
@@ -150,16 +151,16 @@ export function goodnessEntries(fit: FitResult): Entry[] {
     { label: 'points (n)', value: formatInteger(g.n), note: fit.rowsDropped > 0 ? `${fit.rowsDropped} rows dropped` : undefined },
     { label: 'free parameters (p)', value: formatInteger(g.p) },
     { label: 'degrees of freedom', value: formatInteger(g.dof) },
-    { label: 'sum of squared residuals (SSR)', value: formatNumber(g.ssr), note: fit.sigmaAbsolute ? 'weighted by 1/σ²' : undefined },
-    { label: 'residual standard deviation (RMSE)', value: formatNumber(g.rmse) },
-    { label: 'R²', value: formatNumber(g.r2), note: r2Caveat(fit) ?? undefined },
+    { label: 'sum of squared residuals (SSR)', value: formatNumber(g.ssr), note: weightedNote(fit, 'ssr') },
+    { label: 'residual standard deviation (RMSE)', value: formatNumber(g.rmse), note: weightedNote(fit, 'rmse') },
+    { label: 'R²', value: formatNumber(g.r2), note: joinNotes(weightedNote(fit, 'r2'), r2Caveat(fit)) },
     { label: 'adjusted R²', value: formatNumber(g.adjR2) },
   ];
   if (fit.sigmaAbsolute) {
     e.push({ label: 'χ²', value: formatNumber(g.chi2) });
     e.push({ label: 'reduced χ² (χ²/dof)', value: formatNumber(g.chi2Reduced, DIGITS.statistic), note: 'near 1 when σ matches the scatter' });
   }
-  e.push({ label: 'AIC', value: formatNumber(g.aic) }, { label: 'AICc', value: formatNumber(g.aicc) }, { label: 'BIC', value: formatNumber(g.bic) });
+  e.push({ label: 'AIC', value: formatNumber(g.aic), note: aicConvention(fit) }, { label: 'AICc', value: formatNumber(g.aicc) }, { label: 'BIC', value: formatNumber(g.bic) });
   e.push({ label: 'condition number', value: formatNumber(g.condition, DIGITS.magnitude), note: isLargeCondition(g.condition) ? `large (above ${formatNumber(THRESHOLDS.condition)}): parameters nearly redundant, digits may be lost` : undefined });
   const r = fit.residuals;
   if (r.durbinWatson !== null) e.push({ label: 'Durbin–Watson', value: formatNumber(r.durbinWatson, DIGITS.magnitude), note: durbinWatsonHint(r.durbinWatson, fit) });
@@ -167,6 +168,45 @@ export function goodnessEntries(fit: FitResult): Entry[] {
   if (r.shapiroWilk) e.push({ label: 'Shapiro–Wilk p', value: formatP(r.shapiroWilk.pValue), note: `W = ${formatNumber(r.shapiroWilk.w, DIGITS.statistic)}` });
   e.push(...influenceEntries(fit));
   return e;
+}
+
+/** Notes joined with '; ', or undefined when there are none. */
+const joinNotes = (...notes: (string | null | undefined)[]): string | undefined => notes.filter((n): n is string => !!n).join('; ') || undefined;
+
+/** The weighting of a fit: the runner's record (`FitResult.model`), else what the result itself says (σ absolute, weights present). */
+export function weightingOf(fit: FitResult): Weighting {
+  if (fit.model) return fit.model.weighting;
+  if (fit.sigmaAbsolute) return { kind: 'sigma', expression: null };
+  return fit.points.weight ? { kind: 'weight', expression: null } : { kind: 'none', expression: null };
+}
+
+/**
+ * How a weighted fit's SSR, RMSE and R² are to be read (engine/stats/goodness.ts): from the weighted residuals
+ * √wᵢ(yᵢ − ŷᵢ); with absolute σ (wᵢ = 1/σᵢ²) SSR is χ² and RMSE is in units of σ. Undefined when unweighted.
+ */
+export function weightedNote(fit: FitResult, what: 'ssr' | 'rmse' | 'r2'): string | undefined {
+  const w = weightingOf(fit).kind;
+  if (w === 'none') return undefined;
+  if (what === 'ssr') return w === 'sigma' ? 'weighted by 1/σ² (this is χ²)' : 'weighted: Σ w·residual²';
+  if (what === 'rmse') return w === 'sigma' ? 'in σ units, not response units: √(χ²/dof), near 1 when σ matches the scatter' : 'weighted: √(Σ w·residual²/dof), in response units for w = 1';
+  return 'weighted, about the weighted mean';
+}
+
+/**
+ * The convention behind AIC (engine/stats/goodness.ts): the Gaussian log-likelihood with all its constants, and
+ * k estimated quantities — the p free parameters plus σ when the scatter is estimated, p alone with absolute σ.
+ */
+export function aicConvention(fit: FitResult): string {
+  const p = fit.goodness.p;
+  return fit.sigmaAbsolute
+    ? `k = p = ${p}: σ given, not estimated; Gaussian log-likelihood with its constants`
+    : `k = p + 1 = ${p + 1}: σ counted as an estimated parameter; Gaussian log-likelihood with its constants`;
+}
+
+/** The model equation and the weighting, one line for every view's header (null when the result does not carry them). */
+export function modelLine(fit: FitResult): string | null {
+  if (!fit.model) return null;
+  return `Model: ${fit.model.equation}; weighting: ${weightingText.describe(fit.model.weighting)}`;
 }
 
 /**

@@ -7,7 +7,7 @@
  */
 import type { FitResult, RunResult } from '../../result';
 import {
-  derivedBlock, expectationRows, expectationTally, fitHeading, goodnessEntries, notFittedNote, PARAMETER_HEADERS,
+  derivedBlock, expectationRows, expectationTally, fitHeading, goodnessEntries, modelLine, notFittedNote, PARAMETER_HEADERS,
   parameterRows, queryBlocks, robustLine, searchLine, stopLine, TRACE_HEADERS, traceHeading, traceRows, warningLines,
 } from './summary';
 import { append, maxOf, textTable } from './table';
@@ -42,7 +42,8 @@ function profileTextLines(fit: FitResult): string[] {
 export function fitTextLines(fit: FitResult): string[] {
   const search = searchLine(fit);
   const robust = robustLine(fit);
-  const lines: string[] = [fitHeading(fit), `  ${stopLine(fit)}`, ...(search ? [`  ${search}`] : []), ...(robust ? [`  ${robust}`] : [])];
+  const model = modelLine(fit);
+  const lines: string[] = [fitHeading(fit), ...(model ? [`  ${model}`] : []), `  ${stopLine(fit)}`, ...(search ? [`  ${search}`] : []), ...(robust ? [`  ${robust}`] : [])];
   const marked = notFittedNote(fit);
   if (marked) lines.push(`  ! ${marked}`);
   lines.push('');

@@ -69,6 +69,7 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
       h('h2', null, fit.label, ...(fit.state === 'converged' ? [] : [' ', h('span', { class: `lw-state ${fit.state}` }, fit.state.replace('_', ' '))])),
       h('p', { class: 'lw-muted' }, fit.heading),
       h('p', { class: fit.leftOut ? 'lw-rows lw-has-left-out' : 'lw-rows' }, fit.rows),
+      fit.model ? h('p', { class: 'lw-muted' }, fit.model) : null,
       h('p', { class: fit.converged ? 'lw-stop' : 'lw-stop lw-bad' }, fit.stop),
       fit.search ? h('p', { class: 'lw-stop' }, fit.search) : null,
       fit.robust ? h('p', { class: 'lw-stop' }, fit.robust) : null,
