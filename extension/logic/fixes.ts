@@ -15,6 +15,7 @@
 import type { Diagnostic } from '../../parser/plan';
 import type { EditorAnalysis } from './analysis';
 import { paramAsts } from './declarations';
+import { formatWritten } from '../../engine/format';
 import { mapLeaves } from '../../parser/plan-expr';
 import { suggest } from '../../parser/suggest';
 import { spanOf, type Span } from './text';
@@ -142,14 +143,15 @@ export function widenedBound(x: number, lo: number, hi: number): string | undefi
 }
 
 /**
- * The shortest decimal text of `v` (2 to 17 significant digits, so a mirrored 2.5 stays 2.5) whose value still passes `ok`: a number a
- * person would write, read back by the spec's number syntax (`1e-07` style exponents included). This is text
- * for the spec, not a displayed result, so it does not go through engine/format.ts.
+ * The shortest text of `v` (2 to 12 significant digits, so a mirrored 2.5 stays 2.5) whose value still passes
+ * `ok`: a number a person would write, rounded by the one policy (engine/format.ts `formatWritten`) and
+ * spelled as JavaScript writes a number (`0.19`, `1.5e-7`), which the spec's number syntax reads back.
  */
 function shortest(v: number, ok: (x: number) => boolean): string | undefined {
   if (!Number.isFinite(v)) return undefined;
   for (let digits = 2; digits <= 17; digits++) {
-    const n = Number(v.toPrecision(digits));
+    // (read back and written by JavaScript's shortest round trip: `1.0e+2` at two digits becomes `100`)
+    const n = Number(formatWritten(v, digits));
     if (ok(n)) return String(n);
   }
   return undefined;

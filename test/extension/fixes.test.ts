@@ -94,3 +94,13 @@ describe('extension/logic/fixes: predict against a near spelling in the model', 
     expect(d.fixes?.map((f) => [f.title, f.preferred])).toEqual([["Change to 'time_min'", true]]);
   });
 });
+
+describe('extension/logic/fixes: number text', () => {
+  it('writes tiny and huge values so the spec reads them back', () => {
+    const tiny = startInside(-1e-9, 1e-8, 1)!;
+    expect(Number(tiny)).toBeGreaterThan(1e-8);
+    const text = `data d = "a.csv"\nfit f on d {\n  model y = k * x\n  param k = ${tiny} in [1e-8, 1]\n}\n`;
+    expect(analyze(text).diagnostics).toEqual([]);
+    expect(Number(widenedBound(3e12, 0, 1e12))).toBe(5e12);
+  });
+});
