@@ -288,6 +288,7 @@ function missingPanelFit(m: MissingFit): PanelFit {
     label: m.name,
     heading: `Fit ${m.name}: ${label}, no result`,
     stop: m.state === 'failed' ? `Failed: ${m.reasons.join(' ')}` : `Not run: ${m.reasons.join(' ')}`,
+    model: null,
     search: null,
     robust: null,
     converged: false,
