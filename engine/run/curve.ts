@@ -19,9 +19,9 @@
  * sigma or weight of other columns and nothing stated they get null and are
  * refused (engine/run/queries.ts): the value at a new point is not on the
  * curve, and an average over the fitted rows would misstate it (twice too
- * wide at the low end of a 1/x² calibration). Only the band drawn with the
- * fit (`newSd`) falls back to that average, s²·mean(1/wᵢ) or mean(σᵢ²) over
- * the fitted rows, for want of anything better to draw.
+ * wide at the low end of a 1/x² calibration). The band drawn with the fit
+ * (`newSd`) has no prediction part then (NaN: the chart draws the confidence
+ * band alone and says why), rather than an average over the fitted rows.
  * Roots are formed without squaring s or σ (s·√(1/w), …), so they stay in
  * range for data near 1e-300 or 1e+300.
  */
@@ -51,8 +51,6 @@ export interface CurveInput {
   /** Residual standard deviation s. */
   rmse: number;
   sigmaAbsolute: boolean;
-  /** Weights of the fitted rows (for the fallback new-observation variance), or null. */
-  weights: ArrayLike<number> | null;
 }
 
 export interface Curve {
@@ -114,17 +112,6 @@ function querySd(input: CurveInput, stated: { kind: 'sigma' | 'weight'; value: n
 function newObservationSd(input: CurveInput): NewObservationSd {
   const block = input.fit.blocks[0];
   const s = input.rmse;
-  /** √(mean of vᵢ²) for vᵢ = f(i) (σᵢ or 1/√wᵢ), scaled by its largest term first. */
-  const rootMeanSquare = (term: (i: number) => number, count: number) => {
-    let big = 0;
-    for (let i = 0; i < count; i++) big = Math.max(big, Math.abs(term(i)));
-    if (count === 0 || big === 0 || !Number.isFinite(big)) return count === 0 ? 1 : big;
-    let sum = 0;
-    for (let i = 0; i < count; i++) sum += (term(i) / big) ** 2;
-    return big * Math.sqrt(sum / count);
-  };
-  const w = input.weights;
-  const n = w ? w.length : 0;
   const onPredictor = (e: Expr) => columnsOf(e).every((c) => c === input.predictor);
   const evalAt = (e: Expr, xs: Float64Array) => {
     const out = new Float64Array(xs.length);
@@ -135,12 +122,12 @@ function newObservationSd(input: CurveInput): NewObservationSd {
   if (input.sigmaAbsolute && block.sigma) {
     const sigma = block.sigma;
     if (onPredictor(sigma)) return (xs) => evalAt(sigma, xs).map(Math.abs);
-    return fill(w && n > 0 ? rootMeanSquare((i) => 1 / Math.sqrt(w[i]), n) : 1);
+    return fill(NaN);
   }
   if (block.weight) {
     const weight = block.weight;
     if (onPredictor(weight)) return (xs) => evalAt(weight, xs).map((wx) => s / Math.sqrt(wx));
-    return fill(s * (w && n > 0 ? rootMeanSquare((i) => 1 / Math.sqrt(w[i]), n) : 1));
+    return fill(NaN);
   }
   return fill(s);
 }
@@ -168,6 +155,5 @@ export function curveFromResult(fit: FitPlan, result: FitResult): Curve | null {
     level: result.level,
     rmse: result.goodness.rmse,
     sigmaAbsolute: result.sigmaAbsolute,
-    weights: result.points.weight,
   });
 }

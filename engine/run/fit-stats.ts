@@ -148,7 +148,6 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
       level: fit.options.level,
       rmse: goodness.rmse,
       sigmaAbsolute: data.sigmaAbsolute,
-      weights: data.weights,
     });
     bands = bandsOver(min, max, curve.modelAt, curve.cov, curve.t, curve.newSd);
   }

@@ -274,7 +274,7 @@ function groupResult(solved: JointSolved, k: number, s2: number, ok: boolean, st
       min = Math.min(min, v);
       max = Math.max(max, v);
     }
-    const curve = buildCurve({ fit, predictor: data.predictor, estimates: theta, cov: factored, dof: solved.dof, level: fit.options.level, rmse: Math.sqrt(s2), sigmaAbsolute: data.sigmaAbsolute, weights: data.weights });
+    const curve = buildCurve({ fit, predictor: data.predictor, estimates: theta, cov: factored, dof: solved.dof, level: fit.options.level, rmse: Math.sqrt(s2), sigmaAbsolute: data.sigmaAbsolute });
     bands = bandsOver(min, max, curve.modelAt, curve.cov, curve.t, curve.newSd);
   } else if (!ok) bands = null;
   const warnings: FitWarning[] = stats.warnings.filter((w) => !GROUP_ONLY.has(w.code));

@@ -102,7 +102,12 @@ export function excludedRows(fit: FitResult, maxMarks = MAX_MARKS): ExcludedRow[
   return Array.from({ length: maxMarks }, (_, k) => all[Math.floor((k * all.length) / maxMarks)]);
 }
 
-/** Band rows with every entry finite (ends that could not be computed are dropped). */
+/**
+ * Band rows with the fitted value and confidence band finite (ends that could
+ * not be computed are dropped). The prediction band may be NaN throughout: a
+ * fit whose sigma or weight reads a column other than the predictor has no
+ * spread for a new point between the rows (engine/run/curve.ts).
+ */
 export function bandRows(fit: FitResult): BandRow[] {
   const b = fit.bands;
   if (!b) return [];
@@ -116,7 +121,7 @@ export function bandRows(fit: FitResult): BandRow[] {
       predictionLower: b.predictionLower[i],
       predictionUpper: b.predictionUpper[i],
     };
-    if (finite(r.x, r.fitted, r.confidenceLower, r.confidenceUpper, r.predictionLower, r.predictionUpper)) rows.push(r);
+    if (finite(r.x, r.fitted, r.confidenceLower, r.confidenceUpper)) rows.push(r);
   }
   return rows;
 }

@@ -129,8 +129,10 @@ function fitChart(fit: FitResult, o: ChartContext): ChartSpec | null {
   const yTitle = fit.response;
   const yAxis = axisTitle(yTitle);
   const layers: Json[] = [];
+  // No prediction band when the spread of a new point is unknown between the rows (sigma or weight of another column).
+  const predictionBand = bands.length > 0 && bands.every((r) => Number.isFinite(r.predictionLower) && Number.isFinite(r.predictionUpper));
   if (bands.length) {
-    layers.push({
+    if (predictionBand) layers.push({
       name: 'prediction_band', data: { values: bands },
       mark: { type: 'area', color: pal.predictionBand, opacity: 0.55 },
       encoding: { x: xEnc, y: { field: 'predictionLower', type: 'quantitative', axis: yAxis, scale: { zero: false } }, y2: { field: 'predictionUpper' } },
@@ -172,9 +174,11 @@ function fitChart(fit: FitResult, o: ChartContext): ChartSpec | null {
   }
   const subtitle = !fitted
     ? ['Points: data. No curve: the fit did not converge, so there is no fitted curve to draw.']
-    : bands.length
+    : bands.length && predictionBand
       ? [`Points: data. Line: fitted curve. Dark shade: ${level} confidence band; light shade: ${level} prediction band.`]
-      : ['Points: data. Line: fitted values.'];
+      : bands.length
+        ? [`Points: data. Line: fitted curve. Shade: ${level} confidence band. No prediction band: the spread of a new point comes from a column other than ${xName} (sigma or weight), so it is known only where a query states it.`]
+        : ['Points: data. Line: fitted values.'];
   if (left.length) subtitle.push(`Hollow points: ${left.length} row${left.length === 1 ? '' : 's'} left out of the fit (weight 0).`);
   const title = fitted ? `${fit.name}${groupSuffix(fit)}: data and fitted curve` : `${fit.name}${groupSuffix(fit)}: data (not fitted)`;
   return { id: 'fit', title, spec: top(pal, title, [...subtitle, ...thinNote(pts)], o.width, o.height, { layer: layers }) };
