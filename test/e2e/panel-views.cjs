@@ -95,8 +95,10 @@ async function panelViews(page, ws, outDir) {
   // reload the window: the panels come back with the reader's choices
   await frame.locator('button.lw-nav-item[data-key="slow"]').click();
   await frame.locator('section.lw-fit[data-state="not_converged"]').waitFor();
-  await page.reload();
+  // the workbench's own reload: it saves the webviews' state on shutdown (a browser reload may not finish the write)
+  await Promise.all([page.waitForEvent('load', { timeout: 90000 }), quickInput(page, 'F1', 'Developer: Reload Window', 'Developer: Reload Window')]);
   await page.locator('.monaco-workbench').waitFor();
+  await page.locator('.tab', { hasText: 'Results: trust.lsq' }).first().waitFor({ timeout: 90000 });
   await page.locator('.tab', { hasText: 'Results: trust.lsq' }).first().click();
   const back = await panelFrame(page, 'trust.lsq');
   await back.locator('section.lw-fit[data-state="not_converged"]').waitFor({ timeout: 90000 });
