@@ -83,8 +83,10 @@ export function panelFitChart(spec: Json, level: string, excludedReason = EXCLUD
   if (isObject(out.config)) out.config.legend = { labelColor: PALETTE.foreground, labelFontSize: 11 };
   // the caption: colour words out, the legend in (the other sentences stay as the CLI prints them)
   if (isObject(out.title) && Array.isArray(out.title.subtitle)) {
-    // "hollow" names a shape, which holds in every theme
-    out.title.subtitle = (out.title.subtitle as unknown[]).map((s) => (typeof s === 'string' && /\bshade\b/.test(s) ? legendCaption(hasBands) : s));
+    // the views wrap their subtitle into lines: join them, replace the sentence that names shades, and let the
+    // page wrap again for its width; "hollow" names a shape, which holds in every theme
+    const text = (out.title.subtitle as unknown[]).filter((x): x is string => typeof x === 'string').join(' ');
+    out.title.subtitle = [text.replace(/Points: data\. Line: fitted (curve|values)\.( Dark shade:[^.]*\.)?/, legendCaption(hasBands))];
   }
   return out;
 }

@@ -196,3 +196,14 @@ describe('extension/logic/panel-checks', async () => {
     expect(Number(t.rows[0][1])).toBeCloseTo(a1.value!, 2);
   });
 });
+
+describe('extension/logic/panel-fit-chart', async () => {
+  const s = await runScenario();
+  it('says "legend" once in place of the shade sentence, and keeps the other sentences', () => {
+    const fit = s.model.fits.find((f) => f.key === 'newton')!.charts!.find((c) => c.id === 'fit')!;
+    const sub = ((fit.spec.title as { subtitle: string[] }).subtitle).join(' ');
+    expect(sub).not.toMatch(/shade/);
+    expect(sub.match(/Legend below the plot/g)).toHaveLength(1);
+    expect(sub).toContain('Hollow points: 2 rows left out of the fit (weight 0).');
+  });
+});

@@ -58,6 +58,8 @@ export interface ChartSpec {
   spec: TopLevelSpec;
 }
 
+import { HEADLESS_CHAR_PX, wrapSubtitle } from './wrap';
+
 const SCHEMA = 'https://vega.github.io/schema/vega-lite/v6.json';
 const NUM = CHART_FORMAT.value;
 
@@ -84,7 +86,9 @@ export const axisTitle = (text: string): Json => ({ title: chartLabel(text) });
 /** A top-level spec: title (user text as a label), subtitle lines, size, config and body. */
 export function top(pal: Palette, title: string, subtitle: string[], width: number, height: number, body: Json): TopLevelSpec {
   const t: Json = { text: chartLabel(title) };
-  if (subtitle.length) t.subtitle = subtitle;
+  // wrapped to the plot and its y axis (about 50 px) as the headless renderer measures text, so a long line
+  // does not widen the chart (wrap.ts); the panel wraps again for its own width and fonts
+  if (subtitle.length) t.subtitle = wrapSubtitle(subtitle, width + 50, HEADLESS_CHAR_PX);
   return { $schema: SCHEMA, title: t, width, height, config: config(pal), ...body } as unknown as TopLevelSpec;
 }
 

@@ -12,6 +12,7 @@ import { expressionInterpreter } from 'vega-interpreter';
 import type { PanelChart } from '../../logic/panel-model';
 import { h } from './dom';
 import { chartImageName } from '../../logic/panel-copy';
+import { wrapSubtitle } from '../../../engine/front/views/wrap';
 import { themed, themeFont, themePalette } from './theme';
 import { deferredTooltipHandler, deferTooltips } from './tooltips';
 
@@ -43,7 +44,7 @@ export function chartFigure(chart: PanelChart, maxWidth: number, events: ChartEv
     if (spec.height === spec.width) spec.height = Math.floor(Math.min(maxWidth - 70, 480));
     spec.width = Math.floor(maxWidth);
     spec.autosize = { type: 'fit-x', contains: 'padding' };
-    wrapSubtitle(spec, maxWidth);
+    wrapSubtitleOf(spec, maxWidth);
   }
   const tips = deferTooltips(spec); // formatted on hover (tooltips.ts)
   const drawn = embed(target, spec as never, {
@@ -86,27 +87,13 @@ export function chartFigure(chart: PanelChart, maxWidth: number, events: ChartEv
   return { el, drawn };
 }
 
-/** Average width of a subtitle character (11 px sans-serif), for wrapping subtitles to the chart width. */
-const SUBTITLE_CHAR_PX = 6;
-
-/** Subtitle lines wrapped at word boundaries to the chart's width (Vega cuts a long title line off). */
-function wrapSubtitle(spec: Record<string, unknown>, width: number): void {
+/** Subtitle lines (re)wrapped to the drawn chart's width (engine/front/views/wrap.ts). */
+function wrapSubtitleOf(spec: Record<string, unknown>, width: number): void {
   const t = spec.title;
   if (typeof t !== 'object' || t === null || !Array.isArray((t as { subtitle?: unknown }).subtitle)) return;
-  const budget = Math.max(30, Math.floor((width - 24) / SUBTITLE_CHAR_PX));
-  const lines: string[] = [];
-  for (const s of (t as { subtitle: unknown[] }).subtitle) {
-    if (typeof s !== 'string') continue;
-    let line = '';
-    for (const word of s.split(' ')) {
-      if (line && line.length + 1 + word.length > budget) {
-        lines.push(line);
-        line = word;
-      } else line = line ? `${line} ${word}` : word;
-    }
-    if (line) lines.push(line);
-  }
-  (t as { subtitle: unknown[] }).subtitle = lines;
+  const lines = ((t as { subtitle: unknown[] }).subtitle).filter((x): x is string => typeof x === 'string');
+  // lines the views wrapped for their width are joined again into sentences before wrapping for this one
+  (t as { subtitle: unknown[] }).subtitle = wrapSubtitle([lines.join(' ')].flatMap((x) => x.split(/(?<=\.) (?=[A-Z])/)), width - 24);
 }
 
 /** Drawn mark items (points, lines, areas, bars) in an SVG chart. */

@@ -147,7 +147,7 @@ function missingFitSection(fit: PanelFit): HTMLElement {
     h('div', { class: fit.state === 'failed' ? 'lw-notfitted lw-bad' : 'lw-notfitted', role: fit.state === 'failed' ? 'alert' : undefined },
       h('p', null, fit.state === 'failed' ? 'This fit has no result:' : 'This fit has no result in the last run:'),
       h('ul', { class: 'lw-reasons' }, ...fit.reasons.map((r) => h('li', null, r)))),
-    h('p', { class: 'lw-muted' }, 'No parameters, statistics or charts are shown; queries and comparisons that name it leave it out and say so.'),
+    h('p', { class: 'lw-muted' }, 'No parameters, statistics or charts are shown. A comparison that names it compares the others and says it left this one out; other queries of it are listed under the errors.'),
   );
 }
 
