@@ -2,7 +2,7 @@
  * (21) Bootstrap cost: `runPlan` of an invented 100-point exponential decay
  * with `bootstrap 2000` (residual resampling; plus 100 leave-one-out refits
  * for BCa), in this thread (`threads: 1`) and on two worker threads
- * (dist/worker.js, engine/run/bootstrap-threads.ts). The figure is the
+ * (dist/worker.js, engine/groups/bootstrap-threads.ts). The figure is the
  * one-thread time; the run also checks that both give bit-identical intervals
  * (each refit depends only on its index). Goal: 2000 refits within 3 s, about
  * 1.5 ms per refit of 100 rows. Measured 2026-12-03 on this 2-core machine
