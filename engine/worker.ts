@@ -3,7 +3,7 @@
  * jobs of engine/groups/protocol.ts:
  * - `fitGroups` (fitGroupsParallel): fits a chunk of groups in order and
  *   answers `groupsDone` with one FitResult per group;
- * - `bootstrap` (engine/run/bootstrap-threads.ts): bootstrap refits of one fit,
+ * - `bootstrap` (engine/groups/bootstrap-threads.ts): bootstrap refits of one fit,
  *   answered by `bootstrapDone`;
  * - `runPlan` (the editor extension): runs a whole plan, reading its data
  *   files, and answers `runPlanDone`.

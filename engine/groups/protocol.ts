@@ -42,7 +42,7 @@ export type WorkerRequest =
       shared?: SharedStart;
       cancelFlag: SharedArrayBuffer | null;
     }
-  /** Bootstrap refits [from, to) of one fit (engine/run/bootstrap-threads.ts); answered by `bootstrapDone`. */
+  /** Bootstrap refits [from, to) of one fit (engine/groups/bootstrap-threads.ts); answered by `bootstrapDone`. */
   | { kind: 'bootstrap'; id: number; job: BootstrapJob; from: number; to: number; cancelFlag: SharedArrayBuffer | null };
 
 export type WorkerResponse =

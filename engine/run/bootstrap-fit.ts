@@ -4,7 +4,7 @@
  * left), the job of refits (engine/run/bootstrap.ts), and the result with the
  * parameters' bootstrap intervals and the summary added
  * (engine/run/bootstrap-summary.ts). The refits run in this thread
- * (`runBootstrapHere`) or on worker threads (engine/run/bootstrap-threads.ts);
+ * (`runBootstrapHere`) or on worker threads (engine/groups/bootstrap-threads.ts);
  * both give bit-identical results.
  */
 import type { FitPlan } from '../../parser/plan';

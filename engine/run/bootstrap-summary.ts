@@ -24,10 +24,17 @@
  * Fewer failures are left out and counted in the note.
  */
 import { normalCdf, normalQuantile } from '../stats/distributions';
-import { quantileSorted } from '../groups/quantile';
 import type { BootstrapInterval, BootstrapSummary, FitWarning } from '../result';
 import { bootstrapText, warningText } from '../messages';
 import type { BootstrapChunk, BootstrapJob } from './bootstrap';
+
+/** Quantile q of sorted values, Hyndman & Fan (1996) definition 7 (as engine/groups/quantile.ts, which engine/run may not import). */
+function quantileSorted(sorted: Float64Array, q: number): number {
+  const h = (sorted.length - 1) * q;
+  const lo = Math.floor(h);
+  const hi = Math.min(lo + 1, sorted.length - 1);
+  return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
+}
 
 /** Rows above which no leave-one-out refits are run for BCa: n refits more than the B replicates (measured cost: test/bench). */
 export const BCA_MAX_ROWS = 5000;
@@ -70,8 +77,8 @@ export function bootstrapInterval(values: Float64Array, jack: Float64Array | nul
   const b = finite.length;
   if (b < 2) return null;
   const alpha = 1 - level;
-  const lower = quantileSorted(finite, alpha / 2)!;
-  const upper = quantileSorted(finite, 1 - alpha / 2)!;
+  const lower = quantileSorted(finite, alpha / 2);
+  const upper = quantileSorted(finite, 1 - alpha / 2);
   let mean = 0;
   for (const v of finite) mean += v;
   mean /= b;

@@ -96,7 +96,10 @@ function bootstrapOf(d: DerivedResult, fn: DerivedFunction, ctx: RefitContext): 
     jv = new Float64Array(n);
     for (let i = 0; i < n; i++) jv[i] = fn.at(jack.subarray(i * p, (i + 1) * p)).value;
   }
-  const iv = bootstrapInterval(values, jv, d.value!, ctx.result.level);
   const notes = [s.note, ...(notFinite ? [bootstrapText.derivedNotFinite(notFinite)] : []), ...(fn.readsStatistics ? [bootstrapText.statisticsFixed] : [])];
+  // the fit's withholding rule (engine/run/bootstrap-summary.ts) with the replicates that give no value counted as failed
+  const allowed = Math.floor((replicates * (1 - ctx.result.level)) / 2);
+  if (s.failed + notFinite > allowed) return { status: 'withheld', note: bootstrapText.withheld(s.failed + notFinite, replicates, allowed), interval: null };
+  const iv = bootstrapInterval(values, jv, d.value!, ctx.result.level);
   return iv ? { status: 'computed', note: notes.join('; '), interval: iv } : { status: 'withheld', note: notes.join('; '), interval: null };
 }

@@ -429,7 +429,7 @@ export function derivedFunctions(plans: readonly DerivedPlan[], results: Readonl
     try {
       prepared = prepare(d, defs);
     } catch {
-      prepared = { plan: d, fits: [], slots: [], direct: [], deps: [], model: null, error: 'unusable' };
+      prepared = { plan: d, fits: [], slots: [], direct: [], deps: [], model: null, error: derivedText.compileFailed('') };
     }
     defs.set(d.name, prepared.error ? null : prepared);
     if (prepared.error || !prepared.model) out.set(d.name, 'unusable');

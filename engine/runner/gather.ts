@@ -16,7 +16,7 @@
  */
 import { createHash } from 'node:crypto';
 import type { FitPlan, Plan } from '../../parser/plan';
-import { RESULT_VERSION, type FitResult, type Provenance, type RunError, type RunResult, type ShardInfo } from '../result';
+import { RESULT_VERSION, type DerivedResult, type FitResult, type Provenance, type RunError, type RunResult, type ShardInfo } from '../result';
 import { TOOL_NAME, TOOL_VERSION } from '../run/version';
 import { reviveResult } from '../run/json-revive';
 import { finishRun } from './run-plan';
@@ -151,7 +151,23 @@ export function gatherShards(plan: Plan, spec: { text: string; path?: string }, 
   if (spec.path === undefined) delete provenance.specPath;
   const errors: RunError[] = lead.result.errors.slice(0, lead.info.fitErrors);
   const fitPlans = new Map<string, FitPlan>(fits.map((f) => [f.name, f]));
-  return { ok: true, result: finishRun(plan, { fitPlans, results, errors, provenance: orderedProvenance(provenance) }) };
+  const result = finishRun(plan, { fitPlans, results, errors, provenance: orderedProvenance(provenance) });
+  return { ok: true, result: { ...result, derived: carriedIntervals(result.derived ?? [], ordered.map((s) => s.result)) } };
+}
+
+/**
+ * The profile and bootstrap intervals of derived quantities (engine/run/derived-intervals.ts) need the rows of
+ * the single fit they read, which only the shard that fitted it had: they are taken from that shard's result,
+ * in the order the runner writes them, so the gathered JSON equals one run's.
+ */
+function carriedIntervals(derived: readonly DerivedResult[], shards: readonly RunResult[]): DerivedResult[] {
+  return derived.map((d) => {
+    for (const r of shards) {
+      const src = (r.derived ?? []).find((x) => x.name === d.name && x.group === d.group && (x.profile || x.bootstrap));
+      if (src) return { ...d, ...(src.profile ? { profile: src.profile } : {}), ...(src.bootstrap ? { bootstrap: src.bootstrap } : {}), ...(src.warnings ? { warnings: src.warnings } : {}) };
+    }
+    return d;
+  });
 }
 
 /** Provenance with its keys in the order the runner writes them (the JSON of a gathered run is byte-equal to one run's). */

@@ -44,7 +44,7 @@ import { shardRanges, type Shard } from '../groups/shards';
 import type { SharedStart } from '../groups/starts';
 import { planBootstrap, runBootstrapHere, withBootstrap, type PlannedBootstrap } from '../run/bootstrap-fit';
 import type { BootstrapChunk } from '../run/bootstrap';
-import { bootstrapThreads, runBootstrapInWorkers } from '../run/bootstrap-threads';
+import { bootstrapThreads, runBootstrapInWorkers } from '../groups/bootstrap-threads';
 import { derivedIntervals, type RefitContext } from '../run/derived-intervals';
 import { createCancelFlag, setCancelled } from '../groups/protocol';
 
@@ -349,7 +349,7 @@ async function fitBatch(batch: GroupBatch, opts: RunOptions): Promise<FitResult[
   });
 }
 
-/** Bootstrap refits on worker threads when engine/run/bootstrap-threads.ts says so; undefined leaves them to this thread. */
+/** Bootstrap refits on worker threads when engine/groups/bootstrap-threads.ts says so; undefined leaves them to this thread. */
 async function bootstrapBatch(batch: BootstrapBatch, opts: RunOptions): Promise<BootstrapChunk[] | undefined> {
   const job = batch.bootstrap.job;
   const threads = opts.solvers ? 1 : bootstrapThreads(job, opts.threads);

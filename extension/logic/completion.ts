@@ -6,7 +6,7 @@
  * columns, constants; in `derive`: fits, constants and derived quantities). extension/language/completion.ts maps them to vscode items.
  */
 import {
-  CONSTANT_NAMES, MEMBERS, EXPRESSION_CONSTANTS, FUNCTION_NAMES, FUNCTION_SPECS, LOSSES, LOSS_SPECS, METHODS, METHOD_SPECS, PROFILE_MODES, RESERVED_ROLES, STATISTICS, keywordsWithRole,
+  CONSTANT_NAMES, MEMBERS, EXPRESSION_CONSTANTS, FUNCTION_NAMES, FUNCTION_SPECS, LOSSES, LOSS_SPECS, METHODS, METHOD_SPECS, PROFILE_MODES, BOOTSTRAP_RESAMPLES, RESERVED_ROLES, STATISTICS, keywordsWithRole,
 } from '../../parser/registry';
 import { columnsOf, type EditorAnalysis } from './analysis';
 import { columnsOf as exprColumns } from '../../parser/plan-expr';
@@ -57,6 +57,8 @@ export function completionsAt(a: EditorAnalysis, offset: number, env: Completion
   if (/"[^"]*$/.test(prefix.replace(/"[^"]*"/g, ''))) return quotedColumns(a, fitName, prefix);
   if (/^\s*[A-Za-z_]*$/.test(prefix)) return inFit ? keywords(FIT_BODY_KEYWORDS) : keywords(STATEMENT_KEYWORDS);
   if (/\bmethod\s+\w*$/.test(prefix)) return METHODS.map((x) => ({ label: x, kind: 'value' as const, detail: 'method', documentation: METHOD_SPECS[x].doc }));
+  if (/\bbootstrap\s+\S+\s+(residuals|adjusted|cases)\s+\w*$/.test(prefix)) return keywords(['seed']);
+  if (/\bbootstrap\s+\S+\s+\w*$/.test(prefix)) return [...BOOTSTRAP_RESAMPLES.map((x) => ({ label: x, kind: 'value' as const, detail: 'bootstrap resampling' })), ...keywords(['seed'])];
   if (/\bprofile\s+\w*$/.test(prefix)) return PROFILE_MODES.map((x) => ({ label: x, kind: 'value' as const, detail: 'profile intervals' }));
   if (/\bloss\s+\w+\s+\w*$/.test(prefix)) return keywords(['scale']);
   if (/\bloss\s+\w*$/.test(prefix)) return LOSSES.map((x) => ({ label: x, kind: 'value' as const, detail: 'loss', documentation: `ρ(z) = ${LOSS_SPECS[x].rho}: ${LOSS_SPECS[x].doc}` }));

@@ -17,8 +17,8 @@
  */
 import os from 'node:os';
 import { Worker } from 'node:worker_threads';
-import { isWorkerResponse, type WorkerRequest } from '../groups/protocol';
-import { jobSize, runBootstrapRange, type BootstrapChunk, type BootstrapJob } from './bootstrap';
+import { isWorkerResponse, type WorkerRequest } from './protocol';
+import { jobSize, runBootstrapRange, type BootstrapChunk, type BootstrapJob } from '../run/bootstrap';
 
 /** Refits × rows below which the refits stay in this thread when the thread count is automatic. */
 export const AUTO_MIN_REFIT_ROWS = 1_000_000;
