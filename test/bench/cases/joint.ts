@@ -1,5 +1,5 @@
 /**
- * (21) Joint fits with shared parameters (engine/run/joint.ts, engine/solve/block-lm.ts):
+ * (22) Joint fits with shared parameters (engine/run/joint.ts, engine/solve/block-lm.ts):
  * - headline: 384 dose–response curves (a 384-well plate, 12 doses each) with the Hill slope shared and
  *   bottom, top, ec50 per well, the whole run in this thread (parse and check, CSV, the separate per-well
  *   fits that give the starts, the joint solve, its covariance and the comparisons between groups);
