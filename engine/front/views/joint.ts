@@ -78,12 +78,16 @@ export function jointBlocks(joint: readonly JointFitResult[]): JointBlock[] {
       tables.push({
         title: `Between groups (b − a with a Student-t interval, b / a with Fieller's interval, ${level})`,
         headers: ['parameter', 'a', 'b', 'b − a', 'interval', 'b / a', 'interval'],
-        rows: j.pairs.map((p) => [
+        rows: j.pairs.map((p) => {
+          // The difference to the digits of its standard error (JCGM 100:2008, 7.2.6; engine/format.ts rule 4).
+          const d = formatEstimate(p.difference, p.differenceSe, p.differenceLower, p.differenceUpper);
+          return [
           p.parameter, p.a, p.b,
-          formatNumber(p.difference), formatInterval(p.differenceLower, p.differenceUpper),
+          d.estimate, `[${d.lower}, ${d.upper}]`,
           formatNumber(p.ratio, DIGITS.statistic),
           p.ratioLower === null || p.ratioUpper === null ? 'not bounded' : formatInterval(p.ratioLower, p.ratioUpper, DIGITS.statistic),
-        ]),
+          ];
+        }),
         align: ['left', 'left', 'left', 'right', 'right', 'right', 'right'],
       });
     }
