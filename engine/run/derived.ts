@@ -450,7 +450,12 @@ export function derivedFunctions(plans: readonly DerivedPlan[], results: Readonl
       let bad = false;
       prepared.slots.forEach((s, k) => {
         if (s.of === 'statistic') base[k] = statisticValue(r, s.name as Parameters<typeof statisticValue>[1]);
-        else {
+        else if (s.of === 'stderr') {
+          // A standard error is a fixed number here, like a statistic: it does not follow θ.
+          const q = r.parameters.find((x) => x.name === s.name);
+          if (!q) bad = true;
+          else base[k] = q.stderr ?? NaN;
+        } else {
           const q = r.parameters.find((x) => x.name === s.name);
           if (!q) bad = true;
           else {
@@ -466,7 +471,7 @@ export function derivedFunctions(plans: readonly DerivedPlan[], results: Readonl
       const pp = prepared;
       out.set(d.name, {
         fit,
-        readsStatistics: prepared.slots.some((s) => s.of === 'statistic'),
+        readsStatistics: prepared.slots.some((s) => s.of !== 'estimate'),
         at(thetaFree: Float64Array) {
           const theta = new Float64Array(base);
           for (let k = 0; k < map.length; k++) if (map[k] >= 0) theta[k] = thetaFree[map[k]];

@@ -115,3 +115,32 @@ derive off = c2.m * 2
     expect(find(result.derived, 'off').profile?.note).toMatch(/profile never/);
   });
 });
+
+describe('derived profile of a quantity that reads a standard error', () => {
+  // Regression: `cal.intercept.se` was read as the intercept itself by the profile and the bootstrap,
+  // so the profile eliminated the intercept and collapsed to a point. A standard error is a fixed
+  // number there (as in the delta method), so 3.3·se(a)/b depends on b alone, and the profile
+  // interval of a monotone function of one parameter is that function of the parameter's profile
+  // interval (invariance of the likelihood under reparametrisation, Bates & Watts 1988, §6.1); for a
+  // line the slope's profile interval is its symmetric one, b ± t·se(b) (common practice).
+  it('eliminates the slope and maps the slope interval through 3.3·se(a)/b', async () => {
+    const { result } = await runSpec(`data cal = "cal.csv"
+fit line on cal {
+  model y = a + b * x
+  param a
+  param b
+  profile always
+}
+derive lodse = 3.3 * line.a.se / line.b
+`, dir);
+    const fit = result.fits[0];
+    const a = fit.parameters.find((q) => q.name === 'a')!;
+    const b = fit.parameters.find((q) => q.name === 'b')!;
+    const d = find(result.derived, 'lodse');
+    expect(d.value).toBeCloseTo((3.3 * a.stderr!) / b.estimate, 12);
+    const lower = (3.3 * a.stderr!) / b.upper!;
+    const upper = (3.3 * a.stderr!) / b.lower!;
+    expect(upper - lower).toBeGreaterThan(0.5 * d.stderr!);
+    expectEnds(d, lower, upper, 1e-6);
+  });
+});
