@@ -86,7 +86,7 @@ export function panelFitChart(spec: Json, level: string, excludedReason = EXCLUD
     // the views wrap their subtitle into lines: join them, replace the sentence that names shades, and let the
     // page wrap again for its width; "hollow" names a shape, which holds in every theme
     const text = (out.title.subtitle as unknown[]).filter((x): x is string => typeof x === 'string').join(' ');
-    out.title.subtitle = [text.replace(/Points: data\. Line: fitted (curve|values)\.( Dark shade:[^.]*\.)?/, legendCaption(hasBands))];
+    out.title.subtitle = [text.replace(/Points: data\. Line: fitted (curve|values)\.( (Dark s|S)hade:[^.]*\.)?/, legendCaption(hasBands))];
   }
   return out;
 }

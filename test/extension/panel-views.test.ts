@@ -143,12 +143,13 @@ describe.skipIf(!haveChromium)('extension/panel trust views in Chromium', () => 
       const subtitle = await fig.locator('svg .role-title-subtitle').textContent();
       expect(subtitle, theme).not.toMatch(/shade/);
       const legend = await fig.locator('svg .role-legend-label').allTextContents();
-      expect(legend, theme).toEqual(['data', 'fitted curve', '95% confidence band', '95% prediction band']);
+      // newton's weight reads columns other than the predictor: no prediction band, and the caption says why
+      expect(legend, theme).toEqual(['data', 'fitted curve', '95% confidence band']);
+      expect(subtitle, theme).toMatch(/No prediction band: the spread of a new point comes from a column other than time_min/);
       // each swatch has the colour its marks are drawn in
       const swatches = await fig.locator('svg .role-legend-symbol path').evaluateAll((ps) => ps.map((p) => p.getAttribute('fill')));
       const bandFill = (name: string) => fig.locator(`svg .role-mark.${name}_marks path`).first().getAttribute('fill');
       expect(swatches[2], theme).toBe(await bandFill('confidence_band'));
-      expect(swatches[3], theme).toBe(await bandFill('prediction_band'));
       await expect(page.locator('section.lw-fit .lw-rows').textContent()).resolves.toBe('n = 28, 3 rows left out: 2 with weight 0 (lines 10, 22), drawn hollow; 1 with an empty or NA cell (line 27)');
       const hollow = fig.locator('svg .role-mark.excluded_points_marks path');
       expect(await hollow.count()).toBe(2);
@@ -157,6 +158,14 @@ describe.skipIf(!haveChromium)('extension/panel trust views in Chromium', () => 
       await tip.waitFor();
       expect(await tip.textContent()).toMatch(/left out\s*weight 0: left out of the fit/);
       await shot(page, `panel-fit-legend-${theme}`, 'section.lw-fit');
+      // the unweighted line has both bands, each swatch in its band's colour
+      await select(page, 'line');
+      const lineFig = page.locator('figure[data-chart-id="fit"]');
+      expect(await lineFig.locator('svg .role-legend-label').allTextContents(), theme).toEqual(['data', 'fitted curve', '95% confidence band', '95% prediction band']);
+      const lineSwatches = await lineFig.locator('svg .role-legend-symbol path').evaluateAll((ps) => ps.map((p) => p.getAttribute('fill')));
+      const lineFill = (name: string) => lineFig.locator(`svg .role-mark.${name}_marks path`).first().getAttribute('fill');
+      expect(lineSwatches[2], theme).toBe(await lineFill('confidence_band'));
+      expect(lineSwatches[3], theme).toBe(await lineFill('prediction_band'));
       expect(problems, theme).toEqual([]);
       await page.close();
     }
