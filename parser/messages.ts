@@ -169,6 +169,12 @@ export const MSG = {
   derivedNotFit: (name: string) => `${q(name)} is a derived quantity, not a fit; write ${name} without a member`,
   seNotParameter: (name: string) => `.se follows a parameter (FIT.PARAM.se); ${q(name)} is not a parameter of the fit`,
   derivePathTooLong: 'expected FIT.PARAM or FIT.STAT',
+  /** FIT."GROUP".PARAM on a fit without `per COLUMN`. */
+  groupOfUngroupedFit: (fit: string, group: string) => `fit ${q(fit)} has no groups (no per COLUMN), so ${JSON.stringify(group)} names none of them; write ${fit}.PARAM`,
+  /** A quoted member anywhere but right after the fit name. */
+  groupMisplaced: 'a quoted group label goes right after the fit name: FIT."GROUP".PARAM',
+  /** FIT."GROUP" with nothing after it. */
+  groupNeedsMember: (fit: string, group: string) => `expected ${fit}.${JSON.stringify(group)}.PARAM or ${fit}.${JSON.stringify(group)}.STAT`,
   unknownDerived: (name: string) => `no derived quantity named ${q(name)}`,
   unknownDerivedPath: (name: string) => `after a derived quantity only .se (standard error), .lower or .upper (its confidence interval) may follow, not ${q(name)}`,
   deriveClash: (name: string, what: string, line: number) =>
