@@ -50,7 +50,7 @@ export const CODES = {
   number_range: { severity: 'error', when: 'a number too large to be finite (e.g. `1e400`)' },
   empty_path: { severity: 'error', when: '`data NAME = ""`' },
   delimiter_clash: { severity: 'error', when: '`decimal ","` together with `delimiter ","`' },
-  unknown_target: { severity: 'error', when: 'an expectation or a `FIT.NAME` in derive names neither a parameter nor a statistic of the fit, `.X` other than `.se`, `.lower`, `.upper`, a fit without `.NAME`, or a derived quantity with a member' },
+  unknown_target: { severity: 'error', when: 'an expectation or a `FIT.NAME` in derive names neither a parameter nor a statistic of the fit, `.X` other than `.se`, `.lower`, `.upper`, a fit without `.NAME`, or a derived quantity with a member; a quoted group label (`FIT."GROUP".NAME`) on a fit without `per`, after another member, or with nothing after it' },
   predictor_mismatch: { severity: 'error', when: 'predict/invert on a column the model does not vary with, or on a model without exactly one predictor column' },
   response_mismatch: { severity: 'error', when: 'invert at a column that is not the response, or on a response that reads several columns' },
   compare_too_few: { severity: 'error', when: 'compare lists fewer than two different fits' },
