@@ -42,6 +42,8 @@ describe('derive and expect on one group of a per-group fit', () => {
   it(`joint fit: relative potency with the joint covariance, cross-group terms included (${ref.library})`, async () => {
     const result = await run(`${fitText(true)}derive rel = potency."REF".ec50 / potency."TEST".ec50
 derive mix = potency."REF".top * potency."REF".ec50 - potency."TEST".ec50
+derive same = potency."REF".top - potency."TEST".top
+derive against = potency.ec50 / potency."REF".ec50
 expect rel within 0.4 .. 0.6
 expect rel.se below 0.02
 expect potency."TEST".ec50.lower above 1.5
@@ -71,6 +73,18 @@ expect potency."REF".ec50 below 1.5
     const mix = result.derived!.find((d) => d.name === 'mix')!;
     expect(Math.abs(mix.value! - ref.joint.mix)).toBeLessThan(1e-6 * ref.joint.mix_se);
     expect(mix.stderr! / ref.joint.mix_se).toBeCloseTo(1, 5);
+    // a shared parameter is one number in every group: the difference is 0 with no spread
+    const same = result.derived!.find((d) => d.name === 'same')!;
+    expect(same.value).toBe(0);
+    expect(same.stderr).toBe(0);
+    // an unnamed group follows the row: REF / REF is 1 exactly; TEST / REF is 1/rel, whose first-order standard
+    // error is rel_se / rel² (the gradient of b/a is −(b/a)² times that of a/b)
+    const against = result.derived!.filter((d) => d.name === 'against');
+    expect(against.map((d) => d.group)).toEqual(['REF', 'TEST']);
+    expect(against[0].value).toBe(1);
+    expect(against[0].stderr).toBe(0);
+    expect(against[1].value! * ref.joint.rel).toBeCloseTo(1, 6);
+    expect((against[1].stderr! * ref.joint.rel ** 2) / ref.joint.rel_se).toBeCloseTo(1, 5);
     // the named group only: one check each, not one per group
     expect(result.expectations.map((e) => [e.expectation.text, e.passed, e.group])).toEqual([
       ['rel within 0.4 .. 0.6', true, undefined],
