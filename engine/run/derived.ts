@@ -44,10 +44,10 @@
  * negative gᵀCg is rounding when it is within NEGATIVE_VARIANCE_TOLERANCE of
  * Σ|gⱼCⱼₖgₖ| (then the variance is 0), else the covariance is unusable.
  */
-import type { DerivedPlan, Expr } from '../../parser/plan';
+import type { DerivedPlan, Expr, Range } from '../../parser/plan';
 import { compileModel, type CompiledModel } from '../compile';
 import { derivedText, num, weightingText } from '../messages';
-import type { DerivedResult, FitResult, JointFitResult } from '../result';
+import type { DerivedResult, FitResult, JointFitResult, RunError } from '../result';
 import { suggest } from '../../parser/suggest';
 import { normalQuantile, tCritical } from '../stats/distributions';
 import { statisticValue } from './expectations';
@@ -79,6 +79,8 @@ interface Slot {
   of: Result['of'];
   /** FIT."GROUP".NAME: this group of a per-group fit, whatever group the row is for. */
   group?: string;
+  /** Where the spec first reads it (not part of its identity: for a located error). */
+  range?: Range;
 }
 
 interface Prepared {
@@ -152,7 +154,7 @@ function prepare(plan: DerivedPlan, defs: ReadonlyMap<string, Prepared | null>):
       return { kind: 'param', name: derivedKey(e.name), range: e.range };
     }
     if (e.kind !== 'result') return e;
-    const slot: Slot = { fit: e.fit, name: e.name, of: e.of, ...(e.group !== undefined ? { group: e.group } : {}) };
+    const slot: Slot = { fit: e.fit, name: e.name, of: e.of, ...(e.group !== undefined ? { group: e.group } : {}), ...(e.range ? { range: e.range } : {}) };
     const key = slotKey(slot);
     const k = addSlot(slot);
     if (!seen.has(key)) {
@@ -223,6 +225,8 @@ interface Context {
   grouped: (fit: string) => boolean;
   /** The joint solve of a fit with shared parameters (engine/run/joint.ts), for the covariance between its groups. */
   joint: ReadonlyMap<string, JointFitResult>;
+  /** Located errors of the run (a group label the fit does not have). */
+  errors: RunError[];
 }
 
 /**
@@ -423,7 +427,9 @@ function evaluateAll(p: Prepared, results: ReadonlyMap<string, FitResult[]>, ctx
     const s = p.slots[j];
     if (s.group === undefined || pinned[j]) continue;
     const labels = results.get(s.fit)!.map((x) => x.group).filter((x): x is string => x !== undefined);
-    return [row(undefined, missing(derivedText.unknownGroup(s.fit, s.group, suggest(s.group, labels))))];
+    const message = derivedText.unknownGroup(s.fit, s.group, suggest(s.group, labels));
+    ctx.errors.push({ code: 'unknown_group', message, ...(s.range ? { range: s.range } : d.range ? { range: d.range } : {}), fit: s.fit });
+    return [row(undefined, missing(message))];
   }
   /** The fits read without naming a group whose results are per group: one row per group. */
   const grouped = p.fits.filter((fit) => ctx.grouped(fit) && p.slots.some((s) => s.fit === fit && s.group === undefined));
@@ -454,9 +460,10 @@ export function runDerived(
   results: ReadonlyMap<string, FitResult[]>,
   ran: (fit: string) => boolean = () => true,
   joint: readonly JointFitResult[] = [],
+  errors: RunError[] = [],
 ): DerivedResult[] {
   const defs = new Map<string, Prepared | null>();
-  const ctx: Context = { defs, memo: new Map(), grouped: (fit) => (results.get(fit) ?? []).some((r) => r.group !== undefined), joint: new Map(joint.map((j) => [j.fit, j])) };
+  const ctx: Context = { defs, memo: new Map(), grouped: (fit) => (results.get(fit) ?? []).some((r) => r.group !== undefined), joint: new Map(joint.map((j) => [j.fit, j])), errors };
   const out: DerivedResult[] = [];
   for (const d of plans) {
     let prepared: Prepared;

@@ -9,7 +9,7 @@
 import { memberName, type MemberOf } from '../../parser/registry/statistics';
 import type { Bound, Expectation, ExpectTarget, StatisticName } from '../../parser/plan';
 import { expectationText, withheldText } from '../messages';
-import type { DerivedResult, ExpectationResult, FitResult } from '../result';
+import type { DerivedResult, ExpectationResult, FitResult, RunError } from '../result';
 import { statisticValue } from './statistics';
 import { suggest } from '../../parser/suggest';
 
@@ -62,6 +62,8 @@ export function checkExpectations(
   results: ReadonlyMap<string, FitResult[]>,
   derived: readonly DerivedResult[] = [],
   queryNumber?: QueryNumber,
+  /** Located errors of the run: a group label the fit does not have is also reported here. */
+  errors?: RunError[],
 ): ExpectationResult[] {
   const out: ExpectationResult[] = [];
   for (const e of expectations) {
@@ -82,7 +84,9 @@ export function checkExpectations(
     const fits = pinned === undefined ? all : all.filter((r) => r.group === pinned);
     if (fits.length === 0) {
       const labels = all.map((r) => r.group).filter((g): g is string => g !== undefined);
-      out.push({ expectation: e, actual: null, passed: false, message: expectationText.noGroup(targetText(e), t.fit, pinned!, suggest(pinned!, labels)) });
+      const message = expectationText.noGroup(targetText(e), t.fit, pinned!, suggest(pinned!, labels));
+      errors?.push({ code: 'unknown_group', message, range: e.range, fit: t.fit });
+      out.push({ expectation: e, actual: null, passed: false, message });
       continue;
     }
     for (const r of fits) out.push(checkOne(e, r, queryNumber));

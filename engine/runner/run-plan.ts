@@ -290,10 +290,10 @@ export function finishRun(plan: Plan, run: FittedRun): RunResult {
   const queries = plan.queries.filter((q) => (q.kind === 'compare' ? q.fits.every(ran) : ran(q.fit)));
   const q = runQueries(queries, { fitPlans: fitPlans as Map<string, FitPlan>, results });
   for (const e of q.errors) errors.push(e);
-  const plain = runDerived(plan.derived ?? [], results, ran, run.joint ?? []);
+  const plain = runDerived(plan.derived ?? [], results, ran, run.joint ?? [], errors);
   const derived = run.refits ? derivedIntervals(plan.derived ?? [], results, plain, run.refits) : plain;
   const queryAt: QueryNumber = (t, r, e) => queryNumber(fitPlans.get(t.fit)!, r, t, e.range);
-  const expectations = checkExpectations(plan.expectations.filter((e) => expectationApplies(e, ran, derived)), results, derived, queryAt);
+  const expectations = checkExpectations(plan.expectations.filter((e) => expectationApplies(e, ran, derived)), results, derived, queryAt, errors);
   return {
     version: RESULT_VERSION,
     provenance: run.provenance,

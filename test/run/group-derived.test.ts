@@ -132,6 +132,10 @@ expect potency."RFE".ec50.se below 1
     expect(rel.note).toContain('no group "TSET"');
     expect(rel.note).toContain('did you mean "TEST"');
     expect(rel.range?.start.line).toBe(10);
+    // and located errors of the run: the derive's reference (line 10, from its column) and the expectation (line 11)
+    expect(result.errors.map((e) => [e.code, e.range?.start.line, e.fit])).toEqual([['unknown_group', 10, 'potency'], ['unknown_group', 11, 'potency']]);
+    expect(result.errors[0].range!.start.column).toBeGreaterThan(1);
+    expect(result.errors[0].message).toBe(rel.note.replace(/\.$/, ''));
   });
 
   it('a fit without groups, or a misplaced label: located errors from the checker', () => {
