@@ -148,6 +148,8 @@ export const derivedText = {
   unknownGroup: (fit: string, group: string, near: string[]) =>
     `fit ${fit} has no group ${JSON.stringify(group)}${near.length ? ` (did you mean ${near.map((g) => JSON.stringify(g)).join(', ')}?)` : ''}`,
   groupsIndependent: (fit: string) => `the groups of ${fit} are fitted separately, so different groups are treated as independent (no covariance between them)`,
+  leftOutIndependent: (fit: string, groups: string[]) =>
+    `${groups.map((g) => JSON.stringify(g)).join(', ')} ${groups.length === 1 ? 'was' : 'were'} left out of the joint fit of ${fit} and ${groups.length === 1 ? 'is' : 'are'} treated as independent of the other groups`,
   jointCross: (fit: string) => `the covariance between the groups of ${fit} is that of its joint fit (shared parameters and cross-group terms included)`,
 } as const;
 

@@ -360,7 +360,15 @@ function evaluate(p: Prepared, res: readonly FitResult[], group: string, ctx: Co
   // the covariance between groups: of the joint solve, or none between separately fitted groups
   for (const fit of paramFits) {
     const groupsRead = new Set(p.slots.map((s, j) => (s.fit === fit && free[j] >= 0 ? res[j].group : undefined)).filter((x) => x !== undefined));
-    if (groupsRead.size > 1) notes.push(ctx.joint.has(fit) ? derivedText.jointCross(fit) : derivedText.groupsIndependent(fit));
+    if (groupsRead.size < 2) continue;
+    const joint = ctx.joint.get(fit);
+    if (!joint) notes.push(derivedText.groupsIndependent(fit));
+    else {
+      notes.push(derivedText.jointCross(fit));
+      // a group left out of the joint solve keeps its separate fit: independent of the others
+      const out = [...groupsRead].filter((x) => !joint.groups.includes(x!)) as string[];
+      if (out.length) notes.push(derivedText.leftOutIndependent(fit, out));
+    }
   }
   const lead = paramFits.length === 1 ? derivedText.deltaOne(paramFits[0]) : derivedText.deltaMany(paramFits);
 
