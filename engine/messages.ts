@@ -144,6 +144,13 @@ export const derivedText = {
   normalInterval: (level: string) => `${level} normal interval`,
   levelsDiffer: 'the fits have different confidence levels, so the interval uses 95%',
   noInterval: 'no interval: the fit has no degrees of freedom',
+  /** FIT."GROUP".NAME naming no group of the fit, with the nearest labels. */
+  unknownGroup: (fit: string, group: string, near: string[]) =>
+    `fit ${fit} has no group ${JSON.stringify(group)}${near.length ? ` (did you mean ${near.map((g) => JSON.stringify(g)).join(', ')}?)` : ''}`,
+  groupsIndependent: (fit: string) => `the groups of ${fit} are fitted separately, so different groups are treated as independent (no covariance between them)`,
+  leftOutIndependent: (fit: string, groups: string[]) =>
+    `${groups.map((g) => JSON.stringify(g)).join(', ')} ${groups.length === 1 ? 'was' : 'were'} left out of the joint fit of ${fit} and ${groups.length === 1 ? 'is' : 'are'} treated as independent of the other groups`,
+  jointCross: (fit: string) => `the covariance between the groups of ${fit} is that of its joint fit (shared parameters and cross-group terms included)`,
 } as const;
 
 /** Why an input file cannot be read (engine/io/input.ts): only regular files are read. */
@@ -320,6 +327,9 @@ export const inverseText = {
 export const expectationText = {
   noDerived: (target: string, name: string) => `${target}: no derived quantity ${name} was computed`,
   noResult: (target: string, fit: string) => `${target}: fit ${fit} has no result`,
+  /** FIT."GROUP".NAME naming no group of the fit, with the nearest labels. */
+  noGroup: (target: string, fit: string, group: string, near: string[]) =>
+    `${target}: fit ${fit} has no group ${JSON.stringify(group)}${near.length ? ` (did you mean ${near.map((g) => JSON.stringify(g)).join(', ')}?)` : ''}`,
   notFitTarget: (target: string) => `${target} is not a fit target`,
   noParameter: (target: string, name: string) => `${target}: no parameter ${name}`,
   notComputed: (target: string, why: string) => `${target} could not be computed${why}`,

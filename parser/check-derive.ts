@@ -63,6 +63,7 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
     },
 
     dotted(head: NameAst, members: NameAst[], range: Range, use: ExprUse): Expr {
+      members = [...members];
       const zero: Expr = { kind: 'number', value: 0, range };
       if (env.derived.has(head.name) || (!env.fits.has(head.name) && env.declared.derive.has(head.name) && !env.declared.fit.has(head.name))) {
         env.r.report('unknown_target', MSG.derivedNotFit(head.name), head.range);
@@ -70,6 +71,29 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
         return zero;
       }
       const fit = lookupFit(env, head);
+      // FIT."GROUP".NAME: the number of one group of a per-group fit (group labels are known only with the data: engine/run/derived.ts)
+      let group: string | undefined;
+      if (members[0]?.quoted) {
+        group = members[0].name;
+        members = members.slice(1);
+        if (members.length === 0) {
+          env.r.report('unknown_target', MSG.groupNeedsMember(head.name, group), range);
+          use.broken = true;
+          return zero;
+        }
+        if (fit && fit.plan.groupBy === undefined) {
+          env.r.report('unknown_target', MSG.groupOfUngroupedFit(fit.plan.name, group), range);
+          use.broken = true;
+          return zero;
+        }
+      }
+      const misplaced = members.find((m) => m.quoted);
+      if (misplaced) {
+        env.r.report('unknown_target', MSG.groupMisplaced, misplaced.range);
+        use.broken = true;
+        return zero;
+      }
+      const at = group !== undefined ? { group } : {};
       const [member, extra, beyond] = members;
       // FIT.PARAM.se: the parameter's standard error, a fixed number (engine/run/derived.ts); nothing else after a member
       const isSe = extra?.name === 'se' && !beyond && (!fit || fit.params.includes(member.name));
@@ -83,9 +107,9 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
         return zero;
       }
       addFit(fits, fit.plan.name);
-      if (isSe) return { kind: 'result', fit: fit.plan.name, of: 'stderr', name: member.name, range };
-      if (fit.params.includes(member.name)) return { kind: 'result', fit: fit.plan.name, of: 'estimate', name: member.name, range };
-      if (isStatistic(member.name)) return { kind: 'result', fit: fit.plan.name, of: 'statistic', name: member.name, range };
+      if (isSe) return { kind: 'result', fit: fit.plan.name, of: 'stderr', name: member.name, range, ...at };
+      if (fit.params.includes(member.name)) return { kind: 'result', fit: fit.plan.name, of: 'estimate', name: member.name, range, ...at };
+      if (isStatistic(member.name)) return { kind: 'result', fit: fit.plan.name, of: 'statistic', name: member.name, range, ...at };
       env.r.report('unknown_target', MSG.unknownTarget(member.name, fit.plan.name), member.range, env.suggester.suggest(member.name, [...fit.params, ...STATISTICS]));
       use.broken = true;
       return zero;

@@ -252,7 +252,28 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
   const fit = derived ? undefined : lookupFit(env, x.fit);
   const fitName = x.fit?.name ?? '';
   let target: ExpectTarget | undefined = derived && x.fit ? derivedTarget(env, x.fit, x.path) : undefined;
-  const [first, second, third] = derived ? [] : x.path;
+  // FIT."GROUP".NAME: that one group of a per-group fit (its labels are known only with the data: engine/run/expectations.ts)
+  let path = x.path;
+  let group: string | undefined;
+  if (!derived && path[0]?.quoted) {
+    group = path[0].name;
+    path = path.slice(1);
+    if (path.length === 0) {
+      env.r.report('unknown_target', MSG.groupNeedsMember(fitName, group), x.path[0].range);
+      return undefined;
+    }
+    if (fit && fit.plan.groupBy === undefined) {
+      env.r.report('unknown_target', MSG.groupOfUngroupedFit(fit.plan.name, group), x.path[0].range);
+      return undefined;
+    }
+  }
+  const misplaced = path.find((p) => p.quoted);
+  if (misplaced) {
+    env.r.report('unknown_target', MSG.groupMisplaced, misplaced.range);
+    return undefined;
+  }
+  const at = group !== undefined ? { group } : {};
+  const [first, second, third] = derived ? [] : path;
   if (first) {
     const params = fit?.params ?? [];
     const isParam = params.includes(first.name);
@@ -264,12 +285,12 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
       } else if (!isMember(second.name)) {
         env.r.report('unknown_target', MSG.unknownStderrPath(second.name), second.range, env.suggester.suggest(second.name, MEMBERS));
       } else {
-        target = { kind: 'parameter', fit: fitName, name: first.name, of: MEMBER_SPECS[second.name].of };
+        target = { kind: 'parameter', fit: fitName, name: first.name, of: MEMBER_SPECS[second.name].of, ...at };
       }
     } else if (isParam) {
-      target = { kind: 'parameter', fit: fitName, name: first.name, of: 'estimate' };
+      target = { kind: 'parameter', fit: fitName, name: first.name, of: 'estimate', ...at };
     } else if (isStatistic(first.name)) {
-      target = { kind: 'statistic', fit: fitName, name: first.name };
+      target = { kind: 'statistic', fit: fitName, name: first.name, ...at };
     } else if (fit) {
       env.r.report('unknown_target', MSG.unknownTarget(first.name, fitName), first.range, env.suggester.suggest(first.name, [...params, ...STATISTICS]));
     }

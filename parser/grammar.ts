@@ -16,12 +16,12 @@
  *   queryOpt   := 'readings' value | ('sigma' | 'weight') value (',' value)*
  *   backcalc   := 'backcalc' Name
  *   compare    := 'compare' Name ('within' Name | (',' Name)*)
- *   expect     := 'expect' Name ( '.' Name )* ( 'at' column '=' value queryOpt* )? ( 'within' value '..' value | ('above'|'below') value )
+ *   expect     := 'expect' Name ( '.' ( Name | String ) )* ( 'at' column '=' value queryOpt* )? ( 'within' value '..' value | ('above'|'below') value )
  *   value      := ('-' | '+')? ( Number | 'inf' | Name )
  *   column     := Name | String
  *
  *   expr       := operand ( BinaryOperator operand )*
- *   operand    := ( '-' | '+' | 'not' )* ( Number | String | Name ( '(' expr (',' expr)* ')' | ( '.' Name )+ )? | '(' expr ')' )
+ *   operand    := ( '-' | '+' | 'not' )* ( Number | String | Name ( '(' expr (',' expr)* ')' | ( '.' ( Name | String ) )+ )? | '(' expr ')' )
  *
  * A dotted name `FIT.NAME` reads a fit's result; the checker allows it only in `derive`.
  *
@@ -266,7 +266,8 @@ export class LsqParser extends CstParser {
     this.CONSUME(T.Name, { LABEL: 'fit' });
     this.MANY(() => {
       this.CONSUME(T.Dot);
-      this.CONSUME2(T.Name, { LABEL: 'path' });
+      // FIT."GROUP".PARAM: a quoted path element names a group (parser/check-queries.ts)
+      this.OR2([{ ALT: () => this.CONSUME2(T.Name, { LABEL: 'path' }) }, { ALT: () => this.CONSUME(T.StringLiteral, { LABEL: 'path' }) }]);
     });
     this.OPTION(() => {
       this.CONSUME(T.At);
@@ -347,7 +348,8 @@ export class LsqParser extends CstParser {
               {
                 ALT: () => this.AT_LEAST_ONE(() => {
                   this.CONSUME(T.Dot, { LABEL: 'dot' });
-                  this.CONSUME2(T.Name, { LABEL: 'member' });
+                  // a quoted member names a group of a per-group fit: FIT."GROUP".PARAM (checked in check-derive.ts)
+                  this.OR3([{ ALT: () => this.CONSUME2(T.Name, { LABEL: 'member' }) }, { ALT: () => this.CONSUME2(T.StringLiteral, { LABEL: 'member' }) }]);
                 }),
               },
             ]));

@@ -50,7 +50,7 @@ export const CODES = {
   number_range: { severity: 'error', when: 'a number too large to be finite (e.g. `1e400`)' },
   empty_path: { severity: 'error', when: '`data NAME = ""`' },
   delimiter_clash: { severity: 'error', when: '`decimal ","` together with `delimiter ","`' },
-  unknown_target: { severity: 'error', when: 'an expectation or a `FIT.NAME` in derive names neither a parameter nor a statistic of the fit, `.X` other than `.se`, `.lower`, `.upper`, a fit without `.NAME`, or a derived quantity with a member' },
+  unknown_target: { severity: 'error', when: 'an expectation or a `FIT.NAME` in derive names neither a parameter nor a statistic of the fit, `.X` other than `.se`, `.lower`, `.upper`, a fit without `.NAME`, or a derived quantity with a member; a quoted group label (`FIT."GROUP".NAME`) on a fit without `per`, after another member, or with nothing after it' },
   predictor_mismatch: { severity: 'error', when: 'predict/invert on a column the model does not vary with, or on a model without exactly one predictor column' },
   response_mismatch: { severity: 'error', when: 'invert at a column that is not the response, or on a response that reads several columns' },
   compare_too_few: { severity: 'error', when: 'compare lists fewer than two different fits' },
@@ -169,6 +169,12 @@ export const MSG = {
   derivedNotFit: (name: string) => `${q(name)} is a derived quantity, not a fit; write ${name} without a member`,
   seNotParameter: (name: string) => `.se follows a parameter (FIT.PARAM.se); ${q(name)} is not a parameter of the fit`,
   derivePathTooLong: 'expected FIT.PARAM or FIT.STAT',
+  /** FIT."GROUP".PARAM on a fit without `per COLUMN`. */
+  groupOfUngroupedFit: (fit: string, group: string) => `fit ${q(fit)} has no groups (no per COLUMN), so ${JSON.stringify(group)} names none of them; write ${fit}.PARAM`,
+  /** A quoted member anywhere but right after the fit name. */
+  groupMisplaced: 'a quoted group label goes right after the fit name: FIT."GROUP".PARAM',
+  /** FIT."GROUP" with nothing after it. */
+  groupNeedsMember: (fit: string, group: string) => `expected ${fit}.${JSON.stringify(group)}.PARAM or ${fit}.${JSON.stringify(group)}.STAT`,
   unknownDerived: (name: string) => `no derived quantity named ${q(name)}`,
   unknownDerivedPath: (name: string) => `after a derived quantity only .se (standard error), .lower or .upper (its confidence interval) may follow, not ${q(name)}`,
   deriveClash: (name: string, what: string, line: number) =>

@@ -94,7 +94,7 @@ export function exprText(expr: Expr): string {
     case 'text':
       return `"${expr.value}"`;
     case 'result':
-      return expr.of === 'stderr' ? `${expr.fit}.${expr.name}.se` : `${expr.fit}.${expr.name}`;
+      return `${expr.fit}${expr.group !== undefined ? `.${JSON.stringify(expr.group)}` : ''}.${expr.name}${expr.of === 'stderr' ? '.se' : ''}`;
     case 'derived':
       return expr.name;
     case 'negate':

@@ -69,10 +69,11 @@ export type Expr =
    */
   | { kind: 'text'; value: string; range?: Range }
   | { kind: 'param'; name: string; range?: Range }
-  | { kind: 'result'; fit: string; of: 'estimate'; name: string; range?: Range }
-  | { kind: 'result'; fit: string; of: 'statistic'; name: StatisticName; range?: Range }
+  | { kind: 'result'; fit: string; of: 'estimate'; name: string; range?: Range; group?: string }
+  | { kind: 'result'; fit: string; of: 'statistic'; name: StatisticName; range?: Range; group?: string }
   /** `FIT.PARAM.se` in derive: the parameter's standard error, taken as a fixed number like a statistic (additive). */
-  | { kind: 'result'; fit: string; of: 'stderr'; name: string; range?: Range }
+  | { kind: 'result'; fit: string; of: 'stderr'; name: string; range?: Range; group?: string }
+  /* `group` (additive): FIT."GROUP".NAME in derive - the number of that one group of a per-group fit, not of the row's group. */
   | { kind: 'derived'; name: string; range?: Range }
   | { kind: 'negate'; arg: Expr; range?: Range }
   | { kind: 'binary'; op: BinaryOp; left: Expr; right: Expr; range?: Range }
@@ -241,8 +242,9 @@ export type Query =
   | { kind: 'compare'; fits: string[]; within?: boolean; range: Range };
 
 export type ExpectTarget =
-  | { kind: 'parameter'; fit: string; name: string; of: MemberOf }
-  | { kind: 'statistic'; fit: string; name: StatisticName }
+  /** `group` (additive): `expect FIT."GROUP".NAME ...` checks that one group of a per-group fit only. */
+  | { kind: 'parameter'; fit: string; name: string; of: MemberOf; group?: string }
+  | { kind: 'statistic'; fit: string; name: StatisticName; group?: string }
   /** A derived quantity (`expect lod below 0.1`) or its standard error (`expect lod.se below 0.01`). */
   | { kind: 'derived'; name: string; of: MemberOf }
   /**

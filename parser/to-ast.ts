@@ -90,6 +90,8 @@ class AstBuilder extends BaseVisitor {
   }
   private nameOf(ctx: Children, key: string, i = 0): NameAst | undefined {
     const t = this.tok(ctx, key, i);
+    // a quoted member of a dotted path (FIT."GROUP".PARAM) is a group label: the text inside the quotes
+    if (t && t.image.startsWith('"')) return { name: t.image.slice(1, -1), quoted: true, range: tokenRange(t) };
     return t ? { name: t.image, quoted: false, range: tokenRange(t) } : undefined;
   }
   /** The name inside a `word` sub-rule. */

@@ -44,10 +44,11 @@
  * negative gᵀCg is rounding when it is within NEGATIVE_VARIANCE_TOLERANCE of
  * Σ|gⱼCⱼₖgₖ| (then the variance is 0), else the covariance is unusable.
  */
-import type { DerivedPlan, Expr } from '../../parser/plan';
+import type { DerivedPlan, Expr, Range } from '../../parser/plan';
 import { compileModel, type CompiledModel } from '../compile';
 import { derivedText, num, weightingText } from '../messages';
-import type { DerivedResult, FitResult } from '../result';
+import type { DerivedResult, FitResult, JointFitResult, RunError } from '../result';
+import { suggest } from '../../parser/suggest';
 import { normalQuantile, tCritical } from '../stats/distributions';
 import { statisticValue } from './expectations';
 import { exprText, mapLeaves } from '../../parser/plan-expr';
@@ -60,8 +61,9 @@ const FALLBACK_LEVEL = 0.95;
 
 type Result = Extract<Expr, { kind: 'result' }>;
 
-/** `FIT.NAME` or `FIT.PARAM.se`, as the spec writes it. */
-const slotText = (s: { fit: string; name: string; of: Result['of'] }): string => (s.of === 'stderr' ? `${s.fit}.${s.name}.se` : `${s.fit}.${s.name}`);
+/** `FIT.NAME`, `FIT.PARAM.se` or `FIT."GROUP".NAME`, as the spec writes it. */
+const slotText = (s: { fit: string; name: string; of: Result['of']; group?: string }): string =>
+  `${s.fit}${s.group !== undefined ? `.${JSON.stringify(s.group)}` : ''}.${s.name}${s.of === 'stderr' ? '.se' : ''}`;
 
 /**
  * Numbers whose value depends on how the points are weighted, beyond the estimates: a parameter's standard error
@@ -75,6 +77,10 @@ interface Slot {
   fit: string;
   name: string;
   of: Result['of'];
+  /** FIT."GROUP".NAME: this group of a per-group fit, whatever group the row is for. */
+  group?: string;
+  /** Where the spec first reads it (not part of its identity: for a located error). */
+  range?: Range;
 }
 
 interface Prepared {
@@ -106,7 +112,7 @@ type Memo = Map<string, Map<string, Raw>>;
 const sentence = (s: string): string => (s.endsWith('.') ? s : `${s}.`);
 const missing = (note: string): Numbers => ({ value: null, stderr: null, lower: null, upper: null, level: null, dof: null, note: sentence(note) });
 
-const slotKey = (s: Slot): string => `${s.of}\u0000${s.fit}\u0000${s.name}`;
+const slotKey = (s: Slot): string => `${s.of}\u0000${s.fit}\u0000${s.name}${s.group !== undefined ? `\u0000${JSON.stringify(s.group)}` : ''}`;
 /** Parameter name of a derived quantity read by another (a NUL cannot occur in a name of the spec). */
 const derivedKey = (name: string): string => `derived\u0000${name}`;
 
@@ -148,7 +154,7 @@ function prepare(plan: DerivedPlan, defs: ReadonlyMap<string, Prepared | null>):
       return { kind: 'param', name: derivedKey(e.name), range: e.range };
     }
     if (e.kind !== 'result') return e;
-    const slot: Slot = { fit: e.fit, name: e.name, of: e.of };
+    const slot: Slot = { fit: e.fit, name: e.name, of: e.of, ...(e.group !== undefined ? { group: e.group } : {}), ...(e.range ? { range: e.range } : {}) };
     const key = slotKey(slot);
     const k = addSlot(slot);
     if (!seen.has(key)) {
@@ -182,7 +188,7 @@ function rawNumbers(p: Prepared, theta: Float64Array, group: string, memo: Memo,
   for (let k = 0; k < p.deps.length; k++) {
     const dep = p.deps[k];
     const prepared = defs.get(dep.name)!;
-    const key = prepared.fits.some(grouped) ? group : '';
+    const key = variesByGroup(prepared, grouped) ? group : '';
     let r = memo.get(dep.name)?.get(key);
     if (!r) r = rawNumbers(prepared, Float64Array.from(dep.map, (j) => theta[j]), key, memo, defs, grouped);
     depRaw.push(r);
@@ -207,6 +213,9 @@ function rawNumbers(p: Prepared, theta: Float64Array, group: string, memo: Memo,
   return raw;
 }
 
+/** A quantity gives one value per group when it reads a per-group fit without naming the group (a `FIT."GROUP".NAME` is the same for every row). */
+const variesByGroup = (p: Prepared, grouped: (fit: string) => boolean): boolean => p.slots.some((s) => s.group === undefined && grouped(s.fit));
+
 const levelText = (level: number): string => `${num(level * 100)}%`;
 
 /** What `evaluate` needs of the quantities above: their preparation and raw numbers, and which fits are per group. */
@@ -214,14 +223,54 @@ interface Context {
   defs: ReadonlyMap<string, Prepared | null>;
   memo: Memo;
   grouped: (fit: string) => boolean;
+  /** The joint solve of a fit with shared parameters (engine/run/joint.ts), for the covariance between its groups. */
+  joint: ReadonlyMap<string, JointFitResult>;
+  /** Located errors of the run (a group label the fit does not have). */
+  errors: RunError[];
 }
 
-/** Value, standard error and interval with the fit result chosen for each fit read (`group`: the group label, '' for none). */
-function evaluate(p: Prepared, pick: ReadonlyMap<string, FitResult>, group: string, ctx: Context): Numbers {
+/**
+ * The correlation of free parameters a (index ka in result ra) and b, read from slots of fit `fit`.
+ * One result: its correlation matrix. Two groups of a separate per-group fit: 0 (independent, fitted to
+ * different rows). Two groups of a joint fit: a shared parameter is one number in every group, so its
+ * correlation with the other is read in the other's group result; two per-group parameters have
+ * Cov(θ_g,i, θ_h,j) = s²·(X_g X_hᵀ)ᵢⱼ (engine/solve/block-covariance.ts, Björck 1996 §6.3.2). NaN: not available.
+ */
+function correlationOf(ra: FitResult, ka: number, rb: FitResult, kb: number, joint: JointFitResult | undefined): number {
+  if (ra === rb) return ra.correlation?.[ka]?.[kb] ?? NaN;
+  if (ra.name !== rb.name) return 0;
+  const ga = joint && ra.group !== undefined ? joint.groups.indexOf(ra.group) : -1;
+  const gb = joint && rb.group !== undefined ? joint.groups.indexOf(rb.group) : -1;
+  if (!joint || ga < 0 || gb < 0) return 0;
+  const na = ra.parameters[ka].name;
+  const nb = rb.parameters[kb].name;
+  if (joint.shared.includes(na)) {
+    const k = rb.parameters.findIndex((q) => q.name === na);
+    return k < 0 ? NaN : rb.correlation?.[k]?.[kb] ?? NaN;
+  }
+  if (joint.shared.includes(nb)) {
+    const k = ra.parameters.findIndex((q) => q.name === nb);
+    return k < 0 ? NaN : ra.correlation?.[ka]?.[k] ?? NaN;
+  }
+  const ia = joint.perGroup.indexOf(na);
+  const ib = joint.perGroup.indexOf(nb);
+  const xa = joint.cross.x[ga];
+  const xb = joint.cross.x[gb];
+  const sa = ra.parameters[ka].stderr;
+  const sb = rb.parameters[kb].stderr;
+  if (ia < 0 || ib < 0 || !xa || !xb || typeof sa !== 'number' || typeof sb !== 'number') return NaN;
+  const ps = joint.shared.length;
+  let c = 0;
+  for (let k = 0; k < ps; k++) c += xa[ia * ps + k] * xb[ib * ps + k];
+  return ((joint.cross.scale * c) / sa) / sb;
+}
+
+/** Value, standard error and interval with the fit result chosen for each slot (`res`, parallel to p.slots; `group`: the row's group label, '' for none). */
+function evaluate(p: Prepared, res: readonly FitResult[], group: string, ctx: Context): Numbers {
   if (p.error || !p.model) return missing(p.error ?? derivedText.compileFailed('no evaluator'));
   const notes: string[] = [];
-  for (const fit of p.fits) {
-    const r = pick.get(fit)!;
+  for (const r of new Set(res)) {
+    const fit = r.name;
     if (r.stop.code === 'failed' || r.stop.code === 'cancelled') return missing(derivedText.fitFailed(fit, r.stop.message));
     // withheld like the fit's own statistics (engine/front/views/summary.ts fitStatus): its values are not estimates
     if (!r.stop.converged) return missing(derivedText.notConverged(fit));
@@ -231,7 +280,7 @@ function evaluate(p: Prepared, pick: ReadonlyMap<string, FitResult>, group: stri
   const free: number[] = [];
   for (let j = 0; j < p.slots.length; j++) {
     const s = p.slots[j];
-    const r = pick.get(s.fit)!;
+    const r = res[j];
     free.push(-1);
     if (s.of === 'statistic') {
       theta[j] = statisticValue(r, s.name as Parameters<typeof statisticValue>[1]);
@@ -254,7 +303,7 @@ function evaluate(p: Prepared, pick: ReadonlyMap<string, FitResult>, group: stri
   if (statistics.length) notes.push(derivedText.fixedStatistics(statistics));
   // numbers on a weighted fit's scale (its rmse, ssr, standard errors, ...): the value changes with the weighting
   for (const fit of p.fits) {
-    const w = pick.get(fit)!.model?.weighting;
+    const w = res[p.slots.findIndex((s) => s.fit === fit)].model?.weighting;
     if (!w || w.kind === 'none') continue;
     const scaled = p.slots.filter((s) => s.fit === fit && isOnWeightedScale(s)).map(slotText);
     if (scaled.length) notes.push(weightingText.derivedNote(scaled, fit, w));
@@ -264,66 +313,83 @@ function evaluate(p: Prepared, pick: ReadonlyMap<string, FitResult>, group: stri
   const finish = (lead: string): Numbers => ({ ...result, note: sentence([lead, ...notes].join('; ')) });
   if (paramFits.length === 0) return finish(derivedText.noFreeParameter);
 
-  // gᵀCg, fit by fit (zero covariance between fits), with C = diag(se)·ρ·diag(se) of each fit and
+  // gᵀCg over every pair of free numbers read, with C = diag(se)·ρ·diag(se) and ρ between two numbers from
+  // correlationOf (one fit result, two groups of a joint fit, or 0 between independent fits and groups), and
   // every term divided by the largest |gⱼ·seⱼ| first, so nothing is squared out of range.
-  const perFit: { m: number; q: number }[] = [];
+  const v = new Map<number, number>();
   const badCovariance: string[] = [];
-  for (const fit of paramFits) {
-    const r = pick.get(fit)!;
-    const idx = p.slots.map((s, j) => (s.fit === fit && free[j] >= 0 ? j : -1)).filter((j) => j >= 0);
-    const v = new Map<number, number>();
-    let m = 0;
-    for (const a of idx) {
-      if (!Number.isFinite(g[a])) return finish(derivedText.badGradient);
-      if (g[a] === 0) continue;
-      const se = r.parameters[free[a]].stderr;
-      const va = typeof se === 'number' ? g[a] * se : NaN;
-      if (!Number.isFinite(va)) {
-        if (!badCovariance.includes(fit)) badCovariance.push(fit);
+  const bad = (fit: string) => {
+    if (!badCovariance.includes(fit)) badCovariance.push(fit);
+  };
+  let m = 0;
+  for (let a = 0; a < p.slots.length; a++) {
+    if (free[a] < 0) continue;
+    if (!Number.isFinite(g[a])) return finish(derivedText.badGradient);
+    if (g[a] === 0) continue;
+    const se = res[a].parameters[free[a]].stderr;
+    const va = typeof se === 'number' ? g[a] * se : NaN;
+    if (!Number.isFinite(va)) {
+      bad(p.slots[a].fit);
+      continue;
+    }
+    if (va === 0) continue; // an estimate that does not vary (e.g. an exact fit) adds nothing
+    v.set(a, va);
+    m = Math.max(m, Math.abs(va));
+  }
+  let variance = 0;
+  let scale = 0;
+  for (const [a, va] of v) {
+    for (const [b, vb] of v) {
+      const rho = correlationOf(res[a], free[a], res[b], free[b], ctx.joint.get(p.slots[a].fit));
+      if (!Number.isFinite(rho)) {
+        bad(p.slots[a].fit);
         continue;
       }
-      if (va === 0) continue; // an estimate that does not vary (e.g. an exact fit) adds nothing
-      v.set(a, va);
-      m = Math.max(m, Math.abs(va));
+      const term = (va / m) * rho * (vb / m);
+      variance += term;
+      scale += Math.abs(term);
     }
-    let q = 0;
-    let scale = 0;
-    for (const [a, va] of v) {
-      for (const [b, vb] of v) {
-        const rho = r.correlation?.[free[a]]?.[free[b]];
-        if (typeof rho !== 'number' || !Number.isFinite(rho)) {
-          if (!badCovariance.includes(fit)) badCovariance.push(fit);
-          continue;
-        }
-        const term = (va / m) * rho * (vb / m);
-        q += term;
-        scale += Math.abs(term);
-      }
-    }
-    if (q < 0) {
-      if (-q > NEGATIVE_VARIANCE_TOLERANCE * scale) return finish(derivedText.noCovariance(paramFits));
-      q = 0;
-    }
-    if (m > 0) perFit.push({ m, q });
   }
   if (badCovariance.length) return finish(derivedText.noCovariance(badCovariance));
-  const big = perFit.reduce((a, f) => Math.max(a, f.m), 0);
-  const variance = big === 0 ? 0 : perFit.reduce((a, f) => a + (f.m / big) ** 2 * f.q, 0);
-  const se = big * Math.sqrt(variance);
+  if (variance < 0) {
+    if (-variance > NEGATIVE_VARIANCE_TOLERANCE * scale) return finish(derivedText.noCovariance(paramFits));
+    variance = 0;
+  }
+  const se = m * Math.sqrt(variance);
   result.stderr = se;
+  // the covariance between groups: of the joint solve, or none between separately fitted groups
+  for (const fit of paramFits) {
+    const groupsRead = new Set(p.slots.map((s, j) => (s.fit === fit && free[j] >= 0 ? res[j].group : undefined)).filter((x) => x !== undefined));
+    if (groupsRead.size < 2) continue;
+    const joint = ctx.joint.get(fit);
+    if (!joint) notes.push(derivedText.groupsIndependent(fit));
+    else {
+      notes.push(derivedText.jointCross(fit));
+      // a group left out of the joint solve keeps its separate fit: independent of the others
+      const out = [...groupsRead].filter((x) => !joint.groups.includes(x!)) as string[];
+      if (out.length) notes.push(derivedText.leftOutIndependent(fit, out));
+    }
+  }
   const lead = paramFits.length === 1 ? derivedText.deltaOne(paramFits[0]) : derivedText.deltaMany(paramFits);
 
   let q: number;
   let level: number;
   let dof: number | null = null;
-  if (paramFits.length === 1) {
-    const r = pick.get(paramFits[0])!;
-    level = r.level;
-    dof = r.goodness.dof;
+  // one source of free parameters: one fit result, or the groups of one joint solve (its level and dof)
+  const sources = new Set<FitResult | JointFitResult>();
+  for (let j = 0; j < p.slots.length; j++) {
+    if (free[j] < 0) continue;
+    const joint = ctx.joint.get(p.slots[j].fit);
+    sources.add(joint && res[j].group !== undefined && joint.groups.includes(res[j].group!) ? joint : res[j]);
+  }
+  if (sources.size === 1) {
+    const src = [...sources][0];
+    level = src.level;
+    dof = 'goodness' in src ? src.goodness.dof : src.dof;
     q = tCritical(level, dof);
     notes.push(Number.isFinite(q) ? derivedText.tInterval(levelText(level), dof) : derivedText.noInterval);
   } else {
-    const levels = paramFits.map((fit) => pick.get(fit)!.level);
+    const levels = [...sources].map((x) => x.level);
     const same = levels.every((l) => l === levels[0]);
     level = same ? levels[0] : FALLBACK_LEVEL;
     q = normalQuantile((1 + level) / 2);
@@ -363,22 +429,32 @@ function evaluateAll(p: Prepared, results: ReadonlyMap<string, FitResult[]>, ctx
   for (const fit of p.fits) {
     if ((results.get(fit) ?? []).length === 0) return [row(undefined, missing(derivedText.noResult(fit)))];
   }
-  const grouped = p.fits.filter(ctx.grouped);
+  // FIT."GROUP".NAME: that group's result, for every row
+  const pinned: (FitResult | undefined)[] = p.slots.map((s) => (s.group === undefined ? undefined : results.get(s.fit)!.find((x) => x.group === s.group)));
+  for (let j = 0; j < p.slots.length; j++) {
+    const s = p.slots[j];
+    if (s.group === undefined || pinned[j]) continue;
+    const labels = results.get(s.fit)!.map((x) => x.group).filter((x): x is string => x !== undefined);
+    const message = derivedText.unknownGroup(s.fit, s.group, suggest(s.group, labels));
+    ctx.errors.push({ code: 'unknown_group', message, ...(s.range ? { range: s.range } : d.range ? { range: d.range } : {}), fit: s.fit });
+    return [row(undefined, missing(message))];
+  }
+  /** The fits read without naming a group whose results are per group: one row per group. */
+  const grouped = p.fits.filter((fit) => ctx.grouped(fit) && p.slots.some((s) => s.fit === fit && s.group === undefined));
+  const resolve = (group: string | undefined): FitResult[] | string =>
+    p.slots.map((s, j) => pinned[j] ?? (grouped.includes(s.fit) ? results.get(s.fit)!.find((x) => x.group === group) : results.get(s.fit)![0]) ?? derivedText.noGroup(s.fit, group ?? '')).reduce<FitResult[] | string>(
+      (acc, r) => (typeof acc === 'string' ? acc : typeof r === 'string' ? r : [...acc, r]),
+      [],
+    );
   if (grouped.length === 0) {
-    const pick = new Map(p.fits.map((fit) => [fit, results.get(fit)![0]] as const));
-    return [row(undefined, evaluate(p, pick, '', ctx))];
+    const res = resolve(undefined);
+    return [row(undefined, typeof res === 'string' ? missing(res) : evaluate(p, res, '', ctx))];
   }
   const groups: string[] = [];
   for (const fit of grouped) for (const r of results.get(fit)!) if (r.group !== undefined && !groups.includes(r.group)) groups.push(r.group);
   return groups.map((group) => {
-    const pick = new Map<string, FitResult>();
-    for (const fit of p.fits) {
-      const rs = results.get(fit)!;
-      const r = grouped.includes(fit) ? rs.find((x) => x.group === group) : rs[0];
-      if (!r) return row(group, missing(derivedText.noGroup(fit, group)));
-      pick.set(fit, r);
-    }
-    return row(group, evaluate(p, pick, group, ctx));
+    const res = resolve(group);
+    return row(group, typeof res === 'string' ? missing(res) : evaluate(p, res, group, ctx));
   });
 }
 
@@ -387,9 +463,15 @@ function evaluateAll(p: Prepared, results: ReadonlyMap<string, FitResult[]>, ctx
  * results. A quantity that reads a fit that did not run (`ran` false, e.g.
  * `--fit` chose others) is left out, like the queries of such fits.
  */
-export function runDerived(plans: readonly DerivedPlan[], results: ReadonlyMap<string, FitResult[]>, ran: (fit: string) => boolean = () => true): DerivedResult[] {
+export function runDerived(
+  plans: readonly DerivedPlan[],
+  results: ReadonlyMap<string, FitResult[]>,
+  ran: (fit: string) => boolean = () => true,
+  joint: readonly JointFitResult[] = [],
+  errors: RunError[] = [],
+): DerivedResult[] {
   const defs = new Map<string, Prepared | null>();
-  const ctx: Context = { defs, memo: new Map(), grouped: (fit) => (results.get(fit) ?? []).some((r) => r.group !== undefined) };
+  const ctx: Context = { defs, memo: new Map(), grouped: (fit) => (results.get(fit) ?? []).some((r) => r.group !== undefined), joint: new Map(joint.map((j) => [j.fit, j])), errors };
   const out: DerivedResult[] = [];
   for (const d of plans) {
     let prepared: Prepared;

@@ -9,8 +9,9 @@
 import { memberName, type MemberOf } from '../../parser/registry/statistics';
 import type { Bound, Expectation, ExpectTarget, StatisticName } from '../../parser/plan';
 import { expectationText, withheldText } from '../messages';
-import type { DerivedResult, ExpectationResult, FitResult } from '../result';
+import type { DerivedResult, ExpectationResult, FitResult, RunError } from '../result';
 import { statisticValue } from './statistics';
+import { suggest } from '../../parser/suggest';
 
 /** Statistics are read through the one table of getters (statistics.ts); re-exported for the derived quantities. */
 export { statisticValue };
@@ -31,11 +32,14 @@ function member(of: MemberOf): string {
   return m ? `.${m}` : '';
 }
 
+/** `."GROUP"` of a target naming one group, as the spec writes it. */
+const groupText = (group: string | undefined): string => (group !== undefined ? `.${JSON.stringify(group)}` : '');
+
 function targetText(e: Expectation): string {
   const t = e.target;
   switch (t.kind) {
-    case 'parameter': return `${t.fit}.${t.name}${member(t.of)}`;
-    case 'statistic': return `${t.fit}.${t.name}`;
+    case 'parameter': return `${t.fit}${groupText(t.group)}.${t.name}${member(t.of)}`;
+    case 'statistic': return `${t.fit}${groupText(t.group)}.${t.name}`;
     case 'derived': return `${t.name}${member(t.of)}`;
     case 'query': return `${t.fit}.${t.member} at ${t.column} = ${t.value}`;
   }
@@ -58,6 +62,8 @@ export function checkExpectations(
   results: ReadonlyMap<string, FitResult[]>,
   derived: readonly DerivedResult[] = [],
   queryNumber?: QueryNumber,
+  /** Located errors of the run: a group label the fit does not have is also reported here. */
+  errors?: RunError[],
 ): ExpectationResult[] {
   const out: ExpectationResult[] = [];
   for (const e of expectations) {
@@ -68,9 +74,19 @@ export function checkExpectations(
       for (const d of rows) out.push(checkDerived(e, d));
       continue;
     }
-    const fits = results.get(t.fit) ?? [];
-    if (fits.length === 0) {
+    const all = results.get(t.fit) ?? [];
+    if (all.length === 0) {
       out.push({ expectation: e, actual: null, passed: false, message: expectationText.noResult(targetText(e), t.fit) });
+      continue;
+    }
+    // FIT."GROUP".NAME: that one group's result only
+    const pinned = t.kind !== 'query' ? t.group : undefined;
+    const fits = pinned === undefined ? all : all.filter((r) => r.group === pinned);
+    if (fits.length === 0) {
+      const labels = all.map((r) => r.group).filter((g): g is string => g !== undefined);
+      const message = expectationText.noGroup(targetText(e), t.fit, pinned!, suggest(pinned!, labels));
+      errors?.push({ code: 'unknown_group', message, range: e.range, fit: t.fit });
+      out.push({ expectation: e, actual: null, passed: false, message });
       continue;
     }
     for (const r of fits) out.push(checkOne(e, r, queryNumber));

@@ -242,7 +242,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
     startedAt,
     ...(shard ? { shard: { index: shard.index, count: shard.count, ...(opts.fits ? { only: [...opts.fits] } : {}), fits: shardFits, fitErrors: errors.length } } : {}),
   };
-  const run = finishRun(plan, { fitPlans, results, errors, provenance, refits });
+  const run = finishRun(plan, { fitPlans, results, errors, provenance, refits, ...(jointFits.length ? { joint: jointFits } : {}) });
   return jointFits.length ? { ...run, joint: jointFits } : run;
 }
 
@@ -264,6 +264,8 @@ export interface FittedRun {
   provenance: Provenance;
   /** The single fits with their rows, for the profile and bootstrap intervals of derived quantities (absent: none, e.g. a gathered run). */
   refits?: ReadonlyMap<string, RefitContext>;
+  /** The joint fits' solves, for the covariance between groups of a derived quantity that reads several groups (absent: none). */
+  joint?: readonly JointFitResult[];
 }
 
 /**
@@ -288,10 +290,10 @@ export function finishRun(plan: Plan, run: FittedRun): RunResult {
   const queries = plan.queries.filter((q) => (q.kind === 'compare' ? q.fits.every(ran) : ran(q.fit)));
   const q = runQueries(queries, { fitPlans: fitPlans as Map<string, FitPlan>, results });
   for (const e of q.errors) errors.push(e);
-  const plain = runDerived(plan.derived ?? [], results, ran);
+  const plain = runDerived(plan.derived ?? [], results, ran, run.joint ?? [], errors);
   const derived = run.refits ? derivedIntervals(plan.derived ?? [], results, plain, run.refits) : plain;
   const queryAt: QueryNumber = (t, r, e) => queryNumber(fitPlans.get(t.fit)!, r, t, e.range);
-  const expectations = checkExpectations(plan.expectations.filter((e) => expectationApplies(e, ran, derived)), results, derived, queryAt);
+  const expectations = checkExpectations(plan.expectations.filter((e) => expectationApplies(e, ran, derived)), results, derived, queryAt, errors);
   return {
     version: RESULT_VERSION,
     provenance: run.provenance,
