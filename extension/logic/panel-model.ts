@@ -32,6 +32,7 @@ import { correlationCaption } from '../../engine/front/views/summary';
 import { derivedGroupTable, summariseChecks, summariseExpectations, type ExpectationSummary } from './panel-checks';
 import { flagSummary, warningFindings, type WarningFinding } from './panel-warnings';
 import { declaredOrder, FIT_STATE_LABEL, fitState, missingFits, stateCounts, type FitState, type MissingFit } from './panel-states';
+import { panelJoint, type PanelJoint } from './panel-joint';
 
 /** Version of the model's shape; a saved page state of another version is not restored (2: the correlation list's caption; 3: fit states, fits without a result). */
 export const PANEL_MODEL_VERSION = 3 as const;
@@ -153,6 +154,8 @@ export interface PanelModel {
   errors: string[];
   /** Single fits of the same data drawn together (extension/logic/panel-group-charts.ts; additive, optional). */
   sameData?: PanelSameData[];
+  /** The between-groups comparison of each joint fit, shown in its group entry (extension/logic/panel-joint.ts; additive, optional: absent without joint fits). */
+  joint?: PanelJoint[];
 }
 
 export interface ModelOptions {
@@ -229,6 +232,7 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
       : null,
     errors: run.errors.map((e) => `${e.message}${e.file ? ` (${e.file}${e.row ? `, line ${e.row}` : ''})` : ''}`),
     sameData: sameDataPanelCharts(run),
+    ...(run.joint?.length ? { joint: panelJoint(run) } : {}),
   };
 }
 
