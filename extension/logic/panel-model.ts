@@ -19,6 +19,7 @@ import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from '../.
 import { BOOTSTRAP_HEADERS, bootstrapLine, bootstrapRows, derivedIntervalBlock, hasBootstrapTable } from '../../engine/front/views/bootstrap';
 import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, modelLine, robustLine, searchLine, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
+import { sharedParameters } from '../../engine/front/views/across';
 import type { GroupFlag } from '../../engine/groups/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
 import { DIGITS, formatLevel, formatNumber } from '../../engine/format';
@@ -192,7 +193,7 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
       })),
       summary: [groupCountLine(table), ...groupSummarySentences(table)],
       flagSummary: flagSummary(table.rows),
-      charts: groupParameterCharts(fits, table),
+      charts: groupParameterCharts(fits, table, sharedParameters(run, name)),
     });
   }
   const declared = opts.declaredFits ?? [];

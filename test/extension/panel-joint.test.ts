@@ -147,7 +147,8 @@ describe('extension/logic/panel-joint on samples/potency', () => {
       expect(line.length, label).toBeGreaterThan(10);
       for (const q of line) expect(Math.abs(q.fitted - (bottom + (top - bottom) / (1 + (q.x / ec50) ** hill))), `${label} at ${q.x}`).toBeLessThan(1e-4 * top);
     }
-    expect(g.charts.map((c) => c.id)).toContain('residuals-by-group');
+    // no chart across groups of a shared parameter (one value for every group by construction)
+    expect(g.charts.map((c) => c.id)).toEqual(['overlay', 'residuals-by-group', 'group-ec50']);
     const report = acrossCharts(run).find((a) => a.name === 'potency')!;
     expect(report.charts.map((c) => c.id)).toEqual(g.charts.map((c) => c.id));
   });
@@ -169,6 +170,7 @@ describe('extension/logic/panel-model: a joint fit over the wells of a plate', (
     expect(g.rows).toHaveLength(run.fits.length);
     const ids = g.charts.map((c) => c.id);
     expect(ids).toEqual(expect.arrayContaining(['overlay', 'residuals-by-group', 'plate-flags', 'plate-param-k', 'plate-param-amplitude']));
+    expect(ids.filter((id) => id.endsWith('blank'))).toEqual([]);
     // the map of k holds one well per group with that group's estimate
     const kMap = g.charts.find((c) => c.id === 'plate-param-k')!;
     const data = JSON.stringify(kMap.spec);
