@@ -21,6 +21,7 @@ import { headerLookup } from '../../engine/data/header';
 import { runPlan } from '../../engine/runner/run-plan';
 import type { RunResult } from '../../engine/result';
 import { buildPanelModel, type PanelModel } from '../../extension/logic/panel-model';
+import { panelJoint } from '../../extension/logic/panel-joint';
 import { JOINT_CAUTION, jointBlocks } from '../../engine/front/views/joint';
 import { jointTextLines } from '../../engine/front/views/text';
 import { acrossCharts } from '../../engine/front/views/across';
@@ -120,6 +121,16 @@ describe('extension/logic/panel-joint on samples/potency', () => {
     expect(j.readings).not.toContain(JOINT_CAUTION);
     expect(j.caution).toBe(JOINT_CAUTION);
     expect(j.caution).toContain('USP general chapter <1034>');
+  });
+
+  it('marks a joint solve that did not converge, and has no section without a joint fit', () => {
+    const stopped: RunResult = { ...run, joint: [{ ...run.joint![0], stop: { code: 'max_iterations', message: 'iteration limit 4 reached', converged: false } }] };
+    const j = panelJoint(stopped)[0];
+    expect(j.converged).toBe(false);
+    expect(j.lead[0]).toMatch(/^Joint fit over 2 groups of sample: NOT converged \(max_iterations: iteration limit 4 reached/);
+    const { joint: _, ...plain } = run;
+    expect(panelJoint(plain)).toEqual([]);
+    expect(buildPanelModel(plain, { specUri: 'x', specName: 'x' }).joint).toBeUndefined();
   });
 
   it('reads the same blocks as the CLI summary (one source)', () => {
