@@ -16,8 +16,9 @@ import type { PanelChart } from './panel-model';
 
 const toPanel = (c: { id: string; title: string; spec: unknown }): PanelChart => ({ id: c.id, title: c.title, spec: c.spec as Record<string, unknown> });
 
-export function groupParameterCharts(fits: readonly FitResult[], table: GroupTable): PanelChart[] {
-  return groupSectionCharts(table.fit, fits, table).map(toPanel);
+/** `shared`: the parameters of a joint fit shared by every group (no chart across groups of them, across.ts). */
+export function groupParameterCharts(fits: readonly FitResult[], table: GroupTable, shared: readonly string[] = []): PanelChart[] {
+  return groupSectionCharts(table.fit, fits, table, {}, shared).map(toPanel);
 }
 
 /** Sets of single fits of the same data (engine/front/views/curves.ts `sameDataFitSets`): fit keys and their overlay charts. */

@@ -19,6 +19,7 @@ import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from '../.
 import { BOOTSTRAP_HEADERS, bootstrapLine, bootstrapRows, derivedIntervalBlock, hasBootstrapTable } from '../../engine/front/views/bootstrap';
 import { derivedBlock, fitStatus, goodnessEntries, notFittedNote, PARAMETER_HEADERS, parameterRows, queryBlocks, expectationLine, fitLabel, fitHeading, modelLine, robustLine, searchLine, stopLine, warningLines, type Entry, type QueryBlock } from '../../engine/front/views/summary';
 import { buildGroupTable, worstGroups } from '../../engine/groups/table';
+import { sharedParameters } from '../../engine/front/views/across';
 import type { GroupFlag } from '../../engine/groups/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
 import { DIGITS, formatLevel, formatNumber } from '../../engine/format';
@@ -32,6 +33,7 @@ import { correlationCaption } from '../../engine/front/views/summary';
 import { derivedGroupTable, summariseChecks, summariseExpectations, type ExpectationSummary } from './panel-checks';
 import { flagSummary, warningFindings, type WarningFinding } from './panel-warnings';
 import { declaredOrder, FIT_STATE_LABEL, fitState, missingFits, stateCounts, type FitState, type MissingFit } from './panel-states';
+import { panelJoint, type PanelJoint } from './panel-joint';
 
 /** Version of the model's shape; a saved page state of another version is not restored (2: the correlation list's caption; 3: fit states, fits without a result). */
 export const PANEL_MODEL_VERSION = 3 as const;
@@ -153,6 +155,8 @@ export interface PanelModel {
   errors: string[];
   /** Single fits of the same data drawn together (extension/logic/panel-group-charts.ts; additive, optional). */
   sameData?: PanelSameData[];
+  /** The between-groups comparison of each joint fit, shown in its group entry (extension/logic/panel-joint.ts; additive, optional: absent without joint fits). */
+  joint?: PanelJoint[];
 }
 
 export interface ModelOptions {
@@ -189,7 +193,7 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
       })),
       summary: [groupCountLine(table), ...groupSummarySentences(table)],
       flagSummary: flagSummary(table.rows),
-      charts: groupParameterCharts(fits, table),
+      charts: groupParameterCharts(fits, table, sharedParameters(run, name)),
     });
   }
   const declared = opts.declaredFits ?? [];
@@ -229,6 +233,7 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
       : null,
     errors: run.errors.map((e) => `${e.message}${e.file ? ` (${e.file}${e.row ? `, line ${e.row}` : ''})` : ''}`),
     sameData: sameDataPanelCharts(run),
+    ...(run.joint?.length ? { joint: panelJoint(run) } : {}),
   };
 }
 

@@ -3,7 +3,8 @@
  * test/extension/panel.test.ts): the scenario of panel-scenario.ts (five
  * declared fits, one failing at run time, one stopped at its iteration
  * limit) as the extension would show it. Checks each fit's entry and state,
- * the warnings chip opening the warnings, and takes light, dark and
+ * the warnings chip opening the warnings, the between-groups comparison of
+ * the joint fit of samples/potency, and takes light, dark and
  * high-contrast screenshots of each view (test/artifacts/extension/;
  * `UPDATE_SCREENSHOTS=1` copies them to test/extension/screenshots/).
  */
@@ -20,6 +21,8 @@ import { buildPanelModel } from '../../extension/logic/panel-model';
 import { analyze } from '../../parser/index';
 import { headerLookup } from '../../engine/data/header';
 import { runPlan } from '../../engine/runner/run-plan';
+import { toTsv } from '../../extension/logic/panel-copy';
+import { JOINT_CAUTION } from '../../engine/front/views/joint';
 
 const CHROMIUM = process.env.CHROMIUM ?? '/usr/bin/chromium';
 const haveChromium = requireInCi('Chromium for the panel page test', existsSync(CHROMIUM), `CHROMIUM=${CHROMIUM}`);
@@ -237,6 +240,51 @@ describe.skipIf(!haveChromium)('extension/panel trust views in Chromium', () => 
       expect(await page.locator('table.lw-derived-table tbody tr').count()).toBe(run.fits.length);
       await expect(page.locator('.lw-expect-summary h3').textContent()).resolves.toMatch(/^Expectations: \d+ passed, \d+ failed$/);
       await shot(page, `panel-group-checks-${theme}`);
+      expect(problems, theme).toEqual([]);
+      await page.close();
+    }
+  });
+
+  it('shows the between-groups comparison of the potency sample\'s joint fit first in its group entry, with aligned numbers, copy and the caution', async () => {
+    const dir = join(ROOT, 'samples', 'potency');
+    const spec = readFileSync(join(dir, 'potency.lsq'), 'utf8');
+    const { plan } = analyze(spec, { headers: headerLookup(dir) });
+    const run = await runPlan(plan, { baseDir: dir, specText: spec, threads: 1 });
+    const potency = buildPanelModel(run, { specUri: 'file:///work/samples/potency/potency.lsq', specName: 'potency.lsq', declaredFits: plan.fits.map((f) => f.name) });
+    const joint = potency.joint![0];
+    for (const theme of THEME_NAMES) {
+      const { page, problems } = await open(theme, potency);
+      await select(page, '#group:potency');
+      // the comparison leads, then the group table and the overlay, then the first group's fit
+      const order = await page.locator('main > section').evaluateAll((ss) => ss.map((x) => x.className));
+      expect(order.slice(0, 3), theme).toEqual(['lw-joint', 'lw-group', 'lw-fit']);
+      const section = page.locator('section.lw-joint[data-fit="potency"]');
+      await expect(section.locator('h2').textContent()).resolves.toBe('Between groups: potency');
+      const captions = await section.locator('table caption').evaluateAll((cs) => cs.map((c) => c.firstChild?.textContent ?? ''));
+      expect(captions).toEqual(joint.tables.map((t) => t.title));
+      // every cell as the CLI prints it; the number columns drawn as numbers with their decimal padding
+      const pairs = section.locator('table').nth(2);
+      const cells = await pairs.locator('tbody tr').first().locator('th, td').allTextContents();
+      expect(cells).toEqual(joint.tables[2].rows[0]);
+      const numClasses = await pairs.locator('tbody tr').first().locator('th, td').evaluateAll((cs) => cs.map((c) => c.classList.contains('num')));
+      expect(numClasses).toEqual([false, false, false, true, true, true, true]);
+      const fPad = await section.locator('table').nth(1).locator('tbody tr td:nth-child(2)').evaluateAll((cs) => cs.map((c) => (c as HTMLElement).dataset.pad ?? ''));
+      expect(fPad.length).toBe(4);
+      expect(fPad.some((p) => p.length > 0)).toBe(true);
+      await expect(section.locator('.lw-joint-readings li').count()).resolves.toBe(joint.readings.length);
+      await expect(section.locator('.lw-caution').textContent()).resolves.toBe(JOINT_CAUTION);
+      // the overlay of the joint fit's groups is drawn, one legend entry per group
+      const legend = await page.locator('section.lw-group figure[data-chart-id="overlay"] svg .role-legend-label').allTextContents();
+      expect(legend.sort(), theme).toEqual(['Reference std', 'Test lot 7']);
+      await shot(page, `panel-joint-${theme}`, 'section.lw-joint');
+      await shot(page, `panel-joint-overlay-${theme}`, 'section.lw-group');
+      if (theme === 'light') {
+        await section.locator('table').nth(1).locator('caption button.lw-copy').click();
+        const copy = (await posted(page)).find((m) => m.type === 'copy') as { text: string; what: string };
+        expect(copy.what).toBe(joint.tables[1].title);
+        expect(copy.text).toBe(toTsv(joint.tables[1].headers, joint.tables[1].rows));
+        expect(copy.text.split('\n')[1].split('\t')).toEqual(joint.tables[1].rows[0]);
+      }
       expect(problems, theme).toEqual([]);
       await page.close();
     }

@@ -22,14 +22,25 @@ export interface AcrossCharts {
   charts: GroupChartSpec[];
 }
 
-/** The across-group charts of one per-group fit, in display order. */
-export function groupSectionCharts(name: string, fits: readonly FitResult[], table: GroupTable, opts: GroupChartOptions = {}): GroupChartSpec[] {
+/**
+ * The across-group charts of one per-group fit, in display order. `shared`: the parameters a joint fit shares
+ * (result.ts `JointFitResult.shared`), whose value is one for every group by construction: no chart across
+ * groups and no plate map of them (their estimates are in the between-groups table, views/joint.ts).
+ */
+export function groupSectionCharts(name: string, fits: readonly FitResult[], table: GroupTable, opts: GroupChartOptions = {}, shared: readonly string[] = []): GroupChartSpec[] {
   const set = groupCurveSet(name, fits, new Map(table.rows.map((r) => [r.group, r.flags])));
+  // the ids of group-charts.ts `groupParameterSpecs` and plate-charts.ts `plateMapSpecs`
+  const skip = new Set(shared.flatMap((p) => [`group-${p}`, `plate-param-${p}`]));
   return [
     ...(set ? [overlayChart(set, opts), residualsByCurveChart(set, opts)] : []),
     ...groupParameterSpecs(fits, table, opts),
     ...plateMapSpecs(table, opts),
-  ].filter((c): c is GroupChartSpec => c !== null);
+  ].filter((c): c is GroupChartSpec => c !== null && !skip.has(c.id));
+}
+
+/** The parameters the joint fit of per-group fit `name` shares; none when it is not a joint fit. */
+export function sharedParameters(result: RunResult, name: string): string[] {
+  return result.joint?.find((j) => j.fit === name)?.shared ?? [];
 }
 
 /** The charts of a set of fits of the same data. */
@@ -41,7 +52,7 @@ export function sameDataCharts(set: CurveSet, opts: GroupChartOptions = {}): Gro
 export function acrossCharts(result: RunResult, opts: GroupChartOptions = {}): AcrossCharts[] {
   const out: AcrossCharts[] = [];
   for (const s of fitSections(result)) {
-    if (s.kind === 'groups') out.push({ kind: 'groups', name: s.name, key: s.name, charts: groupSectionCharts(s.name, s.fits, s.table, opts) });
+    if (s.kind === 'groups') out.push({ kind: 'groups', name: s.name, key: s.name, charts: groupSectionCharts(s.name, s.fits, s.table, opts, sharedParameters(result, s.name)) });
   }
   for (const set of sameDataFitSets(result.fits)) out.push({ kind: 'fits', name: set.name, key: `same-data:${set.name}`, charts: sameDataCharts(set, opts) });
   return out.filter((a) => a.charts.length > 0);

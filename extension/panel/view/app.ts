@@ -11,7 +11,7 @@ import type { PanelModel } from '../../logic/panel-model';
 import type { ResidualKind, XScale } from '../../logic/panel-chart-options';
 import { finalizeCharts } from './charts';
 import { clear, h } from './dom';
-import { checksSection, fitSection, groupSection, sameDataSection, warningsSection, type SectionEvents } from './sections';
+import { checksSection, fitSection, groupSection, jointSection, sameDataSection, warningsSection, type SectionEvents } from './sections';
 
 export interface AppState {
   model?: PanelModel;
@@ -181,6 +181,8 @@ function main(m: PanelModel, selected: string, host: AppHost, token: number, sta
     shownGroupFit = name;
     const g = m.groups.find((x) => x.fit === name);
     const fitKey = selected.startsWith('#group:') ? g?.rows[0]?.key : selected;
+    // a joint fit's comparison between its groups leads: it answers the question the shared parameters ask
+    for (const j of m.joint ?? []) if (j.fit === name) el.append(jointSection(j, events.onCopy));
     if (g) el.append(groupSection(g, fitKey, events, pending, width));
     const f = m.fits.find((x) => x.key === fitKey);
     if (f) {

@@ -1,10 +1,12 @@
 /**
  * The results page's sections, each a function from model data to DOM:
  * one fit (parameters, goodness of fit, warnings, correlations, charts),
- * a group table with its across-group charts, and the queries/checks
- * section (predictions, inversions, comparisons, expectations, errors).
+ * a group table with its across-group charts, the between-groups comparison
+ * of a joint fit, and the queries/checks section (predictions, inversions,
+ * comparisons, expectations, errors).
  */
 import type { PanelChart, PanelFit, PanelGroupTable, PanelModel } from '../../logic/panel-model';
+import type { PanelJoint } from '../../logic/panel-joint';
 import { groupsPhrase } from '../../logic/panel-warnings';
 import { chartSlots } from '../../logic/panel-layout';
 import { canLogX, PREDICTOR_CHARTS, RESIDUAL_CHARTS, RESIDUAL_KIND_LABEL, withResidualKind, withXScale, xScaleOf, type ResidualKind, type XScale } from '../../logic/panel-chart-options';
@@ -203,6 +205,22 @@ export function groupSection(g: PanelGroupTable, selected: string | undefined, e
     h('div', { class: 'lw-scroll' }, tbl),
     charts,
   );
+}
+
+/**
+ * The between-groups comparison of a joint fit (extension/logic/panel-joint.ts, the CLI's blocks): the joint
+ * solve, its tables (shared estimates, shared-versus-separate F tests, pairs with Fieller's interval), the
+ * readings and the caution.
+ */
+export function jointSection(j: PanelJoint, onCopy?: (tsv: string, what: string) => void): HTMLElement {
+  return h('section', { class: j.converged ? 'lw-joint' : 'lw-joint lw-not-converged', data: { fit: j.fit } },
+    h('header', { class: 'lw-fit-head' },
+      h('h2', null, j.heading, ...(j.converged ? [] : [' ', h('span', { class: 'lw-state not_converged' }, 'not converged')])),
+      ...j.lead.map((l, i) => h('p', { class: i === 0 ? (j.converged ? 'lw-stop' : 'lw-stop lw-bad') : 'lw-muted' }, l))),
+    ...j.tables.map((t) => h('div', { class: 'lw-scroll' },
+      table('lw-qtable lw-joint-table', t.headers, t.rows, { numeric: (c) => t.numeric.includes(c), caption: t.title, copy: onCopy }))),
+    h('ul', { class: 'lw-joint-readings' }, ...j.readings.map((r) => h('li', null, r))),
+    h('p', { class: 'lw-caution', role: 'note' }, j.caution));
 }
 
 export function checksSection(m: PanelModel, onCopy?: (tsv: string, what: string) => void): HTMLElement | null {
