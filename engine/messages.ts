@@ -2,7 +2,8 @@
  * User-facing texts of fit warnings and run errors, in one place so that the
  * CLI, reports and the editor say the same thing. Each function returns one
  * sentence (or two) without trailing newline; numbers are shown with
- * `num()` (engine/format.ts, 6 significant digits), p-values with `pClause`.
+ * `num()` (engine/format.ts, 6 significant digits), test statistics and per-row
+ * measures with `stat()` (4, as in the tables), p-values with `pClause`/`formatP`.
  * The thresholds the warnings name are engine/thresholds.ts.
  */
 import type { ProfileEnd } from './result';
@@ -10,7 +11,7 @@ import type { WarningCode } from './result';
 import type { Bound } from '../parser/plan';
 import { MSG } from '../parser/messages';
 import { quoted } from '../parser/printable';
-import { DIGITS, formatNumber, formatWritten, pClause } from './format';
+import { DIGITS, formatNumber, formatP, formatWritten, pClause } from './format';
 import { CORRELATION_SYMBOL, THRESHOLDS } from './thresholds';
 
 /** At most 10 line numbers, then how many more. */
@@ -33,13 +34,24 @@ export function rowList(rows: readonly number[]): string {
 
 /** `7 (D = 1.39), 9 (D = 1.2)`: the first ROWS_IN_TEXT rows with a value each, then how many more. */
 function rowValues(rows: readonly number[], values: readonly number[], label: string): string {
-  const shown = rows.slice(0, ROWS_IN_TEXT).map((r, i) => `${r} (${label} = ${num(values[i])})`).join(', ');
+  const shown = rows.slice(0, ROWS_IN_TEXT).map((r, i) => `${r} (${label} = ${stat(values[i])})`).join(', ');
   return rows.length > ROWS_IN_TEXT ? `${shown} and ${rows.length - ROWS_IN_TEXT} more` : shown;
 }
 
 /** A number inside a message: the one policy of engine/format.ts, `DIGITS.value` significant digits (infinities as `inf`). */
 export function num(x: number): string {
   return formatWritten(x);
+}
+
+/** A test statistic or a per-row measure (F, t, h, D, a cut-off) inside a message: `DIGITS.statistic` significant digits, as in the tables. */
+function stat(x: number): string {
+  return formatNumber(x, DIGITS.statistic);
+}
+
+/** A p-value inside a message without its `p`: `0.0143` or `< 0.0001` (rule 5). */
+function pValue(p: number): string {
+  const f = formatP(p);
+  return f.startsWith('<') ? f : `= ${f}`;
 }
 
 export const warningText = {
@@ -89,15 +101,15 @@ export const warningText = {
       ? `the fit passes through row ${rows[0]} (leverage 1): its residual carries no information, so the data cannot check the model there and it has no studentized residual or Cook's distance`
       : `the fit passes through rows ${rowList(rows)} (leverage 1): their residuals carry no information, so the data cannot check the model there and they have no studentized residuals or Cook's distances`,
   high_leverage: (rows: readonly number[], h: readonly number[], cutoff: number, cooks: number, linearised: boolean) =>
-    `${rows.length === 1 ? 'row' : 'rows'} ${rowValues(rows, h, 'h')} ha${rows.length === 1 ? 's' : 've'} high leverage (above 2p/n = ${num(cutoff)}) and move${rows.length === 1 ? 's' : ''} the fit (Cook's distance above 4/n = ${num(cooks)}; both rules of thumb of common practice${linearised ? ', of the linearised model' : ''}): the fit leans on ${rows.length === 1 ? 'it' : 'them'}, so check ${rows.length === 1 ? 'its value' : 'their values'}`,
+    `${rows.length === 1 ? 'row' : 'rows'} ${rowValues(rows, h, 'h')} ha${rows.length === 1 ? 's' : 've'} high leverage (above 2p/n = ${stat(cutoff)}) and move${rows.length === 1 ? 's' : ''} the fit (Cook's distance above 4/n = ${stat(cooks)}; both rules of thumb of common practice${linearised ? ', of the linearised model' : ''}): the fit leans on ${rows.length === 1 ? 'it' : 'them'}, so check ${rows.length === 1 ? 'its value' : 'their values'}`,
   influential_point: (rows: readonly number[], d: readonly number[], cutoff: number, linearised: boolean) =>
     `${rows.length === 1 ? 'row' : 'rows'} ${rowValues(rows, d, 'D')} ${rows.length === 1 ? 'is' : 'are'} influential (Cook's distance above ${num(cutoff)}, a rule of thumb of common practice${linearised ? '; from the linearised model' : ''}): leaving ${rows.length === 1 ? 'it' : 'one'} out moves the estimates markedly`,
   outlier: (outliers: readonly { row: number; t: number; pValue: number }[], level: number, n: number, dof: number, linearised: boolean) =>
-    `${outliers.length === 1 ? 'row' : 'rows'} ${rowValues(outliers.map((o) => o.row), outliers.map((o) => o.t), 't')} ${outliers.length === 1 ? 'is an outlier' : 'are outliers'} (studentized deleted residual, Bonferroni-adjusted p ${outliers.length === 1 ? `= ${num(outliers[0].pValue)}` : `≤ ${num(Math.max(...outliers.slice(0, 100).map((o) => o.pValue)))}`} < ${num(level)}: each row tested at ${num(level)}/${n} with t on ${dof} degrees of freedom${linearised ? ', linearised model' : ''}); check ${outliers.length === 1 ? 'it' : 'them'} for a recording or measurement error`,
+    `${outliers.length === 1 ? 'row' : 'rows'} ${rowValues(outliers.map((o) => o.row), outliers.map((o) => o.t), 't')} ${outliers.length === 1 ? 'is an outlier' : 'are outliers'} (studentized deleted residual, Bonferroni-adjusted p ${outliers.length === 1 ? pValue(outliers[0].pValue) : `≤ ${formatP(Math.max(...outliers.slice(0, 100).map((o) => o.pValue))).replace('< ', '')}`} < ${num(level)}: each row tested at ${num(level)}/${n} with t on ${dof} degrees of freedom${linearised ? ', linearised model' : ''}); check ${outliers.length === 1 ? 'it' : 'them'} for a recording or measurement error`,
   lack_of_fit: (f: number, df1: number, df2: number, p: number, level: number) =>
-    `the model misses the means of the replicates (lack-of-fit F(${df1}, ${df2}) = ${num(f)}, p = ${num(p)} < ${num(level)}): the scatter between replicates is smaller than the model's misfit - the model may be the wrong shape`,
+    `the model misses the means of the replicates (lack-of-fit F(${df1}, ${df2}) = ${stat(f)}, ${pClause(p)} < ${num(level)}): the scatter between replicates is smaller than the model's misfit - the model may be the wrong shape`,
   curvature: (t: number, dof: number, p: number, level: number, linearised: boolean) =>
-    `curvature: the residuals bend with the fitted value (t = ${num(t)} on ${dof} degrees of freedom for an added squared fitted value, p = ${num(p)} < ${num(level)}${linearised ? ', linearised model' : ''}); the model may miss a bend in the data - consider another shape or a curved term`,
+    `curvature: the residuals bend with the fitted value (t = ${stat(t)} on ${dof} degrees of freedom for an added squared fitted value, ${pClause(p)} < ${num(level)}${linearised ? ', linearised model' : ''}); the model may miss a bend in the data - consider another shape or a curved term`,
   bootstrap_failures: (failed: number, replicates: number, allowed: number) =>
     `${failed} of ${replicates} bootstrap refits failed, more than the ${allowed} the interval's tails may lose (a failed refit is most likely a sample from a tail): the bootstrap intervals are withheld - the model may be too flexible for these data`,
 } satisfies Record<WarningCode, (...args: never[]) => string> & Record<string, (...args: never[]) => string>;
@@ -345,8 +357,8 @@ export const expectationText = {
 
 /** Details of the `residual_pattern` warning (engine/stats/warnings.ts). */
 export const patternText = {
-  runs: (observed: number, expected: number, p: number) => `runs test: ${observed} runs where ${num(expected)} are expected, p = ${num(p)}`,
-  durbinWatson: (d: number) => `Durbin–Watson d = ${num(d)}, far from 2`,
+  runs: (observed: number, expected: number, p: number) => `runs test: ${observed} runs where ${stat(expected)} are expected, ${pClause(p)}`,
+  durbinWatson: (d: number) => `Durbin–Watson d = ${formatNumber(d, DIGITS.magnitude)}, far from 2`,
 } as const;
 
 /** Refusals of `new` and the editor's "New Spec from CSV" (engine/templates/scaffold.ts); `title` is the template's. */
@@ -451,7 +463,7 @@ export const adjustedText = {
   kept: (a: { family: number; level: number; pValue: number }) =>
     `; upheld across the fit's ${a.family} groups by Holm's step-down procedure at family-wise level ${num(a.level)} (Holm 1979)`,
   setAside: (a: { family: number; level: number; pValue: number }) =>
-    `; not upheld across the fit's ${a.family} groups by Holm's step-down procedure at family-wise level ${num(a.level)} (Holm 1979): with this many groups, chance alone gives such a p (${num(a.pValue)}) now and then`,
+    `; not upheld across the fit's ${a.family} groups by Holm's step-down procedure at family-wise level ${num(a.level)} (Holm 1979): with this many groups, chance alone gives such a p (${formatP(a.pValue)}) now and then`,
 } as const;
 
 /** The bootstrap (engine/run/bootstrap.ts, bootstrap-summary.ts) and the intervals of derived quantities (engine/run/derived-intervals.ts). */
