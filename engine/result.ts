@@ -572,8 +572,18 @@ export interface FitResult {
   bootstrap?: BootstrapSummary;
   /** The model equation and the weighting as the spec states them (additive, optional; set by the runner, engine/runner/run-plan.ts `finishRun`). */
   model?: FitModelText;
+  /** Declared units of the response and the predictor (`units` of the data; additive, optional: absent when neither has one; set by the runner with `model`). */
+  units?: FitUnits;
   /** Milliseconds spent fitting (not deterministic; views may omit it). */
   elapsedMs: number;
+}
+
+/** Units declared for a fit's columns (`data … units COLUMN [UNIT]`), without brackets: labels only, never converted. */
+export interface FitUnits {
+  /** The response's unit, when the response is a plain column with a declared unit. */
+  response?: string;
+  /** The single predictor's unit, when declared. */
+  predictor?: string;
 }
 
 /** The model equation and how the points are weighted, as every view states them. */

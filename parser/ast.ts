@@ -52,7 +52,15 @@ export type ExprAst =
 export type DataOptionAst =
   | { kind: 'where'; condition: ExprAst; range: Range }
   | { kind: 'delimiter'; value: StringAst | undefined; range: Range }
-  | { kind: 'decimal'; value: StringAst | undefined; range: Range };
+  | { kind: 'decimal'; value: StringAst | undefined; range: Range }
+  /** `units COLUMN [UNIT], ...`: the unit of each listed column (a missing part is undefined after a syntax error). */
+  | { kind: 'units'; entries: ColumnUnitAst[]; range: Range };
+
+export interface ColumnUnitAst {
+  column: NameAst | undefined;
+  unit: UnitAst | undefined;
+  range: Range;
+}
 
 export interface DataAst {
   kind: 'data';

@@ -3,7 +3,7 @@
  * declared above its use), checks each, and assembles the Plan. Never
  * throws; the plan is returned even when there are errors (then partial).
  */
-import type { ConstAst, DataAst, SpecAst, StatementAst } from './ast';
+import type { ColumnUnitAst, ConstAst, DataAst, SpecAst, StatementAst } from './ast';
 import { PLAN_VERSION, type DataSource, type Diagnostic, type Plan } from './plan';
 import { isBuiltinConstant, type CheckContext, type Env } from './check-env';
 import { newUse, resolveExpr, resolveValue } from './check-expr';
@@ -123,14 +123,17 @@ function checkData(env: Env, s: DataAst): DataSource | undefined {
     if (o.kind === 'where') {
       const scope = { params: new Set<string>(), allowParams: false, place: 'where condition', dataName: name, columns: headers, allowText: true };
       source.filter = resolveExpr(env, o.condition, 'condition', scope, newUse());
-    } else if (o.value && o.kind === 'delimiter') {
+    } else if (o.kind === 'delimiter' && o.value) {
       const v = o.value.value;
       if (Object.prototype.hasOwnProperty.call(DELIMITERS, v)) source.delimiter = DELIMITERS[v];
       else r.report('unknown_option', MSG.unknownOption('delimiter', v, [',', ';', 'tab']), o.value.range, env.suggester.suggest(v, ['tab']));
-    } else if (o.value && o.kind === 'decimal') {
+    } else if (o.kind === 'decimal' && o.value) {
       const v = o.value.value;
       if (v === '.' || v === ',') source.decimal = v;
       else r.report('unknown_option', MSG.unknownOption('decimal mark', v, ['.', ',']), o.value.range);
+    } else if (o.kind === 'units') {
+      const units = checkUnits(env, name, o.entries, headers);
+      if (Object.keys(units).length) source.units = units;
     }
   }
   if (source.decimal === ',' && source.delimiter === ',') {
@@ -139,6 +142,24 @@ function checkData(env: Env, s: DataAst): DataSource | undefined {
   }
   if (!prev) env.data.set(name, { plan: source, headers, line: s.name.range.start.line, used: false });
   return prev ? undefined : source;
+}
+
+/** `units COLUMN [UNIT], ...`: each column in the data (when its header is known), each given once. */
+function checkUnits(env: Env, data: string, entries: readonly ColumnUnitAst[], headers: ReadonlySet<string> | undefined): Record<string, string> {
+  const units = new Map<string, string>();
+  for (const e of entries) {
+    if (!e.column || !e.unit) continue; // a syntax error, already reported
+    const col = e.column.name;
+    if (headers && !headers.has(col)) {
+      env.r.report('unknown_column', MSG.unknownColumn(col, data), e.column.range, env.suggester.suggest(col, headers));
+    } else if (units.has(col)) {
+      env.r.report('duplicate_option', MSG.duplicateOption(`the unit of column ${JSON.stringify(col)}`), e.range);
+    } else {
+      units.set(col, e.unit.text);
+    }
+  }
+  // (own properties even for a column called `__proto__`)
+  return Object.fromEntries(units);
 }
 
 function checkConst(env: Env, s: ConstAst): Plan['constants'][number] | undefined {

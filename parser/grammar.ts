@@ -3,7 +3,7 @@
  *
  *   spec       := statement*
  *   statement  := data | const | fit | derive | predict | invert | backcalc | compare | expect
- *   data       := 'data' Name '=' String ( 'where' expr | 'delimiter' String | 'decimal' String )*
+ *   data       := 'data' Name '=' String ( 'where' expr | 'delimiter' String | 'decimal' String | 'units' column Unit (',' column Unit)* )*
  *   const      := 'const' Name '=' value Unit?
  *   fit        := 'fit' Name 'on' Name '{' fitItem* '}'
  *   fitItem    := 'model' expr '=' expr
@@ -105,7 +105,19 @@ export class LsqParser extends CstParser {
       { ALT: () => { this.CONSUME(T.Where); this.SUBRULE(this.expression, { LABEL: 'condition' }); } },
       { ALT: () => { this.CONSUME(T.Delimiter); this.CONSUME(T.StringLiteral, { LABEL: 'delimiterValue' }); } },
       { ALT: () => { this.CONSUME(T.Decimal); this.CONSUME2(T.StringLiteral, { LABEL: 'decimalValue' }); } },
+      {
+        ALT: () => {
+          this.CONSUME(T.Units);
+          this.AT_LEAST_ONE_SEP({ SEP: T.Comma, DEF: () => this.SUBRULE(this.columnUnit, { LABEL: 'columnUnits' }) });
+        },
+      },
     ]);
+  });
+
+  /** `COLUMN [UNIT]` in a data statement's `units` list. */
+  private columnUnit = this.RULE('columnUnit', () => {
+    this.SUBRULE(this.column, { LABEL: 'column' });
+    this.CONSUME(T.Unit, { LABEL: 'unit' });
   });
 
   private constStatement = this.RULE('constStatement', () => {

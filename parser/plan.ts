@@ -103,6 +103,11 @@ export interface DataSource {
   delimiter?: ',' | ';' | '\t';
   /** Decimal mark of numeric cells. Default `.`. */
   decimal?: '.' | ',';
+  /**
+   * `units COLUMN [UNIT], ...`: the unit of each listed column, without brackets (`conc` → `ng/mL`), for labels
+   * (axis titles, query tables, response-scale statistics). Additive, optional: absent when none is declared.
+   */
+  units?: Record<string, string>;
   range: Range;
 }
 

@@ -16,7 +16,7 @@ import type { CstNode, IToken } from 'chevrotain';
 import type { Diagnostic, Range } from './plan';
 import type {
   BoundsAst, ConstAst, DataAst, DataOptionAst, DeriveAst, ExpectAst, ExpectBoundAst, ExprAst, FitAst, FitItemAst, NameAst,
-  NumericOptionKind, ParamAst, PredictAst, QueryOptionAst, BackcalcAst, CompareAst, SpecAst, StatementAst, StringAst, UnitAst, ValueAst,
+  NumericOptionKind, ColumnUnitAst, ParamAst, PredictAst, QueryOptionAst, BackcalcAst, CompareAst, SpecAst, StatementAst, StringAst, UnitAst, ValueAst,
 } from './ast';
 import { getParser } from './grammar';
 import { EMPTY_RANGE, tokenRange } from './source';
@@ -155,9 +155,21 @@ class AstBuilder extends BaseVisitor {
       const value = this.stringOf(this.tok(ctx, 'delimiterValue'));
       return { kind: 'delimiter', value, range: cover(delim, value?.range) };
     }
+    const units = this.tokRange(ctx, 'Units');
+    if (units || ctx.columnUnits) {
+      const entries = this.nodes(ctx, 'columnUnits').map((n) => this.visit(n) as ColumnUnitAst);
+      return { kind: 'units', entries, range: cover(units, ends(entries)) };
+    }
     const dec = this.tokRange(ctx, 'Decimal');
     const value = this.stringOf(this.tok(ctx, 'decimalValue'));
     return { kind: 'decimal', value, range: cover(dec, value?.range) };
+  }
+
+  columnUnit(ctx: Children): ColumnUnitAst {
+    const n = this.node(ctx, 'column');
+    const column = n ? (this.visit(n) as NameAst | undefined) : undefined;
+    const unit = this.unitOf(this.tok(ctx, 'unit'));
+    return { column, unit, range: cover(column?.range, unit?.range) };
   }
 
   constStatement(ctx: Children): ConstAst {

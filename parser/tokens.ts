@@ -76,6 +76,7 @@ export const Expect = keyword('expect');
 export const Where = keyword('where');
 export const Delimiter = keyword('delimiter');
 export const Decimal = keyword('decimal');
+export const Units = keyword('units');
 // Fit body
 export const On = keyword('on');
 export const Model = keyword('model');
@@ -111,7 +112,7 @@ export const Inf = keyword('inf', []);
 
 /** All keywords, longest first so a keyword that is a prefix of another (`in`, `inf`) comes after it. */
 export const KEYWORD_TOKENS: readonly TokenType[] = [
-  Data, Const, Fit, Derive, Predict, Invert, Backcalc, Compare, Expect, Where, Delimiter, Decimal, On, Model, Param, In, Fixed, Shared,
+  Data, Const, Fit, Derive, Predict, Invert, Backcalc, Compare, Expect, Where, Delimiter, Decimal, Units, On, Model, Param, In, Fixed, Shared,
   Sigma, Weight, Method, Loss, Scale, Level, Iterations, Tolerance, Rate, Explore, Profile, Bootstrap, Seed, Per, At, Readings, Within, Above, Below,
   And, Or, Not, Inf,
 ].sort((a, b) => String(b.PATTERN).length - String(a.PATTERN).length);

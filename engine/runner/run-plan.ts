@@ -18,7 +18,7 @@
  * failing group never stops the others, and estimates are bit-identical;
  * `runPlanSync` always fits in this thread.
  */
-import { fitModelText } from '../run/model-text';
+import { fitModelText, fitUnits } from '../run/model-text';
 import { adjustGroupWarnings } from '../groups/flags';
 import { createHash } from 'node:crypto';
 import type { FitPlan, Plan } from '../../parser/plan';
@@ -283,8 +283,10 @@ export function finishRun(plan: Plan, run: FittedRun): RunResult {
     const decided = fp.groupBy !== undefined ? adjustGroupWarnings(list) : list;
     // the model equation and the weighting, stated in every view (engine/front/views/summary.ts modelLine)
     const model = fitModelText(fp);
+    // the declared units of the response and predictor, for labels (engine/front/views)
+    const units = fitUnits(fp, plan.data);
     // (set last, after any earlier one is removed, so a gathered result has the keys in a single run's order)
-    results.set(name, decided.map(({ model: _, ...r }) => ({ ...r, model })));
+    results.set(name, decided.map(({ model: _, units: _u, ...r }) => ({ ...r, model, ...(units ? { units } : {}) })));
   }
   const ran = (name: string) => fitPlans.has(name);
   const queries = plan.queries.filter((q) => (q.kind === 'compare' ? q.fits.every(ran) : ran(q.fit)));

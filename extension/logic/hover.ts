@@ -65,7 +65,7 @@ export function hoverAt(a: EditorAnalysis, offset: number, run?: RunResult): Lsq
   const line = linePrefix(a.text, w.span.start);
   const queried = /^\s*(?:predict|invert)\s+([A-Za-z_]\w*)\s+at\s+"?$/.exec(line)?.[1];
   const user = fit ?? queried;
-  const data = user ? dataOfFit(a, user) : /^\s*data\s+([A-Za-z_]\w*)\b.*\bwhere\b/.exec(line)?.[1];
+  const data = user ? dataOfFit(a, user) : /^\s*data\s+([A-Za-z_]\w*)\b.*\b(?:where|units)\b/.exec(line)?.[1];
   if (data) {
     const column = columnHover(a, data, name, w.span, a.plan.fits.find((f) => f.name === user)?.blocks.some((b) => b.columns.includes(name)) ?? false);
     if (column) return md(column);
@@ -85,13 +85,15 @@ function columnHover(a: EditorAnalysis, data: string, name: string, at: Span, us
   const file = a.data.find((x) => x.name === data)?.path;
   const source = `\`${data}\`${file ? ` (${file})` : ''}`;
   const header = columnsOf(a, data);
-  if (header?.includes(name)) return `**${name}** — column of ${source}`;
+  const units = a.plan.data.find((x) => x.name === data)?.units;
+  const unit = units && Object.prototype.hasOwnProperty.call(units, name) ? ` [${units[name]}]` : '';
+  if (header?.includes(name)) return `**${name}** — column of ${source}${unit}`;
   const unknown = a.diagnostics.find((d) => (d.code === 'undefined_name' || d.code === 'unknown_column') && d.range.start.offset <= at.start && d.range.end.offset >= at.end);
   if (unknown) {
     const near = unknown.suggestions?.length ? `\n\ndid you mean ${unknown.suggestions.map((x) => `\`${x}\``).join(', ')}?` : '';
     return `**${name}** — unknown name: not a parameter or constant of this spec, and not in the header of ${source}${near}`;
   }
-  if (header === undefined && usedByFit) return `**${name}** — read as a column of ${source}; its header was not read, so the name is not checked`;
+  if (header === undefined && (usedByFit || unit)) return `**${name}** — read as a column of ${source}${unit}; its header was not read, so the name is not checked`;
   return null;
 }
 

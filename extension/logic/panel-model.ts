@@ -361,7 +361,7 @@ function keyStats(f: FitResult): PanelFit['keyStats'] {
   // a fit that is not a result shows no goodness-of-fit figures (the engine withholds them)
   if (fitStatus(f) !== 'fitted') return [...counts, { label: 'fit', value: 'not fitted', title: notFittedNote(f) ?? '' }];
   const entries = goodnessEntries(f);
-  const entry = (label: string): Entry | undefined => entries.find((e) => e.label === label);
+  const entry = (label: string): Entry | undefined => entries.find((e) => (e.key ?? e.label) === label);
   const stat = (short: string, label: string, title: string): PanelFit['keyStats'] => {
     const e = entry(label);
     return e ? [{ label: short, value: e.value, title: e.note ? `${title} (${e.note})` : title }] : [];

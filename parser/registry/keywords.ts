@@ -13,7 +13,7 @@ import { LOSSES } from './losses';
 
 /**
  * - `declaration`, `query`: statements (first on their line);
- * - `data_option`: options of a data statement (`where`, `delimiter`, `decimal`);
+ * - `data_option`: options of a data statement (`where`, `delimiter`, `decimal`, `units`);
  * - `fit_item`: items of a fit body, one per line;
  * - `part`: words inside a statement or item (`on`, `in`, `fixed`, `scale`, `at`, bounds of `expect`);
  * - `operator`, `constant`: reserved words, never names.
@@ -28,7 +28,7 @@ export interface KeywordSpec {
 
 export const KEYWORD_SPECS = {
   // statements
-  data: { role: 'declaration', doc: 'data NAME = "file.csv" [where CONDITION] [delimiter ";"] [decimal ","] - a table of measurements.' },
+  data: { role: 'declaration', doc: 'data NAME = "file.csv" [where CONDITION] [delimiter ";"] [decimal ","] [units COLUMN [UNIT], ...] - a table of measurements.' },
   const: { role: 'declaration', doc: 'const NAME = NUMBER [UNIT] - a named number, usable in expressions and values.' },
   fit: { role: 'declaration', doc: 'fit NAME on DATA { ... } - one least-squares fit of a model to a data table.' },
   derive: { role: 'declaration', doc: 'derive NAME = EXPRESSION [UNIT] - a number computed from fit results (FIT.PARAM, FIT.STAT), with a delta-method standard error and interval.' },
@@ -41,6 +41,7 @@ export const KEYWORD_SPECS = {
   where: { role: 'data_option', doc: 'where CONDITION - keep only the rows where the condition holds.' },
   delimiter: { role: 'data_option', doc: 'delimiter "," | ";" | "tab" - field separator (detected from the header line when absent).' },
   decimal: { role: 'data_option', doc: 'decimal "." | "," - decimal mark of the numbers in the file (default ".").' },
+  units: { role: 'data_option', doc: 'units COLUMN [UNIT], COLUMN [UNIT], ... - the unit of each listed column, shown in axis titles, query tables and the response-scale statistics.' },
   // fit body
   model: { role: 'fit_item', doc: 'model RESPONSE = EXPRESSION - what is fitted: the response (a column or an expression of columns) against the model.' },
   param: { role: 'fit_item', doc: 'param NAME [= START] [in [LOW, HIGH]] [fixed] [shared] [UNIT] - a fitted parameter.' },

@@ -29,6 +29,7 @@ import type { TopLevelSpec } from 'vega-lite';
 import type { FitResult } from '../../result';
 import { bandRows, excludedRows, histogramRows, pointRows, prefersLogX, qqRows, type PointRow, type Thinned } from './chart-data';
 import { fitStatus } from './summary';
+import { predictorUnit, responseUnit, withUnit } from './units';
 import { MAX_MARKS } from './downsample';
 import { CHART_FORMAT, formatLevel } from '../../format';
 import { FONT, PALETTE, type Palette } from './palette';
@@ -129,8 +130,8 @@ function fitChart(fit: FitResult, o: ChartContext): ChartSpec | null {
   const xName = fit.predictor;
   const level = formatLevel(fit.level);
   const xScale = prefersLogX(pts.rows, []) ? { type: 'log' } : { zero: false };
-  const xEnc = { field: 'x', type: 'quantitative', axis: axisTitle(xName), scale: xScale };
-  const yTitle = fit.response;
+  const xEnc = { field: 'x', type: 'quantitative', axis: axisTitle(withUnit(xName, predictorUnit(fit))), scale: xScale };
+  const yTitle = withUnit(fit.response, responseUnit(fit));
   const yAxis = axisTitle(yTitle);
   const layers: Json[] = [];
   // No prediction band when the spread of a new point is unknown between the rows (sigma or weight of another column).
@@ -204,8 +205,8 @@ function observedFittedChart(fit: FitResult, o: ChartContext): ChartSpec {
     {
       data: { values: pts.rows },
       ...pointLayer('data_points', pal, pts.rows.length,
-        { field: 'fitted', type: 'quantitative', axis: axisTitle('fitted value'), scale: { zero: false } },
-        { field: 'y', type: 'quantitative', axis: axisTitle(`observed ${fit.response}`), scale: { zero: false } },
+        { field: 'fitted', type: 'quantitative', axis: axisTitle(withUnit('fitted value', responseUnit(fit))), scale: { zero: false } },
+        { field: 'y', type: 'quantitative', axis: axisTitle(withUnit(`observed ${fit.response}`, responseUnit(fit))), scale: { zero: false } },
         [{ field: 'y', type: 'quantitative', title: 'observed', format: NUM }, { field: 'fitted', type: 'quantitative', title: 'fitted', format: NUM }]),
     },
   ];
@@ -221,12 +222,12 @@ function residualChart(fit: FitResult, o: ChartContext, against: 'x' | 'fitted')
   const pal = o.palette;
   const pts = o.points(against);
   const xTitle = against === 'x' ? (fit.predictor as string) : 'fitted value';
-  const xEnc = { field: against, type: 'quantitative', axis: axisTitle(xTitle), scale: against === 'x' && prefersLogX(pts.rows, []) ? { type: 'log' } : { zero: false } };
+  const xEnc = { field: against, type: 'quantitative', axis: axisTitle(withUnit(xTitle, against === 'x' ? predictorUnit(fit) : responseUnit(fit))), scale: against === 'x' && prefersLogX(pts.rows, []) ? { type: 'log' } : { zero: false } };
   const layers: Json[] = [
     zeroRule(pal),
     {
       data: { values: pts.rows },
-      ...pointLayer('data_points', pal, pts.rows.length, xEnc, { field: 'residual', type: 'quantitative', axis: axisTitle('residual (observed − fitted)') }, [
+      ...pointLayer('data_points', pal, pts.rows.length, xEnc, { field: 'residual', type: 'quantitative', axis: axisTitle(responseUnit(fit) ? `residual (observed − fitted, ${responseUnit(fit)})` : 'residual (observed − fitted)') }, [
         { field: against, type: 'quantitative', title: xTitle, format: NUM },
         { field: 'residual', type: 'quantitative', title: 'residual', format: NUM },
         { field: 'standardized', type: 'quantitative', title: 'standardized', format: CHART_FORMAT.standardized },

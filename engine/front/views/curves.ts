@@ -11,7 +11,7 @@
  * ones up to 8; the others are drawn as thin lines without points or legend
  * entry (at most MAX_BACKGROUND_CURVES of them), and a note says so.
  */
-import type { FitResult } from '../../result';
+import type { FitResult, FitUnits } from '../../result';
 import { fitStatus } from './summary';
 import { keepExtremes, MAX_MARKS } from './downsample';
 
@@ -52,6 +52,8 @@ export interface CurveSet {
   name: string;
   response: string;
   predictor: string;
+  /** Declared units of the response and predictor (the first fit's `units`; additive, optional). */
+  units?: FitUnits;
   /** What a curve is called in notes: `group` or `fit`. */
   noun: 'group' | 'fit';
   curves: Curve[];
@@ -92,7 +94,7 @@ export function groupCurveSet(name: string, fits: readonly FitResult[], flags: R
   const first = fits[0];
   if (!first || !first.predictor || !first.points.x) return null;
   const curves = fits.map((f) => curveOf(f, f.group ?? f.name, flags.get(f.group ?? '') ?? [])).filter((c): c is Curve => c !== null);
-  return curves.length ? { kind: 'groups', name, response: first.response, predictor: first.predictor, noun: 'group', curves } : null;
+  return curves.length ? { kind: 'groups', name, response: first.response, predictor: first.predictor, ...(first.units ? { units: first.units } : {}), noun: 'group', curves } : null;
 }
 
 /**
@@ -113,7 +115,7 @@ export function sameDataFitSets(fits: readonly FitResult[]): CurveSet[] {
   for (const list of bySignature.values()) {
     if (list.length < 2) continue;
     const curves = list.map((f) => curveOf(f, f.name, f.stop.converged ? [] : ['not_converged'])).filter((c): c is Curve => c !== null);
-    out.push({ kind: 'fits', name: list.map((f) => f.name).join(', '), response: list[0].response, predictor: list[0].predictor as string, noun: 'fit', curves });
+    out.push({ kind: 'fits', name: list.map((f) => f.name).join(', '), response: list[0].response, predictor: list[0].predictor as string, ...(list[0].units ? { units: list[0].units } : {}), noun: 'fit', curves });
   }
   return out;
 }

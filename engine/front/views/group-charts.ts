@@ -19,6 +19,7 @@ import type { GroupTable } from '../../groups/table';
 import type { BandRow, PointRow } from './chart-data';
 import { prefersLogX } from './chart-data';
 import { axisTitle, pointSize, top, type Json } from './charts';
+import { predictorUnit, responseUnit, withUnit } from './units';
 import { overlayChoice, pointsPerCurve, thinLine, thinPoints, type Curve, type CurveSet } from './curves';
 import { CHART_FORMAT } from '../../format';
 import { PALETTE, SERIES, SERIES_SHAPES, type Palette } from './palette';
@@ -131,8 +132,8 @@ export function overlayChart(set: CurveSet, opts: GroupChartOptions = {}): Group
   const lines = choice.shown.flatMap((c, order) => thinLine(c.line).map((q) => ({ label: c.label, order, x: q.x, fitted: q.fitted })));
   const behind = choice.background.flatMap((c) => thinLine(c.line, BACKGROUND_LINE_POINTS).map((q) => ({ label: c.label, x: q.x, fitted: q.fitted })));
   const logX = prefersLogX(points as unknown as PointRow[], [...lines, ...behind] as unknown as BandRow[]);
-  const xEnc: Json = { field: 'x', type: 'quantitative', axis: axisTitle(set.predictor), scale: logX ? { type: 'log' } : { zero: false } };
-  const yAxis = axisTitle(set.response);
+  const xEnc: Json = { field: 'x', type: 'quantitative', axis: axisTitle(withUnit(set.predictor, predictorUnit(set))), scale: logX ? { type: 'log' } : { zero: false } };
+  const yAxis = axisTitle(withUnit(set.response, responseUnit(set)));
   const { color, shape } = seriesScales(labels.length);
   const dim = (on: number, off: number): Json => ({ condition: { param: LEGEND_SELECTION, empty: true, value: on }, value: off });
   const layers: Json[] = [];

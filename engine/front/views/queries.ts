@@ -9,6 +9,7 @@
 import type { BackCalculation, FitResult, InversePrediction, ObservationSource, QueryResult, RunResult } from '../../result';
 import { formatInterval, formatLevel, formatNumber, formatPercent, MISSING } from '../../format';
 import type { QueryBlock } from './summary';
+import { predictorUnit, responseUnit, withUnit } from './units';
 
 /** The cell of a query's number that is withheld because its fit did not converge. */
 const WITHHELD = 'withheld';
@@ -45,6 +46,8 @@ export function predictBlock(q: Extract<QueryResult, { kind: 'predict' }>, fit: 
   const lv = formatLevel(fit?.level ?? NaN);
   const t = q.transform;
   const back = t !== undefined && q.predictions.some((p) => p.original);
+  // a transformed response has no declared unit here (FitResult.units), so its columns stay unlabelled
+  const yUnit = responseUnit(fit);
   const notes: string[] = [];
   if (q.withheld) notes.push(q.withheld);
   else {
@@ -62,7 +65,7 @@ export function predictBlock(q: Extract<QueryResult, { kind: 'predict' }>, fit: 
   }
   return {
     heading: `Predictions from ${label(q.fit, q.group)} at ${q.variable}${back && t ? ` (${t.column}, back from ${t.expression})` : ''}`,
-    headers: [q.variable, 'fitted', `${lv} confidence interval`, `${lv} prediction interval`],
+    headers: [withUnit(q.variable, predictorUnit(fit)), withUnit('fitted', yUnit), withUnit(`${lv} confidence interval`, yUnit), withUnit(`${lv} prediction interval`, yUnit)],
     rows: q.predictions.map((p) => {
       if (q.withheld) return [formatNumber(p.x), WITHHELD, '', ''];
       const v = back && p.original ? p.original : p;
@@ -88,7 +91,7 @@ export function invertBlock(q: Extract<QueryResult, { kind: 'invert' }>, fit: Fi
   }
   return {
     heading: `Inverse predictions from ${label(q.fit, q.group)}: ${xName} from ${q.response}${readings > 1 ? ` (mean of ${readings} readings)` : ''}`,
-    headers: [q.response, xName, `${lv} interval`, 'note'],
+    headers: [withUnit(q.response, responseUnit(fit)), withUnit(xName, predictorUnit(fit)), withUnit(`${lv} interval`, predictorUnit(fit)), 'note'],
     rows: q.inversions.map((v) => q.withheld
       ? [formatNumber(v.response), WITHHELD, '', '']
       : [formatNumber(v.response), formatNumber(v.x), v.x === null ? formatInterval(null, null) : inverseInterval(v), v.message ?? '']),
@@ -114,6 +117,7 @@ function percentInterval(s: BackCalculation): string {
 export function backcalcBlock(q: Extract<QueryResult, { kind: 'backcalc' }>, fit: FitResult | undefined): QueryBlock {
   const lv = formatLevel(fit?.level ?? NaN);
   const x = q.predictor;
+  const xUnit = predictorUnit(fit);
   const notes: string[] = [];
   if (q.withheld) notes.push(q.withheld);
   else {
@@ -123,7 +127,7 @@ export function backcalcBlock(q: Extract<QueryResult, { kind: 'backcalc' }>, fit
   }
   return {
     heading: `Back-calculated standards of ${label(q.fit, q.group)}: ${x} from ${q.response}`,
-    headers: ['row', `nominal ${x}`, q.response, `back-calculated ${x}`, `${lv} interval`, 'deviation', `${lv} deviation interval`, 'note'],
+    headers: ['row', withUnit(`nominal ${x}`, xUnit), withUnit(q.response, responseUnit(fit)), withUnit(`back-calculated ${x}`, xUnit), withUnit(`${lv} interval`, xUnit), 'deviation', `${lv} deviation interval`, 'note'],
     rows: q.withheld ? [[WITHHELD, '', '', '', '', '', '', '']] : q.standards.map((s) => [
       String(s.row), formatNumber(s.nominal), formatNumber(s.response), formatNumber(s.x),
       s.x === null ? '' : inverseInterval(s), s.nominal === 0 ? MISSING : percent(s.deviationPercent), percentInterval(s), s.message ?? '',

@@ -12,6 +12,7 @@ import { DIGITS, formatEstimate, formatInteger, formatLevel, formatNumber, forma
 import { CORRELATION_SYMBOL, isLargeCondition, isSerialDurbinWatson, THRESHOLDS } from '../../thresholds';
 import { comparisonBlock } from './comparison';
 import { fitQueryBlock } from './queries';
+import { residualUnit, squaredUnit } from './units';
 import { durbinWatsonHint, influenceEntries, runsHint } from './influence';
 
 /** How the views name the solver and the loss of a fit (labels from parser/registry). */
@@ -131,6 +132,8 @@ export interface Entry {
   label: string;
   value: string;
   note?: string;
+  /** The label without a unit, when the label has one (lookups by label: extension/logic/panel-model.ts). */
+  key?: string;
 }
 
 /** Goodness-of-fit entries in reading order; for a fit that is not a result only the counts and the SSR where it stopped. */
@@ -151,8 +154,8 @@ export function goodnessEntries(fit: FitResult): Entry[] {
     { label: 'points (n)', value: formatInteger(g.n), note: fit.rowsDropped > 0 ? `${fit.rowsDropped} rows dropped` : undefined },
     { label: 'free parameters (p)', value: formatInteger(g.p) },
     { label: 'degrees of freedom', value: formatInteger(g.dof) },
-    { label: 'sum of squared residuals (SSR)', value: formatNumber(g.ssr), note: weightedNote(fit, 'ssr') },
-    { label: 'residual standard deviation (RMSE)', value: formatNumber(g.rmse), note: weightedNote(fit, 'rmse') },
+    unitEntry({ label: 'sum of squared residuals (SSR)', value: formatNumber(g.ssr), note: weightedNote(fit, 'ssr') }, squaredUnit(residualUnit(fit, weightingOf(fit).kind))),
+    unitEntry({ label: 'residual standard deviation (RMSE)', value: formatNumber(g.rmse), note: weightedNote(fit, 'rmse') }, residualUnit(fit, weightingOf(fit).kind)),
     { label: 'R²', value: formatNumber(g.r2), note: joinNotes(weightedNote(fit, 'r2'), r2Caveat(fit)) },
     { label: 'adjusted R²', value: formatNumber(g.adjR2) },
   ];
@@ -168,6 +171,11 @@ export function goodnessEntries(fit: FitResult): Entry[] {
   if (r.shapiroWilk) e.push({ label: 'Shapiro–Wilk p', value: formatP(r.shapiroWilk.pValue), note: `W = ${formatNumber(r.shapiroWilk.w, DIGITS.statistic)}` });
   e.push(...influenceEntries(fit));
   return e;
+}
+
+/** An entry whose label gains the unit (`… (RMSE, ng/mL)`); `key` keeps the label without it for lookups. */
+function unitEntry(e: Entry, unit: string | undefined): Entry {
+  return unit ? { ...e, label: `${e.label.slice(0, -1)}, ${unit})`, key: e.label } : e;
 }
 
 /** Notes joined with '; ', or undefined when there are none. */
