@@ -11,6 +11,7 @@
 import { describe, expect, it } from 'vitest';
 import type { DerivedResult } from '../../engine/result';
 import { runSpec, tempDir, writeCsv } from './helpers';
+import { derivedIntervalBlock } from '../../engine/front/views/bootstrap';
 
 const dir = tempDir();
 // Invented: a dye fading in a test cuvette, 8 readings.
@@ -142,5 +143,10 @@ derive lodse = 3.3 * line.a.se / line.b
     const upper = (3.3 * a.stderr!) / b.lower!;
     expect(upper - lower).toBeGreaterThan(0.5 * d.stderr!);
     expectEnds(d, lower, upper, 1e-6);
+    // no bootstrap ran: the block has the profile columns only (no empty bootstrap columns)
+    const block = derivedIntervalBlock(result)!;
+    expect(block.heading).toBe('Derived quantities: profile intervals');
+    expect(block.headers).toEqual(['quantity', 'profile 95% low', 'profile 95% high', 'against the symmetric interval']);
+    expect(block.rows.every((r) => r.length === 4)).toBe(true);
   });
 });

@@ -98,11 +98,19 @@ export function derivedIntervalBlock(result: RunResult): QueryBlock | null {
   }
   for (const [note, who] of byNote) notes.push(`${who.join(', ')}: ${note}`);
   for (const d of ds) for (const w of d.warnings ?? []) notes.push(`! ${derivedLabel(d)}: ${w.message} [${w.code}]`);
+  const headers = ['quantity', `profile ${l} low`, `profile ${l} high`, 'against the symmetric interval', `percentile ${l} low`, `percentile ${l} high`, `BCa ${l} low`, `BCa ${l} high`];
+  const align: ('left' | 'right')[] = ['left', 'right', 'right', 'left', 'right', 'right', 'right', 'right'];
+  // Only the kinds of interval that were computed: no empty bootstrap columns when no fit ran a bootstrap, and the like.
+  const hasProfile = ds.some((d) => d.profile?.interval);
+  const hasBootstrap = ds.some((d) => d.bootstrap?.interval);
+  const keep = headers.map((_, i) => i === 0 || (i <= 3 ? hasProfile : hasBootstrap));
+  const pick = <T,>(xs: readonly T[]): T[] => xs.filter((_, i) => keep[i]);
+  const kinds = [hasProfile ? 'profile' : null, hasBootstrap ? 'bootstrap' : null].filter((k) => k !== null).join(' and ');
   return {
-    heading: 'Derived quantities: profile and bootstrap intervals',
-    headers: ['quantity', `profile ${l} low`, `profile ${l} high`, 'against the symmetric interval', `percentile ${l} low`, `percentile ${l} high`, `BCa ${l} low`, `BCa ${l} high`],
-    rows,
-    align: ['left', 'right', 'right', 'left', 'right', 'right', 'right', 'right'],
+    heading: `Derived quantities: ${kinds || 'profile and bootstrap'} intervals`,
+    headers: pick(headers),
+    rows: rows.map((r) => pick(r)),
+    align: pick(align),
     notes,
   };
 }
