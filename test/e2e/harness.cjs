@@ -253,4 +253,19 @@ function webviewFrame(page) {
   return page.frameLocator('iframe.webview.ready').frameLocator('#active-frame');
 }
 
-module.exports = { t0, secs, check, anyFailed, finish, errorSummary, waitForFile, until, findExtensionLog, freePort, run, quickInput, startRecipeServer, startTrustServer, openBrowser, webviewFrame };
+/** The webview (inner frame) of the results panel whose toolbar names `specName` (each try waits up to 1 s for a frame's title). */
+async function panelFrame(page, specName, timeoutMs = 90000) {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const n = await page.locator('iframe.webview.ready').count();
+    for (let i = 0; i < n; i++) {
+      const f = page.frameLocator(`iframe.webview.ready >> nth=${i}`).frameLocator('#active-frame');
+      const title = await f.locator('.lw-toolbar h1').textContent({ timeout: 1000 }).catch(() => null);
+      if (title === specName) return f;
+    }
+    if (Date.now() > deadline) throw new Error(`no results panel for ${specName}`);
+    if (n === 0) await page.locator('iframe.webview.ready').first().waitFor({ timeout: Math.max(1000, deadline - Date.now()) });
+  }
+}
+
+module.exports = { t0, secs, check, anyFailed, finish, errorSummary, waitForFile, until, findExtensionLog, freePort, run, quickInput, startRecipeServer, startTrustServer, openBrowser, webviewFrame, panelFrame };

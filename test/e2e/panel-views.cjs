@@ -13,23 +13,8 @@
 'use strict';
 const fs = require('fs');
 const path = require('path');
-const { check, quickInput, waitForFile } = require('./harness.cjs');
+const { check, quickInput, waitForFile, panelFrame } = require('./harness.cjs');
 const { writeTrustScenario } = require('../fixtures/panel-trust.cjs');
-
-/** The webview (inner frame) of the results panel whose toolbar names `specName` (each try waits up to 1 s for a frame's title). */
-async function panelFrame(page, specName, timeoutMs = 90000) {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    const n = await page.locator('iframe.webview.ready').count();
-    for (let i = 0; i < n; i++) {
-      const f = page.frameLocator(`iframe.webview.ready >> nth=${i}`).frameLocator('#active-frame');
-      const title = await f.locator('.lw-toolbar h1').textContent({ timeout: 1000 }).catch(() => null);
-      if (title === specName) return f;
-    }
-    if (Date.now() > deadline) throw new Error(`no results panel for ${specName}`);
-    if (n === 0) await page.locator('iframe.webview.ready').first().waitFor({ timeout: Math.max(1000, deadline - Date.now()) });
-  }
-}
 
 async function panelViews(page, ws, outDir) {
   writeTrustScenario(ws, 'trust');

@@ -14,7 +14,7 @@
 'use strict';
 const fs = require('fs');
 const path = require('path');
-const { check, quickInput, webviewFrame } = require('./harness.cjs');
+const { check, quickInput, panelFrame } = require('./harness.cjs');
 
 /** Copies samples/plate into `ws/plate`. */
 function writePlateSample(repo, ws) {
@@ -31,7 +31,8 @@ async function groupViews(page, { repo, ws, outDir }) {
   await quickInput(page, 'Control+P', 'plate.lsq', 'plate.lsq');
   await page.locator('.editor-group-container .monaco-editor .view-lines', { hasText: 'fit kinetics on reads' }).first().waitFor();
   await quickInput(page, 'F1', 'Leastwise: Fit This File', 'Leastwise: Fit This File');
-  const frame = webviewFrame(page);
+  // one results panel per spec: the plate spec's own panel (others may be open beside it)
+  const frame = await panelFrame(page, 'plate.lsq');
   await frame.locator('section.lw-group[data-fit="kinetics"]').waitFor({ timeout: 90000 });
   await frame.locator('body[data-rendered="true"]').waitFor();
   const charts = await frame.locator('section.lw-group figure.lw-chart').evaluateAll((fs) => fs.map((f) => `${f.dataset.chartId}:${f.dataset.marks}`));
