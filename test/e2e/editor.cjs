@@ -42,11 +42,6 @@ function after(lines, lineText, needle) {
 
 const goTo = (page, { line, column }) => quickInput(page, 'Control+G', `${line}:${column}`);
 
-/** The rgb colour of the first token span of `lineLocator` whose text is exactly `word`. */
-async function tokenColour(lineLocator, word) {
-  return lineLocator.locator('span > span', { hasText: new RegExp(`^${word}$`) }).first().evaluate((el) => getComputedStyle(el).color);
-}
-
 /** Picks the colour theme `label` (workbench class `cls`); returns the label of the theme it replaced. */
 async function setTheme(page, label, cls) {
   // Ctrl+K Ctrl+T: the theme picker (typing its command name in F1 focuses "Browse Color Themes" first),
@@ -164,16 +159,19 @@ async function editorChecks(page, { repo, ws, outDir }) {
     const was = await setTheme(page, label, cls);
     initial ??= was;
     // semantic tokens arrive after the grammar's colours (which paint both names alike): wait until they differ
-    await page.waitForFunction(() => {
+    // the colours are read from the model line of the editor that is shown (a hidden copy of the file may keep old colours)
+    const seen = await page.waitForFunction(() => {
       // (the editor draws blanks as no-break spaces)
-      const line = [...document.querySelectorAll('.view-line')].find((l) => l.textContent.replace(/\u00a0/g, ' ').includes('model activity_pct'));
-      const colour = (w) => [...(line?.querySelectorAll('span > span') ?? [])].find((s) => s.textContent === w);
-      const a = colour('dose_uM');
-      const b = colour('ic50');
-      return a && b && getComputedStyle(a).color !== getComputedStyle(b).color;
+      const lines = [...document.querySelectorAll('.view-line')].filter((l) => l.textContent.replace(/\u00a0/g, ' ').includes('model activity_pct') && l.getBoundingClientRect().width > 0);
+      for (const line of lines) {
+        const colour = (w) => [...line.querySelectorAll('span > span')].find((s) => s.textContent === w);
+        const a = colour('dose_uM');
+        const b = colour('ic50');
+        if (a && b && getComputedStyle(a).color !== getComputedStyle(b).color) return [getComputedStyle(a).color, getComputedStyle(b).color];
+      }
+      return null;
     });
-    const column = await tokenColour(modelLine, 'dose_uM');
-    const param = await tokenColour(modelLine, 'ic50');
+    const [column, param] = await seen.jsonValue();
     const shot = path.join(outDir, file);
     await editor.screenshot({ path: shot });
     shots.push(shot);

@@ -75,7 +75,8 @@ async function groupViews(page, { repo, ws, outDir }) {
   // room for the views: the results panel's editor group maximized (waited for in the webview's width)
   await page.locator('.tab', { hasText: 'Results: plate.lsq' }).first().click();
   await quickInput(page, 'F1', 'View: Toggle Maximize Editor Group', 'Toggle Maximize Editor Group');
-  await page.waitForFunction(() => (document.querySelector('iframe.webview.ready')?.getBoundingClientRect().width ?? 0) > 1200);
+  // one panel per spec: the shown one is the plate spec's (the others are hidden, width 0)
+  await page.waitForFunction(() => Array.from(document.querySelectorAll('iframe.webview.ready')).some((f) => f.getBoundingClientRect().width > 1200));
   const shots = [];
   for (const t of THEMES) {
     fs.writeFileSync(settingsFile, JSON.stringify({ ...settings, 'workbench.colorTheme': t.setting }, null, 2) + '\n');
