@@ -239,7 +239,11 @@ async function openBrowser(repo) {
   });
   context.on('requestfailed', (r) => {
     const u = new URL(r.url());
-    if (/^https?:$/.test(u.protocol) && !isLocal(u)) external.add(u.host);
+    // A webview's own resources use the pseudo-host *.vscode-resource.vscode-cdn.net, which the webview's service
+    // worker answers from the local server; such a request aborted (net::ERR_ABORTED) when a panel is closed or
+    // reloaded never reached the network. Any other failure (e.g. a name lookup) still counts as an attempt out.
+    const aborted = r.failure()?.errorText === 'net::ERR_ABORTED' && u.hostname.endsWith('.vscode-resource.vscode-cdn.net');
+    if (/^https?:$/.test(u.protocol) && !isLocal(u) && !aborted) external.add(u.host);
   });
   const close = async () => {
     await browser.close();
