@@ -33,6 +33,7 @@ import { compileModel } from '../compile';
 import type { FitResult } from '../result';
 import { levenbergMarquardt, modelProblem } from '../solve';
 import { freeModel, freeParts } from './curve';
+import { mulberry32 } from '../stats/mulberry32';
 
 /**
  * Largest relative distance d of a reproduction that still counts as exact:
@@ -63,18 +64,6 @@ export interface NestingCheck {
   reason?: 'several_columns' | 'different_rows' | 'not_finite';
 }
 
-/** Mulberry32, a small fixed-seed generator of uniform numbers on [0, 1) (public-domain algorithm by T. Ettinger). */
-function uniforms(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
 const sameNumbers = (a: readonly number[], b: readonly number[]) => a.length === b.length && a.every((v, i) => Object.is(v, b[i]));
 
 /** Is `simple` (fewer free parameters) a special case of `rich` at the rows both fits used? */
@@ -94,7 +83,7 @@ export function checkNesting(simplePlan: FitPlan, simple: FitResult, richPlan: F
   const f2 = compileModel(two.expr, two.free, [rich.predictor]);
   const base = freeParts(simple);
   const start = freeParts(rich).estimates;
-  const next = uniforms(0x5eed13);
+  const next = mulberry32(0x5eed13);
   let worst = 0;
   let previous: Float64Array | null = null;
   for (let t = 0; t < TRIALS; t++) {

@@ -4,6 +4,7 @@
  * (locate.ts adds it).
  */
 import { DEFAULT_POLY_DEGREE, MAX_POLY_DEGREE, templateIds } from '../../templates';
+import { AUTO_MIN_REFIT_ROWS } from '../../groups/bootstrap-threads';
 import { AUTO_GROUPS_ALONE, AUTO_MIN_GROUPS, AUTO_MIN_ROWS } from '../../groups/threads';
 
 export const TOOL = 'leastwise';
@@ -62,7 +63,9 @@ Options:
                    each, PATH-<fit>.csv
   --threads N      threads for per-group fits (default: all cores, used only
                    from ${AUTO_MIN_GROUPS} groups and either ${AUTO_GROUPS_ALONE} groups or ${AUTO_MIN_ROWS} rows on);
-                   1 fits every group in this thread
+                   1 fits every group in this thread. Also the threads of
+                   bootstrap refits (automatic from ${AUTO_MIN_REFIT_ROWS} refit-rows,
+                   i.e. refits × rows, on)
   --quiet          print no summary; problems and failed expectations still
                    go to stderr
   --trace          record each solver's per-iteration trace (cost, gradient,
