@@ -135,6 +135,7 @@ export function polishGaussNewton(problem: LeastSquaresProblem, s: PolishState, 
   const stepAt = (at: Float64Array, res: Float64Array, j: Float64Array, d: Float64Array) =>
     sq ? streamedStep(sq, n, p, at, res, j, b, d, w) : gaussNewtonStep(qr!, n, p, at, res, j, b, d, w, rw!);
   let cur = stepAt(s.x, s.r, s.jac, delta);
+  const combined = tall ? problem.residualsAndJacobian?.bind(problem) : undefined;
   /** `qr` holds the factorisation of J(s.x) (not of a trial's Jacobian). */
   let factorAtX = true;
   let ss = 0;
@@ -148,16 +149,27 @@ export function polishGaussNewton(problem: LeastSquaresProblem, s: PolishState, 
       if (strictInterior && ((lower && xt[j] === lower[j]) || (upper && xt[j] === upper[j]))) inside = false;
     }
     if (!inside) break;
-    problem.residuals(xt, rt);
-    count.evaluations++;
-    if (!allFinite(rt)) break;
     let st = 0;
-    for (let i = 0; i < n; i++) st += rt[i] * rt[i];
-    if (!(st <= (1 + GROWTH) * ss)) break;
-    problem.jacobian(xt, jt);
-    count.jacobianEvaluations++;
-    jacAtX = false;
-    if (!allFinite(jt)) break;
+    if (combined) {
+      // tall problems: r and J of the trial in one model pass (the cost test below rejects few trials)
+      const checked = combined(xt, rt, jt) === true;
+      count.evaluations++;
+      count.jacobianEvaluations++;
+      jacAtX = false;
+      if (!checked && (!allFinite(rt) || !allFinite(jt))) break;
+      for (let i = 0; i < n; i++) st += rt[i] * rt[i];
+      if (!(st <= (1 + GROWTH) * ss)) break;
+    } else {
+      problem.residuals(xt, rt);
+      count.evaluations++;
+      if (!allFinite(rt)) break;
+      for (let i = 0; i < n; i++) st += rt[i] * rt[i];
+      if (!(st <= (1 + GROWTH) * ss)) break;
+      problem.jacobian(xt, jt);
+      count.jacobianEvaluations++;
+      jacAtX = false;
+      if (!allFinite(jt)) break;
+    }
     const next = stepAt(xt, rt, jt, deltaT);
     factorAtX = false;
     if (!next || !(next[0] <= CONTRACTION * cur[0])) break;
