@@ -128,11 +128,18 @@ export function modelProblem(input: ModelProblemInput): LeastSquaresProblem {
     },
     jacobianExtended(theta, hi, lo) {
       const e = extended(theta);
+      if (!sw) {
+        // −(jh + jl) is exact: the negated parts (what ddMul by −1 gives for a normalised pair), one plain pass
+        for (let k = 0; k < n * p; k++) {
+          hi[k] = -e.jh[k];
+          lo[k] = -e.jl[k];
+        }
+        return;
+      }
       for (let j = 0; j < p; j++) {
         for (let i = 0; i < n; i++) {
           const k = j * n + i;
-          const s = sw ? -sw[i] : -1;
-          ddMul(e.jh[k], e.jl[k], s, 0);
+          ddMul(e.jh[k], e.jl[k], -sw[i], 0);
           hi[k] = DD_OUT[0];
           lo[k] = DD_OUT[1];
         }
