@@ -32,26 +32,14 @@
  * when it did not (`linear.ts`).
  */
 import type { PivotedQR } from '../linalg/qr';
+import type { RefineInput } from './refine';
 import { norm2, EPSILON } from '../linalg/norm';
 
 /** 2^27 + 1, Dekker's splitting constant. */
 const SPLITTER = 134217729;
 
-export interface SeminormalInput {
-  /** Factor of A·S·P (pivoted; its `scale`, ones when unscaled), full rank; only R, P and S are read. */
-  qr: PivotedQR;
-  /** Rows and columns of A. */
-  n: number;
-  p: number;
-  /** A (n×p column-major) and its low parts (null: A exact in double). */
-  aHi: Float64Array;
-  aLo: Float64Array | null;
-  /** b (length n) and its low parts (null: b exact in double). */
-  bHi: Float64Array;
-  bLo: Float64Array | null;
-  /** Most corrections. Default 10. */
-  maxSteps?: number;
-}
+/** The problem as `refine.ts` takes it (qr: factor of A·S·P, full rank; only R, P and S are read), without the n-vector workspace this method does not need. */
+export type SeminormalInput = Omit<RefineInput, 'workspace'>;
 
 export interface SeminormalOutcome {
   /** Corrections applied. */

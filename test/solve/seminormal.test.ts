@@ -26,6 +26,22 @@ function tallSystem(n: number, seed: number, resid: boolean) {
   return { a, b, n, p, truth };
 }
 
+/** QR of J plus the augmented refinement (refine.ts, checked on NIST StRD) on the problem's double-double form at θ = 0: the reference solution. */
+function augmentedReference(problem: ReturnType<typeof fitProblem>, n: number, p: number, qr: PivotedQR): Float64Array {
+  const jh = new Float64Array(n * p);
+  const jl = new Float64Array(n * p);
+  const rh = new Float64Array(n);
+  const rl = new Float64Array(n);
+  problem.jacobianExtended!(new Float64Array(p), jh, jl);
+  problem.residualsExtended!(new Float64Array(p), rh, rl);
+  const b = Float64Array.from(rh, (v) => -v);
+  const bl = Float64Array.from(rl, (v) => -v);
+  const x = new Float64Array(p);
+  qr.solveLeastSquares(Float64Array.from(b), x);
+  refineLeastSquares({ qr, n, p, aHi: jh, aLo: jl, bHi: b, bLo: bl }, x);
+  return x;
+}
+
 describe('engine/solve/seminormal corrected seminormal equations', () => {
   it('residualGradient: Aᵀ(b − A·x) against exact rational arithmetic (BigInt on the 2⁻¹⁰⁷⁴ grid)', () => {
     const next = rng(3);
@@ -96,46 +112,25 @@ describe('engine/solve/seminormal corrected seminormal equations', () => {
     const params = ['b0', 'b1', 'b2', 'b3', 'b4', 'b5', 'b6'];
     const model = 'b0 + b1*x + b2*x^2 + b3*x^3 + b4*x^4 + b5*x^5 + b6*x^6';
     const out = solveLinear(fitProblem(model, params, xs, y));
-    // reference: QR plus the augmented refinement (refine.ts) on the same double-double problem
     const problem = fitProblem(model, params, xs, y);
-    const jh = new Float64Array(n * 7);
-    const jl = new Float64Array(n * 7);
-    const rh = new Float64Array(n);
-    const rl = new Float64Array(n);
     const jac = new Float64Array(n * 7);
     problem.jacobian(new Float64Array(7), jac);
-    problem.jacobianExtended!(new Float64Array(7), jh, jl);
-    problem.residualsExtended!(new Float64Array(7), rh, rl);
     const qr = new PivotedQR(n, 7).factor(jac, n, 7, { scale: true });
     expect(conditionBound(qr, 7)).toBeGreaterThan(1e4);
-    const b = Float64Array.from(rh, (v) => -v);
-    const bl = Float64Array.from(rl, (v) => -v);
-    const x = new Float64Array(7);
-    qr.solveLeastSquares(Float64Array.from(b), x);
-    refineLeastSquares({ qr, n, p: 7, aHi: jh, aLo: jl, bHi: b, bLo: bl }, x);
+    const x = augmentedReference(problem, n, 7, qr);
     expect(Array.from(out.theta)).toEqual(Array.from(x));
   });
 
-  it('solveLinear: a tall well-conditioned cubic takes the seminormal path and matches the augmented refinement to 2 ulps', () => {
+  it('solveLinear: a tall well-conditioned cubic (condition bound below the gate, so the seminormal refinement runs) matches the augmented refinement to 2 ulps', () => {
     const n = SEMINORMAL_MIN_ROWS + 977;
     const xs = Array.from({ length: n }, (_, i) => -2 + (4 * i) / (n - 1));
     const y = xs.map((x, i) => 1.5 - 0.8 * x + 0.3 * x * x + 0.05 * x ** 3 + 0.2 * noise(i));
     const model = 'a + b*x + c*x^2 + d*x^3';
     const problem = fitProblem(model, ['a', 'b', 'c', 'd'], xs, y);
     const out = solveLinear(problem);
-    const jh = new Float64Array(n * 4);
-    const jl = new Float64Array(n * 4);
-    const rh = new Float64Array(n);
-    const rl = new Float64Array(n);
-    problem.jacobianExtended!(new Float64Array(4), jh, jl);
-    problem.residualsExtended!(new Float64Array(4), rh, rl);
     const qr = out.factor!;
     expect(conditionBound(qr, 4)).toBeLessThan(1e4);
-    const b = Float64Array.from(rh, (v) => -v);
-    const bl = Float64Array.from(rl, (v) => -v);
-    const x = new Float64Array(4);
-    qr.solveLeastSquares(Float64Array.from(b), x);
-    refineLeastSquares({ qr, n, p: 4, aHi: jh, aLo: jl, bHi: b, bLo: bl }, x);
+    const x = augmentedReference(problem, n, 4, qr);
     for (let j = 0; j < 4; j++) expect(Math.abs(out.theta[j] - x[j])).toBeLessThanOrEqual(2 * Number.EPSILON * Math.abs(x[j]));
   });
 });
