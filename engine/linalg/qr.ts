@@ -167,10 +167,35 @@ export class PivotedQR {
     for (let j = 0; j < k; j++) this.reflect(j, b, a, m);
   }
 
-  /** b ← Q·b for b of length m. */
-  applyQ(b: Float64Array): void {
+  /** b ← Q·b for b of length m; with `first`, only the reflections H₀…H_{first−1} (for b whose entries from row `first` on are zero, the same result). */
+  applyQ(b: Float64Array, first = Math.min(this.m, this.n)): void {
     const { a, m } = this;
-    for (let j = Math.min(m, this.n) - 1; j >= 0; j--) this.reflect(j, b, a, m);
+    for (let j = Math.min(m, this.n, first) - 1; j >= 0; j--) this.reflect(j, b, a, m);
+  }
+
+  /** b ← Qᵀ·b and c ← Qᵀ·c in one sweep over the reflections (the same arithmetic as two applyQt calls, each Householder vector read once for both). */
+  applyQtBoth(b: Float64Array, c: Float64Array): void {
+    const { a, m } = this;
+    const k = Math.min(m, this.n);
+    for (let j = 0; j < k; j++) {
+      const cj = j * m;
+      const vj = a[cj + j];
+      if (vj === 0) continue;
+      let sb = 0;
+      let sc = 0;
+      for (let i = j; i < m; i++) {
+        const v = a[cj + i];
+        sb += v * b[i];
+        sc += v * c[i];
+      }
+      const tb = -sb / vj;
+      const tc = -sc / vj;
+      for (let i = j; i < m; i++) {
+        const v = a[cj + i];
+        b[i] += tb * v;
+        c[i] += tc * v;
+      }
+    }
   }
 
   private reflect(j: number, b: Float64Array, a: Float64Array, m: number): void {

@@ -102,7 +102,12 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
   const c = input.responseScale ?? 1;
   const goodness = goodnessOfFit({ residuals: r, y: data.y, weights: data.weights, p, sigmaAbsolute: data.sigmaAbsolute, condition: cov.condition, scale: c });
   // s/c from the scaled residuals, in range whatever the units (robust covariance: of the last reweighted step)
-  const rootMean = (v: Float64Array) => (goodness.dof > 0 ? Math.sqrt(v.reduce((a, x) => a + x * x, 0) / goodness.dof) : NaN);
+  const rootMean = (v: Float64Array) => {
+    if (!(goodness.dof > 0)) return NaN;
+    let ss = 0; // the same sum, in the same order, as v.reduce((a, x) => a + x * x, 0)
+    for (let i = 0; i < v.length; i++) ss += v[i] * v[i];
+    return Math.sqrt(ss / goodness.dof);
+  };
   const sScaled = rootMean(r);
   // covariance k²·(J̃ᵀJ̃)⁻¹ of the scaled problem J̃ = J/c: k = s/c (variance estimated), 1/c (σ absolute)
   const estimated = estimateCovariance(cov, data.sigmaAbsolute ? 1 / c : rw ? rootMean(rcov) : sScaled);

@@ -18,11 +18,20 @@
  * columns is not applied: it would need the model's structure (the generic
  * path only sees J), and column equilibration plus refinement already reach
  * the target.
+ *
+ * Tall, well-conditioned problems (n ≥ SEMINORMAL_MIN_ROWS and the bound
+ * ‖R‖_F‖R⁻¹‖_F on κ(J·S) at most SEMINORMAL_MAX_CONDITION) refine by the
+ * corrected seminormal equations instead (`seminormal.ts`: one double-double
+ * pass over the rows per step, no application of Q), which converge to the
+ * same double-double solution; if they do not converge (‖z‖ ≤ ε‖S⁻¹x‖ within
+ * the step limit) the augmented refinement runs from the QR solution as before.
+ * Every NIST StRD linear problem (n ≤ 82) keeps the augmented refinement.
  */
 import type { LeastSquaresProblem, CancelToken } from './problem';
 import { type SolveOutcome, stopReason, allFinite, halfSumSquares } from './types';
 import { PivotedQR } from '../linalg/qr';
 import { refineLeastSquares } from './refine';
+import { refineSeminormal, conditionBound } from './seminormal';
 import { stopText } from './messages';
 import { formatNumber } from '../format';
 
@@ -37,6 +46,22 @@ export interface LinearOptions {
   rankTolerance?: number;
   cancel?: CancelToken;
 }
+
+/**
+ * Fewest rows for the seminormal refinement (module comment). Below it the four passes of an augmented
+ * step are cheap and small problems (every NIST StRD linear problem) keep their factorisation and
+ * refinement bit for bit; the same threshold as the streamed factor of the trust-region solvers.
+ */
+export const SEMINORMAL_MIN_ROWS = 1024;
+
+/**
+ * Largest bound on κ(J·S) for the seminormal refinement: each step contracts the error by about
+ * c·κ²·ε (`seminormal.ts`), here at most 1e8·2.2e-16 ≈ 2e-8, so two or three steps reach ε even with a
+ * pessimistic constant c. Above it the augmented refinement (which contracts by about κ·ε) is used
+ * directly. The convergence test, not this bound, guards the result: an unconverged seminormal
+ * refinement is discarded.
+ */
+export const SEMINORMAL_MAX_CONDITION = 1e4;
 
 function failed(problem: LeastSquaresProblem, theta: Float64Array, code: 'failed' | 'non_finite' | 'cancelled', message: string, evaluations: number): SolveOutcome {
   const residuals = new Float64Array(problem.n);
@@ -92,7 +117,17 @@ export function solveLinear(problem: LeastSquaresProblem, options: LinearOptions
       bh[i] = -bHi[i];
       if (bl && bLo) bl[i] = -bLo[i];
     }
-    refinements = refineLeastSquares({ qr, n, p, aHi, aLo, bHi: bh, bLo: bl, maxSteps: options.maxRefinements }, delta);
+    let refined = false;
+    if (n >= SEMINORMAL_MIN_ROWS && conditionBound(qr, p) <= SEMINORMAL_MAX_CONDITION) {
+      const trial = Float64Array.from(delta);
+      const o = refineSeminormal({ qr, n, p, aHi, aLo, bHi: bh, bLo: bl, maxSteps: options.maxRefinements }, trial);
+      if (o.converged) {
+        delta.set(trial);
+        refinements = o.applied;
+        refined = true;
+      }
+    }
+    if (!refined) refinements = refineLeastSquares({ qr, n, p, aHi, aLo, bHi: bh, bLo: bl, maxSteps: options.maxRefinements }, delta);
   }
 
   const theta = new Float64Array(p);

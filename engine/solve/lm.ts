@@ -244,16 +244,18 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
         njev++;
         jacAtX = true;
       }
+      // `true`: the problem checked r and J for finiteness in its own passes (LeastSquaresProblem.residualsAndJacobian)
+      let checked = false;
       if (withJacobian) {
-        combined(xt, rt, jac);
+        checked = combined(xt, rt, jac) === true;
         njev++;
         jacAtX = false;
       } else problem.residuals(xt, rt);
       nfev++;
       started = true;
-      let trialFinite = allFinite(rt);
+      let trialFinite = checked || allFinite(rt);
       if (!trialFinite) nonFinite = lastNonFinite = nonFiniteReport('residuals', rt, n, 1, xt);
-      else if (withJacobian && !allFinite(jac)) {
+      else if (withJacobian && !checked && !allFinite(jac)) {
         trialFinite = false;
         nonFinite = lastNonFinite = nonFiniteReport('jacobian', jac, n, p, xt);
       }

@@ -54,6 +54,30 @@ export function modelProblem(input: ModelProblemInput): LeastSquaresProblem {
       else for (let i = 0; i < n; i++) out[o + i] = -out[o + i];
     }
   };
+  /**
+   * The same, returning whether every entry is finite: Σ v·0 is 0 for finite v and NaN as soon as one
+   * v is ±∞ or NaN (IEEE 754: ∞·0 = NaN, NaN propagates), checked in the pass that writes v.
+   */
+  const negateJacobianChecked = (out: Float64Array): boolean => {
+    let acc = 0;
+    for (let j = 0; j < p; j++) {
+      const o = j * n;
+      if (sw) {
+        for (let i = 0; i < n; i++) {
+          const v = -sw[i] * out[o + i];
+          out[o + i] = v;
+          acc += v * 0;
+        }
+      } else {
+        for (let i = 0; i < n; i++) {
+          const v = -out[o + i];
+          out[o + i] = v;
+          acc += v * 0;
+        }
+      }
+    }
+    return acc === 0;
+  };
   const problem: LeastSquaresProblem = {
     n,
     p,
@@ -68,9 +92,23 @@ export function modelProblem(input: ModelProblemInput): LeastSquaresProblem {
     },
     residualsAndJacobian(theta, out, jac) {
       model.valueAndJacobian(theta, columns, n, f, jac);
-      if (sw) for (let i = 0; i < n; i++) out[i] = sw[i] * (y[i] - f[i]);
-      else for (let i = 0; i < n; i++) out[i] = y[i] - f[i];
-      negateJacobian(jac);
+      // finiteness checked in the passes that write r and J (LeastSquaresProblem.residualsAndJacobian)
+      let acc = 0;
+      if (sw) {
+        for (let i = 0; i < n; i++) {
+          const v = sw[i] * (y[i] - f[i]);
+          out[i] = v;
+          acc += v * 0;
+        }
+      } else {
+        for (let i = 0; i < n; i++) {
+          const v = y[i] - f[i];
+          out[i] = v;
+          acc += v * 0;
+        }
+      }
+      const jacFinite = negateJacobianChecked(jac);
+      return acc === 0 && jacFinite;
     },
     residualsExtended(theta, hi, lo) {
       // value only (cheaper) unless a full evaluation at this θ is at hand
@@ -90,11 +128,18 @@ export function modelProblem(input: ModelProblemInput): LeastSquaresProblem {
     },
     jacobianExtended(theta, hi, lo) {
       const e = extended(theta);
+      if (!sw) {
+        // −(jh + jl) is exact: the negated parts (what ddMul by −1 gives for a normalised pair), one plain pass
+        for (let k = 0; k < n * p; k++) {
+          hi[k] = -e.jh[k];
+          lo[k] = -e.jl[k];
+        }
+        return;
+      }
       for (let j = 0; j < p; j++) {
         for (let i = 0; i < n; i++) {
           const k = j * n + i;
-          const s = sw ? -sw[i] : -1;
-          ddMul(e.jh[k], e.jl[k], s, 0);
+          ddMul(e.jh[k], e.jl[k], -sw[i], 0);
           hi[k] = DD_OUT[0];
           lo[k] = DD_OUT[1];
         }

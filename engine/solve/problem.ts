@@ -19,9 +19,12 @@ export interface LeastSquaresProblem {
    * Optional: r(θ) into `out` and the Jacobian into `jac` in one evaluation
    * (same values as `residuals` and `jacobian`). Levenberg–Marquardt uses it
    * for trial points, so an accepted step needs no separate Jacobian pass
-   * (additive, optional).
+   * (additive, optional). It may return `true` to say it checked, in its own
+   * passes, that every entry of `out` and `jac` is finite (the solvers then skip
+   * their own check, one more pass over n·(p + 1) numbers); any other return
+   * means unchecked.
    */
-  residualsAndJacobian?(theta: Float64Array, out: Float64Array, jac: Float64Array): void;
+  residualsAndJacobian?(theta: Float64Array, out: Float64Array, jac: Float64Array): void | boolean;
   /**
    * Optional: r(θ) in double-double, r ≈ hi + lo (see `linalg/dd.ts`). Used by
    * the linear solver's iterative refinement when present (additive, optional).

@@ -138,13 +138,16 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
 
   const combined = problem.residualsAndJacobian?.bind(problem);
   const evaluateAt = (at: Float64Array, out: Float64Array): boolean => {
-    if (combined) combined(at, out, jac);
+    // `true`: the problem checked r and J for finiteness in its own passes (LeastSquaresProblem.residualsAndJacobian)
+    let checked = false;
+    if (combined) checked = combined(at, out, jac) === true;
     else {
       problem.residuals(at, out);
       if (allFinite(out)) problem.jacobian(at, jac);
     }
     nfev++;
     njev++;
+    if (checked) return true;
     if (!allFinite(out)) {
       nonFinite = lastNonFinite = nonFiniteReport('residuals', out, n, 1, at);
       return false;

@@ -51,8 +51,7 @@ export function curvatureTest(qr: PivotedQR, r: ArrayLike<number>, fitted: Array
     z[i] = (sqrtW ? sqrtW[i] : 1) * u * u;
     zNorm2 += z[i] * z[i];
   }
-  qr.applyQt(z);
-  qr.applyQt(rq);
+  qr.applyQtBoth(z, rq);
   let zz = 0;
   let zr = 0;
   let rr = 0;

@@ -58,7 +58,9 @@ export function hatDiagonal(qr: PivotedQR, k = qr.rank): Float64Array {
   for (let j = 0; j < k; j++) {
     col.fill(0);
     col[j] = 1;
-    qr.applyQ(col);
+    // Q·e_j = H₀⋯H_j·e_j: the reflections after j leave e_j as it is (their vectors vanish above their own
+    // row, where e_j has its only non-zero entry), so only the first j + 1 are applied
+    qr.applyQ(col, j + 1);
     for (let i = 0; i < m; i++) h[i] += col[i] * col[i];
   }
   for (let i = 0; i < m; i++) h[i] = Math.min(1, Math.max(0, h[i]));

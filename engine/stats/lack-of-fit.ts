@@ -84,13 +84,20 @@ export function lackOfFit(columns: readonly ArrayLike<number>[], r: ArrayLike<nu
 
 /** The setting of each row (0…m − 1) and the number m of distinct settings: rows equal in every column share one. */
 export function settings(columns: readonly ArrayLike<number>[], n: number): { groupOf: Int32Array; m: number } {
-  const compare = (a: number, b: number): number => {
-    for (const col of columns) {
-      const d = col[a] - col[b];
-      if (d !== 0) return d < 0 ? -1 : 1;
+  // one predictor column (the usual case): the same comparison without the loop over columns
+  const only = columns.length === 1 ? columns[0] : null;
+  const compare = only
+    ? (a: number, b: number): number => {
+      const d = only[a] - only[b];
+      return d !== 0 ? (d < 0 ? -1 : 1) : 0;
     }
-    return 0;
-  };
+    : (a: number, b: number): number => {
+      for (const col of columns) {
+        const d = col[a] - col[b];
+        if (d !== 0) return d < 0 ? -1 : 1;
+      }
+      return 0;
+    };
   const order = new Int32Array(n);
   for (let i = 0; i < n; i++) order[i] = i;
   let sorted = true;

@@ -111,3 +111,55 @@ describe('engine/run/json writeJson', () => {
     expect(out.join('')).toBe(JSON.stringify(value, jsonReplacer, 2));
   });
 });
+
+describe('engine/run/json number text: every double round-trips', () => {
+  /** Doubles from random bit patterns (every exponent, subnormals included) plus the edge values; NaN and ±Infinity left out (written as null). */
+  function doubles(count: number): Float64Array {
+    const view = new DataView(new ArrayBuffer(8));
+    let s = 0x9e3779b9;
+    const next = () => {
+      // xorshift32 (Marsaglia 2003), enough to spread the bit patterns
+      s ^= s << 13; s >>>= 0; s ^= s >>> 17; s ^= s << 5; s >>>= 0;
+      return s;
+    };
+    const out = new Float64Array(count);
+    const edges = [0, -0, 5e-324, -5e-324, 2.2250738585072014e-308, 2.225073858507201e-308, Number.MAX_VALUE, -Number.MAX_VALUE, Number.EPSILON, 1, -1, 0.1, 1e21, 1e-7, 123456789012345680000, 2 ** 53, 2 ** 53 + 2];
+    let k = 0;
+    for (; k < edges.length; k++) out[k] = edges[k];
+    while (k < count) {
+      view.setUint32(0, next());
+      view.setUint32(4, next());
+      const v = view.getFloat64(0);
+      if (Number.isFinite(v)) out[k++] = v;
+    }
+    return out;
+  }
+
+  it('2 million random doubles in a typed array, a plain array, shallow and deep (indentation over 10 characters), indented and compact: Number(text) === value, the text is String(value)', () => {
+    const values = doubles(2_000_000);
+    const plain = Array.from(values);
+    const deep = { a: { b: { c: { d: { e: { f: values } } } } } };
+    for (const [space, value, pick] of [
+      [2, { v: values }, (o: any) => o.v],
+      [0, plain, (o: any) => o],
+      [2, deep, (o: any) => o.a.b.c.d.e.f],
+    ] as const) {
+      const text = resultToJson(value, space);
+      const back = pick(JSON.parse(text)) as number[];
+      expect(back.length).toBe(values.length);
+      let bad = 0;
+      for (let i = 0; i < values.length; i++) if (!(back[i] === values[i])) bad++;
+      expect(bad).toBe(0);
+      // the element texts themselves: shortest round-trip form, as String(x) (−0 is written 0, as JSON.stringify does)
+      const texts = (space === 0 ? text.slice(1, -1) : text.slice(text.indexOf('[') + 1, text.lastIndexOf(']'))).split(',').map((t) => t.trim());
+      let differ = 0;
+      for (let i = 0; i < values.length; i++) if (texts[i] !== String(values[i])) differ++;
+      expect(differ).toBe(0);
+    }
+  });
+
+  it('a plain array mixing numbers, non-finite numbers, strings, booleans and objects: the text of JSON.stringify with the replacer', () => {
+    const mixed = [1.5, NaN, 'a', 2, 3, true, null, -Infinity, { x: 1e-310 }, 4, undefined, 5e-324, [0.1, 0.2], 7];
+    for (const space of [0, 2, 4]) expect(resultToJson({ deep: { deeper: { deepest: { more: { m: mixed } } } }, m: mixed }, space)).toBe(JSON.stringify({ deep: { deeper: { deepest: { more: { m: mixed } } } }, m: mixed }, jsonReplacer, space));
+  });
+});

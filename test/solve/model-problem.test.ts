@@ -75,3 +75,23 @@ describe('engine/solve/model-problem extended evaluations (value-only kernel and
     expect(Array.from(h3)).toEqual(Array.from(h4));
   });
 });
+
+describe('engine/solve/model-problem residualsAndJacobian finiteness flag', () => {
+  const model = compileModel(infix('a/x + b*x', ['a', 'b']), ['a', 'b'], ['x']);
+  const y = Float64Array.from([1, 2, 3, 4]);
+  const r = new Float64Array(4);
+  const j = new Float64Array(8);
+  for (const sw of [undefined, Float64Array.from([1, 2, 0.5, 1])]) {
+    it(`true when r and J are finite, not true when a row gives ±∞ or NaN${sw ? ' (weighted)' : ''}`, () => {
+      const finite = modelProblem({ model, columns: [Float64Array.from([1, 2, 3, 4])], response: y, n: 4, sqrtWeights: sw });
+      expect(finite.residualsAndJacobian!(Float64Array.from([1, 1]), r, j)).toBe(true);
+      // x = 0: a/x is ±∞ (a ≠ 0) or NaN (a = 0), and ∂/∂a = 1/x is ∞
+      const atZero = modelProblem({ model, columns: [Float64Array.from([1, 0, 3, 4])], response: y, n: 4, sqrtWeights: sw });
+      expect(atZero.residualsAndJacobian!(Float64Array.from([1, 1]), r, j)).toBe(false);
+      expect(atZero.residualsAndJacobian!(Float64Array.from([0, 1]), r, j)).toBe(false);
+      // only the Jacobian non-finite: a = 0 and x = 0 give f = NaN too, so take a column where only ∂f/∂θ overflows
+      const big = modelProblem({ model: compileModel(infix('b*x + a*0', ['a', 'b']), ['a', 'b'], ['x']), columns: [Float64Array.from([1, 2, 3, 1e308])], response: y, n: 4, sqrtWeights: sw ? Float64Array.from([1, 1, 1, 10]) : undefined });
+      expect(big.residualsAndJacobian!(Float64Array.from([0, 0]), r, j)).toBe(sw ? false : true);
+    });
+  }
+});

@@ -109,31 +109,53 @@ export function flaggedPointRows(fit: FitResult): { headers: string[]; align: Al
   const headers = withX ? [named[0], fit.predictor ?? 'x', ...named.slice(1)] : named;
   const align = withX ? [ALIGN[0], 'right' as const, ...ALIGN.slice(1)] : ALIGN;
   if (!inf) return { headers, align, rows: [], more: 0 };
+  // Bounded work for large fits: the distinct flagged rows are counted from one numeric sort of their
+  // numbers, and flags and indices are gathered for the FLAGGED_ROWS_SHOWN rows shown only.
+  const all = new Float64Array(inf.exact.length + inf.outliers.length + inf.influential.length + inf.highLeverage.length);
+  let k = 0;
+  for (const r of inf.exact) all[k++] = r;
+  for (const r of inf.outliers) all[k++] = r.row;
+  for (const r of inf.influential) all[k++] = r;
+  for (const r of inf.highLeverage) all[k++] = r;
+  all.sort();
+  const ordered: number[] = [];
+  let distinct = 0;
+  for (let i = 0; i < all.length; i++) {
+    if (i > 0 && all[i] === all[i - 1]) continue;
+    distinct++;
+    if (ordered.length < FLAGGED_ROWS_SHOWN) ordered.push(all[i]);
+  }
+  const shown = new Set(ordered);
   const flags = new Map<number, string[]>();
   const add = (row: number, flag: string) => {
+    if (!shown.has(row)) return;
     const list = flags.get(row);
     if (list) list.push(flag);
     else flags.set(row, [flag]);
   };
   for (const r of inf.exact) add(r, 'leverage 1: passes through it');
   for (const r of inf.outliers) add(r.row, `outlier (adjusted p ${formatP(r.pValue)})`);
-  for (const r of inf.influential) add(r, `influential (D > ${formatNumber(inf.cooksCutoff, 3)})`);
-  for (const r of inf.highLeverage) add(r, `high leverage (h > ${formatNumber(inf.leverageCutoff, 3)})`);
-  const ordered = [...flags.keys()].sort((a, b) => a - b);
-  const shown = new Set(ordered.slice(0, FLAGGED_ROWS_SHOWN));
-  // indices of the shown rows only (one pass, no map over every row of a large fit)
+  const influentialFlag = `influential (D > ${formatNumber(inf.cooksCutoff, 3)})`;
+  for (const r of inf.influential) add(r, influentialFlag);
+  const leverageFlag = `high leverage (h > ${formatNumber(inf.leverageCutoff, 3)})`;
+  for (const r of inf.highLeverage) add(r, leverageFlag);
+  // indices of the shown rows only (one pass that stops when all are found, no map over every row of a large fit)
   const indexOf = new Map<number, number>();
-  fit.points.row.forEach((r, i) => { if (shown.has(r) && !indexOf.has(r)) indexOf.set(r, i); });
+  const rowsOfPoints = fit.points.row;
+  for (let i = 0; i < rowsOfPoints.length && indexOf.size < shown.size; i++) {
+    const r = rowsOfPoints[i];
+    if (shown.has(r) && !indexOf.has(r)) indexOf.set(r, i);
+  }
   const p = fit.points;
   const cell = (v: number | null | undefined) => (isUsable(v) ? formatNumber(v, 4) : 'n/a');
-  const rows = ordered.slice(0, FLAGGED_ROWS_SHOWN).map((r) => {
+  const rows = ordered.map((r) => {
     const i = indexOf.get(r) ?? -1;
     return [
       formatInteger(r), ...(p.x ? [cell(p.x[i])] : []), cell(p.y[i]), cell(p.fitted[i]), cell(p.leverage[i]), cell(p.cooksDistance[i]), cell(p.deletedStudentized?.[i]),
       (flags.get(r) ?? []).join('; '),
     ];
   });
-  return { headers, align, rows, more: Math.max(0, ordered.length - FLAGGED_ROWS_SHOWN) };
+  return { headers, align, rows, more: Math.max(0, distinct - FLAGGED_ROWS_SHOWN) };
 }
 
 /** The line under the flagged-rows table: the rules and their sources, the rows worth a look by 4/n, and rows left out. */
