@@ -8,8 +8,17 @@
  * Float64Array is turned back into a number array. FitResults (plain JSON
  * data by contract, engine/result.ts) hold no typed arrays of their own, so
  * the round trip is exact: same values, same bits (−0 and NaN included).
+ *
+ * Bands not computed yet (engine/run/fit-bands.ts) travel as their inputs,
+ * under the key DEFERRED_BANDS, and are deferred again on receipt for the
+ * fit plan given to `unpackNumbers`.
  */
+import type { FitPlan } from '../../parser/plan';
 import { toNumberArray } from '../run/number-array';
+import { deferredBandInputs, deferredBands, type BandInputs } from '../run/fit-bands';
+
+/** The key of a deferred bands object's inputs in packed data (a name no result field has). */
+export const DEFERRED_BANDS = '\u0000deferredBands';
 
 /** Shorter arrays are left alone (not worth it). */
 export const PACK_MIN_LENGTH = 16;
@@ -26,6 +35,8 @@ export function packNumbers<T>(value: T): T {
 }
 
 function pack(v: unknown): unknown {
+  const inputs = deferredBandInputs(v);
+  if (inputs) return { [DEFERRED_BANDS]: inputs };
   if (Array.isArray(v)) return isNumberArray(v) ? Float64Array.from(v) : v.map(pack);
   if (v !== null && typeof v === 'object' && !ArrayBuffer.isView(v)) {
     const out: Record<string, unknown> = {};
@@ -35,20 +46,25 @@ function pack(v: unknown): unknown {
   return v;
 }
 
-/** Restores packed data in place (Float64Arrays back to number arrays) and returns it. */
-export function unpackNumbers<T>(value: T): T {
-  return unpack(value) as T;
+/** Restores packed data in place (Float64Arrays back to number arrays, deferred bands for `fit`) and returns it. */
+export function unpackNumbers<T>(value: T, fit?: FitPlan): T {
+  return unpack(value, fit) as T;
 }
 
-function unpack(v: unknown): unknown {
+function unpack(v: unknown, fit: FitPlan | undefined): unknown {
   if (v instanceof Float64Array) return toNumberArray(v);
   if (Array.isArray(v)) {
-    for (let i = 0; i < v.length; i++) v[i] = unpack(v[i]);
+    for (let i = 0; i < v.length; i++) v[i] = unpack(v[i], fit);
     return v;
   }
   if (v !== null && typeof v === 'object' && !ArrayBuffer.isView(v)) {
     const o = v as Record<string, unknown>;
-    for (const k of Object.keys(o)) o[k] = unpack(o[k]);
+    if (DEFERRED_BANDS in o) {
+      // (a caller error: the inputs mean nothing without the fit they belong to)
+      if (!fit) throw new Error('deferred bands received without their fit plan');
+      return deferredBands(fit, o[DEFERRED_BANDS] as BandInputs);
+    }
+    for (const k of Object.keys(o)) o[k] = unpack(o[k], fit);
     return o;
   }
   return v;

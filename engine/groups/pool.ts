@@ -91,7 +91,7 @@ export function runChunksInWorkers(job: PoolJob): Promise<PoolOutcome> {
           job.onChunkProgress(current, m.done);
           return;
         }
-        if (m.kind === 'groupsDone') job.onChunkDone(current, unpackNumbers(m.results));
+        if (m.kind === 'groupsDone') job.onChunkDone(current, unpackNumbers(m.results, job.fit));
         else if (m.kind === 'error') job.onChunkFailed(current, m.message);
         else job.onChunkFailed(current, `unexpected answer ${m.kind} from a worker thread`);
         give();
