@@ -19,7 +19,7 @@ import type { FitPlan } from '../../parser/plan';
 import type { FitResult } from '../result';
 import type { FitData } from '../run/fit-data';
 import { isWorkerResponse, type WorkerRequest } from './protocol';
-import { unpackNumbers } from './pack';
+import { unpackNumbers, unpackResults } from './pack';
 import type { SharedStart } from './starts';
 
 export interface PoolJob {
@@ -91,8 +91,10 @@ export function runChunksInWorkers(job: PoolJob): Promise<PoolOutcome> {
           job.onChunkProgress(current, m.done);
           return;
         }
-        if (m.kind === 'groupsDone') job.onChunkDone(current, unpackNumbers(m.results, job.fit));
-        else if (m.kind === 'error') job.onChunkFailed(current, m.message);
+        if (m.kind === 'groupsDone') {
+          const results = m.packed !== undefined ? unpackResults({ results: m.results, packed: m.packed, bands: m.bands ?? [] }, job.fit) : unpackNumbers(m.results, job.fit);
+          job.onChunkDone(current, results);
+        } else if (m.kind === 'error') job.onChunkFailed(current, m.message);
         else job.onChunkFailed(current, `unexpected answer ${m.kind} from a worker thread`);
         give();
       });

@@ -185,7 +185,7 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
       points: pointTable(data, fitted, inf),
       bands,
       predictor: data.predictor,
-      response: exprText(fit.blocks[0].response),
+      response: responseText(fit),
       sigmaAbsolute: data.sigmaAbsolute,
       rowsDropped: data.rowsDropped,
       ...excludedFields(data),
@@ -194,6 +194,17 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
     warnings: withExcludedWarning([...warnings, ...influenceWarnings(influenceFlags, inf, data.lines, residuals.lackOfFit, residuals.curvature, goodness.dof - 1)], data),
   };
 }
+
+/** The response expression as text, once per fit plan (shared by its groups). */
+function responseText(fit: FitPlan): string {
+  let t = responseTexts.get(fit);
+  if (t === undefined) {
+    t = exprText(fit.blocks[0].response);
+    responseTexts.set(fit, t);
+  }
+  return t;
+}
+const responseTexts = new WeakMap<FitPlan, string>();
 
 /** The warnings with one more naming the rows left out by weight 0, when there are any. */
 function withExcludedWarning(warnings: FitWarning[], data: FitData): FitWarning[] {
@@ -254,7 +265,7 @@ function withheld(input: FitStatisticsInput, r: Float64Array): { fields: StatFie
       points: pointTable(data, fitted, { standardized: missing, studentized: missing, deletedStudentized: missing, leverage: missing, cooksDistance: missing }),
       bands: null,
       predictor: data.predictor,
-      response: exprText(fit.blocks[0].response),
+      response: responseText(fit),
       sigmaAbsolute: data.sigmaAbsolute,
       rowsDropped: data.rowsDropped,
       ...excludedFields(data),

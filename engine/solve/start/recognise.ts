@@ -157,16 +157,31 @@ export interface Recognised {
   how: string;
 }
 
-/** The family a model has the structure of, with its bindings (null when none). */
+/**
+ * The family a model has the structure of, with its bindings (null when
+ * none). It depends on the expression alone, so it is remembered per
+ * expression object (a plan's model is not modified after checking): the
+ * groups of a per-group fit share one answer instead of matching the
+ * patterns again for each group. Callers only read the answer.
+ */
 export function recogniseShape(input: Pick<StartInput, 'structure'>): { shape: Shape; binding: Binding } | null {
   if (!input.structure) return null;
-  const form = canonicalForm(input.structure.expr);
+  const expr = input.structure.expr;
+  const known = recognised.get(expr);
+  if (known !== undefined) return known;
+  const form = canonicalForm(expr);
+  let found: { shape: Shape; binding: Binding } | null = null;
   for (const shape of SHAPES) {
     const binding = matchPattern(shape.pattern, form);
-    if (binding && binding.x) return { shape, binding };
+    if (binding && binding.x) {
+      found = { shape, binding };
+      break;
+    }
   }
-  return null;
+  recognised.set(expr, found);
+  return found;
 }
+const recognised = new WeakMap<object, { shape: Shape; binding: Binding } | null>();
 
 /**
  * Starting values for the parameters `unknown` from a recognised family
