@@ -58,8 +58,43 @@ export function computeBands(fit: FitPlan, inputs: BandInputs): Bands {
 
 const BAND_KEYS = ['x', 'fitted', 'confidenceLower', 'confidenceUpper', 'predictionLower', 'predictionUpper'] as const satisfies readonly (keyof Bands)[];
 
-/** Inputs of the deferred bands objects made here (not yet read or already read alike). */
-const deferred = new WeakMap<object, BandInputs>();
+interface Deferred {
+  fit: FitPlan;
+  inputs: BandInputs;
+  computed: Bands | null;
+}
+
+/** The state of each deferred bands object made here (read or not yet read alike). */
+const deferred = new WeakMap<object, Deferred>();
+
+/**
+ * The six accessors, shared by every deferred bands object (they find their
+ * object's state by `this`): defining shared accessors costs a few
+ * microseconds a fit, a closure per accessor several times that.
+ */
+const ACCESSORS: PropertyDescriptorMap = Object.fromEntries(
+  BAND_KEYS.map((k) => [
+    k,
+    {
+      enumerable: true,
+      configurable: true,
+      get(this: Bands) {
+        const d = deferred.get(this)!;
+        return (d.computed ??= computeBands(d.fit, d.inputs))[k];
+      },
+      set(this: Bands, value: number[]) {
+        // the others are read before the object becomes plain data: an assigned array is plain data from then on
+        const d = deferred.get(this);
+        if (d) {
+          d.computed ??= computeBands(d.fit, d.inputs);
+          deferred.delete(this);
+          for (const other of BAND_KEYS) Object.defineProperty(this, other, { value: d.computed[other], enumerable: true, configurable: true, writable: true });
+        }
+        Object.defineProperty(this, k, { value, enumerable: true, configurable: true, writable: true });
+      },
+    },
+  ]),
+);
 
 /**
  * Bands computed on first read (module comment). The inputs are copied, so
@@ -67,25 +102,12 @@ const deferred = new WeakMap<object, BandInputs>();
  */
 export function deferredBands(fit: FitPlan, inputs: BandInputs): Bands {
   const own: BandInputs = { ...inputs, estimates: Float64Array.from(inputs.estimates), se: Float64Array.from(inputs.se), corr: Float64Array.from(inputs.corr) };
-  let computed: Bands | null = null;
-  const bands = {} as Bands;
-  for (const k of BAND_KEYS) {
-    Object.defineProperty(bands, k, {
-      enumerable: true,
-      configurable: true,
-      get: () => (computed ??= computeBands(fit, own))[k],
-      set: (value: number[]) => {
-        // an assigned array is plain data from then on: the object no longer travels as its inputs
-        deferred.delete(bands);
-        Object.defineProperty(bands, k, { value, enumerable: true, configurable: true, writable: true });
-      },
-    });
-  }
-  deferred.set(bands, own);
+  const bands = Object.defineProperties({}, ACCESSORS) as Bands;
+  deferred.set(bands, { fit, inputs: own, computed: null });
   return bands;
 }
 
 /** The inputs of a deferred bands object, or null for any other value. */
 export function deferredBandInputs(value: unknown): BandInputs | null {
-  return value !== null && typeof value === 'object' ? deferred.get(value) ?? null : null;
+  return value !== null && typeof value === 'object' ? deferred.get(value)?.inputs ?? null : null;
 }

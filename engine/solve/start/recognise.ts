@@ -23,6 +23,7 @@ import { linearSet, SeparableSolver } from './separable';
 import type { StartInput } from './types';
 import { cleanPairs, type XY } from '../../templates/heuristics';
 import { expOffsetStart, expStart, gaussianStart, logistic4Start, michaelisMentenStart, powerStart, reciprocalExpStart } from '../../templates/families';
+import { workArray } from '../../linalg/work-array';
 
 type Values = Record<string, number>;
 
@@ -195,7 +196,7 @@ export function recogniseStart(input: StartInput, unknown: readonly number[]): R
   const { shape, binding } = found;
   const { cols, n, y, parameters } = input;
   const names = input.structure.columns;
-  const xs = new Float64Array(n);
+  const xs = workArray(n);
   for (let i = 0; i < n; i++) xs[i] = evaluate(binding.x!, (c) => cols[names.indexOf(c)]?.[i] ?? NaN);
   const d = cleanPairs(xs, y);
   if (d.x.length < 2) return null;
