@@ -101,7 +101,7 @@ const ACCESSORS: PropertyDescriptorMap = Object.fromEntries(
  * later changes to the caller's arrays do not reach them.
  */
 export function deferredBands(fit: FitPlan, inputs: BandInputs): Bands {
-  const own: BandInputs = { ...inputs, estimates: Float64Array.from(inputs.estimates), se: Float64Array.from(inputs.se), corr: Float64Array.from(inputs.corr) };
+  const own: BandInputs = { ...inputs, estimates: inputs.estimates.slice(), se: inputs.se.slice(), corr: inputs.corr.slice() };
   const bands = Object.defineProperties({}, ACCESSORS) as Bands;
   deferred.set(bands, { fit, inputs: own, computed: null });
   return bands;
