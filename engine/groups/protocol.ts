@@ -19,6 +19,7 @@ import type { FitResult, RunResult } from '../result';
 import type { FitData } from '../run/fit-data';
 import type { SharedStart } from './starts';
 import type { BootstrapChunk, BootstrapJob } from '../run/bootstrap';
+import type { BandInputs } from '../run/fit-bands';
 
 /** Options of `runPlan` that can cross a thread boundary (no functions). */
 export interface RunPlanJobOptions {
@@ -51,8 +52,12 @@ export type WorkerResponse =
   /** An accepted iteration of a fit the runPlan job solves itself (at most every ITERATION_MS, engine/worker.ts). */
   | { kind: 'iteration'; id: number; fit: string; group?: string; iteration: number; cost: number }
   | { kind: 'runPlanDone'; id: number; result: RunResult }
-  /** Results in the order sent; long number arrays travel packed as Float64Arrays (`pack.ts`: `unpackNumbers` restores them). */
-  | { kind: 'groupsDone'; id: number; results: FitResult[] }
+  /**
+   * Results in the order sent; long number arrays travel packed as Float64Arrays and deferred bands as their
+   * inputs (`pack.ts`: `packResults`, `unpackResults` restores them): `packed` lists the results holding packed
+   * data, `bands` each result's deferred bands. Without `packed`, every result is unpacked.
+   */
+  | { kind: 'groupsDone'; id: number; results: FitResult[]; packed?: number[]; bands?: (BandInputs | null)[] }
   /** Bootstrap refits of a `bootstrap` job, in index order. */
   | { kind: 'bootstrapDone'; id: number; chunk: BootstrapChunk }
   /** The job itself could not run (a bug, not a fit failure: those are FitResults with stop `failed`). */
@@ -84,7 +89,7 @@ export function isWorkerResponse(x: unknown): x is WorkerResponse {
     case 'runPlanDone':
       return isObject(x.result);
     case 'groupsDone':
-      return Array.isArray(x.results);
+      return Array.isArray(x.results) && (x.packed === undefined || Array.isArray(x.packed)) && (x.bands === undefined || (Array.isArray(x.bands) && x.bands.length === x.results.length));
     case 'bootstrapDone':
       return isObject(x.chunk) && typeof x.chunk.from === 'number';
     case 'error':

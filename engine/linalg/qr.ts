@@ -23,6 +23,7 @@
  * when it refactors, so solvers can keep one per problem.
  */
 import { norm2, EPSILON } from './norm';
+import { workArray } from './work-array';
 
 export interface QROptions {
   /** Column pivoting. Default true. */
@@ -59,7 +60,8 @@ export class PivotedQR {
   private readonly work: Float64Array;
 
   constructor(readonly maxRows: number, readonly maxCols: number) {
-    this.a = new Float64Array(Math.max(1, maxRows * maxCols));
+    // (per-group fits factor many small matrices: engine/linalg/work-array.ts)
+    this.a = workArray(Math.max(1, maxRows * maxCols));
     this.rdiag = new Float64Array(maxCols);
     this.perm = new Int32Array(maxCols);
     this.scale = new Float64Array(maxCols);

@@ -6,10 +6,11 @@
  * Computations, Alg. 3.1.2 applied to the unit vectors), never by forming AᵀA.
  */
 import type { PivotedQR } from './qr';
+import { workArray } from './work-array';
 
 /** Inverse of the leading k×k block of R (upper triangular), k×k column-major. */
 export function inverseR(qr: PivotedQR, k = qr.rank): Float64Array {
-  const inv = new Float64Array(k * k);
+  const inv = workArray(k * k);
   const { a, m, rdiag } = qr;
   for (let c = 0; c < k; c++) {
     // Solve R·x = e_c; x is zero below row c.

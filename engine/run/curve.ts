@@ -26,7 +26,7 @@
  * range for data near 1e-300 or 1e+300.
  */
 import type { Expr, FitPlan } from '../../parser/plan';
-import { compileColumnExpr, compileModel } from '../compile';
+import { compileColumnExpr, sharedModel } from '../compile';
 import type { FitResult, ObservationSource } from '../result';
 import type { FactoredCovariance, ModelAt, NewObservationSd } from '../stats/bands';
 import { tCritical } from '../stats/distributions';
@@ -38,6 +38,21 @@ export function freeModel(fit: FitPlan): { expr: Expr; free: string[]; fixed: Ma
   for (const p of fit.parameters) if (p.fixed) fixed.set(p.name, p.initial ?? NaN);
   return { expr: substituteParams(fit.blocks[0].model, fixed), free: fit.parameters.filter((p) => !p.fixed).map((p) => p.name), fixed };
 }
+
+/**
+ * `freeModel` of a plan's fit, computed once per fit plan object (plans are
+ * not modified after checking) and shared by its groups; read-only.
+ */
+export function planFreeModel(fit: FitPlan): { readonly expr: Expr; readonly free: readonly string[] } {
+  let m = freeModels.get(fit);
+  if (!m) {
+    const { expr, free } = freeModel(fit);
+    m = { expr, free: Object.freeze(free) };
+    freeModels.set(fit, m);
+  }
+  return m;
+}
+const freeModels = new WeakMap<FitPlan, { readonly expr: Expr; readonly free: readonly string[] }>();
 
 export interface CurveInput {
   fit: FitPlan;
@@ -71,8 +86,8 @@ export interface Curve {
 
 export function buildCurve(input: CurveInput): Curve {
   const { fit, predictor, estimates } = input;
-  const { expr, free } = freeModel(fit);
-  const model = compileModel(expr, free, [predictor]);
+  const { expr, free } = planFreeModel(fit);
+  const model = sharedModel(expr, free, [predictor]);
   const p = free.length;
   const modelAt: ModelAt = (xs) => {
     const m = xs.length;

@@ -24,6 +24,9 @@
  * reweighted step's residuals (orthogonal to that Jacobian's span). The rows
  * flagged and their warnings: engine/stats/influence-flags.ts; lack of fit
  * (engine/stats/lack-of-fit.ts) over the model columns' settings.
+ * The bands (the curve with its confidence and prediction bands over 200
+ * predictor values) are computed when first read, from numbers fixed here
+ * (engine/run/fit-bands.ts).
  * Residual diagnostics (Durbin–Watson, runs, Shapiro–Wilk, curvature) are null when
  * dof ≤ 0 or when the residuals are at rounding level:
  * √(SSR/n) ≤ ROUNDING_LEVEL·max|√wᵢyᵢ| (an exact fit; their signs and
@@ -34,7 +37,6 @@ import type { FitResult, FitWarning, ResidualDiagnostics } from '../result';
 import { estimateCovariance, unscaledCovariance } from '../stats/covariance';
 import type { LeastSquaresProblem } from '../solve/problem';
 import type { SolveOutcome } from '../solve/types';
-import { bandsOver } from '../stats/bands';
 import { goodnessOfFit } from '../stats/goodness';
 import { hatDiagonal, influence } from '../stats/influence';
 import { influenceReport, influenceWarnings } from '../stats/influence-flags';
@@ -44,7 +46,7 @@ import { parameterIntervalsFromSe } from '../stats/intervals';
 import { durbinWatson, orderBy, runsTest } from '../stats/residual-tests';
 import { shapiroWilk } from '../stats/shapiro-wilk';
 import { boundHit, fitWarnings } from '../stats/warnings';
-import { buildCurve } from './curve';
+import { deferredBands } from './fit-bands';
 import { exprText } from '../../parser/plan-expr';
 import type { FitData } from './fit-data';
 import { emptyGoodness, excludedFields, expandMatrix, parameterRow } from './fit-result';
@@ -144,17 +146,19 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
       if (v < min) min = v;
       if (v > max) max = v;
     }
-    const curve = buildCurve({
-      fit,
+    // computed when first read (engine/run/fit-bands.ts): most runs of many groups never read them
+    bands = deferredBands(fit, {
       predictor: data.predictor,
       estimates: theta,
-      cov: { p, se: estimated.se, corr: estimated.correlation },
+      se: estimated.se,
+      corr: estimated.correlation,
       dof: goodness.dof,
       level: fit.options.level,
       rmse: goodness.rmse,
       sigmaAbsolute: data.sigmaAbsolute,
+      min,
+      max,
     });
-    bands = bandsOver(min, max, curve.modelAt, curve.cov, curve.t, curve.newSd);
   }
 
   const parameters = parameterRows(input, theta, (j) => intervals[j]);
@@ -186,7 +190,7 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
       points: pointTable(data, fitted, inf),
       bands,
       predictor: data.predictor,
-      response: exprText(fit.blocks[0].response),
+      response: responseText(fit),
       sigmaAbsolute: data.sigmaAbsolute,
       rowsDropped: data.rowsDropped,
       ...excludedFields(data),
@@ -195,6 +199,17 @@ export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; 
     warnings: withExcludedWarning([...warnings, ...influenceWarnings(influenceFlags, inf, data.lines, residuals.lackOfFit, residuals.curvature, goodness.dof - 1)], data),
   };
 }
+
+/** The response expression as text, once per fit plan (shared by its groups). */
+function responseText(fit: FitPlan): string {
+  let t = responseTexts.get(fit);
+  if (t === undefined) {
+    t = exprText(fit.blocks[0].response);
+    responseTexts.set(fit, t);
+  }
+  return t;
+}
+const responseTexts = new WeakMap<FitPlan, string>();
 
 /** The warnings with one more naming the rows left out by weight 0, when there are any. */
 function withExcludedWarning(warnings: FitWarning[], data: FitData): FitWarning[] {
@@ -255,7 +270,7 @@ function withheld(input: FitStatisticsInput, r: Float64Array): { fields: StatFie
       points: pointTable(data, fitted, { standardized: missing, studentized: missing, deletedStudentized: missing, leverage: missing, cooksDistance: missing }),
       bands: null,
       predictor: data.predictor,
-      response: exprText(fit.blocks[0].response),
+      response: responseText(fit),
       sigmaAbsolute: data.sigmaAbsolute,
       rowsDropped: data.rowsDropped,
       ...excludedFields(data),

@@ -35,7 +35,7 @@
  */
 import { LOSS_SPECS } from '../../parser/registry/losses';
 import type { Expr, FitPlan, LossKind } from '../../parser/plan';
-import { compileModel, isLinearInParameters, type CompiledModel } from '../compile';
+import { isLinearInParameters, sharedModel, type CompiledModel } from '../compile';
 import type { FitResult, FitTrace, FitWarning, SearchResult, StopReason } from '../result';
 import { boundsMethodFor, modelProblem, nonFiniteDetail, type CancelToken, type SolveOutcome, type SolverTrace } from '../solve';
 import { CHECK_POINTS, CHECK_REFINE, checkMark, explore, guessStart, isLower, linearSet, type ExploreOutcome, type StartInput } from '../solve/start';
@@ -43,7 +43,7 @@ import { errorText, runText, searchText, warningText } from '../messages';
 import type { FitData } from './fit-data';
 import { failedFit } from './fit-result';
 import { holdParams } from '../../parser/plan-expr';
-import { freeModel } from './curve';
+import { planFreeModel } from './curve';
 import { defaultSolvers, type Solvers } from './solvers';
 import { fitStatistics } from './fit-stats';
 import { responseScale } from '../linalg/scale';
@@ -112,8 +112,8 @@ const planModels = new WeakMap<FitPlan, PlanModel>();
 function planModel(fit: FitPlan): PlanModel {
   let m = planModels.get(fit);
   if (!m) {
-    const { expr, free } = freeModel(fit);
-    m = { expr, free, linearIn: new Map() };
+    const { expr, free } = planFreeModel(fit);
+    m = { expr, free: [...free], linearIn: new Map() };
     planModels.set(fit, m);
   }
   return m;
@@ -134,7 +134,8 @@ function fitCore(fit: FitPlan, data: FitData, solvers: Solvers, watch: Watch, gr
   const { expr, free } = pm;
   const freePlans = fit.parameters.filter((p) => !p.fixed);
   const n = data.n;
-  const model: CompiledModel = compileModel(expr, free, data.modelColumns);
+  // one compiled model for every group of a fit (engine/compile `sharedModel`)
+  const model: CompiledModel = sharedModel(expr, free, data.modelColumns);
   const lower = Float64Array.from(freePlans, (q) => q.lower ?? -Infinity);
   const upper = Float64Array.from(freePlans, (q) => q.upper ?? Infinity);
   // Responses far from 1 (|√w·y| outside [2^-400, 2^400]) are fitted divided by a power of two c

@@ -59,6 +59,7 @@ import { stopText } from './messages';
 import { trustRegionSettings, validateSolveOptions } from './options';
 import { DEAD_GRADIENT, LM_STAGNATION, StagnationWatch } from './stagnation';
 import { TraceRecorder, finiteOrNull } from './trace';
+import { workArray } from '../linalg/work-array';
 
 /** Initial trust radius factor (Moré 1978 §6: 100). */
 const STEP_FACTOR = 100;
@@ -71,8 +72,8 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
 
   const x = Float64Array.from(theta0);
   project(x, lower, upper);
-  const r = new Float64Array(n);
-  const jac = new Float64Array(n * p);
+  const r = workArray(n);
+  const jac = workArray(n * p);
   let nfev = 0;
   let njev = 0;
   let iterations = 0;
@@ -88,8 +89,8 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
   });
   // Work arrays, allocated once (qr, wa, rt before the first `finish` that may polish).
   let qr: PivotedQR | null = null;
-  const wa = new Float64Array(n);
-  const rt = new Float64Array(n);
+  const wa = workArray(n);
+  const rt = workArray(n);
   const invalid = validateSolveOptions(options);
   if (invalid !== null) return finish('failed', stopText.invalidOption(invalid), true);
   if (n === 0) return finish('failed', stopText.noRows, true);
@@ -105,7 +106,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, theta0: Float64
 
   /** Free columns of J when some parameters are held at bounds: allocated on first need only (n×p). */
   let jf: Float64Array | null = null;
-  const rq = new Float64Array(p * p);
+  const rq = workArray(p * p);
   const qtf = new Float64Array(p);
   const diag = new Float64Array(p);
   const dF = new Float64Array(p);

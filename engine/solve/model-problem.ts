@@ -8,6 +8,7 @@
 import type { CompiledModel } from '../compile/index';
 import type { LeastSquaresProblem } from './problem';
 import { DD_OUT, ddSub, ddMul } from '../linalg/dd';
+import { workArray } from '../linalg/work-array';
 
 export interface ModelProblemInput {
   model: CompiledModel;
@@ -32,7 +33,7 @@ function sameTheta(a: Float64Array, b: Float64Array): boolean {
 export function modelProblem(input: ModelProblemInput): LeastSquaresProblem {
   const { model, columns, response: y, n, sqrtWeights: sw } = input;
   const p = model.params.length;
-  const f = new Float64Array(n);
+  const f = workArray(n);
   let ext: { fh: Float64Array; fl: Float64Array; jh: Float64Array; jl: Float64Array; at: Float64Array } | null = null;
   /** `ext` holds a full (value + Jacobian) evaluation at θ = ext.at. */
   let extValid = false;

@@ -23,6 +23,7 @@
  */
 import type { PivotedQR } from '../linalg/qr';
 import { norm2, EPSILON } from '../linalg/norm';
+import { workArray } from '../linalg/work-array';
 
 export interface RefineInput {
   qr: PivotedQR;
@@ -46,7 +47,7 @@ export interface RefineWorkspace {
 
 /** Three n-vectors for `RefineInput.workspace`. */
 export function refineWorkspace(n: number): RefineWorkspace {
-  return { rho: new Float64Array(n), f: new Float64Array(n), fl: new Float64Array(n) };
+  return { rho: workArray(n), f: workArray(n), fl: workArray(n) };
 }
 
 /** Refines x in place (full-rank factorisations only); returns the number of corrections applied. */

@@ -96,6 +96,7 @@ import { trustRegionSettings, validateSolveOptions } from './options';
 import { DEAD_GRADIENT, LM_STAGNATION, StagnationWatch } from './stagnation';
 import { TraceRecorder, finiteOrNull } from './trace';
 import { StepWork, modelValue, selectStep, type StepModel } from './reflective-step';
+import { workArray } from '../linalg/work-array';
 
 /** Initial trust radius factor: Δ₀ = STEP_FACTOR·‖Dθ₀‖ (module comment, step 5; Moré 1978 §6 uses 100). */
 const STEP_FACTOR = 1;
@@ -113,8 +114,8 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
 
   const x = Float64Array.from(theta0);
   makeStrictlyFeasible(x, lower, upper);
-  let r = new Float64Array(n);
-  const jac = new Float64Array(n * p);
+  let r = workArray(n);
+  const jac = workArray(n * p);
   let nfev = 0;
   let njev = 0;
   let iterations = 0;
@@ -125,8 +126,8 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
   /** A trial step was evaluated (a non-finite stop is then not about the starting values). */
   let started = false;
   let qr: PivotedQR | null = null;
-  let rt = new Float64Array(n);
-  const wa = new Float64Array(n);
+  let rt = workArray(n);
+  const wa = workArray(n);
 
   const finish = (code: StopCode, message: string, jacobianCurrent: boolean): SolveOutcome => finishSolve(code, message, {
     problem, x, r, jac, jacobianCurrent, iterations, evaluations: nfev, jacobianEvaluations: njev, started,
@@ -171,10 +172,10 @@ export function reflectiveTrustRegion(problem: LeastSquaresProblem, theta0: Floa
   /** The factorisation whose R and permutation the step uses (that of R itself when streamed). */
   const fac = streamed ? streamed.small : qrf!;
   const small = new PivotedQR(2 * p, p);
-  const stack = new Float64Array(2 * p * p);
+  const stack = workArray(2 * p * p);
   const stackRhs = new Float64Array(2 * p);
-  const rj = new Float64Array(p * p);
-  const r2 = new Float64Array(p * p);
+  const rj = workArray(p * p);
+  const r2 = workArray(p * p);
   const qtf = new Float64Array(p);
   const qtb = new Float64Array(p);
   const g = new Float64Array(p);

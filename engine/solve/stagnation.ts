@@ -21,6 +21,7 @@
  * NIST StRD from both certified starts never meets the test before
  * converging (test/strd).
  */
+import { workArray } from '../linalg/work-array';
 
 export interface StagnationSettings {
   window: number;
@@ -47,8 +48,8 @@ export class StagnationWatch {
   private readonly best: Float64Array;
 
   constructor(private readonly p: number, readonly settings: StagnationSettings, private readonly scale?: Float64Array) {
-    this.costs = new Float64Array(settings.window);
-    this.points = new Float64Array(settings.window * p);
+    this.costs = workArray(settings.window);
+    this.points = workArray(settings.window * p);
     this.best = new Float64Array(p);
   }
 

@@ -24,6 +24,7 @@
 import type { CurvatureTest } from '../result';
 import type { PivotedQR } from '../linalg/qr';
 import { tUpper } from './distributions';
+import { workArray } from '../linalg/work-array';
 
 /** ‖z⊥‖ ≤ SPAN_RELATIVE·‖z‖: z is in the span of J to about half the digits, and b is not determined. */
 const SPAN_RELATIVE = 1e-8;
@@ -42,8 +43,8 @@ export function curvatureTest(qr: PivotedQR, r: ArrayLike<number>, fitted: Array
   let d = 0;
   for (let i = 0; i < n; i++) d = Math.max(d, Math.abs(fitted[i] - mean));
   if (!(d > 0) || !Number.isFinite(d)) return null;
-  const z = new Float64Array(n);
-  const rq = new Float64Array(n);
+  const z = workArray(n);
+  const rq = workArray(n);
   for (let i = 0; i < n; i++) rq[i] = r[i];
   let zNorm2 = 0;
   for (let i = 0; i < n; i++) {

@@ -42,10 +42,32 @@ export function tTwoSided(x: number, dof: number): number {
   return Math.min(1, 2 * tUpper(Math.abs(x), dof));
 }
 
-/** Student t quantile: the x with P(T ≤ x) = p. */
+/**
+ * Student t quantile: the x with P(T ≤ x) = p. Remembered by (p, dof), at
+ * most QUANTILE_MEMO_SIZE pairs (then forgotten all at once): the groups of a
+ * per-group fit ask for the same few quantiles (interval level, outlier cut
+ * at their n) thousands of times, and one costs about 20 µs (@stdlib inverts
+ * the incomplete beta function). The function is deterministic, so a
+ * remembered value is the one computed again.
+ */
 export function tQuantile(p: number, dof: number): number {
-  return tQuantileStd(p, dof);
+  let byDof = tQuantiles.get(p);
+  if (!byDof) {
+    if (tQuantiles.size >= QUANTILE_MEMO_SIZE) tQuantiles.clear();
+    byDof = new Map();
+    tQuantiles.set(p, byDof);
+  }
+  let q = byDof.get(dof);
+  if (q === undefined) {
+    if (byDof.size >= QUANTILE_MEMO_SIZE) byDof.clear();
+    q = tQuantileStd(p, dof);
+    byDof.set(dof, q);
+  }
+  return q;
 }
+/** Pairs (p, dof) per memo level of `tQuantile`. */
+const QUANTILE_MEMO_SIZE = 256;
+const tQuantiles = new Map<number, Map<number, number>>();
 
 /**
  * Two-sided critical value t_{(1+level)/2, dof} for a confidence interval at
@@ -53,7 +75,7 @@ export function tQuantile(p: number, dof: number): number {
  */
 export function tCritical(level: number, dof: number): number {
   if (!(level > 0 && level < 1) || !(dof > 0)) return NaN;
-  return tQuantileStd((1 + level) / 2, dof);
+  return tQuantile((1 + level) / 2, dof);
 }
 
 /** F cumulative distribution P(F ≤ x) with (d1, d2) degrees of freedom. */

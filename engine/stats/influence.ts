@@ -38,6 +38,7 @@
  */
 import { EPSILON } from '../linalg/norm';
 import type { PivotedQR } from '../linalg/qr';
+import { workArray } from '../linalg/work-array';
 
 /** τ of the module comment: 1 − hᵢ ≤ τ counts as leverage one. */
 export function leverageOneTolerance(n: number): number {
@@ -54,7 +55,7 @@ const DELETED_SSR_RELATIVE = 1e-12;
 export function hatDiagonal(qr: PivotedQR, k = qr.rank): Float64Array {
   const m = qr.m;
   const h = new Float64Array(m);
-  const col = new Float64Array(m);
+  const col = workArray(m);
   for (let j = 0; j < k; j++) {
     col.fill(0);
     col[j] = 1;

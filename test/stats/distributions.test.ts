@@ -65,3 +65,14 @@ describe('stats/distributions upper tails against scipy (scipy.stats 1.17.1, sf)
     expect(1 - normalCdf(10)).toBe(0);
   });
 });
+
+describe('stats/distributions tQuantile memo', () => {
+  it('gives what @stdlib gives, also when asked again and after many other pairs', async () => {
+    const std = (await import('@stdlib/stats-base-dists-t-quantile')).default;
+    const pairs: [number, number][] = [[0.975, 8], [0.975, 8], [0.995, 3], [0.5, 1], [NaN, 4], [0.975, -1], [0.975, NaN]];
+    for (let d = 1; d <= 600; d++) pairs.push([0.975, d], [1 - 0.05 / (2 * d), d]);
+    pairs.push([0.975, 8], [0.995, 3]);
+    for (const [p, dof] of pairs) expect(Object.is(tQuantile(p, dof), std(p, dof))).toBe(true);
+    expect(tCritical(0.95, 8)).toBe(std(0.975, 8));
+  });
+});

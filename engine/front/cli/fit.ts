@@ -88,9 +88,9 @@ export async function fitCommand(argv: string[], io: CliIo): Promise<ExitCode> {
       ...(shard ? { shard } : {}),
       // with --threads, say how the groups were fitted (on stderr, after the run)
       ...(threads !== undefined && !opts.quiet ? { onGroupMode: (fit: string, mode: RunMode) => modes.push(MSG.groupMode(fit, mode)) } : {}),
-      onProgress: (p) => progress.update(MSG.progress(p.group !== undefined ? `${p.fit} [${p.group}]` : p.fit, p.done, p.total)),
-      // a long single fit: its iterations (the line is only drawn on a terminal, throttled)
-      onIteration: (it) => progress.update(MSG.iterating(iterationText(it))),
+      onProgress: (p) => progress.update(() => MSG.progress(p.group !== undefined ? `${p.fit} [${p.group}]` : p.fit, p.done, p.total)),
+      // a long single fit: its iterations (the line is only drawn on a terminal, throttled; its text made only then)
+      onIteration: (it) => progress.update(() => MSG.iterating(iterationText(it))),
     });
   } finally {
     progress.done();

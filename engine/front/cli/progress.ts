@@ -13,7 +13,8 @@ export interface ProgressOptions {
 }
 
 export interface ProgressLine {
-  update(text: string): void;
+  /** The line's text, or a function giving it (called only when the line is drawn: fits report every iteration). */
+  update(text: string | (() => string)): void;
   done(): void;
 }
 
@@ -31,7 +32,7 @@ export function progressLine(io: CliIo, opts: ProgressOptions = {}): ProgressLin
       if (t - start < delay || t - last < interval) return;
       last = t;
       shown = true;
-      io.stderr(`\r\x1b[2K${text}`);
+      io.stderr(`\r\x1b[2K${typeof text === 'function' ? text() : text}`);
     },
     done() {
       if (shown) io.stderr('\r\x1b[2K');

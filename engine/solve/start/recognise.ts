@@ -23,6 +23,7 @@ import { linearSet, SeparableSolver } from './separable';
 import type { StartInput } from './types';
 import { cleanPairs, type XY } from '../../templates/heuristics';
 import { expOffsetStart, expStart, gaussianStart, logistic4Start, michaelisMentenStart, powerStart, reciprocalExpStart } from '../../templates/families';
+import { workArray } from '../../linalg/work-array';
 
 type Values = Record<string, number>;
 
@@ -157,16 +158,31 @@ export interface Recognised {
   how: string;
 }
 
-/** The family a model has the structure of, with its bindings (null when none). */
+/**
+ * The family a model has the structure of, with its bindings (null when
+ * none). It depends on the expression alone, so it is remembered per
+ * expression object (a plan's model is not modified after checking): the
+ * groups of a per-group fit share one answer instead of matching the
+ * patterns again for each group. Callers only read the answer.
+ */
 export function recogniseShape(input: Pick<StartInput, 'structure'>): { shape: Shape; binding: Binding } | null {
   if (!input.structure) return null;
-  const form = canonicalForm(input.structure.expr);
+  const expr = input.structure.expr;
+  const known = recognised.get(expr);
+  if (known !== undefined) return known;
+  const form = canonicalForm(expr);
+  let found: { shape: Shape; binding: Binding } | null = null;
   for (const shape of SHAPES) {
     const binding = matchPattern(shape.pattern, form);
-    if (binding && binding.x) return { shape, binding };
+    if (binding && binding.x) {
+      found = { shape, binding };
+      break;
+    }
   }
-  return null;
+  recognised.set(expr, found);
+  return found;
 }
+const recognised = new WeakMap<object, { shape: Shape; binding: Binding } | null>();
 
 /**
  * Starting values for the parameters `unknown` from a recognised family
@@ -180,7 +196,7 @@ export function recogniseStart(input: StartInput, unknown: readonly number[]): R
   const { shape, binding } = found;
   const { cols, n, y, parameters } = input;
   const names = input.structure.columns;
-  const xs = new Float64Array(n);
+  const xs = workArray(n);
   for (let i = 0; i < n; i++) xs[i] = evaluate(binding.x!, (c) => cols[names.indexOf(c)]?.[i] ?? NaN);
   const d = cleanPairs(xs, y);
   if (d.x.length < 2) return null;

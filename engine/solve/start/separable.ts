@@ -17,6 +17,7 @@
  */
 import { PivotedQR } from '../../linalg/qr';
 import type { StartInput } from './types';
+import { workArray } from '../../linalg/work-array';
 
 /** Greedy linear set: q joins L (declaration order) when the model stays linear in L ∪ {q}. */
 export function linearSet(input: Pick<StartInput, 'isLinearIn' | 'parameters'>, among: readonly number[]): number[] {
@@ -44,12 +45,12 @@ export class SeparableSolver {
     const { n } = input;
     const p = input.parameters.length;
     this.q = linear.length;
-    this.f = new Float64Array(n);
-    this.jac = new Float64Array(n * p);
-    this.a = new Float64Array(Math.max(1, n * this.q));
-    this.b = new Float64Array(n);
+    this.f = workArray(n);
+    this.jac = workArray(n * p);
+    this.a = workArray(Math.max(1, n * this.q));
+    this.b = workArray(n);
     this.c = new Float64Array(this.q);
-    this.r = new Float64Array(n);
+    this.r = workArray(n);
     this.qr = new PivotedQR(n, Math.max(1, this.q));
   }
 

@@ -28,6 +28,28 @@ describe('cli/progress', () => {
     expect(io.err).toEqual(['\r\x1b[2Kone', '\r\x1b[2Ktwo', '\r\x1b[2K']);
   });
 
+  it('makes a text given as a function only when the line is drawn', () => {
+    let t = 0;
+    let made = 0;
+    const text = (s: string) => () => {
+      made++;
+      return s;
+    };
+    const io = { ...memoryIo('/', true), now: () => t };
+    const p = progressLine(io, { delayMs: 700, intervalMs: 150 });
+    p.update(text('early'));
+    t = 800;
+    p.update(text('one'));
+    t = 850;
+    p.update(text('too soon'));
+    p.done();
+    expect(io.err).toEqual(['\r\x1b[2Kone', '\r\x1b[2K']);
+    expect(made).toBe(1);
+    const quiet = progressLine(memoryIo('/', false), { delayMs: 0, intervalMs: 0 });
+    quiet.update(text('never'));
+    expect(made).toBe(1);
+  });
+
   it('words: finished fits counted from 1, and the iteration of a long fit', () => {
     expect(MSG.progress('kinetics [A01]', 1, 96)).toBe('fitted kinetics [A01] (1 of 96)');
     expect(MSG.progress('kinetics [H12]', 96, 96)).toBe('fitted kinetics [H12] (96 of 96)');
