@@ -354,7 +354,7 @@ export function chartsForKey(run: RunResult, key: string): PanelChart[] | null {
 function keyStats(f: FitResult): PanelFit['keyStats'] {
   const g = f.goodness;
   const counts: PanelFit['keyStats'] = [
-    { label: 'n', value: String(g.n), title: `points used${leftOutSentence(f) ? `; ${leftOutSentence(f)}` : ''}` },
+    { label: 'n', value: String(g.n), title: `rows fitted${leftOutSentence(f) ? ` (${leftOutSentence(f)})` : ''}` },
     ...(leftOutRows(f).total ? [{ label: 'left out', value: String(leftOutRows(f).total), title: leftOutSentence(f) ?? '' }] : []),
     { label: 'dof', value: String(g.dof), title: 'degrees of freedom' },
   ];
