@@ -145,7 +145,7 @@ function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
   if (boot) lines.push(mdText(boot + '.'), '');
   if (hasBootstrapTable(fit)) append(lines, markdownTable(BOOTSTRAP_HEADERS(fit.level), bootstrapRows(fit), [...BOOTSTRAP_ALIGN]), '');
   lines.push('### Goodness of fit', '');
-  append(lines, markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left']), '');
+  append(lines, markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left'], { mixed: true }), '');
   const flagged = flaggedPointRows(fit);
   const flaggedNote = flaggedPointsNote(fit);
   if (flagged.rows.length || flaggedNote) {
