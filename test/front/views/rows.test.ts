@@ -15,7 +15,7 @@ import { runText } from '../../../engine/front/views/text';
 import { markdownReport } from '../../../engine/front/views/markdown';
 import { accountOf, groupsAccount, leftOutClause, nSentence } from '../../../engine/front/views/rows';
 import { resultToJson } from '../../../engine/run/json';
-import { panelFit } from '../../../extension/logic/panel-model';
+import { buildPanelModel, panelFit } from '../../../extension/logic/panel-model';
 import { EXIT } from '../../../engine/front/cli/io';
 import { cleanTemp, cli, tempDir, validateResult } from '../cli/helpers';
 import { runSpec } from '../../run/helpers';
@@ -127,6 +127,9 @@ describe('engine/front/views/rows', () => {
     const whole = 'n = 14 fitted over 2 groups (of 17 rows: 1 removed by where, 1 with an empty or NA cell, 1 with weight 0)';
     expect(text).toContain(`  ${whole}`);
     expect(report).toContain(whole);
+    // and the panel's group table summary
+    const model = buildPanelModel(result, { specUri: 'file:///s.lsq', specName: 's.lsq' });
+    expect(model.groups.find((g) => g.fit === 'byplate')?.summary).toContain(whole);
   });
 
   it('the JSON written by the CLI validates against the schema and carries the counts', async () => {
