@@ -36,6 +36,13 @@
  *    sentence, `pClause`), others with `DIGITS.p` significant digits. The
  *    floor: below it the tail of a test statistic depends on the model's
  *    assumptions far more than on the digits (common practice).
+ * 6. A column of a table uses one notation (`columnNotation`): when any of its
+ *    numbers is in exponent notation by rule 2, every number of the column is
+ *    (`1.1280465e-3` beside `8.69597e-8`, not `0.0011280465`), each with the
+ *    significant digits it had; else all stay fixed, and the text views align
+ *    them on the decimal point (engine/front/views/table.ts, the panel's
+ *    extension/logic/panel-align.ts). Zeros, `n/a`, `< 0.0001` and text are
+ *    left as they are.
  */
 
 export const MISSING = 'n/a';
@@ -88,7 +95,8 @@ export function formatNumber(v: number | null | undefined, sig: number = DIGITS.
   const s = clampSig(sig);
   if (useExponent(v)) return v.toExponential(s - 1).replace(/\.?0+e/, 'e');
   const fixed = v.toPrecision(s);
-  if (fixed.includes('e')) return fixed;
+  // below 1e6 toPrecision still writes an exponent when the digits end before the units (100 to 2 digits: `1.0e+2`): rule 2 says fixed
+  if (fixed.includes('e')) return String(Number(fixed));
   return fixed.includes('.') ? fixed.replace(/\.?0+$/, '') : fixed;
 }
 
@@ -239,3 +247,40 @@ export const CHART_FORMAT = {
   /** Histogram bin edges (in standard deviations). */
   binEdge: '.2f',
 } as const;
+
+/** A cell in fixed notation (`-12.5`, `0.0011`, `1536`). */
+const FIXED_CELL = /^[-−+]?\d+(\.\d+)?$/;
+/** A cell in exponent notation (`8.69597e-8`, `-2.5e+6`). */
+const EXPONENT_CELL = /^[-−+]?\d+(\.\d+)?e[-+]?\d+$/;
+
+/** Significant digits printed in a fixed-notation cell: leading zeros do not count, trailing ones after a point do. */
+function printedDigits(cell: string): number {
+  const t = cell.replace(/^[-−+]/, '');
+  const digits = t.includes('.') ? t.replace('.', '').replace(/^0+/, '') : t.replace(/^0+/, '').replace(/0+$/, '');
+  return Math.max(1, digits.length);
+}
+
+/** A fixed-notation cell in exponent notation with the same significant digits (`0.0011280465` → `1.1280465e-3`). */
+function toExponentCell(cell: string): string {
+  const minus = /^[-−]/.test(cell);
+  const v = Number(cell.replace(/^[−+]/, (c) => (c === '−' ? '-' : '')));
+  if (!Number.isFinite(v) || v === 0) return cell;
+  const e = Math.abs(v).toExponential(clampSig(printedDigits(cell)) - 1);
+  return `${minus ? (cell[0] === '−' ? '−' : '-') : ''}${e}`;
+}
+
+/**
+ * One notation for a table column (rule 6): the cells unchanged when none is in exponent notation, else every
+ * non-zero fixed-notation number rewritten in exponent notation with its own significant digits. Cells that are
+ * not numbers (`n/a`, `< 0.0001`, `fixed`, empty) are left as they are.
+ */
+export function columnNotation(cells: readonly string[]): string[] {
+  const trimmed = cells.map((c) => c.trim());
+  if (!trimmed.some((c) => EXPONENT_CELL.test(c))) return [...cells];
+  return trimmed.map((c, i) => (FIXED_CELL.test(c) ? toExponentCell(c) : cells[i]));
+}
+
+/** Whether a cell is a number in fixed notation (rule 6: the cells the text views align on the decimal point). */
+export function isFixedCell(cell: string): boolean {
+  return FIXED_CELL.test(cell.trim());
+}

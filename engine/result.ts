@@ -388,6 +388,32 @@ export interface ExcludedPoints {
   y: number[];
 }
 
+/**
+ * Why a data row is not among a fit's points (engine/run/fit-data.ts). Each row is counted once, by the first
+ * that applies in this order: a used cell empty or NA (`missing_cell`), the group label empty (`no_group`, per-group
+ * fits), the data statement's `where` condition false (`where`), a weight of 0 (`weight_zero`).
+ */
+export type RowLeftOutReason = 'where' | 'missing_cell' | 'no_group' | 'weight_zero';
+
+/** The reasons in the order every view states them. */
+export const ROW_LEFT_OUT_REASONS: readonly RowLeftOutReason[] = ['where', 'missing_cell', 'no_group', 'weight_zero'];
+
+/** Rows left out for one reason. */
+export interface RowsLeftOut {
+  reason: RowLeftOutReason;
+  count: number;
+}
+
+/** How the data rows came to a fit's n: rows = fitted + the counts left out. */
+export interface RowAccount {
+  /** Data rows of the file; for one group of a per-group fit, the rows with its label. */
+  rows: number;
+  /** Rows fitted (the fit's n). */
+  fitted: number;
+  /** One entry per reason with rows left out (count > 0), in `ROW_LEFT_OUT_REASONS` order. */
+  leftOut: RowsLeftOut[];
+}
+
 /** Bands over the predictor range (delta method), for single-predictor fits. */
 export interface Bands {
   x: number[];
@@ -552,6 +578,10 @@ export interface FitResult {
    * `weight_zero`: the weight expression is 0 there.
    */
   excluded?: ExcludedPoints;
+  /** How the file's rows came to n, with a count per reason left out (additive, optional: absent in results written before it existed). */
+  rowAccount?: RowAccount;
+  /** Per-group fits: the same account over the whole fit, every group together (additive, optional; absent for a single fit). */
+  fitRowAccount?: RowAccount;
   warnings: FitWarning[];
   /**
    * Per-group fits: residual warnings the test across the fit's groups did not uphold (Holm 1979;

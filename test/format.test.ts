@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  CHART_FORMAT, DIGITS, formatAtDigit, formatBounds, formatWritten, formatEstimate, formatInterval, formatLevel, formatNumber, formatP, formatPercent,
+  CHART_FORMAT, columnNotation, DIGITS, formatAtDigit, formatBounds, formatWritten, formatEstimate, formatInterval, formatLevel, formatNumber, formatP, formatPercent,
   formatPlusMinus, MISSING, P_FLOOR, pClause, uncertaintyExponent, UNCERTAINTY_DIGITS,
 } from '../engine/format';
 
@@ -176,5 +176,34 @@ describe('one formatter in the tree', () => {
     };
     for (const top of ['parser', 'engine', 'extension']) walk(top);
     expect(offenders).toEqual([]);
+  });
+});
+
+describe('engine/format columnNotation (rule 6: one notation per table column)', () => {
+  it('rewrites a mixed column in exponent notation, each cell with the significant digits it had', () => {
+    // the column: 0.0011280465 printed beside 8.69597e-8
+    expect(columnNotation(['0.0011280465', '8.69597e-8'])).toEqual(['1.1280465e-3', '8.69597e-8']);
+    // trailing zeros after a point are printed digits and stay; negative values keep their sign
+    expect(columnNotation(['0.10', '-2.5e+6', '-0.0300', '12'])).toEqual(['1.0e-1', '-2.5e+6', '-3.00e-2', '1.2e+1']);
+    // the digits are the same digits: the rewritten cell reads back as the same number
+    for (const c of columnNotation(['0.0011280465', '1234.5', '3.2e-9'])) expect(Number.isFinite(Number(c))).toBe(true);
+    expect(Number(columnNotation(['0.0011280465', '1e-9'])[0])).toBe(0.0011280465);
+  });
+
+  it('leaves zeros, n/a, the p floor and text as they are, in a mixed column and in a fixed one', () => {
+    expect(columnNotation(['0', MISSING, '< 0.0001', 'fixed', '', '0.5', '3e-7'])).toEqual(['0', MISSING, '< 0.0001', 'fixed', '', '5e-1', '3e-7']);
+    const fixed = ['0', MISSING, '0.9747', '0.400749', '-12', '< 0.0001'];
+    expect(columnNotation(fixed)).toEqual(fixed);
+  });
+
+  it('a column of NaN and n/a cells only, or an empty column, is unchanged', () => {
+    expect(columnNotation([formatNumber(NaN), formatNumber(null)])).toEqual([MISSING, MISSING]);
+    expect(columnNotation([])).toEqual([]);
+  });
+
+  it('below 1e6 a number is fixed even when its digits end before the units (rule 2)', () => {
+    expect(formatNumber(100.4, 2)).toBe('100');
+    expect(formatNumber(-123456, 2)).toBe('-120000');
+    expect(formatNumber(2.5e6, 2)).toBe('2.5e+6');
   });
 });

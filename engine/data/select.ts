@@ -38,6 +38,8 @@ export interface Selection {
   droppedLines: Int32Array;
   /** Rows left out by the filter (not counted as dropped). */
   filteredOut: number;
+  /** With `label`: the label of each row the filter left out (`filteredOut` of them), else null. */
+  filteredLabels: string[] | null;
   /** With `label`: the label of each dropped row ('' when the label itself is missing), else null. */
   droppedLabels: string[] | null;
   /** The first row dropped for a missing value: its table row index and the first used column (header order) missing there. */
@@ -98,6 +100,7 @@ export function selectRows(table: DataTable, request: SelectRequest): SelectResu
   let keepIdx = indicesOf(present, nPresent);
 
   let filteredOut = 0;
+  let filteredLabels: string[] | null = labelCol ? [] : null;
   if (request.filter && nPresent > 0) {
     const mask = new Float64Array(nPresent);
     request.filter(columns, nPresent, mask);
@@ -108,6 +111,7 @@ export function selectRows(table: DataTable, request: SelectRequest): SelectResu
       nKeep += keep[i];
     }
     filteredOut = nPresent - nKeep;
+    if (labelCol) filteredLabels = keepIdx.filter((_, i) => keep[i] === 0).map((i) => labelOf(labelCol, i));
     columns = columns.map((c) => compact(c, keep, nKeep));
     keepIdx = keepIdx.filter((_, i) => keep[i] === 1);
   }
@@ -116,7 +120,7 @@ export function selectRows(table: DataTable, request: SelectRequest): SelectResu
   const lines = new Int32Array(n);
   for (let i = 0; i < n; i++) lines[i] = table.lines[keepIdx[i]];
   const labels = labelCol ? keepIdx.map((i) => labelOf(labelCol, i)) : null;
-  return { ok: true, selection: { columns, n, lines, labels, dropped, droppedLines, filteredOut, droppedLabels, firstDropped } };
+  return { ok: true, selection: { columns, n, lines, labels, dropped, droppedLines, filteredOut, filteredLabels, droppedLabels, firstDropped } };
 }
 
 function findColumn(table: DataTable, name: string, file: string, errors: DataError[]): DataColumn | undefined {

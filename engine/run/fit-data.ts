@@ -6,7 +6,7 @@
 import type { DataSource, Expr, FitPlan, Range } from '../../parser/plan';
 import { cellLine, selectRows, type DataError, type DataTable } from '../data';
 import { dataText, errorText } from '../messages';
-import type { RunError } from '../result';
+import { ROW_LEFT_OUT_REASONS, type RowAccount, type RowLeftOutReason, type RunError } from '../result';
 import { columnsOf } from '../../parser/plan-expr';
 import { matchTextValues } from './text-match';
 
@@ -40,6 +40,19 @@ export interface FitData {
   rowsWithoutGroup: number;
   /** Rows left out of the fit by a weight of 0 (absent when none): not in n, dof or any statistic, still drawn. */
   excluded?: ExcludedRows;
+  /** How the file's rows came to n, per reason left out (result.ts `RowAccount`; for a group, its own rows). */
+  rowAccount?: RowAccount;
+  /** Per-group fits: the account of the whole fit, every group together. */
+  fitRowAccount?: RowAccount;
+}
+
+/**
+ * The account of `fitted` rows and the rows left out by reason (zero counts omitted, `ROW_LEFT_OUT_REASONS`
+ * order). The one place the reasons are counted; every view states them from the result (engine/front/views/rows.ts).
+ */
+export function rowAccount(fitted: number, counts: Partial<Record<RowLeftOutReason, number>>): RowAccount {
+  const leftOut = ROW_LEFT_OUT_REASONS.filter((r) => (counts[r] ?? 0) > 0).map((reason) => ({ reason, count: counts[reason]! }));
+  return { rows: fitted + leftOut.reduce((a, l) => a + l.count, 0), fitted, leftOut };
 }
 
 /** Rows a weight of 0 leaves out of a fit: their file lines and values, for tables and charts. */
@@ -202,9 +215,11 @@ export function prepareFitData(fit: FitPlan, source: DataSource, fileTable: Data
       const excluded = base.excluded?.lines.length ?? 0;
       return fail([{ code: 'too_few_rows', message: dataText.tooFewRows(fit.name, source.path, base.n, p, { dropped: s.dropped, filtered: s.filteredOut, excluded }), file: source.path, range: fit.range, fit: fit.name }]);
     }
-    return { ok: true, data: [base] };
+    return { ok: true, data: [{ ...base, rowAccount: rowAccount(base.n, { missing_cell: s.dropped, where: s.filteredOut, weight_zero: base.excluded?.lines.length ?? 0 }) }] };
   }
-  return { ok: true, data: splitGroups(base, labels, s.droppedLabels ?? [], excludedLabels ?? []) };
+  const withoutGroup = (s.droppedLabels ?? []).filter((l) => l === '').length;
+  const whole = rowAccount(base.n, { missing_cell: s.dropped - withoutGroup, no_group: withoutGroup, where: s.filteredOut, weight_zero: base.excluded?.lines.length ?? 0 });
+  return { ok: true, data: splitGroups(base, labels, s.droppedLabels ?? [], excludedLabels ?? [], s.filteredLabels ?? []).map((d) => ({ ...d, fitRowAccount: whole })) };
 }
 
 /**
@@ -260,7 +275,7 @@ export function sortGroupLabels(labels: Iterable<string>): string[] {
   return numeric ? distinct.sort((a, b) => Number(a) - Number(b) || (a < b ? -1 : a > b ? 1 : 0)) : distinct.sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
 }
 
-function splitGroups(base: FitData, labels: string[], droppedLabels: string[], excludedLabels: string[]): FitData[] {
+function splitGroups(base: FitData, labels: string[], droppedLabels: string[], excludedLabels: string[], filteredLabels: string[]): FitData[] {
   // One pass buckets row indices by label (O(rows)), instead of one scan of all rows per group.
   const bucketsOf = (list: string[]) => {
     const map = new Map<string, number[]>();
@@ -275,6 +290,8 @@ function splitGroups(base: FitData, labels: string[], droppedLabels: string[], e
   const excludedOf = bucketsOf(excludedLabels);
   const droppedOf = new Map<string, number>();
   for (const l of droppedLabels) droppedOf.set(l, (droppedOf.get(l) ?? 0) + 1);
+  const filteredOf = new Map<string, number>();
+  for (const l of filteredLabels) filteredOf.set(l, (filteredOf.get(l) ?? 0) + 1);
   // the dropped rows' file lines by group (droppedLabels and base.droppedLines are both in file order)
   const droppedLinesOf = new Map<string, number[]>();
   droppedLabels.forEach((l, k) => {
@@ -307,6 +324,7 @@ function splitGroups(base: FitData, labels: string[], droppedLabels: string[], e
       droppedLines: Int32Array.from(droppedLinesOf.get(group) ?? []),
       rowsWithoutGroup: withoutGroup,
       ...(excluded ? { excluded } : {}),
+      rowAccount: rowAccount(idx.length, { missing_cell: droppedOf.get(group) ?? 0, where: filteredOf.get(group) ?? 0, weight_zero: ex?.length ?? 0 }),
     };
   });
 }

@@ -79,11 +79,15 @@ export function failedFit(fit: FitPlan, data: FitData | null, stop: StopReason, 
   };
 }
 
-/** The result's `excluded` field for rows left out by a weight of 0 (nothing when there are none). */
-export function excludedFields(data: FitData): Pick<FitResult, 'excluded'> {
+/**
+ * The result's `excluded` field for rows left out by a weight of 0 (nothing when there are none), and the
+ * account of the rows left out by reason (`rowAccount`, `fitRowAccount` for a per-group fit).
+ */
+export function excludedFields(data: FitData): Pick<FitResult, 'excluded' | 'rowAccount' | 'fitRowAccount'> {
   const e = data.excluded;
-  if (!e || e.lines.length === 0) return {};
-  return { excluded: { reason: 'weight_zero', row: toNumberArray(e.lines), x: e.x ? toNumberArray(e.x) : null, y: toNumberArray(e.y) } };
+  const accounts = { ...(data.rowAccount ? { rowAccount: data.rowAccount } : {}), ...(data.fitRowAccount ? { fitRowAccount: data.fitRowAccount } : {}) };
+  if (!e || e.lines.length === 0) return accounts;
+  return { excluded: { reason: 'weight_zero', row: toNumberArray(e.lines), x: e.x ? toNumberArray(e.x) : null, y: toNumberArray(e.y) }, ...accounts };
 }
 
 /** Full P×P matrix in plan parameter order from a free-parameter p×p flat matrix; fixed rows/columns get `fill`. */

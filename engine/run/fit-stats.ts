@@ -70,7 +70,7 @@ export interface FitStatisticsInput {
 
 type StatFields = Pick<
   FitResult,
-  'parameters' | 'covariance' | 'correlation' | 'goodness' | 'residuals' | 'points' | 'bands' | 'predictor' | 'response' | 'sigmaAbsolute' | 'rowsDropped' | 'excluded' | 'influence'
+  'parameters' | 'covariance' | 'correlation' | 'goodness' | 'residuals' | 'points' | 'bands' | 'predictor' | 'response' | 'sigmaAbsolute' | 'rowsDropped' | 'excluded' | 'rowAccount' | 'fitRowAccount' | 'influence'
 >;
 
 export function fitStatistics(input: FitStatisticsInput): { fields: StatFields; warnings: FitWarning[] } {

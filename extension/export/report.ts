@@ -80,7 +80,7 @@ async function exportSvg(ctx: LwContext, specUri: vscode.Uri, run: RunResult, di
   const picked = await vscode.window.showOpenDialog({ canSelectFiles: false, canSelectFolders: true, defaultUri: dir, openLabel: 'Write SVG charts here', title: 'Folder for the SVG charts' });
   const folder = picked?.[0];
   if (!folder) return [];
-  const charts = run.fits.flatMap((f) => chartSpecs(f).map((c) => ({ file: chartFileName(f, c.id), spec: c.spec as unknown as Record<string, unknown> })));
+  const charts = run.fits.flatMap((f) => chartSpecs(f).map((c) => ({ file: chartFileName(f, c.id), spec: c.spec as unknown as Record<string, unknown>, title: c.title })));
   const existing: string[] = [];
   for (const c of charts) {
     try {

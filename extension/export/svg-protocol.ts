@@ -2,7 +2,8 @@
 
 export interface SvgRequest {
   id: number;
-  charts: { file: string; spec: Record<string, unknown> }[];
+  /** `title`: the chart's full title, kept as the SVG's <title> (optional). */
+  charts: { file: string; spec: Record<string, unknown>; title?: string }[];
 }
 
 export interface SvgResponse {

@@ -15,7 +15,7 @@ parentPort?.on('message', async (msg: unknown) => {
   const files: SvgResponse['files'] = [];
   for (const c of msg.charts) {
     try {
-      files.push({ file: c.file, svg: await renderSvg(c.spec as unknown as TopLevelSpec) });
+      files.push({ file: c.file, svg: await renderSvg(c.spec as unknown as TopLevelSpec, c.title) });
     } catch (e) {
       files.push({ file: c.file, error: e instanceof Error ? e.message : String(e) });
     }

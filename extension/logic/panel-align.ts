@@ -9,8 +9,27 @@
  * a plain decimal number (`n/a`, `< 0.0001`, exponent notation, text) gets
  * none.
  *
+ * Before alignment each numeric column takes one notation
+ * (`panelNumberColumns`, engine/format.ts rule 6, as the CLI's tables do):
+ * when one cell is in exponent notation, all are.
+ *
  * Pure: strings in, numbers out.
  */
+import { columnNotation } from '../../engine/format';
+
+/** The rows with each numeric column (not the first, the row labels) in one notation (engine/format.ts `columnNotation`). */
+export function panelNumberColumns(rows: readonly (readonly string[])[], numeric: (col: number) => boolean): string[][] {
+  const out = rows.map((r) => [...r]);
+  const cols = Math.max(0, ...rows.map((r) => r.length));
+  for (let j = 1; j < cols; j++) {
+    if (!numeric(j)) continue;
+    const fixed = columnNotation(rows.map((r) => r[j] ?? ''));
+    out.forEach((r, i) => {
+      if (j < r.length) r[j] = fixed[i];
+    });
+  }
+  return out;
+}
 
 const PLAIN = /^[-−+]?\d[\d,]*(\.\d+)?$/;
 

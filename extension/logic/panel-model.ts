@@ -22,6 +22,7 @@ import { buildGroupTable, worstGroups } from '../../engine/groups/table';
 import { sharedParameters } from '../../engine/front/views/across';
 import type { GroupFlag } from '../../engine/groups/flags';
 import { groupCountLine, groupRowCells, groupSummarySentences, groupTableHeaders } from '../../engine/front/views/groups';
+import { groupsNSentence } from '../../engine/front/views/rows';
 import { DIGITS, formatLevel, formatNumber } from '../../engine/format';
 import { isHighCorrelation } from '../../engine/thresholds';
 import { flaggedPointRows, flaggedPointsNote } from '../../engine/front/views/influence';
@@ -191,7 +192,8 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
         flags: r.flags,
         message: r.message,
       })),
-      summary: [groupCountLine(table), ...groupSummarySentences(table)],
+      // the rows of the whole fit, as the CLI's line under the per-group heading (engine/front/views/rows.ts)
+      summary: [groupCountLine(table), groupsNSentence(fits), ...groupSummarySentences(table)],
       flagSummary: flagSummary(table.rows),
       charts: groupParameterCharts(fits, table, sharedParameters(run, name)),
     });
@@ -354,7 +356,7 @@ export function chartsForKey(run: RunResult, key: string): PanelChart[] | null {
 function keyStats(f: FitResult): PanelFit['keyStats'] {
   const g = f.goodness;
   const counts: PanelFit['keyStats'] = [
-    { label: 'n', value: String(g.n), title: `points used${leftOutSentence(f) ? `; ${leftOutSentence(f)}` : ''}` },
+    { label: 'n', value: String(g.n), title: `rows fitted${leftOutSentence(f) ? ` (${leftOutSentence(f)})` : ''}` },
     ...(leftOutRows(f).total ? [{ label: 'left out', value: String(leftOutRows(f).total), title: leftOutSentence(f) ?? '' }] : []),
     { label: 'dof', value: String(g.dof), title: 'degrees of freedom' },
   ];

@@ -1,15 +1,16 @@
 /**
- * What the panel says about the rows a fit did not use, next to n: rows with
- * weight 0 (drawn, not fitted: result.ts `excluded`) and rows dropped for an
- * empty or NA cell (`rowsDropped`, their file lines in the `rows_dropped`
- * warning), e.g. "n = 28 · 3 rows left out: 2 with weight 0 (lines 10, 22),
- * 1 with an empty or NA cell (line 27)". Rows a data statement's `where`
- * removes belong to the data set, not to the fit, and are not counted here.
+ * What the panel says about the rows a fit did not use, next to n: the
+ * engine's account and wording (result.ts `rowAccount`, engine/front/views/rows.ts:
+ * rows removed by `where`, with an empty or NA cell, without a group label,
+ * with weight 0), with the file lines of rows with weight 0 (drawn hollow:
+ * result.ts `excluded`) and of rows dropped for an empty cell (the
+ * `rows_dropped` warning), e.g. "n = 28 fitted (of 31 rows: 1 with an empty
+ * or NA cell (line 27), 2 with weight 0 (lines 10, 22), drawn hollow)".
  *
  * Pure: no vscode, no DOM.
  */
 import type { FitResult } from '../../engine/result';
-import { formatInteger } from '../../engine/format';
+import { accountOf, leftOutClause, leftOutTotal, nSentence, type ReasonDetail } from '../../engine/front/views/rows';
 
 /** File lines named before "…". */
 const LINES_NAMED = 8;
@@ -27,7 +28,7 @@ export function leftOutRows(f: FitResult): LeftOut {
   const zero = new Set(weightZero);
   const lines = [...new Set(f.warnings.filter((w) => w.code === 'rows_dropped').flatMap((w) => w.rows ?? []))].filter((r) => !zero.has(r)).sort((a, b) => a - b);
   const count = f.rowsDropped;
-  return { total: weightZero.length + count, weightZero, emptyCells: { count, lines: lines.length === count ? lines : [] } };
+  return { total: leftOutTotal(accountOf(f)), weightZero, emptyCells: { count, lines: lines.length === count ? lines : [] } };
 }
 
 function lineList(lines: readonly number[]): string {
@@ -36,18 +37,21 @@ function lineList(lines: readonly number[]): string {
   return ` (line${lines.length === 1 ? '' : 's'} ${shown})`;
 }
 
-/** "3 rows left out: 2 with weight 0 (lines 10, 22), 1 with an empty or NA cell (line 27)", or null when none. */
+/**
+ * The rows left out as the engine words them (engine/front/views/rows.ts `leftOutClause`), with the file lines
+ * of rows with weight 0 and empty cells: "of 31 rows: 1 with an empty or NA cell (line 27), 2 with weight 0
+ * (lines 10, 22), drawn hollow", or null when none.
+ */
 export function leftOutSentence(f: FitResult): string | null {
-  const l = leftOutRows(f);
-  if (l.total === 0) return null;
-  const parts: string[] = [];
-  if (l.weightZero.length) parts.push(`${formatInteger(l.weightZero.length)} with weight 0${lineList(l.weightZero)}, drawn hollow`);
-  if (l.emptyCells.count) parts.push(`${formatInteger(l.emptyCells.count)} with an empty or NA cell${lineList(l.emptyCells.lines)}`);
-  return `${formatInteger(l.total)} row${l.total === 1 ? '' : 's'} left out: ${parts.join('; ')}`;
+  return leftOutClause(accountOf(f), reasonDetail(f));
 }
 
-/** The header line: "n = 28 · 3 rows left out: …" (n alone when nothing was left out). */
+function reasonDetail(f: FitResult): ReasonDetail {
+  const l = leftOutRows(f);
+  return { missing_cell: lineList(l.emptyCells.lines), weight_zero: `${lineList(l.weightZero)}, drawn hollow` };
+}
+
+/** The header line, the CLI's n sentence with the lines: "n = 28 fitted (of 31 rows: …)". */
 export function rowsLine(f: FitResult): string {
-  const s = leftOutSentence(f);
-  return `n = ${formatInteger(f.goodness.n)}${s ? `, ${s}` : ''}`;
+  return nSentence(accountOf(f), reasonDetail(f));
 }

@@ -66,7 +66,7 @@ export async function stageCharts(stage: OutputStage, result: RunResult, planned
     for (const c of charts) {
       const spec = specs.find((s) => s.id === c.id);
       if (!spec) continue;
-      stage.file(c.path, await renderSvg(spec.spec));
+      stage.file(c.path, await renderSvg(spec.spec, spec.title));
       out.push({ fitIndex, title: spec.title, path: c.path });
     }
   }
@@ -76,7 +76,7 @@ export async function stageCharts(stage: OutputStage, result: RunResult, planned
     for (const c of acrossPlanned) {
       const spec = specs.get(c.across as string)?.find((s) => s.id === c.id);
       if (!spec) continue;
-      stage.file(c.path, await renderSvg(spec.spec));
+      stage.file(c.path, await renderSvg(spec.spec, spec.title));
       out.push({ fitIndex: -1, across: c.across, title: spec.title, path: c.path });
     }
   }

@@ -59,7 +59,7 @@ export interface ChartSpec {
   spec: TopLevelSpec;
 }
 
-import { HEADLESS_CHAR_PX, wrapSubtitle } from './wrap';
+import { HEADLESS_CHAR_PX, wrapSubtitle, wrapTitle } from './wrap';
 
 const SCHEMA = 'https://vega.github.io/schema/vega-lite/v6.json';
 const NUM = CHART_FORMAT.value;
@@ -86,7 +86,10 @@ export const axisTitle = (text: string): Json => ({ title: chartLabel(text) });
 
 /** A top-level spec: title (user text as a label), subtitle lines, size, config and body. */
 export function top(pal: Palette, title: string, subtitle: string[], width: number, height: number, body: Json): TopLevelSpec {
-  const t: Json = { text: chartLabel(title) };
+  // the title (anchored at the plot's left edge) wrapped to the plot's width, a long fit name cut with an ellipsis, so the plot sets the
+  // chart's width; the full title stays in the chart's `title`, which the SVG carries as its <title> (svg.ts)
+  const wrapped = wrapTitle(title, width);
+  const t: Json = { text: wrapped.lines.length === 1 ? chartLabel(wrapped.lines[0]) : wrapped.lines.map(chartLabel) };
   // wrapped to the plot and its y axis (about 50 px) as the headless renderer measures text, so a long line
   // does not widen the chart (wrap.ts); the panel wraps again for its own width and fonts
   if (subtitle.length) t.subtitle = wrapSubtitle(subtitle, width + 50, HEADLESS_CHAR_PX);

@@ -12,6 +12,7 @@
  * `<script>`, `a|b`, `[x](y)` or a backtick show as written and change
  * neither the document's structure nor its HTML.
  */
+import { groupsNSentence } from './rows';
 import { jointBlocks } from './joint';
 import type { FitResult, RunResult } from '../../result';
 import { DIGITS, formatLevel, formatNumber } from '../../format';
@@ -111,7 +112,7 @@ export function plateNote(labels: readonly string[]): string | null {
 
 function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: number, charts?: readonly ChartLink[]): string[] {
   const t = section.table;
-  const lines = [`## ${mdText(groupHeading(section))}`, '', mdText(groupCountLine(t)), ''];
+  const lines = [`## ${mdText(groupHeading(section))}`, '', mdText(groupCountLine(t)), '', mdText(groupsNSentence(section.fits)), ''];
   const table = groupTableBlock(t);
   append(lines, markdownTable(table.headers, table.rows, table.align), '');
   const summary = groupSummaryBlock(t);
@@ -144,7 +145,7 @@ function fitSection(fit: FitResult, charts: ChartLink[]): string[] {
   if (boot) lines.push(mdText(boot + '.'), '');
   if (hasBootstrapTable(fit)) append(lines, markdownTable(BOOTSTRAP_HEADERS(fit.level), bootstrapRows(fit), [...BOOTSTRAP_ALIGN]), '');
   lines.push('### Goodness of fit', '');
-  append(lines, markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left']), '');
+  append(lines, markdownTable(['quantity', 'value', 'note'], goodnessEntries(fit).map((e) => [e.label, e.value, e.note ?? '']), ['left', 'right', 'left'], { mixed: true }), '');
   const flagged = flaggedPointRows(fit);
   const flaggedNote = flaggedPointsNote(fit);
   if (flagged.rows.length || flaggedNote) {

@@ -14,6 +14,7 @@ import { comparisonBlock } from './comparison';
 import { fitQueryBlock } from './queries';
 import { residualUnit, squaredUnit } from './units';
 import { durbinWatsonHint, influenceEntries, runsHint } from './influence';
+import { accountOf, leftOutClause } from './rows';
 
 /** How the views name the solver and the loss of a fit (labels from parser/registry). */
 export const METHOD_LABEL: Readonly<Record<FitResult['method'], string>> = {
@@ -142,7 +143,7 @@ export function goodnessEntries(fit: FitResult): Entry[] {
   const status = fitStatus(fit);
   if (status !== 'fitted') {
     const out: Entry[] = [
-      { label: 'points (n)', value: formatInteger(g.n), note: fit.rowsDropped > 0 ? `${fit.rowsDropped} rows dropped` : undefined },
+      { label: 'points (n)', value: formatInteger(g.n), note: leftOutClause(accountOf(fit)) ?? undefined },
       { label: 'free parameters (p)', value: formatInteger(g.p) },
       { label: 'degrees of freedom', value: formatInteger(g.dof) },
     ];
@@ -151,7 +152,7 @@ export function goodnessEntries(fit: FitResult): Entry[] {
     return out;
   }
   const e: Entry[] = [
-    { label: 'points (n)', value: formatInteger(g.n), note: fit.rowsDropped > 0 ? `${fit.rowsDropped} rows dropped` : undefined },
+    { label: 'points (n)', value: formatInteger(g.n), note: leftOutClause(accountOf(fit)) ?? undefined },
     { label: 'free parameters (p)', value: formatInteger(g.p) },
     { label: 'degrees of freedom', value: formatInteger(g.dof) },
     unitEntry({ label: 'sum of squared residuals (SSR)', value: formatNumber(g.ssr), note: weightedNote(fit, 'ssr') }, squaredUnit(residualUnit(fit, weightingOf(fit).kind))),

@@ -11,6 +11,7 @@ import type { GroupChartOptions } from './group-charts';
 import { chartSpecs, type ChartId, type ChartOptions } from './charts';
 export { chartFileName } from './charts';
 import { loadVega } from './vega-runtime';
+import { svgWithTitle } from './wrap';
 
 /**
  * A copy of `spec` without tooltips: a static SVG shows none, and Vega-Lite
@@ -31,14 +32,18 @@ export function withoutTooltips<T>(spec: T): T {
   return walk(spec) as T;
 }
 
-/** Render one Vega-Lite spec to an SVG document string (tooltips left out, see `withoutTooltips`). */
-export async function renderSvg(spec: TopLevelSpec): Promise<string> {
+/**
+ * Render one Vega-Lite spec to an SVG document string (tooltips left out, see `withoutTooltips`); `title`, the
+ * chart's full title, becomes the SVG's <title> (the drawn title may be cut to the plot's width: wrap.ts `wrapTitle`).
+ */
+export async function renderSvg(spec: TopLevelSpec, title?: string): Promise<string> {
   const { vega, vegaLite } = await loadVega();
   const compiled = vegaLite.compile(withoutTooltips(spec)).spec;
   const view = new vega.View(vega.parse(compiled), { renderer: 'none', logLevel: vega.Error });
   try {
     const svg = await view.toSVG();
-    return svg.startsWith('<?xml') ? svg : `<?xml version="1.0" encoding="UTF-8"?>\n${svg}\n`;
+    const titled = title === undefined ? svg : svgWithTitle(svg, title);
+    return titled.startsWith('<?xml') ? titled : `<?xml version="1.0" encoding="UTF-8"?>\n${titled}\n`;
   } finally {
     view.finalize();
   }
@@ -53,7 +58,7 @@ export interface RenderedChart {
 /** Every chart of a fit as SVG, in chartSpecs order. */
 export async function chartSvgs(fit: FitResult, opts?: ChartOptions): Promise<RenderedChart[]> {
   const out: RenderedChart[] = [];
-  for (const c of chartSpecs(fit, opts)) out.push({ id: c.id, title: c.title, svg: await renderSvg(c.spec) });
+  for (const c of chartSpecs(fit, opts)) out.push({ id: c.id, title: c.title, svg: await renderSvg(c.spec, c.title) });
   return out;
 }
 
@@ -62,7 +67,7 @@ export async function acrossChartSvgs(result: RunResult, opts?: GroupChartOption
   const out: { key: string; charts: RenderedAcrossChart[] }[] = [];
   for (const a of acrossCharts(result, opts)) {
     const charts: RenderedAcrossChart[] = [];
-    for (const c of a.charts) charts.push({ id: c.id, title: c.title, svg: await renderSvg(c.spec) });
+    for (const c of a.charts) charts.push({ id: c.id, title: c.title, svg: await renderSvg(c.spec, c.title) });
     out.push({ key: a.key, charts });
   }
   return out;

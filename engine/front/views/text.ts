@@ -6,6 +6,7 @@
  * tables, derived quantities and expectation verdicts. Digits follow format.ts.
  */
 import type { FitResult, RunResult } from '../../result';
+import { groupsNSentence } from './rows';
 import {
   derivedBlock, expectationRows, expectationTally, fitHeading, goodnessEntries, modelLine, notFittedNote, PARAMETER_HEADERS,
   parameterRows, queryBlocks, robustLine, searchLine, stopLine, TRACE_HEADERS, traceHeading, traceRows, warningLines,
@@ -109,7 +110,7 @@ export function expectationTextLines(result: RunResult): string[] {
 /** A per-group fit: heading, group table, counts, summary across groups, worst groups, and which groups follow in full. */
 export function groupTextLines(section: Extract<FitSection, { kind: 'groups' }>, shown: readonly number[]): string[] {
   const t = section.table;
-  const lines = [groupHeading(section), `  ${groupCountLine(t)}`, ''];
+  const lines = [groupHeading(section), `  ${groupCountLine(t)}`, `  ${groupsNSentence(section.fits)}`, ''];
   const table = groupTableBlock(t);
   append(lines, textTable(table.headers, table.rows, table.align));
   const summary = groupSummaryBlock(t);

@@ -12,7 +12,8 @@ import { expressionInterpreter } from 'vega-interpreter';
 import type { PanelChart } from '../../logic/panel-model';
 import { h } from './dom';
 import { chartImageName } from '../../logic/panel-copy';
-import { wrapSubtitle } from '../../../engine/front/views/wrap';
+import { TITLE_CHAR_PX, wrapSubtitle, wrapTitle } from '../../../engine/front/views/wrap';
+import { chartLabel } from '../../../engine/front/views/escape';
 import { themed, themeFont, themePalette } from './theme';
 import { deferredTooltipHandler, deferTooltips } from './tooltips';
 
@@ -39,6 +40,7 @@ export function chartFigure(chart: PanelChart, maxWidth: number, events: ChartEv
   const target = h('div', { class: 'lw-chart-canvas' });
   const el = h('figure', { class: 'lw-chart', data: { chartId: chart.id }, attrs: { 'aria-label': chart.title } }, target);
   const spec = themed(chart.spec, themePalette(), themeFont()) as Record<string, unknown>;
+  const ownTitle = titleFrom(spec, chart.title);
   if (typeof spec.width === 'number' && maxWidth > 0) {
     // the whole chart, axes included, `maxWidth` wide (extension/logic/panel-layout.ts); square charts (the Q-Q plot) stay about square
     if (spec.height === spec.width) spec.height = Math.floor(Math.min(maxWidth - 70, 480));
@@ -46,6 +48,8 @@ export function chartFigure(chart: PanelChart, maxWidth: number, events: ChartEv
     spec.autosize = { type: 'fit-x', contains: 'padding' };
     wrapSubtitleOf(spec, maxWidth);
   }
+  // the title wrapped again for the drawn width and the page's font; when cut, the full title is the figure's tooltip
+  if (ownTitle && typeof spec.width === 'number' && wrapTitleOf(spec, chart.title, spec.width - 70)) el.title = chart.title;
   const tips = deferTooltips(spec); // formatted on hover (tooltips.ts)
   const drawn = embed(target, spec as never, {
     ast: true,
@@ -94,6 +98,24 @@ function wrapSubtitleOf(spec: Record<string, unknown>, width: number): void {
   const lines = ((t as { subtitle: unknown[] }).subtitle).filter((x): x is string => typeof x === 'string');
   // lines the views wrapped for their width are joined again into sentences before wrapping for this one
   (t as { subtitle: unknown[] }).subtitle = wrapSubtitle([lines.join(' ')].flatMap((x) => x.split(/(?<=\.) (?=[A-Z])/)), width - 24);
+}
+
+/** Whether the spec's drawn title is `title` as the views wrap it (charts.ts `top`), so it may be wrapped again from `title`. */
+function titleFrom(spec: Record<string, unknown>, title: string): boolean {
+  const t = spec.title as { text?: unknown } | undefined;
+  const text = t && typeof t === 'object' ? t.text : undefined;
+  const drawn = Array.isArray(text) ? text.join(' ') : typeof text === 'string' ? text : null;
+  if (drawn === null || typeof spec.width !== 'number') return false;
+  return drawn === title || drawn === wrapTitle(title, spec.width).lines.join(' ');
+}
+
+/** The spec's title (re)wrapped from the full `title` to `width` pixels (engine/front/views/wrap.ts `wrapTitle`); true when cut. */
+function wrapTitleOf(spec: Record<string, unknown>, title: string, width: number): boolean {
+  const t = spec.title;
+  if (typeof t !== 'object' || t === null) return false;
+  const w = wrapTitle(title, width, TITLE_CHAR_PX);
+  (t as { text: unknown }).text = w.lines.length === 1 ? chartLabel(w.lines[0]) : w.lines.map(chartLabel);
+  return w.shortened;
 }
 
 /** Drawn mark items (points, lines, areas, bars) in an SVG chart. */

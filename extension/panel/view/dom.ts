@@ -5,7 +5,7 @@
  */
 
 import { toTsv } from '../../logic/panel-copy';
-import { decimalPadding, paddingText } from '../../logic/panel-align';
+import { decimalPadding, paddingText, panelNumberColumns } from '../../logic/panel-align';
 
 export type Child = Node | string | number | null | undefined | false;
 
@@ -62,9 +62,13 @@ export function table(
   className: string,
   headers: string[],
   rows: string[][],
-  opts: { numeric?: (col: number) => boolean; rowProps?: (row: string[], i: number) => Props; caption?: string; copy?: (tsv: string, what: string) => void; what?: string } = {},
+  opts: { numeric?: (col: number) => boolean; mixed?: boolean; rowProps?: (row: string[], i: number) => Props; caption?: string; copy?: (tsv: string, what: string) => void; what?: string } = {},
 ): HTMLTableElement {
   const head = h('thead', null, h('tr', null, ...headers.map((t, j) => h('th', { class: opts.numeric?.(j) ? 'num' : undefined, attrs: { scope: 'col' } }, t))));
+  // Copy keeps the cells as given (the CLI's digits); the page shows each numeric column in one notation
+  const given = rows;
+  // (`mixed`: a list of different quantities, such as the goodness of fit, keeps each value's own notation, as the CLI's list does)
+  if (!opts.mixed) rows = panelNumberColumns(rows, (j) => opts.numeric?.(j) ?? false);
   // numeric columns aligned on the decimal point (extension/logic/panel-align.ts)
   const pads = headers.map((_, j) => (j > 0 && opts.numeric?.(j) ? decimalPadding(rows.map((r) => r[j] ?? '')) : null));
   const cell = (t: string, i: number, j: number): HTMLElement => {
@@ -78,7 +82,7 @@ export function table(
   const body = h('tbody', null, ...rows.map((r, i) => h('tr', opts.rowProps?.(r, i) ?? null, ...r.map((t, j) => cell(t, i, j)))));
   const copy = opts.copy;
   const copyButton = copy
-    ? h('button', { class: 'lw-copy', title: 'Copy this table as tab-separated text', attrs: { type: 'button' }, onClick: () => copy(toTsv(headers, rows), opts.what ?? opts.caption ?? 'table') }, 'Copy')
+    ? h('button', { class: 'lw-copy', title: 'Copy this table as tab-separated text', attrs: { type: 'button' }, onClick: () => copy(toTsv(headers, given), opts.what ?? opts.caption ?? 'table') }, 'Copy')
     : null;
   const caption = opts.caption || copyButton ? h('caption', null, opts.caption ?? '', copyButton) : null;
   return h('table', { class: className }, caption, head, body);

@@ -42,7 +42,7 @@ export function fitSection(fit: PanelFit, events: SectionEvents, pending: Promis
     caption: 'Parameters (click a row to show its declaration)',
     copy: events.onCopy,
   });
-  const goodness = table('lw-goodness', ['statistic', 'value', 'note'], fit.goodness.map((e) => [e.label, e.value, e.note ?? '']), { numeric: (j) => j === 1, copy: events.onCopy });
+  const goodness = table('lw-goodness', ['statistic', 'value', 'note'], fit.goodness.map((e) => [e.label, e.value, e.note ?? '']), { numeric: (j) => j === 1, mixed: true, copy: events.onCopy });
   const notes = h('aside', { class: 'lw-notes', attrs: { 'aria-label': 'Warnings' } },
     h('h3', null, 'Warnings'),
     fit.warnings.length

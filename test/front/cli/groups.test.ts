@@ -64,7 +64,7 @@ describe('cli/fit per-group fits', () => {
     for (let s = 1; s <= 12; s++) expect(r.stdout).toMatch(new RegExp(`^ {2}S${String(s).padStart(2, '0')} +10 +${num} +${num} +${num} +${num} +(?:0\\.99\\d*|1)$`, 'm'));
     expect(r.stdout).toMatch(/^ {2}S99 +1 +n\/a +n\/a +n\/a +n\/a +n\/a +failed$/m);
     expect(r.stdout).toMatch(/^ {2}S50 +2 +.* +no_dof$/m);
-    expect(r.stdout).toMatch(/Across converged groups\n +median +Q1 +Q3 +IQR +groups\n.*\n {4}k +\d+\.\d+ +\d+\.\d+ +\d+\.\d+ +\d+\.?\d* +13\n/);
+    expect(r.stdout).toMatch(/Across converged groups\n +median +Q1 +Q3 +IQR +groups\n.*\n {4}k +\d+\.\d+ +\d+\.\d+ +\d+\.\d+ +\d+\.?\d*(e[-+]\d+)? +13\n/);
     expect(r.stdout).toContain('Worst groups\n    S99: failed - failed:');
     // full blocks only for the two flagged groups
     expect(r.stdout.match(/^Fit stiffness \[[^\]]+\]/gm)).toEqual(['Fit stiffness [S99]', 'Fit stiffness [S50]']);

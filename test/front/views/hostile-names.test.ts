@@ -23,7 +23,8 @@ const fitWith = (o: { predictor?: string; response?: string; group?: string; nam
 
 /** SVG text content as the XML parser returns it (entities resolved). */
 const unescapeXml = (s: string) => s.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&apos;/g, "'").replace(/&#(\d+);/g, (_, n) => String.fromCharCode(Number(n))).replace(/&amp;/g, '&');
-const texts = (svg: string) => findAll(parseXml(svg), (e) => e.name === 'text').map((t) => unescapeXml(t.text));
+// text and the lines of a wrapped title (tspan)
+const texts = (svg: string) => findAll(parseXml(svg), (e) => e.name === 'text' || e.name === 'tspan').map((t) => unescapeXml(t.text));
 
 describe('views with hostile names', () => {
   it('every chart is drawn with hostile predictor and response names, and its axis titles read as written', async () => {

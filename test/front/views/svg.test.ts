@@ -16,8 +16,10 @@ describe('views/svg', () => {
       expect(root.name).toBe('svg');
       expect(root.attrs.xmlns).toBe('http://www.w3.org/2000/svg');
       if (c.id !== 'histogram') expect(markItems(root, 'data_points')).toHaveLength(40);
-      // the title is drawn as text
-      expect(findAll(root, (e) => e.name === 'text').some((t) => t.text.includes(c.title.replace(/&/g, '&amp;')))).toBe(true);
+      // the title is drawn as text (wrapped to the plot's width: its first line), and kept whole as the SVG's <title>
+      const firstLine = c.title.split(' ').slice(0, 2).join(' ');
+      expect(findAll(root, (e) => e.name === 'text' || e.name === 'tspan').some((t) => t.text.includes(firstLine.replace(/&/g, '&amp;')))).toBe(true);
+      expect(c.svg).toContain(`<title>${c.title.replace(/&/g, '&amp;')}</title>`);
     }
   });
 

@@ -10,9 +10,9 @@ import { warningText } from '../../../engine/messages';
 const run = JSON.parse(readFileSync(join(__dirname, '../../fixtures/calibration-run.json'), 'utf8')) as RunResult;
 
 describe('views/table', () => {
-  it('aligns columns and right-aligns numbers', () => {
+  it('aligns columns and right-aligns numbers on their decimal point', () => {
     const lines = textTable(['name', 'value'], [['a', '1.5'], ['long name', '-12.25']]);
-    expect(lines).toEqual(['  name        value', '  ---------  ------', '  a             1.5', '  long name  -12.25']);
+    expect(lines).toEqual(['  name        value', '  ---------  ------', '  a            1.5', '  long name  -12.25']);
   });
   it('escapes pipes in Markdown cells', () => {
     expect(markdownTable(['a', 'b'], [['x|y', '2']])).toEqual(['| a | b |', '| --- | ---: |', '| x\\|y | 2 |']);
