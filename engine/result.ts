@@ -841,6 +841,8 @@ export interface GroupPair {
 export interface JointFitResult {
   fit: string;
   groupBy: string;
+  /** `tables`: a fit over several tables (`fit NAME on A, B, …`), each group one table, named by it; `groupBy` is then empty. Absent: the groups of the column `groupBy`. Additive. */
+  over?: 'tables';
   /** Free parameters shared by every group, and those fitted per group, in plan order. */
   shared: string[];
   perGroup: string[];

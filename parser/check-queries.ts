@@ -11,7 +11,7 @@ import { STATISTICS, isStatisticName as isStatistic } from './registry/statistic
 import type { Env, FitInfo } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
-import { columnsOf, exprText } from './plan-expr';
+import { columnsOf, exprText, fitHasGroups } from './plan-expr';
 import { QUERY_MEMBERS, isQueryMember, QUERY_MEMBER_SPECS } from './registry/statistics';
 
 /** The fit a statement names, or undefined (reported). */
@@ -262,7 +262,7 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
       env.r.report('unknown_target', MSG.groupNeedsMember(fitName, group), x.path[0].range);
       return undefined;
     }
-    if (fit && fit.plan.groupBy === undefined) {
+    if (fit && !fitHasGroups(fit.plan)) {
       env.r.report('unknown_target', MSG.groupOfUngroupedFit(fit.plan.name, group), x.path[0].range);
       return undefined;
     }

@@ -62,6 +62,10 @@ export const CODES = {
   column_in_derive: { severity: 'error', when: 'a column in a derive expression' },
   shared_without_groups: { severity: 'error', when: 'a parameter marked `shared` in a fit without `per COLUMN` (there are no groups to share it)' },
   joint_not_supported: { severity: 'error', when: 'a fit with `shared` parameters and a robust loss, `method linear` or `method gradient_descent` (a joint fit runs with the squared loss by Levenberg–Marquardt)' },
+  repeated_data: { severity: 'error', when: 'a table listed twice in `fit NAME on A, B, …`' },
+  table_column_missing: { severity: 'error', when: 'in `fit NAME on A, B, …`, a table after the first lacks a column the fit reads (columns known); at that table\'s name' },
+  table_units_differ: { severity: 'error', when: 'in `fit NAME on A, B, …`, a table declares another unit for a column the fit reads than the first table; at that table\'s name' },
+  tables_with_per: { severity: 'error', when: 'a fit over several tables with `per COLUMN` (each table is already one curve)' },
   text_or_column: { severity: 'error', when: 'in a `where` condition, a quoted item compared by `==`/`!=` with a column names a column too, so it could be either that column or a text value (columns known)' },
   text_not_allowed: { severity: 'error', when: 'a text value (`\"…\"` that names no column) compared anywhere but in a `where` condition, or with something that is not a column' },
   unused_parameter: { severity: 'warning', when: 'a declared parameter the model does not use' },
@@ -92,6 +96,13 @@ export const MSG = {
   unknownColumn: (name: string, data: string) => `data ${q(data)} has no column ${q(name)}`,
   sharedWithoutGroups: (name: string) =>
     `parameter ${q(name)} is shared, but the fit has no groups to share it: add per COLUMN to fit one curve per value of a column with ${q(name)} common to all, or remove shared`,
+  repeatedTable: (name: string) => `table ${q(name)} is listed twice; each table is one curve of the fit`,
+  tableColumnMissing: (table: string, cols: readonly string[], first: string) =>
+    `table ${q(table)} has no column ${list(cols)}, which the fit reads (as in ${q(first)}); every table of a fit over several tables needs the same columns`,
+  tableUnitsDiffer: (column: string, table: string, unit: string, first: string, firstUnit: string) =>
+    `column ${q(column)} is in [${inlineText(unit)}] in table ${q(table)} but in [${inlineText(firstUnit)}] in ${q(first)}; the tables of one fit must measure it in one unit (units are labels and are not converted)`,
+  tablesWithPer: (fit: string) =>
+    `fit ${q(fit)} reads several tables, and each table is one curve; per COLUMN cannot split them further (fit each table per COLUMN separately, or join the tables into one with a column that names the run)`,
   jointNotSupported: (fit: string, what: string) =>
     `fit ${q(fit)} has shared parameters, which are fitted jointly with the squared loss by Levenberg–Marquardt; ${what} is not available for a joint fit`,
   textOrColumn: (text: string, column: string, data: string) =>

@@ -137,3 +137,11 @@ function precedence(e: Expr): number {
       return 10;
   }
 }
+
+/**
+ * Whether a fit gives one result per group: `per COLUMN` (one per value of the column) or several tables
+ * (`fit NAME on A, B, …`, one per table, its label the table's name). The checker and the engine share it.
+ */
+export function fitHasGroups(fit: { groupBy?: string; blocks: readonly unknown[] }): boolean {
+  return fit.groupBy !== undefined || fit.blocks.length > 1;
+}

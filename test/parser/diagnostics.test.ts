@@ -344,6 +344,26 @@ describe('parser/check diagnostics', () => {
     expect(analyze(spec({ items: '  param b shared\n  per batch', model: 'y = a * x + b' })).diagnostics).toEqual([]);
   });
 
+  it('repeated_data / table_column_missing / table_units_differ / tables_with_per: a fit over several tables, at the table name', () => {
+    const two = 'data d = "a.csv"\ndata e = "b.csv"\n';
+    const byFile: CheckContext = { headers: (name) => (name === 'e' ? ['x', 'w'] : ['x', 'y', 'batch']) };
+    expectAt(`${two}fit f on d, e, «e» {\n  model y = a * x\n  param a = 1\n}`, 'repeated_data');
+    const missing = expectAt(`${two}fit f on d, «e» {\n  model y = a * x + b\n  param a = 1\n  param b shared\n}`, 'table_column_missing', byFile);
+    expect(missing.message).toContain("'y'");
+    expectAt('data d = "a.csv" units x [mm]\ndata e = "b.csv" units x [cm]\nfit f on d, «e» {\n  model y = a * x\n  param a = 1\n}', 'table_units_differ');
+    expectAt(`${two}fit f on d, e {\n  model y = a * x + b\n  param a = 1\n  param b shared\n  «per batch»\n}`, 'tables_with_per');
+    expectAt(`${two}fit f on d, «g» {\n  model y = a * x\n  param a = 1\n}`, 'unknown_data');
+    // shared is allowed without per when the fit reads several tables; the plan has one block per table
+    const ok = analyze(`${two}fit f on d, e {\n  model y = a * x + b\n  param a = 1\n  param b shared\n}`, HEADERS);
+    expect(ok.diagnostics).toEqual([]);
+    const fit = ok.plan.fits[0];
+    expect(fit.blocks.map((b) => b.data)).toEqual(['d', 'e']);
+    expect(fit.parameters.map((p) => [p.name, p.scope])).toEqual([['a', 'perBlock'], ['b', 'shared']]);
+    expect(fit.blocks[1].range.start).toMatchObject({ line: 3, column: 13 });
+    // FIT."TABLE".PARAM names one table of such a fit
+    expect(analyze(`${two}fit f on d, e {\n  model y = a * x + b\n  param a = 1\n  param b shared\n}\nderive r = f."e".a / f."d".a`, HEADERS).diagnostics).toEqual([]);
+  });
+
   it('text_or_column / text_not_allowed: a quoted item compared with a column (headers known)', () => {
     expectAt('data d = "a.csv" where batch == «"sd"»\nfit f on d {\n  model y = a * x\n  param a = 1\n}', 'text_or_column', HEADERS);
     expectAt(spec({ model: 'y = a * when(batch == «"B-1"», x, 0)' }), 'text_not_allowed', HEADERS);
