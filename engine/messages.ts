@@ -197,6 +197,9 @@ export const outputText = {
 export const jointText = {
   tooFewRows: (n: number, pl: number) => `${n} usable row${n === 1 ? '' : 's'} for ${pl} per-group parameter${pl === 1 ? '' : 's'}: left out of the joint fit`,
   noGroups: 'no group has enough rows for its own parameters, so there is no joint fit',
+  /** A table of a fit over several tables (engine/run/joint-tables.ts) with fewer usable rows than the parameters it fits on its own. */
+  tableTooFewRows: (fit: string, table: string, file: string, n: number, pl: number) =>
+    `fit ${fit}: table ${table} (${file}) leaves ${n} usable row${n === 1 ? '' : 's'} for its ${pl} own parameter${pl === 1 ? '' : 's'} (those not shared): at least ${pl} are needed; correct the table or leave it out of the on list`,
   noStart: 'no starting values for the joint fit: no group\'s separate fit gave finite estimates',
   groupStop: (message: string) => `joint fit over all groups: ${message}`,
   noTest: 'no test: the degrees of freedom or the sum of squares of the larger model leave nothing to compare',

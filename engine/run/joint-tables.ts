@@ -11,7 +11,8 @@
  * so every data problem (a column missing from one file, a cell that is not
  * a number, a table without rows) is an error of that table, placed at its
  * name in the `on` list when it is about a column, at its file line or its
- * `data` statement otherwise. A table that cannot be read stops the fit: a
+ * `data` statement otherwise; a table with fewer usable rows than its own
+ * (not shared) parameters is an error at its name. A table that cannot be read stops the fit: a
  * joint fit that silently lost one of its curves would report other numbers
  * than the spec asks for.
  */
@@ -19,7 +20,7 @@ import type { FitPlan } from '../../parser/plan';
 import type { RunError } from '../result';
 import type { LoadedSources } from './datasets';
 import { prepareFitData, type ColumnCompiler, type FitData } from './fit-data';
-import { errorText } from '../messages';
+import { errorText, jointText } from '../messages';
 
 /** The plan the tables' curves are fitted with: the first block, `shared` parameters across groups, no grouping column. */
 export function tablesFitPlan(fit: FitPlan): FitPlan {
@@ -44,7 +45,10 @@ export function prepareTables(fit: FitPlan, loaded: LoadedSources, compile: Colu
       if (!loaded.failed.has(block.data)) errors.push({ code: 'unknown_data', message: errorText.unknownData(fit.name, block.data), range: block.range, fit: fit.name });
       continue;
     }
-    const one: FitPlan = { ...tablesFitPlan(fit), blocks: [block] };
+    // rows are counted against the table's own parameters: the shared ones are fitted from every table
+    const own = fit.parameters.filter((p) => !p.fixed && p.scope !== 'shared').length;
+    // (every parameter held for reading the rows, so the count below is the one that applies)
+    const one: FitPlan = { ...tablesFitPlan(fit), blocks: [block], parameters: fit.parameters.map((p) => ({ ...p, fixed: true })) };
     let prepared;
     try {
       prepared = prepareFitData(one, src.source, src.table, compile);
@@ -53,10 +57,16 @@ export function prepareTables(fit: FitPlan, loaded: LoadedSources, compile: Colu
     }
     if (!prepared.ok) {
       // a column this table lacks: at the table's name in the `on` list (the model's column is right for the other tables)
-      for (const e of prepared.errors) errors.push(e.code === 'missing_column' ? { ...e, range: block.range } : e);
+      for (const e of prepared.errors) {
+        if (e.code === 'missing_column') errors.push({ ...e, range: block.range });
+        else errors.push(e);
+      }
       continue;
     }
-    for (const d of prepared.data) data.push({ ...d, group: block.data });
+    for (const d of prepared.data) {
+      if (d.n < own) errors.push({ code: 'too_few_rows', message: jointText.tableTooFewRows(fit.name, block.data, src.source.path, d.n, own), file: src.source.path, range: block.range, fit: fit.name });
+      else data.push({ ...d, group: block.data });
+    }
   }
   if (errors.length || loaded.failed.size && fit.blocks.some((b) => loaded.failed.has(b.data))) return { ok: false, errors };
   return { ok: true, plan: tablesFitPlan(fit), data };
