@@ -54,7 +54,8 @@ export const CODES = {
   predictor_mismatch: { severity: 'error', when: 'predict/invert on a column the model does not vary with, or on a model without exactly one predictor column' },
   response_mismatch: { severity: 'error', when: 'invert at a column that is not the response, or on a response that reads several columns' },
   compare_too_few: { severity: 'error', when: 'compare lists fewer than two different fits' },
-  compare_per_group: { severity: 'error', when: 'compare lists a fit with `per`' },
+  compare_per_group: { severity: 'error', when: 'compare lists a fit with groups (`per` or several tables) together with a fit without groups' },
+  compare_groups_differ: { severity: 'error', when: 'compare lists fits with groups of different columns, data or tables (at run time also: different group labels)' },
   compare_mismatch: { severity: 'error', when: 'compare lists fits on different data or with different responses' },
   compare_within_order: { severity: 'error', when: '`compare A within B` where A has at least as many free parameters as B (a special case has fewer)' },
   method_not_linear: { severity: 'error', when: '`method linear` on a model that is not linear in its free parameters' },
@@ -163,8 +164,12 @@ export const MSG = {
   compareTooFew: 'compare needs at least two different fits',
   compareWithinOrder: (simpler: string, richer: string, p1: number, p2: number) =>
     `compare ${q(simpler)} within ${q(richer)}: ${q(simpler)} has ${p1} free parameter${p1 === 1 ? '' : 's'} and ${q(richer)} ${p2}; the one declared within must have fewer`,
-  /** Also the engine's message (engine/run/queries.ts). */
-  comparePerGroup: (fit: string) => `compare needs fits without "per"; ${q(fit)} runs per group`,
+  /** Also the engine's message (engine/run/compare-groups.ts). */
+  comparePerGroup: (grouped: string, single: string) =>
+    `compare: ${q(grouped)} gives one result per group and ${q(single)} one for all rows; compare a fit with groups with another fit of the same groups (the same model per group, or with shared parameters)`,
+  /** Also the engine's message (engine/run/compare-groups.ts). */
+  compareGroupsDiffer: (a: string, b: string, ga: string, gb: string) =>
+    `compare: ${q(a)} runs ${inlineText(ga)} and ${q(b)} ${inlineText(gb)}; fits with groups compare only over the same groups`,
   /** Also the engine's message (engine/run/queries.ts), which also applies when the fits end up with different rows. */
   compareMismatch: (fits: readonly string[]) =>
     `compare: ${list(fits)} do not fit the same rows of the same response; information criteria are not comparable`,

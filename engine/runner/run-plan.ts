@@ -301,7 +301,7 @@ export function finishRun(plan: Plan, run: FittedRun): RunResult {
   }
   const ran = (name: string) => fitPlans.has(name);
   const queries = plan.queries.filter((q) => (q.kind === 'compare' ? q.fits.every(ran) : ran(q.fit)));
-  const q = runQueries(queries, { fitPlans: fitPlans as Map<string, FitPlan>, results });
+  const q = runQueries(queries, { fitPlans: fitPlans as Map<string, FitPlan>, results, ...(run.joint ? { joint: run.joint } : {}) });
   for (const e of q.errors) errors.push(e);
   const plain = runDerived(plan.derived ?? [], results, ran, run.joint ?? [], errors);
   const derived = run.refits ? derivedIntervals(plan.derived ?? [], results, plain, run.refits) : plain;

@@ -281,7 +281,21 @@ describe('parser/check diagnostics', () => {
       'fit f on d {', '  model y = a * x', '  param a = 1', '}',
       `fit g on ${second} {`, '  model y = b * x', '  param b = 1', '  per batch', '}', after,
     ].join('\n');
-    expect(expectAt(two('d', 'compare f, «g»'), 'compare_per_group').message).toBe('compare needs fits without "per"; \'g\' runs per group');
+    expect(expectAt(two('d', 'compare f, «g»'), 'compare_per_group').message).toMatch(/^compare: 'g' gives one result per group and 'f' one for all rows/);
+    // fits with groups compare with fits of the same groups: the same column of the same data, or the same tables
+    const grouped = (a: string, b: string, after: string) => [
+      'data d = "a.csv"', 'data e = "b.csv"',
+      `fit f on ${a} {`, '  model y = a * x', '  param a = 1', '}',
+      `fit g on ${b} {`, '  model y = b * x', '  param b = 1', '}', after,
+    ].join('\n');
+    const perFit = (name: string, data: string, column: string, shared = '') => [`fit ${name} on ${data} {`, '  model y = a * x + c', '  param a = 1', `  param c = 0${shared}`, `  per ${column}`, '}'].join('\n');
+    const head = 'data d = "a.csv"\ndata e = "b.csv"\n';
+    expect(expectAt(`${head}${perFit('f', 'd', 'batch')}\n${perFit('g', 'd', 'z')}\ncompare f, «g»`, 'compare_groups_differ').message).toMatch(/'f' runs per batch of d and 'g' per z of d/);
+    expectAt(`${head}${perFit('f', 'd', 'batch')}\n${perFit('g', 'e', 'batch')}\ncompare f, «g»`, 'compare_groups_differ');
+    expectAt(grouped('d, e', 'e, d', 'compare f, «g»'), 'compare_groups_differ');
+    // the same groups: no diagnostic (a joint fit against the separate fits, two fits over the same tables)
+    expect(analyze(`${head}${perFit('f', 'd', 'batch', ' shared')}\n${perFit('g', 'd', 'batch')}\ncompare f, g`, HEADERS).diagnostics.map((d) => d.code)).toEqual(['unused_data']);
+    expect(analyze(grouped('d, e', 'd, e', 'compare f, g'), HEADERS).diagnostics).toEqual([]);
     const plain = (second: string, response: string, after: string) => [
       'data d = "a.csv"', 'data e = "b.csv"',
       'fit f on d {', '  model y = a * x', '  param a = 1', '}',
