@@ -462,8 +462,8 @@ export const compareText = {
   groupExcluded: (group: string, code: string, message: string) => `its group ${JSON.stringify(group)} ${code === 'failed' ? 'failed' : 'did not converge'} (${code}: ${message}); a fit is ranked as a whole only when every group is a result`,
   jointExcluded: (code: string, message: string) => `its joint fit ${code === 'failed' ? 'failed' : 'did not converge'} (${code}: ${message})`,
   jointLeftOut: (groups: readonly string[]) => `its joint fit left out ${groups.map((g) => JSON.stringify(g)).join(', ')} (too few rows), so it does not fit the same rows as a fit of every group`,
-  sharedNested: (simpler: string, richer: string, released: readonly string[]) =>
-    `${simpler} is nested in ${richer} by construction: the same model on the same rows, with ${released.join(', ')} one value for all groups in ${simpler} and one per group in ${richer}`,
+  sharedNested: (simpler: string, richer: string, released: readonly string[], groups: 'groups' | 'tables') =>
+    `${simpler} is nested in ${richer} by construction: the same model on the same rows, with ${released.join(', ')} one value for all ${groups} in ${simpler} and one per ${groups === 'tables' ? 'table' : 'group'} in ${richer}`,
   sharedNotNested: (a: string, b: string) =>
     `${a} and ${b} are not nested: neither fit's shared parameters are a subset of the other's with the same model, so one is not the other with parameters tied across groups`,
   nestedEveryGroup: (simpler: string, richer: string) =>

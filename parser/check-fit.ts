@@ -116,7 +116,8 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
     }
   }
 
-  const blocks = [block, ...checkTables(env, fit, block, columns)];
+  const tables = checkTables(env, fit, block, columns);
+  const blocks = [block, ...tables.blocks];
   if (blocks.length > 1) {
     // each table a block with the same model; a parameter not marked shared takes one value per table
     blocks[0] = { ...block, range: fit.data!.range };
@@ -136,7 +137,8 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
     modelColumns: modelUse.columns,
     responseColumns: responseUse.columns,
     unresolved: { model: modelUse.unresolved, response: responseUse.unresolved },
-    incomplete: !first || modelUse.broken || responseUse.broken,
+    // (a table of the on list that is not declared leaves the fit without its groups: later checks would follow the misspelling)
+    incomplete: !first || modelUse.broken || responseUse.broken || tables.broken,
   };
 }
 
@@ -146,9 +148,10 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
  * column the fit reads (headers known) and declare no other unit for a column than the first table does;
  * each problem is reported at that table's name in the list.
  */
-function checkTables(env: Env, fit: FitAst, first: FitBlock, firstColumns: ReadonlySet<string> | undefined): FitBlock[] {
+function checkTables(env: Env, fit: FitAst, first: FitBlock, firstColumns: ReadonlySet<string> | undefined): { blocks: FitBlock[]; broken: boolean } {
   const { r } = env;
   const out: FitBlock[] = [];
+  let broken = false;
   const firstName = fit.data?.name ?? '';
   const seen = new Set([firstName]);
   const firstUnits = env.data.get(firstName)?.plan.units ?? {};
@@ -160,6 +163,7 @@ function checkTables(env: Env, fit: FitAst, first: FitBlock, firstColumns: Reado
     seen.add(t.name);
     const d = env.data.get(t.name);
     if (!d) {
+      broken = true;
       if (env.declared.data.has(t.name)) {
         const line = env.declared.data.get(t.name)!;
         if (line > t.range.start.line) r.report('declared_later', MSG.declaredLater('data', t.name, line), t.range);
@@ -177,7 +181,7 @@ function checkTables(env: Env, fit: FitAst, first: FitBlock, firstColumns: Reado
     for (const c of clash) r.report('table_units_differ', MSG.tableUnitsDiffer(c, t.name, units[c], firstName, firstUnits[c]), t.range);
     out.push({ ...first, data: t.name, range: t.range });
   }
-  return out;
+  return { blocks: out, broken };
 }
 
 /** `shared` needs groups, and a joint fit runs with the squared loss by Levenberg–Marquardt only (engine/run/joint.ts). */

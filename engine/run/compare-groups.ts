@@ -177,7 +177,7 @@ function wholeTest(a: Whole, b: Whole, declared: readonly string[] | null, neste
   const subset = [...sharedR].every((x) => sharedS.has(x)) && sharedS.size > sharedR.size;
   const base = { simpler: s, richer: r, distance: null, tolerance: 0 };
   let nesting: CompareNesting;
-  if (model && subset) nesting = { ...base, status: 'established', detail: compareText.sharedNested(s, r, [...sharedS].filter((x) => !sharedR.has(x))) };
+  if (model && subset) nesting = { ...base, status: 'established', detail: compareText.sharedNested(s, r, [...sharedS].filter((x) => !sharedR.has(x)), groupingOf(simple.plan).kind === 'tables' ? 'tables' : 'groups') };
   else if (!model && nestedEverywhere && !simple.joint && !rich.joint) nesting = { ...base, status: 'established', detail: compareText.nestedEveryGroup(s, r) };
   else if (declared) nesting = { ...base, status: 'declared', detail: compareText.declared(s, r, model ? compareText.sharedNotNested(s, r) : compareText.modelsDiffer(s, r)) };
   else if (model) return { nesting: { ...base, status: 'not_nested', detail: compareText.sharedNotNested(s, r) }, noFTest: compareText.noF.notNested };
