@@ -10,6 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { copyFileSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fUpper } from '../../engine/stats/distributions';
+import { FAMILIES, curvesOf } from '../robustness/scenarios';
 import { runSpec, tempDir, writeCsv } from './helpers';
 
 type Compare = Extract<import('../../engine/result').QueryResult, { kind: 'compare' }>;
@@ -139,5 +140,39 @@ describe('run/compare-groups', () => {
     expect(e.message).toMatch(/"C" is a group of f only/);
     expect(spec.slice(e.range!.start.offset, e.range!.end.offset)).toBe('compare f, h');
     expect(result.queries).toEqual([]);
+  });
+
+  it('many groups (robustness generator): 40 decay curves, with and without an offset, compared group by group', async () => {
+    const fam = FAMILIES.find((f) => f.id === 'exp-decay')!;
+    const curves = curvesOf(fam, 40);
+    const dir = tempDir();
+    writeCsv(dir, 'd.csv', ['run', 'x', 'y'], curves.flatMap((c, k) => c.x.map((x, i) => [`R${k}`, x, c.y[i]])));
+    const spec = [
+      'data d = "d.csv"',
+      'fit offset on d {', '  model y = a * exp(-k * x) + c', '  param a = 10', '  param k = 1 in [0, inf]', '  param c = 0', '  per run', '}',
+      'fit plain on d {', '  model y = a * exp(-k * x)', '  param a = 10', '  param k = 1 in [0, inf]', '  per run', '}',
+      'compare plain, offset',
+    ].join('\n') + '\n';
+    const { result } = await runSpec(spec, dir);
+    expect(result.errors).toEqual([]);
+    const q = result.queries[0] as Compare;
+    const rows = q.grouped!.perGroup!;
+    expect(rows.length).toBe(40);
+    let tested = 0;
+    for (const row of rows) {
+      const a = result.fits.find((f) => f.name === 'plain' && f.group === row.group)!;
+      const b = result.fits.find((f) => f.name === 'offset' && f.group === row.group)!;
+      expect(row.aicc).toEqual([a.goodness.aicc, b.goodness.aicc]);
+      if (!row.fTest) continue;
+      tested++;
+      // by hand from the group's two sums of squares: 1 extra parameter, 25 − 3 degrees of freedom
+      const f = (a.goodness.ssr - b.goodness.ssr) / (b.goodness.ssr / 22);
+      expect(row.fTest.df2).toBe(22);
+      expect(row.fTest.f / f).toBeCloseTo(1, 6);
+    }
+    // every curve has an offset c between 0 and 10 (2 % noise): the nesting holds in every group, and the data see c
+    expect(tested).toBe(40);
+    expect(q.nesting?.status).toBe('established');
+    expect(rows.filter((r) => r.best === 'offset').length).toBeGreaterThan(30);
   });
 });
