@@ -230,6 +230,7 @@ export const errorText = {
   compareGroupLabels: (a: string, b: string, only: string, inFit: string) =>
     `compare: ${a} and ${b} do not have the same groups (${JSON.stringify(only)} is a group of ${inFit} only); fits with groups compare only over the same groups`,
   compareMismatch: (fits: readonly string[]) => MSG.compareMismatch(fits),
+  tablesWithPer: (fit: string) => MSG.tablesWithPer(fit),
   methodNotLinear: (fit: string) => MSG.methodNotLinear(fit),
   internal: (fit: string, message: string) => `fit ${fit} could not be completed: ${message}`,
   textCompare: (text: string) => `the text "${text}" can only be compared with a column (by == or !=)`,

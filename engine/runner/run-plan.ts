@@ -157,6 +157,11 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
     const tables = fit.blocks.length > 1;
     let fitRun = fit;
     let prepared: { ok: true; data: FitData[] } | { ok: false; errors: RunError[] };
+    if (tables && fit.groupBy !== undefined) {
+      // (the checker's tables_with_per; kept as a guard for plans written by other tools)
+      errors.push({ code: 'not_supported', message: errorText.tablesWithPer(fit.name), range: fit.range, fit: fit.name });
+      continue;
+    }
     if (tables) {
       const t = prepareTables(fit, loaded, compileColumnExpr);
       if (!t.ok) {

@@ -18,6 +18,7 @@ import schema from '../../engine/result.schema.json';
 import { resultToJsonValue } from '../../engine/run/json';
 import { fUpper } from '../../engine/stats/distributions';
 import { FAMILIES, curvesOf } from '../robustness/scenarios';
+import { runPlanSync } from '../../engine/runner/run-plan';
 import { runSpec, tempDir } from './helpers';
 
 const here = join(__dirname, 'joint-tables');
@@ -182,5 +183,14 @@ describe('run/joint-tables', () => {
     const u = analyze(units).diagnostics.find((x) => x.code === 'table_units_differ')!;
     expect(u.message).toContain('[min]');
     expect(units.slice(u.range.start.offset, u.range.end.offset)).toBe('day3');
+  });
+
+  it('a plan with several tables and a grouping column (only another tool can write one) is refused, not half-run', () => {
+    const { plan } = analyze(SPEC);
+    const bad = { ...plan, fits: [{ ...plan.fits[0], groupBy: 'flag' }] };
+    const result = runPlanSync(bad, { baseDir: fixture(), specText: SPEC });
+    expect(result.errors.map((e) => e.code)).toEqual(['not_supported']);
+    expect(result.errors[0].message).toMatch(/reads several tables/);
+    expect(result.fits).toEqual([]);
   });
 });
