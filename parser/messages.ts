@@ -61,7 +61,7 @@ export const CODES = {
   method_not_linear: { severity: 'error', when: '`method linear` on a model that is not linear in its free parameters' },
   reference_not_allowed: { severity: 'error', when: 'a `FIT.NAME` reference outside `derive` (in a model, sigma, weight or where)' },
   column_in_derive: { severity: 'error', when: 'a column in a derive expression' },
-  shared_without_groups: { severity: 'error', when: 'a parameter marked `shared` in a fit without `per COLUMN` (there are no groups to share it)' },
+  shared_without_groups: { severity: 'error', when: 'a parameter marked `shared` in a fit of one table without `per COLUMN` (there are no groups to share it)' },
   joint_not_supported: { severity: 'error', when: 'a fit with `shared` parameters and a robust loss, `method linear` or `method gradient_descent` (a joint fit runs with the squared loss by Levenberg–Marquardt)' },
   repeated_data: { severity: 'error', when: 'a table listed twice in `fit NAME on A, B, …`' },
   table_column_missing: { severity: 'error', when: 'in `fit NAME on A, B, …`, a table after the first lacks a column the fit reads (columns known); at that table\'s name' },
@@ -96,7 +96,7 @@ export const MSG = {
   notAConstant: (name: string) => `${q(name)} is not a constant`,
   unknownColumn: (name: string, data: string) => `data ${q(data)} has no column ${q(name)}`,
   sharedWithoutGroups: (name: string) =>
-    `parameter ${q(name)} is shared, but the fit has no groups to share it: add per COLUMN to fit one curve per value of a column with ${q(name)} common to all, or remove shared`,
+    `parameter ${q(name)} is shared, but the fit has no groups to share it: add per COLUMN to fit one curve per value of a column with ${q(name)} common to all, list several tables (fit NAME on A, B, ...), or remove shared`,
   repeatedTable: (name: string) => `table ${q(name)} is listed twice; each table is one curve of the fit`,
   tableColumnMissing: (table: string, cols: readonly string[], first: string) =>
     `table ${q(table)} has no column ${list(cols)}, which the fit reads (as in ${q(first)}); every table of a fit over several tables needs the same columns`,
