@@ -197,6 +197,9 @@ export const outputText = {
 export const jointText = {
   tooFewRows: (n: number, pl: number) => `${n} usable row${n === 1 ? '' : 's'} for ${pl} per-group parameter${pl === 1 ? '' : 's'}: left out of the joint fit`,
   noGroups: 'no group has enough rows for its own parameters, so there is no joint fit',
+  /** A table of a fit over several tables (engine/run/joint-tables.ts) with fewer usable rows than the parameters it fits on its own. */
+  tableTooFewRows: (fit: string, table: string, file: string, n: number, pl: number) =>
+    `fit ${fit}: table ${table} (${file}) leaves ${n} usable row${n === 1 ? '' : 's'} for its ${pl} own parameter${pl === 1 ? '' : 's'} (those not shared): at least ${pl} are needed; correct the table or leave it out of the on list`,
   noStart: 'no starting values for the joint fit: no group\'s separate fit gave finite estimates',
   groupStop: (message: string) => `joint fit over all groups: ${message}`,
   noTest: 'no test: the degrees of freedom or the sum of squares of the larger model leave nothing to compare',
@@ -222,8 +225,12 @@ export const errorText = {
   newSigmaNeeded: (fit: string, kind: 'sigma' | 'weight', cols: readonly string[], predictor: string, example: string) => MSG.newSigmaNeeded(fit, kind, cols, predictor, example),
   wrongVariable: (fit: string, given: string, predictor: string) => MSG.predictorOther(fit, predictor, given),
   wrongResponse: (fit: string, given: string, columns: readonly string[]) => MSG.responseMismatch(fit, given, columns),
-  comparePerGroup: (fit: string) => MSG.comparePerGroup(fit),
+  comparePerGroup: (grouped: string, single: string) => MSG.comparePerGroup(grouped, single),
+  compareGroupsDiffer: (a: string, b: string, ga: string, gb: string) => MSG.compareGroupsDiffer(a, b, ga, gb),
+  compareGroupLabels: (a: string, b: string, only: string, inFit: string) =>
+    `compare: ${a} and ${b} do not have the same groups (${JSON.stringify(only)} is a group of ${inFit} only); fits with groups compare only over the same groups`,
   compareMismatch: (fits: readonly string[]) => MSG.compareMismatch(fits),
+  tablesWithPer: (fit: string) => MSG.tablesWithPer(fit),
   methodNotLinear: (fit: string) => MSG.methodNotLinear(fit),
   internal: (fit: string, message: string) => `fit ${fit} could not be completed: ${message}`,
   textCompare: (text: string) => `the text "${text}" can only be compared with a column (by == or !=)`,
@@ -452,6 +459,22 @@ export const compareText = {
       `No nested test: ${richer} ends with a larger residual sum of squares than ${simpler}, which a model containing ${simpler} cannot have at its minimum; ${richer} stopped elsewhere (a local minimum or a bound). Try other starting values or \`explore\`; AICc compares them meanwhile.`,
   },
   onlyOne: (fit: string) => `Only ${fit} is a converged result: there is nothing to compare it with.`,
+  /** `compare` of fits with groups (engine/run/compare-groups.ts). */
+  groupExcluded: (group: string, code: string, message: string) => `its group ${JSON.stringify(group)} ${code === 'failed' ? 'failed' : 'did not converge'} (${code}: ${message}); a fit is ranked as a whole only when every group is a result`,
+  jointExcluded: (code: string, message: string) => `its joint fit ${code === 'failed' ? 'failed' : 'did not converge'} (${code}: ${message})`,
+  jointLeftOut: (groups: readonly string[]) => `its joint fit left out ${groups.map((g) => JSON.stringify(g)).join(', ')} (too few rows), so it does not fit the same rows as a fit of every group`,
+  sharedNested: (simpler: string, richer: string, released: readonly string[], groups: 'groups' | 'tables') =>
+    `${simpler} is nested in ${richer} by construction: the same model on the same rows, with ${released.join(', ')} one value for all ${groups} in ${simpler} and one per ${groups === 'tables' ? 'table' : 'group'} in ${richer}`,
+  sharedNotNested: (a: string, b: string) =>
+    `${a} and ${b} are not nested: neither fit's shared parameters are a subset of the other's with the same model, so one is not the other with parameters tied across groups`,
+  nestedEveryGroup: (simpler: string, richer: string) =>
+    `${simpler} is nested in ${richer} in every group: checked numerically on each group's rows (see the group-by-group table), so the two are nested as wholes`,
+  modelsDiffer: (a: string, b: string) =>
+    `whether ${a} is nested in ${b} was not checked: for fits with groups, nesting is decided only for the same model with other parameters shared across groups (declare it with \`compare ${a} within ${b}\`)`,
+  noPerGroupJoint: (fits: readonly string[]) =>
+    `No group-by-group table: ${fits.join(', ')} ${fits.length === 1 ? 'is a joint fit' : 'are joint fits'}, whose groups share parameters and are no fits of their own; the fits are compared as a whole.`,
+  wholeNote: (groups: number, by: string) =>
+    `Each fit is taken as a whole over its ${groups} ${by}: points, free parameters and residual sum of squares summed over them (shared parameters counted once), with one residual variance for all.`,
   /** The decision sentence's list of fits left out. */
   leftOut: (fits: readonly string[]) => `Left out of the ranking: ${fits.join(', ')} (${fits.length === 1 ? 'it is' : 'they are'} not a converged result; see below).`,
 } as const;

@@ -682,7 +682,42 @@ export type QueryResult =
       nesting?: CompareNesting;
       /** Why no F test is shown, when there is none (additive, optional). */
       noFTest?: string;
+      /** Fits with groups (`per COLUMN` or several tables) compared (additive, optional; engine/run/compare-groups.ts). */
+      grouped?: CompareGrouped;
     };
+
+/**
+ * A `compare` of fits with groups (engine/run/compare-groups.ts). The ranking (`rows`, `fTest`) takes each fit
+ * as a whole: n, SSR and the free parameters summed over its groups (a joint fit's shared parameters counted
+ * once), with one residual variance for all groups. `perGroup` compares the fits group by group, when none of
+ * them is a joint fit.
+ */
+export interface CompareGrouped {
+  /** The grouping column; empty for fits over several tables. */
+  by: string;
+  over: 'column' | 'tables';
+  /** Group labels, in group order. */
+  groups: string[];
+  /** The compared fits that are joint fits (shared parameters). */
+  joint: string[];
+  /** One row per group (no fit is joint). */
+  perGroup?: CompareGroupRow[];
+  /** Why there is no group-by-group table. */
+  noPerGroup?: string;
+}
+
+export interface CompareGroupRow {
+  group: string;
+  /** AICc of each compared fit for this group, in the order of `fits`; NaN (null in JSON) when that fit's group did not converge. */
+  aicc: number[];
+  /** The fit with the lowest AICc; null when fewer than two fits converged for the group. */
+  best: string | null;
+  /** AICc of the next-best fit above the best one (NaN without two). */
+  deltaAicc: number;
+  fTest?: { f: number; df1: number; df2: number; pValue: number; simpler: string; richer: string };
+  /** Why this group has no F test (two fits only). */
+  noFTest?: string;
+}
 
 /** A fit of a `compare` left out of the ranking (engine/run/compare-query.ts). */
 export interface CompareExclusion {
@@ -871,6 +906,8 @@ export interface GroupPair {
 export interface JointFitResult {
   fit: string;
   groupBy: string;
+  /** `tables`: a fit over several tables (`fit NAME on A, B, …`), each group one table, named by it; `groupBy` is then empty. Absent: the groups of the column `groupBy`. Additive. */
+  over?: 'tables';
   /** Free parameters shared by every group, and those fitted per group, in plan order. */
   shared: string[];
   perGroup: string[];

@@ -34,7 +34,7 @@ export function walkNames(ast: SpecAst, v: NameVisitor): void {
         break;
       case 'const': n(s.name); val(s.value); break;
       case 'fit':
-        n(s.name); n(s.data);
+        n(s.name); n(s.data); s.moreData?.forEach(n);
         for (const i of s.items) {
           switch (i.kind) {
             case 'model': expr(i.response); expr(i.model); break;

@@ -122,6 +122,8 @@ export interface FitAst {
   kind: 'fit';
   name: NameAst | undefined;
   data: NameAst | undefined;
+  /** `fit NAME on A, B, C`: the tables after the first (`data` is the first); absent for one table. */
+  moreData?: NameAst[];
   items: FitItemAst[];
   range: Range;
 }

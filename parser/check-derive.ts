@@ -18,6 +18,7 @@ import { BUILTIN_CONSTANTS, isBuiltinConstant, type Env } from './check-env';
 import { newUse, resolveExpr, type DeriveHooks, type ExprScope, type ExprUse } from './check-expr';
 import { lookupFit } from './check-queries';
 import { MSG } from './messages';
+import { fitHasGroups } from './plan-expr';
 
 
 function addFit(fits: string[], name: string): void {
@@ -81,7 +82,7 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
           use.broken = true;
           return zero;
         }
-        if (fit && fit.plan.groupBy === undefined) {
+        if (fit && !fitHasGroups(fit.plan)) {
           env.r.report('unknown_target', MSG.groupOfUngroupedFit(fit.plan.name, group), range);
           use.broken = true;
           return zero;

@@ -116,8 +116,19 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
     }
   }
 
-  const plan: FitPlan = { name, blocks: [block], parameters: params, options, range: fit.range };
+  const tables = checkTables(env, fit, block, columns);
+  const blocks = [block, ...tables.blocks];
+  if (blocks.length > 1) {
+    // each table a block with the same model; a parameter not marked shared takes one value per table
+    blocks[0] = { ...block, range: fit.data!.range };
+    for (const p of params) if (p.acrossGroups !== 'shared') p.scope = 'perBlock';
+  }
+  const plan: FitPlan = { name, blocks, parameters: params, options, range: fit.range };
   if (groupBy !== undefined) plan.groupBy = groupBy;
+  if (groupBy !== undefined && blocks.length > 1) {
+    const per = fit.items.find((i) => i.kind === 'per');
+    r.report('tables_with_per', MSG.tablesWithPer(name), per?.range ?? fit.range);
+  }
   checkShared(env, plan, paramAsts);
   return {
     plan,
@@ -126,15 +137,58 @@ export function checkFit(env: Env, fit: FitAst): FitInfo {
     modelColumns: modelUse.columns,
     responseColumns: responseUse.columns,
     unresolved: { model: modelUse.unresolved, response: responseUse.unresolved },
-    incomplete: !first || modelUse.broken || responseUse.broken,
+    // (a table of the on list that is not declared leaves the fit without its groups: later checks would follow the misspelling)
+    incomplete: !first || modelUse.broken || responseUse.broken || tables.broken,
   };
+}
+
+/**
+ * `fit NAME on A, B, C`: the tables after the first, each a block with the first one's model (its columns
+ * resolved against the first table). Each further table must be declared above, listed once, have every
+ * column the fit reads (headers known) and declare no other unit for a column than the first table does;
+ * each problem is reported at that table's name in the list.
+ */
+function checkTables(env: Env, fit: FitAst, first: FitBlock, firstColumns: ReadonlySet<string> | undefined): { blocks: FitBlock[]; broken: boolean } {
+  const { r } = env;
+  const out: FitBlock[] = [];
+  let broken = false;
+  const firstName = fit.data?.name ?? '';
+  const seen = new Set([firstName]);
+  const firstUnits = env.data.get(firstName)?.plan.units ?? {};
+  for (const t of fit.moreData ?? []) {
+    if (seen.has(t.name)) {
+      r.report('repeated_data', MSG.repeatedTable(t.name), t.range);
+      continue;
+    }
+    seen.add(t.name);
+    const d = env.data.get(t.name);
+    if (!d) {
+      broken = true;
+      if (env.declared.data.has(t.name)) {
+        const line = env.declared.data.get(t.name)!;
+        if (line > t.range.start.line) r.report('declared_later', MSG.declaredLater('data', t.name, line), t.range);
+      } else r.report('unknown_data', MSG.unknownData(t.name), t.range, env.suggester.suggest(t.name, env.data.keys()));
+      continue;
+    }
+    d.used = true;
+    if (d.headers) {
+      // (columns the first table lacks are reported there already)
+      const missing = first.columns.filter((c) => !d.headers!.has(c) && (firstColumns?.has(c) ?? true));
+      if (missing.length) r.report('table_column_missing', MSG.tableColumnMissing(t.name, missing, firstName), t.range, env.suggester.suggest(missing[0], d.headers));
+    }
+    const units = d.plan.units ?? {};
+    const clash = first.columns.filter((c) => units[c] !== undefined && firstUnits[c] !== undefined && units[c] !== firstUnits[c]);
+    for (const c of clash) r.report('table_units_differ', MSG.tableUnitsDiffer(c, t.name, units[c], firstName, firstUnits[c]), t.range);
+    out.push({ ...first, data: t.name, range: t.range });
+  }
+  return { blocks: out, broken };
 }
 
 /** `shared` needs groups, and a joint fit runs with the squared loss by Levenberg–Marquardt only (engine/run/joint.ts). */
 function checkShared(env: Env, plan: FitPlan, asts: Map<string, ParamAst & { name: NameAst }>): void {
   const shared = [...asts.values()].filter((p) => p.shared);
   if (!shared.length) return;
-  if (plan.groupBy === undefined) {
+  if (plan.groupBy === undefined && plan.blocks.length < 2) {
     for (const p of shared) env.r.report('shared_without_groups', MSG.sharedWithoutGroups(p.name.name), p.shared!);
     return;
   }

@@ -11,7 +11,7 @@ import { STATISTICS, isStatisticName as isStatistic } from './registry/statistic
 import type { Env, FitInfo } from './check-env';
 import { resolveValue } from './check-expr';
 import { MSG } from './messages';
-import { columnsOf, exprText } from './plan-expr';
+import { columnsOf, exprText, fitHasGroups, groupingOf, sameGrouping } from './plan-expr';
 import { QUERY_MEMBERS, isQueryMember, QUERY_MEMBER_SPECS } from './registry/statistics';
 
 /** The fit a statement names, or undefined (reported). */
@@ -150,10 +150,16 @@ export function checkBackcalc(env: Env, b: BackcalcAst): Query | undefined {
 }
 
 /**
- * `compare`: two or more different fits, none per group, all on the same data
- * and the same response (as the engine requires, engine/run/queries.ts; it
- * also refuses fits that end up with different rows, which only the data tell).
+ * `compare`: two or more different fits, all on the same data and the same
+ * response (as the engine requires, engine/run/queries.ts; it also refuses
+ * fits that end up with different rows, which only the data tell); fits with
+ * groups (`per COLUMN`, several tables) only with fits of the same groups.
  */
+/** A fit's groups in words, for messages. */
+function groupingText(g: ReturnType<typeof groupingOf>): string {
+  return g.kind === 'column' ? `per ${g.column} of ${g.data}` : g.kind === 'tables' ? `over the tables ${g.tables.join(', ')}` : 'without groups';
+}
+
 export function checkCompare(env: Env, c: CompareAst): Query {
   const names: string[] = [];
   const seen = new Set<string>();
@@ -165,8 +171,16 @@ export function checkCompare(env: Env, c: CompareAst): Query {
     }
     seen.add(f.name);
     const fit = lookupFit(env, f);
-    if (fit?.plan.groupBy !== undefined) env.r.report('compare_per_group', MSG.comparePerGroup(f.name), f.range);
-    if (fit && !fit.incomplete) found.push(fit);
+    if (fit && !fit.incomplete) {
+      // fits with groups compare with fits of the same groups only (engine/run/compare-groups.ts)
+      const first = found[0];
+      if (first) {
+        const [a, b] = [groupingOf(first.plan), groupingOf(fit.plan)];
+        if ((a.kind === 'none') !== (b.kind === 'none')) env.r.report('compare_per_group', MSG.comparePerGroup(a.kind === 'none' ? f.name : first.plan.name, a.kind === 'none' ? first.plan.name : f.name), f.range);
+        else if (!sameGrouping(a, b)) env.r.report('compare_groups_differ', MSG.compareGroupsDiffer(first.plan.name, f.name, groupingText(a), groupingText(b)), f.range);
+      }
+      found.push(fit);
+    }
     names.push(f.name);
   }
   if (names.length < 2 && c.fits.length > 0) env.r.report('compare_too_few', MSG.compareTooFew, c.range);
@@ -175,7 +189,7 @@ export function checkCompare(env: Env, c: CompareAst): Query {
     if (found.some((f) => !same(f, found[0]))) env.r.report('compare_mismatch', MSG.compareMismatch(names), c.range);
   }
   // `compare a within b`: a must be b with parameters fixed or tied, so it has fewer free parameters
-  if (c.within && found.length === 2 && names.length === 2) {
+  if (c.within && found.length === 2 && names.length === 2 && found.every((f) => groupingOf(f.plan).kind === 'none')) {
     const free = (f: FitInfo) => f.plan.parameters.filter((p) => !p.fixed).length;
     const [p1, p2] = [free(found[0]), free(found[1])];
     if (p1 >= p2) env.r.report('compare_within_order', MSG.compareWithinOrder(names[0], names[1], p1, p2), c.within);
@@ -262,7 +276,7 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
       env.r.report('unknown_target', MSG.groupNeedsMember(fitName, group), x.path[0].range);
       return undefined;
     }
-    if (fit && fit.plan.groupBy === undefined) {
+    if (fit && !fitHasGroups(fit.plan)) {
       env.r.report('unknown_target', MSG.groupOfUngroupedFit(fit.plan.name, group), x.path[0].range);
       return undefined;
     }

@@ -5,7 +5,7 @@
  *   statement  := data | const | fit | derive | predict | invert | backcalc | compare | expect
  *   data       := 'data' Name '=' String ( 'where' expr | 'delimiter' String | 'decimal' String | 'units' column Unit (',' column Unit)* )*
  *   const      := 'const' Name '=' value Unit?
- *   fit        := 'fit' Name 'on' Name '{' fitItem* '}'
+ *   fit        := 'fit' Name 'on' Name (',' Name)* '{' fitItem* '}'
  *   fitItem    := 'model' expr '=' expr
  *               | 'param' Name ( '=' value | 'in' '[' value ',' value ']' | 'fixed' | 'shared' | Unit )*
  *               | ('sigma' | 'weight') expr | ('method' | 'profile') Name | 'loss' Name ('scale' value)?
@@ -133,6 +133,8 @@ export class LsqParser extends CstParser {
     this.CONSUME(T.Name, { LABEL: 'name' });
     this.CONSUME(T.On);
     this.CONSUME2(T.Name, { LABEL: 'data' });
+    // `fit NAME on A, B, C`: one joint fit over several tables (parser/check-fit.ts)
+    this.MANY2(() => { this.CONSUME(T.Comma); this.CONSUME3(T.Name, { LABEL: 'data' }); });
     this.CONSUME(T.LBrace);
     this.MANY(() => this.SUBRULE(this.fitItem, { LABEL: 'items' }));
     this.CONSUME(T.RBrace);

@@ -54,14 +54,19 @@ export const CODES = {
   predictor_mismatch: { severity: 'error', when: 'predict/invert on a column the model does not vary with, or on a model without exactly one predictor column' },
   response_mismatch: { severity: 'error', when: 'invert at a column that is not the response, or on a response that reads several columns' },
   compare_too_few: { severity: 'error', when: 'compare lists fewer than two different fits' },
-  compare_per_group: { severity: 'error', when: 'compare lists a fit with `per`' },
+  compare_per_group: { severity: 'error', when: 'compare lists a fit with groups (`per` or several tables) together with a fit without groups' },
+  compare_groups_differ: { severity: 'error', when: 'compare lists fits with groups of different columns, data or tables (at run time also: different group labels)' },
   compare_mismatch: { severity: 'error', when: 'compare lists fits on different data or with different responses' },
   compare_within_order: { severity: 'error', when: '`compare A within B` where A has at least as many free parameters as B (a special case has fewer)' },
   method_not_linear: { severity: 'error', when: '`method linear` on a model that is not linear in its free parameters' },
   reference_not_allowed: { severity: 'error', when: 'a `FIT.NAME` reference outside `derive` (in a model, sigma, weight or where)' },
   column_in_derive: { severity: 'error', when: 'a column in a derive expression' },
-  shared_without_groups: { severity: 'error', when: 'a parameter marked `shared` in a fit without `per COLUMN` (there are no groups to share it)' },
+  shared_without_groups: { severity: 'error', when: 'a parameter marked `shared` in a fit of one table without `per COLUMN` (there are no groups to share it)' },
   joint_not_supported: { severity: 'error', when: 'a fit with `shared` parameters and a robust loss, `method linear` or `method gradient_descent` (a joint fit runs with the squared loss by Levenberg–Marquardt)' },
+  repeated_data: { severity: 'error', when: 'a table listed twice in `fit NAME on A, B, …`' },
+  table_column_missing: { severity: 'error', when: 'in `fit NAME on A, B, …`, a table after the first lacks a column the fit reads (columns known); at that table\'s name' },
+  table_units_differ: { severity: 'error', when: 'in `fit NAME on A, B, …`, a table declares another unit for a column the fit reads than the first table; at that table\'s name' },
+  tables_with_per: { severity: 'error', when: 'a fit over several tables with `per COLUMN` (each table is already one curve)' },
   text_or_column: { severity: 'error', when: 'in a `where` condition, a quoted item compared by `==`/`!=` with a column names a column too, so it could be either that column or a text value (columns known)' },
   text_not_allowed: { severity: 'error', when: 'a text value (`\"…\"` that names no column) compared anywhere but in a `where` condition, or with something that is not a column' },
   unused_parameter: { severity: 'warning', when: 'a declared parameter the model does not use' },
@@ -91,7 +96,14 @@ export const MSG = {
   notAConstant: (name: string) => `${q(name)} is not a constant`,
   unknownColumn: (name: string, data: string) => `data ${q(data)} has no column ${q(name)}`,
   sharedWithoutGroups: (name: string) =>
-    `parameter ${q(name)} is shared, but the fit has no groups to share it: add per COLUMN to fit one curve per value of a column with ${q(name)} common to all, or remove shared`,
+    `parameter ${q(name)} is shared, but the fit has no groups to share it: add per COLUMN to fit one curve per value of a column with ${q(name)} common to all, list several tables (fit NAME on A, B, ...), or remove shared`,
+  repeatedTable: (name: string) => `table ${q(name)} is listed twice; each table is one curve of the fit`,
+  tableColumnMissing: (table: string, cols: readonly string[], first: string) =>
+    `table ${q(table)} has no column ${list(cols)}, which the fit reads (as in ${q(first)}); every table of a fit over several tables needs the same columns`,
+  tableUnitsDiffer: (column: string, table: string, unit: string, first: string, firstUnit: string) =>
+    `column ${q(column)} is in [${inlineText(unit)}] in table ${q(table)} but in [${inlineText(firstUnit)}] in ${q(first)}; the tables of one fit must measure it in one unit (units are labels and are not converted)`,
+  tablesWithPer: (fit: string) =>
+    `fit ${q(fit)} reads several tables, and each table is one curve; per COLUMN cannot split them further (fit each table per COLUMN separately, or join the tables into one with a column that names the run)`,
   jointNotSupported: (fit: string, what: string) =>
     `fit ${q(fit)} has shared parameters, which are fitted jointly with the squared loss by Levenberg–Marquardt; ${what} is not available for a joint fit`,
   textOrColumn: (text: string, column: string, data: string) =>
@@ -152,8 +164,12 @@ export const MSG = {
   compareTooFew: 'compare needs at least two different fits',
   compareWithinOrder: (simpler: string, richer: string, p1: number, p2: number) =>
     `compare ${q(simpler)} within ${q(richer)}: ${q(simpler)} has ${p1} free parameter${p1 === 1 ? '' : 's'} and ${q(richer)} ${p2}; the one declared within must have fewer`,
-  /** Also the engine's message (engine/run/queries.ts). */
-  comparePerGroup: (fit: string) => `compare needs fits without "per"; ${q(fit)} runs per group`,
+  /** Also the engine's message (engine/run/compare-groups.ts). */
+  comparePerGroup: (grouped: string, single: string) =>
+    `compare: ${q(grouped)} gives one result per group and ${q(single)} one for all rows; compare a fit with groups with another fit of the same groups (the same model per group, or with shared parameters)`,
+  /** Also the engine's message (engine/run/compare-groups.ts). */
+  compareGroupsDiffer: (a: string, b: string, ga: string, gb: string) =>
+    `compare: ${q(a)} runs ${inlineText(ga)} and ${q(b)} ${inlineText(gb)}; fits with groups compare only over the same groups`,
   /** Also the engine's message (engine/run/queries.ts), which also applies when the fits end up with different rows. */
   compareMismatch: (fits: readonly string[]) =>
     `compare: ${list(fits)} do not fit the same rows of the same response; information criteria are not comparable`,

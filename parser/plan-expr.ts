@@ -137,3 +137,27 @@ function precedence(e: Expr): number {
       return 10;
   }
 }
+
+/**
+ * Whether a fit gives one result per group: `per COLUMN` (one per value of the column) or several tables
+ * (`fit NAME on A, B, …`, one per table, its label the table's name). The checker and the engine share it.
+ */
+export function fitHasGroups(fit: { groupBy?: string; blocks: readonly unknown[] }): boolean {
+  return fit.groupBy !== undefined || fit.blocks.length > 1;
+}
+
+/**
+ * What a fit's groups are, as a key two fits compare equal on when they have the same groups: the grouping
+ * column of one table (`column`), the list of tables (`tables`), or none. Used by `compare` (parser/check-queries.ts,
+ * engine/run/compare-groups.ts).
+ */
+export function groupingOf(fit: { groupBy?: string; blocks: readonly { data: string }[] }): { kind: 'none' } | { kind: 'column'; data: string; column: string } | { kind: 'tables'; tables: string[] } {
+  if (fit.groupBy !== undefined) return { kind: 'column', data: fit.blocks[0]?.data ?? '', column: fit.groupBy };
+  if (fit.blocks.length > 1) return { kind: 'tables', tables: fit.blocks.map((b) => b.data) };
+  return { kind: 'none' };
+}
+
+/** The same groups (see `groupingOf`). */
+export function sameGrouping(a: ReturnType<typeof groupingOf>, b: ReturnType<typeof groupingOf>): boolean {
+  return JSON.stringify(a) === JSON.stringify(b);
+}

@@ -133,7 +133,10 @@ export interface ParameterPlan {
   /** Held at `initial` during the fit. */
   fixed: boolean;
   unit?: string;
-  /** `shared` across all blocks of the fit (the only scope until global fits). */
+  /**
+   * `shared` across all blocks of the fit; `perBlock`: one value per block, in a fit over several tables
+   * (`fit NAME on A, B, …`, one block per table) for a parameter not marked `shared`. With one block always `shared`.
+   */
   scope: 'shared' | 'perBlock';
   /**
    * In a fit with `groupBy`: `shared` (the spec's `shared`) gives the parameter one

@@ -184,10 +184,15 @@ class AstBuilder extends BaseVisitor {
     const kw = this.tokRange(ctx, 'Fit');
     const name = this.nameOf(ctx, 'name');
     const data = this.nameOf(ctx, 'data');
+    const moreData: NameAst[] = [];
+    for (let i = 1; i < (ctx.data?.length ?? 0); i++) {
+      const d = this.nameOf(ctx, 'data', i);
+      if (d) moreData.push(d);
+    }
     const open = this.tokRange(ctx, 'LBrace');
     const items = this.nodes(ctx, 'items').map((n) => this.visit(n) as FitItemAst | undefined).filter((i): i is FitItemAst => i !== undefined);
     const close = this.tokRange(ctx, 'RBrace');
-    return { kind: 'fit', name, data, items, range: cover(kw, name?.range, data?.range, open, ends(items), close) };
+    return { kind: 'fit', name, data, ...(moreData.length ? { moreData } : {}), items, range: cover(kw, name?.range, data?.range, ends(moreData), open, ends(items), close) };
   }
 
   fitItem(ctx: Children): FitItemAst | undefined {

@@ -232,10 +232,39 @@ const scenarios = {
     for (let c = 1; c <= 8; c++) rows.push([`G${String(c).padStart(2, '0')}`, 'Blank', '0', 300 + 40 * g()]);
     return { files: { 'plate.csv': csv(['well', 'sample', 'dose_ng_mL', 'signal_RLU'], rows, [0, 0, 0, 0]) }, truth: { potency: truth } };
   },
+
+  /**
+   * Saturation binding of a radioligand to a receptor in cell membranes, one run (one CSV) per amount of
+   * membrane protein in the well: 10, 20, 40 and 80 µg, so the receptor concentration and the nonspecific
+   * binding grow with the amount while the dissociation constant stays one property of the receptor. Total
+   * binding = bmax·L/(kd + L) + ns·L at eight ligand concentrations 0.1–25 nM in duplicate; the counting
+   * noise grows with the counts (2 % plus 40 cpm, added in quadrature).
+   */
+  binding: (seed) => {
+    const g = normal(seed);
+    const kd = 1.8;
+    const runs = [['run_10ug.csv', 10], ['run_20ug.csv', 20], ['run_40ug.csv', 40], ['run_80ug.csv', 80]];
+    const files = {};
+    const truth = {};
+    for (const [file, ug] of runs) {
+      const bmax = 160 * ug;
+      const ns = 6 * ug;
+      truth[file.replace('.csv', '')] = { kd, bmax, ns };
+      const rows = [];
+      for (const conc of [0.1, 0.3, 0.6, 1.2, 2.5, 5, 10, 25]) {
+        for (let rep = 0; rep < 2; rep++) {
+          const y = (bmax * conc) / (kd + conc) + ns * conc;
+          rows.push([String(conc), y + Math.hypot(0.02 * y, 40) * g()]);
+        }
+      }
+      files[file] = csv(['ligand_nM', 'bound_cpm'], rows, [0, 0]);
+    }
+    return { files, truth: { binding: truth } };
+  },
 };
 
 /** Seed per scenario (see the module comment for how they were chosen). */
-export const SEEDS = { cooling: 1102, photometer: 2204, enzyme: 3305, thermistor: 4405, doseresponse: 5506, drift: 6609, arrhenius: 7709, plate: 8808, agonist: 9909, potency: 1214 };
+export const SEEDS = { cooling: 1102, photometer: 2204, enzyme: 3305, thermistor: 4405, doseresponse: 5506, drift: 6609, arrhenius: 7709, plate: 8808, agonist: 9909, potency: 1214, binding: 1415 };
 
 /** All files by relative path; `seeds` overrides SEEDS per scenario (used when choosing seeds). */
 export function generate(seeds = SEEDS) {

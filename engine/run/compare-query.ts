@@ -25,7 +25,7 @@ export interface CompareContext {
 type Out = { results: QueryResult[]; errors: RunError[] };
 type Compare = Extract<Query, { kind: 'compare' }>;
 
-interface Ranked {
+export interface Ranked {
   input: CompareInput;
   plan: FitPlan;
   result: FitResult;
@@ -40,7 +40,9 @@ export function compareQuery(q: Compare, ctx: CompareContext): Out {
     const results = ctx.results.get(name) ?? [];
     if (results.length === 0) return { results: [], errors: [{ code: 'fit_not_run', message: runText.fitNotRun(name), range: q.range, fit: name }] };
     if (results.length !== 1 || results[0].group !== undefined) {
-      return { results: [], errors: [{ code: 'compare_grouped', message: errorText.comparePerGroup(name), range: q.range, fit: name }] };
+      // (fits with groups are compared by engine/run/compare-groups.ts; here only a plan without groups that gave several results)
+      const other = q.fits.find((f) => f !== name) ?? name;
+      return { results: [], errors: [{ code: 'compare_grouped', message: errorText.comparePerGroup(name, other), range: q.range, fit: name }] };
     }
     const r = results[0];
     if (!r.stop.converged) {
@@ -82,7 +84,7 @@ function noPair(count: number, sameData: boolean): string | undefined {
 const weighting = (p: FitPlan) => `${p.blocks[0].sigma ? exprText(p.blocks[0].sigma) : ''}|${p.blocks[0].weight ? exprText(p.blocks[0].weight) : ''}`;
 
 /** Nesting and the F test of two ranked fits; `declared` is [simpler, richer] as the spec wrote them. */
-function pairTest(a: Ranked, b: Ranked, declared: readonly string[] | null): { fTest?: NonNullable<Extract<QueryResult, { kind: 'compare' }>['fTest']>; nesting?: CompareNesting; noFTest?: string } {
+export function pairTest(a: Ranked, b: Ranked, declared: readonly string[] | null): { fTest?: NonNullable<Extract<QueryResult, { kind: 'compare' }>['fTest']>; nesting?: CompareNesting; noFTest?: string } {
   if (a.input.p === b.input.p) {
     if (declared) return { noFTest: `${compareText.noF.sameCount} (${compareText.declaredReversed(declared[0], declared[1])})` };
     return { noFTest: compareText.noF.sameCount };

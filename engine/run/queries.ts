@@ -13,9 +13,10 @@
 import type { ExpectTarget, FitPlan, NewObservation, Query, Range } from '../../parser/plan';
 import { compileColumnExpr } from '../compile';
 import { errorText, runText, withheldText } from '../messages';
-import type { BackCalculation, FitResult, InversePrediction, ObservationSource, Prediction, QueryResult, RunError } from '../result';
+import type { BackCalculation, FitResult, InversePrediction, JointFitResult, ObservationSource, Prediction, QueryResult, RunError } from '../result';
 import { bandsAt, predictAt } from '../stats/bands';
 import { compareQuery } from './compare-query';
+import { compareGrouped, comparesGroups } from './compare-groups';
 import { inversePrediction } from '../stats/inverse';
 import { curveFromResult } from './curve';
 import { backTransform, type BackTransform } from './back-transform';
@@ -25,6 +26,8 @@ export interface QueryContext {
   fitPlans: ReadonlyMap<string, FitPlan>;
   /** Results by fit name (several for per-group fits; empty when the fit did not run). */
   results: ReadonlyMap<string, FitResult[]>;
+  /** The joint fits of the run (for `compare` of fits with shared parameters; absent: none). */
+  joint?: readonly JointFitResult[];
 }
 
 export function runQueries(queries: readonly Query[], ctx: QueryContext): { results: QueryResult[]; errors: RunError[] } {
@@ -284,7 +287,7 @@ function backcalc(q: Extract<Query, { kind: 'backcalc' }>, ctx: QueryContext): O
 }
 
 function compare(q: Extract<Query, { kind: 'compare' }>, ctx: QueryContext): Out {
-  return compareQuery(q, ctx);
+  return comparesGroups(q, ctx) ? compareGrouped(q, ctx) : compareQuery(q, ctx);
 }
 
 /**

@@ -26,6 +26,8 @@ import { compileColumnExpr } from '../compile';
 import type { FileReader } from '../data';
 import { errorText, jointText, runText } from '../messages';
 import { isJointFit, runJointFit } from '../run/joint';
+import { isJointOverTables, prepareTables } from '../run/joint-tables';
+import { fitHasGroups } from '../../parser/plan-expr';
 import { RESULT_VERSION, type FitResult, type JointFitResult, type Provenance, type RunError, type RunResult, type ShardFit } from '../result';
 import type { CancelToken } from '../solve/problem';
 import { loadSources } from '../run/datasets';
@@ -151,21 +153,35 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
       errors.push({ code: 'cancelled', message: runText.cancelledBefore(fit.name), range: fit.range, fit: fit.name });
       continue;
     }
-    if (fit.blocks.length !== 1) {
-      errors.push({ code: 'not_supported', message: runText.oneBlock(fit.name, fit.blocks.length), range: fit.range, fit: fit.name });
+    // a fit over several tables: each table one curve, fitted as the groups of a per-group fit (engine/run/joint-tables.ts)
+    const tables = fit.blocks.length > 1;
+    let fitRun = fit;
+    let prepared: { ok: true; data: FitData[] } | { ok: false; errors: RunError[] };
+    if (tables && fit.groupBy !== undefined) {
+      // (the checker's tables_with_per; kept as a guard for plans written by other tools)
+      errors.push({ code: 'not_supported', message: errorText.tablesWithPer(fit.name), range: fit.range, fit: fit.name });
       continue;
     }
-    const block = fit.blocks[0];
-    const src = loaded.tables.get(block.data);
-    if (!src) {
-      if (!loaded.failed.has(block.data)) errors.push({ code: 'unknown_data', message: errorText.unknownData(fit.name, block.data), range: block.range, fit: fit.name });
-      continue;
-    }
-    let prepared;
-    try {
-      prepared = prepareFitData(fit, src.source, src.table, compileColumnExpr);
-    } catch (e) {
-      prepared = { ok: false as const, errors: [{ code: 'internal', message: errorText.internal(fit.name, e instanceof Error ? e.message : String(e)), range: fit.range, fit: fit.name }] };
+    if (tables) {
+      const t = prepareTables(fit, loaded, compileColumnExpr);
+      if (!t.ok) {
+        for (const e of t.errors) errors.push(e);
+        continue;
+      }
+      prepared = t;
+      fitRun = t.plan;
+    } else {
+      const block = fit.blocks[0];
+      const src = loaded.tables.get(block.data);
+      if (!src) {
+        if (!loaded.failed.has(block.data)) errors.push({ code: 'unknown_data', message: errorText.unknownData(fit.name, block.data), range: block.range, fit: fit.name });
+        continue;
+      }
+      try {
+        prepared = prepareFitData(fit, src.source, src.table, compileColumnExpr);
+      } catch (e) {
+        prepared = { ok: false as const, errors: [{ code: 'internal', message: errorText.internal(fit.name, e instanceof Error ? e.message : String(e)), range: fit.range, fit: fit.name }] };
+      }
     }
     if (!prepared.ok) {
       for (const e of prepared.errors) errors.push(e);
@@ -173,9 +189,9 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
     }
     // groups of a per-group fit share one start and retry from their own data (engine/groups/group-job.ts);
     // the start is computed from every group, also in a shard
-    const shared = fit.groupBy !== undefined ? sharedStart(fit, prepared.data) : undefined;
+    const shared = fit.groupBy !== undefined || tables ? sharedStart(fitRun, prepared.data) : undefined;
     let groups = prepared.data;
-    const joint = isJointFit(fit);
+    const joint = isJointFit(fit) || (tables && isJointOverTables(fitRun));
     if (joint && shard) {
       errors.push({ code: 'not_supported', message: jointText.sharded(fit.name), range: fit.range, fit: fit.name });
       continue;
@@ -187,15 +203,15 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
     }
     total += groups.length - 1;
     if (shared && groups.length > 1) {
-      const fitted = (yield { fit, groups, done, total, shared }) as FitResult[] | undefined;
+      const fitted = (yield { fit: fitRun, groups, done, total, shared }) as FitResult[] | undefined;
       if (fitted) {
         done += groups.length;
         // Groups the cancellation caught before they started are left out, as in the loop below.
         const started = fitted.filter((r) => !isUnstarted(r));
-        for (const r of started) results.get(fit.name)!.push(groupBootstrap(fit, data0(groups), r));
+        for (const r of started) results.get(fit.name)!.push(groupBootstrap(fitRun, data0(groups), r));
         const missed = fitted.find(isUnstarted);
         if (missed) errors.push({ code: 'cancelled', message: runText.cancelledBefore(runText.fitLabel(fit.name, missed.group ?? '')), range: fit.range, fit: fit.name });
-        else if (joint) jointFits.push(finishJoint(fit, groups, results, opts));
+        else if (joint) jointFits.push(finishJoint(fitRun, groups, results, opts, tables));
         continue;
       }
     }
@@ -210,9 +226,9 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
         : {};
       const trace = opts.trace ? { trace: true } : {};
       const one = shared
-        ? fitOneGroup(fit, data, { cancel: opts.cancel, shared, ...(opts.solvers ? { solvers: opts.solvers } : {}), ...watch, ...trace })
+        ? fitOneGroup(fitRun, data, { cancel: opts.cancel, shared, ...(opts.solvers ? { solvers: opts.solvers } : {}), ...watch, ...trace })
         : runFit(fit, data, { cancel: opts.cancel, solvers: opts.solvers, ...watch, ...trace });
-      let final = shared ? groupBootstrap(fit, data, one) : one;
+      let final = shared ? groupBootstrap(fitRun, data, one) : one;
       if (!shared) {
         // a single fit: its bootstrap (engine/run/bootstrap-fit.ts) and the rows for the intervals of its derived quantities
         const planned = planBootstrap(fit, data, one);
@@ -230,7 +246,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
       opts.onProgress?.({ fit: fit.name, ...(data.group !== undefined ? { group: data.group } : {}), done: ++done, total });
       yield;
     }
-    if (joint && results.get(fit.name)!.length === groups.length && !opts.cancel?.cancelled) jointFits.push(finishJoint(fit, groups, results, opts));
+    if (joint && results.get(fit.name)!.length === groups.length && !opts.cancel?.cancelled) jointFits.push(finishJoint(fitRun, groups, results, opts, tables));
   }
 
   const provenance: Provenance = {
@@ -247,10 +263,10 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
 }
 
 /** The joint fit of a fit with shared parameters, from its groups' separate results, which it replaces in `results` (engine/run/joint.ts). */
-function finishJoint(fit: FitPlan, groups: FitData[], results: Map<string, FitResult[]>, opts: RunOptions): JointFitResult {
+function finishJoint(fit: FitPlan, groups: FitData[], results: Map<string, FitResult[]>, opts: RunOptions, tables: boolean): JointFitResult {
   const run = runJointFit(fit, groups, results.get(fit.name)!, opts.cancel ? { cancel: opts.cancel } : {});
   results.set(fit.name, run.results);
-  return run.joint;
+  return tables ? { ...run.joint, over: 'tables' } : run.joint;
 }
 
 /** What the fitting of a run produced, before its queries, derived quantities and expectations. */
@@ -280,7 +296,7 @@ export function finishRun(plan: Plan, run: FittedRun): RunResult {
     const fp = fitPlans.get(name);
     if (!fp) continue;
     // per-group fits: their groups' residual warnings decided across the groups (Holm; engine/groups/flags.ts)
-    const decided = fp.groupBy !== undefined ? adjustGroupWarnings(list) : list;
+    const decided = fitHasGroups(fp) ? adjustGroupWarnings(list) : list;
     // the model equation and the weighting, stated in every view (engine/front/views/summary.ts modelLine)
     const model = fitModelText(fp);
     // the declared units of the response and predictor, for labels (engine/front/views)
@@ -290,7 +306,7 @@ export function finishRun(plan: Plan, run: FittedRun): RunResult {
   }
   const ran = (name: string) => fitPlans.has(name);
   const queries = plan.queries.filter((q) => (q.kind === 'compare' ? q.fits.every(ran) : ran(q.fit)));
-  const q = runQueries(queries, { fitPlans: fitPlans as Map<string, FitPlan>, results });
+  const q = runQueries(queries, { fitPlans: fitPlans as Map<string, FitPlan>, results, ...(run.joint ? { joint: run.joint } : {}) });
   for (const e of q.errors) errors.push(e);
   const plain = runDerived(plan.derived ?? [], results, ran, run.joint ?? [], errors);
   const derived = run.refits ? derivedIntervals(plan.derived ?? [], results, plain, run.refits) : plain;

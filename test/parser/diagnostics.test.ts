@@ -281,7 +281,21 @@ describe('parser/check diagnostics', () => {
       'fit f on d {', '  model y = a * x', '  param a = 1', '}',
       `fit g on ${second} {`, '  model y = b * x', '  param b = 1', '  per batch', '}', after,
     ].join('\n');
-    expect(expectAt(two('d', 'compare f, «g»'), 'compare_per_group').message).toBe('compare needs fits without "per"; \'g\' runs per group');
+    expect(expectAt(two('d', 'compare f, «g»'), 'compare_per_group').message).toMatch(/^compare: 'g' gives one result per group and 'f' one for all rows/);
+    // fits with groups compare with fits of the same groups: the same column of the same data, or the same tables
+    const grouped = (a: string, b: string, after: string) => [
+      'data d = "a.csv"', 'data e = "b.csv"',
+      `fit f on ${a} {`, '  model y = a * x', '  param a = 1', '}',
+      `fit g on ${b} {`, '  model y = b * x', '  param b = 1', '}', after,
+    ].join('\n');
+    const perFit = (name: string, data: string, column: string, shared = '') => [`fit ${name} on ${data} {`, '  model y = a * x + c', '  param a = 1', `  param c = 0${shared}`, `  per ${column}`, '}'].join('\n');
+    const head = 'data d = "a.csv"\ndata e = "b.csv"\n';
+    expect(expectAt(`${head}${perFit('f', 'd', 'batch')}\n${perFit('g', 'd', 'z')}\ncompare f, «g»`, 'compare_groups_differ').message).toMatch(/'f' runs per batch of d and 'g' per z of d/);
+    expectAt(`${head}${perFit('f', 'd', 'batch')}\n${perFit('g', 'e', 'batch')}\ncompare f, «g»`, 'compare_groups_differ');
+    expectAt(grouped('d, e', 'e, d', 'compare f, «g»'), 'compare_groups_differ');
+    // the same groups: no diagnostic (a joint fit against the separate fits, two fits over the same tables)
+    expect(analyze(`${head}${perFit('f', 'd', 'batch', ' shared')}\n${perFit('g', 'd', 'batch')}\ncompare f, g`, HEADERS).diagnostics.map((d) => d.code)).toEqual(['unused_data']);
+    expect(analyze(grouped('d, e', 'd, e', 'compare f, g'), HEADERS).diagnostics).toEqual([]);
     const plain = (second: string, response: string, after: string) => [
       'data d = "a.csv"', 'data e = "b.csv"',
       'fit f on d {', '  model y = a * x', '  param a = 1', '}',
@@ -342,6 +356,26 @@ describe('parser/check diagnostics', () => {
     expectAt(spec({ items: '  param b «shared»', model: 'y = a * x + b' }), 'shared_without_groups');
     expectAt(spec({ items: '  param b «shared»\n  per batch\n  loss huber', model: 'y = a * x + b' }), 'joint_not_supported');
     expect(analyze(spec({ items: '  param b shared\n  per batch', model: 'y = a * x + b' })).diagnostics).toEqual([]);
+  });
+
+  it('repeated_data / table_column_missing / table_units_differ / tables_with_per: a fit over several tables, at the table name', () => {
+    const two = 'data d = "a.csv"\ndata e = "b.csv"\n';
+    const byFile: CheckContext = { headers: (name) => (name === 'e' ? ['x', 'w'] : ['x', 'y', 'batch']) };
+    expectAt(`${two}fit f on d, e, «e» {\n  model y = a * x\n  param a = 1\n}`, 'repeated_data');
+    const missing = expectAt(`${two}fit f on d, «e» {\n  model y = a * x + b\n  param a = 1\n  param b shared\n}`, 'table_column_missing', byFile);
+    expect(missing.message).toContain("'y'");
+    expectAt('data d = "a.csv" units x [mm]\ndata e = "b.csv" units x [cm]\nfit f on d, «e» {\n  model y = a * x\n  param a = 1\n}', 'table_units_differ');
+    expectAt(`${two}fit f on d, e {\n  model y = a * x + b\n  param a = 1\n  param b shared\n  «per batch»\n}`, 'tables_with_per');
+    expectAt(`${two}fit f on d, «g» {\n  model y = a * x\n  param a = 1\n}`, 'unknown_data');
+    // shared is allowed without per when the fit reads several tables; the plan has one block per table
+    const ok = analyze(`${two}fit f on d, e {\n  model y = a * x + b\n  param a = 1\n  param b shared\n}`, HEADERS);
+    expect(ok.diagnostics).toEqual([]);
+    const fit = ok.plan.fits[0];
+    expect(fit.blocks.map((b) => b.data)).toEqual(['d', 'e']);
+    expect(fit.parameters.map((p) => [p.name, p.scope])).toEqual([['a', 'perBlock'], ['b', 'shared']]);
+    expect(fit.blocks[1].range.start).toMatchObject({ line: 3, column: 13 });
+    // FIT."TABLE".PARAM names one table of such a fit
+    expect(analyze(`${two}fit f on d, e {\n  model y = a * x + b\n  param a = 1\n  param b shared\n}\nderive r = f."e".a / f."d".a`, HEADERS).diagnostics).toEqual([]);
   });
 
   it('text_or_column / text_not_allowed: a quoted item compared with a column (headers known)', () => {

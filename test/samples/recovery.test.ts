@@ -25,15 +25,17 @@ afterAll(cleanTemp);
 
 /** Fresh data sets per scenario: enough for a coverage count, few enough for the suite (about 10 s). */
 const DRAWS = 60;
-/** Scenarios with one fit and truth per parameter (the plate sample is a per-group fit, judged by its own coverage check; potency, a joint fit, by test/run/joint.test.ts). */
+/** Scenarios with one fit and truth per parameter, and the binding series (a joint fit over tables, truth per table); the plate sample is a per-group fit, judged by its own coverage check; potency, a joint fit, by test/run/joint.test.ts. */
 const SINGLE = Object.keys(SEEDS).filter((s) => s !== 'plate' && s !== 'potency');
 const ALPHA = 0.001;
 
-type Truth = Record<string, Record<string, number>>;
+/** Per fit: parameter → value, or (a fit over several tables, `binding`) table → parameter → value. */
+type Truth = Record<string, Record<string, number> | Record<string, Record<string, number>>>;
 
 describe('samples: parameter recovery over fresh seeds', () => {
   const truthOf = (files: Record<string, string>, name: string) => (JSON.parse(files['truth.json']) as { samples: Record<string, Truth> }).samples[name];
-  const checks = SINGLE.reduce((n, name) => n + Object.values(truthOf(generate(), name)).reduce((m, t) => m + Object.keys(t).length, 0), 0);
+  const count = (t: Record<string, unknown>): number => Object.values(t).reduce<number>((m, v) => m + (typeof v === 'object' && v !== null ? count(v as Record<string, unknown>) : 1), 0);
+  const checks = SINGLE.reduce((n, name) => n + count(truthOf(generate(), name)), 0);
   const limit = binomialQuantile(1 - ALPHA / checks, DRAWS, 0.05);
 
   it(`counts the checks and a limit from the binomial law (${checks} parameters)`, () => {
@@ -55,15 +57,22 @@ describe('samples: parameter recovery over fresh seeds', () => {
         for (const [rel, text] of Object.entries(files)) if (rel.startsWith(`${name}/`)) writeFileSync(join(dir, rel.slice(name.length + 1)), text);
         const { result } = await runSpec(spec, dir);
         const truth = truthOf(files, name);
-        for (const [fitName, params] of Object.entries(truth)) {
-          const fit = result.fits.find((f) => f.name === fitName)!;
+        for (const [fitName, byFit] of Object.entries(truth)) {
+          // a joint fit over tables: each table's result against its own truth (the shared kd counted per table)
+          const perTable = Object.values(byFit).every((v) => typeof v === 'object');
+          const entries: [string | undefined, Record<string, number>][] = perTable
+            ? Object.entries(byFit as Record<string, Record<string, number>>)
+            : [[undefined, byFit as Record<string, number>]];
+          for (const [group, params] of entries) {
+          const fit = result.fits.find((f) => f.name === fitName && f.group === group)!;
           expect(fit.stop.converged, `${name} seed ${seed}: ${fitName} ${fit.stop.message}`).toBe(true);
           fitted++;
           for (const [param, value] of Object.entries(params)) {
             const p = fit.parameters.find((q) => q.name === param)!;
-            const key = `${fitName}.${param}`;
+            const key = `${fitName}${group === undefined ? '' : `[${group}]`}.${param}`;
             const inside = value >= (p.lower as number) && value <= (p.upper as number);
             misses.set(key, (misses.get(key) ?? 0) + (inside ? 0 : 1));
+          }
           }
         }
       }

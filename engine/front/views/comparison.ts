@@ -21,6 +21,7 @@ import { formatInteger, formatNumber, formatP } from '../../format';
 import { AICC_CLEAR, AICC_TIE } from '../../thresholds';
 import { compareText } from '../../messages';
 import type { Align } from './table';
+import { inlineText } from './escape';
 
 type Comparison = Extract<QueryResult, { kind: 'compare' }>;
 type Row = Comparison['rows'][number];
@@ -83,7 +84,48 @@ export function comparisonBlock(q: Comparison): ComparisonBlock {
     measure('Akaike weight', (r) => formatNumber(r.akaikeWeight, 3)),
   ];
   const notes = ['AICc weighs how closely a model follows the data against how many parameters it spends; the Akaike weights share the support among these fits and add up to 1.'];
+  if (q.grouped) {
+    const g = q.grouped;
+    notes.unshift(compareText.wholeNote(g.groups.length, g.over === 'tables' ? 'tables' : `groups of ${inlineText(g.by)}`));
+    if (g.noPerGroup) notes.push(g.noPerGroup);
+  }
   if (q.fTest && q.nesting?.status === 'declared') notes.push(`The nested test holds only if ${q.fTest.simpler} is ${q.fTest.richer} with some parameters fixed or tied; the spec declares it, so the test rests on that declaration.`);
   for (const e of excluded) notes.push(`${e.fit} left out: ${e.reason}.`);
   return { heading, lead, headers: ['evidence', ...q.rows.map((r) => r.fit)], rows, align: ['left', ...q.rows.map((): Align => 'right')], notes };
+}
+
+/**
+ * The group-by-group table of a `compare` of per-group fits (`grouped.perGroup`; engine/run/compare-groups.ts):
+ * one row per group with each fit's AICc, the fit the group's data favour (on the scale of `decisionSentence`)
+ * and, for two fits, the group's nested F test; null when there is no such table.
+ */
+export function groupComparisonBlock(q: Comparison): ComparisonBlock | null {
+  const g = q.grouped;
+  if (!g?.perGroup || q.withheld) return null;
+  const two = q.fits.length === 2;
+  const what = g.over === 'tables' ? 'table' : inlineText(g.by);
+  const headers = [g.over === 'tables' ? 'table' : 'group', ...q.fits.map((f) => `AICc ${f}`), 'favoured', 'AICc above', ...(two ? ['F', 'df', 'p'] : [])];
+  const verdict = (r: NonNullable<typeof g.perGroup>[number]) => (r.best === null ? 'n/a' : r.deltaAicc <= AICC_TIE ? 'neither' : r.best);
+  const rows = g.perGroup.map((r) => [
+    inlineText(r.group),
+    ...r.aicc.map((v) => formatNumber(v, 6)),
+    verdict(r),
+    formatNumber(r.deltaAicc, 3),
+    ...(two ? (r.fTest ? [formatNumber(r.fTest.f, 4), `${r.fTest.df1}, ${r.fTest.df2}`, formatP(r.fTest.pValue)] : ['', '', '']) : []),
+  ]);
+  const count = (v: string) => g.perGroup!.filter((r) => verdict(r) === v).length;
+  const lead = [
+    [...q.fits.map((f) => `${f} favoured in ${count(f)}`), `neither (AICc within ${AICC_TIE}) in ${count('neither')}`].join(', ') + ` of ${g.perGroup.length} ${what === 'table' ? 'tables' : 'groups'}.`,
+  ];
+  const noF = [...new Set(g.perGroup.filter((r) => !r.fTest && r.noFTest).map((r) => r.noFTest!))];
+  const notes = two ? noF.map((n) => (g.perGroup!.every((r) => !r.fTest) ? n : `Some groups: ${n}`)) : [];
+  notes.push('Each row compares the two fits of that group alone, with its own residual variance; the groups are independent fits, so a p-value below 0.05 will appear in about one group in twenty by chance.');
+  return {
+    heading: `Group by group: ${q.fits.join(', ')}`,
+    lead,
+    headers,
+    rows,
+    align: ['left', ...q.fits.map((): Align => 'right'), 'left', 'right', ...(two ? (['right', 'right', 'right'] as Align[]) : [])],
+    notes,
+  };
 }

@@ -6,6 +6,7 @@
  * differences and ratios of the per-group parameters.
  */
 import type { JointFitResult, NestedFTest } from '../../result';
+import { inlineText as label } from './escape';
 import { DIGITS, formatEstimate, formatInterval, formatLevel, formatNumber, formatP, pClause } from '../../format';
 
 export interface JointTable {
@@ -34,21 +35,29 @@ function ssrPair(t: NestedFTest): string {
   return `${formatNumber(t.restricted.ssr)} → ${formatNumber(t.general.ssr)}`;
 }
 
-function reading(t: NestedFTest, alpha: number, what: string): string {
+function reading(t: NestedFTest, alpha: number, what: string, groups = 'groups'): string {
   if (t.note) return `${what}: ${t.note}.`;
   return t.pValue < alpha
-    ? `${what}: the groups differ (${pClause(t.pValue)} < ${formatNumber(alpha)}); a common value does not describe them.`
-    : `${what}: no evidence that the groups differ (${pClause(t.pValue)} ≥ ${formatNumber(alpha)}); this does not show they are equal.`;
+    ? `${what}: the ${groups} differ (${pClause(t.pValue)} < ${formatNumber(alpha)}); a common value does not describe them.`
+    : `${what}: no evidence that the ${groups} differ (${pClause(t.pValue)} ≥ ${formatNumber(alpha)}); this does not show they are equal.`;
+}
+
+/** The words for a joint fit's groups: the values of a column, or the tables of a fit over several tables (`over: 'tables'`). */
+function groupWords(j: JointFitResult): { one: string; many: string; per: string; over: string } {
+  const n = j.groups.length;
+  if (j.over === 'tables') return { one: 'table', many: 'tables', per: 'per table', over: `${n} table${n === 1 ? '' : 's'} (${j.groups.map(label).join(', ')})` };
+  return { one: 'group', many: 'groups', per: 'per group', over: `${n} group${n === 1 ? '' : 's'} of ${label(j.groupBy)}` };
 }
 
 export function jointBlocks(joint: readonly JointFitResult[]): JointBlock[] {
   return joint.map((j) => {
     const alpha = 1 - j.level;
     const level = formatLevel(j.level);
+    const w = groupWords(j);
     const lead = [
-      `Joint fit over ${j.groups.length} group${j.groups.length === 1 ? '' : 's'} of ${j.groupBy}: ${j.stop.converged ? 'converged' : 'NOT converged'} (${j.stop.code}: ${j.stop.message}; ${j.iterations} iterations).`,
-      `n ${j.n}, ${j.p} parameters (${j.shared.length} shared + ${j.groups.length} × ${j.perGroup.length} per group), ${j.dof} degrees of freedom, SSR ${formatNumber(j.ssr)}, s ${formatNumber(j.rmse)}.`,
-      ...j.leftOut.map((l) => `Left out: ${l.group} (${l.reason}).`),
+      `Joint fit over ${w.over}: ${j.stop.converged ? 'converged' : 'NOT converged'} (${j.stop.code}: ${j.stop.message}; ${j.iterations} iterations).`,
+      `n ${j.n}, ${j.p} parameters (${j.shared.length} shared + ${j.groups.length} × ${j.perGroup.length} ${w.per}), ${j.dof} degrees of freedom, SSR ${formatNumber(j.ssr)}, s ${formatNumber(j.rmse)}.`,
+      ...j.leftOut.map((l) => `Left out: ${label(l.group)} (${l.reason}).`),
     ];
     const tables: JointTable[] = [];
     tables.push({
@@ -68,15 +77,15 @@ export function jointBlocks(joint: readonly JointFitResult[]): JointBlock[] {
     for (const t of j.perParameter) tests.push([t.parameter, formatNumber(t.f, DIGITS.statistic), `${t.df1}, ${t.df2}`, formatP(t.pValue), ssrPair(t)]);
     if (tests.length) {
       tables.push({
-        title: 'Shared or per group (extra-sum-of-squares F test: the joint fit against the fit with these parameters per group)',
-        headers: ['per group instead', 'F', 'df', 'p', 'SSR shared → per group'],
+        title: `Shared or ${w.per} (extra-sum-of-squares F test: the joint fit against the fit with these parameters ${w.per})`,
+        headers: [`${w.per} instead`, 'F', 'df', 'p', `SSR shared → ${w.per}`],
         rows: tests,
         align: ['left', 'right', 'right', 'right', 'right'],
       });
     }
     if (j.pairs.length) {
       tables.push({
-        title: `Between groups (b − a with a Student-t interval, b / a with Fieller's interval, ${level})`,
+        title: `Between ${w.many} (b − a with a Student-t interval, b / a with Fieller's interval, ${level})`,
         headers: ['parameter', 'a', 'b', 'b − a', 'interval', 'b / a', 'interval'],
         rows: j.pairs.map((p) => {
           // The difference to the digits of its standard error (JCGM 100:2008, 7.2.6; engine/format.ts rule 4).
@@ -92,13 +101,14 @@ export function jointBlocks(joint: readonly JointFitResult[]): JointBlock[] {
       });
     }
     const notes: string[] = [];
-    if (j.sharedVsSeparate) notes.push(reading(j.sharedVsSeparate, alpha, `Shared ${j.shared.join(', ')}`));
-    else notes.push('No test of all shared parameters at once: a group\'s separate fit did not converge.');
+    if (j.sharedVsSeparate) notes.push(reading(j.sharedVsSeparate, alpha, `Shared ${j.shared.join(', ')}`, w.many));
+    else notes.push(`No test of all shared parameters at once: a ${w.one}'s separate fit did not converge.`);
     if (j.perGroup.length === 1 && j.sharedVsSeparate) {
       notes.push(`With ${j.perGroup[0]} the only parameter per group, this is the parallelism check of a relative-potency comparison (common practice): the ratio of ${j.perGroup[0]} between two groups is then their relative potency (or its inverse).`);
     }
-    for (const t of j.perParameter) notes.push(reading(t, alpha, t.parameter));
+    // (with one shared parameter its own test is the one above)
+    if (j.shared.length > 1 || !j.sharedVsSeparate) for (const t of j.perParameter) notes.push(reading(t, alpha, t.parameter, w.many));
     notes.push(JOINT_CAUTION);
-    return { heading: `Between groups: ${j.fit}`, lead, tables, notes };
+    return { heading: `Between ${w.many}: ${j.fit}`, lead, tables, notes };
   });
 }

@@ -10,7 +10,7 @@ import { LOSSES, LOSS_SPECS } from '../../../parser/registry/losses';
 import { METHOD_SPECS } from '../../../parser/registry/methods';
 import { DIGITS, formatEstimate, formatInteger, formatLevel, formatNumber, formatP, isUsable, MISSING, pClause } from '../../format';
 import { CORRELATION_SYMBOL, isLargeCondition, isSerialDurbinWatson, THRESHOLDS } from '../../thresholds';
-import { comparisonBlock } from './comparison';
+import { comparisonBlock, groupComparisonBlock } from './comparison';
 import { fitQueryBlock } from './queries';
 import { residualUnit, squaredUnit } from './units';
 import { durbinWatsonHint, influenceEntries, runsHint } from './influence';
@@ -279,7 +279,12 @@ export interface QueryBlock {
 /** One table per query, with the fit's level in the headings. */
 export function queryBlocks(result: RunResult): QueryBlock[] {
   // predict, invert and backcalc tables: ./queries.ts
-  return result.queries.map((q: QueryResult): QueryBlock => (q.kind === 'compare' ? comparisonBlock(q) : fitQueryBlock(result, q)!));
+  // (a compare of per-group fits adds its group-by-group table: comparison.ts groupComparisonBlock)
+  return result.queries.flatMap((q: QueryResult): QueryBlock[] => {
+    if (q.kind !== 'compare') return [fitQueryBlock(result, q)!];
+    const byGroup = groupComparisonBlock(q);
+    return byGroup ? [comparisonBlock(q), byGroup] : [comparisonBlock(q)];
+  });
 }
 
 /** `lod` or `lod [batch 2]` for a derived quantity of a per-group fit. */

@@ -8,7 +8,7 @@ import { memoryIo } from '../../../engine/front/cli/io';
 
 export const ROOT = join(__dirname, '..', '..', '..');
 export const SAMPLES = join(ROOT, 'samples');
-export const SAMPLE_NAMES = ['cooling', 'photometer', 'enzyme', 'thermistor', 'doseresponse', 'drift', 'arrhenius', 'plate', 'agonist', 'potency'] as const;
+export const SAMPLE_NAMES = ['cooling', 'photometer', 'enzyme', 'thermistor', 'doseresponse', 'drift', 'arrhenius', 'plate', 'agonist', 'potency', 'binding'] as const;
 
 const made: string[] = [];
 

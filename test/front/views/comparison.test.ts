@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { comparisonBlock, decisionSentence, nestedTestSentence } from '../../../engine/front/views/comparison';
+import { comparisonBlock, decisionSentence, groupComparisonBlock, nestedTestSentence } from '../../../engine/front/views/comparison';
 import { AICC_CLEAR, AICC_TIE } from '../../../engine/thresholds';
 import { markdownReport } from '../../../engine/front/views/markdown';
 import { queryTextLines } from '../../../engine/front/views/text';
@@ -61,5 +61,37 @@ describe('views/comparison', () => {
       '',
     ]);
     expect(lines[6]).toBe('| evidence | cal | cal_quad |');
+  });
+
+  it('a compare of per-group fits: the wholes note first, then one row per group with the fit each group favours', () => {
+    const ft = { f: 13.9, df1: 1, df2: 20, pValue: 0.0013, simpler: 'a', richer: 'b' };
+    const q: Comparison = {
+      kind: 'compare', fits: ['a', 'b'], rows: [row('a', 6, 20, 4, 0.12), row('b', 8, 16, 0, 0.88)],
+      grouped: {
+        by: 'sample\u001b[31m', over: 'column', groups: ['REF', 'TEST', 'T3'], joint: [],
+        perGroup: [
+          { group: 'REF', aicc: [10, 5], best: 'b', deltaAicc: 5, fTest: ft },
+          { group: 'TE\u001bST', aicc: [7, 8], best: 'a', deltaAicc: 1, noFTest: 'No nested test: x.' },
+          { group: 'T3', aicc: [NaN, 8], best: null, deltaAicc: NaN, noFTest: 'No nested test: fewer than two fits could be ranked.' },
+        ],
+      },
+    };
+    const whole = comparisonBlock(q);
+    expect(whole.notes[0]).toMatch(/^Each fit is taken as a whole over its 3 groups of sample\\u001b\[31m: /);
+    const b = groupComparisonBlock(q)!;
+    expect(b.heading).toBe('Group by group: a, b');
+    expect(b.headers).toEqual(['group', 'AICc a', 'AICc b', 'favoured', 'AICc above', 'F', 'df', 'p']);
+    expect(b.rows.map((r) => r[3])).toEqual(['b', 'neither', 'n/a']); // a gap within 2 favours neither
+    expect(b.rows[0].slice(5)).toEqual(['13.9', '1, 20', '0.0013']);
+    expect(b.rows[1][0]).not.toContain('\u001b'); // user text through escape.ts
+    expect(b.rows[2][1]).toBe('n/a');
+    expect(b.lead).toEqual(['a favoured in 0, b favoured in 1, neither (AICc within 2) in 1 of 3 groups.']);
+    // the text view shows both blocks
+    const result = { queries: [q] } as unknown as RunResult;
+    const text = queryTextLines(result).join('\n');
+    expect(text).toContain('Which model the data support: a, b');
+    expect(text).toContain('Group by group: a, b');
+    // a comparison with a joint fit has no group table
+    expect(groupComparisonBlock({ ...q, grouped: { ...q.grouped!, joint: ['a'], perGroup: undefined, noPerGroup: 'x' } })).toBeNull();
   });
 });
