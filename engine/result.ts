@@ -808,6 +808,10 @@ export interface JointEstimate {
   lower: number | null;
   upper: number | null;
   unit?: string;
+  /** Profile-likelihood interval of the shared parameter, when computed (engine/run/joint-intervals.ts; additive, optional). */
+  profile?: ProfileInterval;
+  /** Bootstrap intervals of the shared parameter, when the fit ran one (engine/run/joint-bootstrap.ts; additive, optional). */
+  bootstrap?: BootstrapInterval;
 }
 
 /** Extra-sum-of-squares F test of a model nested in a larger one (Seber & Wild 1989, §5.3): F = ((SSR₀ − SSR₁)/(dof₀ − dof₁)) / (SSR₁/dof₁). */

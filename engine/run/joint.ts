@@ -41,6 +41,8 @@ import { fitStatistics } from './fit-stats';
 import { expandMatrix } from './fit-result';
 import { jointText } from '../messages';
 import { compareGroups } from './joint-compare';
+import { jointProfiles } from './joint-intervals';
+import type { JointProfileContext } from './joint-profile';
 
 export function isJointFit(fit: FitPlan): boolean {
   return fit.groupBy !== undefined && fit.parameters.some((p) => p.acrossGroups === 'shared' && !p.fixed);
@@ -139,6 +141,8 @@ export interface JointRun {
   /** One result per group of the fit, in group order (left-out groups: their separate result). */
   results: FitResult[];
   joint: JointFitResult;
+  /** The solve, s² and the groups kept (indices into the data given), for the bootstrap and the derived quantities' intervals (engine/run/joint-intervals.ts). */
+  solved?: { solved: JointSolved; s2: number; ok: boolean; keep: number[]; profile: JointProfileContext | null };
 }
 
 /**
@@ -201,6 +205,9 @@ export function runJointFit(fit: FitPlan, data: FitData[], separate: FitResult[]
 
   const results = separate.slice();
   if (solved) keep.forEach((g, k) => (results[g] = groupResult(solved, k, s2, ok, stop, clock() - t0)));
+  // profile-likelihood intervals over the joint problem (engine/run/joint-intervals.ts)
+  const profiled = solved ? jointProfiles(fit, solved, keep.map((g) => results[g]), estimates, s2, ok) : null;
+  if (profiled) keep.forEach((g, k) => (results[g] = profiled.results[k]));
   const comparisons = solved && ok ? compareGroups(solved, separate, keep, s2, opts) : { sharedVsSeparate: null, perParameter: [], pairs: [] };
   const joint: JointFitResult = {
     fit: fit.name,
@@ -219,12 +226,12 @@ export function runJointFit(fit: FitPlan, data: FitData[], separate: FitResult[]
     rmse: ok ? Math.sqrt(solved!.ssr / dof) : NaN,
     level: fit.options.level,
     sigmaAbsolute,
-    estimates,
+    estimates: profiled ? profiled.estimates : estimates,
     ...comparisons,
     cross: { scale: ok ? s2 : NaN, x: solved ? solved.cov.groups.map((c) => Array.from(c.x)) : [] },
     elapsedMs: clock() - t0,
   };
-  return { results, joint };
+  return { results, joint, ...(solved ? { solved: { solved, s2, ok, keep, profile: profiled?.context ?? null } } : {}) };
 }
 
 /** Warnings computed from a group's own Jacobian, which the joint covariance replaces (module comment). */
