@@ -538,6 +538,8 @@ export const jointIntervalText = {
     `${replicates} joint refits (${resample === 'cases' ? 'rows resampled within each group' : resample === 'adjusted' ? 'leverage-adjusted residuals (joint leverages) resampled within each group' : 'residuals resampled within each group'}, seed ${seed}) started from the joint estimate; ${num(100 * level)} % percentile intervals (Efron & Tibshirani 1993, §13.3)${failed > 0 ? `; ${failed} refits failed and are left out` : ''}`,
   bcaTooMany: (n: number, max: number) => `no BCa intervals: ${n} rows of the joint fit is over ${max} for the leave-one-out joint refits of the acceleration`,
   tooFewRows: 'a group has fewer rows than its own parameters',
+  lackOfFitPooled: 'not run per group of a joint fit: the groups share parameters, so the test is pooled over all groups (the joint fit\'s lack-of-fit test)',
+  lackOfFitPooledWarning: '(pooled over the groups of the joint fit: settings within each group, all its parameters)',
   shareNote: (p: number, dof: number) =>
     `this group's share of the joint fit's parameters is ${num(p)} (the trace of the joint hat matrix over its rows), leaving ${num(dof)} residual degrees of freedom of its own`,
 };

@@ -574,6 +574,13 @@ export interface FitResult {
   model?: FitModelText;
   /** Declared units of the response and the predictor (`units` of the data; additive, optional: absent when neither has one; set by the runner with `model`). */
   units?: FitUnits;
+  /**
+   * A group of a joint fit: its share of the joint fit's parameters (the trace of the joint hat matrix over its
+   * rows), the residual degrees of freedom and standard deviation of its own rows with that share, and the pooled
+   * s and dof of the joint fit that its goodness.rmse and goodness.dof report (engine/run/joint-group-stats.ts;
+   * additive, optional).
+   */
+  jointShare?: { parameters: number; dof: number; rmse: number; pooledRmse: number; pooledDof: number };
   /** Milliseconds spent fitting (not deterministic; views may omit it). */
   elapsedMs: number;
 }
@@ -876,5 +883,7 @@ export interface JointFitResult {
    * order (p_l × pₛ, row-major) and `scale` = s², so that Cov(θ_g, θ_h) = s²·X_g·X_hᵀ for g ≠ h.
    */
   cross: { scale: number; x: number[][] };
+  /** Lack-of-fit test pooled over the groups (settings distinct within each group, P parameters; engine/run/joint-group-stats.ts; additive, optional). */
+  lackOfFit?: LackOfFitTest;
   elapsedMs: number;
 }

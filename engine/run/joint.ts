@@ -42,6 +42,8 @@ import { expandMatrix } from './fit-result';
 import { jointText } from '../messages';
 import { compareGroups } from './joint-compare';
 import { jointProfiles } from './joint-intervals';
+import { jointGroupStatistics, jointLackOfFit } from './joint-group-stats';
+import { jointLeverages } from './joint-leverage';
 import type { JointProfileContext } from './joint-profile';
 
 export function isJointFit(fit: FitPlan): boolean {
@@ -205,6 +207,10 @@ export function runJointFit(fit: FitPlan, data: FitData[], separate: FitResult[]
 
   const results = separate.slice();
   if (solved) keep.forEach((g, k) => (results[g] = groupResult(solved, k, s2, ok, stop, clock() - t0)));
+  // each group's statistics made consistent with the joint fit: pooled s, its share of the parameters (engine/run/joint-group-stats.ts)
+  const leverages = solved && ok ? jointLeverages(solved) : null;
+  const lackOfFit = solved && ok ? jointLackOfFit(solved, setup.problems.map((_, k) => groupResiduals(solved, k))) : null;
+  if (solved && leverages) keep.forEach((g, k) => (results[g] = jointGroupStatistics(solved, k, results[g], leverages[k], s2, ok, lackOfFit)));
   // profile-likelihood intervals over the joint problem (engine/run/joint-intervals.ts)
   const profiled = solved ? jointProfiles(fit, solved, keep.map((g) => results[g]), estimates, s2, ok) : null;
   if (profiled) keep.forEach((g, k) => (results[g] = profiled.results[k]));
@@ -229,9 +235,22 @@ export function runJointFit(fit: FitPlan, data: FitData[], separate: FitResult[]
     estimates: profiled ? profiled.estimates : estimates,
     ...comparisons,
     cross: { scale: ok ? s2 : NaN, x: solved ? solved.cov.groups.map((c) => Array.from(c.x)) : [] },
+    ...(lackOfFit ? { lackOfFit } : {}),
     elapsedMs: clock() - t0,
   };
   return { results, joint, ...(solved ? { solved: { solved, s2, ok, keep, profile: profiled?.context ?? null } } : {}) };
+}
+
+/** The residuals of group k's problem (weighted) at the joint solution. */
+function groupResiduals(solved: JointSolved, k: number): Float64Array {
+  const { setup, outcome } = solved;
+  const pl = setup.localIdx.length;
+  const theta = new Float64Array(setup.free.length);
+  setup.sharedIdx.forEach((j, m) => (theta[j] = outcome.shared[m]));
+  setup.localIdx.forEach((j, m) => (theta[j] = outcome.local[k * pl + m]));
+  const r = new Float64Array(setup.data[k].n);
+  setup.problems[k].residuals(theta, r);
+  return r;
 }
 
 /** Warnings computed from a group's own Jacobian, which the joint covariance replaces (module comment). */

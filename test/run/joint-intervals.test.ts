@@ -29,7 +29,7 @@ import { runSpec, tempDir } from './helpers';
 const here = join(__dirname, 'joint-intervals');
 const plate = join(__dirname, 'joint', 'plate.csv');
 const reference = JSON.parse(readFileSync(join(here, 'reference.json'), 'utf8')) as {
-  library: string; names: string[]; estimates: number[]; se: number[]; dof: number; t: number;
+  library: string; names: string[]; estimates: number[]; se: number[]; ssr: number; dof: number; t: number;
   profiles: Record<string, [number, number]>;
   ratio: { value: number; se: number; profile: [number, number]; fieller: [number, number] };
 };
@@ -85,7 +85,7 @@ describe('run/joint-intervals', () => {
 
   it('the profile interval of a ratio across groups matches the one by hand and lies beside Fieller\'s', async () => {
     const result = await run();
-    const rel = result.derived.find((d) => d.name === 'rel')!;
+    const rel = result.derived!.find((d) => d.name === 'rel')!;
     expect(rel.value!).toBeCloseTo(reference.ratio.value, 8);
     expect(rel.stderr! / reference.ratio.se).toBeCloseTo(1, 4);
     expect(rel.profile?.status).toBe('computed');
@@ -108,14 +108,57 @@ describe('run/joint-intervals', () => {
     const g = off.fits.find((f) => f.name === 'potency')!;
     expect(g.profile?.status).toBe('skipped');
     expect(g.parameters.every((p) => p.profile === undefined)).toBe(true);
-    expect(off.derived[0].profile?.status).toBe('skipped');
+    expect(off.derived![0].profile?.status).toBe('skipped');
+  });
+
+  it('group statistics: pooled s and dof, shares of the parameters summing to P, the lack-of-fit test pooled by hand', async () => {
+    const result = await run();
+    const joint = result.joint![0];
+    const groups = result.fits.filter((f) => f.name === 'potency');
+    const P = joint.n - joint.dof;
+    expect(P).toBe(5);
+    let share = 0;
+    for (const g of groups) {
+      expect(g.goodness.dof).toBe(joint.dof);
+      expect(g.goodness.rmse).toBeCloseTo(joint.rmse, 12);
+      expect(g.goodness.aic).toBeNaN();
+      expect(g.jointShare!.dof).toBeCloseTo(g.goodness.n - g.jointShare!.parameters, 12);
+      expect(g.jointShare!.rmse).toBeCloseTo(Math.sqrt(g.goodness.ssr / g.jointShare!.dof), 10);
+      // each group has its own ec50 (1) and part of the 3 shared parameters
+      expect(g.jointShare!.parameters).toBeGreaterThan(1);
+      expect(g.jointShare!.parameters).toBeLessThan(4);
+      share += g.jointShare!.parameters;
+      expect(g.residuals.lackOfFit?.f).toBeNull();
+      expect(g.residuals.curvature).toBeUndefined();
+      // studentized residuals with the pooled s and the joint leverages: eᵢ/(s√(1 − hᵢ))
+      g.points.studentized.forEach((t, i) => expect(t).toBeCloseTo(g.points.residual[i] / (joint.rmse * Math.sqrt(1 - g.points.leverage[i])), 10));
+    }
+    expect(share).toBeCloseTo(P, 10);
+    // pooled lack of fit by hand (NIST/SEMATECH e-Handbook §4.4.4.4): pure error about the mean of each (sample, dose) cell
+    const lines = readFileSync(plate, 'utf8').trim().split('\n').slice(1).map((l) => l.split(','));
+    const cells = new Map<string, number[]>();
+    for (const [sample, dose, signal] of lines) cells.set(`${sample}|${dose}`, [...(cells.get(`${sample}|${dose}`) ?? []), Number(signal)]);
+    let pe = 0;
+    for (const ys of cells.values()) {
+      const m = ys.reduce((a, b) => a + b, 0) / ys.length;
+      pe += ys.reduce((a, y) => a + (y - m) ** 2, 0);
+    }
+    const dfLof = cells.size - P;
+    const dfPe = lines.length - cells.size;
+    const f = ((reference.ssr - pe) / dfLof) / (pe / dfPe);
+    const lof = joint.lackOfFit!;
+    expect(lof.dfLackOfFit).toBe(dfLof);
+    expect(lof.dfPureError).toBe(dfPe);
+    expect(lof.f!).toBeCloseTo(f, 6);
   });
 
   it('joint leverages equal the diagonal of the dense hat matrix and sum to P', () => {
     const text = readFileSync(plate, 'utf8');
     const { plan } = analyze(spec(), { headers: () => ['sample', 'dose', 'signal'] });
     const fit = plan.fits[0];
-    const prepared = prepareFitData(fit, plan.data[0], parseCsvText(text).table, compileColumnExpr);
+    const parsed = parseCsvText(text);
+    if (!parsed.ok) throw new Error('csv');
+    const prepared = prepareFitData(fit, plan.data[0], parsed.table, compileColumnExpr);
     if (!prepared.ok) throw new Error('prepare failed');
     const setup = jointSetup(fit, prepared.data, new Set(['bottom', 'top', 'slope']));
     const solved = solveJoint(setup, Float64Array.of(0.1, 2, 1.2), Float64Array.of(1, 2), {});
@@ -159,7 +202,7 @@ describe('run/joint-intervals', () => {
         expect(p.bootstrap!.upper).toBeGreaterThan(p.estimate);
       }
     }
-    const rel = a.derived.find((d) => d.name === 'rel')!;
+    const rel = a.derived!.find((d) => d.name === 'rel')!;
     expect(rel.bootstrap?.status).toBe('computed');
     expect(rel.bootstrap!.interval!.lower).toBeLessThan(rel.value!);
     expect(rel.bootstrap!.interval!.upper).toBeGreaterThan(rel.value!);
