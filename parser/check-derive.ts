@@ -18,6 +18,7 @@ import { BUILTIN_CONSTANTS, isBuiltinConstant, type Env } from './check-env';
 import { newUse, resolveExpr, type DeriveHooks, type ExprScope, type ExprUse } from './check-expr';
 import { lookupFit } from './check-queries';
 import { MSG } from './messages';
+import { checkGroupLabel } from './check-groups';
 
 
 function addFit(fits: string[], name: string): void {
@@ -73,6 +74,7 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
       const fit = lookupFit(env, head);
       // FIT."GROUP".NAME: the number of one group of a per-group fit (group labels are known only with the data: engine/run/derived.ts)
       let group: string | undefined;
+      const groupRange = members[0]?.range ?? range;
       if (members[0]?.quoted) {
         group = members[0].name;
         members = members.slice(1);
@@ -83,6 +85,11 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
         }
         if (fit && fit.plan.groupBy === undefined) {
           env.r.report('unknown_target', MSG.groupOfUngroupedFit(fit.plan.name, group), range);
+          use.broken = true;
+          return zero;
+        }
+        // a label that is no value of the per column, when the data's labels are known (check-groups.ts)
+        if (!checkGroupLabel(env, fit, group, groupRange)) {
           use.broken = true;
           return zero;
         }
