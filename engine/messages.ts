@@ -544,3 +544,25 @@ export const weightingText = {
   derivedNote: (reads: readonly string[], fit: string, w: { kind: 'none' | 'weight' | 'sigma'; expression: string | null }) =>
     `${reads.join(', ')} ${reads.length === 1 ? 'depends' : 'depend'} on the weighting of ${fit} (${w.kind === 'sigma' ? `σ = ${w.expression}: on the scale of σ` : `weight ${w.expression}: on the weighted scale`}), so this value changes when the weighting does`,
 } as const;
+
+/** Profile and bootstrap intervals of joint fits (engine/run/joint-profile.ts, joint-bootstrap.ts, joint-intervals.ts). */
+export const jointIntervalText = {
+  notSolvable: 'the eliminated parameter could not be solved from the constraint',
+  outsideBounds: 'the eliminated parameter, solved from the constraint, leaves its bounds',
+  profileComputed: (level: number, critical: number, dof: number) =>
+    `${num(100 * level)} %, where the profile t statistic |τ| ≤ t = ${num(critical)} (${dof} degrees of freedom of the joint fit, pooled s); every refit is a joint fit of all groups, since holding one group's parameter moves the shared ones; Bates & Watts 1988, §6.1`,
+  profileOverBound: (np: number, bound: number) =>
+    `not computed: n·P = ${np} of the joint fit is over the work bound ${bound} (every profile refits all groups, P of them); \`profile always\` asks for it`,
+  notConverged: 'not computed: the joint fit did not converge',
+  derivedComputed: (level: number, critical: number, eliminated: string) =>
+    `${num(100 * level)} %, where the profile t statistic |τ| ≤ t = ${num(critical)}: the joint sum of squares minimised with the quantity held at each value (${eliminated} solved from it; Bates & Watts 1988, §6.1; Venzon & Moolgavkar 1988)`,
+  derivedNotRun: (fit: string) => `not computed: the joint fit ${fit} computed no profiles (see its note)`,
+  bootstrapComputed: (replicates: number, resample: string, seed: number, level: number, failed: number) =>
+    `${replicates} joint refits (${resample === 'cases' ? 'rows resampled within each group' : resample === 'adjusted' ? 'leverage-adjusted residuals (joint leverages) resampled within each group' : 'residuals resampled within each group'}, seed ${seed}) started from the joint estimate; ${num(100 * level)} % percentile intervals (Efron & Tibshirani 1993, §13.3)${failed > 0 ? `; ${failed} refits failed and are left out` : ''}`,
+  bcaTooMany: (n: number, max: number) => `no BCa intervals: ${n} rows of the joint fit is over ${max} for the leave-one-out joint refits of the acceleration`,
+  tooFewRows: 'a group has fewer rows than its own parameters',
+  lackOfFitPooled: 'not run per group of a joint fit: the groups share parameters, so the test is pooled over all groups (the joint fit\'s lack-of-fit test)',
+  lackOfFitPooledWarning: '(pooled over the groups of the joint fit: settings within each group, all its parameters)',
+  shareNote: (p: number, dof: number) =>
+    `this group's share of the joint fit's parameters is ${num(p)} (the trace of the joint hat matrix over its rows), leaving ${num(dof)} residual degrees of freedom of its own`,
+};

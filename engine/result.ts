@@ -604,6 +604,13 @@ export interface FitResult {
   model?: FitModelText;
   /** Declared units of the response and the predictor (`units` of the data; additive, optional: absent when neither has one; set by the runner with `model`). */
   units?: FitUnits;
+  /**
+   * A group of a joint fit: its share of the joint fit's parameters (the trace of the joint hat matrix over its
+   * rows), the residual degrees of freedom and standard deviation of its own rows with that share, and the pooled
+   * s and dof of the joint fit that its goodness.rmse and goodness.dof report (engine/run/joint-group-stats.ts;
+   * additive, optional).
+   */
+  jointShare?: { parameters: number; dof: number; rmse: number; pooledRmse: number; pooledDof: number };
   /** Milliseconds spent fitting (not deterministic; views may omit it). */
   elapsedMs: number;
 }
@@ -873,6 +880,10 @@ export interface JointEstimate {
   lower: number | null;
   upper: number | null;
   unit?: string;
+  /** Profile-likelihood interval of the shared parameter, when computed (engine/run/joint-intervals.ts; additive, optional). */
+  profile?: ProfileInterval;
+  /** Bootstrap intervals of the shared parameter, when the fit ran one (engine/run/joint-bootstrap.ts; additive, optional). */
+  bootstrap?: BootstrapInterval;
 }
 
 /** Extra-sum-of-squares F test of a model nested in a larger one (Seber & Wild 1989, §5.3): F = ((SSR₀ − SSR₁)/(dof₀ − dof₁)) / (SSR₁/dof₁). */
@@ -939,5 +950,7 @@ export interface JointFitResult {
    * order (p_l × pₛ, row-major) and `scale` = s², so that Cov(θ_g, θ_h) = s²·X_g·X_hᵀ for g ≠ h.
    */
   cross: { scale: number; x: number[][] };
+  /** Lack-of-fit test pooled over the groups (settings distinct within each group, P parameters; engine/run/joint-group-stats.ts; additive, optional). */
+  lackOfFit?: LackOfFitTest;
   elapsedMs: number;
 }

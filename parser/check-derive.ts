@@ -19,6 +19,7 @@ import { newUse, resolveExpr, type DeriveHooks, type ExprScope, type ExprUse } f
 import { lookupFit } from './check-queries';
 import { MSG } from './messages';
 import { fitHasGroups } from './plan-expr';
+import { checkGroupLabel } from './check-groups';
 
 
 function addFit(fits: string[], name: string): void {
@@ -74,6 +75,7 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
       const fit = lookupFit(env, head);
       // FIT."GROUP".NAME: the number of one group of a per-group fit (group labels are known only with the data: engine/run/derived.ts)
       let group: string | undefined;
+      const groupRange = members[0]?.range ?? range;
       if (members[0]?.quoted) {
         group = members[0].name;
         members = members.slice(1);
@@ -84,6 +86,11 @@ function hooks(env: Env, self: string, fits: string[]): DeriveHooks {
         }
         if (fit && !fitHasGroups(fit.plan)) {
           env.r.report('unknown_target', MSG.groupOfUngroupedFit(fit.plan.name, group), range);
+          use.broken = true;
+          return zero;
+        }
+        // a label that is no value of the per column, when the data's labels are known (check-groups.ts)
+        if (!checkGroupLabel(env, fit, group, groupRange)) {
           use.broken = true;
           return zero;
         }

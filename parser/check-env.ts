@@ -25,6 +25,13 @@ export interface CheckContext {
    * engine's guard, which has the same message.
    */
   isLinearIn?: (expr: Expr, params: readonly string[]) => boolean;
+  /**
+   * The distinct values of column `column` of a data source (the group labels of a `per column` fit), when the
+   * caller can read them (CLI: the whole file; editor: files up to its size cap). `undefined` means unknown:
+   * then a quoted group label is not checked here (the run still reports `unknown_group`). Values before the
+   * data's `where` filter: a label missing from them is certainly no group.
+   */
+  groupLabels?: (dataName: string, path: string, column: string, options: { delimiter?: ',' | ';' | '\t'; decimal?: '.' | ',' }) => readonly string[] | undefined;
 }
 
 export interface ConstInfo {

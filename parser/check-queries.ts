@@ -13,6 +13,7 @@ import { resolveValue } from './check-expr';
 import { MSG } from './messages';
 import { columnsOf, exprText, fitHasGroups, groupingOf, sameGrouping } from './plan-expr';
 import { QUERY_MEMBERS, isQueryMember, QUERY_MEMBER_SPECS } from './registry/statistics';
+import { checkGroupLabel } from './check-groups';
 
 /** The fit a statement names, or undefined (reported). */
 export function lookupFit(env: Env, name: NameAst | undefined): FitInfo | undefined {
@@ -280,6 +281,8 @@ export function checkExpect(env: Env, x: ExpectAst): Expectation | undefined {
       env.r.report('unknown_target', MSG.groupOfUngroupedFit(fit.plan.name, group), x.path[0].range);
       return undefined;
     }
+    // a label that is no value of the per column, when the data's labels are known (check-groups.ts)
+    if (!checkGroupLabel(env, fit, group, x.path[0].range)) return undefined;
   }
   const misplaced = path.find((p) => p.quoted);
   if (misplaced) {

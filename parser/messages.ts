@@ -76,6 +76,7 @@ export const CODES = {
   new_sigma_needed: { severity: 'error', when: 'predict, invert or an `expect … at` on a fit whose sigma or weight reads a column other than the predictor, without `sigma`/`weight` for the new observation' },
   query_option: { severity: 'error', when: '`readings` on predict or not a whole number ≥ 1; `sigma`/`weight` on a fit without that weighting, twice, with a count other than 1 or one per value, or not > 0; `backcalc` on a fit without one predictor or one response column' },
   unknown_query_member: { severity: 'error', when: 'an `expect FIT.PATH at …` whose path is not a query number (`fitted`, `prediction.lower`, `inverse.upper`, …)' },
+  unknown_group: { severity: 'error', when: 'a quoted group label (`FIT."GROUP".NAME` in derive or expect) that is no value of the fit\'s `per` column in its data (labels known), with "did you mean"' },
 } as const satisfies Record<string, { severity: Severity; when: string }>;
 
 export type DiagnosticCode = keyof typeof CODES;
@@ -190,6 +191,7 @@ export const MSG = {
   /** A quoted member anywhere but right after the fit name. */
   groupMisplaced: 'a quoted group label goes right after the fit name: FIT."GROUP".PARAM',
   /** FIT."GROUP" with nothing after it. */
+  unknownGroup: (fit: string, group: string, column: string) => `fit ${fit} has no group ${JSON.stringify(group)}: no row of its data has that value in column ${q(column)}`,
   groupNeedsMember: (fit: string, group: string) => `expected ${fit}.${JSON.stringify(group)}.PARAM or ${fit}.${JSON.stringify(group)}.STAT`,
   unknownDerived: (name: string) => `no derived quantity named ${q(name)}`,
   unknownDerivedPath: (name: string) => `after a derived quantity only .se (standard error), .lower or .upper (its confidence interval) may follow, not ${q(name)}`,

@@ -161,7 +161,8 @@ function collectNonNumeric(table: DataTable, col: DataColumn, file: string, erro
   }
 }
 
-function labelOf(col: DataColumn, i: number): string {
+/** The label of row i of a column read as labels (a text cell, or a number written as JavaScript prints it); exported for engine/data/labels.ts. */
+export function labelOf(col: DataColumn, i: number): string {
   if (col.text !== null) return col.text[i];
   const v = col.values[i];
   return Number.isNaN(v) ? '' : String(v);

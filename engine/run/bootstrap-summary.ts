@@ -144,7 +144,7 @@ export interface FitBootstrap {
 }
 
 /** The summary and the parameter intervals of a fit's bootstrap. `bcaNote` says why the job ran no jackknife, when it did not. */
-export function summarizeBootstrap(job: BootstrapJob, draws: BootstrapDraws, level: number, bcaNote: string | null): FitBootstrap {
+export function summarizeBootstrap(job: Pick<BootstrapJob, 'resample' | 'seed' | 'theta'>, draws: BootstrapDraws, level: number, bcaNote: string | null): FitBootstrap {
   const { p, replicates } = draws;
   const counts = new Map<string, number>();
   let failed = 0;

@@ -567,3 +567,68 @@ export function derivedFunctions(plans: readonly DerivedPlan[], results: Readonl
   }
   return out;
 }
+
+/**
+ * The derived quantities that read one joint fit (engine/run/joint.ts) and name a group in every
+ * reference (`FIT."GROUP".NAME`), as functions of the joint vector x = (θₛ, θ₁ … θ_G) in the layout of
+ * engine/run/joint-profile.ts, for their profile and bootstrap intervals (engine/run/joint-intervals.ts).
+ * Standard errors and statistics read are fixed numbers, as in `derivedFunctions`. A quantity that is not of
+ * this kind (several fits, a reference without a group, a group outside the joint solve) is left out.
+ */
+export function jointDerivedQuantities(plans: readonly DerivedPlan[], results: ReadonlyMap<string, FitResult[]>, joint: JointFitResult): Map<string, { reads: number[]; readsStatistics: boolean; at(x: Float64Array): { value: number; grad: Float64Array } }> {
+  const defs = new Map<string, Prepared | null>();
+  const out = new Map<string, { reads: number[]; readsStatistics: boolean; at(x: Float64Array): { value: number; grad: Float64Array } }>();
+  const ps = joint.shared.length;
+  const pl = joint.perGroup.length;
+  const groupResults = results.get(joint.fit) ?? [];
+  for (const d of plans) {
+    let prepared: Prepared;
+    try {
+      prepared = prepare(d, defs);
+    } catch {
+      prepared = { plan: d, fits: [], slots: [], direct: [], deps: [], model: null, error: derivedText.compileFailed('') };
+    }
+    defs.set(d.name, prepared.error ? null : prepared);
+    if (prepared.error || !prepared.model || prepared.fits.length !== 1 || prepared.fits[0] !== joint.fit) continue;
+    const base = new Float64Array(prepared.slots.length);
+    const map = new Int32Array(prepared.slots.length).fill(-1);
+    let bad = false;
+    prepared.slots.forEach((s, k) => {
+      const g = s.group === undefined ? -1 : joint.groups.indexOf(s.group);
+      const r = g < 0 ? undefined : groupResults.find((x) => x.group === s.group);
+      if (!r) {
+        bad = true;
+        return;
+      }
+      if (s.of === 'statistic') base[k] = statisticValue(r, s.name as Parameters<typeof statisticValue>[1]);
+      else {
+        const q = r.parameters.find((x) => x.name === s.name);
+        if (!q) bad = true;
+        else if (s.of === 'stderr') base[k] = q.stderr ?? NaN;
+        else {
+          base[k] = q.estimate;
+          const js = joint.shared.indexOf(s.name);
+          const jl = joint.perGroup.indexOf(s.name);
+          map[k] = js >= 0 ? js : jl >= 0 ? ps + g * pl + jl : -1;
+        }
+      }
+    });
+    if (bad) continue;
+    const reads = [...new Set(Array.from(map).filter((o) => o >= 0))];
+    const pos = Int32Array.from(map, (o) => (o >= 0 ? reads.indexOf(o) : -1));
+    const pp = prepared;
+    out.set(d.name, {
+      reads,
+      readsStatistics: prepared.slots.some((s) => s.of !== 'estimate'),
+      at(x: Float64Array) {
+        const theta = new Float64Array(base);
+        for (let k = 0; k < map.length; k++) if (map[k] >= 0) theta[k] = x[map[k]];
+        const raw = rawNumbers(pp, theta, '', new Map(), defs, () => false);
+        const grad = new Float64Array(reads.length);
+        for (let k = 0; k < pos.length; k++) if (pos[k] >= 0) grad[pos[k]] += raw.grad[k];
+        return { value: raw.value, grad };
+      },
+    });
+  }
+  return out;
+}

@@ -41,6 +41,10 @@ import { fitStatistics } from './fit-stats';
 import { expandMatrix } from './fit-result';
 import { jointText } from '../messages';
 import { compareGroups } from './joint-compare';
+import { jointProfiles } from './joint-intervals';
+import { jointGroupStatistics, jointLackOfFit } from './joint-group-stats';
+import { jointLeverages } from './joint-leverage';
+import type { JointProfileContext } from './joint-profile';
 
 export function isJointFit(fit: FitPlan): boolean {
   return fit.groupBy !== undefined && fit.parameters.some((p) => p.acrossGroups === 'shared' && !p.fixed);
@@ -139,6 +143,8 @@ export interface JointRun {
   /** One result per group of the fit, in group order (left-out groups: their separate result). */
   results: FitResult[];
   joint: JointFitResult;
+  /** The solve, s² and the groups kept (indices into the data given), for the bootstrap and the derived quantities' intervals (engine/run/joint-intervals.ts). */
+  solved?: { solved: JointSolved; s2: number; ok: boolean; keep: number[]; profile: JointProfileContext | null };
 }
 
 /**
@@ -201,6 +207,13 @@ export function runJointFit(fit: FitPlan, data: FitData[], separate: FitResult[]
 
   const results = separate.slice();
   if (solved) keep.forEach((g, k) => (results[g] = groupResult(solved, k, s2, ok, stop, clock() - t0)));
+  // each group's statistics made consistent with the joint fit: pooled s, its share of the parameters (engine/run/joint-group-stats.ts)
+  const leverages = solved && ok ? jointLeverages(solved) : null;
+  const lackOfFit = solved && ok ? jointLackOfFit(solved, setup.problems.map((_, k) => groupResiduals(solved, k))) : null;
+  if (solved && leverages) keep.forEach((g, k) => (results[g] = jointGroupStatistics(solved, k, results[g], leverages[k], s2, ok, lackOfFit)));
+  // profile-likelihood intervals over the joint problem (engine/run/joint-intervals.ts)
+  const profiled = solved ? jointProfiles(fit, solved, keep.map((g) => results[g]), estimates, s2, ok) : null;
+  if (profiled) keep.forEach((g, k) => (results[g] = profiled.results[k]));
   const comparisons = solved && ok ? compareGroups(solved, separate, keep, s2, opts) : { sharedVsSeparate: null, perParameter: [], pairs: [] };
   const joint: JointFitResult = {
     fit: fit.name,
@@ -219,12 +232,25 @@ export function runJointFit(fit: FitPlan, data: FitData[], separate: FitResult[]
     rmse: ok ? Math.sqrt(solved!.ssr / dof) : NaN,
     level: fit.options.level,
     sigmaAbsolute,
-    estimates,
+    estimates: profiled ? profiled.estimates : estimates,
     ...comparisons,
     cross: { scale: ok ? s2 : NaN, x: solved ? solved.cov.groups.map((c) => Array.from(c.x)) : [] },
+    ...(lackOfFit ? { lackOfFit } : {}),
     elapsedMs: clock() - t0,
   };
-  return { results, joint };
+  return { results, joint, ...(solved ? { solved: { solved, s2, ok, keep, profile: profiled?.context ?? null } } : {}) };
+}
+
+/** The residuals of group k's problem (weighted) at the joint solution. */
+function groupResiduals(solved: JointSolved, k: number): Float64Array {
+  const { setup, outcome } = solved;
+  const pl = setup.localIdx.length;
+  const theta = new Float64Array(setup.free.length);
+  setup.sharedIdx.forEach((j, m) => (theta[j] = outcome.shared[m]));
+  setup.localIdx.forEach((j, m) => (theta[j] = outcome.local[k * pl + m]));
+  const r = new Float64Array(setup.data[k].n);
+  setup.problems[k].residuals(theta, r);
+  return r;
 }
 
 /** Warnings computed from a group's own Jacobian, which the joint covariance replaces (module comment). */

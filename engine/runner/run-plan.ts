@@ -49,6 +49,8 @@ import type { BootstrapChunk } from '../run/bootstrap';
 import { bootstrapThreads, runBootstrapInWorkers } from '../groups/bootstrap-threads';
 import { derivedIntervals, type RefitContext } from '../run/derived-intervals';
 import { createCancelFlag, setCancelled } from '../groups/protocol';
+import { withJointBootstrap } from '../run/joint-bootstrap';
+import { jointDerivedIntervals, type JointRefit } from '../run/joint-derived';
 
 export interface RunProgress {
   fit: string;
@@ -145,6 +147,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
   const jointFits: JointFitResult[] = [];
   const fitPlans = new Map<string, FitPlan>(fits.map((f) => [f.name, f]));
   const refits = new Map<string, RefitContext>();
+  const jointRefits = new Map<string, JointRefit>();
   let done = 0;
   let total = fits.length;
   for (const fit of fits) {
@@ -211,7 +214,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
         for (const r of started) results.get(fit.name)!.push(groupBootstrap(fitRun, data0(groups), r));
         const missed = fitted.find(isUnstarted);
         if (missed) errors.push({ code: 'cancelled', message: runText.cancelledBefore(runText.fitLabel(fit.name, missed.group ?? '')), range: fit.range, fit: fit.name });
-        else if (joint) jointFits.push(finishJoint(fitRun, groups, results, opts, tables));
+        else if (joint) jointFits.push(finishJoint(fitRun, groups, results, opts, tables, jointRefits));
         continue;
       }
     }
@@ -246,7 +249,7 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
       opts.onProgress?.({ fit: fit.name, ...(data.group !== undefined ? { group: data.group } : {}), done: ++done, total });
       yield;
     }
-    if (joint && results.get(fit.name)!.length === groups.length && !opts.cancel?.cancelled) jointFits.push(finishJoint(fitRun, groups, results, opts, tables));
+    if (joint && results.get(fit.name)!.length === groups.length && !opts.cancel?.cancelled) jointFits.push(finishJoint(fitRun, groups, results, opts, tables, jointRefits));
   }
 
   const provenance: Provenance = {
@@ -258,15 +261,19 @@ function* steps(plan: Plan, opts: RunOptions): Generator<GroupBatch | BootstrapB
     startedAt,
     ...(shard ? { shard: { index: shard.index, count: shard.count, ...(opts.fits ? { only: [...opts.fits] } : {}), fits: shardFits, fitErrors: errors.length } } : {}),
   };
-  const run = finishRun(plan, { fitPlans, results, errors, provenance, refits, ...(jointFits.length ? { joint: jointFits } : {}) });
+  const run = finishRun(plan, { fitPlans, results, errors, provenance, refits, ...(jointFits.length ? { joint: jointFits } : {}), ...(jointRefits.size ? { jointRefits } : {}) });
   return jointFits.length ? { ...run, joint: jointFits } : run;
 }
 
 /** The joint fit of a fit with shared parameters, from its groups' separate results, which it replaces in `results` (engine/run/joint.ts). */
-function finishJoint(fit: FitPlan, groups: FitData[], results: Map<string, FitResult[]>, opts: RunOptions, tables: boolean): JointFitResult {
-  const run = runJointFit(fit, groups, results.get(fit.name)!, opts.cancel ? { cancel: opts.cancel } : {});
+function finishJoint(fit: FitPlan, groups: FitData[], results: Map<string, FitResult[]>, opts: RunOptions, tables: boolean, jointRefits: Map<string, JointRefit>): JointFitResult {
+  const first = runJointFit(fit, groups, results.get(fit.name)!, opts.cancel ? { cancel: opts.cancel } : {});
+  // its bootstrap, in this thread (engine/run/joint-bootstrap.ts)
+  const { run, bootstrap } = withJointBootstrap(fit, first, opts.cancel);
   results.set(fit.name, run.results);
-  return tables ? { ...run.joint, over: 'tables' } : run.joint;
+  const joint = tables ? { ...run.joint, over: 'tables' as const } : run.joint;
+  if (run.solved) jointRefits.set(fit.name, { joint, solved: run.solved, bootstrap, asksBootstrap: fit.options.bootstrap !== undefined });
+  return joint;
 }
 
 /** What the fitting of a run produced, before its queries, derived quantities and expectations. */
@@ -282,6 +289,8 @@ export interface FittedRun {
   refits?: ReadonlyMap<string, RefitContext>;
   /** The joint fits' solves, for the covariance between groups of a derived quantity that reads several groups (absent: none). */
   joint?: readonly JointFitResult[];
+  /** The joint fits' solves and bootstraps, for the profile and bootstrap intervals of their derived quantities (absent: none, e.g. a gathered run). */
+  jointRefits?: ReadonlyMap<string, JointRefit>;
 }
 
 /**
@@ -309,7 +318,8 @@ export function finishRun(plan: Plan, run: FittedRun): RunResult {
   const q = runQueries(queries, { fitPlans: fitPlans as Map<string, FitPlan>, results, ...(run.joint ? { joint: run.joint } : {}) });
   for (const e of q.errors) errors.push(e);
   const plain = runDerived(plan.derived ?? [], results, ran, run.joint ?? [], errors);
-  const derived = run.refits ? derivedIntervals(plan.derived ?? [], results, plain, run.refits) : plain;
+  const single = run.refits ? derivedIntervals(plan.derived ?? [], results, plain, run.refits) : plain;
+  const derived = run.jointRefits ? jointDerivedIntervals(plan.derived ?? [], results, single, run.jointRefits) : single;
   const queryAt: QueryNumber = (t, r, e) => queryNumber(fitPlans.get(t.fit)!, r, t, e.range);
   const expectations = checkExpectations(plan.expectations.filter((e) => expectationApplies(e, ran, derived)), results, derived, queryAt, errors);
   return {

@@ -29,6 +29,8 @@ export interface DataFileStatus {
   reason?: string;
   /** Span of the quoted path in the spec, for diagnostics. */
   pathSpan?: Span;
+  /** Group labels (distinct values) of the columns asked for in `HeaderRequest.labelColumns`, when the file was small enough to read whole (engine/data/labels.ts). */
+  labels?: Record<string, string[]>;
 }
 
 /** What the editor needs to read for one data statement. */
@@ -38,6 +40,8 @@ export interface HeaderRequest {
   delimiter?: ',' | ';' | '\t';
   decimal?: '.' | ',';
   pathSpan?: Span;
+  /** The `per` columns of the fits on this data, whose labels the checker and completion use (`FIT."GROUP"`). */
+  labelColumns?: string[];
 }
 
 export interface EditorAnalysis {
@@ -66,6 +70,15 @@ export function dataRequests(ast: SpecAst): HeaderRequest[] {
     }
     out.push(req);
   }
+  // the `per` column of each fit on a data statement: its labels are read with the header
+  for (const st of ast.statements) {
+    if (st.kind !== 'fit' || !st.data) continue;
+    const req = out.find((r) => r.name === st.data!.name);
+    for (const item of st.items) {
+      if (item.kind !== 'per' || !item.column || !req) continue;
+      req.labelColumns = [...new Set([...(req.labelColumns ?? []), item.column.name])];
+    }
+  }
   return out;
 }
 
@@ -76,7 +89,9 @@ export function completeAnalysis(
   data: DataFileStatus[],
 ): EditorAnalysis {
   const headers = (dataName: string): string[] | undefined => data.find((d) => d.name === dataName && d.state === 'found')?.headers;
-  const checked = check(parsed.ast, { headers, isLinearIn: isLinearInParameters });
+  // group labels from the same reading as completion's (`groupLabelsOf`)
+  const groupLabels = (dataName: string, _path: string, column: string): string[] | undefined => data.find((d) => d.name === dataName && d.state === 'found')?.labels?.[column];
+  const checked = check(parsed.ast, { headers, isLinearIn: isLinearInParameters, groupLabels });
   return { text, ast: parsed.ast, plan: checked.plan, diagnostics: [...parsed.diagnostics, ...checked.diagnostics], data };
 }
 
@@ -90,4 +105,9 @@ export function analyzeOffline(text: string): EditorAnalysis {
 /** Columns of the data source `dataName`, when its header was read. */
 export function columnsOf(analysis: EditorAnalysis, dataName: string): string[] | undefined {
   return analysis.data.find((d) => d.name === dataName && d.state === 'found')?.headers;
+}
+
+/** Group labels of column `column` of data source `dataName`, when they were read (the checker's `groupLabels` reads the same). */
+export function groupLabelsOf(analysis: EditorAnalysis, dataName: string, column: string): string[] | undefined {
+  return analysis.data.find((d) => d.name === dataName && d.state === 'found')?.labels?.[column];
 }

@@ -3,16 +3,18 @@
  * says is expected: a statement keyword, a fit-body keyword, a method or loss
  * name, a data or fit name, a `fit.` member in `expect` or `derive`, a column,
  * a CSV path, or an expression (functions, the fit's parameters, its data's
- * columns, constants; in `derive`: fits, constants and derived quantities). extension/language/completion.ts maps them to vscode items.
+ * columns, constants; in `derive`: fits, constants and derived quantities), a group label inside `FIT."` and
+ * the fit's members after `FIT."GROUP".`. extension/language/completion.ts maps them to vscode items.
  */
 import {
   CONSTANT_NAMES, MEMBERS, EXPRESSION_CONSTANTS, FUNCTION_NAMES, FUNCTION_SPECS, LOSSES, LOSS_SPECS, METHODS, METHOD_SPECS, PROFILE_MODES, BOOTSTRAP_RESAMPLES, RESERVED_ROLES, STATISTICS, keywordsWithRole,
 } from '../../parser/registry';
-import { columnsOf, type EditorAnalysis } from './analysis';
+import { columnsOf, groupLabelsOf, type EditorAnalysis } from './analysis';
 import { columnsOf as exprColumns } from '../../parser/plan-expr';
 import { constantDoc, keywordDoc, statisticDoc } from './function-docs';
 import { dataOfFit, enclosingFit, scanEnclosingFit } from './declarations';
 import { blankComments, linePrefix } from './text';
+import { labelsKept } from '../../parser/check-groups';
 
 export type CompletionKind = 'keyword' | 'function' | 'parameter' | 'column' | 'constant' | 'data' | 'fit' | 'statistic' | 'value' | 'file';
 
@@ -54,6 +56,11 @@ export function completionsAt(a: EditorAnalysis, offset: number, env: Completion
   let m: RegExpExecArray | null;
 
   if ((m = /^\s*data\s+\w+\s*=\s*"([^"]*)$/.exec(prefix))) return (env.csvFiles ?? []).map((f) => ({ label: f, kind: 'file' as const }));
+  // FIT."GROUP".NAME in derive and expect: the fit's group labels inside the quote, then its members
+  const reference = /^\s*(derive\s+\w+\s*=|expect\s)/.test(prefix);
+  if (reference && (m = /\b([A-Za-z_]\w*)\."([^"]*)$/.exec(prefix)) && !/"/.test(prefix.slice(0, m.index).replace(/"[^"]*"/g, ''))) return groupLabelItems(a, m[1]);
+  if (reference && (m = /\b([A-Za-z_]\w*)\."[^"]*"\.(\w+)\.\w*$/.exec(prefix)) && /^\s*expect\s/.test(prefix)) return members(m[2]);
+  if (reference && (m = /\b([A-Za-z_]\w*)\."[^"]*"\.\w*$/.exec(prefix))) return fitMembers(a, m[1]);
   if (/"[^"]*$/.test(prefix.replace(/"[^"]*"/g, ''))) return quotedColumns(a, fitName, prefix);
   if (/^\s*[A-Za-z_]*$/.test(prefix)) return inFit ? keywords(FIT_BODY_KEYWORDS) : keywords(STATEMENT_KEYWORDS);
   if (/\bmethod\s+\w*$/.test(prefix)) return METHODS.map((x) => ({ label: x, kind: 'value' as const, detail: 'method', documentation: METHOD_SPECS[x].doc }));
@@ -169,6 +176,16 @@ function quotedColumns(a: EditorAnalysis, fit: string | undefined, prefix: strin
   if (/^\s*data\b/.test(prefix) && !/\bwhere\b/.test(prefix)) return [];
   const data = fit ? dataOfFit(a, fit) : /^\s*data\s+(\w+)/.exec(prefix)?.[1];
   return (columnsOf(a, data ?? '') ?? []).map((c) => ({ label: c, kind: 'column' as const, detail: `column of ${data}` }));
+}
+
+/** The group labels of a `per` fit, from the data (`groupLabelsOf`, the checker's source): inside `FIT."`. */
+function groupLabelItems(a: EditorAnalysis, fit: string): LsqCompletion[] {
+  const f = a.plan.fits.find((x) => x.name === fit);
+  const column = f?.groupBy;
+  const data = dataOfFit(a, fit) ?? f?.blocks[0]?.data;
+  if (column === undefined || data === undefined) return [];
+  const kept = labelsKept(a.plan.data.find((d) => d.name === data)?.filter, column, groupLabelsOf(a, data, column) ?? []);
+  return kept.map((label) => ({ label, kind: 'value' as const, detail: `group of ${fit} (${column})` }));
 }
 
 function params(a: EditorAnalysis, fit: string): LsqCompletion[] {

@@ -9,12 +9,12 @@
  * Results are cached by file, modification time and size.
  */
 import * as vscode from 'vscode';
-import { readHeaderText } from '../../engine/data';
+import { distinctLabels, parseCsvText, readColumnLabels, readHeaderText } from '../../engine/data';
 import type { DataFileStatus, HeaderRequest } from '../logic/analysis';
 import { dataFileText, fileStamp, HEADER_CAP_BYTES, locateDataFile, readDataHeader, realFolders, type HeaderRead } from '../logic/data-files';
 
 export class HeaderReader implements vscode.Disposable {
-  private cache = new Map<string, { stamp: string; delimiter?: string; decimal?: string; read: HeaderRead }>();
+  private cache = new Map<string, { stamp: string; delimiter?: string; decimal?: string; labelColumns?: string; read: HeaderRead & { labels?: Record<string, string[]> } }>();
   private folders: Promise<string[]> | null = null;
   private readonly watch: vscode.Disposable;
 
@@ -45,7 +45,7 @@ export class HeaderReader implements vscode.Disposable {
     const uri = resolveDataUri(specUri, req.path);
     if (!uri) return base;
     const read = await this.read(uri, req);
-    return { ...base, state: read.state, ...(read.headers ? { headers: read.headers } : {}), ...(read.reason ? { reason: read.reason } : {}) };
+    return { ...base, state: read.state, ...(read.headers ? { headers: read.headers } : {}), ...(read.reason ? { reason: read.reason } : {}), ...(read.labels ? { labels: read.labels } : {}) };
   }
 
   /** The first line of the data file's header, when the rules let it be read (Go to Definition). */
@@ -54,11 +54,11 @@ export class HeaderReader implements vscode.Disposable {
     return uri ? (await this.read(uri, { name: '', path })).line : undefined;
   }
 
-  private async read(uri: vscode.Uri, req: HeaderRequest): Promise<HeaderRead> {
+  private async read(uri: vscode.Uri, req: HeaderRequest): Promise<HeaderRead & { labels?: Record<string, string[]> }> {
     return uri.scheme === 'file' ? this.readLocal(uri, req) : this.readRemote(uri, req);
   }
 
-  private async readLocal(uri: vscode.Uri, req: HeaderRequest): Promise<HeaderRead> {
+  private async readLocal(uri: vscode.Uri, req: HeaderRequest): Promise<HeaderRead & { labels?: Record<string, string[]> }> {
     const where = await locateDataFile(uri.fsPath, await this.localFolders());
     if (!where.inside) return { state: 'unknown', reason: dataFileText.outside };
     if (!where.exists) return { state: 'missing' };
@@ -66,13 +66,16 @@ export class HeaderReader implements vscode.Disposable {
     if (stamp === null) return { state: 'missing' };
     const key = uri.toString();
     const hit = this.cache.get(key);
-    if (hit && hit.stamp === stamp && hit.delimiter === req.delimiter && hit.decimal === req.decimal) return hit.read;
-    const read = await readDataHeader(where.real, req);
-    this.cache.set(key, { stamp, delimiter: req.delimiter, decimal: req.decimal, read });
+    const labelColumns = (req.labelColumns ?? []).join('\u0000');
+    if (hit && hit.stamp === stamp && hit.delimiter === req.delimiter && hit.decimal === req.decimal && hit.labelColumns === labelColumns) return hit.read;
+    const header = await readDataHeader(where.real, req);
+    // the labels of the per columns (completion of FIT." and the checker's unknown_group), files up to LABEL_EDITOR_MAX_BYTES
+    const read = header.state === 'found' && req.labelColumns?.length ? { ...header, labels: labelsOf(req, (c) => readColumnLabels(where.real, c, { delimiter: req.delimiter, decimal: req.decimal, maxBytes: LABEL_EDITOR_MAX_BYTES })) } : header;
+    this.cache.set(key, { stamp, delimiter: req.delimiter, decimal: req.decimal, labelColumns, read });
     return read;
   }
 
-  private async readRemote(uri: vscode.Uri, req: HeaderRequest): Promise<HeaderRead> {
+  private async readRemote(uri: vscode.Uri, req: HeaderRequest): Promise<HeaderRead & { labels?: Record<string, string[]> }> {
     if (!vscode.workspace.getWorkspaceFolder(uri)) return { state: 'unknown', reason: dataFileText.outside };
     let st: vscode.FileStat;
     try {
@@ -84,21 +87,39 @@ export class HeaderReader implements vscode.Disposable {
     const stamp = `${st.mtime}:${st.size}`;
     const key = uri.toString();
     const hit = this.cache.get(key);
-    if (hit && hit.stamp === stamp && hit.delimiter === req.delimiter && hit.decimal === req.decimal) return hit.read;
-    let read: HeaderRead;
+    const labelColumns = (req.labelColumns ?? []).join('\u0000');
+    if (hit && hit.stamp === stamp && hit.delimiter === req.delimiter && hit.decimal === req.decimal && hit.labelColumns === labelColumns) return hit.read;
+    let read: HeaderRead & { labels?: Record<string, string[]> };
     if (st.size > HEADER_CAP_BYTES) read = { state: 'unknown', reason: dataFileText.tooWide(HEADER_CAP_BYTES) };
     else {
       try {
         const text = Buffer.from(await vscode.workspace.fs.readFile(uri)).toString('utf8');
         const info = readHeaderText(text, { delimiter: req.delimiter, decimal: req.decimal });
         read = info ? { state: 'found', headers: info.headers, line: text.replace(/^\uFEFF/, '').split(/\r\n|\r|\n/)[0] } : { state: 'unreadable', reason: dataFileText.noHeader };
+        if (info && req.labelColumns?.length) {
+          const parsed = parseCsvText(text, { ...(req.delimiter ? { delimiter: req.delimiter } : {}), ...(req.decimal ? { decimal: req.decimal } : {}) });
+          read = { ...read, labels: labelsOf(req, (c) => (parsed.ok ? distinctLabels(parsed.table, c) : undefined)) };
+        }
       } catch (e) {
         read = { state: 'unreadable', reason: e instanceof Error ? e.message : String(e) };
       }
     }
-    this.cache.set(key, { stamp, delimiter: req.delimiter, decimal: req.decimal, read });
+    this.cache.set(key, { stamp, delimiter: req.delimiter, decimal: req.decimal, labelColumns, read });
     return read;
   }
+}
+
+/** Largest local data file whose labels the editor reads (the whole file, synchronously, cached by stamp): 8 MiB. */
+const LABEL_EDITOR_MAX_BYTES = 8 * 1024 * 1024;
+
+/** The labels of each requested column that could be read. */
+function labelsOf(req: HeaderRequest, read: (column: string) => string[] | undefined): Record<string, string[]> {
+  const out: Record<string, string[]> = {};
+  for (const c of req.labelColumns ?? []) {
+    const l = read(c);
+    if (l) out[c] = l;
+  }
+  return out;
 }
 
 /** The data file's uri: relative paths against the spec's folder; untitled specs have none. */

@@ -422,6 +422,20 @@ describe('parser/check diagnostics', () => {
     expect(analyze(spec({ after: 'derive k = f.a\nexpect k below 1\nexpect k.se below 1' })).diagnostics).toEqual([]);
   });
 
+  it('unknown_group: a quoted group label that is no value of the per column, at the label, with did you mean (labels known)', () => {
+    const labels: CheckContext = { ...HEADERS, groupLabels: (_d, _p, column) => (column === 'batch' ? ['Reference std', 'Test lot 7'] : undefined) };
+    const grouped = spec({ items: '  per batch' });
+    const d = expectAt(grouped + '\nderive rel = f.«"Reference std"».a / f.«"Test lot7"».a'.replace('«"Reference std"»', '"Reference std"'), 'unknown_group', labels);
+    expect(d.suggestions).toEqual(['Test lot 7']);
+    expect(d.message).toBe("fit f has no group \"Test lot7\": no row of its data has that value in column 'batch' - did you mean 'Test lot 7'?");
+    expectAt(grouped + '\nexpect f.«"Referense std"».a below 3', 'unknown_group', labels);
+    // known labels, and unknown labels (no reader, or the reader cannot tell), pass the check
+    expect(analyze(grouped + '\nderive rel = f."Reference std".a / f."Test lot 7".a', labels).diagnostics).toEqual([]);
+    expect(analyze(grouped + '\nderive rel = f."Nowhere".a', HEADERS).diagnostics).toEqual([]);
+    // a reader that throws means "unknown", not a crash
+    expect(analyze(grouped + '\nderive rel = f."Nowhere".a', { ...HEADERS, groupLabels: () => { throw new Error('disk'); } }).diagnostics).toEqual([]);
+  });
+
   it('every diagnostic code is exercised above', () => {
     expect([...seen].sort()).toEqual(Object.keys(CODES).sort());
   });

@@ -6,7 +6,7 @@ import { dirname, resolve } from 'node:path';
 import { analyze } from '../../../parser/index';
 import { isLinearInParameters } from '../../compile';
 import type { Diagnostic, Plan } from '../../../parser/plan';
-import { readHeader, type HeaderOptions } from '../../data/index';
+import { labelLookup, readHeader, type HeaderOptions } from '../../data/index';
 import { dataFilePath, inputStatus, readInputSync, type InputError } from '../../io/index';
 import type { CliIo } from './io';
 import { diagnosticLine, displayPath, located, sortDiagnostics } from './located-lines';
@@ -87,7 +87,8 @@ export function missingDataDiagnostics(plan: Plan, specDir: string): Diagnostic[
 
 export function checkSpec(spec: LoadedSpec): CheckedSpec {
   const headers = headerReader(spec.dir);
-  const { plan, diagnostics } = analyze(spec.text, { headers, isLinearIn: isLinearInParameters });
+  // group labels for `unknown_group` (engine/data/labels.ts): the distinct values of each `per` column
+  const { plan, diagnostics } = analyze(spec.text, { headers, isLinearIn: isLinearInParameters, groupLabels: labelLookup(spec.dir) });
   const longHeaders: Diagnostic[] = plan.data.flatMap((d) => {
     const message = headers.tooLong.get(d.path);
     return message ? [{ severity: 'warning' as const, code: 'header_too_long', message, range: d.range }] : [];

@@ -58,6 +58,10 @@ export function jointBlocks(joint: readonly JointFitResult[]): JointBlock[] {
       `Joint fit over ${w.over}: ${j.stop.converged ? 'converged' : 'NOT converged'} (${j.stop.code}: ${j.stop.message}; ${j.iterations} iterations).`,
       `n ${j.n}, ${j.p} parameters (${j.shared.length} shared + ${j.groups.length} × ${j.perGroup.length} ${w.per}), ${j.dof} degrees of freedom, SSR ${formatNumber(j.ssr)}, s ${formatNumber(j.rmse)}.`,
       ...j.leftOut.map((l) => `Left out: ${label(l.group)} (${l.reason}).`),
+      // the lack-of-fit test pooled over the groups (engine/run/joint-group-stats.ts)
+      ...(j.lackOfFit && j.lackOfFit.f !== null && j.lackOfFit.pValue !== null
+        ? [`Lack of fit, pooled over the groups: F(${j.lackOfFit.dfLackOfFit}, ${j.lackOfFit.dfPureError}) = ${formatNumber(j.lackOfFit.f, DIGITS.statistic)}, p = ${formatP(j.lackOfFit.pValue)} (pure error of ${j.lackOfFit.replicatedRows} replicated rows at ${j.lackOfFit.levels} settings within the groups).`]
+        : []),
     ];
     const tables: JointTable[] = [];
     tables.push({

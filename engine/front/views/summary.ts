@@ -164,7 +164,15 @@ export function goodnessEntries(fit: FitResult): Entry[] {
     e.push({ label: 'χ²', value: formatNumber(g.chi2) });
     e.push({ label: 'reduced χ² (χ²/dof)', value: formatNumber(g.chi2Reduced, DIGITS.statistic), note: 'near 1 when σ matches the scatter' });
   }
-  e.push({ label: 'AIC', value: formatNumber(g.aic), note: aicConvention(fit) }, { label: 'AICc', value: formatNumber(g.aicc) }, { label: 'BIC', value: formatNumber(g.bic) });
+  const share = fit.jointShare;
+  if (share) {
+    // a group of a joint fit (engine/run/joint-group-stats.ts): pooled s and dof; its own share; no information criteria
+    e[2] = { ...e[2], note: 'of the joint fit: all rows less all its parameters (the variance is pooled over the groups)' };
+    e[4] = { ...e[4], note: joinNotes(e[4].note, 'pooled over the groups: the s of every interval') };
+    e.push({ label: 'share of the parameters', value: formatNumber(share.parameters, DIGITS.statistic), note: `trace of the joint hat matrix over this group's rows; ${formatNumber(share.dof, DIGITS.statistic)} degrees of freedom of its own` });
+    e.push({ label: "this group's own RMSE", value: formatNumber(share.rmse), note: `√(SSR / its own degrees of freedom), against the pooled ${formatNumber(share.pooledRmse)}` });
+    e.push({ label: 'AIC, AICc, BIC', value: 'joint fit only', note: 'a group with shared parameters is not a model of its own' });
+  } else e.push({ label: 'AIC', value: formatNumber(g.aic), note: aicConvention(fit) }, { label: 'AICc', value: formatNumber(g.aicc) }, { label: 'BIC', value: formatNumber(g.bic) });
   e.push({ label: 'condition number', value: formatNumber(g.condition, DIGITS.magnitude), note: isLargeCondition(g.condition) ? `large (above ${formatNumber(THRESHOLDS.condition)}): parameters nearly redundant, digits may be lost` : undefined });
   const r = fit.residuals;
   if (r.durbinWatson !== null) e.push({ label: 'Durbin–Watson', value: formatNumber(r.durbinWatson, DIGITS.magnitude), note: durbinWatsonHint(r.durbinWatson, fit) });
