@@ -24,7 +24,7 @@
 'use strict';
 const fs = require('fs');
 const path = require('path');
-const { check, quickInput } = require('./harness.cjs');
+const { check, quickInput, panelFrame } = require('./harness.cjs');
 
 const SPEC = 'doseresponse.lsq';
 
@@ -218,4 +218,34 @@ async function editorChecks(page, { repo, ws, outDir }) {
   await setTheme(page, initial, initialClass);
 }
 
-module.exports = { writeEditorSpecs, editorChecks };
+/**
+ * The log/linear axis switch on the dose-response spec (as the editing steps left it: valid again): fitted from the
+ * command palette, its panel draws the doses (1 nM to 100 uM, log-spaced) on a log axis; "linear" redraws the fit
+ * chart on a linear axis (a tick at 0, which a log axis cannot have), "log" brings the log axis back.
+ */
+async function doseAxis(page) {
+  await quickInput(page, 'Control+P', SPEC, SPEC);
+  await page.locator('.tab.active', { hasText: SPEC }).first().waitFor();
+  await page.locator('.editor-group-container .monaco-editor .squiggly-error').first().waitFor({ state: 'detached' });
+  await quickInput(page, 'F1', 'Leastwise: Fit This File', 'Leastwise: Fit This File');
+  const frame = await panelFrame(page, SPEC);
+  // the tick labels of the fit chart's dose axis (the axis titled with the predictor)
+  const ticks = () => frame.locator('body[data-rendered="true"] figure[data-chart-id="fit"] svg .role-axis', { has: frame.locator('.role-axis-title', { hasText: 'dose_uM' }) })
+    .first().locator('.role-axis-label text').allTextContents();
+  await frame.locator('body[data-rendered="true"] figure[data-chart-id="fit"][data-marks]').waitFor();
+  const scale = frame.locator('.lw-segmented[data-control="x-scale"]');
+  const before = { on: await scale.locator('button.on').innerText(), ticks: await ticks() };
+  await scale.locator('button[data-value="linear"]').click();
+  await frame.locator('.lw-segmented[data-control="x-scale"] button.on[data-value="linear"]').waitFor();
+  await frame.locator('body[data-rendered="true"] figure[data-chart-id="fit"][data-marks]').waitFor();
+  const linear = await ticks();
+  await scale.locator('button[data-value="log"]').click();
+  await frame.locator('.lw-segmented[data-control="x-scale"] button.on[data-value="log"]').waitFor();
+  await frame.locator('body[data-rendered="true"] figure[data-chart-id="fit"][data-marks]').waitFor();
+  const back = await ticks();
+  check('log-spaced doses on a log axis; the switch redraws the fit chart linear (a tick at 0) and log again',
+    before.on === 'log' && !before.ticks.includes('0') && linear.includes('0') && back.join() === before.ticks.join(),
+    `log: ${before.ticks.join(' ')} | linear: ${linear.join(' ')}`);
+}
+
+module.exports = { writeEditorSpecs, editorChecks, doseAxis };

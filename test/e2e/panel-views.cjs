@@ -76,6 +76,15 @@ async function panelViews(page, ws, outDir) {
   await page.keyboard.press('Enter');
   const svg = await waitForFile(path.join(ws, 'newton-data-and-fitted-curve.svg'), (t) => t.trimEnd().endsWith('</svg>'));
   check('a chart saved as SVG next to the spec', /^<svg/.test(svg) && svg.includes('fitted curve'), `${svg.length} characters`);
+  // and as PNG: the file starts with the PNG signature and its header gives the size drawn
+  await frame.locator('figure[data-chart-id="fit"] button.lw-save[data-format="png"]').click();
+  await page.waitForFunction(() => /newton-data-and-fitted-curve\.png$/.test(document.querySelector('.quick-input-widget .quick-input-box input')?.value ?? ''));
+  await page.keyboard.press('Enter');
+  const pngFile = path.join(ws, 'newton-data-and-fitted-curve.png');
+  await waitForFile(pngFile, () => { const b = fs.readFileSync(pngFile); return b.length > 33 && b.subarray(b.length - 8).toString('latin1').includes('IEND'); });
+  const png = fs.readFileSync(pngFile);
+  const [w, hgt] = [png.readUInt32BE(16), png.readUInt32BE(20)];
+  check('a chart saved as PNG next to the spec', png.subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])) && w > 300 && hgt > 200, `${w}×${hgt} px, ${png.length} bytes`);
 
   // reload the window: the panels come back with the reader's choices
   await frame.locator('button.lw-nav-item[data-key="slow"]').click();
@@ -88,6 +97,11 @@ async function panelViews(page, ws, outDir) {
   const back = await panelFrame(page, 'trust.lsq');
   await back.locator('section.lw-fit[data-state="not_converged"]').waitFor({ timeout: 90000 });
   check('after a reload the panel comes back showing the fit the reader left it on', true);
+  // that fit stopped at its iteration limit: marked as not a fitted result, its goodness-of-fit statistics withheld
+  const slow = back.locator('section.lw-fit[data-state="not_converged"]');
+  const mark = (await slow.locator('.lw-notfitted').innerText()).trim();
+  const shownStats = [...await slow.locator('.lw-keystats dt').allTextContents(), ...await slow.locator('table.lw-goodness tbody tr th, table.lw-goodness tbody tr td:first-child').allTextContents()];
+  check('the fit that did not converge is marked as no fitted result and shows no R² or RMSE', /^Not a fitted result/.test(mark) && !shownStats.some((t) => /R²|RMSE/.test(t)), `${mark.slice(0, 60)}…; shown: ${shownStats.join(', ')}`);
   // every results panel shown beside it came back drawn too (after a reload the panels are revived side by side)
   const frames = page.locator('iframe.webview.ready');
   const drawn = [];

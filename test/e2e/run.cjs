@@ -15,7 +15,8 @@
 // trust views, then the same in three themes with screenshots (panel-views.cjs)
 // -> edit the dose-response sample (editor.cjs: one diagnostic for one
 // misspelling, unclosed-parenthesis range, bounds quick fixes, completion
-// order, semantic colours in three themes with screenshots) -> then a second
+// order, semantic colours in three themes with screenshots; then the log/linear
+// axis switch on its panel) -> then a second
 // server with Workspace Trust on for the Restricted Mode checks (restricted.cjs). No sleeps: every step waits for a
 // condition. Last line: "N passed, N failed"; exit 1 on failure.
 //
@@ -36,7 +37,7 @@ const { secs, check, anyFailed, finish, waitForFile, freePort, run, quickInput, 
 const { restrictedMode } = require('./restricted.cjs');
 const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
 const { writePlateSample, groupViews } = require('./views.cjs');
-const { writeEditorSpecs, editorChecks } = require('./editor.cjs');
+const { writeEditorSpecs, editorChecks, doseAxis } = require('./editor.cjs');
 const { panelViews, panelThemes } = require('./panel-views.cjs');
 
 (async () => {
@@ -223,6 +224,8 @@ const { panelViews, panelThemes } = require('./panel-views.cjs');
     // one wide group (opened in the fourth of four narrow groups the steps above leave, its misspelt name was scrolled
     // out of view and the pointer landed on the neighbouring editor: the hover check timed out)
     await editorChecks(page, { repo, ws, outDir });
+    // the log/linear axis switch on the dose-response spec's panel (editor.cjs)
+    await doseAxis(page);
   } catch (e) {
     failed = true;
     check('no exception while driving VS Code', false, errorSummary(e));
