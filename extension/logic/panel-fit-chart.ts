@@ -8,7 +8,7 @@
  *   contrast the bands are other hues. Each layer's colour becomes a `datum`
  *   colour encoding over one shared scale whose range is the layers' palette
  *   colours, so the page's theme swap (panel/view/theme.ts) recolours the
- *   marks and their swatches alike.
+ *   marks and their swatches alike; each swatch has its layer's opacity.
  * - Rows left out of the fit (weight 0) are drawn hollow in the muted colour,
  *   with the reason in their tooltip.
  *
@@ -56,13 +56,18 @@ export function panelFitChart(spec: Json, level: string, excludedReason = EXCLUD
   const colourOf = (l: Json): string | undefined => (isObject(l.mark) && typeof l.mark.color === 'string' ? l.mark.color : undefined);
   const domain: string[] = [];
   const range: string[] = [];
+  const opacity: number[] = [];
   for (const name of present) {
     const l = layers.find((x) => x.name === name)!;
     const c = colourOf(l);
     if (!c) continue;
     domain.push(labels[name]);
     range.push(c);
+    opacity.push(isObject(l.mark) && typeof l.mark.opacity === 'number' ? l.mark.opacity : 1);
   }
+  // each swatch at its layer's opacity (one legend for all layers would draw every swatch at one layer's opacity:
+  // the curve's swatch at the bands' 0.55 looked brown beside the orange curve in the dark theme)
+  const swatchOpacity = domain.map((d, i) => `datum.value === ${JSON.stringify(d)} ? ${opacity[i]} : `).join('') + '1';
   const hasBands = present.includes('confidence_band');
   for (const l of layers) {
     const name = typeof l.name === 'string' ? l.name : '';
@@ -77,7 +82,7 @@ export function panelFitChart(spec: Json, level: string, excludedReason = EXCLUD
       datum: domain[i],
       type: 'nominal',
       scale: { domain, range },
-      legend: { title: null, orient: 'bottom', direction: 'horizontal', symbolType: 'square', symbolSize: 140, labelLimit: 260 },
+      legend: { title: null, orient: 'bottom', direction: 'horizontal', symbolType: 'square', symbolSize: 140, labelLimit: 260, encode: { symbols: { update: { opacity: { signal: swatchOpacity } } } } },
     };
   }
   if (isObject(out.config)) out.config.legend = { labelColor: PALETTE.foreground, labelFontSize: 11 };

@@ -3,10 +3,12 @@
  * opens or reveals the panel of the model's spec,
  * `revive` re-attaches it after a reload (WebviewPanelSerializer; the page
  * restores its own saved state), `dispose` closes it. Messages are typed
- * both ways (protocol.ts) and checked with guards on arrival. The webview
- * may load files only from dist/ (localResourceRoots) under a strict CSP
- * (html.ts).
+ * both ways (protocol.ts) and checked with guards on arrival. The page's
+ * script and style are written into its HTML under a strict CSP (html.ts);
+ * the webview may load files only from dist/ (localResourceRoots).
  */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import * as vscode from 'vscode';
 import type { LwContext } from '../context';
 import { panelHtml, makeNonce } from './html';
@@ -14,6 +16,16 @@ import { chartsForKey, type PanelModel } from '../logic/panel-model';
 import { isFromPage, isPageState, type FromPage, type ToPage } from '../logic/panel-protocol';
 
 export const VIEW_TYPE = 'leastwise.results';
+
+let page: { script: string; style: string } | undefined;
+/** dist/panel.js and dist/panel.css, read once: written into each panel's page (html.ts says why). */
+function pageFiles(ctx: LwContext): { script: string; style: string } {
+  page ??= {
+    script: readFileSync(ctx.ext.asAbsolutePath(join('dist', 'panel.js')), 'utf8'),
+    style: readFileSync(ctx.ext.asAbsolutePath(join('dist', 'panel.css')), 'utf8'),
+  };
+  return page;
+}
 
 /** What the panel asks of the rest of the extension (kept out of this class to avoid import cycles). */
 export interface PanelActions {
@@ -98,14 +110,8 @@ export class ResultsPanel {
 
   private constructor(private readonly ctx: LwContext, private readonly actions: PanelActions, readonly panel: vscode.WebviewPanel) {
     ResultsPanel.instance = this;
-    const dist = vscode.Uri.joinPath(ctx.ext.extensionUri, 'dist');
     panel.iconPath = vscode.Uri.joinPath(ctx.ext.extensionUri, 'extension', 'media', 'icon.png');
-    panel.webview.html = panelHtml({
-      cspSource: panel.webview.cspSource,
-      nonce: makeNonce(),
-      scriptUri: panel.webview.asWebviewUri(vscode.Uri.joinPath(dist, 'panel.js')).toString(),
-      styleUri: panel.webview.asWebviewUri(vscode.Uri.joinPath(dist, 'panel.css')).toString(),
-    });
+    panel.webview.html = panelHtml({ cspSource: panel.webview.cspSource, nonce: makeNonce(), ...pageFiles(ctx) });
     this.disposables.push(
       panel.onDidDispose(() => this.dispose()),
       // a hidden webview is torn down (no retained context): queue until its page says `ready` again

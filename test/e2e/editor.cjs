@@ -15,14 +15,16 @@
 //     column and a parameter of the model line get different colours
 //     (screenshots editor-light.png, editor-dark.png, editor-high-contrast.png
 //     in the suite's screenshot folder; UPDATE_SCREENSHOTS=1 also copies them
-//     to test/e2e/screenshots/ to be checked in), with the editor groups merged
-//     into one (the results panel becomes a tab) so the model line is whole;
-//     the theme is set back.
+//     to test/e2e/screenshots/ to be checked in); the theme is set back.
+// Before step 1 every editor and group is closed, so the spec opens wide in the
+// one group whatever the steps before left open (in four 313-px groups the model
+// line's misspelt name was scrolled out of view and the pointer landed on the
+// neighbouring editor: no hover).
 // Every step waits for a condition, none sleeps.
 'use strict';
 const fs = require('fs');
 const path = require('path');
-const { check, quickInput } = require('./harness.cjs');
+const { check, quickInput, panelFrame } = require('./harness.cjs');
 
 const SPEC = 'doseresponse.lsq';
 
@@ -57,10 +59,43 @@ async function setTheme(page, label, cls) {
   return was;
 }
 
+/**
+ * Centre of the token `word` on the shown line holding `lineText`, once the token itself is what the pointer hits
+ * there (not clipped by a narrow or scrolled editor, nor covered by another editor group or a notification).
+ */
+async function visibleToken(page, lineText, word) {
+  const at = await page.waitForFunction(({ lineText, word }) => {
+    // (the editor draws blanks as no-break spaces)
+    const lines = [...document.querySelectorAll('.view-line')].filter((l) => l.textContent.replace(/\u00a0/g, ' ').includes(lineText));
+    for (const line of lines) {
+      const token = [...line.querySelectorAll('span > span')].find((s) => s.textContent === word);
+      const r = token?.getBoundingClientRect();
+      if (!r || r.width === 0) continue;
+      const x = r.x + r.width / 2;
+      const y = r.y + r.height / 2;
+      const hit = document.elementFromPoint(x, y);
+      if (hit && token.contains(hit)) return { x, y };
+    }
+    return null;
+  }, { lineText, word });
+  return at.jsonValue();
+}
+
 async function editorChecks(page, { repo, ws, outDir }) {
   const text = fs.readFileSync(path.join(ws, 'dose', SPEC), 'utf8');
   const lines = text.split(/\r?\n/);
+  // The spec alone in one wide editor group: the steps before leave up to four groups side by side (specs, results
+  // panels), where the spec would open in the last, narrow group with its model line scrolled out of view (the
+  // pointer then lands on the neighbouring editor and no hover opens), and Control+1 would focus another group.
+  // So every editor is closed first (nothing is unsaved: VS Code for the Web saves after a delay). Not merged into
+  // one column: moving three results panels at once let their page's own files (panel.css, panel.js) miss the
+  // webview's service worker and go to the network (net::ERR_NAME_NOT_RESOLVED for *.vscode-resource.vscode-cdn.net).
+  await quickInput(page, 'F1', 'Notifications: Clear All Notifications', 'Clear All Notifications');
+  await page.locator('.notifications-toasts .notification-toast').first().waitFor({ state: 'detached' });
+  await quickInput(page, 'F1', 'View: Close All Editor Groups', 'Close All Editor Groups');
+  await page.waitForFunction(() => document.querySelectorAll('.editor-group-container').length === 1 && !document.querySelector('.tab'));
   await quickInput(page, 'Control+P', SPEC, SPEC);
+  await page.locator('.tab.active', { hasText: SPEC }).first().waitFor();
   const editor = page.locator('.editor-group-container .monaco-editor', { hasText: 'fit inhibition on plate' }).first();
   await editor.locator('.view-lines').waitFor();
   const modelLine = editor.locator('.view-line', { hasText: 'model activity_pct' }).first();
@@ -83,7 +118,8 @@ async function editorChecks(page, { repo, ws, outDir }) {
   await page.keyboard.press('Control+J');
   await page.locator('.markers-panel').waitFor({ state: 'hidden' });
   await page.keyboard.press('Control+1');
-  await modelLine.locator('span > span', { hasText: /^dose_um$/ }).first().hover();
+  const token = await visibleToken(page, 'model activity_pct', 'dose_um');
+  await page.mouse.move(token.x, token.y);
   const hover = page.locator('.monaco-hover-content', { hasText: 'unknown name' }).first();
   await hover.waitFor();
   const hoverText = (await hover.innerText()).replace(/\s+/g, ' ');
@@ -145,13 +181,9 @@ async function editorChecks(page, { repo, ws, outDir }) {
   await editor.locator('.view-line', { hasText: /^\s*sigma\s*$/ }).first().waitFor({ state: 'detached' });
 
   // 5. columns and parameters in different colours, in the default light, dark and high-contrast themes
-  // the editor alone on screen (the results panel beside it would hide the model line's end; it becomes a tab of
-  // the one group), no notification over it
+  // (the editor alone in its one group since the start of this step, no notification over it)
   await quickInput(page, 'F1', 'Notifications: Clear All Notifications', 'Clear All Notifications');
   await page.locator('.notifications-toasts .notification-toast').first().waitFor({ state: 'detached' });
-  await quickInput(page, 'F1', 'View: Single Column Editor Layout', 'Single Column Editor Layout');
-  await quickInput(page, 'Control+P', SPEC, SPEC);
-  await page.locator('.tab.active', { hasText: SPEC }).first().waitFor();
   const initialClass = await page.locator('.monaco-workbench').evaluate((el) => ['vs-dark', 'hc-black', 'hc-light', 'vs'].find((c) => el.classList.contains(c)));
   let initial;
   const shots = [];
@@ -186,4 +218,34 @@ async function editorChecks(page, { repo, ws, outDir }) {
   await setTheme(page, initial, initialClass);
 }
 
-module.exports = { writeEditorSpecs, editorChecks };
+/**
+ * The log/linear axis switch on the dose-response spec (as the editing steps left it: valid again): fitted from the
+ * command palette, its panel draws the doses (1 nM to 100 uM, log-spaced) on a log axis; "linear" redraws the fit
+ * chart on a linear axis (a tick at 0, which a log axis cannot have), "log" brings the log axis back.
+ */
+async function doseAxis(page) {
+  await quickInput(page, 'Control+P', SPEC, SPEC);
+  await page.locator('.tab.active', { hasText: SPEC }).first().waitFor();
+  await page.locator('.editor-group-container .monaco-editor .squiggly-error').first().waitFor({ state: 'detached' });
+  await quickInput(page, 'F1', 'Leastwise: Fit This File', 'Leastwise: Fit This File');
+  const frame = await panelFrame(page, SPEC);
+  // the tick labels of the fit chart's dose axis (the axis titled with the predictor)
+  const ticks = () => frame.locator('body[data-rendered="true"] figure[data-chart-id="fit"] svg .role-axis', { has: frame.locator('.role-axis-title', { hasText: 'dose_uM' }) })
+    .first().locator('.role-axis-label text').allTextContents();
+  await frame.locator('body[data-rendered="true"] figure[data-chart-id="fit"][data-marks]').waitFor();
+  const scale = frame.locator('.lw-segmented[data-control="x-scale"]');
+  const before = { on: await scale.locator('button.on').innerText(), ticks: await ticks() };
+  await scale.locator('button[data-value="linear"]').click();
+  await frame.locator('.lw-segmented[data-control="x-scale"] button.on[data-value="linear"]').waitFor();
+  await frame.locator('body[data-rendered="true"] figure[data-chart-id="fit"][data-marks]').waitFor();
+  const linear = await ticks();
+  await scale.locator('button[data-value="log"]').click();
+  await frame.locator('.lw-segmented[data-control="x-scale"] button.on[data-value="log"]').waitFor();
+  await frame.locator('body[data-rendered="true"] figure[data-chart-id="fit"][data-marks]').waitFor();
+  const back = await ticks();
+  check('log-spaced doses on a log axis; the switch redraws the fit chart linear (a tick at 0) and log again',
+    before.on === 'log' && !before.ticks.includes('0') && linear.includes('0') && back.join() === before.ticks.join(),
+    `log: ${before.ticks.join(' ')} | linear: ${linear.join(' ')}`);
+}
+
+module.exports = { writeEditorSpecs, editorChecks, doseAxis };

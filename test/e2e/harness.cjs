@@ -112,16 +112,36 @@ function run(label, cmd, args, opts = {}) {
 // Quick input (Ctrl+P / F1 / Ctrl+G): type, wait for a matching row (if any), accept.
 // `next`: the title of the quick input the accepted item opens (the widget is reused,
 // so it never hides); without it, wait until the widget is hidden.
+// Opened by `keys`, the widget can close by itself before a row is accepted: a webview
+// that was just clicked takes the keyboard focus a moment later, and the quick input
+// closes when it loses the focus. Then it is opened again (at most 3 tries): the row
+// wait ends at whichever comes first, the row focused or the widget hidden.
 async function quickInput(page, keys, text, rowText, next) {
-  if (keys) await page.keyboard.press(keys);
-  await page.locator('.quick-input-widget .quick-input-box input').waitFor({ state: 'visible' });
-  await page.keyboard.type(text, { delay: 10 });
-  // Enter accepts the focused row: wait until the row we want is the focused one (the list filters
-  // asynchronously; a visible but unfocused match would let Enter pick another row or nothing)
-  if (rowText) await page.locator('.quick-input-widget .monaco-list-row.focused', { hasText: rowText }).first().waitFor({ state: 'visible', timeout: 30000 });
-  await page.keyboard.press('Enter');
-  if (next) await page.locator('.quick-input-widget .quick-input-title', { hasText: next }).waitFor();
-  else await page.locator('.quick-input-widget').waitFor({ state: 'hidden' });
+  const widget = page.locator('.quick-input-widget');
+  for (let attempt = 1; ; attempt++) {
+    if (keys) await page.keyboard.press(keys);
+    await page.locator('.quick-input-widget .quick-input-box input').waitFor({ state: 'visible' });
+    await page.keyboard.type(text, { delay: 10 });
+    // Enter accepts the focused row: wait until the row we want is the focused one (the list filters
+    // asynchronously; a visible but unfocused match would let Enter pick another row or nothing)
+    if (rowText) {
+      const row = page.locator('.quick-input-widget .monaco-list-row.focused', { hasText: rowText }).first();
+      const seen = await Promise.race([
+        row.waitFor({ state: 'visible', timeout: 30000 }).then(() => 'row', (e) => e),
+        widget.waitFor({ state: 'hidden', timeout: 30000 }).then(() => 'closed', (e) => e),
+      ]);
+      if (seen === 'closed' && keys && attempt < 3) {
+        console.log(`(quick input for "${text}" closed before a row was accepted; opening it again)`);
+        continue;
+      }
+      if (seen instanceof Error) throw seen;
+      if (seen === 'closed') throw new Error(`the quick input closed before a row "${rowText}" was focused (after ${attempt} tries)`);
+    }
+    await page.keyboard.press('Enter');
+    if (next) await page.locator('.quick-input-widget .quick-input-title', { hasText: next }).waitFor();
+    else await widget.waitFor({ state: 'hidden' });
+    return;
+  }
 }
 
 /** The recipe's start.sh (trust off). Returns { url, stop } or throws with start.sh's stderr. */
@@ -235,7 +255,7 @@ async function openBrowser(repo) {
     const u = new URL(r.url());
     if (!/^https?:$/.test(u.protocol) || isLocal(u)) return;
     const res = await r.response().catch(() => null);
-    if (!res || !res.fromServiceWorker()) external.add(u.host);
+    if (!res || !res.fromServiceWorker()) external.add(`${u.host} (${res ? `answered ${res.status()} not by the service worker` : 'no response'}: ${u.pathname.slice(-60)})`);
   });
   context.on('requestfailed', (r) => {
     const u = new URL(r.url());
@@ -243,7 +263,7 @@ async function openBrowser(repo) {
     // worker answers from the local server; such a request aborted (net::ERR_ABORTED) when a panel is closed or
     // reloaded never reached the network. Any other failure (e.g. a name lookup) still counts as an attempt out.
     const aborted = r.failure()?.errorText === 'net::ERR_ABORTED' && u.hostname.endsWith('.vscode-resource.vscode-cdn.net');
-    if (/^https?:$/.test(u.protocol) && !isLocal(u) && !aborted) external.add(u.host);
+    if (/^https?:$/.test(u.protocol) && !isLocal(u) && !aborted) external.add(`${u.host} (${r.failure()?.errorText}: ${u.pathname.slice(-60)}, at ${secs(t0)}s, webview ${/[?&]id=([\w-]{8})/.exec(r.frame()?.url() ?? '')?.[1] ?? '?'})`);
   });
   const close = async () => {
     await browser.close();

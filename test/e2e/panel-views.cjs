@@ -34,7 +34,7 @@ async function panelViews(page, ws, outDir) {
   check('the headline counts converged, not converged and failed fits of all declared', /3\/5 converged 1 not converged 1 failed/.test(chips), chips);
 
   const rows = await frame.locator('section.lw-fit .lw-rows').innerText();
-  check('the header counts the rows left out, with why', rows === 'n = 28, 3 rows left out: 2 with weight 0 (lines 10, 22), drawn hollow; 1 with an empty or NA cell (line 27)', rows);
+  check('the header counts the rows left out, with why', rows === 'n = 28 fitted (of 31 rows: 1 with an empty or NA cell (line 27), 2 with weight 0 (lines 10, 22), drawn hollow)', rows);
   const hollow = await frame.locator('figure[data-chart-id="fit"] svg .role-mark.excluded_points_marks path').count();
   const legend = await frame.locator('figure[data-chart-id="fit"] svg .role-legend-label').allTextContents();
   check('rows with weight 0 drawn hollow; the bands named by a legend, not by shade', hollow === 2 && legend.includes('95% confidence band') && !/shade/.test(await frame.locator('figure[data-chart-id="fit"] svg .role-title-subtitle').textContent()), `${hollow} hollow, legend ${legend.join(', ')}`);
@@ -76,6 +76,15 @@ async function panelViews(page, ws, outDir) {
   await page.keyboard.press('Enter');
   const svg = await waitForFile(path.join(ws, 'newton-data-and-fitted-curve.svg'), (t) => t.trimEnd().endsWith('</svg>'));
   check('a chart saved as SVG next to the spec', /^<svg/.test(svg) && svg.includes('fitted curve'), `${svg.length} characters`);
+  // and as PNG: the file starts with the PNG signature and its header gives the size drawn
+  await frame.locator('figure[data-chart-id="fit"] button.lw-save[data-format="png"]').click();
+  await page.waitForFunction(() => /newton-data-and-fitted-curve\.png$/.test(document.querySelector('.quick-input-widget .quick-input-box input')?.value ?? ''));
+  await page.keyboard.press('Enter');
+  const pngFile = path.join(ws, 'newton-data-and-fitted-curve.png');
+  await waitForFile(pngFile, () => { const b = fs.readFileSync(pngFile); return b.length > 33 && b.subarray(b.length - 8).toString('latin1').includes('IEND'); });
+  const png = fs.readFileSync(pngFile);
+  const [w, hgt] = [png.readUInt32BE(16), png.readUInt32BE(20)];
+  check('a chart saved as PNG next to the spec', png.subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])) && w > 300 && hgt > 200, `${w}×${hgt} px, ${png.length} bytes`);
 
   // reload the window: the panels come back with the reader's choices
   await frame.locator('button.lw-nav-item[data-key="slow"]').click();
@@ -88,6 +97,108 @@ async function panelViews(page, ws, outDir) {
   const back = await panelFrame(page, 'trust.lsq');
   await back.locator('section.lw-fit[data-state="not_converged"]').waitFor({ timeout: 90000 });
   check('after a reload the panel comes back showing the fit the reader left it on', true);
+  // that fit stopped at its iteration limit: marked as not a fitted result, its goodness-of-fit statistics withheld
+  const slow = back.locator('section.lw-fit[data-state="not_converged"]');
+  const mark = (await slow.locator('.lw-notfitted').innerText()).trim();
+  const shownStats = [...await slow.locator('.lw-keystats dt').allTextContents(), ...await slow.locator('table.lw-goodness tbody tr th, table.lw-goodness tbody tr td:first-child').allTextContents()];
+  check('the fit that did not converge is marked as no fitted result and shows no R² or RMSE', /^Not a fitted result/.test(mark) && !shownStats.some((t) => /R²|RMSE/.test(t)), `${mark.slice(0, 60)}…; shown: ${shownStats.join(', ')}`);
+  // every results panel shown beside it came back drawn too (after a reload the panels are revived side by side)
+  const frames = page.locator('iframe.webview.ready');
+  const drawn = [];
+  for (let i = 0; i < (await frames.count()); i++) {
+    if (!(await frames.nth(i).evaluate((f) => f.getBoundingClientRect().width > 0))) continue;
+    const inner = page.frameLocator(`iframe.webview.ready >> nth=${i}`).frameLocator('#active-frame');
+    await inner.locator('body[data-rendered="true"]').waitFor();
+    drawn.push(await inner.locator('.lw-toolbar h1').textContent());
+  }
+  check('after a reload every results panel shown is drawn again', drawn.length >= 2 && drawn.includes('trust.lsq'), drawn.join(', '));
 }
 
-module.exports = { panelViews };
+
+
+const THEMES = [
+  { name: 'light', setting: 'Default Light Modern', bodyClass: 'vscode-light' },
+  { name: 'dark', setting: 'Default Dark Modern', bodyClass: 'vscode-dark' },
+  { name: 'high-contrast', setting: 'Default High Contrast', bodyClass: 'vscode-high-contrast' },
+];
+
+/** Scrolls `target` (in the panel's page) to the top of the view, below the sticky toolbar, and waits a frame. */
+async function toTop(frame, target) {
+  await frame.locator(target).first().evaluate((el) => new Promise((resolve) => {
+    el.scrollIntoView({ block: 'start' });
+    window.scrollBy(0, -((document.querySelector('.lw-toolbar')?.getBoundingClientRect().height ?? 0) + 8));
+    requestAnimationFrame(() => resolve());
+  }));
+}
+
+/**
+ * The trust panel's new views in the light, dark and high-contrast themes (workspace setting, waited for in the
+ * webview's body class), with its editor group maximized: the fit (navigation with the states, header with the rows
+ * left out; below it the residual switch and the chart with its band legend), the failed fit and the warnings, one
+ * screenshot each (vscode-panel-<view>-<theme>.png, view = fit, chart, failed, warnings; UPDATE_SCREENSHOTS=1 copies them to test/extension/screenshots/). In each theme
+ * each legend swatch must have the colour and opacity its layer is drawn with.
+ */
+async function panelThemes(page, { repo, ws, outDir }) {
+  await page.locator('.tab', { hasText: 'Results: trust.lsq' }).first().click();
+  await page.locator('.tab.active', { hasText: 'Results: trust.lsq' }).first().waitFor();
+  await quickInput(page, 'F1', 'View: Toggle Maximize Editor Group', 'Toggle Maximize Editor Group');
+  await page.waitForFunction(() => Array.from(document.querySelectorAll('iframe.webview.ready')).some((f) => f.getBoundingClientRect().width > 1200));
+  const frame = await panelFrame(page, 'trust.lsq');
+  const settingsFile = path.join(ws, '.vscode', 'settings.json');
+  const settings = JSON.parse(fs.readFileSync(settingsFile, 'utf8'));
+  const shots = [];
+  for (const t of THEMES) {
+    fs.writeFileSync(settingsFile, JSON.stringify({ ...settings, 'workbench.colorTheme': t.setting }, null, 2) + '\n');
+    await frame.locator(`body.${t.bodyClass}[data-rendered="true"]`).waitFor();
+
+    // the fit: navigation, header, legend, residual switch
+    await frame.locator('button.lw-nav-item[data-key="newton"]').click();
+    await frame.locator(`body.${t.bodyClass}[data-rendered="true"] section.lw-fit[data-fit-key="newton"] figure[data-chart-id="fit"][data-marks]`).waitFor();
+    // each legend entry (this weighted fit: data, fitted curve, confidence band; no prediction band without a spread
+    // of new points) against its layer as drawn: colour (a line's stroke) and opacity
+    const entries = await frame.locator('figure[data-chart-id="fit"] svg').evaluate((svg) => {
+      const probe = document.createElement('span');
+      document.body.append(probe);
+      const rgb = (c) => { probe.style.color = ''; probe.style.color = c ?? ''; return getComputedStyle(probe).color; };
+      const paint = (el) => (el.getAttribute('fill') && el.getAttribute('fill') !== 'none' && el.getAttribute('fill') !== 'transparent' ? el.getAttribute('fill') : el.getAttribute('stroke'));
+      const look = (el) => el && { colour: rgb(paint(el)), opacity: Number(el.getAttribute('opacity') ?? el.parentElement?.getAttribute('opacity') ?? 1) };
+      const layer = (label) => (label === 'data' ? 'data_points' : label === 'fitted curve' ? 'fitted_curve' : /(confidence|prediction) band/.exec(label)?.[0].replace(' ', '_'));
+      const symbols = [...svg.querySelectorAll('.role-legend-symbol path')];
+      const out = [...svg.querySelectorAll('.role-legend-label text')].map((t, i) => ({ label: t.textContent, swatch: look(symbols[i]), drawn: look(svg.querySelector(`.role-mark.${layer(t.textContent)}_marks path`)) }));
+      probe.remove();
+      return out;
+    });
+    const same = entries.length >= 3 && entries.some((e) => /confidence band/.test(e.label)) && entries.every((e) => e.swatch && e.drawn && e.swatch.colour === e.drawn.colour && Math.abs(e.swatch.opacity - e.drawn.opacity) < 0.01);
+    check(`${t.name} theme: each legend swatch has its layer's colour and opacity`, same, entries.map((e) => `${e.label}: ${e.swatch?.colour}@${e.swatch?.opacity} / ${e.drawn?.colour}@${e.drawn?.opacity}`).join('; '));
+    await toTop(frame, 'section.lw-fit[data-fit-key="newton"]');
+    shots.push(path.join(outDir, `vscode-panel-fit-${t.name}.png`));
+    await page.screenshot({ path: shots.at(-1) });
+    // below it: the residual and axis switches above the chart with its band legend and the hollow rows
+    await toTop(frame, '.lw-segmented[data-control="residual"]');
+    shots.push(path.join(outDir, `vscode-panel-chart-${t.name}.png`));
+    await page.screenshot({ path: shots.at(-1) });
+
+    // the failed fit
+    await frame.locator('button.lw-nav-item[data-key="empty"]').click();
+    await frame.locator('section.lw-missing .lw-reasons li').first().waitFor();
+    await toTop(frame, 'section.lw-missing');
+    shots.push(path.join(outDir, `vscode-panel-failed-${t.name}.png`));
+    await page.screenshot({ path: shots.at(-1) });
+
+    // the warnings, opened by their chip
+    await frame.locator('button.lw-chip[data-open="#warnings"]').click();
+    await frame.locator('section.lw-warnings-all li').first().waitFor();
+    await toTop(frame, 'section.lw-warnings-all');
+    shots.push(path.join(outDir, `vscode-panel-warnings-${t.name}.png`));
+    await page.screenshot({ path: shots.at(-1) });
+    check(`the panel's fit, chart, failed-fit and warnings views drawn in the ${t.name} theme`, true, shots.slice(-4).map((s) => path.basename(s)).join(', '));
+  }
+  if (process.env.UPDATE_SCREENSHOTS === '1') {
+    const dir = path.join(repo, 'test', 'extension', 'screenshots');
+    fs.mkdirSync(dir, { recursive: true });
+    for (const shot of shots) fs.copyFileSync(shot, path.join(dir, path.basename(shot)));
+  }
+  fs.writeFileSync(settingsFile, JSON.stringify(settings, null, 2) + '\n');
+  await quickInput(page, 'F1', 'View: Toggle Maximize Editor Group', 'Toggle Maximize Editor Group');
+}
+module.exports = { panelViews, panelThemes };

@@ -11,10 +11,13 @@
 // -> hover a parameter for its estimate -> screenshot -> export the Markdown
 // report -> scaffold a new spec from the CSV (QuickPicks: x, y, model) ->
 // fit on save -> cancel a long fit from its progress notification
-// (cancel.cjs) -> edit the dose-response sample (editor.cjs: one diagnostic for
-// one misspelling, unclosed-parenthesis range, bounds quick fixes, completion
-// order, semantic colours in three themes with screenshots) -> then a second server with Workspace Trust on for the
-// Restricted Mode checks (restricted.cjs). No sleeps: every step waits for a
+// (cancel.cjs) -> the views across groups (views.cjs) -> the results panel's
+// trust views, then the same in three themes with screenshots (panel-views.cjs)
+// -> edit the dose-response sample (editor.cjs: one diagnostic for one
+// misspelling, unclosed-parenthesis range, bounds quick fixes, completion
+// order, semantic colours in three themes with screenshots; then the log/linear
+// axis switch on its panel) -> then a second
+// server with Workspace Trust on for the Restricted Mode checks (restricted.cjs). No sleeps: every step waits for a
 // condition. Last line: "N passed, N failed"; exit 1 on failure.
 //
 // Env: VSCODE_WEB_TOOLS, VSCODE_WEB_HOME (recipe cache), CHROMIUM
@@ -34,8 +37,8 @@ const { secs, check, anyFailed, finish, waitForFile, freePort, run, quickInput, 
 const { restrictedMode } = require('./restricted.cjs');
 const { writeSlowJob, cancelRunningFit } = require('./cancel.cjs');
 const { writePlateSample, groupViews } = require('./views.cjs');
-const { writeEditorSpecs } = require('./editor.cjs');
-const { panelViews } = require('./panel-views.cjs');
+const { writeEditorSpecs, editorChecks, doseAxis } = require('./editor.cjs');
+const { panelViews, panelThemes } = require('./panel-views.cjs');
 
 (async () => {
   fs.mkdirSync(outDir, { recursive: true });
@@ -215,9 +218,14 @@ const { panelViews } = require('./panel-views.cjs');
     await groupViews(page, { repo, ws, outDir });
     // the results panel's trust views on a second spec (panel-views.cjs)
     await panelViews(page, ws, outDir);
-    // editing (editor.cjs) is not run in the merged suite yet: its hover check ('unknown name' on a misspelt column)
-    // times out in the merged build although the hover logic passes in vitest (test/extension/hover.test.ts); see the
-    // closing note of 2026-12-03. The steps pass on their own branch (edit15).
+    // the same panel's new views in the light, dark and high-contrast themes, with screenshots (panel-views.cjs)
+    await panelThemes(page, { repo, ws, outDir });
+    // editing the dose-response sample (editor.cjs), last: it closes every editor first, so its spec opens alone in
+    // one wide group (opened in the fourth of four narrow groups the steps above leave, its misspelt name was scrolled
+    // out of view and the pointer landed on the neighbouring editor: the hover check timed out)
+    await editorChecks(page, { repo, ws, outDir });
+    // the log/linear axis switch on the dose-response spec's panel (editor.cjs)
+    await doseAxis(page);
   } catch (e) {
     failed = true;
     check('no exception while driving VS Code', false, errorSummary(e));

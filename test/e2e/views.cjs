@@ -10,6 +10,8 @@
 // screenshotted twice (vscode-groups-<theme>.png: plate map and group table;
 // vscode-overlay-<theme>.png: overlay and residuals by group) in the artifacts
 // folder; with UPDATE_SCREENSHOTS=1 also in test/extension/screenshots/.
+// Last, the panel's checks: the per-group expectations summarised with their
+// counts and failures, and the derived values as a table per well.
 // Condition waits only.
 'use strict';
 const fs = require('fs');
@@ -102,6 +104,19 @@ async function groupViews(page, { repo, ws, outDir }) {
     for (const shot of shots) fs.copyFileSync(shot, path.join(dir, path.basename(shot)));
   }
   fs.writeFileSync(settingsFile, JSON.stringify(settings, null, 2) + '\n');
+
+  // the per-group expectations summarised: one entry per expectation with its passed/failed counts over the wells
+  // (not 288 "passed" lines), the failures listed under their expectation, then the derived values as a table per well
+  await frame.locator('button.lw-nav-item[data-key="#checks"]').click();
+  const head = frame.locator('.lw-expect-summary h3');
+  await head.waitFor();
+  const summary = (await head.textContent()).trim();
+  const [, passed, failedCount] = (/(\d+) passed, (\d+) failed/.exec(summary) ?? []).map(Number);
+  const entries = await frame.locator('.lw-expect-summary > ul > li').count();
+  const lines = await frame.locator('.lw-expect-summary li').count();
+  const derivedRows = await frame.locator('table.lw-derived-table tbody tr').count();
+  check('per-group expectations summarised: counts per expectation (3 over 96 wells), failures listed, derived values per well as a table',
+    passed + failedCount === 288 && entries === 3 && lines <= entries + failedCount && derivedRows === 96, `${summary}; ${entries} expectations, ${lines} lines, ${derivedRows} derived rows`);
 }
 
 module.exports = { writePlateSample, groupViews };

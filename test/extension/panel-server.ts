@@ -1,6 +1,7 @@
 /**
- * Serves the results page (a built panel.js + panel.css) from a local http
- * server inside the same HTML shell and CSP as the webview (panel/html.ts),
+ * Serves the results page (a built panel.js + panel.css, written into the
+ * page) from a local http server inside the same HTML shell and CSP as the
+ * webview (panel/html.ts),
  * standing in for VS Code: `acquireVsCodeApi` records posted messages and
  * saved state, and the theme's `--vscode-*` variables and body class are set
  * the way the workbench sets them. CSP violations are collected in-page.
@@ -86,7 +87,8 @@ export function servePanel(bundleDir: string): Promise<PanelServer> {
     if (u.pathname === '/') {
       const theme = (u.searchParams.get('theme') ?? 'light') as ThemeName;
       const state = states.get(u.searchParams.get('state') ?? '');
-      const html = panelHtml({ cspSource: origin, nonce: makeNonce(), scriptUri: `${origin}/panel.js`, styleUri: `${origin}/panel.css`, prelude: prelude(theme, state) });
+      // the page's script and style written into it, as the webview gets them (html.ts)
+      const html = panelHtml({ cspSource: origin, nonce: makeNonce(), script: readFileSync(join(bundleDir, 'panel.js'), 'utf8'), style: readFileSync(join(bundleDir, 'panel.css'), 'utf8'), prelude: prelude(theme, state) });
       res.writeHead(200, { 'content-type': 'text/html; charset=utf-8' });
       res.end(html);
       return;
@@ -97,14 +99,9 @@ export function servePanel(bundleDir: string): Promise<PanelServer> {
       res.end();
       return;
     }
-    const file = { '/panel.js': 'panel.js', '/panel.css': 'panel.css' }[u.pathname];
-    if (!file) {
-      res.writeHead(404);
-      res.end();
-      return;
-    }
-    res.writeHead(200, { 'content-type': file.endsWith('.js') ? 'text/javascript' : 'text/css' });
-    res.end(readFileSync(join(bundleDir, file)));
+    // nothing else is served: the page fetches no file of its own
+    res.writeHead(404);
+    res.end();
   });
   return new Promise((ok) => {
     server.listen(0, '127.0.0.1', () => {

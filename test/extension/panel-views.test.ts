@@ -153,6 +153,10 @@ describe.skipIf(!haveChromium)('extension/panel trust views in Chromium', () => 
       const swatches = await fig.locator('svg .role-legend-symbol path').evaluateAll((ps) => ps.map((p) => p.getAttribute('fill')));
       const bandFill = (name: string) => fig.locator(`svg .role-mark.${name}_marks path`).first().getAttribute('fill');
       expect(swatches[2], theme).toBe(await bandFill('confidence_band'));
+      // and the opacity they are drawn with (one shared legend drew every swatch at the bands' opacity)
+      const swatchOpacity = await fig.locator('svg .role-legend-symbol path').evaluateAll((ps) => ps.map((p) => p.getAttribute('opacity') ?? '1'));
+      const markOpacity = (name: string) => fig.locator(`svg .role-mark.${name}_marks path`).first().evaluate((p) => p.getAttribute('opacity') ?? p.parentElement?.getAttribute('opacity') ?? '1');
+      expect(swatchOpacity, theme).toEqual([await markOpacity('data_points'), await markOpacity('fitted_curve'), await markOpacity('confidence_band')]);
       await expect(page.locator('section.lw-fit .lw-rows').textContent()).resolves.toBe('n = 28 fitted (of 31 rows: 1 with an empty or NA cell (line 27), 2 with weight 0 (lines 10, 22), drawn hollow)');
       const hollow = fig.locator('svg .role-mark.excluded_points_marks path');
       expect(await hollow.count()).toBe(2);
