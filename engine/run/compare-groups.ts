@@ -85,13 +85,12 @@ function whole(name: string, plan: FitPlan, results: FitResult[], joint: JointFi
   const ssr = results.reduce((a, r) => a + r.goodness.ssr, 0);
   const p = joint ? joint.p : results.reduce((a, r) => a + r.goodness.p, 0);
   const sigmaAbsolute = results[0]?.sigmaAbsolute ?? false;
-  let logL: number;
-  if (sigmaAbsolute) logL = results.reduce((a, r) => a + r.goodness.logLikelihood, 0);
-  else {
-    // ½ Σ ln wᵢ of each group from its own ln L = −(n_g/2)(ln 2π + ln(SSR_g/n_g) + 1) + ½ Σ_g ln wᵢ
-    const halfLogW = results.reduce((a, r) => a + r.goodness.logLikelihood + (r.goodness.n / 2) * (Math.log(2 * Math.PI) + Math.log(r.goodness.ssr / r.goodness.n) + 1), 0);
-    logL = -(n / 2) * (Math.log(2 * Math.PI) + Math.log(ssr / n) + 1) + halfLogW;
-  }
+  // ln L of the whole fit from its residuals and weights (engine/stats/goodness.ts), not from the groups'
+  // own ln L: a joint fit's groups carry none (engine/run/joint-group-stats.ts). ½ Σ ln wᵢ over every fitted row.
+  const halfLogW = results.reduce((a, r) => a + (r.points.weight ? 0.5 * r.points.weight.reduce((b, w) => b + Math.log(w), 0) : 0), 0);
+  const logL = sigmaAbsolute
+    ? -0.5 * n * Math.log(2 * Math.PI) + halfLogW - 0.5 * ssr
+    : -(n / 2) * (Math.log(2 * Math.PI) + Math.log(ssr / n) + 1) + halfLogW;
   const ic = informationCriteria(logL, likelihoodParameterCount(p, sigmaAbsolute), n);
   return { input: { fit: name, n, p, ssr, ...ic }, plan, results, joint, sigmaAbsolute };
 }
