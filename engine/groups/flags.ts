@@ -34,7 +34,9 @@
  *     then flags a group of a right model in at most 1 of 20 plates, not 1 of
  *     100 wells. A fit judged alone (`isPoorFit` without `runsRejected`) is a
  *     family of one: runs p ≤ 0.05;
- *   - skipped (not flagged) when ν ≤ 0 or the statistic is not finite.
+ *   - skipped (not flagged) when ν ≤ 0 or the statistic is not finite;
+ *   - a group of a joint fit is judged on its own χ² and its own ν (its rows
+ *     less its share of the joint parameters, `jointShare.dof`).
  */
 import { chiSquareCdf, chiSquareUpper, normalUpper } from '../stats/distributions';
 import { INFLUENCE_THRESHOLDS, isSerialDurbinWatson, THRESHOLDS } from '../thresholds';
@@ -81,8 +83,11 @@ export function isPoorFit(fit: FitResult, options: FlagOptions = {}): boolean {
   const g = fit.goodness;
   if (fit.sigmaAbsolute && g.chi2 !== null) {
     const alpha = options.chi2TailProbability ?? THRESHOLDS.groupChi2Tail;
-    if (!(g.dof > 0) || !Number.isFinite(g.chi2)) return false;
-    return chiSquareCdf(g.chi2, g.dof) < alpha || chiSquareUpper(g.chi2, g.dof) < alpha;
+    // a group of a joint fit: its own χ² against its own degrees of freedom (its rows less its share of the
+    // joint parameters, engine/run/joint-group-stats.ts), not the pooled fit's ν
+    const dof = fit.jointShare ? fit.jointShare.dof : g.dof;
+    if (!(dof > 0) || !Number.isFinite(g.chi2)) return false;
+    return chiSquareCdf(g.chi2, dof) < alpha || chiSquareUpper(g.chi2, dof) < alpha;
   }
   if (isNonlinear(fit)) return options.runsRejected ?? holmRejected([runsP(fit)], THRESHOLDS.groupFamilyAlpha)[0];
   const minR2 = options.minR2 ?? THRESHOLDS.groupMinR2;

@@ -88,3 +88,35 @@ fit decay on d {
     expect(table.rows.filter((r) => r.flags.includes('poor_fit')).map((r) => r.group)).toEqual(['wave']);
   });
 });
+
+describe('engine/groups/flags poor_fit of the groups of a joint fit with absolute σ', () => {
+  // Invented: four straight lines with a shared slope, σ = 0.1 stated and the noise drawn with σ = 0.1, so each
+  // group's χ² is near its own ν ≈ 10 − 1.25; judged against the pooled ν (≈ 35) every group would look too good.
+  const jointSpec = `data d = "lines.csv"
+fit line on d {
+  model y = a + b * x
+  param a
+  param b shared
+  sigma 0.1
+  per lot
+}`;
+  it('judges each group on its own χ² and its own degrees of freedom (jointShare.dof), not the pooled fit\'s', async () => {
+    const dir = tempDir();
+    const z = normals(20261203, 40);
+    const rows: (string | number)[][] = [];
+    ['L1', 'L2', 'L3', 'L4'].forEach((lot, g) => {
+      for (let i = 0; i < 10; i++) rows.push([lot, i, 1 + g + 0.5 * i + 0.1 * z[10 * g + i]]);
+    });
+    writeCsv(dir, 'lines.csv', ['lot', 'x', 'y'], rows);
+    const { result } = await runSpec(jointSpec, dir);
+    expect(result.fits).toHaveLength(4);
+    for (const f of result.fits) {
+      expect(f.jointShare, f.group).toBeDefined();
+      // ν of the group: 10 rows less its own a and a quarter of the shared b (a share by the hat-matrix trace)
+      expect(f.jointShare!.dof).toBeGreaterThan(8);
+      expect(f.jointShare!.dof).toBeLessThan(9);
+      expect(f.goodness.dof).toBe(35);
+      expect(flagsOf(f), f.group).not.toContain('poor_fit');
+    }
+  });
+});
