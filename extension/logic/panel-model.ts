@@ -193,7 +193,7 @@ export function buildPanelModel(run: RunResult, opts: ModelOptions): PanelModel 
         message: r.message,
       })),
       // the rows of the whole fit, as the CLI's line under the per-group heading (engine/front/views/rows.ts)
-      summary: [groupCountLine(table), groupsNSentence(fits), ...groupSummarySentences(table)],
+      summary: [groupCountLine(table), groupsNSentence(fits), ...groupSummarySentences(table, sharedParameters(run, name))],
       flagSummary: flagSummary(table.rows),
       charts: groupParameterCharts(fits, table, sharedParameters(run, name)),
     });

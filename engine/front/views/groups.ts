@@ -27,7 +27,17 @@ export const WORST_GROUPS = 5;
 /** A run's fits in display order: single fits, and the groups of a per-group fit together. */
 export type FitSection =
   | { kind: 'single'; fit: FitResult; index: number }
-  | { kind: 'groups'; name: string; fits: FitResult[]; indices: number[]; table: GroupTable };
+  | {
+      kind: 'groups';
+      name: string;
+      fits: FitResult[];
+      indices: number[];
+      table: GroupTable;
+      /** Parameters of a joint fit shared by every group (its `result.joint` entry; empty for separate fits). */
+      shared: readonly string[];
+      /** What the groups are: the groups of a column, or the tables of `fit NAME on A, B, …` (a joint fit's `over`). */
+      over: 'column' | 'tables';
+    };
 
 /** The fits of a run as sections, in order of first appearance (a per-group fit's groups are contiguous in a result). */
 export function fitSections(result: RunResult): FitSection[] {
@@ -40,7 +50,8 @@ export function fitSections(result: RunResult): FitSection[] {
     }
     let s = byName.get(fit.name);
     if (!s) {
-      s = { kind: 'groups', name: fit.name, fits: [], indices: [], table: buildGroupTable([]) };
+      const joint = result.joint?.find((j) => j.fit === fit.name);
+      s = { kind: 'groups', name: fit.name, fits: [], indices: [], table: buildGroupTable([]), shared: joint?.shared ?? [], over: joint?.over ?? 'column' };
       byName.set(fit.name, s);
       out.push(s);
     }
@@ -141,16 +152,28 @@ export function groupCountLine(table: GroupTable): string {
 }
 
 /** Headers and rows of the summary across converged groups: per parameter (and R²) the median, quartiles, IQR and count. */
-export function groupSummaryBlock(table: GroupTable): GroupTableBlock {
-  const rows = [...table.summary.parameters, { ...table.summary.r2, name: 'R²' }].map((p) => [
+export function groupSummaryBlock(table: GroupTable, shared: readonly string[] = []): GroupTableBlock {
+  // a joint fit's shared parameters have one value for every group: no spread to show (sharedSummaryLine says it)
+  const own = table.summary.parameters.filter((p) => !shared.includes(p.name));
+  const rows = [...own, { ...table.summary.r2, name: 'R²' }].map((p) => [
     p.name, formatNumber(p.median, DIGITS.value), formatNumber(p.q1, DIGITS.value), formatNumber(p.q3, DIGITS.value), formatNumber(p.iqr, DIGITS.statistic), String(p.count),
   ]);
   return { headers: ['', 'median', 'Q1', 'Q3', 'IQR', 'groups'], rows, align: ['left', 'right', 'right', 'right', 'right', 'right'] };
 }
 
-/** Short sentences per parameter for narrow displays: `k: median 0.31, IQR 0.05 (23 groups)`. */
-export function groupSummarySentences(table: GroupTable): string[] {
-  return table.summary.parameters.map((p) => `${p.name}: median ${formatNumber(p.median, DIGITS.value)}, IQR ${formatNumber(p.iqr, DIGITS.statistic)} (${p.count} groups)`);
+/** The line under the summary across groups naming a joint fit's shared parameters and their one value, or null without any. */
+export function sharedSummaryLine(table: GroupTable, shared: readonly string[]): string | null {
+  const values = table.summary.parameters.filter((p) => shared.includes(p.name)).map((p) => `${p.name} = ${formatNumber(p.median, DIGITS.value)}`);
+  return values.length ? `Shared by every group (one value each): ${values.join(', ')}.` : null;
+}
+
+/** Short sentences per parameter for narrow displays: `k: median 0.31, IQR 0.05 (23 groups)`; a shared parameter: `kd: shared, 1.704`. */
+export function groupSummarySentences(table: GroupTable, shared: readonly string[] = []): string[] {
+  return table.summary.parameters.map((p) =>
+    shared.includes(p.name)
+      ? `${p.name}: shared by every group, ${formatNumber(p.median, DIGITS.value)}`
+      : `${p.name}: median ${formatNumber(p.median, DIGITS.value)}, IQR ${formatNumber(p.iqr, DIGITS.statistic)} (${p.count} groups)`,
+  );
 }
 
 /** The worst groups (engine/groups/table.ts `worstGroups`), at most WORST_GROUPS, as `group: flags - reason` lines. */
@@ -165,5 +188,7 @@ export function worstGroupLines(table: GroupTable, k = WORST_GROUPS): string[] {
 /** Heading of a per-group section: `Fit decay per group: 96 groups (Levenberg–Marquardt ...)` from its first group. */
 export function groupHeading(section: Extract<FitSection, { kind: 'groups' }>): string {
   const f = section.fits[0];
-  return `Fit ${section.name} per group: ${f.response} against ${f.predictor ?? 'its columns'}, ${section.fits.length} groups`;
+  const n = section.fits.length;
+  if (section.over === 'tables') return `Fit ${section.name} over ${n} table${n === 1 ? '' : 's'}: ${f.response} against ${f.predictor ?? 'its columns'}`;
+  return `Fit ${section.name} per group: ${f.response} against ${f.predictor ?? 'its columns'}, ${n} groups`;
 }

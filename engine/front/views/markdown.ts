@@ -28,7 +28,7 @@ import { detectPlates, parseWell } from './wells';
 import { sameDataFitSets } from './curves';
 import { md, mdCode, mdFence, mdHref, mdLinkText, mdText, type Markdown } from './escape';
 import {
-  DETAIL_ALL_GROUPS, detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock,
+  DETAIL_ALL_GROUPS, detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock, sharedSummaryLine,
   shownFitIndices, worstGroupLines, type FitSection,
 } from './groups';
 
@@ -115,8 +115,10 @@ function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: n
   const lines = [`## ${mdText(groupHeading(section))}`, '', mdText(groupCountLine(t)), '', mdText(groupsNSentence(section.fits)), ''];
   const table = groupTableBlock(t);
   append(lines, markdownTable(table.headers, table.rows, table.align), '');
-  const summary = groupSummaryBlock(t);
+  const summary = groupSummaryBlock(t, section.shared);
   append(lines, '### Across converged groups', '', markdownTable(summary.headers, summary.rows, summary.align), '');
+  const sharedLine = sharedSummaryLine(t, section.shared);
+  if (sharedLine) lines.push(mdText(sharedLine), '');
   const worst = worstGroupLines(t);
   if (worst.length) append(lines, '### Worst groups', '', worst.map((w) => `- ${mdText(w)}`), '');
   if (charts?.length) {

@@ -15,7 +15,7 @@ import { append, maxOf, textTable } from './table';
 import { flaggedPointRows, flaggedPointsNote } from './influence';
 import { inlineText } from './escape';
 import {
-  detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock, worstGroupLines, type FitSection,
+  detailIndices, detailNote, fitSections, groupCountLine, groupHeading, groupSummaryBlock, groupTableBlock, sharedSummaryLine, worstGroupLines, type FitSection,
 } from './groups';
 import { jointBlocks } from './joint';
 import { hasProfileTable, PROFILE_HEADERS, profileLine, profileRows } from './profile';
@@ -113,8 +113,10 @@ export function groupTextLines(section: Extract<FitSection, { kind: 'groups' }>,
   const lines = [groupHeading(section), `  ${groupCountLine(t)}`, `  ${groupsNSentence(section.fits)}`, ''];
   const table = groupTableBlock(t);
   append(lines, textTable(table.headers, table.rows, table.align));
-  const summary = groupSummaryBlock(t);
+  const summary = groupSummaryBlock(t, section.shared);
   append(lines, '', `  Across converged groups`, textTable(summary.headers, summary.rows, summary.align, '    '));
+  const sharedLine = sharedSummaryLine(t, section.shared);
+  if (sharedLine) lines.push(`    ${sharedLine}`);
   const worst = worstGroupLines(t);
   if (worst.length) append(lines, '', '  Worst groups', worst.map((w) => `    ${w}`));
   const note = detailNote(section, shown.length);
