@@ -562,7 +562,7 @@ export const jointIntervalText = {
   bcaTooMany: (n: number, max: number) => `no BCa intervals: ${n} rows of the joint fit is over ${max} for the leave-one-out joint refits of the acceleration`,
   tooFewRows: 'a group has fewer rows than its own parameters',
   lackOfFitPooled: 'not run per group of a joint fit: the groups share parameters, so the test is pooled over all groups (the joint fit\'s lack-of-fit test)',
-  lackOfFitPooledWarning: '(pooled over the groups of the joint fit: settings within each group, all its parameters)',
+  lackOfFitPooledWarning: (warning: string) => `${warning} (pooled over the groups of the joint fit: settings within each group, all its parameters)`,
   shareNote: (p: number, dof: number) =>
     `this group's share of the joint fit's parameters is ${num(p)} (the trace of the joint hat matrix over its rows), leaving ${num(dof)} residual degrees of freedom of its own`,
 };

@@ -44,7 +44,7 @@ export function jointGroupStatistics(solved: JointSolved, k: number, r: FitResul
   const warnings: FitWarning[] = r.warnings.filter((w) => w.code !== 'lack_of_fit' && w.code !== 'curvature');
   const lf = pooledLackOfFit;
   if (lf && lf.f !== null && lf.pValue !== null && lf.pValue < T.lackOfFitLevel) {
-    warnings.push({ code: 'lack_of_fit', message: `${warningText.lack_of_fit(lf.f, lf.dfLackOfFit, lf.dfPureError, lf.pValue, T.lackOfFitLevel)} ${jointIntervalText.lackOfFitPooledWarning}` });
+    warnings.push({ code: 'lack_of_fit', message: jointIntervalText.lackOfFitPooledWarning(warningText.lack_of_fit(lf.f, lf.dfLackOfFit, lf.dfPureError, lf.pValue, T.lackOfFitLevel)) });
   }
   const P = solved.n - solved.dof;
   const n = r.goodness.n;

@@ -15,6 +15,7 @@
  * level gets none (profile-fit.ts, same test).
  */
 import type { FitPlan } from '../../parser/plan';
+import type { CancelToken } from '../solve/problem';
 import type { FitResult, FitWarning, JointEstimate, ProfileInterval, ProfileSummary } from '../result';
 import { tCritical } from '../stats/distributions';
 import { jointIntervalText, num, profileIntervalText, profileText, warningText } from '../messages';
@@ -40,7 +41,7 @@ export function jointSolveOptions(fit: FitPlan): JointProfileContext['options'] 
   };
 }
 
-export function jointProfiles(fit: FitPlan, solved: JointSolved, results: FitResult[], estimates: JointEstimate[], s2: number, ok: boolean): JointProfiles {
+export function jointProfiles(fit: FitPlan, solved: JointSolved, results: FitResult[], estimates: JointEstimate[], s2: number, ok: boolean, cancel?: CancelToken): JointProfiles {
   const asked = fit.options.profile ?? 'auto';
   const setup = solved.setup;
   const ps = setup.sharedIdx.length;
@@ -65,7 +66,8 @@ export function jointProfiles(fit: FitPlan, solved: JointSolved, results: FitRes
 
   const critical = tCritical(fit.options.level, solved.dof);
   const sigmaAbsolute = setup.data[0]?.sigmaAbsolute ?? false;
-  const context: JointProfileContext = { scale: sigmaAbsolute ? 1 : Math.sqrt(s2), critical, options: jointSolveOptions(fit) };
+  // a cancelled run stops each constrained fit (its end then reads `failed`, and the run reports the cancellation)
+  const context: JointProfileContext = { scale: sigmaAbsolute ? 1 : Math.sqrt(s2), critical, options: { ...jointSolveOptions(fit), ...(cancel ? { cancel } : {}) } };
   const x = jointVector(solved);
   const t = critical;
   const intervalOf = (o: number): ProfileInterval | null => {

@@ -212,7 +212,7 @@ export function runJointFit(fit: FitPlan, data: FitData[], separate: FitResult[]
   const lackOfFit = solved && ok ? jointLackOfFit(solved, setup.problems.map((_, k) => groupResiduals(solved, k))) : null;
   if (solved && leverages) keep.forEach((g, k) => (results[g] = jointGroupStatistics(solved, k, results[g], leverages[k], s2, ok, lackOfFit)));
   // profile-likelihood intervals over the joint problem (engine/run/joint-intervals.ts)
-  const profiled = solved ? jointProfiles(fit, solved, keep.map((g) => results[g]), estimates, s2, ok) : null;
+  const profiled = solved ? jointProfiles(fit, solved, keep.map((g) => results[g]), estimates, s2, ok, options.cancel) : null;
   if (profiled) keep.forEach((g, k) => (results[g] = profiled.results[k]));
   const comparisons = solved && ok ? compareGroups(solved, separate, keep, s2, opts) : { sharedVsSeparate: null, perParameter: [], pairs: [] };
   const joint: JointFitResult = {
