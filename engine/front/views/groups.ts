@@ -152,6 +152,7 @@ export function groupCountLine(table: GroupTable): string {
 }
 
 /** Headers and rows of the summary across converged groups: per parameter (and R²) the median, quartiles, IQR and count. */
+/** The summary across groups; its rows are different quantities (each parameter, R²), so views print it with `mixed` notation. */
 export function groupSummaryBlock(table: GroupTable, shared: readonly string[] = []): GroupTableBlock {
   // a joint fit's shared parameters have one value for every group: no spread to show (sharedSummaryLine says it)
   const own = table.summary.parameters.filter((p) => !shared.includes(p.name));

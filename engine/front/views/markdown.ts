@@ -116,7 +116,7 @@ function groupSection(section: Extract<FitSection, { kind: 'groups' }>, shown: n
   const table = groupTableBlock(t);
   append(lines, markdownTable(table.headers, table.rows, table.align), '');
   const summary = groupSummaryBlock(t, section.shared);
-  append(lines, '### Across converged groups', '', markdownTable(summary.headers, summary.rows, summary.align), '');
+  append(lines, '### Across converged groups', '', markdownTable(summary.headers, summary.rows, summary.align, { mixed: true }), '');
   const sharedLine = sharedSummaryLine(t, section.shared);
   if (sharedLine) lines.push(mdText(sharedLine), '');
   const worst = worstGroupLines(t);

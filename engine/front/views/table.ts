@@ -67,14 +67,15 @@ function pad(s: string, w: number, align: Align): string {
  * Columns are separated by two spaces; `align` defaults to left for the first
  * column and right for the others (numbers). Trailing spaces are trimmed.
  */
-export function textTable(headers: string[], rows: string[][], align?: Align[], indent = '  '): string[] {
+export function textTable(headers: string[], rows: string[][], align?: Align[], indent = '  ', opts: { mixed?: boolean } = {}): string[] {
   const cols = headers.length;
   const al = (c: number): Align => align?.[c] ?? (c === 0 ? 'left' : 'right');
   // user text (group labels, names) with control characters escaped before widths are measured (escape.ts)
   rows = rows.map((r) => r.map((cell) => inlineText(cell ?? '')));
   headers = headers.map(inlineText);
   // each number column in one notation, fixed ones aligned on the decimal point (engine/format.ts rule 6)
-  rows = numberColumns(rows, cols, al);
+  // (`mixed`: rows of different quantities, e.g. the summary across groups, keep each value's own notation)
+  if (!opts.mixed) rows = numberColumns(rows, cols, al);
   for (let c = 0; c < cols; c++) {
     if (al(c) !== 'right') continue;
     const aligned = alignDecimals(rows.map((r) => r[c] ?? ''));

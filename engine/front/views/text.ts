@@ -114,7 +114,7 @@ export function groupTextLines(section: Extract<FitSection, { kind: 'groups' }>,
   const table = groupTableBlock(t);
   append(lines, textTable(table.headers, table.rows, table.align));
   const summary = groupSummaryBlock(t, section.shared);
-  append(lines, '', `  Across converged groups`, textTable(summary.headers, summary.rows, summary.align, '    '));
+  append(lines, '', `  Across converged groups`, textTable(summary.headers, summary.rows, summary.align, '    ', { mixed: true }));
   const sharedLine = sharedSummaryLine(t, section.shared);
   if (sharedLine) lines.push(`    ${sharedLine}`);
   const worst = worstGroupLines(t);

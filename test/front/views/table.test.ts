@@ -62,3 +62,17 @@ describe('engine/front/views/table', () => {
     expect(alignDecimals(['1', '22', '333'])).toEqual(['1', '22', '333']);
   });
 });
+
+describe('engine/front/views/table mixed tables', () => {
+  it('keeps each value\'s own notation in a table whose rows are different quantities (the summary across groups)', () => {
+    const headers = ['', 'median', 'IQR'];
+    const rows = [['ec50', '44.4874', '4.39'], ['R²', '0.999159', '4.152e-5']];
+    const mixed = textTable(headers, rows.map((r) => [...r]), ['left', 'right', 'right'], '  ', { mixed: true });
+    expect(textColumn(mixed, 2)).toEqual(['4.39', '4.152e-5']);
+    const md = markdownTable(headers, rows.map((r) => [...r]), ['left', 'right', 'right'], { mixed: true });
+    expect(md.slice(2).map((l) => l.split('|')[3].trim())).toEqual(['4.39', '4.152e-5']);
+    // without it, the column rule puts the whole column in exponent form
+    const one = textTable(headers, rows.map((r) => [...r]), ['left', 'right', 'right']);
+    expect(textColumn(one, 2)[0]).toMatch(/e[+-]\d+$/);
+  });
+});
