@@ -19,7 +19,7 @@ import { requireTrust } from '../trust';
 export interface FitRequest {
   /** Only these fits (by name). Default: every fit. */
   fits?: string[];
-  /** Progress in the status bar instead of a notification (fit on save). */
+  /** Fit on save: progress in the status bar instead of a notification, and a spec with errors noted there, not in a pop-up. */
   quiet?: boolean;
 }
 
@@ -41,10 +41,15 @@ export async function fitDocument(ctx: LwContext, doc: vscode.TextDocument, req:
   if (errors.length) {
     const first = errors[0];
     const line = analysis.text.slice(0, first.start).split(/\r\n|\r|\n/).length;
-    const pick = await vscode.window.showErrorMessage(
-      `Leastwise: ${name} has ${errors.length} error${errors.length > 1 ? 's' : ''}; fix ${errors.length > 1 ? 'them' : 'it'} before fitting (line ${line}: ${first.message}).`,
-      'Show Problems',
-    );
+    const text = `Leastwise: ${name} has ${errors.length} error${errors.length > 1 ? 's' : ''}; fix ${errors.length > 1 ? 'them' : 'it'} before fitting (line ${line}: ${first.message}).`;
+    if (req.quiet) {
+      // fit on save: the editor may save while the user is still typing (auto save), and the errors are
+      // already underlined and in Problems, so no pop-up each time; a status bar note and the log say it
+      ctx.log.info(text);
+      vscode.window.setStatusBarMessage(`$(error) ${name}: not fitted on save, ${errors.length} error${errors.length > 1 ? 's' : ''} (line ${line})`, 8000);
+      return undefined;
+    }
+    const pick = await vscode.window.showErrorMessage(text, 'Show Problems');
     if (pick) void vscode.commands.executeCommand('workbench.actions.view.problems');
     return undefined;
   }

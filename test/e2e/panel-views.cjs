@@ -38,6 +38,20 @@ async function panelViews(page, ws, outDir) {
   const hollow = await frame.locator('figure[data-chart-id="fit"] svg .role-mark.excluded_points_marks path').count();
   const legend = await frame.locator('figure[data-chart-id="fit"] svg .role-legend-label').allTextContents();
   check('rows with weight 0 drawn hollow; the bands named by a legend, not by shade', hollow === 2 && legend.includes('95% confidence band') && !/shade/.test(await frame.locator('figure[data-chart-id="fit"] svg .role-title-subtitle').textContent()), `${hollow} hollow, legend ${legend.join(', ')}`);
+  // a row left out tells why in its tooltip
+  await frame.locator('figure[data-chart-id="fit"] svg .role-mark.excluded_points_marks path').first().hover();
+  const tip = frame.locator('#vg-tooltip-element.visible');
+  await tip.waitFor();
+  const tipText = (await tip.innerText()).replace(/\s+/g, ' ');
+  check('a row left out says why in its tooltip', /weight 0/.test(tipText), tipText.slice(0, 120));
+  // every number column of the parameter table in one notation (engine/format.ts rule 6)
+  const columns = await frame.locator('table.lw-params').evaluate((t) => {
+    const body = [...t.querySelectorAll('tbody tr')].map((r) => [...r.querySelectorAll('td')].map((c) => c.textContent.trim()));
+    return body[0].map((_, c) => body.map((r) => r[c] ?? '')).slice(1);
+  });
+  const numeric = columns.filter((col) => col.some((v) => /^[-+]?\d/.test(v)));
+  const mixed = numeric.filter((col) => { const n = col.filter((v) => /^[-+]?\d/.test(v)); return n.some((v) => /e[-+]?\d/.test(v)) && n.some((v) => !/e[-+]?\d/.test(v)); });
+  check('no number column of the parameter table mixes fixed and exponent notation', numeric.length >= 3 && mixed.length === 0, `${numeric.length} number columns; ${mixed.map((c) => c.join(' ')).join(' | ')}`);
   const on = await frame.locator('.lw-segmented[data-control="residual"] button.on').innerText();
   check('the weighted fit shows standardized residuals first', on === 'standardized', on);
   await frame.locator('.lw-segmented[data-control="residual"] button[data-value="percent"]').click();
