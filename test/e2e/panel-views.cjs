@@ -47,11 +47,11 @@ async function panelViews(page, ws, outDir) {
   // every number column of the parameter table in one notation (engine/format.ts rule 6)
   const columns = await frame.locator('table.lw-params').evaluate((t) => {
     const body = [...t.querySelectorAll('tbody tr')].map((r) => [...r.querySelectorAll('td')].map((c) => c.textContent.trim()));
-    return body[0].map((_, c) => body.map((r) => r[c] ?? '')).slice(1);
+    return body[0].map((_, c) => body.map((r) => r[c] ?? ''));
   });
   const numeric = columns.filter((col) => col.some((v) => /^[-+]?\d/.test(v)));
   const mixed = numeric.filter((col) => { const n = col.filter((v) => /^[-+]?\d/.test(v)); return n.some((v) => /e[-+]?\d/.test(v)) && n.some((v) => !/e[-+]?\d/.test(v)); });
-  check('no number column of the parameter table mixes fixed and exponent notation', numeric.length >= 3 && mixed.length === 0, `${numeric.length} number columns; ${mixed.map((c) => c.join(' ')).join(' | ')}`);
+  check('no number column of the parameter table mixes fixed and exponent notation', numeric.length >= 4 && mixed.length === 0, `${numeric.length} number columns; ${mixed.map((c) => c.join(' ')).join(' | ')}`);
   const on = await frame.locator('.lw-segmented[data-control="residual"] button.on').innerText();
   check('the weighted fit shows standardized residuals first', on === 'standardized', on);
   await frame.locator('.lw-segmented[data-control="residual"] button[data-value="percent"]').click();
