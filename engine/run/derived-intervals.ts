@@ -15,7 +15,7 @@
  *   are held at the fit's values in both, as in the delta method.
  */
 import type { DerivedPlan, FitPlan } from '../../parser/plan';
-import type { DerivedBootstrap, DerivedProfile, DerivedResult, FitResult, FitWarning } from '../result';
+import type { BootstrapSummary, DerivedBootstrap, DerivedProfile, DerivedResult, FitResult, FitWarning } from '../result';
 import { bootstrapText, derivedProfileText, num, profileIntervalText } from '../messages';
 import { derivedFunctions, type DerivedFunction } from './derived';
 import { profileDerived } from './derived-profile';
@@ -80,12 +80,20 @@ function profileOf(d: DerivedResult, fn: DerivedFunction, ctx: RefitContext): { 
 function bootstrapOf(d: DerivedResult, fn: DerivedFunction, ctx: RefitContext): DerivedBootstrap | null {
   const s = ctx.result.bootstrap;
   if (!ctx.fit.options.bootstrap || !s) return null;
-  if (s.status !== 'computed' || !ctx.draws) return { status: s.status === 'withheld' ? 'withheld' : 'skipped', note: s.note, interval: null };
-  const { p, replicates, theta, jack } = ctx.draws;
+  return derivedBootstrapFromDraws(d.value!, fn, s, ctx.draws);
+}
+
+/**
+ * The bootstrap interval of a derived quantity from its fit's replicate estimates (the quantity evaluated at each
+ * replicate and, for BCa, at each leave-one-out estimate), for single fits and joint fits alike (joint-derived.ts).
+ */
+export function derivedBootstrapFromDraws(value: number, fn: { at(x: Float64Array): { value: number }; readsStatistics: boolean }, s: BootstrapSummary, draws: BootstrapDraws | null): DerivedBootstrap {
+  if (s.status !== 'computed' || !draws) return { status: s.status === 'withheld' ? 'withheld' : 'skipped', note: s.note, interval: null };
+  const { p, replicates, theta, jack, failures } = draws;
   const values = new Float64Array(replicates).fill(NaN);
   let notFinite = 0;
   for (let b = 0; b < replicates; b++) {
-    if (ctx.draws.failures[b] !== null) continue;
+    if (failures[b] !== null) continue;
     const v = fn.at(theta.subarray(b * p, (b + 1) * p)).value;
     if (Number.isFinite(v)) values[b] = v;
     else notFinite++;
@@ -98,8 +106,8 @@ function bootstrapOf(d: DerivedResult, fn: DerivedFunction, ctx: RefitContext): 
   }
   const notes = [s.note, ...(notFinite ? [bootstrapText.derivedNotFinite(notFinite)] : []), ...(fn.readsStatistics ? [bootstrapText.statisticsFixed] : [])];
   // the fit's withholding rule (engine/run/bootstrap-summary.ts) with the replicates that give no value counted as failed
-  const allowed = Math.floor((replicates * (1 - ctx.result.level)) / 2);
+  const allowed = Math.floor((replicates * (1 - s.level)) / 2);
   if (s.failed + notFinite > allowed) return { status: 'withheld', note: bootstrapText.withheld(s.failed + notFinite, replicates, allowed), interval: null };
-  const iv = bootstrapInterval(values, jv, d.value!, ctx.result.level);
+  const iv = bootstrapInterval(values, jv, value, s.level);
   return iv ? { status: 'computed', note: notes.join('; '), interval: iv } : { status: 'withheld', note: notes.join('; '), interval: null };
 }

@@ -21,7 +21,7 @@
 import type { DerivedPlan } from '../../parser/plan';
 import type { DerivedBootstrap, DerivedResult, FitResult, FitWarning, JointFitResult } from '../result';
 import { bootstrapText, derivedProfileText, jointIntervalText, num, profileIntervalText } from '../messages';
-import { bootstrapInterval } from './bootstrap-summary';
+import { derivedBootstrapFromDraws } from './derived-intervals';
 import { jointDerivedQuantities } from './derived';
 import type { JointRun } from './joint';
 import type { JointBootstrap } from './joint-bootstrap';
@@ -79,26 +79,5 @@ function entryName(joint: JointFitResult, o: number): string {
 function bootstrapOf(d: DerivedResult, q: { at(x: Float64Array): { value: number }; readsStatistics: boolean }, ctx: JointRefit): DerivedBootstrap {
   const boot = ctx.bootstrap;
   if (!boot) return { status: 'skipped', note: bootstrapText.notConverged2, interval: null };
-  const s = boot.summary;
-  if (s.status !== 'computed' || !boot.draws) return { status: s.status === 'withheld' ? 'withheld' : 'skipped', note: s.note, interval: null };
-  const { p, replicates, theta, jack, failures } = boot.draws;
-  const values = new Float64Array(replicates).fill(NaN);
-  let notFinite = 0;
-  for (let b = 0; b < replicates; b++) {
-    if (failures[b] !== null) continue;
-    const v = q.at(theta.subarray(b * p, (b + 1) * p)).value;
-    if (Number.isFinite(v)) values[b] = v;
-    else notFinite++;
-  }
-  let jv: Float64Array | null = null;
-  if (jack && s.bca) {
-    const n = jack.length / p;
-    jv = new Float64Array(n);
-    for (let i = 0; i < n; i++) jv[i] = q.at(jack.subarray(i * p, (i + 1) * p)).value;
-  }
-  const notes = [s.note, ...(notFinite ? [bootstrapText.derivedNotFinite(notFinite)] : []), ...(q.readsStatistics ? [bootstrapText.statisticsFixed] : [])];
-  const allowed = Math.floor((replicates * (1 - s.level)) / 2);
-  if (s.failed + notFinite > allowed) return { status: 'withheld', note: bootstrapText.withheld(s.failed + notFinite, replicates, allowed), interval: null };
-  const iv = bootstrapInterval(values, jv, d.value!, s.level);
-  return iv ? { status: 'computed', note: notes.join('; '), interval: iv } : { status: 'withheld', note: notes.join('; '), interval: null };
+  return derivedBootstrapFromDraws(d.value!, q, boot.summary, boot.draws);
 }
