@@ -117,6 +117,22 @@ const slotKey = (s: Slot): string => `${s.of}\u0000${s.fit}\u0000${s.name}${s.gr
 const derivedKey = (name: string): string => `derived\u0000${name}`;
 
 /**
+ * `prepare`, with a failure (e.g. a compiler limit on an untrusted spec) as a prepared entry carrying its error,
+ * reported and never thrown; recorded in `defs` (null when it failed) for the quantities that read it.
+ * `withMessage`: the error names the compiler's message (the run's own list), not only that it failed.
+ */
+function prepareInto(d: DerivedPlan, defs: Map<string, Prepared | null>, withMessage: boolean): Prepared {
+  let prepared: Prepared;
+  try {
+    prepared = prepare(d, defs);
+  } catch (err) {
+    prepared = { plan: d, fits: [], slots: [], direct: [], deps: [], model: null, error: derivedText.compileFailed(withMessage ? (err instanceof Error ? err.message : String(err)) : '') };
+  }
+  defs.set(d.name, prepared.error ? null : prepared);
+  return prepared;
+}
+
+/**
  * Collects the fits and numbers read (through the derived quantities in `defs`:
  * prepared, or null when that quantity could not be prepared) and compiles
  * the expression with each number and each derived quantity as a parameter.
@@ -474,14 +490,7 @@ export function runDerived(
   const ctx: Context = { defs, memo: new Map(), grouped: (fit) => (results.get(fit) ?? []).some((r) => r.group !== undefined), joint: new Map(joint.map((j) => [j.fit, j])), errors };
   const out: DerivedResult[] = [];
   for (const d of plans) {
-    let prepared: Prepared;
-    try {
-      prepared = prepare(d, defs);
-    } catch (err) {
-      // e.g. a compiler limit on an untrusted spec: reported, not thrown
-      prepared = { plan: d, fits: [], slots: [], direct: [], deps: [], model: null, error: derivedText.compileFailed(err instanceof Error ? err.message : String(err)) };
-    }
-    defs.set(d.name, prepared.error ? null : prepared);
+    const prepared = prepareInto(d, defs, true);
     if (!prepared.fits.every(ran)) continue;
     for (const r of evaluateAll(prepared, results, ctx)) out.push(r);
   }
@@ -507,13 +516,7 @@ export function derivedFunctions(plans: readonly DerivedPlan[], results: Readonl
   const grouped = (fit: string) => (results.get(fit) ?? []).some((r) => r.group !== undefined);
   const out = new Map<string, DerivedFunction | 'many_fits' | 'groups' | 'unusable'>();
   for (const d of plans) {
-    let prepared: Prepared;
-    try {
-      prepared = prepare(d, defs);
-    } catch {
-      prepared = { plan: d, fits: [], slots: [], direct: [], deps: [], model: null, error: derivedText.compileFailed('') };
-    }
-    defs.set(d.name, prepared.error ? null : prepared);
+    const prepared = prepareInto(d, defs, false);
     if (prepared.error || !prepared.model) out.set(d.name, 'unusable');
     else if (prepared.fits.length !== 1) out.set(d.name, 'many_fits');
     else if (grouped(prepared.fits[0])) out.set(d.name, 'groups');
@@ -582,13 +585,7 @@ export function jointDerivedQuantities(plans: readonly DerivedPlan[], results: R
   const pl = joint.perGroup.length;
   const groupResults = results.get(joint.fit) ?? [];
   for (const d of plans) {
-    let prepared: Prepared;
-    try {
-      prepared = prepare(d, defs);
-    } catch {
-      prepared = { plan: d, fits: [], slots: [], direct: [], deps: [], model: null, error: derivedText.compileFailed('') };
-    }
-    defs.set(d.name, prepared.error ? null : prepared);
+    const prepared = prepareInto(d, defs, false);
     if (prepared.error || !prepared.model || prepared.fits.length !== 1 || prepared.fits[0] !== joint.fit) continue;
     const base = new Float64Array(prepared.slots.length);
     const map = new Int32Array(prepared.slots.length).fill(-1);
