@@ -121,18 +121,29 @@ async function quickInput(page, keys, text, rowText, next) {
   for (let attempt = 1; ; attempt++) {
     if (keys) await page.keyboard.press(keys);
     const input = page.locator('.quick-input-widget .quick-input-box input');
+    // A webview that keeps or takes back the keyboard focus can swallow the key, or close the widget just after it
+    // opened (seen after a click in the plate map and after un-maximizing a results panel): then give the focus back
+    // to the workbench (the side bar's title, which has no action) and press again. The text is typed into the
+    // widget's own input, so nothing lands in an editor if the widget closes.
+    const retry = async (what) => {
+      console.log(`(quick input for "${text}" ${what}; focusing the workbench and pressing ${keys} again)`);
+      await page.locator('.part.sidebar .composite.title').first().click({ timeout: 5000 }).catch(() => {});
+    };
     if (keys && attempt < 3) {
-      // a webview that keeps the keyboard focus can swallow the key (seen once in 5 runs after a click in the
-      // plate map): then give the focus back to the workbench (the side bar's title, which has no action) and press again
       const shown = await input.waitFor({ state: 'visible', timeout: 10000 }).then(() => true, () => false);
       if (!shown) {
-        console.log(`(quick input for "${text}" did not open; focusing the workbench and pressing ${keys} again)`);
-        await page.locator('.part.sidebar .composite.title').first().click({ timeout: 5000 }).catch(() => {});
+        await retry('did not open');
         continue;
       }
+      const typed = await input.pressSequentially(text, { delay: 10, timeout: 15000 }).then(() => true, () => false);
+      if (!typed) {
+        await retry('closed while typing');
+        continue;
+      }
+    } else {
+      await input.waitFor({ state: 'visible' });
+      await input.pressSequentially(text, { delay: 10 });
     }
-    await input.waitFor({ state: 'visible' });
-    await page.keyboard.type(text, { delay: 10 });
     // Enter accepts the focused row: wait until the row we want is the focused one (the list filters
     // asynchronously; a visible but unfocused match would let Enter pick another row or nothing)
     if (rowText) {
